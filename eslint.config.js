@@ -1,0 +1,38 @@
+// Lint config: typescript-eslint recommended rules on every TypeScript source, plus one project rule:
+// the science core in layers/ must stay free of DOM, Node and UI imports (style.md habit 1).
+import js from '@eslint/js';
+import tseslint from 'typescript-eslint';
+import globals from 'globals';
+
+export default tseslint.config(
+  { ignores: ['node_modules', 'dist', 'demo-data', 'tiles-out', 'web/public/tiles', '.cache', 'coverage'] },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  {
+    files: ['**/*.{ts,tsx}'],
+    languageOptions: { globals: { ...globals.browser, ...globals.node } },
+    rules: {
+      '@typescript-eslint/no-explicit-any': 'error',
+      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+    },
+  },
+  {
+    files: ['layers/**/*.ts'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            { group: ['node:*', 'fs', 'path', 'os', 'worker_threads', 'child_process'], message: 'layers/ is pure: no Node APIs' },
+            { group: ['react', 'react-dom', 'maplibre-gl', '@deck.gl/*'], message: 'layers/ is pure: no UI imports' },
+            { group: ['**/web/**', '**/data-pipeline/**'], message: 'layers/ must not import from the edges' },
+          ],
+        },
+      ],
+    },
+  },
+  {
+    files: ['bin/**/*.mjs', '*.js'],
+    languageOptions: { globals: { ...globals.node } },
+  },
+);

@@ -1,0 +1,88 @@
+/**
+ * The tiles manifest (`manifest.json`): everything the web app may know about a build. The web reads
+ * only what this schema describes (design.md section 5). Written by data-pipeline, validated on read.
+ */
+import { z } from 'zod';
+
+export const bandClassSchema = z.object({
+  value: z.number().int(),
+  label: z.string(),
+  /** One-line plain explanation shown in the legend and the class card. */
+  description: z.string().optional(),
+});
+
+export const bandSchema = z.object({
+  id: z.string().regex(/^[a-zA-Z][a-zA-Z0-9_]*$/),
+  title: z.string(),
+  /** SI unit as printed in the legend, e.g. '°C', 'm', 'yr', 'piles/ton'; '' for classes and flags. */
+  unit: z.string(),
+  kind: z.enum(['continuous', 'class']),
+  /** Quantisation (see tile-format.ts). */
+  scale: z.number().positive(),
+  offset: z.number(),
+  /** Range of the finite values actually present in this build. */
+  min: z.number(),
+  max: z.number(),
+  /** Colour ramp id from colour-ramps.ts (continuous bands). */
+  ramp: z.string().optional(),
+  /** Display range of the legend (defaults to min..max). */
+  legendMin: z.number().optional(),
+  legendMax: z.number().optional(),
+  classes: z.array(bandClassSchema).optional(),
+  description: z.string(),
+  /** Published model or data the band comes from. */
+  source: z.string(),
+});
+
+export const inputSourceSchema = z.object({
+  file: z.string(),
+  role: z.string(),
+  crs: z.string(),
+  width: z.number().int().positive(),
+  height: z.number().int().positive(),
+  unit: z.string(),
+  sha256: z.string().regex(/^[0-9a-f]{64}$/),
+  provenance: z.string(),
+  licence: z.string(),
+});
+
+export const manifestSchema = z.object({
+  formatVersion: z.literal(1),
+  tool: z.object({ name: z.literal('pile-atlas'), version: z.string() }),
+  createdAt: z.string(),
+  /** True when any input is invented demo data; the web shows it. */
+  fictional: z.boolean(),
+  notice: z.string(),
+  region: z.object({
+    name: z.string(),
+    /** [west, south, east, north] in degrees, WGS 84. */
+    bounds: z.tuple([z.number(), z.number(), z.number(), z.number()]),
+  }),
+  tiles: z.object({
+    urlTemplate: z.string(),
+    tileSize: z.number().int().positive(),
+    minZoom: z.number().int().min(0),
+    maxZoom: z.number().int().min(0),
+    encoding: z.literal('uint16-planar-le'),
+    nodataCode: z.number().int(),
+  }),
+  analysisGrid: z.object({
+    crs: z.string(),
+    proj4: z.string(),
+    width: z.number().int().positive(),
+    height: z.number().int().positive(),
+    cellSize_m: z.number().positive(),
+    geoTransform: z.tuple([z.number(), z.number(), z.number(), z.number(), z.number(), z.number()]),
+  }),
+  bands: z.array(bandSchema).min(1),
+  sources: z.array(inputSourceSchema),
+  /** Relative path of the settlements GeoJSON (points with a `name`), if any. */
+  settlements: z.string().optional(),
+  parameters: z.record(z.string(), z.unknown()),
+  scenario: z.record(z.string(), z.unknown()).optional(),
+  summary: z.record(z.string(), z.unknown()).optional(),
+});
+
+export type Manifest = z.infer<typeof manifestSchema>;
+export type Band = z.infer<typeof bandSchema>;
+export type InputSource = z.infer<typeof inputSourceSchema>;
