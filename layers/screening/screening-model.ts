@@ -1,0 +1,60 @@
+/**
+ * The interface between the pipeline and the per-cell screening physics.
+ *
+ * The pipeline reads and resamples the input grids onto the analysis grid, fills one `CellInputs` per
+ * land cell and calls `model.evaluate(cell, out)`, which writes one value per output layer into `out`
+ * (same order as `model.layers`; NaN = nodata). The model is pure and allocation-free on the hot path
+ * so millions of cells run fast. The layer definitions become the manifest's bands.
+ */
+export interface CellInputs {
+  /** Mean annual air temperature, °C. */
+  meanAirTemp_C: number;
+  /** Annual air temperature amplitude (half the warmest-minus-coldest monthly range), K. */
+  airAmplitude_C: number;
+  /** Linear warming trend of the air, K per year. */
+  warming_C_per_yr: number;
+  /** Soil texture class code (see TEXTURE_CODES in layers/physics/soil-catalogue.ts). */
+  textureClass: number;
+  /** Volumetric total water + ice content, m³/m³. */
+  waterContent_m3m3: number;
+  /** Depth to bedrock, m. */
+  bedrockDepth_m: number;
+  /** Optional measured/modelled mean annual ground temperature, °C (NaN when no grid). */
+  groundTemp_C: number;
+  /** Optional geothermal heat flux, W/m² (NaN when no grid: the model's default applies). */
+  geothermalFlux_W_m2: number;
+  /** Optional freezing-season n-factor from snow (NaN when no grid: scenario default applies). */
+  nFreeze: number;
+  /** Latitude of the cell centre, degrees (for reporting; no physics depends on it). */
+  latitude_deg: number;
+}
+
+/** Texture class codes used by every grid in the product (uint8 in GeoTIFFs, 0 = nodata). */
+export const TEXTURE_CODES = {
+  1: 'gravel',
+  2: 'sand',
+  3: 'silt',
+  4: 'clay',
+  5: 'peat',
+  6: 'bedrock',
+} as const;
+export type TextureCode = keyof typeof TEXTURE_CODES;
+export type TextureName = (typeof TEXTURE_CODES)[TextureCode];
+
+export interface ScreeningLayer {
+  id: string;
+  title: string;
+  unit: string;
+  kind: 'continuous' | 'class';
+  ramp?: string;
+  legendMin?: number;
+  legendMax?: number;
+  classes?: { value: number; label: string; description?: string }[];
+  description: string;
+  source: string;
+}
+
+export interface ScreeningModel {
+  layers: ScreeningLayer[];
+  evaluate(cell: CellInputs, out: Float32Array): void;
+}
