@@ -78,6 +78,8 @@ export const manifestSchema = z.object({
   sources: z.array(inputSourceSchema),
   /** Relative path of the settlements GeoJSON (points with a `name`), if any. */
   settlements: z.string().optional(),
+  /** Relative path of the land (coastline) polygons GeoJSON for the offline base map, if any. */
+  land: z.string().optional(),
   parameters: z.record(z.string(), z.unknown()),
   scenario: z.record(z.string(), z.unknown()).optional(),
   summary: z.record(z.string(), z.unknown()).optional(),

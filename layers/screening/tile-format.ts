@@ -45,7 +45,8 @@ export function packTile(planes: Float32Array[], quant: BandQuantisation[]): Uin
   const out = new Uint8Array(planes.length * n * 2);
   const view = new DataView(out.buffer);
   planes.forEach((plane, b) => {
-    if (plane.length !== n) throw new RangeError(`packTile: band ${b} has ${plane.length} values, expected ${n}`);
+    if (plane.length !== n)
+      throw new RangeError(`packTile: band ${b} has ${plane.length} values, expected ${n}`);
     const q = quant[b];
     for (let i = 0; i < n; i++) view.setUint16((b * n + i) * 2, encodeValue(plane[i], q), true);
   });
@@ -57,7 +58,9 @@ export function unpackTile(bytes: ArrayBuffer | Uint8Array, quant: BandQuantisat
   const n = TILE_SIZE * TILE_SIZE;
   const u8 = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
   if (u8.byteLength !== quant.length * n * 2) {
-    throw new RangeError(`unpackTile: ${u8.byteLength} bytes, expected ${quant.length * n * 2} for ${quant.length} bands`);
+    throw new RangeError(
+      `unpackTile: ${u8.byteLength} bytes, expected ${quant.length * n * 2} for ${quant.length} bands`,
+    );
   }
   const view = new DataView(u8.buffer, u8.byteOffset, u8.byteLength);
   return quant.map((q, b) => {
