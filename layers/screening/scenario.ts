@@ -1,0 +1,221 @@
+/**
+ * The screening scenario: the standard pile, the standard building, the heat pump's limits, fuel
+ * prices and efficiencies, design life, reference depth and radius, permafrost-class thresholds and the
+ * suitability weights. One zod schema (style.md habit 7); every field has a documented default with its
+ * source. The scenario is recorded in the tiles manifest so a map can be reproduced.
+ *
+ * Provenance tags used below: [R] read from the named published work or handbook table,
+ * (common practice), (recalled from memory), [derived] computed from other defaults.
+ */
+import { z } from 'zod';
+
+const pos = () => z.number().positive();
+const frac = () => z.number().gt(0).lte(1);
+
+/** The standard pile: one hollow steel screw pile carrying a fluid loop. */
+export const standardPileSchema = z.strictObject({
+  /** Heat-exchange (active) length, m. Embedment of screw piles is about 8-15 m (recalled from memory). */
+  length_m: z.number().min(2).max(40).default(10),
+  /** Depth of the top of the active length below the surface, m; the loop is insulated above (common practice). */
+  topDepth_m: z.number().min(0).max(10).default(1),
+  /** Outer radius of the steel shaft, m. Shafts 89-324 mm OD (recalled from memory); 168.3 mm OD chosen. */
+  radius_m: z.number().min(0.02).max(0.5).default(0.08415),
+  /**
+   * Effective pile (borehole) thermal resistance fluid to pile wall, m·K/W. 0.15 lies between a
+   * grout-filled U-tube (Hellström 1991 line-source resistance, about 0.19 for a 152 mm bore, reference
+   * table RB-1) and a water-filled coaxial steel pile (lower) (common practice).
+   */
+  resistance_mK_W: z.number().min(0.01).max(1).default(0.15),
+  /** Centre-to-centre spacing of the foundation piles, m (common practice for small buildings). */
+  spacing_m: z.number().min(0.5).max(20).default(3),
+});
+
+/** The standard building whose heating the piles serve. */
+export const standardBuildingSchema = z.strictObject({
+  /**
+   * Overall heat-loss coefficient UA (envelope + ventilation), W/K. 150 W/K is a well-insulated
+   * detached house of about 120 m² floor area (recalled from memory).
+   */
+  heatLossCoefficient_W_K: pos().default(150),
+  /** Balance-point (heating base) temperature for degree-days, °C (common practice, 18 °C base). */
+  balanceTemp_C: z.number().min(5).max(25).default(18),
+  /**
+   * Design outdoor temperature below the coldest monthly mean, K: the peak load is
+   * UA·(balance − (MAAT − amplitude − margin)). 8 K (recalled from memory: the 99 % design temperature
+   * of subarctic stations sits some 5-10 K below the January mean).
+   */
+  designMargin_K: z.number().min(0).max(30).default(8),
+  /** Number of foundation piles of the building that carry a loop (4 x 4 grid) (common practice). */
+  foundationPiles: z.number().int().min(1).max(400).default(16),
+});
+
+/** Heat pump and fluid limits. */
+export const heatPumpLimitsSchema = z.strictObject({
+  /** Lowest allowed entering fluid temperature, °C: -5 to -8 °C for common units (common practice). */
+  minEnteringFluid_C: z.number().min(-20).max(5).default(-5),
+  /** Mean fluid minus entering fluid temperature at peak, K (half the loop ΔT of 3 K) (common practice). */
+  fluidHalfDelta_K: z.number().min(0).max(10).default(1.5),
+  /**
+   * Seasonal COP used in the economics when the pile field runs at its mean fluid temperature; the
+   * default curve COP = 3.0 + 0.05·(EFT − 0 °C), clamped to [1.5, 6] (recalled from memory; typical
+   * water-to-water units rate about 3 at 0 °C entering brine).
+   */
+  copAtZero: z.number().min(1).max(8).default(3.0),
+  copSlope_per_K: z.number().min(0).max(0.3).default(0.05),
+});
+
+/** Fuel, CO2 and cost on a diesel grid (reference-values.md §12; domain-notes "Fuel, CO2 and cost"). */
+export const economicsSchema = z.strictObject({
+  /** Oil furnace seasonal efficiency (AFUE). 0.80 = domain-notes central case; DOE rule minimum 0.83 [R]. */
+  furnaceEfficiency: frac().default(0.8),
+  /** Heat content of heating oil No. 2, kWh/L: 138 500 Btu/gal HHV = 10.72 kWh/L [R, EIA]. */
+  heatingOilEnergy_kWh_L: pos().default(10.7),
+  /** Diesel generator output, kWh per litre: 3.6 central case (Alaska PCE floors 2.5-3.6 kWh/L [R]). */
+  generatorOutput_kWh_L: pos().default(3.6),
+  /** Distribution line losses, fraction (domain-notes central case 7 %) (common practice). */
+  lineLossFraction: z.number().min(0).lt(1).default(0.07),
+  /** CO2 per litre of generator diesel, kg/L: 2.68 widely used; EPA 22.2 lb/gal = 2.660 [R]. */
+  dieselCO2_kg_L: pos().default(2.68),
+  /** CO2 per litre of heating oil No. 2, kg/L (same fuel grade as diesel, 2.68) [R]. */
+  heatingOilCO2_kg_L: pos().default(2.68),
+  /** Residential electricity tariff, currency/kWh (recalled from memory: 0.4-1.0 in diesel communities). */
+  electricityPrice_per_kWh: pos().default(0.6),
+  /** Heating-oil price, currency/L (recalled from memory: remote northern prices 1.5-2.5). */
+  heatingOilPrice_per_L: pos().default(1.8),
+  /** Currency label for the cost figures (display only). */
+  currency: z.string().min(1).max(8).default('USD'),
+});
+
+/** Surface and subsurface defaults used where no grid is given. */
+export const groundDefaultsSchema = z.strictObject({
+  /** Thawing-season n-factor: tundra vegetative cover n_t = 1.0 [R, reference-values §11]. */
+  nThaw: z.number().min(0.1).max(2.5).default(1.0),
+  /** Freezing-season n-factor where no snow grid: 0.5 for organic/tundra cover [R, reference-values §11]. */
+  nFreeze: z.number().min(0.05).max(1.5).default(0.5),
+  /** Geothermal heat flux, W/m², where no grid: 0.06 (domain-notes 0.05-0.1) (common practice). */
+  geothermalFlux_W_m2: z.number().min(0).max(0.5).default(0.06),
+});
+
+/** Permafrost temperature classes (Ran et al. 2022, ESSD: cold < −3, cool −3 to −1.5, warm > −1.5 °C). */
+export const permafrostClassesSchema = z.strictObject({
+  coldBelow_C: z.number().max(0).default(-3),
+  warmAbove_C: z.number().max(0).default(-1.5),
+});
+
+/** Hard exclusions and soft-criterion thresholds (the "why" of every class). */
+export const suitabilitySchema = z.strictObject({
+  /** Least soil depth over bedrock for a screw pile, m (recalled from memory: embedment 8-15 m; 6 m floor). */
+  minBedrockDepth_m: z.number().min(0).max(50).default(6),
+  /** Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised. */
+  coldness: z
+    .object({
+      good_C: z.number().default(-4),
+      poor_C: z.number().default(-1),
+      weight: z.number().min(0).default(2),
+    })
+    .default({ good_C: -4, poor_C: -1, weight: 2 }),
+  pilesPerTon: z
+    .object({
+      good: z.number().default(2),
+      poor: z.number().default(8),
+      weight: z.number().min(0).default(2),
+    })
+    .default({ good: 2, poor: 8, weight: 2 }),
+  thawDelay: z
+    .object({
+      good_yr: z.number().default(30),
+      poor_yr: z.number().default(0),
+      weight: z.number().min(0).default(2),
+    })
+    .default({ good_yr: 30, poor_yr: 0, weight: 2 }),
+  loadShare: z
+    .object({
+      good: z.number().default(1),
+      poor: z.number().default(0.2),
+      weight: z.number().min(0).default(1),
+    })
+    .default({ good: 1, poor: 0.2, weight: 1 }),
+  thawStability: z.object({ weight: z.number().min(0).default(1) }).default({ weight: 1 }),
+  fuelSaved: z
+    .object({
+      good_L: z.number().default(1500),
+      poor_L: z.number().default(0),
+      weight: z.number().min(0).default(1),
+    })
+    .default({ good_L: 1500, poor_L: 0, weight: 1 }),
+  /** Suitability score bounds: score >= good → class 'good', >= fair → 'fair', else 'poor'. */
+  goodScore: z.number().min(0).max(1).default(0.65),
+  fairScore: z.number().min(0).max(1).default(0.4),
+});
+
+export const scenarioSchema = z
+  .object({
+    name: z.string().min(1).default('default'),
+    /** Calendar year at which the input climate applies and the warming trend starts. */
+    startYear: z.number().int().min(1900).max(2200).default(2025),
+    /** Design life of the building and its piles, yr: public buildings 30-50+ (domain-notes). */
+    designLife_yr: z.number().min(1).max(100).default(30),
+    /** Depth at which thaw is tracked (the adfreeze zone of the foundation), m (common practice). */
+    referenceDepth_m: z.number().min(0.5).max(40).default(6),
+    /** Radius from the pile axis at which thaw is tracked: half the pile spacing, m [derived]. */
+    referenceRadius_m: z.number().min(0.05).max(20).default(1.5),
+    /** Search horizon for thaw years, yr; thaw later than this is reported as the horizon. */
+    horizon_yr: z.number().min(10).max(1000).default(300),
+    /**
+     * Largest allowed cooling of the ground at the reference radius at the end of the design life for
+     * frost-susceptible soils (silt, clay, peat), K: more freezes unfrozen pockets and the active layer
+     * harder and increases frost jacking (domain-notes "over-cooling"; judgement, common practice).
+     */
+    maxOvercooling_K: z.number().min(0.1).max(30).default(2),
+    /** The same for non-frost-susceptible soils (gravel, sand, bedrock), K (common practice). */
+    maxOvercoolingCoarse_K: z.number().min(0.1).max(30).default(6),
+    /** Margin below 0 °C the foundation ground must keep at the end of the design life, K. */
+    frozenMargin_K: z.number().min(0).max(5).default(0.5),
+    pile: standardPileSchema.default(standardPileSchema.parse({})),
+    building: standardBuildingSchema.default(standardBuildingSchema.parse({})),
+    heatPump: heatPumpLimitsSchema.default(heatPumpLimitsSchema.parse({})),
+    economics: economicsSchema.default(economicsSchema.parse({})),
+    ground: groundDefaultsSchema.default(groundDefaultsSchema.parse({})),
+    permafrostClasses: permafrostClassesSchema.default(permafrostClassesSchema.parse({})),
+    suitability: suitabilitySchema.default(suitabilitySchema.parse({})),
+  })
+  .superRefine((s, ctx) => {
+    if (s.permafrostClasses.coldBelow_C > s.permafrostClasses.warmAbove_C) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['permafrostClasses', 'coldBelow_C'],
+        message: `must be <= warmAbove_C (${s.permafrostClasses.warmAbove_C}); received ${s.permafrostClasses.coldBelow_C}`,
+      });
+    }
+    if (s.suitability.fairScore > s.suitability.goodScore) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['suitability', 'fairScore'],
+        message: `must be <= goodScore (${s.suitability.goodScore}); received ${s.suitability.fairScore}`,
+      });
+    }
+    if (s.referenceRadius_m <= s.pile.radius_m) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['referenceRadius_m'],
+        message: `must exceed pile.radius_m (${s.pile.radius_m}); received ${s.referenceRadius_m}`,
+      });
+    }
+  });
+
+export type Scenario = z.infer<typeof scenarioSchema>;
+export type ScenarioInput = z.input<typeof scenarioSchema>;
+
+/** The scenario with every default (the documented defaults above). */
+export const DEFAULT_SCENARIO: Scenario = scenarioSchema.parse({});
+
+/**
+ * Validate a scenario file's JSON; missing fields take their defaults. Throws a TypeError listing every
+ * issue as `path: message` (all at once, style.md habit 6) on bad input.
+ */
+export function parseScenario(input: unknown): Scenario {
+  const r = scenarioSchema.safeParse(input ?? {});
+  if (r.success) return r.data;
+  const lines = r.error.issues.map((i) => `${i.path.length ? i.path.join('.') : '(root)'}: ${i.message}`);
+  throw new TypeError(`invalid scenario: ${lines.join('; ')}`);
+}
