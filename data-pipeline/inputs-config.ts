@@ -1,0 +1,153 @@
+/**
+ * The inputs config (`pile-atlas-inputs.json`): which GeoTIFF plays which role, in which unit, and
+ * whether it holds classes or continuous values. Validated with zod; unknown fields are rejected so a
+ * misspelt field is reported rather than ignored.
+ *
+ * Each role has an SI unit (the CellInputs field it fills) and the units accepted for it, with the
+ * conversion to SI and the plausible SI range that every finite value must fall in (a value outside
+ * is a unit mistake or a corrupt file, reported with the file and role).
+ */
+import { z } from 'zod';
+
+export interface GridRole {
+  kind: 'continuous' | 'class';
+  required: boolean;
+  title: string;
+  /** Accepted unit -> conversion to the SI unit of the role. */
+  units: Record<string, (v: number) => number>;
+  /** Plausible SI range [min, max], inclusive. */
+  range: [number, number];
+  /** What applies when an optional grid is absent (recorded in the flags band). */
+  fallback?: string;
+}
+
+const identity = (v: number): number => v;
+
+/** The grid roles, keyed by the CellInputs field each one fills. */
+export const GRID_ROLES = {
+  meanAirTemp_C: {
+    kind: 'continuous',
+    required: true,
+    title: 'Mean annual air temperature',
+    units: { degC: identity, K: (v) => v - 273.15 },
+    range: [-40, 25],
+  },
+  airAmplitude_C: {
+    kind: 'continuous',
+    required: true,
+    title: 'Annual air temperature amplitude',
+    units: { K: identity, degC: identity },
+    range: [0, 40],
+  },
+  warming_C_per_yr: {
+    kind: 'continuous',
+    required: true,
+    title: 'Air warming rate',
+    units: { 'K/yr': identity, 'K/decade': (v) => v / 10 },
+    range: [-0.1, 0.3],
+  },
+  textureClass: {
+    kind: 'class',
+    required: true,
+    title: 'Soil texture class',
+    units: { class: identity },
+    range: [1, 6],
+  },
+  waterContent_m3m3: {
+    kind: 'continuous',
+    required: true,
+    title: 'Volumetric water + ice content',
+    units: { 'm3/m3': identity, percent: (v) => v / 100 },
+    range: [0, 1],
+  },
+  bedrockDepth_m: {
+    kind: 'continuous',
+    required: true,
+    title: 'Depth to bedrock',
+    units: { m: identity, cm: (v) => v / 100 },
+    range: [0, 1000],
+  },
+  groundTemp_C: {
+    kind: 'continuous',
+    required: false,
+    title: 'Mean annual ground temperature',
+    units: { degC: identity, K: (v) => v - 273.15 },
+    range: [-30, 20],
+    fallback: 'TTOP model (Smith & Riseborough 2002) from air temperature, n-factors and soil',
+  },
+  geothermalFlux_W_m2: {
+    kind: 'continuous',
+    required: false,
+    title: 'Geothermal heat flux',
+    units: { 'W/m2': identity, 'mW/m2': (v) => v / 1000 },
+    range: [0, 0.5],
+    fallback: 'model default flux',
+  },
+  nFreeze: {
+    kind: 'continuous',
+    required: false,
+    title: 'Freezing-season n-factor (snow)',
+    units: { '1': identity },
+    range: [0.05, 1.5],
+    fallback: 'scenario default n-factor',
+  },
+} satisfies Record<string, GridRole>;
+
+export type GridRoleId = keyof typeof GRID_ROLES;
+export const GRID_ROLE_IDS = Object.keys(GRID_ROLES) as GridRoleId[];
+
+export const gridEntrySchema = z.strictObject({
+  role: z.enum(GRID_ROLE_IDS as [GridRoleId, ...GridRoleId[]]),
+  file: z.string().min(1),
+  unit: z.string().min(1),
+  kind: z.enum(['continuous', 'class']),
+  /** Overrides the file's own nodata value. */
+  nodata: z.number().optional(),
+  provenance: z.string().optional(),
+  licence: z.string().optional(),
+});
+
+export const inputsConfigSchema = z
+  .strictObject({
+    formatVersion: z.literal(1),
+    region: z.strictObject({ name: z.string().min(1), fictional: z.boolean() }),
+    provenance: z.string(),
+    licence: z.string(),
+    settlements: z.string().optional(),
+    land: z.string().optional(),
+    grids: z.array(gridEntrySchema).min(1),
+  })
+  .superRefine((config, ctx) => {
+    const seen = new Set<string>();
+    config.grids.forEach((g, i) => {
+      const role: GridRole = GRID_ROLES[g.role];
+      if (seen.has(g.role)) {
+        ctx.addIssue({ code: 'custom', path: ['grids', i, 'role'], message: `role ${g.role} given twice` });
+      }
+      seen.add(g.role);
+      if (!(g.unit in role.units)) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['grids', i, 'unit'],
+          message: `unit "${g.unit}" not accepted for ${g.role} (allowed: ${Object.keys(role.units).join(', ')})`,
+        });
+      }
+      if (g.kind !== role.kind) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['grids', i, 'kind'],
+          message: `${g.role} is a ${role.kind} grid, got "${g.kind}"`,
+        });
+      }
+    });
+    for (const id of GRID_ROLE_IDS) {
+      if (GRID_ROLES[id].required && !seen.has(id)) {
+        ctx.addIssue({ code: 'custom', path: ['grids'], message: `missing required role ${id}` });
+      }
+    }
+  });
+
+export type InputsConfig = z.infer<typeof inputsConfigSchema>;
+export type GridEntry = z.infer<typeof gridEntrySchema>;
+
+export const INPUTS_CONFIG_FILE = 'pile-atlas-inputs.json';
