@@ -34,6 +34,27 @@ export const bandSchema = z.object({
   source: z.string(),
 });
 
+/**
+ * One suitability criterion of the class card: the web reads the raw value from band `bandId` and
+ * shows it with its unit, the threshold and the verdict `value <comparison> threshold` (pass/fail).
+ * Exclusions are hard (any failure excludes the cell); soft criteria are weighted into the score,
+ * scoring linearly from 0 at `poor` to 1 at `good`.
+ */
+export const criterionSchema = z.object({
+  id: z.string(),
+  title: z.string(),
+  bandId: z.string(),
+  unit: z.string(),
+  kind: z.enum(['exclusion', 'soft']),
+  comparison: z.enum(['<', '<=', '>', '>=', '!=']),
+  threshold: z.number(),
+  /** Normalised weight in the suitability score (0 for exclusions). */
+  weight: z.number().min(0),
+  good: z.number().optional(),
+  poor: z.number().optional(),
+  description: z.string(),
+});
+
 export const inputSourceSchema = z.object({
   file: z.string(),
   role: z.string(),
@@ -83,8 +104,11 @@ export const manifestSchema = z.object({
   parameters: z.record(z.string(), z.unknown()),
   scenario: z.record(z.string(), z.unknown()).optional(),
   summary: z.record(z.string(), z.unknown()).optional(),
+  /** Suitability criteria behind the class band (see criterionSchema), if the model provides them. */
+  criteria: z.array(criterionSchema).optional(),
 });
 
 export type Manifest = z.infer<typeof manifestSchema>;
 export type Band = z.infer<typeof bandSchema>;
 export type InputSource = z.infer<typeof inputSourceSchema>;
+export type Criterion = z.infer<typeof criterionSchema>;
