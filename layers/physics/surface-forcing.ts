@@ -1,0 +1,192 @@
+import { requireFinite, requireNonNegative, requirePositive, requireRange } from './validate';
+
+/**
+ * Surface forcing for the per-cell model: a sinusoidal annual air temperature, freezing and thawing
+ * n-factors (Lunardini 1978, "Theory of n-factors and correlation of data", Proc. 3rd Int. Conf. on
+ * Permafrost, Edmonton, 1:40–46), a warming trend (linear, or piecewise linear from a scenario table)
+ * and the freezing and thawing indices (degree-days) of that year.
+ *
+ * Conventions: a 365-day year (PERIOD_DAYS) and air temperature
+ *   T_air(t) = T̄ + ΔT(t) − A·cos(2π(t − t_min)/P),   t in days, t_min the day of the coldest air,
+ * so the coldest day is T̄ − A and the warmest T̄ + A half a year later.
+ */
+export const PERIOD_DAYS = 365;
+export const SECONDS_PER_DAY = 86400;
+export const SECONDS_PER_YEAR = PERIOD_DAYS * SECONDS_PER_DAY;
+/** Day of the coldest air temperature when none is given: mid-January (common practice). */
+export const DEFAULT_COLDEST_DAY = 15;
+
+export interface DegreeDays {
+  /** Freezing index: ∫ max(0, −T) dt over one year, °C·day. */
+  freezingIndex_Cd: number;
+  /** Thawing index: ∫ max(0, T) dt over one year, °C·day. */
+  thawingIndex_Cd: number;
+}
+
+/**
+ * Freezing and thawing indices of a sinusoidal year T(t) = T̄ + A·sin(2πt/P), P = 365 days, by the
+ * exact integral (no monthly discretisation). With r = T̄/A and s = asin(r) for |r| < 1:
+ *   I_thaw = (P/2π)·[T̄(π + 2s) + 2A·√(1 − r²)],   I_freeze = I_thaw − P·T̄   (since I_t − I_f = P·T̄);
+ * for T̄ ≥ A the year never freezes (I_thaw = P·T̄), for T̄ ≤ −A it never thaws. Check: T̄ = 0 gives
+ * I_thaw = I_freeze = P·A/π.
+ */
+export function degreeDays(input: { meanAirTemp_C: number; amplitude_C: number }): DegreeDays {
+  const mean = requireRange('meanAirTemp_C', input.meanAirTemp_C, -80, 60, 'C');
+  const amp = requireRange('amplitude_C', input.amplitude_C, 0, 80, 'K');
+  const P = PERIOD_DAYS;
+  if (mean >= amp) return { freezingIndex_Cd: 0, thawingIndex_Cd: P * mean };
+  if (mean <= -amp) return { freezingIndex_Cd: -P * mean, thawingIndex_Cd: 0 };
+  const r = mean / amp;
+  const s = Math.asin(r);
+  const thaw = (P / (2 * Math.PI)) * (mean * (Math.PI + 2 * s) + 2 * amp * Math.sqrt(1 - r * r));
+  return { freezingIndex_Cd: Math.max(0, thaw - P * mean), thawingIndex_Cd: thaw };
+}
+
+/**
+ * n-factors: surface index = n × air index (Lunardini 1978). Freezing n_f < 1 under snow; thawing n_t
+ * < 1 under moss and forest, > 1 on bare gravel or pavement.
+ */
+export interface NFactors {
+  nFreeze: number;
+  nThaw: number;
+  source: string;
+}
+
+export const N_FACTOR_PRESETS = {
+  /** Organic layer / tundra vegetative cover. */
+  tundraOrganic: {
+    nFreeze: 0.5,
+    nThaw: 1.0,
+    source:
+      'published n-factor table (pair as compiled in the team reference notes, section 11; original work not re-read)',
+  },
+  /** Gravel fill, maintained (snow-cleared) surface. */
+  gravelPad: {
+    nFreeze: 0.95,
+    nThaw: 1.25,
+    source:
+      'published n-factor table (pair as compiled in the team reference notes, section 11; original work not re-read)',
+  },
+  /** Snow-covered natural ground, mid-range of 0.3–0.6. */
+  snowCoveredNatural: {
+    nFreeze: 0.45,
+    nThaw: 1.0,
+    source: 'handbook range n_f 0.3–0.6 (recalled from memory)',
+  },
+  /** Spruce forest with moss, n_t about 0.4–0.6. */
+  spruceMossForest: { nFreeze: 0.4, nThaw: 0.5, source: 'handbook ranges (recalled from memory)' },
+} as const satisfies Record<string, NFactors>;
+
+/** Checks an n-factor: 0 < n ≤ 3. */
+export function requireNFactor(name: string, value: number): number {
+  return requireRange(name, value, 1e-6, 3);
+}
+
+/** Surface indices from air indices and n-factors: n_f·I_f and n_t·I_t. */
+export function surfaceDegreeDays(air: DegreeDays, nFactors: { nFreeze: number; nThaw: number }): DegreeDays {
+  const f = requireNonNegative('freezingIndex_Cd', air.freezingIndex_Cd, 'C day');
+  const t = requireNonNegative('thawingIndex_Cd', air.thawingIndex_Cd, 'C day');
+  return {
+    freezingIndex_Cd: requireNFactor('nFreeze', nFactors.nFreeze) * f,
+    thawingIndex_Cd: requireNFactor('nThaw', nFactors.nThaw) * t,
+  };
+}
+
+/** A warming trend: a constant rate, or offsets at given years since the start, linearly interpolated. */
+export type WarmingTrend =
+  | { kind: 'linear'; rate_C_per_yr: number }
+  | { kind: 'piecewise'; points: { year: number; offset_C: number }[] };
+
+/**
+ * Temperature offset ΔT (K) of a warming trend after `years` (≥ 0) since the start.
+ * Linear: rate × years. Piecewise: linear interpolation between table points (years strictly
+ * increasing); before the first point the first offset, after the last point the last offset held.
+ */
+export function warmingOffset_C(trend: WarmingTrend, years: number): number {
+  const y = requireFinite('years', years);
+  if (trend.kind === 'linear') return requireRange('rate_C_per_yr', trend.rate_C_per_yr, -1, 1, 'K/yr') * y;
+  const pts = trend.points;
+  if (!Array.isArray(pts) || pts.length === 0)
+    throw new RangeError('points must hold at least one {year, offset_C}');
+  for (let i = 0; i < pts.length; i++) {
+    requireFinite(`points[${i}].year`, pts[i].year);
+    requireRange(`points[${i}].offset_C`, pts[i].offset_C, -30, 30, 'K');
+    if (i > 0 && !(pts[i].year > pts[i - 1].year)) {
+      throw new RangeError(`points[${i}].year must be > points[${i - 1}].year; received ${pts[i].year}`);
+    }
+  }
+  if (y <= pts[0].year) return pts[0].offset_C;
+  for (let i = 1; i < pts.length; i++) {
+    if (y <= pts[i].year) {
+      const f = (y - pts[i - 1].year) / (pts[i].year - pts[i - 1].year);
+      return pts[i - 1].offset_C + f * (pts[i].offset_C - pts[i - 1].offset_C);
+    }
+  }
+  return pts[pts.length - 1].offset_C;
+}
+
+/** Mean warming rate over [0, years] of a trend, K/yr (offset(years) − offset(0)) / years. */
+export function meanWarmingRate_C_per_yr(trend: WarmingTrend, years: number): number {
+  const y = requirePositive('years', years, 'yr');
+  return (warmingOffset_C(trend, y) - warmingOffset_C(trend, 0)) / y;
+}
+
+export interface SurfaceTemperatureInput {
+  meanAirTemp_C: number;
+  amplitude_C: number;
+  nFreeze: number;
+  nThaw: number;
+  /** Time since the start of the scenario, s. */
+  time_s: number;
+  trend?: WarmingTrend;
+  /** Day of the year (0–365) of the coldest air temperature; default 15. */
+  coldestDay?: number;
+}
+
+/**
+ * Ground-surface temperature at a time: air temperature (sinusoid plus trend) scaled by n_t when above
+ * 0 °C and by n_f when below (the instantaneous n-factor transfer; over a year this reproduces the
+ * surface indices n_t·I_t and n_f·I_f of Lunardini 1978 exactly).
+ */
+export function surfaceTemperature_C(input: SurfaceTemperatureInput): number {
+  const mean = requireRange('meanAirTemp_C', input.meanAirTemp_C, -80, 60, 'C');
+  const amp = requireRange('amplitude_C', input.amplitude_C, 0, 80, 'K');
+  const nf = requireNFactor('nFreeze', input.nFreeze);
+  const nt = requireNFactor('nThaw', input.nThaw);
+  const t = requireNonNegative('time_s', input.time_s, 's');
+  const t0 = requireRange('coldestDay', input.coldestDay ?? DEFAULT_COLDEST_DAY, 0, PERIOD_DAYS, 'day');
+  const days = t / SECONDS_PER_DAY;
+  const offset = input.trend ? warmingOffset_C(input.trend, t / SECONDS_PER_YEAR) : 0;
+  const air = mean + offset - amp * Math.cos((2 * Math.PI * (days - t0)) / PERIOD_DAYS);
+  return air >= 0 ? nt * air : nf * air;
+}
+
+/**
+ * The equivalent surface sinusoid for the conduction models: mean T̄s = (n_t·I_t − n_f·I_f)/P (the
+ * mean of the n-factor-transferred surface temperature) and the amplitude A_s whose sinusoid about T̄s has
+ * the surface thawing index n_t·I_t (then its freezing index is n_f·I_f too, as I_t − I_f = P·T̄s).
+ * A_s is found by bisection (thaw index grows monotonically with A). If the surface neither thaws nor
+ * freezes all year the amplitude is n·A of the single active phase.
+ */
+export function surfaceSinusoid(input: {
+  meanAirTemp_C: number;
+  amplitude_C: number;
+  nFreeze: number;
+  nThaw: number;
+}): { meanSurfaceTemp_C: number; surfaceAmplitude_C: number } & DegreeDays {
+  const air = degreeDays(input);
+  const surf = surfaceDegreeDays(air, input);
+  const meanS = (surf.thawingIndex_Cd - surf.freezingIndex_Cd) / PERIOD_DAYS;
+  const base = { meanSurfaceTemp_C: meanS, ...surf };
+  if (surf.thawingIndex_Cd === 0) return { ...base, surfaceAmplitude_C: input.nFreeze * input.amplitude_C };
+  if (surf.freezingIndex_Cd === 0) return { ...base, surfaceAmplitude_C: input.nThaw * input.amplitude_C };
+  let lo = Math.abs(meanS);
+  let hi = Math.abs(meanS) + 4 * Math.max(input.nFreeze, input.nThaw) * input.amplitude_C + 1;
+  for (let i = 0; i < 80; i++) {
+    const mid = 0.5 * (lo + hi);
+    const dd = degreeDays({ meanAirTemp_C: meanS, amplitude_C: mid });
+    if (dd.thawingIndex_Cd < surf.thawingIndex_Cd) lo = mid;
+    else hi = mid;
+  }
+  return { ...base, surfaceAmplitude_C: 0.5 * (lo + hi) };
+}
