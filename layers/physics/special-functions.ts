@@ -86,6 +86,18 @@ export function erfc(x: number): number {
 }
 
 /**
+ * Scaled complementary error function erfcx x = e^(x²)·erfc x (A&S 7.1.2 scaled), finite where erfc
+ * underflows: for x ≥ 1.5 it is 1/(√π·g(x)) from the continued fraction 7.1.14 (no exponential at all),
+ * so erfcx x ≈ 1/(x√π) as x → ∞; for x < 1.5, e^(x²)·erfc x. Overflows for x < −26.
+ */
+export function erfcx(x: number): number {
+  checkNumber('x', x);
+  if (x === Infinity) return 0;
+  if (x >= 1.5) return 1 / (SQRT_PI * erfcContinuedFraction(x));
+  return erfc(x) / expMinusXSquared(Math.abs(x));
+}
+
+/**
  * Error function erf x = (2/√π) ∫₀ˣ e^(−t²) dt (A&S 7.1.1). Odd in x. For |x| < 1.5 the series
  * 7.1.6 (full relative accuracy near 0: erf x ≈ 2x/√π); above, 1 − erfc x. erf(±∞) = ±1.
  */

@@ -1,0 +1,133 @@
+import { erf, erfc, erfcx } from './special-functions';
+import { requireFinite, requireNonNegative, requirePositive } from './validate';
+
+/**
+ * Similarity solutions of the Stefan problem on a half-space x ≥ 0 with a sudden surface temperature
+ * change, Carslaw & Jaeger (1959), Conduction of Heat in Solids, §11.2 (eqs. 11.2(5)–(11), graph
+ * p. 287–288); restated as eq. (3.14) in Crank (1984), Free and Moving Boundary Problems, p. 103.
+ * Front X(t) = 2λ√(α₁t); phase 1 (between surface and front) is the phase created by the surface change.
+ *
+ * One phase (far material at its melting point T_m):
+ *   λ·e^(λ²)·erf λ = Ste/√π,  Ste = C₁(T_s − T_m)/L
+ *   T(x,t) = T_s − (T_s − T_m)·erf(x/2√(α₁t))/erf λ  for x < X.
+ * Two phases (far material initially at T_i on the other side of T_m), ν = √(α₁/α₂):
+ *   e^(−λ²)/erf λ − (k₂/k₁)·ν·[(T_m − T_i)/(T_s − T_m)]·e^(−λ²ν²)/erfc(λν) = λ√π/Ste₁
+ *   T = T_i + (T_m − T_i)·erfc(x/2√(α₂t))/erfc(λν)  for x > X.
+ * Both thawing (T_s > T_m > T_i) and freezing (T_s < T_m < T_i) are covered: only the magnitudes
+ * |T_s − T_m| and |T_m − T_i| enter λ. λ is found by bisection (the residual is strictly decreasing
+ * in λ) to 1e-14 relative. Small Ste: λ ≈ √(Ste/2), the Stefan limit.
+ */
+export interface PhaseProperties {
+  conductivity_W_mK: number;
+  heatCapacity_J_m3K: number;
+}
+
+export interface NeumannResult {
+  lambda: number;
+  /** Stefan number of phase 1, C₁|T_s − T_m|/L. */
+  stefanNumber: number;
+  /** Front depth at time_s, m. */
+  frontPosition_m: number;
+  /** Temperature at depth and the given time_s, °C. */
+  temperatureAt_C: (depth_m: number) => number;
+}
+
+function solveDecreasing(residual: (lambda: number) => number): number {
+  let lo = 0;
+  let hi = 1;
+  while (residual(hi) > 0) {
+    lo = hi;
+    hi *= 2;
+    if (hi > 1e6) throw new RangeError('no Neumann root below lambda = 1e6; check the inputs');
+  }
+  for (let i = 0; i < 200 && hi - lo > 1e-15 * hi; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (residual(mid) > 0) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+/** λ of the one-phase problem for a Stefan number Ste > 0. */
+export function neumannOnePhaseLambda(stefanNumber: number): number {
+  const ste = requirePositive('stefanNumber', stefanNumber);
+  const target = ste / Math.sqrt(Math.PI);
+  return solveDecreasing((l) => target - l * Math.exp(l * l) * erf(l));
+}
+
+export function neumannOnePhase(input: {
+  phase: PhaseProperties;
+  latent_J_m3: number;
+  surfaceTemp_C: number;
+  meltTemp_C: number;
+  time_s: number;
+}): NeumannResult {
+  const k = requirePositive('phase.conductivity_W_mK', input.phase.conductivity_W_mK, 'W/m/K');
+  const C = requirePositive('phase.heatCapacity_J_m3K', input.phase.heatCapacity_J_m3K, 'J/m3/K');
+  const L = requirePositive('latent_J_m3', input.latent_J_m3, 'J/m3');
+  const ts = requireFinite('surfaceTemp_C', input.surfaceTemp_C);
+  const tm = requireFinite('meltTemp_C', input.meltTemp_C);
+  const t = requireNonNegative('time_s', input.time_s, 's');
+  if (ts === tm) throw new RangeError(`surfaceTemp_C must differ from meltTemp_C; received ${ts}`);
+  const ste = (C * Math.abs(ts - tm)) / L;
+  const lambda = neumannOnePhaseLambda(ste);
+  const a = k / C;
+  const front = 2 * lambda * Math.sqrt(a * t);
+  return {
+    lambda,
+    stefanNumber: ste,
+    frontPosition_m: front,
+    temperatureAt_C: (x) => {
+      requireNonNegative('depth_m', x, 'm');
+      if (x >= front) return tm;
+      return ts - ((ts - tm) * erf(x / (2 * Math.sqrt(a * t)))) / erf(lambda);
+    },
+  };
+}
+
+export function neumannTwoPhase(input: {
+  /** Phase 1: the phase between the surface and the front (thawed when thawing). */
+  near: PhaseProperties;
+  /** Phase 2: the initial phase beyond the front. */
+  far: PhaseProperties;
+  latent_J_m3: number;
+  surfaceTemp_C: number;
+  meltTemp_C: number;
+  initialTemp_C: number;
+  time_s: number;
+}): NeumannResult {
+  const k1 = requirePositive('near.conductivity_W_mK', input.near.conductivity_W_mK, 'W/m/K');
+  const c1 = requirePositive('near.heatCapacity_J_m3K', input.near.heatCapacity_J_m3K, 'J/m3/K');
+  const k2 = requirePositive('far.conductivity_W_mK', input.far.conductivity_W_mK, 'W/m/K');
+  const c2 = requirePositive('far.heatCapacity_J_m3K', input.far.heatCapacity_J_m3K, 'J/m3/K');
+  const L = requirePositive('latent_J_m3', input.latent_J_m3, 'J/m3');
+  const ts = requireFinite('surfaceTemp_C', input.surfaceTemp_C);
+  const tm = requireFinite('meltTemp_C', input.meltTemp_C);
+  const ti = requireFinite('initialTemp_C', input.initialTemp_C);
+  const t = requireNonNegative('time_s', input.time_s, 's');
+  if (ts === tm) throw new RangeError(`surfaceTemp_C must differ from meltTemp_C; received ${ts}`);
+  if ((ts - tm) * (tm - ti) < 0) {
+    throw new RangeError(
+      `initialTemp_C must lie on the other side of meltTemp_C (${tm}) from surfaceTemp_C (${ts}); received ${ti}`,
+    );
+  }
+  const a1 = k1 / c1;
+  const a2 = k2 / c2;
+  const nu = Math.sqrt(a1 / a2);
+  const ste = (c1 * Math.abs(ts - tm)) / L;
+  const B = (k2 / k1) * nu * (Math.abs(tm - ti) / Math.abs(ts - tm));
+  const sqrtPi = Math.sqrt(Math.PI);
+  // e^(−λ²ν²)/erfc(λν) = 1/erfcx(λν): finite for any λν.
+  const lambda = solveDecreasing((l) => Math.exp(-l * l) / erf(l) - B / erfcx(l * nu) - (l * sqrtPi) / ste);
+  const front = 2 * lambda * Math.sqrt(a1 * t);
+  return {
+    lambda,
+    stefanNumber: ste,
+    frontPosition_m: front,
+    temperatureAt_C: (x) => {
+      requireNonNegative('depth_m', x, 'm');
+      if (x < front) return ts - ((ts - tm) * erf(x / (2 * Math.sqrt(a1 * t)))) / erf(lambda);
+      return ti + ((tm - ti) * erfc(x / (2 * Math.sqrt(a2 * t)))) / erfc(lambda * nu);
+    },
+  };
+}
