@@ -1,0 +1,175 @@
+/**
+ * Reads one single-band GeoTIFF into a Grid (layers/grid.ts) with explicit checks, each failing with an
+ * InputError that names the file and the problem: file missing, not a TIFF, truncated or unreadable,
+ * no georeferencing, CRS missing / user-defined / not supported. Nodata (GDAL_NODATA, or the config's
+ * override) and non-finite values become NaN. Multi-band files: the first band is read.
+ */
+import { createHash } from 'node:crypto';
+import { readFile } from 'node:fs/promises';
+import { fromArrayBuffer, type GeoTIFFImage } from 'geotiff';
+import type { Grid } from '../../layers/grid';
+import { CRS_DEFINITIONS, proj4DefinitionFor } from '../crs/crs-definitions';
+import { InputError } from '../input-error';
+
+export interface SourceGrid {
+  grid: Grid;
+  /** The file as named in messages (usually the path relative to the inputs directory). */
+  label: string;
+  nodata: number | null;
+  description: string | null;
+  sha256: string;
+  /** True when the file holds integer samples (class grids must). */
+  integerSamples: boolean;
+}
+
+export interface ReadGridOptions {
+  label: string;
+  nodataOverride?: number;
+}
+
+const USER_DEFINED = 32767;
+
+function isTiffHeader(b: Uint8Array): boolean {
+  if (b.length < 8) return false;
+  const le = b[0] === 0x49 && b[1] === 0x49;
+  const be = b[0] === 0x4d && b[1] === 0x4d;
+  if (le) return (b[2] === 42 || b[2] === 43) && b[3] === 0;
+  if (be) return b[2] === 0 && (b[3] === 42 || b[3] === 43);
+  return false;
+}
+
+function asNumbers(v: unknown): number[] {
+  if (v == null) return [];
+  if (typeof v === 'number') return [v];
+  if (typeof v === 'bigint') return [Number(v)];
+  if (Array.isArray(v) || ArrayBuffer.isView(v)) return Array.from(v as ArrayLike<number>, Number);
+  return [];
+}
+
+async function loadTag(image: GeoTIFFImage, tag: string): Promise<unknown> {
+  const dir = image.fileDirectory;
+  return dir.hasTag(tag as never) ? dir.loadValue(tag as never) : undefined;
+}
+
+/** The CRS of an image as 'EPSG:n', or an InputError naming why it cannot be read. */
+function crsOf(image: GeoTIFFImage, label: string): string {
+  const keys = image.getGeoKeys();
+  if (!keys) throw new InputError(`${label}: CRS cannot be read (no GeoKeyDirectory)`);
+  const model = keys.GTModelTypeGeoKey as number | undefined;
+  const projected = keys.ProjectedCSTypeGeoKey as number | undefined;
+  const geographic = keys.GeographicTypeGeoKey as number | undefined;
+  const code = model === 2 ? geographic : (projected ?? geographic);
+  if (code === undefined) {
+    throw new InputError(`${label}: CRS cannot be read (no EPSG code in the GeoKeyDirectory)`);
+  }
+  if (code === USER_DEFINED) {
+    throw new InputError(`${label}: CRS cannot be read (user-defined CRS; reproject to an EPSG code first)`);
+  }
+  const crs = `EPSG:${code}`;
+  if (!proj4DefinitionFor(crs)) {
+    throw new InputError(
+      `${label}: unsupported CRS ${crs} (supported: ${Object.keys(CRS_DEFINITIONS).join(', ')}, EPSG:326zz/327zz)`,
+    );
+  }
+  return crs;
+}
+
+async function geoTransformOf(image: GeoTIFFImage, label: string): Promise<Grid['geoTransform']> {
+  const transformation = asNumbers(await loadTag(image, 'ModelTransformation'));
+  const scale = asNumbers(await loadTag(image, 'ModelPixelScale'));
+  const tiepoint = asNumbers(await loadTag(image, 'ModelTiepoint'));
+  let gt: Grid['geoTransform'];
+  if (transformation.length >= 16) {
+    const m = transformation;
+    gt = [m[3], m[0], m[1], m[7], m[4], m[5]];
+  } else if (scale.length >= 2 && tiepoint.length >= 6) {
+    const [i, j, , x, y] = tiepoint;
+    gt = [x - i * scale[0], scale[0], 0, y + j * scale[1], 0, -scale[1]];
+  } else {
+    throw new InputError(
+      `${label}: no georeferencing (needs ModelPixelScale + ModelTiepoint or ModelTransformation)`,
+    );
+  }
+  if (!gt.every(Number.isFinite) || gt[1] * gt[5] - gt[2] * gt[4] === 0) {
+    throw new InputError(`${label}: invalid georeferencing (degenerate pixel size)`);
+  }
+  const keys = image.getGeoKeys();
+  if (keys?.GTRasterTypeGeoKey === 2) {
+    // PixelIsPoint: the tiepoint is the centre of the first pixel; shift to its outer corner.
+    gt = [gt[0] - 0.5 * gt[1] - 0.5 * gt[2], gt[1], gt[2], gt[3] - 0.5 * gt[4] - 0.5 * gt[5], gt[4], gt[5]];
+  }
+  return gt;
+}
+
+/** Check that every strip or tile lies inside the file (a truncated download fails here). */
+async function checkDataInFile(image: GeoTIFFImage, label: string, fileLength: number): Promise<void> {
+  const offsets = asNumbers((await loadTag(image, 'StripOffsets')) ?? (await loadTag(image, 'TileOffsets')));
+  const counts = asNumbers(
+    (await loadTag(image, 'StripByteCounts')) ?? (await loadTag(image, 'TileByteCounts')),
+  );
+  if (offsets.length === 0 || offsets.length !== counts.length) {
+    throw new InputError(`${label}: unreadable TIFF (missing strip or tile offsets)`);
+  }
+  for (let i = 0; i < offsets.length; i++) {
+    if (offsets[i] + counts[i] > fileLength) {
+      throw new InputError(
+        `${label}: truncated file (${fileLength} bytes, image data runs to byte ${offsets[i] + counts[i]})`,
+      );
+    }
+  }
+}
+
+/** Read a single-band GeoTIFF file into a Grid (nodata -> NaN). */
+export async function readGeoTiffGrid(path: string, options: ReadGridOptions): Promise<SourceGrid> {
+  const { label } = options;
+  let bytes: Uint8Array;
+  try {
+    bytes = await readFile(path);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT') throw new InputError(`${label}: file not found`);
+    if (code === 'EISDIR') throw new InputError(`${label}: is a directory, expected a GeoTIFF file`);
+    throw new InputError(`${label}: cannot read file (${code ?? String(err)})`);
+  }
+  if (!isTiffHeader(bytes)) throw new InputError(`${label}: not a TIFF file (no TIFF header)`);
+  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  let image: GeoTIFFImage;
+  try {
+    const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
+    image = await (await fromArrayBuffer(buffer)).getImage();
+  } catch (err) {
+    throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+  }
+  await checkDataInFile(image, label, bytes.byteLength);
+  const geoTransform = await geoTransformOf(image, label);
+  const crs = crsOf(image, label);
+  const width = image.getWidth();
+  const height = image.getHeight();
+  let raster: ArrayLike<number>;
+  try {
+    raster = (await image.readRasters({ samples: [0], interleave: true })) as unknown as ArrayLike<number>;
+  } catch (err) {
+    throw new InputError(`${label}: unreadable image data (${(err as Error).message.split('\n')[0]})`);
+  }
+  if (raster.length !== width * height) {
+    throw new InputError(`${label}: image data has ${raster.length} samples, expected ${width * height}`);
+  }
+  const nodata = options.nodataOverride ?? image.getGDALNoData();
+  // Float32 files store nodata rounded to single precision: compare against both forms.
+  const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
+  const values = new Float32Array(width * height);
+  for (let i = 0; i < values.length; i++) {
+    const v = raster[i];
+    values[i] = v === nodata || v === nodataSingle || !Number.isFinite(v) ? NaN : v;
+  }
+  const formats = asNumbers(await loadTag(image, 'SampleFormat'));
+  const description = await loadTag(image, 'ImageDescription');
+  return {
+    grid: { values, width, height, geoTransform, crs },
+    label,
+    nodata: nodata ?? null,
+    description: typeof description === 'string' ? description : null,
+    sha256,
+    integerSamples: formats.length === 0 || formats[0] !== 3,
+  };
+}

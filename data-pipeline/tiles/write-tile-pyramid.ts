@@ -1,0 +1,173 @@
+/**
+ * Writes the Web Mercator tile pyramid `{z}/{x}/{y}.bin` (encoding: layers/screening/tile-format.ts)
+ * from the analysis-grid bands. The finest zoom samples the analysis grid at each tile pixel centre
+ * (nearest cell, so tile values are the computed cell values); each coarser level is built from its
+ * four children: continuous bands by the mean of the valid child pixels, class bands by their mode
+ * (ties to the smaller code). Tiles are produced depth-first, so memory holds at most four tiles per
+ * level. All-nodata tiles are not written (an absent tile means nodata).
+ */
+import { mkdir, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
+import type { AnalysisGrid } from '../build/analysis-grid';
+import { createTransform } from '../crs/crs-definitions';
+
+export interface PyramidBand {
+  values: Float32Array;
+  kind: 'continuous' | 'class';
+  quant: BandQuantisation;
+}
+
+export interface TilePyramidOptions {
+  /** Directory that receives `{z}/{x}/{y}.bin`. */
+  tilesDir: string;
+  grid: AnalysisGrid;
+  bands: PyramidBand[];
+  minZoom: number;
+  maxZoom: number;
+  /** [west, south, east, north] degrees of the data. */
+  bounds: [number, number, number, number];
+  onTile?: (done: number, total: number) => void;
+}
+
+const EARTH_CIRCUMFERENCE_M = 2 * Math.PI * 6378137;
+
+/**
+ * Zoom range whose finest tile pixel is no larger than the cell at the region's latitude (Web Mercator
+ * pixel ground size = C·cos(lat)/(256·2^z)), and whose coarsest level shows the region in a few tiles.
+ */
+export function zoomRangeFor(cellSize_m: number, latitude_deg: number): { minZoom: number; maxZoom: number } {
+  const groundAtZ0 = (EARTH_CIRCUMFERENCE_M * Math.cos((latitude_deg * Math.PI) / 180)) / TILE_SIZE;
+  const maxZoom = Math.max(0, Math.min(16, Math.ceil(Math.log2(groundAtZ0 / cellSize_m))));
+  return { minZoom: Math.max(0, maxZoom - 4), maxZoom };
+}
+
+const lonOfTileX = (x: number, z: number): number => (x / 2 ** z) * 360 - 180;
+const latOfTileY = (y: number, z: number): number =>
+  (Math.atan(Math.sinh(Math.PI * (1 - (2 * y) / 2 ** z))) * 180) / Math.PI;
+const tileXOfLon = (lon: number, z: number): number => Math.floor(((lon + 180) / 360) * 2 ** z);
+const tileYOfLat = (lat: number, z: number): number => {
+  const r = (lat * Math.PI) / 180;
+  return Math.floor(((1 - Math.log(Math.tan(r) + 1 / Math.cos(r)) / Math.PI) / 2) * 2 ** z);
+};
+
+/** Tile index range [x0, x1] x [y0, y1] covering the bounds at zoom z. */
+export function tileRange(bounds: [number, number, number, number], z: number) {
+  const max = 2 ** z - 1;
+  const clampT = (v: number) => Math.max(0, Math.min(max, v));
+  return {
+    x0: clampT(tileXOfLon(bounds[0], z)),
+    x1: clampT(tileXOfLon(bounds[2], z)),
+    y0: clampT(tileYOfLat(bounds[3], z)),
+    y1: clampT(tileYOfLat(bounds[1], z)),
+  };
+}
+
+function aggregateInto(parent: Float32Array, child: Float32Array, dx: number, dy: number, kind: string) {
+  const half = TILE_SIZE / 2;
+  const counts = new Map<number, number>();
+  for (let py = 0; py < half; py++) {
+    for (let px = 0; px < half; px++) {
+      const c0 = 2 * py * TILE_SIZE + 2 * px;
+      const quad = [child[c0], child[c0 + 1], child[c0 + TILE_SIZE], child[c0 + TILE_SIZE + 1]];
+      let result = NaN;
+      if (kind === 'class') {
+        counts.clear();
+        let best = -1;
+        for (const v of quad) {
+          if (v !== v) continue;
+          const n = (counts.get(v) ?? 0) + 1;
+          counts.set(v, n);
+          if (n > best || (n === best && v < result)) {
+            best = n;
+            result = v;
+          }
+        }
+      } else {
+        let sum = 0;
+        let n = 0;
+        for (const v of quad) {
+          if (v === v) {
+            sum += v;
+            n++;
+          }
+        }
+        if (n > 0) result = sum / n;
+      }
+      parent[(dy * half + py) * TILE_SIZE + dx * half + px] = result;
+    }
+  }
+}
+
+/** Write the pyramid; returns the number of tiles written per zoom. */
+export async function writeTilePyramid(options: TilePyramidOptions): Promise<Record<number, number>> {
+  const { tilesDir, grid, bands, minZoom, maxZoom, bounds, onTile } = options;
+  const toGrid = createTransform('EPSG:4326', grid.crs);
+  const gt = grid.geoTransform;
+  const quant = bands.map((b) => b.quant);
+  const written: Record<number, number> = {};
+  const finest = tileRange(bounds, maxZoom);
+  const total = (finest.x1 - finest.x0 + 1) * (finest.y1 - finest.y0 + 1);
+  let done = 0;
+  const n = TILE_SIZE * TILE_SIZE;
+
+  const sampleFinest = (x: number, y: number): Float32Array[] | null => {
+    const planes = bands.map(() => new Float32Array(n).fill(NaN));
+    let any = false;
+    const z = maxZoom;
+    for (let py = 0; py < TILE_SIZE; py++) {
+      const lat = latOfTileY(y + (py + 0.5) / TILE_SIZE, z);
+      for (let px = 0; px < TILE_SIZE; px++) {
+        const lon = lonOfTileX(x + (px + 0.5) / TILE_SIZE, z);
+        const [gx, gy] = toGrid(lon, lat);
+        const col = Math.floor((gx - gt[0]) / gt[1]);
+        const row = Math.floor((gy - gt[3]) / gt[5]);
+        if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
+        const cell = row * grid.width + col;
+        const i = py * TILE_SIZE + px;
+        for (let b = 0; b < bands.length; b++) {
+          const v = bands[b].values[cell];
+          planes[b][i] = v;
+          if (v === v) any = true;
+        }
+      }
+    }
+    return any ? planes : null;
+  };
+
+  const emit = async (z: number, x: number, y: number, planes: Float32Array[]) => {
+    const dir = join(tilesDir, String(z), String(x));
+    await mkdir(dir, { recursive: true });
+    await writeFile(join(dir, `${y}.bin`), packTile(planes, quant));
+    written[z] = (written[z] ?? 0) + 1;
+  };
+
+  const render = async (z: number, x: number, y: number): Promise<Float32Array[] | null> => {
+    const range = tileRange(bounds, z);
+    if (x < range.x0 || x > range.x1 || y < range.y0 || y > range.y1) return null;
+    let planes: Float32Array[] | null;
+    if (z === maxZoom) {
+      planes = sampleFinest(x, y);
+      done++;
+      onTile?.(done, total);
+    } else {
+      planes = null;
+      for (let k = 0; k < 4; k++) {
+        const dx = k & 1;
+        const dy = k >> 1;
+        const child = await render(z + 1, 2 * x + dx, 2 * y + dy);
+        if (!child) continue;
+        planes ??= bands.map(() => new Float32Array(n).fill(NaN));
+        for (let b = 0; b < bands.length; b++) aggregateInto(planes[b], child[b], dx, dy, bands[b].kind);
+      }
+    }
+    if (planes) await emit(z, x, y, planes);
+    return planes;
+  };
+
+  const top = tileRange(bounds, minZoom);
+  for (let x = top.x0; x <= top.x1; x++) {
+    for (let y = top.y0; y <= top.y1; y++) await render(minZoom, x, y);
+  }
+  return written;
+}
