@@ -11,6 +11,7 @@ import { z } from 'zod';
 
 const pos = () => z.number().positive();
 const frac = () => z.number().gt(0).lte(1);
+const weight = (w: number) => z.number().min(0).default(w);
 
 /** The standard pile: one hollow steel screw pile carrying a fluid loop. */
 export const standardPileSchema = z.strictObject({
@@ -51,8 +52,11 @@ export const standardBuildingSchema = z.strictObject({
 
 /** Heat pump and fluid limits. */
 export const heatPumpLimitsSchema = z.strictObject({
-  /** Lowest allowed entering fluid temperature, °C: -5 to -8 °C for common units (common practice). */
-  minEnteringFluid_C: z.number().min(-20).max(5).default(-5),
+  /**
+   * Lowest allowed entering fluid temperature, °C: −5 to −8 °C for common units (common practice);
+   * the colder end for permafrost, with 30 % propylene glycol freezing at −12.7 °C (reference-values §9c).
+   */
+  minEnteringFluid_C: z.number().min(-20).max(5).default(-8),
   /** Mean fluid minus entering fluid temperature at peak, K (half the loop ΔT of 3 K) (common practice). */
   fluidHalfDelta_K: z.number().min(0).max(10).default(1.5),
   /**
@@ -106,50 +110,35 @@ export const permafrostClassesSchema = z.strictObject({
 export const suitabilitySchema = z.strictObject({
   /** Least soil depth over bedrock for a screw pile, m (recalled from memory: embedment 8-15 m; 6 m floor). */
   minBedrockDepth_m: z.number().min(0).max(50).default(6),
-  /** Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised. */
+  /**
+   * Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised. The
+   * scoring ranges are judgement (common practice) set to span the demo region's values: piles per ton
+   * 10 (good) to 40 (poor) with the default pile; frozen margin 30 yr to 0 yr; load share 0.8 to 0.1;
+   * fuel saved 300 L/yr to 0 per standard building; permafrost at pile depth −4 °C to −1 °C.
+   */
   coldness: z
-    .object({
-      good_C: z.number().default(-4),
-      poor_C: z.number().default(-1),
-      weight: z.number().min(0).default(2),
-    })
+    .strictObject({ good_C: z.number().default(-4), poor_C: z.number().default(-1), weight: weight(2) })
     .default({ good_C: -4, poor_C: -1, weight: 2 }),
   pilesPerTon: z
-    .object({
-      good: z.number().default(2),
-      poor: z.number().default(8),
-      weight: z.number().min(0).default(2),
-    })
-    .default({ good: 2, poor: 8, weight: 2 }),
-  thawDelay: z
-    .object({
-      good_yr: z.number().default(30),
-      poor_yr: z.number().default(0),
-      weight: z.number().min(0).default(2),
-    })
+    .strictObject({ good: z.number().default(10), poor: z.number().default(40), weight: weight(2) })
+    .default({ good: 10, poor: 40, weight: 2 }),
+  frozenMargin: z
+    .strictObject({ good_yr: z.number().default(30), poor_yr: z.number().default(0), weight: weight(2) })
     .default({ good_yr: 30, poor_yr: 0, weight: 2 }),
   loadShare: z
-    .object({
-      good: z.number().default(1),
-      poor: z.number().default(0.2),
-      weight: z.number().min(0).default(1),
-    })
-    .default({ good: 1, poor: 0.2, weight: 1 }),
-  thawStability: z.object({ weight: z.number().min(0).default(1) }).default({ weight: 1 }),
+    .strictObject({ good: z.number().default(0.8), poor: z.number().default(0.1), weight: weight(1) })
+    .default({ good: 0.8, poor: 0.1, weight: 1 }),
+  thawStability: z.strictObject({ weight: weight(1) }).default({ weight: 1 }),
   fuelSaved: z
-    .object({
-      good_L: z.number().default(1500),
-      poor_L: z.number().default(0),
-      weight: z.number().min(0).default(1),
-    })
-    .default({ good_L: 1500, poor_L: 0, weight: 1 }),
+    .strictObject({ good_L: z.number().default(300), poor_L: z.number().default(0), weight: weight(1) })
+    .default({ good_L: 300, poor_L: 0, weight: 1 }),
   /** Suitability score bounds: score >= good → class 'good', >= fair → 'fair', else 'poor'. */
   goodScore: z.number().min(0).max(1).default(0.65),
   fairScore: z.number().min(0).max(1).default(0.4),
 });
 
 export const scenarioSchema = z
-  .object({
+  .strictObject({
     name: z.string().min(1).default('default'),
     /** Calendar year at which the input climate applies and the warming trend starts. */
     startYear: z.number().int().min(1900).max(2200).default(2025),

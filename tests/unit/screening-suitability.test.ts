@@ -141,7 +141,7 @@ describe('criteria definitions (manifest `criteria`)', () => {
       suitability: {
         coldness: z,
         pilesPerTon: z,
-        thawDelay: z,
+        frozenMargin: z,
         loadShare: z,
         thawStability: z,
         fuelSaved: z,

@@ -1,0 +1,124 @@
+/**
+ * Per-scenario constants of the per-cell model, computed once outside the per-cell loop: soil thermal
+ * properties per texture tabulated against water content, the response tables, the economics
+ * coefficients and break-evens, the normalised soft weights.
+ *
+ * Soil table: `soilThermalProperties` (layers/physics/soil-catalogue.ts: Johansen 1975 / Côté & Konrad
+ * 2005 conductivity, de Vries 1963 heat capacity, latent heat of the pore water) evaluated at 65 water
+ * contents from 1 % to 100 % of the texture's porosity with the catalogue's default densities; a cell
+ * interpolates linearly (error < 1 % of k, measured against direct calls, tests/unit/screening-cell-model).
+ * Water contents above the porosity are clamped to it (saturated ground; excess ice is not modelled).
+ */
+import { soilThermalProperties } from '../physics/soil-catalogue';
+import { TEXTURE_CODES, type TextureCode } from './screening-model';
+import type { Scenario } from './scenario';
+import { buildResponseTables, type ResponseTables } from './response-tables';
+import {
+  breakEvenCops,
+  economicsCoefficients,
+  type BreakEvenCops,
+  type EconomicsCoefficients,
+} from './economics';
+import { softWeights } from './suitability';
+
+export const SOIL_TABLE_POINTS = 65;
+
+export interface SoilTable {
+  thetaMin: number;
+  thetaMax: number;
+  step: number;
+  kFrozen: Float64Array;
+  kThawed: Float64Array;
+  cFrozen: Float64Array;
+  cThawed: Float64Array;
+  latent: Float64Array;
+}
+
+export interface CellConstants {
+  scenario: Scenario;
+  tables: ResponseTables;
+  /** Indexed by texture code (index 0 unused). */
+  soil: SoilTable[];
+  econ: EconomicsCoefficients;
+  breakEven: BreakEvenCops;
+  weights: Float64Array;
+  pileMidDepth_m: number;
+}
+
+const soilCache = new Map<number, SoilTable>();
+
+function soilTable(code: TextureCode): SoilTable {
+  const hit = soilCache.get(code);
+  if (hit) return hit;
+  const texture = TEXTURE_CODES[code];
+  const porosity = soilThermalProperties({ texture, waterContent_m3m3: 0 }).porosity;
+  const thetaMin = 0.01 * porosity;
+  const step = (porosity - thetaMin) / (SOIL_TABLE_POINTS - 1);
+  const t: SoilTable = {
+    thetaMin,
+    thetaMax: porosity,
+    step,
+    kFrozen: new Float64Array(SOIL_TABLE_POINTS),
+    kThawed: new Float64Array(SOIL_TABLE_POINTS),
+    cFrozen: new Float64Array(SOIL_TABLE_POINTS),
+    cThawed: new Float64Array(SOIL_TABLE_POINTS),
+    latent: new Float64Array(SOIL_TABLE_POINTS),
+  };
+  for (let i = 0; i < SOIL_TABLE_POINTS; i++) {
+    const p = soilThermalProperties({
+      texture,
+      waterContent_m3m3: Math.min(porosity, thetaMin + i * step),
+    });
+    t.kFrozen[i] = p.kFrozen_W_mK;
+    t.kThawed[i] = p.kThawed_W_mK;
+    t.cFrozen[i] = p.cFrozen_J_m3K;
+    t.cThawed[i] = p.cThawed_J_m3K;
+    t.latent[i] = p.latent_J_m3;
+  }
+  soilCache.set(code, t);
+  return t;
+}
+
+/** Soil properties at a water content, written into `out` (allocation-free). */
+export interface SoilPoint {
+  kFrozen: number;
+  kThawed: number;
+  cFrozen: number;
+  cThawed: number;
+  latent: number;
+}
+
+export function soilAt(t: SoilTable, waterContent_m3m3: number, out: SoilPoint): SoilPoint {
+  const th =
+    waterContent_m3m3 < t.thetaMin
+      ? t.thetaMin
+      : waterContent_m3m3 > t.thetaMax
+        ? t.thetaMax
+        : waterContent_m3m3;
+  const u = (th - t.thetaMin) / t.step;
+  const i = Math.min(SOIL_TABLE_POINTS - 2, Math.floor(u));
+  const f = u - i;
+  out.kFrozen = t.kFrozen[i] + (t.kFrozen[i + 1] - t.kFrozen[i]) * f;
+  out.kThawed = t.kThawed[i] + (t.kThawed[i + 1] - t.kThawed[i]) * f;
+  out.cFrozen = t.cFrozen[i] + (t.cFrozen[i + 1] - t.cFrozen[i]) * f;
+  out.cThawed = t.cThawed[i] + (t.cThawed[i + 1] - t.cThawed[i]) * f;
+  out.latent = t.latent[i] + (t.latent[i + 1] - t.latent[i]) * f;
+  return out;
+}
+
+export function buildCellConstants(scenario: Scenario): CellConstants {
+  const soil: SoilTable[] = [];
+  for (const code of Object.keys(TEXTURE_CODES)) {
+    const c = Number(code) as TextureCode;
+    soil[c] = soilTable(c);
+  }
+  return {
+    scenario,
+    tables: buildResponseTables(scenario),
+    soil,
+    econ: economicsCoefficients(scenario.economics),
+    breakEven: breakEvenCops(scenario.economics),
+    weights: softWeights(scenario),
+    pileMidDepth_m: scenario.pile.topDepth_m + scenario.pile.length_m / 2,
+  };
+}

@@ -1,0 +1,330 @@
+/**
+ * The per-cell screening kernel: every metric of one cell into a Float64Array indexed by METRIC.
+ * Allocation-free apart from the science core's small result objects (escape-analysed by the engine).
+ *
+ * Method, in order (each step's model is documented in its own module):
+ *  1. soil properties from the texture table at the cell's water content (cell-constants.ts);
+ *  2. air freezing/thawing indices of the sinusoidal year (degreeDays, surface-forcing.ts), surface
+ *     indices with n-factors (Lunardini 1978), TTOP (Smith & Riseborough 1996, 2002), active layer by
+ *     Stefan (thawed k, surface thawing index, latent heat of all pore water);
+ *  3. ground temperature at the pile's mid-depth: the ground-temperature grid when given, else TTOP
+ *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
+ *     adds the gradient between the two depths;
+ *  4. warming: linear surface trend (the air trend) propagated by conduction in frozen ground
+ *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles when it has raised the reference
+ *     point to 0 °C (latent heat neglected: earlier than with phase change);
+ *  5. standard building: heating demand UA·HDD (HDD = freezing index of T_air − T_balance), peak load
+ *     UA·(T_balance − T_design), annual and peak-month load fractions; ground load = heat·(1 − 1/COP);
+ *  6. operating window and pile count (operating-window.ts);
+ *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0, piles operating from
+ *     the start year on (forward search with growing steps from the no-pile thaw time, then bisection
+ *     to 0.01 yr);
+ *  8. economics at the seasonal COP: EFT_season = T_pile − q'_carried·(R_b + g_life/(2πk)) − ΔT_half
+ *     (annual-average extraction through the pile and the long-term ground resistance), COP from the
+ *     scenario's linear curve clamped to [1.5, 6];
+ *  9. exclusions, soft scores, class (suitability.ts).
+ */
+import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
+import { ttop_C } from '../physics/ttop';
+import { stefanDepth_m } from '../physics/stefan';
+import type { CellInputs } from './screening-model';
+import { soilAt, type CellConstants, type SoilPoint } from './cell-constants';
+import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
+import { operatingWindow, threePulsePeakPerPile_W, type WindowResult } from './operating-window';
+import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
+import {
+  EXCLUSION,
+  isFrostSusceptible,
+  linearScore,
+  permafrostClass,
+  suitabilityClass,
+  thawStabilityScore,
+} from './suitability';
+import { METRIC as M } from './cell-layers';
+
+/** One refrigeration ton, W: 12 000 Btu_IT/h (reference-values §12). */
+export const TON_W = 3516.853;
+const MONTH_S = SECONDS_PER_YEAR / 12;
+const HOURS_PER_YEAR = 8760;
+
+/** Reusable scratch for one thread. */
+export interface KernelScratch {
+  soil: SoilPoint;
+  window: WindowResult;
+}
+
+export function createKernelScratch(): KernelScratch {
+  return {
+    soil: { kFrozen: 0, kThawed: 0, cFrozen: 0, cThawed: 0, latent: 0 },
+    window: {
+      lower_W_m: 0,
+      upperFluid_W_m: 0,
+      upperOvercool_W_m: 0,
+      upper_W_m: 0,
+      carried_W_m: 0,
+      loadShare: 0,
+      binding: 0,
+    },
+  };
+}
+
+/** Linear COP curve of the scenario, clamped to [1.5, 6]. */
+export function copAt(hp: { copAtZero: number; copSlope_per_K: number }, eft_C: number): number {
+  const c = hp.copAtZero + hp.copSlope_per_K * eft_C;
+  return c < 1.5 ? 1.5 : c > 6 ? 6 : c;
+}
+
+function validInputs(c: CellInputs): boolean {
+  return (
+    c.meanAirTemp_C >= -60 &&
+    c.meanAirTemp_C <= 40 &&
+    c.airAmplitude_C >= 0 &&
+    c.airAmplitude_C <= 60 &&
+    c.warming_C_per_yr >= -1 &&
+    c.warming_C_per_yr <= 1 &&
+    Number.isInteger(c.textureClass) &&
+    c.textureClass >= 1 &&
+    c.textureClass <= 6 &&
+    c.waterContent_m3m3 >= 0 &&
+    c.waterContent_m3m3 <= 1 &&
+    c.bedrockDepth_m >= 0 &&
+    (Number.isNaN(c.groundTemp_C) || (c.groundTemp_C >= -40 && c.groundTemp_C <= 30)) &&
+    (Number.isNaN(c.geothermalFlux_W_m2) || (c.geothermalFlux_W_m2 >= 0 && c.geothermalFlux_W_m2 <= 1)) &&
+    (Number.isNaN(c.nFreeze) || (c.nFreeze >= 0.05 && c.nFreeze <= 1.5))
+  );
+}
+
+/** Evaluate one cell into `m` (length ≥ METRIC_COUNT; NaN = not applicable). Never throws. */
+export function evaluateCellMetrics(
+  cell: CellInputs,
+  k: CellConstants,
+  x: KernelScratch,
+  m: Float64Array,
+): void {
+  m.fill(NaN);
+  if (!validInputs(cell)) {
+    m[M.exclusion] = EXCLUSION.outsideData;
+    m[M.suitability] = 0;
+    return;
+  }
+  const s = k.scenario;
+  const be = k.breakEven;
+  m[M.breakEvenCopFuel] = be.fuel;
+  m[M.breakEvenCopCo2] = be.co2;
+  m[M.breakEvenCopCost] = be.cost;
+  m[M.bedrockDepth] = cell.bedrockDepth_m;
+  const tex = cell.textureClass;
+  m[M.thawStability] = thawStabilityScore(tex, cell.waterContent_m3m3);
+
+  // 1-2. soil, forcing, TTOP, active layer
+  const soil = soilAt(k.soil[tex], cell.waterContent_m3m3, x.soil);
+  const kF = soil.kFrozen;
+  const air = degreeDays({ meanAirTemp_C: cell.meanAirTemp_C, amplitude_C: cell.airAmplitude_C });
+  const nF = Number.isNaN(cell.nFreeze) ? s.ground.nFreeze : cell.nFreeze;
+  const nT = s.ground.nThaw;
+  const ttop = ttop_C({
+    freezingIndex_Cd: air.freezingIndex_Cd,
+    thawingIndex_Cd: air.thawingIndex_Cd,
+    nFreeze: nF,
+    nThaw: nT,
+    kThawed_W_mK: soil.kThawed,
+    kFrozen_W_mK: kF,
+  });
+  const alt =
+    air.thawingIndex_Cd > 0
+      ? stefanDepth_m({
+          conductivity_W_mK: soil.kThawed,
+          index_Cd: nT * air.thawingIndex_Cd,
+          latent_J_m3: soil.latent,
+        })
+      : 0;
+  m[M.activeLayer] = alt;
+
+  // 3. ground temperatures
+  const qg = Number.isNaN(cell.geothermalFlux_W_m2) ? s.ground.geothermalFlux_W_m2 : cell.geothermalFlux_W_m2;
+  const grad = qg / kF;
+  const zp = k.pileMidDepth_m;
+  const zr = s.referenceDepth_m;
+  const tPile = Number.isNaN(cell.groundTemp_C) ? ttop + grad * Math.max(0, zp - alt) : cell.groundTemp_C;
+  const tRef = Number.isNaN(cell.groundTemp_C)
+    ? ttop + grad * Math.max(0, zr - alt)
+    : tPile + grad * (zr - zp);
+  const alphaF = kF / soil.cFrozen;
+  const alphaYr = alphaF * SECONDS_PER_YEAR;
+  const b = cell.warming_C_per_yr;
+  const life = s.designLife_yr;
+  const lifeS = life * SECONDS_PER_YEAR;
+  const tPileEnd = tPile + rampWarming_K(k.tables, zp, life, b, alphaYr);
+  m[M.groundTemp] = tPile;
+  m[M.groundTempEnd] = tPileEnd;
+  m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
+  m[M.permafrostClassEnd] = permafrostClass(tPileEnd, s.permafrostClasses);
+
+  // 5. standard building
+  const bld = s.building;
+  const hdd = degreeDays({
+    meanAirTemp_C: cell.meanAirTemp_C - bld.balanceTemp_C,
+    amplitude_C: cell.airAmplitude_C,
+  }).freezingIndex_Cd;
+  const demand_kWh = (bld.heatLossCoefficient_W_K * hdd * 24) / 1000;
+  m[M.heatingDemand] = demand_kWh;
+  const coldMonth = cell.meanAirTemp_C - cell.airAmplitude_C;
+  const peak_W =
+    bld.heatLossCoefficient_W_K * Math.max(1, bld.balanceTemp_C - (coldMonth - bld.designMargin_K));
+  const avg_W = (demand_kWh * 1000) / HOURS_PER_YEAR;
+  const month_W = bld.heatLossCoefficient_W_K * Math.max(0, bld.balanceTemp_C - coldMonth);
+  const hp = s.heatPump;
+  const copDesign = copAt(hp, hp.minEnteringFluid_C);
+  const groundFactor = 1 - 1 / copDesign;
+
+  // 6. fluid bound, pile count, window
+  const H = s.pile.length_m;
+  const gLife = flsResponse(k.tables.pileMean, alphaF, lifeS);
+  const gMonth = flsResponse(k.tables.pileMean, alphaF, MONTH_S);
+  const annualFraction = avg_W / peak_W;
+  const qPeak = threePulsePeakPerPile_W({
+    groundTemp_C: tPile,
+    meanFluid_C: hp.minEnteringFluid_C + hp.fluidHalfDelta_K,
+    length_m: H,
+    radius_m: s.pile.radius_m,
+    resistance_mK_W: s.pile.resistance_mK_W,
+    conductivity_W_mK: kF,
+    diffusivity_m2_s: alphaF,
+    annualFraction,
+    monthlyFraction: month_W / peak_W,
+    gLife,
+    gMonth,
+  });
+  m[M.extractionPerPile] = annualFraction * qPeak;
+  m[M.pilesPerTon] = qPeak > 0 ? (TON_W * groundFactor) / qPeak : NaN;
+  const gRefLife = flsResponse(k.tables.referencePoint, alphaF, lifeS);
+  const w = operatingWindow(
+    {
+      referenceTemp_C: tRef,
+      warmingAtLife_K: rampWarming_K(k.tables, zr, life, b, alphaYr),
+      frozenMargin_K: s.frozenMargin_K,
+      overcooling_K: isFrostSusceptible(tex) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
+      conductivity_W_mK: kF,
+      gReferenceLife: gRefLife,
+      upperFluid_W_m: (annualFraction * qPeak) / H,
+      full_W_m: (avg_W * groundFactor) / (bld.foundationPiles * H),
+    },
+    x.window,
+  );
+  m[M.windowLower] = w.lower_W_m;
+  m[M.windowUpper] = w.upper_W_m;
+  m[M.windowUpperFluid] = w.upperFluid_W_m;
+  m[M.windowUpperOvercool] = w.upperOvercool_W_m;
+  m[M.loadShare] = w.loadShare;
+  m[M.bindingLimit] = w.binding;
+
+  // 4 + 7. thaw years
+  if (tRef < 0) {
+    const horizon = s.horizon_yr;
+    const t0 = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
+    const cP = w.carried_W_m / (2 * Math.PI * kF);
+    const tP = thawWithPiles(k, { tRef, t0, cP, b, alphaYr, alphaF, zr, horizon });
+    const t0c = Math.min(t0, horizon);
+    const tPc = Math.min(tP, horizon);
+    m[M.thawYear] = s.startYear + t0c;
+    m[M.thawYearPiles] = s.startYear + tPc;
+    m[M.thawDelay] = tPc - t0c;
+    m[M.frozenMargin] = tPc - life;
+  }
+
+  // 8. economics
+  const eft =
+    tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)) - hp.fluidHalfDelta_K;
+  const scop = copAt(hp, eft);
+  const heat_kWh = w.loadShare * demand_kWh;
+  m[M.seasonalCop] = scop;
+  m[M.fuelSaved] = fuelSavedKernel_L(k.econ, heat_kWh, scop);
+  m[M.co2Avoided] = co2AvoidedKernel_t(k.econ, heat_kWh, scop);
+  m[M.costSaved] = costSavedKernel(k.econ, heat_kWh, scop);
+  m[M.fuelIncrease] = scop < be.fuel ? 1 : 0;
+
+  // 9. exclusions and class
+  const u = s.suitability;
+  let excl: number = EXCLUSION.none;
+  if (tex === 6 || cell.bedrockDepth_m < u.minBedrockDepth_m) excl = EXCLUSION.bedrockShallow;
+  else if (!(tPile < 0)) excl = EXCLUSION.noPermafrost;
+  else if (alt >= zr) excl = EXCLUSION.alreadyThawed;
+  else if (!(w.upperFluid_W_m > 0)) excl = EXCLUSION.fluidLimit;
+  m[M.exclusion] = excl;
+  if (excl !== EXCLUSION.none) {
+    m[M.suitability] = 0;
+    return;
+  }
+  const wt = k.weights;
+  const score =
+    wt[0] * linearScore(tPile, u.coldness.good_C, u.coldness.poor_C) +
+    wt[1] * linearScore(m[M.pilesPerTon], u.pilesPerTon.good, u.pilesPerTon.poor) +
+    wt[2] * linearScore(m[M.frozenMargin], u.frozenMargin.good_yr, u.frozenMargin.poor_yr) +
+    wt[3] * linearScore(w.loadShare, u.loadShare.good, u.loadShare.poor) +
+    wt[4] * linearScore(m[M.thawStability], 1, 0) +
+    wt[5] * linearScore(m[M.fuelSaved], u.fuelSaved.good_L, u.fuelSaved.poor_L);
+  m[M.suitabilityScore] = score;
+  m[M.suitability] = suitabilityClass(score, u);
+}
+
+/** Temperature at the reference point minus 0 °C after t years with the piles operating. */
+function excessWithPiles(k: CellConstants, p: ThawSearch, t: number): number {
+  return (
+    p.tRef +
+    rampWarming_K(k.tables, p.zr, t, p.b, p.alphaYr) -
+    p.cP * flsResponse(k.tables.referencePoint, p.alphaF, t * SECONDS_PER_YEAR)
+  );
+}
+
+interface ThawSearch {
+  tRef: number;
+  t0: number;
+  cP: number;
+  b: number;
+  alphaYr: number;
+  alphaF: number;
+  zr: number;
+  horizon: number;
+}
+
+/**
+ * Years to thaw at the reference point with the piles operating (step 7): forward search from the
+ * no-pile thaw time with steps growing 1.6× (first step: the time the surface trend needs to make up
+ * the pile's cooling at t0), then the Illinois variant of regula falsi to 0.01 yr.
+ */
+function thawWithPiles(k: CellConstants, p: ThawSearch): number {
+  if (!Number.isFinite(p.t0)) return Infinity;
+  if (!(p.cP > 0)) return p.t0;
+  let lo = p.t0;
+  let fLo = excessWithPiles(k, p, lo);
+  if (fLo >= 0) return lo;
+  let dt = Math.max(0.25, -fLo / p.b);
+  let hi = Math.min(p.horizon, lo + dt);
+  let fHi = excessWithPiles(k, p, hi);
+  while (fHi < 0) {
+    if (hi >= p.horizon) return Infinity;
+    lo = hi;
+    fLo = fHi;
+    dt *= 1.6;
+    hi = Math.min(p.horizon, lo + dt);
+    fHi = excessWithPiles(k, p, hi);
+  }
+  let side = 0;
+  for (let i = 0; i < 40 && hi - lo > 0.01; i++) {
+    const t = (lo * fHi - hi * fLo) / (fHi - fLo);
+    const ft = excessWithPiles(k, p, t);
+    if (ft >= 0) {
+      hi = t;
+      fHi = ft;
+      if (side === 1) fLo /= 2;
+      side = 1;
+    } else {
+      lo = t;
+      fLo = ft;
+      if (side === -1) fHi /= 2;
+      side = -1;
+    }
+    if (Math.abs(ft) < 1e-6) return t;
+  }
+  return hi;
+}
