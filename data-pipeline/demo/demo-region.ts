@@ -137,7 +137,7 @@ export function createDemoRegion(seed: number): DemoRegion {
     else if (valley) texture = elevation_m > 180 ? 1 : 2;
     else if (elevation_m > 300) texture = soilNoise > 0.1 ? 1 : 3;
     else texture = soilNoise < -0.12 ? 5 : soilNoise < 0.22 ? 3 : 4;
-    const baseWater = [0, 0.15, 0.24, 0.5, 0.45, 0.8, 0.04][texture];
+    const baseWater = [0, 0.15, 0.24, 0.5, 0.45, 0.8, 0.025][texture];
     const lowland = 1 - clamp(elevation_m / 300, 0, 1);
     const waterContent_m3m3 = clamp(
       baseWater * (0.9 + 0.15 * lowland) + 0.04 * fractalNoise(dx / 9, dy / 9, seed + 5, 2),
