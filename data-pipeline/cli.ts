@@ -4,11 +4,12 @@
  * 2 bad input (one-line message naming the file or field, no stack trace).
  */
 import { buildCommand } from './commands/build';
+import { cellCommand } from './commands/cell';
 import type { Command } from './commands/command';
 import { demoDataCommand } from './commands/demo-data';
 import { InputError } from './input-error';
 
-export const COMMANDS: Command[] = [demoDataCommand, buildCommand];
+export const COMMANDS: Command[] = [demoDataCommand, buildCommand, cellCommand];
 
 export const EXIT_OK = 0;
 export const EXIT_INTERNAL = 1;
