@@ -64,6 +64,8 @@ export interface PileFieldSizingInput {
   peakDuration_h?: number;
   maxPiles?: number;
   method?: 'groupFls' | 'singlePileCylinder';
+  /** Compute the year-by-year fluid temperature (default true; false for a fast count only). */
+  includeLifeSeries?: boolean;
 }
 
 export type Pulse = 'annual' | 'monthly' | 'peak';
@@ -308,7 +310,10 @@ export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResul
     lowestFluid_C: design - 2 * p.halfLoopDrop_K,
     groundLoad_W: p.q,
     copPeak: p.copPeak,
-    fluidTemperature_C: lifeSeries(p, n),
+    fluidTemperature_C:
+      input.includeLifeSeries === false
+        ? { year: [], minEnteringFluid_C: [], designMonthMeanFluid_C: [] }
+        : lifeSeries(p, n),
     positions: layoutPositions({ count: n, layout: p.layout, pileRadius_m: p.rb }),
     method: p.method,
   };

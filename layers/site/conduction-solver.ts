@@ -1,0 +1,408 @@
+/**
+ * Implicit axisymmetric (r, z) finite-volume heat conduction with phase change (the site simulator core).
+ *
+ * Method. Cell balance over a time step Δt (backward Euler, fluxes at the new time):
+ *   V (H_i^{n+1} − H_i^n)/Δt = Σ_nb G_i,nb (T_nb − T_i) + boundary terms,
+ * with G the exact conductances of cylindrical shells in r, 2π Δz / (ln(r_f/r_c)/k_i + ln(r_c'/r_f)/k_j),
+ * and of half-cells in series in z. Phase change uses the enthalpy-conserving apparent-capacity scheme of
+ * Pham (1985, Int. J. Heat Mass Transfer 28:2079-2084): the capacity is the enthalpy secant between the
+ * old temperature and a linear extrapolation of the last two steps; the linear system is solved for T*,
+ * then the enthalpy is advanced by exactly C (T* − T^n) (which equals the flux divergence at T*) and the
+ * new temperature is T(H). Latent heat is therefore conserved to the linear-solver tolerance whatever the
+ * step, and the scheme stays stable for steps of days. Conductivities are taken at the old temperature.
+ * The linear system (5-point stencil, symmetric positive definite) is solved by alternating line
+ * Gauss-Seidel: tridiagonal (Thomas) solves along each row in r, then each column in z, repeated until
+ * the largest residual, expressed as a temperature, is below `tolerance_K`.
+ * Boundaries: surface temperature (Dirichlet through the top half-cell), a fixed upward heat flux at the
+ * bottom (geothermal), zero flux at the far radius, and at the inner radius (the pile wall) either zero
+ * flux or an `InnerBoundary` (pile rows) that supplies a conductance, a temperature and a heat rate per
+ * row, re-evaluated after every sweep so that the fluid and the ground converge together.
+ * Energy bookkeeping: every step adds the boundary heat flows at T* times Δt; the change of the stored
+ * enthalpy (sensible + latent) must match their sum (checked by `energyBalance`).
+ */
+import { choleskyFactor, choleskySolve, createBandMatrix } from './banded-cholesky';
+import type { SiteMesh } from './site-mesh';
+import {
+  apparentCapacity,
+  conductivityAt,
+  enthalpyAt,
+  temperatureAt,
+  type MaterialTable,
+} from './ground-enthalpy';
+
+/** Pile wall coupling for the first `rows` rows of the inner column (see module comment). */
+export interface InnerBoundary {
+  rows: number;
+  /** Conductance from the inner cell to the boundary temperature, W/K, per pile row. */
+  g_W_K: Float64Array;
+  /** Boundary (effective fluid) temperature, °C, per pile row. */
+  T_C: Float64Array;
+  /** Additional heat rate into the inner cell, W, per pile row. */
+  q_W: Float64Array;
+  /** Called once at the start of each step with the time at its end. */
+  beginStep(time_s: number, dt_s: number): void;
+  /**
+   * Called after each sweep with the current inner-cell temperatures (length `rows`) and the per-metre
+   * conductance of the half cell between the pile wall and the cell centre, W/m·K. Updates g, T, q and
+   * returns the largest change of T_C made (K).
+   */
+  update(innerT_C: Float64Array, halfCell_W_mK: Float64Array): number;
+  /** Called once the step is accepted, with the step length. */
+  endStep(dt_s: number): void;
+}
+
+export interface ConductionSetup {
+  mesh: SiteMesh;
+  materials: MaterialTable;
+  /** Material index for each row (layers are horizontal). */
+  rowMaterial: ArrayLike<number>;
+  surfaceTemperature_C: (time_s: number) => number;
+  /** Geothermal heat flux entering through the bottom, W/m² (positive upward, into the domain). */
+  bottomFlux_W_m2: number;
+  /** Initial temperature per row (length nz, same in every column) or per cell (length nr*nz). */
+  initialT_C: ArrayLike<number>;
+  inner: InnerBoundary | null;
+  tolerance_K?: number;
+  maxSweeps?: number;
+  /** Re-linearisations of the capacity per step (1 = Pham's single pass). */
+  phaseIterations?: number;
+  phaseTolerance_K?: number;
+}
+
+export interface EnergyLedger {
+  /** Heat into the ground through the surface, bottom and pile wall, J (sums over the run). */
+  surface_J: number;
+  bottom_J: number;
+  pile_J: number;
+  /** Sum of |heat flow| × Δt over all boundaries and steps, J (the denominator of the relative error). */
+  gross_J: number;
+}
+
+export interface ConductionSolver {
+  mesh: SiteMesh;
+  /** Cell temperatures, row-major (index j * nr + i), °C. */
+  T: Float64Array;
+  /** Volumetric enthalpy per cell, J/m³. */
+  H: Float64Array;
+  volume_m3: Float64Array;
+  time_s: number;
+  ledger: EnergyLedger;
+  /** Total linear solves (back-substitutions) so far (for benchmarks). */
+  sweeps: number;
+  /** Total band rows re-factored so far (n per full factorisation; for benchmarks). */
+  refactoredRows: number;
+  /** Steps whose pile-coupling iteration stopped at maxSweeps before reaching the tolerance. */
+  unconverged: number;
+  step(dt_s: number): void;
+  /** Stored enthalpy, J. */
+  storedEnergy_J(): number;
+}
+
+/** Creates a solver in its initial state (time 0). Allocates everything once; `step` allocates nothing. */
+export function createConductionSolver(s: ConductionSetup): ConductionSolver {
+  const { mesh, materials } = s;
+  const { nr, nz, rFaces_m: rf, zFaces_m: zf, rCentres_m: rc } = mesh;
+  const n = nr * nz;
+  const tol = s.tolerance_K ?? 1e-4;
+  const maxSweeps = s.maxSweeps ?? 200;
+  const phaseIterations = s.phaseIterations ?? 1;
+  const phaseTolerance_K = s.phaseTolerance_K ?? 1e-3;
+  const mat = Int32Array.from(s.rowMaterial);
+  if (mat.length !== nz) throw new RangeError(`rowMaterial must have ${nz} entries; received ${mat.length}`);
+
+  const dz = new Float64Array(nz);
+  for (let j = 0; j < nz; j++) dz[j] = zf[j + 1] - zf[j];
+  const Az = new Float64Array(nr);
+  const gOut = new Float64Array(nr); // ln(rf[i+1]/rc[i]) / 2π
+  const gIn = new Float64Array(nr); // ln(rc[i]/rf[i]) / 2π
+  for (let i = 0; i < nr; i++) {
+    Az[i] = Math.PI * (rf[i + 1] * rf[i + 1] - rf[i] * rf[i]);
+    gOut[i] = Math.log(rf[i + 1] / rc[i]) / (2 * Math.PI);
+    gIn[i] = Math.log(rc[i] / rf[i]) / (2 * Math.PI);
+  }
+  const V = new Float64Array(n);
+  for (let j = 0; j < nz; j++) for (let i = 0; i < nr; i++) V[j * nr + i] = Az[i] * dz[j];
+
+  const T = new Float64Array(n);
+  if (s.initialT_C.length === nz) {
+    for (let j = 0; j < nz; j++) T.fill(s.initialT_C[j], j * nr, (j + 1) * nr);
+  } else if (s.initialT_C.length === n) {
+    T.set(s.initialT_C);
+  } else {
+    throw new RangeError(`initialT_C must have ${nz} or ${n} entries; received ${s.initialT_C.length}`);
+  }
+  const H = new Float64Array(n);
+  for (let c = 0; c < n; c++) H[c] = enthalpyAt(materials, mat[(c / nr) | 0], T[c]);
+  const Tprev = Float64Array.from(T);
+  const Told = new Float64Array(n);
+  const Tguess = new Float64Array(n);
+  const k = new Float64Array(n);
+  const cap = new Float64Array(n); // C V / Δt, W/K
+  const aP = new Float64Array(n);
+  const rhs = new Float64Array(n);
+  const Gr = new Float64Array(Math.max(1, nz * (nr - 1)));
+  const Gz = new Float64Array(Math.max(1, (nz - 1) * nr));
+  const Gs = new Float64Array(nr);
+  const inner = s.inner;
+  const np = inner ? Math.min(inner.rows, nz) : 0;
+  const innerT = new Float64Array(Math.max(1, np));
+  const gUsed = new Float64Array(Math.max(1, np));
+  const TbcUsed = new Float64Array(Math.max(1, np));
+  const qUsed = new Float64Array(Math.max(1, np));
+  const rPrev = new Float64Array(Math.max(1, np));
+  const fPrev = new Float64Array(Math.max(1, np));
+  const A = createBandMatrix(n, nr);
+  const lastDiag = new Float64Array(n);
+  const lastLeft = new Float64Array(n);
+  const lastDown = new Float64Array(n);
+  let factored = false;
+  const x = new Float64Array(n);
+  const halfCell = new Float64Array(Math.max(1, np));
+  const qBottom = s.bottomFlux_W_m2;
+  const ledger: EnergyLedger = { surface_J: 0, bottom_J: 0, pile_J: 0, gross_J: 0 };
+
+  function updateInner(): number {
+    if (!inner) return 0;
+    for (let j = 0; j < np; j++) {
+      innerT[j] = T[j * nr];
+      halfCell[j] = k[j * nr] / gIn[0];
+    }
+    return inner.update(innerT, halfCell);
+  }
+
+  function assemble(dt_s: number, Tsurf: number): void {
+    for (let j = 0; j < nz; j++) {
+      const mj = mat[j];
+      for (let i = 0; i < nr; i++) {
+        const c = j * nr + i;
+        const C = apparentCapacity(materials, mj, Told[c], Tguess[c]);
+        cap[c] = (C * V[c]) / dt_s;
+        let diag = cap[c];
+        let b = cap[c] * Told[c];
+        if (i > 0) diag += Gr[j * (nr - 1) + i - 1];
+        if (i < nr - 1) diag += Gr[j * (nr - 1) + i];
+        if (j > 0) diag += Gz[c - nr];
+        if (j < nz - 1) diag += Gz[c];
+        else b += qBottom * Az[i];
+        if (j === 0) {
+          diag += Gs[i];
+          b += Gs[i] * Tsurf;
+        }
+        aP[c] = diag;
+        rhs[c] = b;
+      }
+    }
+  }
+
+  /**
+   * Assembles the band matrix (with the pile conductances of the moment) and factors it. Band rows are
+   * numbered from the bottom row of the mesh upwards (b = (nz − 1 − j)·nr + i), so that the rows that
+   * change most often (the active layer near the surface) come last: only band rows from the first
+   * changed one on are re-factored.
+   */
+  function factor(): void {
+    const a = A.band;
+    const w = nr + 1;
+    let from = factored ? n : 0;
+    for (let j = 0; j < nz; j++) {
+      for (let i = 0; i < nr; i++) {
+        const c = j * nr + i;
+        const b = (nz - 1 - j) * nr + i;
+        let diag = aP[c];
+        if (i === 0 && j < np) diag += inner!.g_W_K[j];
+        const left = i > 0 ? -Gr[j * (nr - 1) + i - 1] : 0;
+        const down = j < nz - 1 ? -Gz[c] : 0;
+        if (b < from && (diag !== lastDiag[b] || left !== lastLeft[b] || down !== lastDown[b])) from = b;
+        lastDiag[b] = diag;
+        lastLeft[b] = left;
+        lastDown[b] = down;
+      }
+    }
+    for (let j = 0; j < np; j++) gUsed[j] = inner!.g_W_K[j];
+    if (from >= n) return;
+    for (let b = from; b < n; b++) {
+      const r0 = b * w - b + nr; // a[r0 + col] = A(b, col)
+      for (let q = 0; q <= nr; q++) a[b * w + q] = 0;
+      a[r0 + b] = lastDiag[b];
+      if (b % nr > 0) a[r0 + b - 1] = lastLeft[b];
+      if (b >= nr) a[r0 + b - nr] = lastDown[b];
+    }
+    choleskyFactor(A, from);
+    factored = true;
+    solver.refactoredRows += n - from;
+  }
+
+  function solveOnce(): void {
+    for (let j = 0; j < nz; j++) {
+      const c = j * nr;
+      const b = (nz - 1 - j) * nr;
+      for (let i = 0; i < nr; i++) x[b + i] = rhs[c + i];
+    }
+    for (let j = 0; j < np; j++) {
+      TbcUsed[j] = inner!.T_C[j];
+      qUsed[j] = inner!.q_W[j];
+      x[(nz - 1 - j) * nr] += gUsed[j] * TbcUsed[j] + qUsed[j];
+    }
+    choleskySolve(A, x);
+    for (let j = 0; j < nz; j++) {
+      const c = j * nr;
+      const b = (nz - 1 - j) * nr;
+      for (let i = 0; i < nr; i++) T[c + i] = x[b + i];
+    }
+    solver.sweeps++;
+  }
+
+  /**
+   * Direct solve (banded Cholesky, bandwidth nr), then fixed-point iteration with the pile loop: the
+   * loop updates its boundary temperatures from the new field and the system is re-solved (re-factored
+   * only if the loop's conductances changed, e.g. the pump switched) until they move less than tol.
+   */
+  function solveLinear(): boolean {
+    factor();
+    solveOnce();
+    if (!inner) return true;
+    let history = false;
+    for (let it = 0; it < maxSweeps; it++) {
+      updateInner();
+      // Residual of the fixed point x = F(x) on the boundary temperatures: F from the loop, x as used.
+      let worst = 0;
+      let refactor = false;
+      for (let j = 0; j < np; j++) {
+        const r = inner.T_C[j] - TbcUsed[j];
+        if (Math.abs(r) > worst) worst = Math.abs(r);
+        if (inner.g_W_K[j] !== gUsed[j]) refactor = true;
+      }
+      if (worst < tol && !refactor) return true;
+      if (refactor) {
+        factor();
+        history = false;
+      } else {
+        // Anderson mixing of depth 1 (a secant step), which converges a linear fixed point in a few steps.
+        let num = 0;
+        let den = 0;
+        for (let j = 0; j < np; j++) {
+          const r = inner.T_C[j] - TbcUsed[j];
+          const dr = r - rPrev[j];
+          if (history) {
+            num += r * dr;
+            den += dr * dr;
+          }
+          rPrev[j] = r;
+        }
+        const theta = history && den > 0 ? num / den : 0;
+        for (let j = 0; j < np; j++) {
+          const f = inner.T_C[j];
+          if (theta !== 0) inner.T_C[j] = f - theta * (f - fPrev[j]);
+          fPrev[j] = f;
+        }
+        history = true;
+      }
+      solveOnce();
+    }
+    return false;
+  }
+
+  const solver: ConductionSolver = {
+    mesh,
+    T,
+    H,
+    volume_m3: V,
+    time_s: 0,
+    ledger,
+    sweeps: 0,
+    refactoredRows: 0,
+    unconverged: 0,
+    storedEnergy_J() {
+      // Recomputed from the temperatures (an independent path from the incremental H updates).
+      let e = 0;
+      for (let c = 0; c < n; c++) e += V[c] * enthalpyAt(materials, mat[(c / nr) | 0], T[c]);
+      return e;
+    },
+    step(dt_s: number) {
+      const t1 = solver.time_s + dt_s;
+      const Tsurf = s.surfaceTemperature_C(t1);
+      for (let j = 0; j < nz; j++) {
+        const mj = mat[j];
+        for (let i = 0; i < nr; i++) {
+          const c = j * nr + i;
+          k[c] = conductivityAt(materials, mj, T[c]);
+        }
+      }
+      for (let j = 0; j < nz; j++) {
+        for (let i = 0; i < nr - 1; i++) {
+          const c = j * nr + i;
+          Gr[j * (nr - 1) + i] = dz[j] / (gOut[i] / k[c] + gIn[i + 1] / k[c + 1]);
+        }
+        if (j < nz - 1) {
+          for (let i = 0; i < nr; i++) {
+            const c = j * nr + i;
+            Gz[c] = Az[i] / ((0.5 * dz[j]) / k[c] + (0.5 * dz[j + 1]) / k[c + nr]);
+          }
+        }
+      }
+      for (let i = 0; i < nr; i++) Gs[i] = Az[i] / ((0.5 * dz[0]) / k[i]);
+      Told.set(T);
+      if (inner) inner.beginStep(t1, dt_s);
+      for (let c = 0; c < n; c++) {
+        Tguess[c] = 2 * Told[c] - Tprev[c];
+        T[c] = Tguess[c];
+      }
+      let converged = false;
+      for (let outer = 0; outer < phaseIterations; outer++) {
+        assemble(dt_s, Tsurf);
+        if (outer === 0) updateInner();
+        converged = solveLinear();
+        // Re-linearise: the secant capacity of each cell between T^n and the new T*.
+        let change = 0;
+        for (let c = 0; c < n; c++) {
+          const d = Math.abs(T[c] - Tguess[c]);
+          if (d > change) change = d;
+          Tguess[c] = T[c];
+        }
+        if (change < phaseTolerance_K) break;
+      }
+      if (!converged) solver.unconverged++;
+      // Boundary heat flows at T*, W (into the ground).
+      let qs = 0;
+      for (let i = 0; i < nr; i++) qs += Gs[i] * (Tsurf - T[i]);
+      let qb = 0;
+      for (let i = 0; i < nr; i++) qb += qBottom * Az[i];
+      let qp = 0;
+      for (let j = 0; j < np; j++) qp += gUsed[j] * (TbcUsed[j] - T[j * nr]) + qUsed[j];
+      ledger.surface_J += qs * dt_s;
+      ledger.bottom_J += qb * dt_s;
+      ledger.pile_J += qp * dt_s;
+      ledger.gross_J += (Math.abs(qs) + Math.abs(qb) + Math.abs(qp)) * dt_s;
+      // Enthalpy update and latent correction (Pham 1985).
+      for (let j = 0; j < nz; j++) {
+        const mj = mat[j];
+        for (let i = 0; i < nr; i++) {
+          const c = j * nr + i;
+          H[c] += (cap[c] * dt_s * (T[c] - Told[c])) / V[c];
+          T[c] = temperatureAt(materials, mj, H[c]);
+        }
+      }
+      Tprev.set(Told);
+      if (inner) inner.endStep(dt_s);
+      solver.time_s = t1;
+    },
+  };
+  return solver;
+}
+
+/**
+ * Relative energy-balance error of a run: |ΔE_stored − E_boundaries| / E_gross, where ΔE_stored is the
+ * change of Σ V·H(T) (sensible + latent) between the start and now, E_boundaries the net heat that
+ * entered through the surface, bottom and pile wall, and E_gross the sum of |heat flow|·Δt over all
+ * boundaries and steps.
+ */
+export function energyBalance(
+  initialStored_J: number,
+  solver: ConductionSolver,
+): { stored_J: number; boundaries_J: number; relativeError: number } {
+  const stored = solver.storedEnergy_J() - initialStored_J;
+  const L = solver.ledger;
+  const boundaries = L.surface_J + L.bottom_J + L.pile_J;
+  const denom = Math.max(L.gross_J, 1e-30);
+  return { stored_J: stored, boundaries_J: boundaries, relativeError: Math.abs(stored - boundaries) / denom };
+}

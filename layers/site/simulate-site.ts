@@ -1,0 +1,359 @@
+/**
+ * `simulateSite`: one site simulated twice over the same years, without and with the pile, in lockstep.
+ *
+ * Without the pile every column sees the same surface, bottom and (zero) radial boundary conditions, so
+ * the field is one-dimensional: that case runs on a single column with the same rows (exactly the
+ * far-field column of a pile-free (r, z) run). With the pile the (r, z) mesh of `buildSiteMesh` is
+ * coupled to the pile loop (pile-loop.ts, site-operation.ts). Both start from the same initial state
+ * (site-setup.ts) and use the same surface forcing (n-factored sinusoid plus linear warming,
+ * surface-forcing.ts) and geothermal flux; the solver is conduction-solver.ts.
+ * Reporting: probes (bilinear between cell centres), the year each probe first reaches its freezing
+ * point (interpolated within the step) and the delay the pile buys, the thaw depth on the far-field
+ * column (permafrost table, see SiteCaseResult), monthly fluid temperatures and energy, the lowest fluid
+ * temperature, the volume the pile freezes that was unfrozen at the start (end of each winter), and the
+ * energy balance of each case, with a warning above 0.5 %.
+ * Pure: no I/O; `onProgress` and `shouldCancel` let a Web Worker or the CLI report and stop.
+ */
+import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../cautions';
+import { requireFluidAbove } from '../physics/fluids';
+import { SECONDS_PER_DAY, SECONDS_PER_YEAR, surfaceTemperature_C } from '../physics/surface-forcing';
+import { createConductionSolver, energyBalance, type ConductionSolver } from './conduction-solver';
+import { liquidFractionAt } from './ground-enthalpy';
+import {
+  formatSiteInputIssues,
+  siteInputSchema,
+  type SiteInput,
+  type SiteInputDraft,
+} from './site-input-schema';
+import { rowsAbove } from './site-mesh';
+import { createSiteLoop, type SiteLoop } from './site-operation';
+import {
+  createPermafrostTableTracker,
+  probeStencil,
+  probeTemperature,
+  type ProbeStencil,
+} from './site-probes';
+import type { SiteCaseResult, SiteEnergyBalance, SiteFluidResult, SiteResult } from './site-result';
+import { buildMeshes, initialState, resolveGround, rowMaterials, surfaceForcing } from './site-setup';
+
+export interface SimulateSiteOptions {
+  onProgress?(fraction: number): void;
+  shouldCancel?(): boolean;
+}
+
+export class SiteCancelledError extends Error {
+  constructor() {
+    super('site simulation cancelled');
+    this.name = 'SiteCancelledError';
+  }
+}
+
+const round4 = (x: number): number => Math.round(x * 1e4) / 1e4;
+
+interface CaseRun {
+  solver: ConductionSolver;
+  stencils: ProbeStencil[];
+  lastProbeT: Float64Array;
+  thawTime_s: (number | null)[];
+  tracker: ReturnType<typeof createPermafrostTableTracker>;
+  trackerStride: number;
+  trackerOffset: number;
+  out: SiteCaseResult;
+  stored0: number;
+}
+
+/** Validates `draft` (throws RangeError listing every issue with its path) and runs the simulation. */
+export function simulateSite(
+  draft: SiteInputDraft | SiteInput,
+  options: SimulateSiteOptions = {},
+): SiteResult {
+  const parsed = siteInputSchema.safeParse(draft);
+  if (!parsed.success) {
+    throw new RangeError(`invalid site input: ${formatSiteInputIssues(parsed.error).join('; ')}`);
+  }
+  const input = parsed.data;
+  const ground = resolveGround(input);
+  const meshes = buildMeshes(input, ground);
+  const rowMat = rowMaterials(meshes.pile, ground.bottoms_m);
+  const init = initialState(input, ground, meshes.column, rowMat);
+  const surface = surfaceForcing(input, true);
+  const tol = input.numerics.tolerance_K ?? 1e-3;
+  const q = input.ground.geothermalFlux_W_m2;
+  const warnings: string[] = [];
+  const year = SECONDS_PER_YEAR;
+
+  const makeCase = (solver: ConductionSolver, stride: number, offset: number): CaseRun => {
+    const mesh = solver.mesh;
+    const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
+    const lastProbeT = Float64Array.from(stencils.map((s) => probeTemperature(s, solver.T)));
+    return {
+      solver,
+      stencils,
+      lastProbeT,
+      thawTime_s: stencils.map((s, i) => (lastProbeT[i] >= s.freezingPoint_C ? 0 : null)),
+      tracker: createPermafrostTableTracker(mesh, ground.table, rowMat, year, init.lastThawed_s),
+      trackerStride: stride,
+      trackerOffset: offset,
+      stored0: solver.storedEnergy_J(),
+      out: {
+        time_yr: [],
+        thawDepth_m: [],
+        annualThawDepth_m: [],
+        probes: input.probes.map((p) => ({ r_m: p.r_m, z_m: p.z_m, T_C: [], thawYear: null })),
+        energyBalance: {} as SiteEnergyBalance,
+        unconvergedSteps: 0,
+      },
+    };
+  };
+
+  const noPileSolver = createConductionSolver({
+    mesh: meshes.column,
+    materials: ground.table,
+    rowMaterial: rowMat,
+    surfaceTemperature_C: surface,
+    bottomFlux_W_m2: q,
+    initialT_C: init.rowT_C,
+    inner: null,
+    tolerance_K: tol,
+  });
+  const cases: CaseRun[] = [makeCase(noPileSolver, 1, 0)];
+  let siteLoop: SiteLoop | null = null;
+  if (input.pile) {
+    const pileRows = rowsAbove(meshes.pile, input.pile.topDepth_m + input.pile.length_m);
+    const c = input.climate;
+    const air = (time_s: number) =>
+      surfaceTemperature_C({
+        meanAirTemp_C: c.meanAirTemp_C,
+        amplitude_C: c.amplitude_C,
+        nFreeze: 1,
+        nThaw: 1,
+        time_s,
+        trend: { kind: 'linear', rate_C_per_yr: c.warming_C_per_yr },
+        coldestDay: c.coldestDay,
+      });
+    siteLoop = createSiteLoop(input, meshes.pile, pileRows, air);
+    const solver = createConductionSolver({
+      mesh: meshes.pile,
+      materials: ground.table,
+      rowMaterial: rowMat,
+      surfaceTemperature_C: surface,
+      bottomFlux_W_m2: q,
+      initialT_C: init.rowT_C,
+      inner: siteLoop.loop,
+      tolerance_K: tol,
+    });
+    cases.push(makeCase(solver, meshes.pile.nr, meshes.pile.nr - 1));
+  }
+
+  // Over-cooling bookkeeping: end of winter = the day the air (and surface) temperature turns positive.
+  const c = input.climate;
+  const ratio = c.meanAirTemp_C / Math.max(c.amplitude_C, 1e-9);
+  const endOfWinterDay =
+    Math.abs(ratio) < 1 ? c.coldestDay + (365 * Math.acos(ratio)) / (2 * Math.PI) : c.coldestDay + 365 / 2;
+  const pileCase = cases[1];
+  const unfrozenAtStart = pileCase
+    ? Uint8Array.from(pileCase.solver.T, (T, cell) =>
+        liquidFractionAt(ground.table, rowMat[(cell / meshes.pile.nr) | 0], T) > 0.5 ? 1 : 0,
+      )
+    : null;
+  const overCooling = { year: [] as number[], frozenByPile_m3: [] as number[] };
+
+  // Fluid bookkeeping by month.
+  const months = input.years * 12;
+  const runTime = new Float64Array(months);
+  const inletInt = new Float64Array(months);
+  const outletInt = new Float64Array(months);
+  const extracted = new Float64Array(months);
+  const delivered = new Float64Array(months);
+  const demanded = new Float64Array(months);
+  let lowest = Infinity;
+  let lowestAt = NaN;
+
+  const total = input.years * year;
+  const steps = Math.ceil(total / (input.timeStep_days * SECONDS_PER_DAY) - 1e-9);
+  const dt = total / steps;
+  const outputEvery = input.outputStep_days * SECONDS_PER_DAY;
+  let nextOutput = 0;
+  let nextYearEnd = year;
+  let nextWinter = endOfWinterDay * SECONDS_PER_DAY;
+  let winterYear = 1;
+
+  const record = (run: CaseRun, t: number) => {
+    run.out.time_yr.push(round4(t / year));
+    run.out.thawDepth_m.push(round4(run.tracker.depth_m(t)));
+    run.stencils.forEach((s, i) => run.out.probes[i].T_C.push(round4(probeTemperature(s, run.solver.T))));
+  };
+  for (const run of cases) {
+    run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, 0);
+    record(run, 0);
+  }
+  nextOutput = outputEvery;
+
+  let lastProgress = -1;
+  for (let s = 1; s <= steps; s++) {
+    if (options.shouldCancel && (s & 15) === 0 && options.shouldCancel()) throw new SiteCancelledError();
+    const t = s * dt;
+    for (const run of cases) {
+      run.solver.step(dt);
+      run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, t);
+      run.stencils.forEach((st, i) => {
+        const Tp = probeTemperature(st, run.solver.T);
+        if (run.thawTime_s[i] === null && Tp >= st.freezingPoint_C) {
+          const prev = run.lastProbeT[i];
+          const frac = Tp > prev ? (st.freezingPoint_C - prev) / (Tp - prev) : 1;
+          run.thawTime_s[i] = t - dt + Math.min(1, Math.max(0, frac)) * dt;
+        }
+        run.lastProbeT[i] = Tp;
+      });
+    }
+    if (siteLoop) {
+      const loop = siteLoop.loop;
+      const m = Math.min(months - 1, Math.floor((t - dt / 2) / (year / 12)));
+      if (loop.running) {
+        runTime[m] += dt;
+        inletInt[m] += loop.inlet_C * dt;
+        outletInt[m] += loop.outlet_C * dt;
+        extracted[m] += loop.extraction_W * dt;
+        const low = Math.min(loop.inlet_C, loop.outlet_C);
+        if (low < lowest) {
+          lowest = low;
+          lowestAt = t / year;
+        }
+      }
+      const dem = siteLoop.demand_W();
+      if (Number.isFinite(dem)) {
+        demanded[m] += dem * dt;
+        delivered[m] += siteLoop.delivered_W() * dt;
+      }
+    }
+    if (pileCase && unfrozenAtStart && t >= nextWinter - dt / 2) {
+      const pm = meshes.pile;
+      let vol = 0;
+      for (let j = 0; j < pm.nz; j++) {
+        const mj = rowMat[j];
+        if (liquidFractionAt(ground.table, mj, noPileSolver.T[j]) <= 0.5) continue;
+        for (let i = 0; i < pm.nr; i++) {
+          const cell = j * pm.nr + i;
+          if (unfrozenAtStart[cell] && liquidFractionAt(ground.table, mj, pileCase.solver.T[cell]) <= 0.5) {
+            vol += pileCase.solver.volume_m3[cell];
+          }
+        }
+      }
+      overCooling.year.push(winterYear);
+      overCooling.frozenByPile_m3.push(round4(vol));
+      winterYear++;
+      nextWinter += year;
+    }
+    if (t >= nextYearEnd - dt / 2) {
+      for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.depth_m(t)));
+      nextYearEnd += year;
+    }
+    if (t >= nextOutput - dt / 2) {
+      for (const run of cases) record(run, t);
+      nextOutput += outputEvery;
+    }
+    const progress = Math.floor((100 * s) / steps);
+    if (options.onProgress && progress !== lastProgress) {
+      lastProgress = progress;
+      options.onProgress(s / steps);
+    }
+  }
+
+  let worst = 0;
+  for (const run of cases) {
+    const eb = energyBalance(run.stored0, run.solver);
+    const L = run.solver.ledger;
+    run.out.energyBalance = {
+      stored_J: eb.stored_J,
+      boundaries_J: eb.boundaries_J,
+      surface_J: L.surface_J,
+      bottom_J: L.bottom_J,
+      pile_J: L.pile_J,
+      relativeError: eb.relativeError,
+    };
+    run.out.unconvergedSteps = run.solver.unconverged;
+    run.out.probes.forEach((p, i) => {
+      const tt = run.thawTime_s[i];
+      p.thawYear = tt === null ? null : round4(tt / year);
+    });
+    worst = Math.max(worst, eb.relativeError);
+    if (run.solver.unconverged > 0) {
+      warnings.push(`${run.solver.unconverged} time steps stopped at the linear-solver sweep limit`);
+    }
+  }
+  if (worst > 0.005) {
+    warnings.push(
+      `energy balance error ${(worst * 100).toFixed(2)} % exceeds 0.5 %: refine the time step or mesh`,
+    );
+  }
+
+  const noPile = cases[0].out;
+  const withPile = pileCase ? pileCase.out : null;
+  const thawDelay_yr: (number | null)[] = [];
+  const lowerBound: boolean[] = [];
+  input.probes.forEach((_, i) => {
+    const a = noPile.probes[i].thawYear;
+    const b = withPile ? withPile.probes[i].thawYear : null;
+    if (a === null && b === null) {
+      thawDelay_yr.push(null);
+      lowerBound.push(false);
+    } else if (a !== null && b === null) {
+      thawDelay_yr.push(withPile ? round4(input.years - a) : null);
+      lowerBound.push(withPile !== null);
+    } else {
+      thawDelay_yr.push(round4((b ?? input.years) - (a ?? input.years)));
+      lowerBound.push(false);
+    }
+  });
+
+  let fluid: SiteFluidResult | null = null;
+  if (siteLoop && input.pile) {
+    const kWh = (j: number) => round4(j / 3.6e6);
+    const building = input.operation.mode === 'building';
+    fluid = {
+      month_yr: Array.from({ length: months }, (_, m) => round4(m / 12)),
+      inlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(inletInt[m] / r) : null)),
+      outlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(outletInt[m] / r) : null)),
+      extracted_kWh: Array.from(extracted, kWh),
+      delivered_kWh: building ? Array.from(delivered, kWh) : null,
+      unmet_kWh: building ? Array.from(demanded, (d, m) => kWh(Math.max(0, d - delivered[m]))) : null,
+      lowest_C: Number.isFinite(lowest) ? round4(lowest) : null,
+      lowestAt_yr: Number.isFinite(lowest) ? round4(lowestAt) : null,
+      Rb_mK_W: round4(siteLoop.Rb_mK_W),
+      Ra_mK_W: round4(siteLoop.Ra_mK_W),
+      flow_L_min: siteLoop.flow_L_min,
+    };
+    if (Number.isFinite(lowest)) {
+      const f = input.pile.fluid;
+      try {
+        requireFluidAbove({
+          fluid: f.name,
+          massFraction: f.name === 'water' ? 0 : f.massFraction,
+          lowestTemperature_C: lowest,
+          margin_K: 0,
+        });
+      } catch (e) {
+        warnings.push(`pile.fluid: ${(e as Error).message}`);
+      }
+    }
+  }
+
+  return {
+    noPile,
+    withPile,
+    thawDelay_yr,
+    thawDelayIsLowerBound: lowerBound,
+    energyBalance: { relativeError: worst },
+    fluid,
+    overCooling: pileCase ? { ...overCooling, endOfWinterDay: round4(endOfWinterDay % 365) } : null,
+    mesh: {
+      nr: meshes.pile.nr,
+      nz: meshes.pile.nz,
+      timeSteps: steps,
+      radius_m: input.domain.radius_m,
+      depth_m: input.domain.depth_m,
+    },
+    warnings,
+    cautions: [SCREENING_CAUTION, ...GROUND_CAUTIONS],
+  };
+}

@@ -1,0 +1,225 @@
+/**
+ * Turns a validated `SiteInput` into the solver's ingredients: layer materials (soil descriptions
+ * resolved by the soil catalogue), the graded meshes, the surface forcing, the initial state and the
+ * pile loop with its operating controller.
+ *
+ * Equilibrium initial state: the steady profile below the temperature at the top of permafrost,
+ * T(z) = TTOP + ∫ q/k dz (Smith & Riseborough 2002 TTOP with the first layer's conductivity ratio,
+ * geothermal gradient q/k with the frozen or thawed k of each layer), then a spin-up of the ground
+ * column under the starting climate (no trend) for `SPIN_UP_YEARS`, so the active layer and the upper
+ * tens of metres carry the periodic state. The deepest part keeps the steady gradient.
+ */
+import { soilThermalProperties } from '../physics/soil-catalogue';
+import { degreeDays, surfaceTemperature_C, SECONDS_PER_DAY } from '../physics/surface-forcing';
+import { ttop_C } from '../physics/ttop';
+import { createConductionSolver } from './conduction-solver';
+import { liquidFractionAt, materialTable, type GroundMaterial, type MaterialTable } from './ground-enthalpy';
+import type { SiteInput } from './site-input-schema';
+import { SITE_DEFAULTS } from './site-input-schema';
+import { buildSiteMesh, meshFromFaces, type SiteMesh } from './site-mesh';
+
+export const SPIN_UP_YEARS = 30;
+
+/** Mesh presets by fidelity (model choices; `numerics` fields override). */
+export const MESH_PRESETS = {
+  coarse: {
+    firstRadialStep_m: 0.05,
+    radialGrowth: 1.5,
+    firstVerticalStep_m: 0.2,
+    verticalGrowth: 1.4,
+    pileStep_m: 1,
+    farStep_m: 10,
+  },
+  standard: {
+    firstRadialStep_m: 0.03,
+    radialGrowth: 1.4,
+    firstVerticalStep_m: 0.1,
+    verticalGrowth: 1.3,
+    pileStep_m: 0.5,
+    farStep_m: 5,
+  },
+  fine: {
+    firstRadialStep_m: 0.01,
+    radialGrowth: 1.15,
+    firstVerticalStep_m: 0.05,
+    verticalGrowth: 1.12,
+    pileStep_m: 0.25,
+    farStep_m: 2.5,
+  },
+} as const;
+
+export interface SiteGround {
+  layers: GroundMaterial[];
+  /** Bottom of each layer, m (the last one extended to the domain depth). */
+  bottoms_m: number[];
+  table: MaterialTable;
+}
+
+/** Resolves each layer to frozen/thawed properties (explicit values or the soil catalogue). */
+export function resolveGround(input: SiteInput): SiteGround {
+  const layers = input.ground.layers.map((layer, i): GroundMaterial => {
+    const w = layer.freezingInterval_K ?? SITE_DEFAULTS.freezingInterval_K.value;
+    if (layer.soil) {
+      let p;
+      try {
+        p = soilThermalProperties({
+          texture: layer.soil.texture,
+          waterContent_m3m3: layer.soil.waterContent_m3m3,
+          dryDensity_kg_m3: layer.soil.dryDensity_kg_m3,
+          quartzFraction: layer.soil.quartzFraction,
+          specificSurface_m2_g: layer.soil.specificSurface_m2_g,
+        });
+      } catch (e) {
+        throw new RangeError(`ground.layers.${i}.soil: ${(e as Error).message}`);
+      }
+      return {
+        kFrozen_W_mK: p.kFrozen_W_mK,
+        kThawed_W_mK: p.kThawed_W_mK,
+        cFrozen_J_m3K: p.cFrozen_J_m3K,
+        cThawed_J_m3K: p.cThawed_J_m3K,
+        latent_J_m3: p.latent_J_m3,
+        freezingPoint_C: p.freezingPoint_C,
+        freezingInterval_K: w,
+      };
+    }
+    return {
+      kFrozen_W_mK: layer.kFrozen_W_mK!,
+      kThawed_W_mK: layer.kThawed_W_mK!,
+      cFrozen_J_m3K: layer.cFrozen_J_m3K!,
+      cThawed_J_m3K: layer.cThawed_J_m3K!,
+      latent_J_m3: layer.latent_J_m3!,
+      freezingPoint_C: layer.freezingPoint_C!,
+      freezingInterval_K: w,
+    };
+  });
+  const bottoms = input.ground.layers.map((l) => l.bottom_m);
+  bottoms[bottoms.length - 1] = Math.max(bottoms[bottoms.length - 1], input.domain.depth_m);
+  return { layers, bottoms_m: bottoms, table: materialTable(layers) };
+}
+
+/** Material index of each mesh row (by its centre depth). */
+export function rowMaterials(mesh: SiteMesh, bottoms_m: number[]): Int32Array {
+  const out = new Int32Array(mesh.nz);
+  for (let j = 0; j < mesh.nz; j++) {
+    let m = 0;
+    while (m < bottoms_m.length - 1 && mesh.zCentres_m[j] > bottoms_m[m]) m++;
+    out[j] = m;
+  }
+  return out;
+}
+
+export interface SiteMeshes {
+  /** The (r, z) mesh around the pile. */
+  pile: SiteMesh;
+  /** One column with the same rows (the no-pile case is one-dimensional). */
+  column: SiteMesh;
+}
+
+export function buildMeshes(input: SiteInput, ground: SiteGround): SiteMeshes {
+  const preset = MESH_PRESETS[input.numerics.fidelity];
+  const pileLength = input.pile ? input.pile.topDepth_m + input.pile.length_m : 0;
+  const rIn = input.pile ? input.pile.outerDiameter_m / 2 : 0.1;
+  const mandatory = [...ground.bottoms_m.slice(0, -1)];
+  if (input.pile) mandatory.push(pileLength, input.pile.topDepth_m);
+  const active = input.pile ? input.pile.length_m : 1;
+  const pileStep = input.numerics.pileStep_m ?? Math.min(preset.pileStep_m, Math.max(0.05, active / 8));
+  const pile = buildSiteMesh({
+    innerRadius_m: rIn,
+    outerRadius_m: input.domain.radius_m,
+    depth_m: input.domain.depth_m,
+    firstRadialStep_m: input.numerics.firstRadialStep_m ?? preset.firstRadialStep_m,
+    radialGrowth: preset.radialGrowth,
+    firstVerticalStep_m: Math.min(preset.firstVerticalStep_m, pileStep),
+    verticalGrowth: preset.verticalGrowth,
+    pileStep_m: pileStep,
+    fineDepth_m: pileLength,
+    farStep_m: preset.farStep_m,
+    mandatoryDepths_m: mandatory,
+  });
+  const column = meshFromFaces([rIn, input.domain.radius_m], pile.zFaces_m);
+  return { pile, column };
+}
+
+/** Surface temperature function of the input's climate (with its warming trend), °C. */
+export function surfaceForcing(input: SiteInput, withTrend: boolean): (time_s: number) => number {
+  const c = input.climate;
+  const trend = withTrend ? { kind: 'linear' as const, rate_C_per_yr: c.warming_C_per_yr } : undefined;
+  return (time_s: number) =>
+    surfaceTemperature_C({
+      meanAirTemp_C: c.meanAirTemp_C,
+      amplitude_C: c.amplitude_C,
+      nFreeze: c.nFreeze,
+      nThaw: c.nThaw,
+      time_s,
+      trend,
+      coldestDay: c.coldestDay,
+    });
+}
+
+export interface InitialState {
+  /** Temperature per row, °C. */
+  rowT_C: Float64Array;
+  /** Liquid fraction > 1/2 in the last spin-up year per row: times (s, negative) of the last thaw. */
+  lastThawed_s: Float64Array;
+}
+
+/** The initial temperature per row (see the module comment). */
+export function initialState(
+  input: SiteInput,
+  ground: SiteGround,
+  column: SiteMesh,
+  rowMaterial: Int32Array,
+): InitialState {
+  const nz = column.nz;
+  const lastThawed = new Float64Array(nz).fill(-Infinity);
+  const init = input.ground.initial;
+  if (init !== 'equilibrium') {
+    const T = new Float64Array(nz).fill(init.uniform_C);
+    for (let j = 0; j < nz; j++) {
+      if (liquidFractionAt(ground.table, rowMaterial[j], T[j]) > 0.5) lastThawed[j] = 0;
+    }
+    return { rowT_C: T, lastThawed_s: lastThawed };
+  }
+  const c = input.climate;
+  const dd = degreeDays({ meanAirTemp_C: c.meanAirTemp_C, amplitude_C: c.amplitude_C });
+  const top = ground.layers[0];
+  const ttop = ttop_C({
+    ...dd,
+    nFreeze: c.nFreeze,
+    nThaw: c.nThaw,
+    kThawed_W_mK: top.kThawed_W_mK,
+    kFrozen_W_mK: top.kFrozen_W_mK,
+  });
+  const q = input.ground.geothermalFlux_W_m2;
+  const T = new Float64Array(nz);
+  let temp = ttop;
+  let zPrev = 0;
+  for (let j = 0; j < nz; j++) {
+    const m = ground.layers[rowMaterial[j]];
+    const k = temp < m.freezingPoint_C ? m.kFrozen_W_mK : m.kThawed_W_mK;
+    temp += (q * (column.zCentres_m[j] - zPrev)) / k;
+    zPrev = column.zCentres_m[j];
+    T[j] = temp;
+  }
+  const solver = createConductionSolver({
+    mesh: column,
+    materials: ground.table,
+    rowMaterial,
+    surfaceTemperature_C: surfaceForcing(input, false),
+    bottomFlux_W_m2: q,
+    initialT_C: T,
+    inner: null,
+  });
+  const dt = Math.min(input.timeStep_days, 15) * SECONDS_PER_DAY;
+  const total = SPIN_UP_YEARS * 365 * SECONDS_PER_DAY;
+  const steps = Math.ceil(total / dt);
+  const dtExact = total / steps;
+  for (let s = 1; s <= steps; s++) {
+    solver.step(dtExact);
+    const t = s * dtExact - total;
+    for (let j = 0; j < nz; j++) {
+      if (liquidFractionAt(ground.table, rowMaterial[j], solver.T[j]) > 0.5) lastThawed[j] = t;
+    }
+  }
+  return { rowT_C: Float64Array.from(solver.T), lastThawed_s: lastThawed };
+}
