@@ -2,8 +2,10 @@
  * Special functions for heat-conduction solutions: erf, erfc, the repeated integrals of erfc
  * (ierfc, i2erfc, inerfc) and the exponential integral E1.
  *
- * All functions are pure, allocation-free and accurate to about 1e-14 relative (measured against
- * 30-digit mpmath values in tests/reference/special-functions.test.ts). NaN input throws a TypeError
+ * All functions are pure and allocation-free. Measured worst relative error against 30-digit mpmath on
+ * dense grids: erf, erfc 7e-15 over [−6, 27]; erfcx 3e-15; E1 7e-15 over [1e-10, 700]; ierfc 7e-14 and
+ * i²erfc 3e-13 over [−5, 25] (worst near x = 1.5, from the forward recurrence). Check values in
+ * tests/reference/special-functions.test.ts. NaN input throws a TypeError
  * (never a silent NaN); out-of-domain input throws a RangeError naming the parameter.
  *
  * References: Abramowitz & Stegun (1964), Handbook of Mathematical Functions, NBS AMS 55, ch. 5
@@ -113,7 +115,7 @@ export function erf(x: number): number {
  * (A&S 7.2.1). Used for surface conditions growing like t^(n/2) (Carslaw & Jaeger §2.9).
  *
  * Method: the recurrence 2n·iⁿerfc x = iⁿ⁻²erfc x − 2x·iⁿ⁻¹erfc x (A&S 7.2.5). For x < 2 it is run
- * forwards (for x ≤ 0 all terms are positive; for 0 < x < 2 the cancellation costs < 100 ulp). For
+ * forwards (for x ≤ 0 all terms are positive; for 0 < x < 2 the cancellation costs up to ~1e3 ulp). For
  * x ≥ 2, where iⁿerfc is the minimal solution and forward recursion is unstable, Miller's backward
  * recurrence from order n + 60 is normalised by erfc x. Values: iⁿerfc 0 = 1/(2ⁿ Γ(n/2 + 1)).
  * @param n order, integer 0…100
