@@ -1,0 +1,24 @@
+/**
+ * Vite config for the web app (root `web/`, output `dist/web`). The build output of the data pipeline
+ * (manifest.json, tiles/, settlements.geojson, land.geojson) is served at `/data/` in both dev and
+ * preview from the directory in env PILE_ATLAS_DATA (default `.cache/demo-tiles`).
+ */
+import { defineConfig } from 'vite';
+import react from '@vitejs/plugin-react';
+import { resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { serveDataDir } from './web/build/serve-data-dir.ts';
+
+const here = fileURLToPath(new URL('.', import.meta.url));
+
+export default defineConfig({
+  root: resolve(here, 'web'),
+  base: './',
+  plugins: [react(), serveDataDir(resolve(here, process.env.PILE_ATLAS_DATA ?? '.cache/demo-tiles'))],
+  build: {
+    outDir: resolve(here, 'dist/web'),
+    emptyOutDir: true,
+    chunkSizeWarningLimit: 4000,
+  },
+  logLevel: 'warn',
+});

@@ -1,0 +1,59 @@
+/**
+ * Node-side helpers shared by `npm start` and the browser tests: make sure a data build exists, build
+ * the web app once with Vite, and serve it (Vite preview, data at /data/).
+ */
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { build, preview, type PreviewServer } from 'vite';
+
+export const REPO_ROOT = resolve(fileURLToPath(new URL('.', import.meta.url)), '../..');
+export const DEFAULT_DATA_DIR = resolve(REPO_ROOT, '.cache/demo-tiles');
+export const DEFAULT_INPUTS_DIR = resolve(REPO_ROOT, '.cache/demo-data');
+export const WEB_OUT_DIR = resolve(REPO_ROOT, 'dist/web');
+
+/**
+ * Generate the demo inputs and build their tiles into `dataDir` unless a manifest is already there.
+ * Returns whether anything was built.
+ */
+export async function ensureDemoTiles(options: {
+  dataDir: string;
+  inputsDir: string;
+  log?: (line: string) => void;
+}): Promise<boolean> {
+  const { dataDir, inputsDir } = options;
+  const log = options.log ?? (() => undefined);
+  if (existsSync(resolve(dataDir, 'manifest.json'))) return false;
+  const { generateDemoData } = await import('../../data-pipeline/demo/generate-demo-data');
+  const { buildTiles } = await import('../../data-pipeline/build/build-tiles');
+  if (!existsSync(resolve(inputsDir, 'pile-atlas-inputs.json'))) {
+    log(`generating the fictional demo region into ${inputsDir} …`);
+    await generateDemoData({ outDir: inputsDir });
+  }
+  log(`building tiles into ${dataDir} …`);
+  await buildTiles({ inDir: inputsDir, outDir: dataDir });
+  return true;
+}
+
+/** Build the web app (production bundle) with the data directory baked into the preview plugin. */
+export async function buildWebApp(dataDir: string): Promise<void> {
+  process.env.PILE_ATLAS_DATA = dataDir;
+  await build({ configFile: resolve(REPO_ROOT, 'vite.config.ts'), logLevel: 'warn' });
+}
+
+/** Serve the built app (port 0 = any free port); returns the server and its URL. */
+export async function serveWebApp(options: {
+  dataDir: string;
+  port?: number;
+  host?: string;
+}): Promise<{ server: PreviewServer; url: string }> {
+  process.env.PILE_ATLAS_DATA = options.dataDir;
+  const server = await preview({
+    configFile: resolve(REPO_ROOT, 'vite.config.ts'),
+    preview: { port: options.port ?? 0, host: options.host ?? '127.0.0.1', strictPort: false, open: false },
+    logLevel: 'warn',
+  });
+  const url = server.resolvedUrls?.local[0];
+  if (!url) throw new Error('vite preview started without a local URL');
+  return { server, url };
+}

@@ -1,0 +1,330 @@
+/**
+ * The planner's dashboard: map in the middle, layer / legend / filters / counter / sources on the
+ * left, the selected place and the shortlist on the right, cautions and the demo-data notice always
+ * visible. State that a link should carry (view, layer, units, opacity, filters) lives in the URL.
+ */
+import { useCallback, useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { SCREENING_CAUTION } from '../../layers/cautions';
+import { AtlasLoadError, loadAtlas, loadCellTable, type Atlas } from './data/load-atlas';
+import { cellIndexAt, type CellTable } from './data/cell-table';
+import { compileFilter, EMPTY_FILTER, type FilterSpec } from './filters/cell-filter';
+import { boundaryArea_km2, boundaryMask, summarise, type Boundary } from './filters/zonal-summary';
+import { boundaryFromVertices, boundaryRings, parseBoundary } from './filters/boundary-import';
+import { MapView } from './map/map-view';
+import type { TileStyle } from './map/colour-tile';
+import { formatUrlState, parseUrlState, type ViewState } from './state/url-state';
+import type { UnitSystem } from './units/display-units';
+import { shortlistStore } from './shortlist/shortlist-store';
+import { useShortlist } from './shortlist/use-shortlist';
+import { LayerPanel } from './panels/layer-panel';
+import { LegendPanel } from './panels/legend-panel';
+import { FilterPanel } from './panels/filter-panel';
+import { SummaryPanel } from './panels/summary-panel';
+import { SourcesPanel } from './panels/sources-panel';
+import { CellPanel, cellValues, type CellSelection } from './panels/cell-panel';
+import { ShortlistPanel } from './panels/shortlist-panel';
+import { FictionalNotice, ScreeningCaution } from './panels/caution-notes';
+import { HoverReadout, type HoverState } from './panels/hover-readout';
+
+const DATA_BASE = new URL('data/', document.baseURI);
+
+export function App() {
+  const [atlas, setAtlas] = useState<Atlas | null>(null);
+  const [error, setError] = useState<{ message: string; issues: string[] } | null>(null);
+  useEffect(() => {
+    loadAtlas(DATA_BASE).then(setAtlas, (e: unknown) =>
+      setError({ message: (e as Error).message, issues: e instanceof AtlasLoadError ? e.issues : [] }),
+    );
+  }, []);
+  if (error) {
+    return (
+      <main className="load-error" role="alert">
+        <h1>Pile Atlas could not open its data</h1>
+        <p>{error.message}</p>
+        <ul>
+          {error.issues.map((i) => (
+            <li key={i}>{i}</li>
+          ))}
+        </ul>
+        <p>
+          Run <code>npm start</code> to build the demo data, or point PILE_ATLAS_DATA at a pipeline build.
+        </p>
+      </main>
+    );
+  }
+  if (!atlas) return <main className="loading">Loading the map data…</main>;
+  return <Dashboard atlas={atlas} />;
+}
+
+function initialState(atlas: Atlas): { state: ViewState; problems: string[]; hasView: boolean } {
+  const m = atlas.manifest;
+  const [w, s, e, n] = m.region.bounds;
+  const layer = m.bands.find((b) => b.id === 'suitability')?.id ?? m.bands[0].id;
+  const defaults: ViewState = {
+    center: [(w + e) / 2, (s + n) / 2],
+    zoom: m.tiles.minZoom + 1,
+    layer,
+    units: 'SI',
+    opacity: 0.85,
+    filter: EMPTY_FILTER,
+  };
+  const parsed = parseUrlState(
+    window.location.search,
+    defaults,
+    m.bands.map((b) => b.id),
+  );
+  const params = new URLSearchParams(window.location.search);
+  return { ...parsed, hasView: parsed.problems.length === 0 && params.has('c') && params.has('z') };
+}
+
+function Dashboard({ atlas }: { atlas: Atlas }) {
+  const { manifest } = atlas;
+  const init = useMemo(() => initialState(atlas), [atlas]);
+  const [urlProblems, setUrlProblems] = useState<string[]>(init.problems);
+  const [bandId, setBandId] = useState(init.state.layer);
+  const [units, setUnits] = useState<UnitSystem>(init.state.units);
+  const [opacity, setOpacity] = useState(init.state.opacity);
+  const [filter, setFilter] = useState<FilterSpec>(init.state.filter);
+  const view = useRef({ center: init.state.center, zoom: init.state.zoom });
+  const [table, setTable] = useState<CellTable | null>(null);
+  const [hover, setHover] = useState<HoverState | null>(null);
+  const [selection, setSelection] = useState<CellSelection | null>(null);
+  const [drawing, setDrawing] = useState(false);
+  const [vertices, setVertices] = useState<[number, number][]>([]);
+  const [boundary, setBoundary] = useState<Boundary | null>(null);
+  const [boundaryMessage, setBoundaryMessage] = useState<string | null>(null);
+  const [flyTarget, setFlyTarget] = useState<{ lon: number; lat: number; seq: number } | null>(null);
+  const shortlist = useShortlist();
+
+  useEffect(() => {
+    loadCellTable(atlas).then(setTable, (e: unknown) =>
+      setBoundaryMessage(`Cell table failed: ${(e as Error).message}`),
+    );
+  }, [atlas]);
+
+  const bandIndex = Math.max(
+    0,
+    manifest.bands.findIndex((b) => b.id === bandId),
+  );
+  const band = manifest.bands[bandIndex];
+  const compiled = useMemo(() => compileFilter(filter, manifest.bands), [filter, manifest.bands]);
+  const style: TileStyle = useMemo(
+    () => ({ band, bandIndex, opacity, filter: compiled }),
+    [band, bandIndex, opacity, compiled],
+  );
+  const styleKey = useMemo(() => `${bandId}|${opacity}|${JSON.stringify(filter)}`, [bandId, opacity, filter]);
+
+  const writeUrl = useCallback(() => {
+    const q = formatUrlState({
+      center: view.current.center,
+      zoom: view.current.zoom,
+      layer: bandId,
+      units,
+      opacity,
+      filter,
+    });
+    window.history.replaceState(null, '', `${window.location.pathname}?${q}`);
+  }, [bandId, units, opacity, filter]);
+  useEffect(() => writeUrl(), [writeUrl]);
+
+  const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
+  const mask = useMemo(() => (table && boundary ? boundaryMask(table, boundary) : null), [table, boundary]);
+  const zoneSummary = useMemo(
+    () => (table && mask ? summarise(table, compiled, mask) : null),
+    [table, mask, compiled],
+  );
+
+  const cellAt = useCallback(
+    (lon: number, lat: number) => {
+      if (!table) return -1;
+      const [x, y] = atlas.toGrid(lon, lat);
+      return cellIndexAt(table, manifest, x, y);
+    },
+    [atlas, manifest, table],
+  );
+
+  const onHover = useCallback(
+    (p: [number, number] | null) => setHover(p ? { lon: p[0], lat: p[1], index: cellAt(p[0], p[1]) } : null),
+    [cellAt],
+  );
+  const onClick = useCallback(
+    (p: [number, number]) => {
+      if (drawing) setVertices((v) => [...v, p]);
+      else setSelection({ lon: p[0], lat: p[1], index: cellAt(p[0], p[1]) });
+    },
+    [drawing, cellAt],
+  );
+  // A click before the table was ready: resolve it once the table arrives.
+  useEffect(() => {
+    if (table && selection && selection.index < 0) {
+      const index = cellAt(selection.lon, selection.lat);
+      if (index >= 0) setSelection({ ...selection, index });
+    }
+  }, [table, selection, cellAt]);
+  const onViewChange = useCallback(
+    (center: [number, number], zoom: number) => {
+      view.current = { center, zoom };
+      writeUrl();
+    },
+    [writeUrl],
+  );
+
+  const finishDrawing = () => {
+    const b = boundaryFromVertices(vertices);
+    setDrawing(false);
+    setVertices([]);
+    if (b) {
+      setBoundary(b);
+      setBoundaryMessage(null);
+    } else setBoundaryMessage('A boundary needs at least three corners.');
+  };
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      if (e.key === 'Escape' && drawing) {
+        setDrawing(false);
+        setVertices([]);
+      }
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [drawing]);
+  const importBoundary = async (ev: ChangeEvent<HTMLInputElement>) => {
+    const file = ev.target.files?.[0];
+    ev.target.value = '';
+    if (!file) return;
+    try {
+      const { boundary: b, problems } = parseBoundary(JSON.parse(await file.text()));
+      if (b) {
+        setBoundary(b);
+        setBoundaryMessage(`Boundary from ${file.name}.`);
+      } else setBoundaryMessage(`${file.name}: ${problems.join('; ')}`);
+    } catch (e) {
+      setBoundaryMessage(`${file.name}: ${(e as Error).message}`);
+    }
+  };
+
+  const rings = useMemo(() => (boundary ? boundaryRings(boundary) : []), [boundary]);
+  const shortlistPoints = useMemo(
+    () => shortlist.map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
+    [shortlist],
+  );
+  const selectedPoint = useMemo<[number, number] | null>(
+    () => (selection ? [selection.lon, selection.lat] : null),
+    [selection],
+  );
+
+  const addSelection = () => {
+    if (!selection || !table || selection.index < 0) return;
+    shortlistStore.add({
+      lon: selection.lon,
+      lat: selection.lat,
+      origin: 'map',
+      values: cellValues(table, manifest.bands, selection.index),
+    });
+  };
+
+  return (
+    <div className="app">
+      <header className="topbar">
+        <h1>
+          Pile Atlas <span className="muted">· {manifest.region.name}</span>
+        </h1>
+        <FictionalNotice fictional={manifest.fictional} notice={manifest.notice} />
+        <span className="caution-pill" title={SCREENING_CAUTION}>
+          Screening estimate, not a design
+        </span>
+      </header>
+      {urlProblems.length > 0 ? (
+        <div className="notice warn url-notice" role="alert" data-testid="url-notice">
+          The link held settings this map cannot use, so the default view is shown: {urlProblems.join('; ')}.
+          <button
+            type="button"
+            className="icon"
+            onClick={() => setUrlProblems([])}
+            aria-label="Dismiss link notice"
+          >
+            ×
+          </button>
+        </div>
+      ) : null}
+      <aside className="side left" aria-label="Layers and filters">
+        <LayerPanel
+          bands={manifest.bands}
+          bandId={bandId}
+          units={units}
+          opacity={opacity}
+          onBand={setBandId}
+          onUnits={setUnits}
+          onOpacity={setOpacity}
+        />
+        <LegendPanel band={band} units={units} filterActive={compiled.active} />
+        <FilterPanel bands={manifest.bands} filter={filter} units={units} onChange={setFilter} />
+        <SummaryPanel
+          region={regionSummary}
+          zone={zoneSummary}
+          zoneArea_km2={boundary ? boundaryArea_km2(boundary) : null}
+          units={units}
+          drawing={drawing}
+          hasBoundary={boundary !== null}
+          boundaryMessage={boundaryMessage}
+          onDraw={() => {
+            setDrawing(true);
+            setVertices([]);
+          }}
+          onFinish={finishDrawing}
+          onClear={() => setBoundary(null)}
+          onImport={importBoundary}
+        />
+        <SourcesPanel manifest={manifest} />
+      </aside>
+      <main className="map-wrap">
+        <MapView
+          atlas={atlas}
+          style={style}
+          styleKey={styleKey}
+          initialView={init.hasView ? { center: init.state.center, zoom: init.state.zoom } : null}
+          boundaryRings={rings}
+          drawingPath={vertices}
+          drawing={drawing}
+          selected={selectedPoint}
+          shortlist={shortlistPoints}
+          onHover={onHover}
+          onClick={onClick}
+          onViewChange={onViewChange}
+          flyTarget={flyTarget}
+        />
+        <HoverReadout
+          hover={hover}
+          table={table}
+          manifest={manifest}
+          band={band}
+          bandIndex={bandIndex}
+          units={units}
+        />
+      </main>
+      <aside className="side right" aria-label="Selected place and shortlist">
+        {selection ? (
+          <CellPanel
+            manifest={manifest}
+            table={table}
+            selection={selection}
+            units={units}
+            onAdd={addSelection}
+            onClose={() => setSelection(null)}
+          />
+        ) : (
+          <section className="panel muted">Click the map to see every value of a place.</section>
+        )}
+        <ShortlistPanel
+          manifest={manifest}
+          units={units}
+          metricBandId={bandId}
+          onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}
+        />
+      </aside>
+      <footer className="footer">
+        <ScreeningCaution full />
+      </footer>
+    </div>
+  );
+}

@@ -1,0 +1,44 @@
+/**
+ * The offline base map: a MapLibre style with no remote sources, tiles, sprites or glyphs. Sea is the
+ * background, land is a fill of the build's own coastline polygons (land.geojson), settlements are
+ * circles (their names are drawn by a deck.gl TextLayer with the browser's local fonts).
+ */
+import type { StyleSpecification } from 'maplibre-gl';
+import type { FeatureCollection } from 'geojson';
+
+export const SEA_COLOUR = '#d5e1e8';
+export const LAND_COLOUR = '#f3efe6';
+export const COAST_COLOUR = '#7f8f99';
+
+const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
+
+export function baseStyle(
+  land: FeatureCollection | null,
+  settlements: FeatureCollection | null,
+): StyleSpecification {
+  return {
+    version: 8,
+    sources: {
+      land: { type: 'geojson', data: land ?? EMPTY },
+      settlements: { type: 'geojson', data: settlements ?? EMPTY },
+    },
+    layers: [
+      { id: 'sea', type: 'background', paint: { 'background-color': SEA_COLOUR } },
+      { id: 'land', type: 'fill', source: 'land', paint: { 'fill-color': LAND_COLOUR } },
+      { id: 'coast', type: 'line', source: 'land', paint: { 'line-color': COAST_COLOUR, 'line-width': 1 } },
+    ],
+  };
+}
+
+/** Layers drawn above the screening tiles (added after the deck overlay so they stay on top). */
+export const SETTLEMENT_CIRCLES = {
+  id: 'settlements',
+  type: 'circle' as const,
+  source: 'settlements',
+  paint: {
+    'circle-radius': 4,
+    'circle-color': '#ffffff',
+    'circle-stroke-color': '#1d2a33',
+    'circle-stroke-width': 1.5,
+  },
+};

@@ -1,0 +1,117 @@
+/**
+ * Colouring of a decoded screening tile into RGBA pixels (pure; style.md habit 11: the map layer
+ * only draws what this returns). Continuous bands use the band's ramp from colour-ramps.ts over the
+ * legend range; class bands use one colour per class (ordinal classes sampled from the band's ramp
+ * when it names one, otherwise the Okabe & Ito (2008) palette, "Color Universal Design", which stays
+ * distinguishable under the common colour-vision deficiencies). Nodata is transparent (the base map's
+ * land or sea shows through); cells failing the live filter are drawn as a pale grey veil.
+ */
+import type { Band } from '../../../layers/screening/manifest';
+import { rampColour, type Rgb } from '../../../layers/screening/colour-ramps';
+import { passesAt, type CompiledFilter } from '../filters/cell-filter';
+
+export const OKABE_ITO: Rgb[] = [
+  [230, 159, 0],
+  [86, 180, 233],
+  [0, 158, 115],
+  [240, 228, 66],
+  [0, 114, 178],
+  [213, 94, 0],
+  [204, 121, 167],
+  [0, 0, 0],
+];
+
+export const FADED_RGB: Rgb = [200, 200, 196];
+export const FADED_ALPHA = 0.3;
+
+/** Legend range of a band (legendMin/legendMax when set, else the build's min/max). */
+export function legendRange(band: Band): [number, number] {
+  return [band.legendMin ?? band.min, band.legendMax ?? band.max];
+}
+
+/** Colour of each class of a class band, in the band's class order. */
+export function classColours(band: Band): Map<number, Rgb> {
+  const classes = band.classes ?? [];
+  const m = new Map<number, Rgb>();
+  classes.forEach((c, i) => {
+    const colour = band.ramp
+      ? rampColour(band.ramp, i, 0, Math.max(1, classes.length - 1))
+      : OKABE_ITO[i % OKABE_ITO.length];
+    m.set(c.value, colour);
+  });
+  return m;
+}
+
+export interface TileStyle {
+  band: Band;
+  bandIndex: number;
+  /** Layer opacity, 0..1. */
+  opacity: number;
+  filter: CompiledFilter;
+}
+
+const LUT_SIZE = 256;
+
+/** RGBA (TILE_SIZE² x 4) for one tile's planes under the given style. */
+export function colourTile(
+  planes: Float32Array[],
+  style: TileStyle,
+  out?: Uint8ClampedArray,
+): Uint8ClampedArray {
+  const values = planes[style.bandIndex];
+  const n = values.length;
+  const rgba = out ?? new Uint8ClampedArray(n * 4);
+  const alpha = Math.round(255 * Math.max(0, Math.min(1, style.opacity)));
+  const fadedAlpha = Math.round(alpha * FADED_ALPHA);
+  const { band, filter } = style;
+  let lut: Uint8Array | null = null;
+  let lo = 0;
+  let span = 1;
+  let classes: Map<number, Rgb> | null = null;
+  if (band.kind === 'class') {
+    classes = classColours(band);
+  } else {
+    [lo, span] = (([a, b]) => [a, b - a])(legendRange(band));
+    lut = new Uint8Array(LUT_SIZE * 3);
+    for (let i = 0; i < LUT_SIZE; i++) {
+      const [r, g, b] = rampColour(band.ramp ?? 'viridis', i, 0, LUT_SIZE - 1);
+      lut[i * 3] = r;
+      lut[i * 3 + 1] = g;
+      lut[i * 3 + 2] = b;
+    }
+  }
+  for (let k = 0; k < n; k++) {
+    const v = values[k];
+    const o = k * 4;
+    if (Number.isNaN(v)) {
+      rgba[o + 3] = 0;
+      continue;
+    }
+    if (filter.active && !passesAt(filter, planes, k)) {
+      rgba[o] = FADED_RGB[0];
+      rgba[o + 1] = FADED_RGB[1];
+      rgba[o + 2] = FADED_RGB[2];
+      rgba[o + 3] = fadedAlpha;
+      continue;
+    }
+    if (lut) {
+      const t = span > 0 ? (v - lo) / span : 0.5;
+      const i = t <= 0 ? 0 : t >= 1 ? LUT_SIZE - 1 : Math.round(t * (LUT_SIZE - 1));
+      rgba[o] = lut[i * 3];
+      rgba[o + 1] = lut[i * 3 + 1];
+      rgba[o + 2] = lut[i * 3 + 2];
+      rgba[o + 3] = alpha;
+    } else {
+      const c = classes?.get(Math.round(v));
+      if (!c) {
+        rgba[o + 3] = 0;
+        continue;
+      }
+      rgba[o] = c[0];
+      rgba[o + 1] = c[1];
+      rgba[o + 2] = c[2];
+      rgba[o + 3] = alpha;
+    }
+  }
+  return rgba;
+}

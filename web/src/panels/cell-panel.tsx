@@ -1,0 +1,80 @@
+/**
+ * The clicked cell: every band's value with its unit, where it is, why it has its class, and the
+ * button that puts it on the shortlist.
+ */
+import type { Band, Manifest } from '../../../layers/screening/manifest';
+import type { CellTable } from '../data/cell-table';
+import { formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
+import { ScreeningCaution } from './caution-notes';
+import { ClassCard } from './class-card';
+
+export interface CellSelection {
+  /** Row of the cell table, or -1 when the click was outside the screened cells. */
+  index: number;
+  lon: number;
+  lat: number;
+}
+
+/** Band values of one table row, keyed by band id (null for nodata). */
+export function cellValues(table: CellTable, bands: Band[], index: number): Record<string, number | null> {
+  const out: Record<string, number | null> = {};
+  bands.forEach((b, i) => {
+    const v = table.planes[i][index];
+    out[b.id] = Number.isFinite(v) ? v : null;
+  });
+  return out;
+}
+
+export function bandValueText(band: Band, v: number | null, units: UnitSystem): string {
+  if (v === null) return 'no data';
+  if (band.kind === 'class') return band.classes?.find((c) => c.value === Math.round(v))?.label ?? String(v);
+  return formatQuantity(v, band.unit, units);
+}
+
+export function CellPanel(props: {
+  manifest: Manifest;
+  table: CellTable | null;
+  selection: CellSelection;
+  units: UnitSystem;
+  onAdd: () => void;
+  onClose: () => void;
+}) {
+  const { manifest, table, selection, units } = props;
+  const inside = table !== null && selection.index >= 0;
+  const values = inside ? cellValues(table, manifest.bands, selection.index) : null;
+  return (
+    <section className="panel cell-panel" aria-label="Selected cell" data-testid="cell-panel">
+      <div className="panel-head">
+        <h2>Selected place</h2>
+        <button type="button" className="icon" onClick={props.onClose} aria-label="Close selected place">
+          ×
+        </button>
+      </div>
+      <p className="muted small">
+        {formatLonLat(selection.lon, selection.lat, 4)}
+        {inside ? ` · grid cell ${table.col[selection.index]}, ${table.row[selection.index]}` : ''}
+      </p>
+      {!inside ? (
+        <p>{table ? 'No screening data here (sea or outside the screened land).' : 'Loading cell data…'}</p>
+      ) : (
+        <>
+          <table className="values" data-testid="cell-values">
+            <tbody>
+              {manifest.bands.map((b) => (
+                <tr key={b.id}>
+                  <th scope="row">{b.title}</th>
+                  <td>{bandValueText(b, values?.[b.id] ?? null, units)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <ClassCard manifest={manifest} values={values ?? {}} units={units} />
+          <button type="button" className="primary" onClick={props.onAdd} data-testid="add-to-shortlist">
+            Add to shortlist
+          </button>
+        </>
+      )}
+      <ScreeningCaution />
+    </section>
+  );
+}

@@ -1,0 +1,109 @@
+/**
+ * Why a cell has its class: each criterion of the manifest (hard exclusions, then weighted soft
+ * criteria) with the cell's raw value, unit, threshold and verdict. Without criteria in the manifest
+ * the card lists the class bands of the cell with their plain explanations.
+ */
+import type { Criterion, Manifest } from '../../../layers/screening/manifest';
+import { displayConversion, formatNumber, type UnitSystem } from '../units/display-units';
+
+/** Whether `value comparison threshold` holds (the criterion passes); null when the value is nodata. */
+export function criterionVerdict(c: Criterion, value: number | null): boolean | null {
+  if (value === null || !Number.isFinite(value)) return null;
+  switch (c.comparison) {
+    case '<':
+      return value < c.threshold;
+    case '<=':
+      return value <= c.threshold;
+    case '>':
+      return value > c.threshold;
+    case '>=':
+      return value >= c.threshold;
+    case '!=':
+      return value !== c.threshold;
+  }
+}
+
+/** Soft-criterion score, linear from 0 at `poor` to 1 at `good`, clamped; null when not defined. */
+export function criterionScore(c: Criterion, value: number | null): number | null {
+  if (value === null || c.good === undefined || c.poor === undefined || c.good === c.poor) return null;
+  return Math.min(1, Math.max(0, (value - c.poor) / (c.good - c.poor)));
+}
+
+export function ClassCard(props: {
+  manifest: Manifest;
+  values: Record<string, number | null>;
+  units: UnitSystem;
+}) {
+  const { manifest, values, units } = props;
+  const criteria = manifest.criteria ?? [];
+  const classBands = manifest.bands.filter((b) => b.kind === 'class');
+  const show = (v: number, unit: string) => {
+    const c = displayConversion(unit, units);
+    return `${formatNumber(v * c.factor + c.offset)}${c.unit ? ` ${c.unit}` : ''}`;
+  };
+  return (
+    <details className="class-card" open data-testid="class-card">
+      <summary>Why this class</summary>
+      {classBands.map((b) => {
+        const v = values[b.id];
+        const cls =
+          v === null || v === undefined ? undefined : b.classes?.find((c) => c.value === Math.round(v));
+        return (
+          <p key={b.id} className="small">
+            <strong>{b.title}:</strong> {cls ? cls.label : 'no data'}
+            {cls?.description ? <span className="muted"> — {cls.description}</span> : null}
+          </p>
+        );
+      })}
+      {criteria.length > 0 ? (
+        <table className="criteria" data-testid="criteria">
+          <thead>
+            <tr>
+              <th scope="col">Criterion</th>
+              <th scope="col">Value</th>
+              <th scope="col">Threshold</th>
+              <th scope="col">Verdict</th>
+            </tr>
+          </thead>
+          <tbody>
+            {criteria.map((c) => {
+              const raw = values[c.bandId];
+              const v = raw === undefined ? null : raw;
+              const verdict = criterionVerdict(c, v);
+              const score = c.kind === 'soft' ? criterionScore(c, v) : null;
+              return (
+                <tr key={c.id} title={c.description}>
+                  <th scope="row">
+                    {c.title}
+                    <span className="muted small">
+                      {' '}
+                      ({c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`})
+                    </span>
+                  </th>
+                  <td>{v === null ? 'no data' : show(v, c.unit)}</td>
+                  <td>
+                    {c.comparison} {show(c.threshold, c.unit)}
+                  </td>
+                  <td className={verdict === null ? 'muted' : verdict ? 'pass' : 'fail'}>
+                    {verdict === null
+                      ? 'unknown'
+                      : verdict
+                        ? 'pass'
+                        : c.kind === 'exclusion'
+                          ? 'fail: excluded'
+                          : 'below'}
+                    {score !== null ? ` (score ${formatNumber(score, 2)})` : ''}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      ) : (
+        <p className="muted small">
+          This build lists no criteria; the class comes from the model named in the legend.
+        </p>
+      )}
+    </details>
+  );
+}

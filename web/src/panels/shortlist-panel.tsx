@@ -1,0 +1,169 @@
+/**
+ * The shortlist: name and note each site, sort by any metric, remove, export (GeoJSON, CSV) and
+ * re-import an earlier GeoJSON export. The list lives in the shortlist store (persisted).
+ */
+import { useMemo, useState, type ChangeEvent } from 'react';
+import type { Manifest } from '../../../layers/screening/manifest';
+import { shortlistStore } from '../shortlist/shortlist-store';
+import { useShortlist } from '../shortlist/use-shortlist';
+import {
+  shortlistFromGeoJSON,
+  shortlistToCsv,
+  shortlistToGeoJSON,
+  sortShortlist,
+  type ShortlistSortKey,
+} from '../shortlist/shortlist-export';
+import { downloadFile } from '../download-file';
+import { bandValueText } from './cell-panel';
+import { formatLonLat, type UnitSystem } from '../units/display-units';
+
+export function ShortlistPanel(props: {
+  manifest: Manifest;
+  units: UnitSystem;
+  metricBandId: string;
+  onLocate: (lon: number, lat: number) => void;
+}) {
+  const { manifest, units } = props;
+  const items = useShortlist();
+  const [sortKey, setSortKey] = useState<ShortlistSortKey>('addedAt');
+  const [direction, setDirection] = useState<'asc' | 'desc'>('asc');
+  const [message, setMessage] = useState<string | null>(null);
+  const sorted = useMemo(() => sortShortlist(items, sortKey, direction), [items, sortKey, direction]);
+  const shownBand =
+    manifest.bands.find((b) => `band:${b.id}` === sortKey) ??
+    manifest.bands.find((b) => b.id === props.metricBandId);
+  const stamp = new Date().toISOString().slice(0, 10);
+
+  const onImport = async (ev: ChangeEvent<HTMLInputElement>) => {
+    const file = ev.target.files?.[0];
+    ev.target.value = '';
+    if (!file) return;
+    try {
+      const { items: imported, issues } = shortlistFromGeoJSON(JSON.parse(await file.text()), manifest.bands);
+      shortlistStore.importItems(imported);
+      setMessage(
+        `Imported ${imported.length} site(s)${issues.length ? `; skipped: ${issues.join('; ')}` : ''}.`,
+      );
+    } catch (e) {
+      setMessage(`Could not read ${file.name}: ${(e as Error).message}`);
+    }
+  };
+
+  return (
+    <section className="panel shortlist" aria-label="Shortlist" data-testid="shortlist-panel">
+      <h2>Shortlist ({items.length})</h2>
+      {shortlistStore.loadProblem() ? <p className="notice warn">{shortlistStore.loadProblem()}</p> : null}
+      <div className="row wrap">
+        <label className="sort">
+          Sort by{' '}
+          <select
+            value={sortKey}
+            onChange={(e) => setSortKey(e.target.value as ShortlistSortKey)}
+            data-testid="shortlist-sort"
+          >
+            <option value="addedAt">date added</option>
+            <option value="name">name</option>
+            {manifest.bands
+              .filter((b) => b.kind === 'continuous')
+              .map((b) => (
+                <option key={b.id} value={`band:${b.id}`}>
+                  {b.title}
+                </option>
+              ))}
+          </select>
+        </label>
+        <button
+          type="button"
+          onClick={() => setDirection(direction === 'asc' ? 'desc' : 'asc')}
+          aria-label="Reverse sort order"
+        >
+          {direction === 'asc' ? '↑ ascending' : '↓ descending'}
+        </button>
+      </div>
+      {sorted.length === 0 ? (
+        <p className="muted">No sites yet: click the map, then “Add to shortlist”.</p>
+      ) : null}
+      <ol className="shortlist-items" data-testid="shortlist-items">
+        {sorted.map((it) => (
+          <li key={it.id} data-testid="shortlist-item">
+            <div className="row">
+              <input
+                aria-label="Site name"
+                value={it.name}
+                onChange={(e) => shortlistStore.update(it.id, { name: e.target.value })}
+              />
+              <button
+                type="button"
+                onClick={() => props.onLocate(it.lon, it.lat)}
+                aria-label={`Show ${it.name} on the map`}
+              >
+                show
+              </button>
+              <button
+                type="button"
+                onClick={() => shortlistStore.remove(it.id)}
+                aria-label={`Remove ${it.name}`}
+              >
+                remove
+              </button>
+            </div>
+            <textarea
+              aria-label="Note"
+              placeholder="note"
+              rows={1}
+              value={it.note}
+              onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
+            />
+            <div className="muted small">
+              {formatLonLat(it.lon, it.lat, 3)}
+              {shownBand
+                ? ` · ${shownBand.title}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units)}`
+                : ''}
+              {it.origin === 'site' ? ' · site run' : ''}
+            </div>
+          </li>
+        ))}
+      </ol>
+      <div className="row wrap">
+        <button
+          type="button"
+          disabled={items.length === 0}
+          data-testid="export-geojson"
+          onClick={() =>
+            downloadFile(
+              `pile-atlas-shortlist-${stamp}.geojson`,
+              JSON.stringify(shortlistToGeoJSON(sorted, manifest), null, 2),
+              'application/geo+json',
+            )
+          }
+        >
+          Export GeoJSON
+        </button>
+        <button
+          type="button"
+          disabled={items.length === 0}
+          data-testid="export-csv"
+          onClick={() =>
+            downloadFile(`pile-atlas-shortlist-${stamp}.csv`, shortlistToCsv(sorted, manifest), 'text/csv')
+          }
+        >
+          Export CSV
+        </button>
+        <label className="file-button">
+          Import GeoJSON
+          <input
+            type="file"
+            accept=".geojson,.json,application/geo+json,application/json"
+            onChange={onImport}
+            data-testid="import-geojson"
+          />
+        </label>
+      </div>
+      {message ? (
+        <p className="small" role="status">
+          {message}
+        </p>
+      ) : null}
+    </section>
+  );
+}

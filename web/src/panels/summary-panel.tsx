@@ -1,0 +1,96 @@
+/**
+ * The counter: cells and area matching the filters, for the whole region and inside a boundary that
+ * the planner draws on the map or imports as GeoJSON.
+ */
+import type { ChangeEvent } from 'react';
+import type { ZonalSummary } from '../filters/zonal-summary';
+import { formatQuantity, type UnitSystem } from '../units/display-units';
+
+function Counts(props: { label: string; s: ZonalSummary; units: UnitSystem; testId: string }) {
+  const { s, units } = props;
+  return (
+    <div className="counts" data-testid={props.testId}>
+      <div className="muted small">{props.label}</div>
+      <div>
+        <strong data-testid={`${props.testId}-cells`}>{s.matchingCells.toLocaleString('en-US')}</strong> of{' '}
+        {s.screenedCells.toLocaleString('en-US')} cells match
+      </div>
+      <div>
+        <strong data-testid={`${props.testId}-area`}>
+          {formatQuantity(s.matchingArea_km2, 'km²', units, 4)}
+        </strong>{' '}
+        of {formatQuantity(s.screenedArea_km2, 'km²', units, 4)}
+      </div>
+    </div>
+  );
+}
+
+export function SummaryPanel(props: {
+  region: ZonalSummary | null;
+  zone: ZonalSummary | null;
+  zoneArea_km2: number | null;
+  units: UnitSystem;
+  drawing: boolean;
+  hasBoundary: boolean;
+  boundaryMessage: string | null;
+  onDraw: () => void;
+  onFinish: () => void;
+  onClear: () => void;
+  onImport: (ev: ChangeEvent<HTMLInputElement>) => void;
+}) {
+  const { units } = props;
+  return (
+    <section className="panel" aria-label="Matching area" data-testid="summary-panel">
+      <h2>Matching area</h2>
+      {props.region ? (
+        <Counts label="Whole region" s={props.region} units={units} testId="region-count" />
+      ) : (
+        <p className="muted">Counting cells…</p>
+      )}
+      {props.zone ? (
+        <Counts
+          label={`Inside the boundary (${formatQuantity(props.zoneArea_km2 ?? NaN, 'km²', units, 4)} geodesic)`}
+          s={props.zone}
+          units={units}
+          testId="zone-count"
+        />
+      ) : null}
+      <div className="row wrap">
+        {props.drawing ? (
+          <button type="button" className="primary" onClick={props.onFinish} data-testid="boundary-finish">
+            Finish boundary
+          </button>
+        ) : (
+          <button type="button" onClick={props.onDraw} data-testid="boundary-draw">
+            Draw a boundary
+          </button>
+        )}
+        <label className="file-button">
+          Import boundary
+          <input
+            type="file"
+            accept=".geojson,.json,application/geo+json,application/json"
+            onChange={props.onImport}
+            data-testid="boundary-import"
+          />
+        </label>
+        {props.hasBoundary ? (
+          <button type="button" onClick={props.onClear} data-testid="boundary-clear">
+            Clear boundary
+          </button>
+        ) : null}
+      </div>
+      {props.drawing ? (
+        <p className="small">
+          Click the map to place corners; “Finish boundary” closes the shape (Esc cancels).
+        </p>
+      ) : null}
+      {props.boundaryMessage ? (
+        <p className="small" role="status">
+          {props.boundaryMessage}
+        </p>
+      ) : null}
+      <p className="muted small">Areas add up the analysis-grid cells on the ground, not map pixels.</p>
+    </section>
+  );
+}

@@ -1,0 +1,217 @@
+/**
+ * Shortlist exports and re-import (pure).
+ *
+ * GeoJSON: RFC 7946 FeatureCollection of Points, coordinates [lon, lat] in WGS 84 with no `crs`
+ * member; every numeric property carries its unit in its name (`groundTemp_degC`, `lon_deg`); each
+ * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
+ * data provenance of the build, so the file still explains itself when it is passed on.
+ * CSV: one row per site with the same columns as the GeoJSON properties. Text cells that begin with
+ * = + - @ tab or CR are prefixed with an apostrophe so that spreadsheets do not run them as formulas
+ * (OWASP "CSV Injection"); numbers we write ourselves are plain decimals and are left as they are.
+ */
+import { z } from 'zod';
+import type { Band, Manifest } from '../../../layers/screening/manifest';
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
+import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
+
+type PropertyValue = string | number | boolean | null | Record<string, unknown>;
+
+/** A unit label as an identifier suffix: '°C' -> 'degC', 'piles/kW' -> 'piles_per_kW', 'm²' -> 'm2'. */
+export function unitSlug(unit: string): string {
+  return unit
+    .replace(/°/g, 'deg')
+    .replace(/²/g, '2')
+    .replace(/³/g, '3')
+    .replace(/\//g, '_per_')
+    .replace(/[·\s]+/g, '')
+    .replace(/[^A-Za-z0-9_]/g, '');
+}
+
+/** Property name of a band in exports: the band id plus its unit (class bands: `_class`). */
+export function bandPropertyName(band: Band): string {
+  if (band.kind === 'class') return `${band.id}_class`;
+  const slug = unitSlug(band.unit);
+  return slug ? `${band.id}_${slug}` : band.id;
+}
+
+/** One line naming the build and its inputs (tool, creation time, files with checksums and licences). */
+export function provenanceText(manifest: Manifest): string {
+  const inputs = manifest.sources
+    .map(
+      (s) =>
+        `${s.file} (${s.role}, ${s.crs}, sha256 ${s.sha256.slice(0, 12)}…, ${s.licence}; ${s.provenance})`,
+    )
+    .join('; ');
+  return (
+    `${manifest.tool.name} ${manifest.tool.version}, tiles built ${manifest.createdAt}, region ` +
+    `${manifest.region.name}${inputs ? `; inputs: ${inputs}` : ''}`
+  );
+}
+
+export const EXPORT_CAUTIONS = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
+
+/** Properties of one site in export order (shared by GeoJSON and CSV). */
+export function exportProperties(
+  item: ShortlistItem,
+  rank: number,
+  manifest: Manifest,
+): Record<string, PropertyValue> {
+  const p: Record<string, PropertyValue> = {
+    rank,
+    name: item.name,
+    note: item.note,
+    lon_deg: round(item.lon, 6),
+    lat_deg: round(item.lat, 6),
+    addedAt: item.addedAt,
+    origin: item.origin,
+    pileAtlasId: item.id,
+  };
+  for (const band of manifest.bands) {
+    const v = item.values[band.id];
+    p[bandPropertyName(band)] = v === undefined || v === null || !Number.isFinite(v) ? null : v;
+    if (band.kind === 'class') {
+      const label = band.classes?.find((c) => c.value === v)?.label;
+      p[`${band.id}_label`] = label ?? null;
+    }
+  }
+  for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;
+  p.cautions = EXPORT_CAUTIONS;
+  if (manifest.fictional) p.fictionalData = `${FICTIONAL_DATA_NOTICE} ${manifest.notice}`;
+  p.scenario = manifest.scenario ?? null;
+  p.provenance = provenanceText(manifest);
+  return p;
+}
+
+/** RFC 7946 FeatureCollection of the shortlist in the given (ranked) order. */
+export function shortlistToGeoJSON(items: readonly ShortlistItem[], manifest: Manifest) {
+  return {
+    type: 'FeatureCollection' as const,
+    features: items.map((item, i) => ({
+      type: 'Feature' as const,
+      geometry: { type: 'Point' as const, coordinates: [round(item.lon, 6), round(item.lat, 6)] },
+      properties: exportProperties(item, i + 1, manifest),
+    })),
+  };
+}
+
+/** One CSV cell: quoted when needed, formula-leading text neutralised with a leading apostrophe. */
+export function csvCell(value: PropertyValue | undefined): string {
+  if (value === null || value === undefined) return '';
+  if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '';
+  let text = typeof value === 'object' ? JSON.stringify(value) : String(value);
+  if (/^[=+\-@\t\r]/.test(text)) text = `'${text}`;
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** CSV (RFC 4180, CRLF line ends) with the same columns as the GeoJSON properties. */
+export function shortlistToCsv(items: readonly ShortlistItem[], manifest: Manifest): string {
+  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest));
+  const columns: string[] = [];
+  const template = exportProperties(
+    { id: '', name: '', note: '', lon: 0, lat: 0, addedAt: '', origin: 'map', values: {}, metrics: {} },
+    0,
+    manifest,
+  );
+  for (const k of Object.keys(template)) columns.push(k);
+  for (const r of rows) for (const k of Object.keys(r)) if (!columns.includes(k)) columns.push(k);
+  const lines = [columns.map((c) => csvCell(c)).join(',')];
+  for (const r of rows) lines.push(columns.map((c) => csvCell(r[c])).join(','));
+  return lines.join('\r\n') + '\r\n';
+}
+
+const importedFeatureSchema = z.object({
+  type: z.literal('Feature'),
+  geometry: z.object({
+    type: z.literal('Point'),
+    coordinates: z.tuple([z.number().min(-180).max(180), z.number().min(-90).max(90)]).rest(z.number()),
+  }),
+  properties: z.record(z.string(), z.unknown()).nullable(),
+});
+const importedCollectionSchema = z.object({
+  type: z.literal('FeatureCollection'),
+  features: z.array(importedFeatureSchema),
+});
+
+/**
+ * Read a shortlist back from a GeoJSON export (ours, or any Point FeatureCollection: unknown
+ * properties are ignored, names default). Returns the items and the problems found, with paths.
+ */
+export function shortlistFromGeoJSON(
+  json: unknown,
+  bands: Band[],
+): { items: ShortlistItem[]; issues: string[] } {
+  const parsed = importedCollectionSchema.safeParse(json);
+  if (!parsed.success) {
+    return {
+      items: [],
+      issues: parsed.error.issues.map((i) => `${i.path.join('.') || '(root)'}: ${i.message}`),
+    };
+  }
+  const items: ShortlistItem[] = [];
+  const issues: string[] = [];
+  parsed.data.features.forEach((f, i) => {
+    const p = f.properties ?? {};
+    const values: Record<string, number | null> = {};
+    for (const band of bands) {
+      const v = p[bandPropertyName(band)];
+      if (typeof v === 'number') values[band.id] = v;
+      else if (v === null) values[band.id] = null;
+    }
+    const metrics: Record<string, number | string | null> = {};
+    for (const [k, v] of Object.entries(p)) {
+      if (k.startsWith('metric_') && (typeof v === 'number' || typeof v === 'string' || v === null))
+        metrics[k.slice('metric_'.length)] = v;
+    }
+    const candidate = {
+      id: typeof p.pileAtlasId === 'string' && p.pileAtlasId ? p.pileAtlasId : `import-${Date.now()}-${i}`,
+      name: typeof p.name === 'string' ? p.name : `Imported site ${i + 1}`,
+      note: typeof p.note === 'string' ? p.note : '',
+      lon: f.geometry.coordinates[0],
+      lat: f.geometry.coordinates[1],
+      addedAt: typeof p.addedAt === 'string' ? p.addedAt : new Date().toISOString(),
+      origin: p.origin === 'site' || p.origin === 'map' ? p.origin : 'import',
+      values,
+      metrics,
+    };
+    const ok = shortlistItemSchema.safeParse(candidate);
+    if (ok.success) items.push(ok.data);
+    else issues.push(...ok.error.issues.map((iss) => `features.${i}.${iss.path.join('.')}: ${iss.message}`));
+  });
+  return { items, issues };
+}
+
+/** Sort key choices: name, date added, or any band / metric (numeric, nodata last). */
+export type ShortlistSortKey = 'name' | 'addedAt' | `band:${string}` | `metric:${string}`;
+
+/** A sorted copy (stable); numeric keys put missing values last in both directions. */
+export function sortShortlist(
+  items: readonly ShortlistItem[],
+  key: ShortlistSortKey,
+  direction: 'asc' | 'desc',
+): ShortlistItem[] {
+  const sign = direction === 'asc' ? 1 : -1;
+  const numeric = (it: ShortlistItem): number | null => {
+    const v = key.startsWith('band:') ? it.values[key.slice(5)] : it.metrics[key.slice(7)];
+    return typeof v === 'number' && Number.isFinite(v) ? v : null;
+  };
+  return items
+    .map((it, i) => ({ it, i }))
+    .sort((a, b) => {
+      if (key === 'name' || key === 'addedAt') {
+        const c = a.it[key].localeCompare(b.it[key]);
+        return c !== 0 ? sign * c : a.i - b.i;
+      }
+      const va = numeric(a.it);
+      const vb = numeric(b.it);
+      if (va === null && vb === null) return a.i - b.i;
+      if (va === null) return 1;
+      if (vb === null) return -1;
+      return va !== vb ? sign * (va - vb) : a.i - b.i;
+    })
+    .map((x) => x.it);
+}
+
+function round(v: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(v * f) / f;
+}
