@@ -11,20 +11,24 @@
  *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
  *     adds the gradient between the two depths;
  *  4. warming: linear surface trend (the air trend) propagated by conduction in frozen ground
- *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles when it has raised the reference
- *     point to 0 °C (latent heat neglected: earlier than with phase change);
+ *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles by the method of
+ *     layers/physics/years-to-thaw.ts: the time the conduction rise brings the reference point to
+ *     0 °C (tabulated here) plus the latent-heat delay z·√(L/(k_thawed·b)) of a Stefan front under a
+ *     rising surface excess;
  *  5. standard building: heating demand UA·HDD (HDD = freezing index of T_air − T_balance), peak load
  *     UA·(T_balance − T_design), annual and peak-month load fractions; ground load = heat·(1 − 1/COP);
- *  6. operating window and pile count (operating-window.ts);
+ *  6. operating window and pile count (operating-window.ts); the peak terms see the winter ground:
+ *     the mean along the pile less the annual wave's winter anomaly (pileWinterAnomaly_K);
  *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0, piles operating from
- *     the start year on (forward search with growing steps from the no-pile thaw time, then bisection
- *     to 0.01 yr);
+ *     the start year on (forward search from the no-pile time, then regula falsi to 0.01 yr), plus
+ *     the same latent delay: the thaw delay is the difference of the sensible parts;
  *  8. economics at the seasonal COP: EFT_season = T_pile − q'_carried·(R_b + g_life/(2πk)) − ΔT_half
  *     (annual-average extraction through the pile and the long-term ground resistance), COP from the
  *     scenario's linear curve clamped to [1.5, 6];
  *  9. exclusions, soft scores, class (suitability.ts).
  */
 import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
+import { dampingDepth_m } from '../physics/ground-temperature-wave';
 import { ttop_C } from '../physics/ttop';
 import { stefanDepth_m } from '../physics/stefan';
 import type { CellInputs } from './screening-model';
@@ -66,6 +70,32 @@ export function createKernelScratch(): KernelScratch {
       binding: 0,
     },
   };
+}
+
+/**
+ * Winter cold anomaly of the ground averaged over the pile's active length, K (≥ 0 means colder):
+ * the Kusuda & Achenbach (1965) annual wave A_s·e^(−z/d)·cos(z/d) at the time of the surface minimum,
+ * averaged over z ∈ [top, bottom] in closed form, (d/(z2 − z1))·[F(z2/d) − F(z1/d)] with
+ * F(u) = e^(−u)(sin u − cos u)/2 and d the damping depth √(Pα/π) (layers/physics/ground-temperature-wave.ts).
+ * A_s is the winter half of the n-factor-transferred surface wave, n_f·A (conduction, no latent heat
+ * in the active layer: an over-estimate where the pile top sits in it).
+ */
+export function pileWinterAnomaly_K(p: {
+  surfaceAmplitude_C: number;
+  diffusivity_m2_s: number;
+  top_m: number;
+  bottom_m: number;
+}): number {
+  const d = dampingDepth_m(p.diffusivity_m2_s);
+  return (
+    (p.surfaceAmplitude_C * d * (waveIntegral(p.bottom_m / d) - waveIntegral(p.top_m / d))) /
+    (p.bottom_m - p.top_m)
+  );
+}
+
+/** ∫ e^(−u) cos u du = e^(−u)(sin u − cos u)/2. */
+function waveIntegral(u: number): number {
+  return (Math.exp(-u) * (Math.sin(u) - Math.cos(u))) / 2;
 }
 
 /** Linear COP curve of the scenario, clamped to [1.5, 6]. */
@@ -182,8 +212,14 @@ export function evaluateCellMetrics(
   const gLife = flsResponse(k.tables.pileMean, alphaF, lifeS);
   const gMonth = flsResponse(k.tables.pileMean, alphaF, MONTH_S);
   const annualFraction = avg_W / peak_W;
+  const winter = pileWinterAnomaly_K({
+    surfaceAmplitude_C: nF * cell.airAmplitude_C,
+    diffusivity_m2_s: alphaF,
+    top_m: s.pile.topDepth_m,
+    bottom_m: s.pile.topDepth_m + H,
+  });
   const qPeak = threePulsePeakPerPile_W({
-    groundTemp_C: tPile,
+    groundTemp_C: tPile - winter,
     meanFluid_C: hp.minEnteringFluid_C + hp.fluidHalfDelta_K,
     length_m: H,
     radius_m: s.pile.radius_m,
@@ -216,16 +252,21 @@ export function evaluateCellMetrics(
   m[M.windowUpperFluid] = w.upperFluid_W_m;
   m[M.windowUpperOvercool] = w.upperOvercool_W_m;
   m[M.loadShare] = w.loadShare;
+  m[M.extractionCarried] = w.carried_W_m;
   m[M.bindingLimit] = w.binding;
 
-  // 4 + 7. thaw years
+  // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
   if (tRef < 0) {
     const horizon = s.horizon_yr;
-    const t0 = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
+    const tL =
+      b > 0
+        ? (zr * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
+        : Infinity;
+    const t0s = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
     const cP = w.carried_W_m / (2 * Math.PI * kF);
-    const tP = thawWithPiles(k, { tRef, t0, cP, b, alphaYr, alphaF, zr, horizon });
-    const t0c = Math.min(t0, horizon);
-    const tPc = Math.min(tP, horizon);
+    const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, b, alphaYr, alphaF, zr, horizon });
+    const t0c = Math.min(t0s + tL, horizon);
+    const tPc = Math.min(tPs + tL, horizon);
     m[M.thawYear] = s.startYear + t0c;
     m[M.thawYearPiles] = s.startYear + tPc;
     m[M.thawDelay] = tPc - t0c;

@@ -27,6 +27,7 @@ const IDS = [
   'windowUpperFluid',
   'windowUpperOvercool',
   'loadShare',
+  'extractionCarried',
   'bindingLimit',
   'seasonalCop',
   'heatingDemand',
@@ -230,6 +231,15 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       legendMin: 0,
       legendMax: 1,
       description: `Share of the standard building's heat that its ${s.building.foundationPiles} foundation piles can carry.`,
+      source: `${SIZING_SRC}; ${FLS_SRC}`,
+    },
+    extractionCarried: {
+      title: 'Extraction carried',
+      unit: 'W/m',
+      kind: 'continuous',
+      ramp: 'viridis',
+      description:
+        'Annual-average extraction per metre the foundation piles carry (the load within the window).',
       source: `${SIZING_SRC}; ${FLS_SRC}`,
     },
     bindingLimit: {

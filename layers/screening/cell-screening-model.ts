@@ -49,7 +49,7 @@ export function manifestCriteria(scenario: unknown = {}): CriterionDefinition[] 
 
 const TEXTURE_BY_NAME = Object.fromEntries(Object.entries(TEXTURE_CODES).map(([c, n]) => [n, Number(c)]));
 const optionalNumber = z
-  .number()
+  .union([z.number(), z.nan()])
   .nullable()
   .optional()
   .transform((v) => (v === null || v === undefined ? NaN : v));

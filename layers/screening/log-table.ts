@@ -8,6 +8,8 @@
  * in log x is ≤ h²·max|f''|/8 with h = 1/perDecade; the builders below state the measured error.
  */
 
+const INV_LN10 = 1 / Math.LN10;
+
 export interface LogTable {
   log10Min: number;
   perDecade: number;
@@ -47,7 +49,7 @@ export function buildLogTable(
 export function lookup(t: LogTable, x: number): number {
   if (Number.isNaN(x)) return NaN;
   const v = t.values;
-  const u = x > 0 ? (Math.log10(x) - t.log10Min) * t.perDecade : -1;
+  const u = x > 0 ? (Math.log(x) * INV_LN10 - t.log10Min) * t.perDecade : -1;
   let y: number;
   if (u <= 0) y = v[0];
   else if (u >= v.length - 1) y = v[v.length - 1];
@@ -56,5 +58,5 @@ export function lookup(t: LogTable, x: number): number {
     const f = u - i;
     y = v[i] + (v[i + 1] - v[i]) * f;
   }
-  return t.logY ? Math.pow(10, y) : y;
+  return t.logY ? Math.exp(y * Math.LN10) : y;
 }

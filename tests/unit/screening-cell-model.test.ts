@@ -1,0 +1,264 @@
+import { describe, it, expect } from 'vitest';
+import fc from 'fast-check';
+import {
+  createScreeningModel,
+  manifestCriteria,
+  parseCellInputs,
+  screenCell,
+} from '../../layers/screening/cell-screening-model';
+import { METRIC, METRIC_COUNT, METRIC_IDS } from '../../layers/screening/cell-layers';
+import { buildCellConstants, soilAt } from '../../layers/screening/cell-constants';
+import {
+  createKernelScratch,
+  evaluateCellMetrics,
+  pileWinterAnomaly_K,
+} from '../../layers/screening/cell-kernel';
+import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../layers/screening/scenario';
+import { criterionSchema, bandSchema } from '../../layers/screening/manifest';
+import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
+import { degreeDays } from '../../layers/physics/surface-forcing';
+import { ttop_C } from '../../layers/physics/ttop';
+import { stefanDepth_m } from '../../layers/physics/stefan';
+import type { CellInputs } from '../../layers/screening/screening-model';
+
+const base: CellInputs = {
+  meanAirTemp_C: -6,
+  airAmplitude_C: 18,
+  warming_C_per_yr: 0.05,
+  textureClass: 3,
+  waterContent_m3m3: 0.4,
+  bedrockDepth_m: 20,
+  groundTemp_C: NaN,
+  geothermalFlux_W_m2: NaN,
+  nFreeze: NaN,
+  latitude_deg: 72,
+};
+
+function metrics(cell: Partial<CellInputs>, s: Scenario = DEFAULT_SCENARIO): Float64Array {
+  const m = new Float64Array(METRIC_COUNT);
+  evaluateCellMetrics({ ...base, ...cell }, buildCellConstants(s), createKernelScratch(), m);
+  return m;
+}
+
+const cellArb = fc.record({
+  meanAirTemp_C: fc.double({ min: -14, max: -2.5, noNaN: true }),
+  airAmplitude_C: fc.double({ min: 10, max: 24, noNaN: true }),
+  warming_C_per_yr: fc.double({ min: 0.01, max: 0.1, noNaN: true }),
+  textureClass: fc.integer({ min: 1, max: 5 }),
+  waterContent_m3m3: fc.double({ min: 0.05, max: 0.85, noNaN: true }),
+});
+
+describe('layers and manifest criteria', () => {
+  const model = createScreeningModel();
+  it('one valid manifest band per metric, ids unique, in METRIC order', () => {
+    expect(model.layers.map((l) => l.id)).toEqual([...METRIC_IDS]);
+    expect(new Set(METRIC_IDS).size).toBe(METRIC_COUNT);
+    for (const l of model.layers) {
+      const band = { ...l, scale: 1, offset: 0, min: 0, max: 1 };
+      expect(bandSchema.safeParse(band).success).toBe(true);
+    }
+  });
+  it('every criterion is valid for the manifest and reads an existing band', () => {
+    for (const c of manifestCriteria()) {
+      expect(criterionSchema.safeParse(c).success).toBe(true);
+      expect(METRIC_IDS).toContain(c.bandId);
+    }
+  });
+  it('a bad scenario field is refused with its path', () => {
+    expect(() => createScreeningModel({ pile: { radius_m: 'thick' } })).toThrow(/pile\.radius_m/);
+    expect(() => createScreeningModel({ designLife_yr: 0 })).toThrow(/designLife_yr/);
+    expect(() => createScreeningModel({ referenceRadius_m: 0.05 })).toThrow(/referenceRadius_m/);
+    expect(() => createScreeningModel({ economics: { furnaceEficiency: 0.8 } })).toThrow(/furnaceEficiency/);
+  });
+  it('bad cell JSON is refused with its path; texture names are accepted', () => {
+    expect(() => parseCellInputs({ ...base, waterContent_m3m3: 2 })).toThrow(/waterContent_m3m3/);
+    expect(parseCellInputs({ ...base, textureClass: 'peat', groundTemp_C: null }).textureClass).toBe(5);
+  });
+});
+
+describe('the kernel reuses the science core (cross-checks against direct calls)', () => {
+  it('ground temperature = TTOP + geothermal gradient below the Stefan active layer', () => {
+    const m = metrics({});
+    const p = soilThermalProperties({ texture: 'silt', waterContent_m3m3: 0.4 });
+    const dd = degreeDays({ meanAirTemp_C: -6, amplitude_C: 18 });
+    const s = DEFAULT_SCENARIO;
+    const t = ttop_C({
+      ...dd,
+      nFreeze: 0.5,
+      nThaw: 1,
+      kThawed_W_mK: p.kThawed_W_mK,
+      kFrozen_W_mK: p.kFrozen_W_mK,
+    });
+    const alt = stefanDepth_m({
+      conductivity_W_mK: p.kThawed_W_mK,
+      index_Cd: dd.thawingIndex_Cd,
+      latent_J_m3: p.latent_J_m3,
+    });
+    const zp = s.pile.topDepth_m + s.pile.length_m / 2;
+    const expected = t + (0.06 / p.kFrozen_W_mK) * (zp - alt);
+    expect(m[METRIC.activeLayer]).toBeCloseTo(alt, 2);
+    expect(m[METRIC.groundTemp]).toBeCloseTo(expected, 2);
+  });
+  it('a ground-temperature grid value replaces TTOP at pile depth', () => {
+    expect(metrics({ groundTemp_C: -4.25 })[METRIC.groundTemp]).toBe(-4.25);
+  });
+  it('soil table interpolation stays within 1 % of soilThermalProperties', () => {
+    const k = buildCellConstants(DEFAULT_SCENARIO);
+    const out = createKernelScratch().soil;
+    const names = ['gravel', 'sand', 'silt', 'clay', 'peat'] as const;
+    names.forEach((texture, i) => {
+      const t = k.soil[i + 1];
+      for (let j = 1; j < 20; j++) {
+        const th = t.thetaMin + ((t.thetaMax - t.thetaMin) * j) / 20.3;
+        const p = soilThermalProperties({ texture, waterContent_m3m3: th });
+        soilAt(t, th, out);
+        expect(Math.abs(out.kFrozen / p.kFrozen_W_mK - 1)).toBeLessThan(0.01);
+        expect(Math.abs(out.kThawed / p.kThawed_W_mK - 1)).toBeLessThan(0.01);
+        expect(Math.abs(out.cFrozen / p.cFrozen_J_m3K - 1)).toBeLessThan(0.01);
+      }
+    });
+  });
+  it('winter anomaly: deep piles see none, a pile at the surface sees about half the surface wave', () => {
+    expect(
+      pileWinterAnomaly_K({ surfaceAmplitude_C: 10, diffusivity_m2_s: 1e-6, top_m: 40, bottom_m: 50 }),
+    ).toBeLessThan(1e-4);
+    // average of e^-u cos u over u in [0, small] -> 1
+    expect(
+      pileWinterAnomaly_K({ surfaceAmplitude_C: 10, diffusivity_m2_s: 1e-6, top_m: 0, bottom_m: 0.01 }),
+    ).toBeCloseTo(10, 1);
+  });
+});
+
+describe('exclusions', () => {
+  it('missing input → outside the data, nothing else evaluated', () => {
+    const m = metrics({ meanAirTemp_C: NaN });
+    expect(m[METRIC.exclusion]).toBe(1);
+    expect(m[METRIC.suitability]).toBe(0);
+    expect(m[METRIC.groundTemp]).toBeNaN();
+  });
+  it('bedrock texture or shallow bedrock → 2; warm climate → no permafrost 3', () => {
+    expect(metrics({ textureClass: 6, waterContent_m3m3: 0.03 })[METRIC.exclusion]).toBe(2);
+    expect(metrics({ bedrockDepth_m: 3 })[METRIC.exclusion]).toBe(2);
+    expect(metrics({ meanAirTemp_C: 1 })[METRIC.exclusion]).toBe(3);
+  });
+  it('a very cold cell reaches the fluid limit (5) with a -5 °C heat pump', () => {
+    const s = parseScenario({ heatPump: { minEnteringFluid_C: -5 } });
+    expect(metrics({ meanAirTemp_C: -14, groundTemp_C: -9 }, s)[METRIC.exclusion]).toBe(5);
+  });
+  it('an active layer below the reference depth → already thawed (4)', () => {
+    const s = parseScenario({ referenceDepth_m: 1, pile: { topDepth_m: 0, length_m: 2 } });
+    const m = metrics({ meanAirTemp_C: -3, textureClass: 1, waterContent_m3m3: 0.05, groundTemp_C: -1 }, s);
+    expect(m[METRIC.activeLayer]).toBeGreaterThan(1);
+    expect(m[METRIC.exclusion]).toBe(4);
+  });
+});
+
+describe('operating window and binding limit', () => {
+  it('default heat pump: fluid-limited; a cold-capable heat pump and strict over-cooling: over-cooling binds', () => {
+    expect(metrics({})[METRIC.bindingLimit]).toBe(2);
+    const s = parseScenario({ heatPump: { minEnteringFluid_C: -18 }, maxOvercooling_K: 0.5 });
+    const m = metrics({}, s);
+    expect(m[METRIC.bindingLimit]).toBe(3);
+    expect(m[METRIC.windowUpper]).toBeCloseTo(m[METRIC.windowUpperOvercool], 9);
+  });
+  it('warm permafrost with a small load: thaw binds', () => {
+    const s = parseScenario({ building: { foundationPiles: 400 } });
+    const m = metrics({ groundTemp_C: -0.3, textureClass: 1, waterContent_m3m3: 0.15 }, s);
+    expect(m[METRIC.windowLower]).toBeGreaterThan(m[METRIC.extractionCarried]);
+    expect(m[METRIC.bindingLimit]).toBe(1);
+  });
+  it('invariants over the demo ranges (property)', () => {
+    fc.assert(
+      fc.property(cellArb, (c) => {
+        const m = metrics(c);
+        if (m[METRIC.exclusion] !== 0) return;
+        const share = m[METRIC.loadShare];
+        expect(share).toBeGreaterThanOrEqual(0);
+        expect(share).toBeLessThanOrEqual(1);
+        expect(m[METRIC.windowUpper]).toBeLessThanOrEqual(m[METRIC.windowUpperFluid] + 1e-9);
+        expect(m[METRIC.windowUpper]).toBeLessThanOrEqual(m[METRIC.windowUpperOvercool] + 1e-9);
+        expect(m[METRIC.thawDelay]).toBeGreaterThanOrEqual(0);
+        expect(m[METRIC.thawYearPiles]).toBeGreaterThanOrEqual(m[METRIC.thawYear]);
+        expect(m[METRIC.fuelIncrease]).toBe(m[METRIC.seasonalCop] < m[METRIC.breakEvenCopFuel] ? 1 : 0);
+        const score = m[METRIC.suitabilityScore];
+        expect(score).toBeGreaterThanOrEqual(0);
+        expect(score).toBeLessThanOrEqual(1);
+      }),
+      { seed: 5, numRuns: 150 },
+    );
+  });
+});
+
+describe('monotonicity (property tests over the demo ranges)', () => {
+  it('colder ground never brings the thaw year without piles earlier', () => {
+    fc.assert(
+      fc.property(
+        cellArb,
+        fc.double({ min: -8, max: -0.3, noNaN: true }),
+        fc.double({ min: 0.1, max: 3, noNaN: true }),
+        (c, tg, d) => {
+          const warm = metrics({ ...c, groundTemp_C: tg });
+          const cold = metrics({ ...c, groundTemp_C: tg - d });
+          expect(cold[METRIC.thawYear]).toBeGreaterThanOrEqual(warm[METRIC.thawYear] - 1e-6);
+        },
+      ),
+      { seed: 17, numRuns: 150 },
+    );
+  });
+  it('faster warming never delays the thaw year without piles', () => {
+    fc.assert(
+      fc.property(cellArb, fc.double({ min: 0.001, max: 0.05, noNaN: true }), (c, db) => {
+        const slow = metrics(c);
+        const fast = metrics({ ...c, warming_C_per_yr: c.warming_C_per_yr + db });
+        if (Number.isNaN(slow[METRIC.thawYear])) return;
+        expect(fast[METRIC.thawYear]).toBeLessThanOrEqual(slow[METRIC.thawYear] + 1e-6);
+      }),
+      { seed: 19, numRuns: 150 },
+    );
+  });
+  it('a larger heating load (more extraction carried per pile) never shortens the thaw delay', () => {
+    const more = parseScenario({ building: { heatLossCoefficient_W_K: 300 } });
+    fc.assert(
+      fc.property(cellArb, (c) => {
+        const a = metrics(c);
+        const b = metrics(c, more);
+        if (a[METRIC.exclusion] !== 0) return;
+        expect(b[METRIC.extractionCarried]).toBeGreaterThanOrEqual(a[METRIC.extractionCarried] - 1e-9);
+        expect(b[METRIC.thawDelay]).toBeGreaterThanOrEqual(a[METRIC.thawDelay] - 0.02);
+      }),
+      { seed: 23, numRuns: 100 },
+    );
+  });
+  it('a colder allowed fluid or a lower pile resistance never needs more piles per ton', () => {
+    const colder = parseScenario({ heatPump: { minEnteringFluid_C: -10 } });
+    const better = parseScenario({ pile: { resistance_mK_W: 0.08 } });
+    fc.assert(
+      fc.property(cellArb, (c) => {
+        const a = metrics(c)[METRIC.pilesPerTon];
+        if (!Number.isFinite(a)) return;
+        expect(metrics(c, colder)[METRIC.pilesPerTon]).toBeLessThanOrEqual(a);
+        expect(metrics(c, better)[METRIC.pilesPerTon]).toBeLessThanOrEqual(a);
+      }),
+      { seed: 29, numRuns: 100 },
+    );
+  });
+});
+
+describe('screenCell and evaluate agree', () => {
+  it('the card shows the map value (Float32 of the same kernel) and explains the class', () => {
+    const model = createScreeningModel();
+    const out = new Float32Array(METRIC_COUNT);
+    model.evaluate(base, out);
+    const card = screenCell({ ...base, groundTemp_C: null, geothermalFlux_W_m2: null, nFreeze: null });
+    METRIC_IDS.forEach((id, i) => {
+      const v = card.metrics[id].value;
+      if (v === null) expect(out[i]).toBeNaN();
+      else expect(out[i]).toBeCloseTo(Math.fround(v), 3);
+    });
+    expect(card.cautions.join(' ')).toMatch(/not a design/);
+    const soft = card.criteria.filter((c) => c.kind === 'soft');
+    const score = soft.reduce((a, c) => a + c.weight * (c.score ?? 0), 0);
+    expect(score).toBeCloseTo(card.suitability.score as number, 9);
+    for (const c of card.criteria.filter((x) => x.kind === 'exclusion')) expect(c.verdict).toBe('pass');
+  });
+});
