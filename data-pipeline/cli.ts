@@ -7,9 +7,10 @@ import { buildCommand } from './commands/build';
 import { cellCommand } from './commands/cell';
 import type { Command } from './commands/command';
 import { demoDataCommand } from './commands/demo-data';
+import { siteCommand } from './commands/site';
 import { InputError } from './input-error';
 
-export const COMMANDS: Command[] = [demoDataCommand, buildCommand, cellCommand];
+export const COMMANDS: Command[] = [demoDataCommand, buildCommand, cellCommand, siteCommand];
 
 export const EXIT_OK = 0;
 export const EXIT_INTERNAL = 1;
