@@ -206,9 +206,16 @@ function fieldG(p: Prepared, n: number, times_s: number[]): number[] {
   });
 }
 
+const peakCache = new WeakMap<Prepared, number>();
+
 function peakG(p: Prepared): number {
+  const cached = peakCache.get(p);
+  if (cached !== undefined) return cached;
   const fo = (p.a * p.peak_s) / (p.rb * p.rb);
-  return 2 * Math.PI * (p.method === 'singlePileCylinder' ? cylinderSourceGBernier(fo) : cylinderSourceG(fo));
+  const g =
+    2 * Math.PI * (p.method === 'singlePileCylinder' ? cylinderSourceGBernier(fo) : cylinderSourceG(fo));
+  peakCache.set(p, g);
+  return g;
 }
 
 function drops(p: Prepared, n: number): Record<Pulse, number> {
