@@ -25,6 +25,7 @@ import { CellPanel, cellValues, type CellSelection } from './panels/cell-panel';
 import { ShortlistPanel } from './panels/shortlist-panel';
 import { FictionalNotice, ScreeningCaution } from './panels/caution-notes';
 import { HoverReadout, type HoverState } from './panels/hover-readout';
+import { SitePanel } from './site/site-panel';
 
 const DATA_BASE = new URL('data/', document.baseURI);
 
@@ -95,6 +96,12 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const [boundaryMessage, setBoundaryMessage] = useState<string | null>(null);
   const [flyTarget, setFlyTarget] = useState<{ lon: number; lat: number; seq: number } | null>(null);
   const shortlist = useShortlist();
+  const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
+  const [viewportLoads, setViewportLoads] = useState(0);
+  const onViewportLoad = useCallback(() => {
+    setFirstPaint_ms((t) => t ?? Math.round(performance.now()));
+    setViewportLoads((n) => n + 1);
+  }, []);
 
   useEffect(() => {
     loadCellTable(atlas).then(setTable, (e: unknown) =>
@@ -277,7 +284,12 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         />
         <SourcesPanel manifest={manifest} />
       </aside>
-      <main className="map-wrap">
+      <main
+        className="map-wrap"
+        data-testid="map-wrap"
+        data-first-paint-ms={firstPaint_ms ?? undefined}
+        data-viewport-loads={viewportLoads}
+      >
         <MapView
           atlas={atlas}
           style={style}
@@ -292,6 +304,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           onClick={onClick}
           onViewChange={onViewChange}
           flyTarget={flyTarget}
+          onViewportLoad={onViewportLoad}
         />
         <HoverReadout
           hover={hover}
@@ -303,6 +316,9 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         />
       </main>
       <aside className="side right" aria-label="Selected place and shortlist">
+        {selection ? (
+          <SitePanel manifest={manifest} table={table} selection={selection} settlements={atlas.settlements} units={units} />
+        ) : null}
         {selection ? (
           <CellPanel
             manifest={manifest}

@@ -1,0 +1,120 @@
+/**
+ * The frame every site chart draws in: an SVG with a title, axes with ticks and unit labels, grid lines
+ * and a legend. Children receive the scales. Sized by a viewBox so it scales with its container and
+ * prints crisply.
+ */
+import type { ReactNode } from 'react';
+import { linearScale, niceTicks, type LinearScale } from './chart-scale';
+
+export interface LegendEntry {
+  label: string;
+  colour: string;
+  dash?: string;
+  kind?: 'line' | 'box';
+}
+
+export interface ChartFrameProps {
+  title: string;
+  /** Short plain description for screen readers. */
+  description: string;
+  xDomain: [number, number];
+  yDomain: [number, number];
+  xLabel: string;
+  yLabel: string;
+  /** y grows downward (depth axes). */
+  yDown?: boolean;
+  xTicks?: number[];
+  xTickLabel?: (v: number) => string;
+  yTickLabel?: (v: number) => string;
+  legend: LegendEntry[];
+  width?: number;
+  height?: number;
+  testId?: string;
+  children: (x: LinearScale, y: LinearScale) => ReactNode;
+}
+
+export const CHART_MARGIN = { left: 56, right: 14, top: 12, bottom: 40 };
+
+const fmt = (v: number) =>
+  Math.abs(v) >= 1000 ? v.toLocaleString('en-US') : String(Number(v.toPrecision(4)));
+
+export function ChartFrame(props: ChartFrameProps) {
+  const width = props.width ?? 520;
+  const height = props.height ?? 260;
+  const m = CHART_MARGIN;
+  const x = linearScale(props.xDomain, [m.left, width - m.right]);
+  const y = linearScale(props.yDomain, props.yDown ? [m.top, height - m.bottom] : [height - m.bottom, m.top]);
+  const xt = props.xTicks ?? niceTicks(props.xDomain[0], props.xDomain[1], 6);
+  const yt = niceTicks(props.yDomain[0], props.yDomain[1], 5);
+  const xl = props.xTickLabel ?? fmt;
+  const yl = props.yTickLabel ?? fmt;
+  const titleId = `${props.testId ?? props.title}-title`.replace(/\W+/g, '-');
+  return (
+    <figure className="site-chart" data-testid={props.testId}>
+      <figcaption id={titleId}>{props.title}</figcaption>
+      <svg
+        viewBox={`0 0 ${width} ${height}`}
+        role="img"
+        aria-labelledby={titleId}
+        aria-describedby={`${titleId}-d`}
+      >
+        <desc id={`${titleId}-d`}>{props.description}</desc>
+        <g className="grid">
+          {yt.map((v) => (
+            <line key={`gy${v}`} x1={m.left} x2={width - m.right} y1={y(v)} y2={y(v)} />
+          ))}
+          {xt.map((v) => (
+            <line key={`gx${v}`} x1={x(v)} x2={x(v)} y1={m.top} y2={height - m.bottom} />
+          ))}
+        </g>
+        <g className="plot">{props.children(x, y)}</g>
+        <g className="axis">
+          <line x1={m.left} x2={m.left} y1={m.top} y2={height - m.bottom} />
+          <line x1={m.left} x2={width - m.right} y1={height - m.bottom} y2={height - m.bottom} />
+          {yt.map((v) => (
+            <text key={`ty${v}`} x={m.left - 5} y={y(v) + 4} textAnchor="end">
+              {yl(v)}
+            </text>
+          ))}
+          {xt.map((v) => (
+            <text key={`tx${v}`} x={x(v)} y={height - m.bottom + 15} textAnchor="middle">
+              {xl(v)}
+            </text>
+          ))}
+          <text className="axis-label" x={(m.left + width - m.right) / 2} y={height - 6} textAnchor="middle">
+            {props.xLabel}
+          </text>
+          <text
+            className="axis-label"
+            transform={`translate(13 ${(m.top + height - m.bottom) / 2}) rotate(-90)`}
+            textAnchor="middle"
+          >
+            {props.yLabel}
+          </text>
+        </g>
+      </svg>
+      <ul className="chart-legend">
+        {props.legend.map((e) => (
+          <li key={e.label}>
+            <svg width="22" height="10" aria-hidden="true">
+              {e.kind === 'box' ? (
+                <rect x="2" y="1" width="18" height="8" fill={e.colour} />
+              ) : (
+                <line
+                  x1="1"
+                  x2="21"
+                  y1="5"
+                  y2="5"
+                  stroke={e.colour}
+                  strokeWidth="2.5"
+                  strokeDasharray={e.dash}
+                />
+              )}
+            </svg>
+            {e.label}
+          </li>
+        ))}
+      </ul>
+    </figure>
+  );
+}

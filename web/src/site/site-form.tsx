@@ -1,0 +1,426 @@
+/**
+ * The site input form, drawn from the one zod schema (layers/site/site-input-schema.ts): every field of
+ * the schema is editable, with its title and unit from the schema's metadata and its validation message
+ * right beside it. Fields with a value are shown; fields left empty (their default applies, or they are
+ * optional) sit under "More settings". Optional and nullable groups get a switch, unions a selector,
+ * arrays of objects add/remove buttons, arrays of numbers a comma-separated box.
+ */
+import { useEffect, useId, useState } from 'react';
+import { z } from 'zod';
+import {
+  emptyValue,
+  getAt,
+  numberLimits,
+  parseNumberText,
+  pathKey,
+  setAt,
+  unwrapSchema,
+  type Path,
+} from './schema-form-model';
+
+export interface FormContext {
+  root: unknown;
+  issues: Map<string, string[]>;
+  onChange(next: unknown): void;
+}
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** 'outerDiameter_m' -> 'Outer diameter' (used when the schema gives no title). */
+export function humanise(key: string): string {
+  const base = key
+    .replace(/_.*$/, '')
+    .replace(/([a-z])([A-Z])/g, '$1 $2')
+    .toLowerCase();
+  return base.charAt(0).toUpperCase() + base.slice(1);
+}
+
+export function fieldId(path: Path): string {
+  return `site-${pathKey(path).replace(/[^a-zA-Z0-9_-]/g, '-')}`;
+}
+
+function Messages(props: { id: string; messages: string[] | undefined }) {
+  if (!props.messages?.length) return null;
+  return (
+    <span className="field-error" id={props.id} data-testid="field-error">
+      {props.messages.join('; ')}
+    </span>
+  );
+}
+
+function NumberField(props: {
+  ctx: FormContext;
+  path: Path;
+  schema: z.ZodNumber;
+  label: string;
+  unit: string;
+  placeholder?: string;
+  hint?: string;
+}) {
+  const { ctx, path } = props;
+  const value = getAt(ctx.root, path);
+  const shown = typeof value === 'number' ? String(value) : typeof value === 'string' ? value : '';
+  const [text, setText] = useState(shown);
+  useEffect(() => {
+    if (parseNumberText(text) !== value && !(value === undefined && text.trim() === '')) setText(shown);
+    // Resync only when the value changes from outside (reset, prefill); typing keeps its own text.
+  }, [value]);
+  const id = fieldId(path);
+  const messages = ctx.issues.get(pathKey(path));
+  const lim = numberLimits(props.schema);
+  const range =
+    lim.min !== null && lim.max !== null
+      ? `${lim.min} to ${lim.max}`
+      : lim.min !== null
+        ? `at least ${lim.min}`
+        : lim.max !== null
+          ? `at most ${lim.max}`
+          : '';
+  return (
+    <div className={`field${messages ? ' invalid' : ''}`}>
+      <label htmlFor={id}>{props.label}</label>
+      <span className="input-unit">
+        <input
+          id={id}
+          type="text"
+          inputMode="decimal"
+          value={text}
+          placeholder={props.placeholder}
+          aria-invalid={messages ? true : undefined}
+          aria-describedby={messages ? `${id}-err` : undefined}
+          title={[range && `allowed ${range}${props.unit ? ` ${props.unit}` : ''}`, props.hint]
+            .filter(Boolean)
+            .join('. ')}
+          onChange={(e) => {
+            setText(e.target.value);
+            ctx.onChange(setAt(ctx.root, path, parseNumberText(e.target.value)));
+          }}
+        />
+        <span className="unit">{props.unit}</span>
+      </span>
+      <Messages id={`${id}-err`} messages={messages} />
+    </div>
+  );
+}
+
+function NumberListField(props: { ctx: FormContext; path: Path; label: string; unit: string }) {
+  const { ctx, path } = props;
+  const value = getAt(ctx.root, path);
+  const [text, setText] = useState(Array.isArray(value) ? value.join(', ') : '');
+  const id = fieldId(path);
+  const key = pathKey(path);
+  const messages = [...ctx.issues.entries()]
+    .filter(([k]) => k === key || k.startsWith(`${key}.`))
+    .flatMap(([k, m]) => (k === key ? m : m.map((x) => `item ${Number(k.slice(key.length + 1)) + 1}: ${x}`)));
+  return (
+    <div className={`field wide${messages.length ? ' invalid' : ''}`}>
+      <label htmlFor={id}>{props.label}</label>
+      <span className="input-unit">
+        <input
+          id={id}
+          type="text"
+          value={text}
+          placeholder="comma-separated numbers"
+          aria-invalid={messages.length ? true : undefined}
+          aria-describedby={messages.length ? `${id}-err` : undefined}
+          onChange={(e) => {
+            setText(e.target.value);
+            const parts = e.target.value.split(/[,;\s]+/).filter((p) => p !== '');
+            const next = parts.length === 0 ? undefined : parts.map((p) => parseNumberText(p) ?? p);
+            ctx.onChange(setAt(ctx.root, path, next));
+          }}
+        />
+        <span className="unit">{props.unit}</span>
+      </span>
+      <Messages id={`${id}-err`} messages={messages.length ? messages : undefined} />
+    </div>
+  );
+}
+
+function Toggle(props: { id: string; label: string; checked: boolean; onChange(v: boolean): void }) {
+  return (
+    <label className="toggle" htmlFor={props.id}>
+      <input
+        id={props.id}
+        type="checkbox"
+        checked={props.checked}
+        onChange={(e) => props.onChange(e.target.checked)}
+      />{' '}
+      {props.label}
+    </label>
+  );
+}
+
+/** One schema node at `path` (recursive). */
+export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: Path; name: string }) {
+  const { ctx, path, name } = props;
+  const u = unwrapSchema(props.schema);
+  const b = u.base;
+  const value = getAt(ctx.root, path);
+  const label = u.meta.title ?? humanise(name);
+  const unit = u.meta.unit ?? '';
+  const idBase = useId();
+  const defaultText =
+    u.hasDefault && (typeof u.defaultValue === 'number' || typeof u.defaultValue === 'string')
+      ? `default ${typeof u.defaultValue === 'number' ? Number(u.defaultValue.toPrecision(4)) : u.defaultValue}`
+      : u.optional
+        ? 'optional'
+        : undefined;
+
+  if (b instanceof z.ZodNumber) {
+    return (
+      <NumberField
+        ctx={ctx}
+        path={path}
+        schema={b}
+        label={label}
+        unit={unit}
+        placeholder={defaultText}
+        hint={u.meta.description}
+      />
+    );
+  }
+  if (b instanceof z.ZodEnum) {
+    const id = fieldId(path);
+    const messages = ctx.issues.get(pathKey(path));
+    return (
+      <div className={`field${messages ? ' invalid' : ''}`}>
+        <label htmlFor={id}>{label}</label>
+        <select
+          id={id}
+          value={typeof value === 'string' ? value : ''}
+          onChange={(e) => ctx.onChange(setAt(ctx.root, path, e.target.value || undefined))}
+        >
+          {value === undefined ? <option value="">{defaultText ?? 'choose'}</option> : null}
+          {b.options.map((o) => (
+            <option key={String(o)} value={String(o)}>
+              {String(o)}
+            </option>
+          ))}
+        </select>
+        <Messages id={`${id}-err`} messages={messages} />
+      </div>
+    );
+  }
+  if (b instanceof z.ZodLiteral) return null;
+  if (b instanceof z.ZodBoolean) {
+    return (
+      <Toggle
+        id={fieldId(path)}
+        label={label}
+        checked={value === true}
+        onChange={(v) => ctx.onChange(setAt(ctx.root, path, v))}
+      />
+    );
+  }
+  if (b instanceof z.ZodArray) {
+    const el = unwrapSchema(b.element as z.ZodType);
+    if (el.base instanceof z.ZodNumber) {
+      return <NumberListField ctx={ctx} path={path} label={label} unit={el.meta.unit ?? unit} />;
+    }
+    if (el.base instanceof z.ZodBoolean) {
+      const list = Array.isArray(value) ? (value as boolean[]) : null;
+      return (
+        <fieldset className="group">
+          <legend>
+            <Toggle
+              id={`${fieldId(path)}-on`}
+              label={label}
+              checked={list !== null}
+              onChange={(v) => ctx.onChange(setAt(ctx.root, path, v ? new Array(12).fill(true) : undefined))}
+            />
+          </legend>
+          {list ? (
+            <div className="months">
+              {list.map((on, i) => (
+                <Toggle
+                  key={i}
+                  id={`${fieldId(path)}-${i}`}
+                  label={MONTHS[i] ?? String(i + 1)}
+                  checked={on}
+                  onChange={(v) => ctx.onChange(setAt(ctx.root, [...path, i], v))}
+                />
+              ))}
+            </div>
+          ) : null}
+        </fieldset>
+      );
+    }
+    const list = Array.isArray(value) ? value : [];
+    const messages = ctx.issues.get(pathKey(path));
+    return (
+      <fieldset className="group list">
+        <legend>{label}</legend>
+        {list.map((_, i) => (
+          <div className="list-item" key={i}>
+            <div className="list-item-head">
+              <strong>
+                {humanise(name).replace(/s$/, '')} {i + 1}
+              </strong>
+              <button
+                type="button"
+                className="small"
+                onClick={() =>
+                  ctx.onChange(
+                    setAt(
+                      ctx.root,
+                      path,
+                      list.filter((__, j) => j !== i),
+                    ),
+                  )
+                }
+                aria-label={`Remove ${humanise(name).replace(/s$/, '').toLowerCase()} ${i + 1}`}
+              >
+                Remove
+              </button>
+            </div>
+            <SchemaField ctx={ctx} schema={b.element as z.ZodType} path={[...path, i]} name={String(i)} />
+          </div>
+        ))}
+        <button
+          type="button"
+          className="small"
+          onClick={() =>
+            ctx.onChange(setAt(ctx.root, path, [...list, newItem(b.element as z.ZodType, list)]))
+          }
+        >
+          Add {humanise(name).replace(/s$/, '').toLowerCase()}
+        </button>
+        <Messages id={`${fieldId(path)}-err`} messages={messages} />
+      </fieldset>
+    );
+  }
+  if (b instanceof z.ZodDiscriminatedUnion || b instanceof z.ZodUnion) {
+    const options = b.options as z.ZodType[];
+    const labels = options.map((o) => optionLabel(o));
+    const active = options.findIndex((o) => o.safeParse(value).success || matchesDiscriminator(o, value));
+    const index = active < 0 ? 0 : active;
+    const id = fieldId([...path, 'kind']);
+    const messages = ctx.issues.get(pathKey(path));
+    const chosen = options[index];
+    const cu = unwrapSchema(chosen);
+    return (
+      <fieldset className="group">
+        <legend>{label}</legend>
+        <div className="field">
+          <label htmlFor={id}>{u.meta.title ? 'Kind' : label}</label>
+          <select
+            id={id}
+            value={index}
+            onChange={(e) => ctx.onChange(setAt(ctx.root, path, emptyValue(options[Number(e.target.value)])))}
+          >
+            {labels.map((l, i) => (
+              <option key={l} value={i}>
+                {l}
+              </option>
+            ))}
+          </select>
+        </div>
+        {cu.base instanceof z.ZodObject ? <ObjectFields ctx={ctx} schema={cu.base} path={path} /> : null}
+        <Messages id={`${id}-err`} messages={messages} />
+      </fieldset>
+    );
+  }
+  if (b instanceof z.ZodObject) {
+    const present = value !== undefined && value !== null;
+    const switchable = u.optional || u.nullable;
+    const messages = ctx.issues.get(pathKey(path));
+    return (
+      <fieldset className="group" data-path={pathKey(path)}>
+        <legend>
+          {switchable ? (
+            <Toggle
+              id={`${fieldId(path)}-on${idBase}`}
+              label={label}
+              checked={present}
+              onChange={(v) =>
+                ctx.onChange(setAt(ctx.root, path, v ? emptyValue(b) : u.nullable ? null : undefined))
+              }
+            />
+          ) : (
+            label
+          )}
+        </legend>
+        {u.meta.description && present ? <p className="hint">{u.meta.description}</p> : null}
+        {present || !switchable ? <ObjectFields ctx={ctx} schema={b} path={path} /> : null}
+        <Messages id={`${fieldId(path)}-err`} messages={messages} />
+      </fieldset>
+    );
+  }
+  return null;
+}
+
+function optionLabel(o: z.ZodType): string {
+  const b = unwrapSchema(o).base;
+  if (b instanceof z.ZodLiteral) return String(b.value);
+  if (b instanceof z.ZodObject) {
+    for (const child of Object.values(b.shape as Record<string, z.ZodType>)) {
+      if (child instanceof z.ZodLiteral) return String(child.value);
+    }
+    return Object.keys(b.shape).map(humanise).join(', ').toLowerCase();
+  }
+  return 'option';
+}
+
+function matchesDiscriminator(o: z.ZodType, value: unknown): boolean {
+  const b = unwrapSchema(o).base;
+  if (!(b instanceof z.ZodObject) || value === null || typeof value !== 'object') return false;
+  for (const [k, child] of Object.entries(b.shape as Record<string, z.ZodType>)) {
+    if (child instanceof z.ZodLiteral) return (value as Record<string, unknown>)[k] === child.value;
+  }
+  return false;
+}
+
+/** A new list item: a copy of the last one moved below it where it has top/bottom depths, else empty. */
+function newItem(element: z.ZodType, list: unknown[]): unknown {
+  const last = list[list.length - 1] as Record<string, unknown> | undefined;
+  if (last && typeof last === 'object') {
+    const copy = structuredClone(last);
+    if (typeof last.bottom_m === 'number' && typeof last.top_m === 'number') {
+      copy.top_m = last.bottom_m;
+      copy.bottom_m = last.bottom_m + Math.max(1, last.bottom_m - last.top_m);
+    }
+    return copy;
+  }
+  return emptyValue(element);
+}
+
+/** The fields of an object: present ones first, the rest under "More settings". */
+export function ObjectFields(props: { ctx: FormContext; schema: z.ZodObject; path: Path }) {
+  const { ctx, schema, path } = props;
+  const entries = Object.entries(schema.shape as Record<string, z.ZodType>).filter(
+    ([, s]) => !(s instanceof z.ZodLiteral),
+  );
+  const hasIssue = (p: string) => [...ctx.issues.keys()].some((k) => k === p || k.startsWith(`${p}.`));
+  // Fields present when the group first appeared stay in place even when emptied (focus is not lost).
+  const [initial] = useState(
+    () => new Set(entries.filter(([k]) => getAt(ctx.root, [...path, k]) !== undefined).map(([k]) => k)),
+  );
+  const required = (s: z.ZodType) => {
+    const u = unwrapSchema(s);
+    return !u.optional && !u.hasDefault;
+  };
+  const shown = entries.filter(
+    ([k, s]) =>
+      initial.has(k) ||
+      required(s) ||
+      getAt(ctx.root, [...path, k]) !== undefined ||
+      hasIssue(pathKey([...path, k])),
+  );
+  const hidden = entries.filter((e) => !shown.includes(e));
+  return (
+    <div className="fields">
+      {shown.map(([k, s]) => (
+        <SchemaField key={k} ctx={ctx} schema={s} path={[...path, k]} name={k} />
+      ))}
+      {hidden.length ? (
+        <details className="more">
+          <summary>More settings ({hidden.length}, defaults apply)</summary>
+          {hidden.map(([k, s]) => (
+            <SchemaField key={k} ctx={ctx} schema={s} path={[...path, k]} name={k} />
+          ))}
+        </details>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,96 @@
+/**
+ * Site-specific cautions for the panel and the printed sheet (design.md section 6; domain-notes
+ * "Permafrost classes and hazards"), derived from a run. Each note says why it applies.
+ *
+ * - Frost heave: the pile froze ground that was unfrozen at the start (SiteResult.overCooling); in
+ *   frost-susceptible soil (silt, clay, peat) new freezing around a pile can heave and jack it.
+ * - Adfreeze: where the ground at a probe reaches its freezing point without the pile within the run,
+ *   adfreeze strength and pile capacity fall as it warms; where the pile keeps it colder the capacity
+ *   holds but frost-heave forces in the active layer can grow.
+ * - Fluid: the lowest fluid temperature against the heat pump's lowest entering temperature.
+ * - Backup heat: building mode with heat left unmet.
+ */
+import type { SiteInput, SiteResult } from '../../../layers/site/site-input-schema';
+import type { SiteYearEnergy } from './site-summary';
+
+export interface SiteNote {
+  kind: 'frost-heave' | 'adfreeze' | 'fluid' | 'backup' | 'model';
+  text: string;
+}
+
+const FROST_SUSCEPTIBLE = new Set(['silt', 'clay', 'peat']);
+
+export function siteNotes(
+  input: SiteInput,
+  result: SiteResult,
+  years: SiteYearEnergy[],
+  minEnteringFluid_C: number | null,
+  ownProbeCount: number,
+): SiteNote[] {
+  const notes: SiteNote[] = [];
+  const frozen = result.overCooling?.frozenByPile_m3 ?? [];
+  const worst = frozen.reduce((m, v) => Math.max(m, v), 0);
+  if (worst > 0.001) {
+    const year = frozen.indexOf(worst) + 1;
+    const pile = input.pile;
+    const zTop = pile ? pile.topDepth_m : 0;
+    const zBottom = pile ? pile.topDepth_m + pile.length_m : input.domain.depth_m;
+    const soils = input.ground.layers
+      .filter(
+        (l) =>
+          l.top_m < zBottom &&
+          l.bottom_m > Math.max(0, zTop - 2) &&
+          l.soil &&
+          FROST_SUSCEPTIBLE.has(l.soil.texture),
+      )
+      .map((l) => l.soil?.texture);
+    notes.push({
+      kind: 'frost-heave',
+      text:
+        `The pile freezes ground that was unfrozen at the start: up to ${worst.toFixed(2)} m³ at the end of winter ${year}. ` +
+        (soils.length
+          ? `The ${[...new Set(soils)].join(' and ')} along the pile is frost-susceptible: new freezing can heave the ground and jack the pile upward; check frost-heave forces and the uplift resistance.`
+          : 'The soil along the pile is coarse (not frost-susceptible), but check for fine-grained pockets that could heave.'),
+    });
+  }
+  for (let i = 0; i < ownProbeCount; i++) {
+    const p = result.noPile.probes[i];
+    if (p.thawYear === null) continue;
+    const withYear = result.withPile?.probes[i]?.thawYear ?? null;
+    notes.push({
+      kind: 'adfreeze',
+      text:
+        `Without the pile the ground at ${p.r_m} m from the axis and ${p.z_m} m deep reaches its freezing point in year ${p.thawYear.toFixed(1)}` +
+        (result.withPile
+          ? withYear === null
+            ? '; with the pile it stays frozen through the run.'
+            : `; with the pile in year ${withYear.toFixed(1)}.`
+          : '.') +
+        ' Adfreeze strength and pile capacity fall as frozen ground warms: check the piles for the warmed ground.',
+    });
+    break;
+  }
+  if (result.withPile && notes.every((n) => n.kind !== 'adfreeze')) {
+    notes.push({
+      kind: 'adfreeze',
+      text: 'Heat extraction keeps the ground around the pile colder, which holds adfreeze strength but can raise frost-heave forces in the active layer; pile capacity over time still needs a geotechnical check.',
+    });
+  }
+  const lowest = result.fluid?.lowest_C ?? null;
+  if (lowest !== null && minEnteringFluid_C !== null && lowest < minEnteringFluid_C + 0.05) {
+    notes.push({
+      kind: 'fluid',
+      text: `The fluid reaches ${lowest.toFixed(1)} °C, at the heat pump's lowest entering temperature ${minEnteringFluid_C} °C: the piles are at their fluid limit.`,
+    });
+  }
+  const delivered = years.reduce((s, y) => s + y.delivered_kWh, 0);
+  const unmet = years.reduce((s, y) => s + y.unmet_kWh, 0);
+  if (unmet > 0.005 * (delivered + unmet) && delivered + unmet > 0) {
+    notes.push({
+      kind: 'backup',
+      text: `The piles carry ${((100 * delivered) / (delivered + unmet)).toFixed(0)} % of the heating over the run; a backup heater covers the rest.`,
+    });
+  }
+  for (const w of result.warnings) notes.push({ kind: 'model', text: w });
+  return notes;
+}

@@ -1,0 +1,109 @@
+/**
+ * The site panel: opened by a click on a cell or a settlement, prefilled from the cell's tile values
+ * (site-prefill.ts). The small card in the side bar shows what was taken from the map; "Open site
+ * study" opens the full study (site-study.tsx) with the form, the run and the results.
+ */
+import { useEffect, useMemo, useState } from 'react';
+import type { FeatureCollection } from 'geojson';
+import type { Manifest } from '../../../layers/screening/manifest';
+import type { CellTable } from '../data/cell-table';
+import { greatCircle_m } from '../data/cell-table';
+import { cellValues, type CellSelection } from '../panels/cell-panel';
+import { formatQuantity, type UnitSystem } from '../units/display-units';
+import { sitePrefill } from './site-prefill';
+import { SiteStudy } from './site-study';
+import './site-panel.css';
+
+/** A settlement within `maxDistance_m` of the click names the site. */
+export function nearestSettlement(
+  settlements: FeatureCollection | null,
+  lon: number,
+  lat: number,
+  maxDistance_m = 5000,
+): string | null {
+  let best: string | null = null;
+  let bestD = maxDistance_m;
+  for (const f of settlements?.features ?? []) {
+    if (f.geometry?.type !== 'Point') continue;
+    const [x, y] = f.geometry.coordinates;
+    const d = greatCircle_m(lon, lat, x, y);
+    const name = f.properties?.name;
+    if (d <= bestD && typeof name === 'string') {
+      best = name;
+      bestD = d;
+    }
+  }
+  return best;
+}
+
+export interface SitePlace {
+  name: string;
+  lon: number;
+  lat: number;
+  values: Record<string, number | null>;
+}
+
+export function SitePanel(props: {
+  manifest: Manifest;
+  table: CellTable | null;
+  selection: CellSelection;
+  settlements: FeatureCollection | null;
+  units: UnitSystem;
+}) {
+  const { manifest, table, selection, units } = props;
+  const [open, setOpen] = useState(false);
+  const inside = table !== null && selection.index >= 0;
+  const place: SitePlace | null = useMemo(() => {
+    if (!inside || !table) return null;
+    const town = nearestSettlement(props.settlements, selection.lon, selection.lat);
+    return {
+      name: town ? `near ${town}` : `${selection.lat.toFixed(3)}° N, ${selection.lon.toFixed(3)}° E`,
+      lon: selection.lon,
+      lat: selection.lat,
+      values: cellValues(table, manifest.bands, selection.index),
+    };
+  }, [inside, table, selection, manifest.bands, props.settlements]);
+  const prefill = useMemo(
+    () => (place ? sitePrefill(place.values, manifest.scenario) : null),
+    [place, manifest.scenario],
+  );
+  useEffect(() => setOpen(false), [selection.lon, selection.lat]);
+  if (!place || !prefill) return null;
+  const c = prefill.draft.climate;
+  const layers = prefill.draft.ground.layers;
+  return (
+    <section className="panel site-card" aria-label="Site study" data-testid="site-card">
+      <h2>Site study</h2>
+      <p className="small">
+        Simulate one pile here over {prefill.draft.years} years, with and without heat extraction. Starting
+        inputs from the map:
+      </p>
+      <ul className="small prefill-list">
+        <li>
+          Air {formatQuantity(c.meanAirTemp_C, '°C', units)} mean, ±
+          {formatQuantity(c.amplitude_C, 'K', units)} over the year
+        </li>
+        <li>
+          {layers
+            .map(
+              (l) =>
+                `${l.soil?.texture ?? 'layer'} ${formatQuantity(l.top_m, 'm', units, 2)}–${formatQuantity(l.bottom_m, 'm', units, 2)}`,
+            )
+            .join(', ')}
+        </li>
+      </ul>
+      <button type="button" className="primary" onClick={() => setOpen(true)} data-testid="open-site-study">
+        Open site study
+      </button>
+      {open ? (
+        <SiteStudy
+          place={place}
+          prefill={prefill}
+          manifest={manifest}
+          units={units}
+          onClose={() => setOpen(false)}
+        />
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,228 @@
+/**
+ * Prefill of the site form from a clicked map cell, and the reverse step that turns the form back into
+ * the per-cell inputs of the quick estimate.
+ *
+ * Mapping from tile bands (manifest band ids, SI) to the site input (layers/site/site-input-schema.ts):
+ *   meanAirTemp_C           -> climate.meanAirTemp_C
+ *   airAmplitude_C          -> climate.amplitude_C        (regional default 18 K when the tiles lack it)
+ *   warming_C_per_yr        -> climate.warming_C_per_yr   (default 0.04 K/yr when the tiles lack it)
+ *   nFreeze                 -> climate.nFreeze            (else scenario.ground.nFreeze); nThaw from the scenario
+ *   geothermalFlux_W_m2     -> ground.geothermalFlux_W_m2 (else scenario.ground.geothermalFlux_W_m2)
+ *   textureClass, waterContent_m3m3 -> ground.layers[0] = { texture, water + ice content } from the surface
+ *                              down to the bedrock (water content capped at 95 % of the texture's porosity
+ *                              at its catalogue dry density, so the soil catalogue accepts it)
+ *   bedrockDepth_m          -> ground.layers[1] = bedrock (water 0.02) from that depth to the domain bottom;
+ *                              a cell of bedrock texture, or bedrock within 0.2 m, is bedrock throughout
+ * From the scenario (manifest.scenario, defaults of layers/screening/scenario.ts): the standard pile
+ * (length, top depth, diameter), the building (design load UA·(balance − (MAAT − amplitude − margin)),
+ * foundation piles, balance point), the design life as the simulated years, and the reference probe
+ * (referenceRadius_m, referenceDepth_m) as probe 0 so the simulated thaw delay matches the map's.
+ * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
+ */
+import type { SiteInputDraft } from '../../../layers/site/site-input-schema';
+import { TEXTURE_CATALOGUE } from '../../../layers/physics/soil-catalogue';
+import { TEXTURE_CODES, type CellInputs, type TextureName } from '../../../layers/screening/screening-model';
+import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../../layers/screening/scenario';
+
+/** Band values of the clicked cell (manifest band id -> SI value, null = nodata). */
+export type CellBandValues = Record<string, number | null | undefined>;
+
+export interface PrefillNote {
+  /** Site-input path the note is about, e.g. 'climate.amplitude_C'. */
+  path: string;
+  text: string;
+}
+
+export interface SitePrefill {
+  draft: SiteInputDraft;
+  notes: PrefillNote[];
+}
+
+/** Regional fallbacks where the tiles carry no band (common practice for the subarctic; editable). */
+export const PREFILL_FALLBACKS = {
+  meanAirTemp_C: -5,
+  amplitude_C: 18,
+  warming_C_per_yr: 0.04,
+  textureClass: 3,
+  waterContent_m3m3: 0.35,
+  bedrockDepth_m: 100,
+  bedrockWater_m3m3: 0.02,
+} as const;
+
+const DOMAIN_DEPTH_M = 50;
+
+/** Scenario recorded in the manifest, or the defaults when absent or unreadable. */
+export function scenarioFromManifest(raw: unknown): Scenario {
+  if (raw === undefined || raw === null) return DEFAULT_SCENARIO;
+  try {
+    return parseScenario(raw);
+  } catch {
+    return DEFAULT_SCENARIO;
+  }
+}
+
+function finite(v: number | null | undefined): v is number {
+  return typeof v === 'number' && Number.isFinite(v);
+}
+
+const round = (x: number, digits: number): number => Number(x.toFixed(digits));
+
+/** Largest water + ice content the soil catalogue accepts for a texture at its catalogue density. */
+export function maxWaterContent_m3m3(texture: TextureName): number {
+  const d = TEXTURE_CATALOGUE[texture];
+  return 0.95 * (1 - d.dryDensity_kg_m3 / d.solidsDensity_kg_m3);
+}
+
+/** Design heating load of the scenario's standard building at a site's climate, W. */
+export function standardDesignLoad_W(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
+  const b = s.building;
+  const design_C = meanAirTemp_C - amplitude_C - b.designMargin_K;
+  return Math.max(0, b.heatLossCoefficient_W_K * (b.balanceTemp_C - design_C));
+}
+
+/** Build the site form's starting input from a cell (see the module comment for the mapping). */
+export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): SitePrefill {
+  const s = scenarioFromManifest(scenarioRaw);
+  const notes: PrefillNote[] = [];
+  const pick = (band: string, path: string, fallback: number, what: string): number => {
+    const v = values[band];
+    if (finite(v)) return v;
+    notes.push({
+      path,
+      text: `${what} is not in the map data here; ${fallback} is a regional default: check it.`,
+    });
+    return fallback;
+  };
+  const maat = round(
+    pick('meanAirTemp_C', 'climate.meanAirTemp_C', PREFILL_FALLBACKS.meanAirTemp_C, 'Mean air temperature'),
+    2,
+  );
+  const amp = round(
+    pick('airAmplitude_C', 'climate.amplitude_C', PREFILL_FALLBACKS.amplitude_C, 'Air temperature amplitude'),
+    2,
+  );
+  const warming = round(
+    pick('warming_C_per_yr', 'climate.warming_C_per_yr', PREFILL_FALLBACKS.warming_C_per_yr, 'Warming trend'),
+    4,
+  );
+  const nFreeze = finite(values.nFreeze) ? round(values.nFreeze, 3) : s.ground.nFreeze;
+  const flux = finite(values.geothermalFlux_W_m2)
+    ? round(values.geothermalFlux_W_m2, 4)
+    : s.ground.geothermalFlux_W_m2;
+
+  const code = pick(
+    'textureClass',
+    'ground.layers.0.soil.texture',
+    PREFILL_FALLBACKS.textureClass,
+    'Soil texture',
+  );
+  const texture: TextureName = TEXTURE_CODES[Math.round(code) as keyof typeof TEXTURE_CODES] ?? 'silt';
+  const rawWater = pick(
+    'waterContent_m3m3',
+    'ground.layers.0.soil.waterContent_m3m3',
+    PREFILL_FALLBACKS.waterContent_m3m3,
+    'Water + ice content',
+  );
+  const bedrock = pick(
+    'bedrockDepth_m',
+    'ground.layers.1.top_m',
+    PREFILL_FALLBACKS.bedrockDepth_m,
+    'Depth to bedrock',
+  );
+  const bedrockLayer = (top_m: number) => ({
+    top_m,
+    bottom_m: DOMAIN_DEPTH_M,
+    soil: { texture: 'bedrock' as const, waterContent_m3m3: PREFILL_FALLBACKS.bedrockWater_m3m3 },
+  });
+  let layers: NonNullable<SiteInputDraft['ground']['layers']>;
+  if (texture === 'bedrock' || bedrock < 0.2) {
+    layers = [bedrockLayer(0)];
+  } else {
+    const cap = maxWaterContent_m3m3(texture);
+    const water = round(Math.min(Math.max(rawWater, 0), cap), 3);
+    if (water < rawWater - 1e-9) {
+      notes.push({
+        path: 'ground.layers.0.soil.waterContent_m3m3',
+        text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds what ${texture} holds at its typical density; capped at ${water}.`,
+      });
+    }
+    const soilBottom = Math.min(round(bedrock, 1), DOMAIN_DEPTH_M);
+    layers = [{ top_m: 0, bottom_m: soilBottom, soil: { texture, waterContent_m3m3: water } }];
+    if (soilBottom < DOMAIN_DEPTH_M) layers.push(bedrockLayer(soilBottom));
+  }
+
+  const p = s.pile;
+  const load = Math.round(standardDesignLoad_W(s, maat, amp) / 100) * 100;
+  const draft: SiteInputDraft = {
+    years: Math.round(s.designLife_yr),
+    ground: { layers, geothermalFlux_W_m2: flux, initial: 'equilibrium' },
+    climate: {
+      meanAirTemp_C: maat,
+      amplitude_C: amp,
+      warming_C_per_yr: warming,
+      nThaw: s.ground.nThaw,
+      nFreeze,
+    },
+    pile: {
+      length_m: p.length_m,
+      topDepth_m: p.topDepth_m,
+      outerDiameter_m: round(2 * p.radius_m, 4),
+      wallThickness_m: 0.0071,
+      loop: {
+        type: 'uTube',
+        pipeOuterDiameter_m: 0.032,
+        pipeInnerDiameter_m: 0.026,
+        pipeConductivity_W_mK: 0.4,
+        shankSpacing_m: 0.075,
+        fillConductivity_W_mK: 1.5,
+      },
+      fluid: { name: 'propyleneGlycol', massFraction: 0.3 },
+      flow_L_min: 12,
+    },
+    operation: {
+      mode: 'building',
+      designLoad_W: Math.max(load, 100),
+      pileCount: s.building.foundationPiles,
+      balancePoint_C: s.building.balanceTemp_C,
+    },
+    probes: [
+      { r_m: s.referenceRadius_m, z_m: s.referenceDepth_m },
+      { r_m: 0.5, z_m: 3 },
+      { r_m: s.referenceRadius_m, z_m: p.topDepth_m + p.length_m + 1 },
+      { r_m: 5, z_m: s.referenceDepth_m },
+    ],
+    domain: { radius_m: 20, depth_m: DOMAIN_DEPTH_M },
+    numerics: { fidelity: 'standard' },
+  };
+  return { draft, notes };
+}
+
+/**
+ * The per-cell inputs of the quick estimate for the current form (screenCell), or null when the ground
+ * is given by explicit properties rather than soil descriptions. The soil of the layer holding the
+ * scenario's reference depth gives texture and water; bedrock depth = top of the first bedrock layer
+ * (1000 m when none).
+ */
+export function cellInputsFromSite(draft: SiteInputDraft, s: Scenario): CellInputs | null {
+  const layers = draft.ground?.layers ?? [];
+  const c = draft.climate;
+  if (!c || layers.length === 0) return null;
+  const z = s.referenceDepth_m;
+  const soilLayers = layers.filter((l) => l.soil && l.soil.texture !== 'bedrock');
+  const here = soilLayers.find((l) => l.top_m <= z && z < l.bottom_m) ?? soilLayers[0] ?? layers[0];
+  if (!here.soil) return null;
+  const rock = layers.find((l) => l.soil?.texture === 'bedrock');
+  const code = Number(Object.entries(TEXTURE_CODES).find(([, n]) => n === here.soil?.texture)?.[0]);
+  return {
+    meanAirTemp_C: c.meanAirTemp_C,
+    airAmplitude_C: c.amplitude_C,
+    warming_C_per_yr: c.warming_C_per_yr,
+    textureClass: code,
+    waterContent_m3m3: here.soil.waterContent_m3m3,
+    bedrockDepth_m: rock ? rock.top_m : 1000,
+    groundTemp_C: NaN,
+    geothermalFlux_W_m2: draft.ground?.geothermalFlux_W_m2 ?? NaN,
+    nFreeze: c.nFreeze,
+    latitude_deg: NaN,
+  };
+}

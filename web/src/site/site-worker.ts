@@ -1,0 +1,22 @@
+/**
+ * Web Worker that runs the single-site simulator (layers/site/simulate-site.ts) off the main thread so
+ * the map and the form stay responsive. One run per worker: the panel cancels by terminating the worker
+ * (a busy worker cannot read a cancel message until the run returns) and starts a new one for each run.
+ */
+import { simulateSite } from '../../../layers/site/simulate-site';
+import type { SiteRunRequest, SiteWorkerMessage } from './site-worker-protocol';
+
+const post = (m: SiteWorkerMessage) => (self as unknown as Worker).postMessage(m);
+
+self.onmessage = (event: MessageEvent<SiteRunRequest>) => {
+  if (event.data?.type !== 'run') return;
+  const t0 = performance.now();
+  try {
+    const result = simulateSite(event.data.input, {
+      onProgress: (fraction) => post({ type: 'progress', fraction }),
+    });
+    post({ type: 'done', result, elapsed_ms: performance.now() - t0 });
+  } catch (e) {
+    post({ type: 'error', message: e instanceof Error ? e.message : String(e) });
+  }
+};
