@@ -57,3 +57,64 @@ describe('years to thaw at depth (sensible + latent delays)', () => {
     expect(() => yearsToThaw({ ...base, conductivityThawed_W_mK: 0 })).toThrow(/conductivityThawed_W_mK/);
   });
 });
+
+/**
+ * Independent numerical reference: explicit enthalpy finite differences in 1-D (dz 0.25 m, 50 m domain,
+ * Fourier number 0.4, isothermal phase change at 0 °C, geothermal flux at the base, surface mean
+ * T̄₀ + b·t), thaw at depth = the node's enthalpy reaches L. Equal properties in both phases. A finer grid
+ * (dz 0.1 m, 60 m) moved these times by < 0.6 %.
+ */
+function enthalpyThawYears(o: {
+  z: number;
+  T0: number;
+  b: number;
+  G: number;
+  k: number;
+  C: number;
+  L: number;
+}): number {
+  const dz = 0.25;
+  const N = 200;
+  const a = o.k / o.C;
+  const dt = (0.4 * dz * dz) / a;
+  const H = new Float64Array(N + 1);
+  const T = new Float64Array(N + 1);
+  const toT = (h: number) => (h < 0 ? h / o.C : h > o.L ? (h - o.L) / o.C : 0);
+  for (let i = 0; i <= N; i++) {
+    T[i] = o.T0 + o.G * i * dz;
+    H[i] = T[i] < 0 ? o.C * T[i] : o.L + o.C * T[i];
+  }
+  const iz = Math.round(o.z / dz);
+  for (let t = dt; t < 1000 * SECONDS_PER_YEAR; t += dt) {
+    for (let i = 1; i <= N; i++) T[i] = toT(H[i]);
+    T[0] = o.T0 + (o.b * t) / SECONDS_PER_YEAR;
+    for (let i = 1; i < N; i++) H[i] += (dt * o.k * (T[i + 1] - 2 * T[i] + T[i - 1])) / (dz * dz);
+    H[N] += (dt * o.k * ((T[N - 1] - T[N]) / dz + o.G)) / (dz / 2);
+    if (H[iz] >= o.L) return t / SECONDS_PER_YEAR;
+  }
+  return Infinity;
+}
+
+describe('years to thaw against an enthalpy finite-difference model (the additive estimate over-predicts by 0-10 %)', () => {
+  const cases = [
+    { z: 3, T0: -2, b: 0.05, G: 0.03, k: 1.5, C: 2e6, L: 100e6 },
+    { z: 6, T0: -4, b: 0.08, G: 0.03, k: 2, C: 2e6, L: 50e6 },
+    { z: 15, T0: -3, b: 0.05, G: 0.03, k: 1.5, C: 2e6, L: 150e6 },
+  ];
+  for (const c of cases) {
+    it(`z ${c.z} m, T̄₀ ${c.T0} °C, b ${c.b} K/yr, L ${c.L / 1e6} MJ/m³`, () => {
+      const fd = enthalpyThawYears(c);
+      const est = yearsToThaw({
+        depth_m: c.z,
+        initialMeanTemp_C: c.T0,
+        warming_C_per_yr: c.b,
+        geothermalGradient_K_m: c.G,
+        diffusivityFrozen_m2_s: c.k / c.C,
+        conductivityThawed_W_mK: c.k,
+        latent_J_m3: c.L,
+      }).years;
+      expect(est / fd - 1).toBeGreaterThan(-0.01);
+      expect(est / fd - 1).toBeLessThan(0.1);
+    });
+  }
+});
