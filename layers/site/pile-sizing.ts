@@ -162,7 +162,9 @@ function prepare(input: PileFieldSizingInput): Prepared {
   const qMonths = fr.map((f) => ((annual_J * f) / hoursMonth) * fracGround);
   let designMonth = 0;
   for (let i = 1; i < 12; i++) if (fr[i] > fr[designMonth]) designMonth = i;
-  const fluid = fluidProperties({ ...fluidSpec, temperature_C: Math.max(minEft, -10) });
+  const margin = input.freezeMargin_K ?? 3;
+  requireFluidAbove({ ...fluidSpec, lowestTemperature_C: minEft, margin_K: margin });
+  const fluid = fluidProperties({ ...fluidSpec, temperature_C: minEft });
   const mcp = flowPerKw * (peak / 1000) * fluid.density_kg_m3 * fluid.specificHeat_J_kgK;
   const qPeak = peak * (1 - 1 / copPeak);
   const loopDrop = qPeak / mcp;

@@ -383,3 +383,29 @@ export type SiteInputDraft = z.input<typeof siteInputSchema>;
 export function formatSiteInputIssues(error: z.ZodError): string[] {
   return error.issues.map((iss) => `${iss.path.length ? iss.path.join('.') : '(root)'}: ${iss.message}`);
 }
+
+/**
+ * Title, unit and limits of every field that carries them, by dotted path (array elements as `[]`,
+ * union members merged), for forms: e.g. `siteFieldMeta()['climate.meanAirTemp_C']`.
+ */
+export function siteFieldMeta(): Record<string, FieldMeta> {
+  const out: Record<string, FieldMeta> = {};
+  const walk = (schema: z.ZodType, path: string): void => {
+    if (typeof schema?.meta !== 'function') return;
+    const meta = schema.meta() as FieldMeta | undefined;
+    if (meta && typeof meta.title === 'string' && path) out[path] = { ...out[path], ...meta };
+    const s = schema as unknown as {
+      shape?: Record<string, z.ZodType>;
+      unwrap?: () => z.ZodType;
+      element?: z.ZodType;
+      options?: z.ZodType[];
+    };
+    if (s.shape)
+      for (const [key, child] of Object.entries(s.shape)) walk(child, path ? `${path}.${key}` : key);
+    else if (s.element) walk(s.element, `${path}[]`);
+    else if (s.options) for (const o of s.options) walk(o, path);
+    else if (s.unwrap) walk(s.unwrap(), path);
+  };
+  walk(siteInputSchema, '');
+  return out;
+}

@@ -1,0 +1,96 @@
+/**
+ * The site solver's phase change against the Neumann solutions (thaw of frozen ground by a surface
+ * step), one column of the axisymmetric solver with zero radial flux.
+ * Check values: reference-values.md §5, computed from the transcendental equations of Carslaw & Jaeger
+ * (1959) §11.2 (one-phase: λ e^{λ²} erf λ = Ste/√π, restated as Crank 1984 eq. 3.14; two-phase:
+ * Carslaw & Jaeger p. 288) with mpmath: NEU-9 λ = 0.2974922, X(100 d) = 1.17094 m; NEU-10 (one-phase)
+ * λ = 0.3112247, X(100 d) = 1.22499 m.
+ */
+import { describe, expect, it } from 'vitest';
+import { createConductionSolver, energyBalance } from '../../layers/site/conduction-solver';
+import { liquidFractionAt, materialTable } from '../../layers/site/ground-enthalpy';
+import { meshFromFaces } from '../../layers/site/site-mesh';
+
+const L = 334e3 * 1400 * 0.3; // 140.28 MJ/m³ (reference-values §5b inputs)
+const DAY = 86400;
+
+/** Faces: uniform `dz` to 3 m, then growing by 1.2 to 30 m (the frozen side needs depth, not detail). */
+function faces(dz: number): number[] {
+  const f = [0];
+  while (f[f.length - 1] < 3 - 1e-9) f.push(f[f.length - 1] + dz);
+  let step = dz;
+  while (f[f.length - 1] < 30) {
+    step = Math.min(step * 1.2, 2);
+    f.push(f[f.length - 1] + step);
+  }
+  return f;
+}
+
+/** Thawed depth after 100 days: Σ liquid fraction × Δz (the latent-heat-weighted front). */
+function thawFront(opts: { dz: number; dt_days: number; initial_C: number; interval_K: number }): {
+  front_m: number;
+  relativeEnergyError: number;
+} {
+  const zf = faces(opts.dz);
+  const mesh = meshFromFaces([1, 2], zf);
+  const table = materialTable([
+    {
+      kFrozen_W_mK: 1.9,
+      kThawed_W_mK: 1.3,
+      cFrozen_J_m3K: 2.1e6,
+      cThawed_J_m3K: 2.9e6,
+      latent_J_m3: L,
+      freezingPoint_C: 0,
+      freezingInterval_K: opts.interval_K,
+    },
+  ]);
+  const rows = new Array(mesh.nz).fill(0);
+  const s = createConductionSolver({
+    mesh,
+    materials: table,
+    rowMaterial: rows,
+    surfaceTemperature_C: () => 10,
+    bottomFlux_W_m2: 0,
+    initialT_C: new Array(mesh.nz).fill(opts.initial_C),
+    inner: null,
+  });
+  const e0 = s.storedEnergy_J();
+  const steps = Math.round(100 / opts.dt_days);
+  for (let k = 0; k < steps; k++) s.step(opts.dt_days * DAY);
+  let front = 0;
+  for (let j = 0; j < mesh.nz; j++) front += liquidFractionAt(table, 0, s.T[j]) * (zf[j + 1] - zf[j]);
+  return { front_m: front, relativeEnergyError: energyBalance(e0, s).relativeError };
+}
+
+describe('site solver against Neumann solutions', () => {
+  it('two-phase thaw front (NEU-9) within 1 %', () => {
+    const r = thawFront({ dz: 0.02, dt_days: 0.25, initial_C: -2, interval_K: 0.1 });
+    expect(Math.abs(r.front_m / 1.17094 - 1)).toBeLessThan(0.01);
+    expect(r.relativeEnergyError).toBeLessThan(1e-9);
+  });
+
+  it('one-phase thaw front (NEU-10, ground at its solidus) within 1 %', () => {
+    const w = 0.1;
+    const r = thawFront({ dz: 0.02, dt_days: 0.25, initial_C: -w / 2, interval_K: w });
+    expect(Math.abs(r.front_m / 1.22499 - 1)).toBeLessThan(0.01);
+  });
+
+  it('converges under mesh and time-step refinement (NEU-9)', () => {
+    const errors = [
+      { dz: 0.1, dt_days: 2 },
+      { dz: 0.05, dt_days: 1 },
+      { dz: 0.025, dt_days: 0.5 },
+    ].map((c) => Math.abs(thawFront({ ...c, initial_C: -2, interval_K: 0.1 }).front_m - 1.17094));
+    expect(errors[1]).toBeLessThan(errors[0]);
+    expect(errors[2]).toBeLessThan(errors[1]);
+    expect(errors[2]).toBeLessThan(0.01 * 1.17094);
+  });
+
+  it('time-step refinement alone reduces the error (NEU-9, dz = 0.025 m)', () => {
+    const e = [8, 2, 0.25].map((dt) =>
+      Math.abs(thawFront({ dz: 0.025, dt_days: dt, initial_C: -2, interval_K: 0.1 }).front_m - 1.17094),
+    );
+    expect(e[1]).toBeLessThan(e[0]);
+    expect(e[2]).toBeLessThan(e[1]);
+  });
+});

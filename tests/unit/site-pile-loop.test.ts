@@ -1,0 +1,62 @@
+/**
+ * The pile loop: with no channel-to-channel coupling and a uniform ground temperature the fluid follows
+ * the constant-wall-temperature exchanger solution T_out − T_g = (T_in − T_g)·exp(−NTU), NTU = g·2L/(ṁc)
+ * over the down-and-up path (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, mean
+ * temperature for constant surface temperature, eq. 8.42b in the 6th ed.; equation number recalled from
+ * memory); and the loop's energy balance ṁc(T_out − T_in) equals the heat drawn from the ground rows.
+ */
+import { describe, expect, it } from 'vitest';
+import { createPileLoop } from '../../layers/site/pile-loop';
+
+const rows = 40;
+const dz = new Array(rows).fill(0.25); // 10 m
+const huge = 1e9; // half-cell conductance: the wall is at the cell temperature
+
+function loopWith(command: Parameters<typeof createPileLoop>[0]['command'], gChannels = 0) {
+  return createPileLoop({
+    rowLength_m: dz,
+    rowActive: new Array(rows).fill(true),
+    gDown_W_mK: 2.5,
+    gUp_W_mK: 2.5,
+    gChannels_W_mK: gChannels,
+    flowCapacity_W_K: 400,
+    command,
+  });
+}
+
+describe('pile loop', () => {
+  it('matches exp(−NTU) for a uniform ground temperature without short-circuit', () => {
+    const loop = loopWith(() => ({ kind: 'inlet', inlet_C: -6 }));
+    loop.beginStep(0, 1);
+    loop.update(new Float64Array(rows).fill(-1), new Float64Array(rows).fill(huge));
+    const ntu = (2.5 * 20) / 400;
+    const expected = -1 + (-6 - -1) * Math.exp(-ntu);
+    expect(loop.outlet_C).toBeCloseTo(expected, 4);
+  });
+
+  it('conserves energy: ṁc(T_out − T_in) = Σ rows g (T_ground − T_fluid) with a short-circuit', () => {
+    const loop = loopWith(() => ({ kind: 'inlet', inlet_C: -6 }), 1.0);
+    const ground = Float64Array.from({ length: rows }, (_, j) => -2 + 0.05 * j);
+    loop.beginStep(0, 1);
+    loop.update(ground, new Float64Array(rows).fill(8));
+    let drawn = 0;
+    for (let j = 0; j < rows; j++) drawn += loop.g_W_K[j] * (ground[j] - loop.T_C[j]);
+    expect(loop.extraction_W).toBeCloseTo(400 * (loop.outlet_C - loop.inlet_C), 9);
+    expect(Math.abs(drawn / loop.extraction_W - 1)).toBeLessThan(1e-9);
+  });
+
+  it('delivers a commanded extraction exactly and switches off at zero', () => {
+    let e = 350;
+    const loop = loopWith(() => (e === 0 ? { kind: 'off' } : { kind: 'extraction', extraction_W: e }), 0.5);
+    const ground = new Float64Array(rows).fill(-3);
+    loop.beginStep(0, 1);
+    loop.update(ground, new Float64Array(rows).fill(8));
+    expect(loop.extraction_W).toBeCloseTo(350, 9);
+    expect(loop.inlet_C).toBeLessThan(loop.outlet_C);
+    expect(loop.outlet_C).toBeLessThan(-3);
+    e = 0;
+    loop.update(ground, new Float64Array(rows).fill(8));
+    expect(loop.running).toBe(false);
+    expect(Math.max(...loop.g_W_K)).toBe(0);
+  });
+});
