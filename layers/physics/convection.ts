@@ -6,7 +6,8 @@
  *   or 3.66 (uniform wall temperature), Incropera & DeWitt, Fundamentals of Heat and Mass Transfer,
  *   eqs. 8.53 and 8.55. Annulus, one wall heated and the other insulated: Kays & Perkins values as
  *   tabulated in Incropera & DeWitt Table 8.2 (D_i/D_o = 0, 0.05, 0.10, 0.25, 0.50, 1.00), linearly
- *   interpolated in D_i/D_o (table values recalled from memory).
+ *   interpolated in D_i/D_o (table values recalled from memory); below D_i/D_o = 0.05 the inner-wall
+ *   value is scaled as (0.05 D_o/D_i)^0.5 (an extrapolation of ours, rarely met in piles).
  * - Turbulent, Re >= 1e4: Gnielinski (1976), Int. Chem. Eng. 16:359–368,
  *   Nu = (f/8)(Re − 1000)Pr / [1 + 12.7 √(f/8)(Pr^(2/3) − 1)], Petukhov f = (0.790 ln Re − 1.64)^−2;
  *   stated validity 3000 <= Re <= 5e6, 0.5 <= Pr <= 2000. Annuli: the tube formula on the hydraulic

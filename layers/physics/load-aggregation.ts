@@ -61,13 +61,15 @@ function tabulate(g: (time_s: number) => number, dt: number, n: number): (age: n
   const m = Math.ceil(octaves * PER_OCTAVE) + 1;
   const tab = new Float64Array(m + 1);
   for (let j = 0; j <= m; j++) tab[j] = g(EXACT_AGES * Math.pow(2, j / PER_OCTAVE) * dt);
-  return (age) => {
-    if (age <= EXACT_AGES) return exact[age];
+  const all = new Float64Array(n + 1);
+  all.set(exact);
+  for (let age = EXACT_AGES + 1; age <= n; age++) {
     const u = Math.log2(age / EXACT_AGES) * PER_OCTAVE;
     const j = Math.min(Math.floor(u), m - 1);
     const w = u - j;
-    return (1 - w) * tab[j] + w * tab[j + 1];
-  };
+    all[age] = (1 - w) * tab[j] + w * tab[j + 1];
+  }
+  return (age) => all[age];
 }
 
 /**
@@ -111,7 +113,7 @@ export function superposeAggregated(input: {
         load.splice(j + 1, 1);
         i = j; // the merged cell may overflow the next level
       } else {
-        i = j - 1;
+        break; // levels below this one did not change
       }
     }
     let s = 0;
