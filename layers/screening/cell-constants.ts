@@ -1,7 +1,9 @@
 /**
  * Per-scenario constants of the per-cell model, computed once outside the per-cell loop: soil thermal
  * properties per texture tabulated against water content, the response tables, the economics
- * coefficients and break-evens, the normalised soft weights.
+ * coefficients and break-evens, the normalised soft weights, the heat-pump curve (heatPumpAt of
+ * layers/physics/heat-pump.ts every 0.1 K: the curve is piecewise linear, so this is exact at its knots
+ * and within 0.1 K of them).
  *
  * Soil table: `soilThermalProperties` (layers/physics/soil-catalogue.ts: Johansen 1975 / Côté & Konrad
  * 2005 conductivity, de Vries 1963 heat capacity, latent heat of the pore water) evaluated at 65 water
@@ -10,6 +12,7 @@
  * Water contents above the porosity are clamped to it (saturated ground; excess ice is not modelled).
  */
 import { soilThermalProperties } from '../physics/soil-catalogue';
+import { heatPumpAt } from '../physics/heat-pump';
 import { TEXTURE_CODES, type TextureCode } from './screening-model';
 import type { Scenario } from './scenario';
 import { buildResponseTables, type ResponseTables } from './response-tables';
@@ -43,6 +46,20 @@ export interface CellConstants {
   breakEven: BreakEvenCops;
   weights: Float64Array;
   pileMidDepth_m: number;
+  /** COP of the scenario's heat-pump curve at EFT = COP_EFT_MIN + i·COP_EFT_STEP. */
+  cop: Float64Array;
+}
+
+export const COP_EFT_MIN = -40;
+export const COP_EFT_STEP = 0.1;
+
+/** COP at an entering fluid temperature from the precomputed curve (linear between 0.1 K points). */
+export function copFromTable(cop: Float64Array, eft_C: number): number {
+  const u = (eft_C - COP_EFT_MIN) / COP_EFT_STEP;
+  if (!(u > 0)) return cop[0];
+  if (u >= cop.length - 1) return cop[cop.length - 1];
+  const i = Math.floor(u);
+  return cop[i] + (cop[i + 1] - cop[i]) * (u - i);
 }
 
 const soilCache = new Map<number, SoilTable>();
@@ -120,5 +137,10 @@ export function buildCellConstants(scenario: Scenario): CellConstants {
     breakEven: breakEvenCops(scenario.economics),
     weights: softWeights(scenario),
     pileMidDepth_m: scenario.pile.topDepth_m + scenario.pile.length_m / 2,
+    cop: Float64Array.from(
+      { length: 801 },
+      (_, i) =>
+        heatPumpAt({ enteringFluid_C: COP_EFT_MIN + i * COP_EFT_STEP, curve: scenario.heatPump.curve }).cop,
+    ),
   };
 }

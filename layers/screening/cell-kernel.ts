@@ -20,11 +20,13 @@
  *  6. operating window and pile count (operating-window.ts); the peak terms see the winter ground:
  *     the mean along the pile less the annual wave's winter anomaly (pileWinterAnomaly_K);
  *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0, piles operating from
- *     the start year on (forward search from the no-pile time, then regula falsi to 0.01 yr), plus
- *     the same latent delay: the thaw delay is the difference of the sensible parts;
+ *     the start year on (forward search from the no-pile time, then regula falsi to 0.01 yr), plus the
+ *     latent delay, lengthened by c/b: the Stefan front X·dX/dt = k_t·(b(t − t0) − c)/L driven against
+ *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
+ *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
  *  8. economics at the seasonal COP: EFT_season = T_pile − q'_carried·(R_b + g_life/(2πk)) − ΔT_half
  *     (annual-average extraction through the pile and the long-term ground resistance), COP from the
- *     scenario's linear curve clamped to [1.5, 6];
+ *     scenario's heat-pump curve (layers/physics/heat-pump.ts);
  *  9. exclusions, soft scores, class (suitability.ts).
  */
 import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
@@ -32,7 +34,7 @@ import { dampingDepth_m } from '../physics/ground-temperature-wave';
 import { ttop_C } from '../physics/ttop';
 import { stefanDepth_m } from '../physics/stefan';
 import type { CellInputs } from './screening-model';
-import { soilAt, type CellConstants, type SoilPoint } from './cell-constants';
+import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
 import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
 import { operatingWindow, threePulsePeakPerPile_W, type WindowResult } from './operating-window';
 import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
@@ -73,12 +75,13 @@ export function createKernelScratch(): KernelScratch {
 }
 
 /**
- * Winter cold anomaly of the ground averaged over the pile's active length, K (≥ 0 means colder):
- * the Kusuda & Achenbach (1965) annual wave A_s·e^(−z/d)·cos(z/d) at the time of the surface minimum,
- * averaged over z ∈ [top, bottom] in closed form, (d/(z2 − z1))·[F(z2/d) − F(z1/d)] with
- * F(u) = e^(−u)(sin u − cos u)/2 and d the damping depth √(Pα/π) (layers/physics/ground-temperature-wave.ts).
- * A_s is the winter half of the n-factor-transferred surface wave, n_f·A (conduction, no latent heat
- * in the active layer: an over-estimate where the pile top sits in it).
+ * Winter cold anomaly of the ground averaged over the pile's active length, K (≥ 0: colder than the
+ * mean): the largest over the year of the pile-averaged Kusuda & Achenbach (1965) annual wave
+ * A_s·e^(−z/d)·cos(ωt − z/d) (layers/physics/ground-temperature-wave.ts). As a phasor average,
+ *   A_s·|(d/(z2 − z1))·(e^(−(1+i)z1/d) − e^(−(1+i)z2/d))/(1 + i)|,
+ * d the damping depth √(Pα/π) in frozen ground. A_s is the winter half of the n-factor-transferred
+ * surface wave, n_f·A (conduction only; latent heat in an active layer above the pile top is ignored,
+ * which over-estimates the anomaly there).
  */
 export function pileWinterAnomaly_K(p: {
   surfaceAmplitude_C: number;
@@ -87,21 +90,15 @@ export function pileWinterAnomaly_K(p: {
   bottom_m: number;
 }): number {
   const d = dampingDepth_m(p.diffusivity_m2_s);
-  return (
-    (p.surfaceAmplitude_C * d * (waveIntegral(p.bottom_m / d) - waveIntegral(p.top_m / d))) /
-    (p.bottom_m - p.top_m)
-  );
-}
-
-/** ∫ e^(−u) cos u du = e^(−u)(sin u − cos u)/2. */
-function waveIntegral(u: number): number {
-  return (Math.exp(-u) * (Math.sin(u) - Math.cos(u))) / 2;
-}
-
-/** Linear COP curve of the scenario, clamped to [1.5, 6]. */
-export function copAt(hp: { copAtZero: number; copSlope_per_K: number }, eft_C: number): number {
-  const c = hp.copAtZero + hp.copSlope_per_K * eft_C;
-  return c < 1.5 ? 1.5 : c > 6 ? 6 : c;
+  const u1 = p.top_m / d;
+  const u2 = p.bottom_m / d;
+  const e1 = Math.exp(-u1);
+  const e2 = Math.exp(-u2);
+  // (e^(−(1+i)u1) − e^(−(1+i)u2)) = re + i·im
+  const re = e1 * Math.cos(u1) - e2 * Math.cos(u2);
+  const im = -e1 * Math.sin(u1) + e2 * Math.sin(u2);
+  // |(re + i·im)/(1 + i)| = |re + i·im|/√2
+  return (p.surfaceAmplitude_C * d * Math.hypot(re, im)) / (Math.SQRT2 * (p.bottom_m - p.top_m));
 }
 
 function validInputs(c: CellInputs): boolean {
@@ -204,7 +201,7 @@ export function evaluateCellMetrics(
   const avg_W = (demand_kWh * 1000) / HOURS_PER_YEAR;
   const month_W = bld.heatLossCoefficient_W_K * Math.max(0, bld.balanceTemp_C - coldMonth);
   const hp = s.heatPump;
-  const copDesign = copAt(hp, hp.minEnteringFluid_C);
+  const copDesign = copFromTable(k.cop, hp.minEnteringFluid_C);
   const groundFactor = 1 - 1 / copDesign;
 
   // 6. fluid bound, pile count, window
@@ -265,8 +262,13 @@ export function evaluateCellMetrics(
     const t0s = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
     const cP = w.carried_W_m / (2 * Math.PI * kF);
     const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, b, alphaYr, alphaF, zr, horizon });
+    // The front also melts its way down against the pile's cooling: the quasi-steady Stefan front of
+    // years-to-thaw.ts driven by b·(t − t0) − c needs c/b longer, c the cooling at the reference point.
+    const cooling = Number.isFinite(tPs)
+      ? cP * flsResponse(k.tables.referencePoint, alphaF, tPs * SECONDS_PER_YEAR)
+      : 0;
     const t0c = Math.min(t0s + tL, horizon);
-    const tPc = Math.min(tPs + tL, horizon);
+    const tPc = Math.min(tPs + tL + cooling / b, horizon);
     m[M.thawYear] = s.startYear + t0c;
     m[M.thawYearPiles] = s.startYear + tPc;
     m[M.thawDelay] = tPc - t0c;
@@ -276,7 +278,7 @@ export function evaluateCellMetrics(
   // 8. economics
   const eft =
     tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)) - hp.fluidHalfDelta_K;
-  const scop = copAt(hp, eft);
+  const scop = copFromTable(k.cop, eft);
   const heat_kWh = w.loadShare * demand_kWh;
   m[M.seasonalCop] = scop;
   m[M.fuelSaved] = fuelSavedKernel_L(k.econ, heat_kWh, scop);

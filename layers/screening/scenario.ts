@@ -8,6 +8,7 @@
  * (common practice), (recalled from memory), [derived] computed from other defaults.
  */
 import { z } from 'zod';
+import { DEFAULT_HEAT_PUMP_CURVE, HeatPumpCurveSchema } from '../physics/heat-pump';
 
 const pos = () => z.number().positive();
 const frac = () => z.number().gt(0).lte(1);
@@ -60,12 +61,10 @@ export const heatPumpLimitsSchema = z.strictObject({
   /** Mean fluid minus entering fluid temperature at peak, K (half the loop ΔT of 3 K) (common practice). */
   fluidHalfDelta_K: z.number().min(0).max(10).default(1.5),
   /**
-   * Seasonal COP used in the economics when the pile field runs at its mean fluid temperature; the
-   * default curve COP = 3.0 + 0.05·(EFT − 0 °C), clamped to [1.5, 6] (recalled from memory; typical
-   * water-to-water units rate about 3 at 0 °C entering brine).
+   * COP and capacity against entering fluid temperature: the science core's editable curve
+   * (layers/physics/heat-pump.ts, DEFAULT_HEAT_PUMP_CURVE, common practice: COP about 3.7 at 0 °C EFT).
    */
-  copAtZero: z.number().min(1).max(8).default(3.0),
-  copSlope_per_K: z.number().min(0).max(0.3).default(0.05),
+  curve: HeatPumpCurveSchema.default(DEFAULT_HEAT_PUMP_CURVE),
 });
 
 /** Fuel, CO2 and cost on a diesel grid (reference-values.md §12; domain-notes "Fuel, CO2 and cost"). */
