@@ -52,7 +52,8 @@ const classes = (labels: Record<number, string>) =>
 
 const TTOP_SRC =
   'TTOP (Smith & Riseborough 1996, 2002) with geothermal gradient; or the ground-temperature grid';
-const RAMP_SRC = 'Carslaw & Jaeger (1959) §2.5 linear surface warming, conduction only';
+const RAMP_SRC =
+  'Carslaw & Jaeger (1959) §2.5 linear surface warming plus a Stefan latent-heat delay (years-to-thaw)';
 const FLS_SRC = 'finite line source (Eskilson 1987; Zeng, Diao & Fang 2002) superposed on the warming';
 const SIZING_SRC = 'three-pulse method (Kavanaugh & Rafferty 1997) with a finite-line long pulse';
 const ECON_SRC = 'degree-day demand; diesel-grid vs oil-furnace balance (reference-values §12)';
@@ -141,7 +142,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       unit: 'yr',
       kind: 'continuous',
       ramp: 'viridis',
-      description: `Year the ground at ${z} m reaches 0 °C under the warming trend (capped at start + ${s.horizon_yr}).`,
+      description: `Year the ground at ${z} m thaws under the warming trend: conduction to 0 °C plus melting of its ice (capped at start + ${s.horizon_yr}).`,
       source: RAMP_SRC,
     },
     thawYearPiles: {
