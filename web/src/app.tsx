@@ -103,11 +103,22 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
     setViewportLoads((n) => n + 1);
   }, []);
 
+  // The cell table (readout, counters, panel) loads right after the first map paint, so that it does
+  // not compete with the visible tiles; at the latest 1.5 s after start.
+  const [tableWanted, setTableWanted] = useState(false);
   useEffect(() => {
+    const t = setTimeout(() => setTableWanted(true), 1500);
+    return () => clearTimeout(t);
+  }, []);
+  useEffect(() => {
+    if (firstPaint_ms !== null) setTableWanted(true);
+  }, [firstPaint_ms]);
+  useEffect(() => {
+    if (!tableWanted) return;
     loadCellTable(atlas).then(setTable, (e: unknown) =>
       setBoundaryMessage(`Cell table failed: ${(e as Error).message}`),
     );
-  }, [atlas]);
+  }, [atlas, tableWanted]);
 
   const bandIndex = Math.max(
     0,
@@ -317,7 +328,13 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
       </main>
       <aside className="side right" aria-label="Selected place and shortlist">
         {selection ? (
-          <SitePanel manifest={manifest} table={table} selection={selection} settlements={atlas.settlements} units={units} />
+          <SitePanel
+            manifest={manifest}
+            table={table}
+            selection={selection}
+            settlements={atlas.settlements}
+            units={units}
+          />
         ) : null}
         {selection ? (
           <CellPanel

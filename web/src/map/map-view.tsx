@@ -34,7 +34,8 @@ export interface MapViewProps {
   onHover: (lngLat: [number, number] | null) => void;
   onClick: (lngLat: [number, number]) => void;
   onViewChange: (center: [number, number], zoom: number) => void;
-  onFirstPaint?: () => void;
+  /** Called when every tile of the current view has loaded (and drawn). */
+  onViewportLoad?: () => void;
   /** Centre the map here whenever `seq` changes. */
   flyTarget: { lon: number; lat: number; seq: number } | null;
 }
@@ -79,7 +80,6 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     overlayRef.current = overlay;
     map.on('load', () => {
       map.addLayer(SETTLEMENT_CIRCLES);
-      latest.current.onFirstPaint?.();
     });
     map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
     map.on('mouseout', () => latest.current.onHover(null));
@@ -119,6 +119,7 @@ export const MapView = memo(function MapView(props: MapViewProps) {
         extent: manifest.region.bounds,
         maxRequests: 8,
         getTileData: ({ index }) => tiles.get(index.z, index.x, index.y),
+        onViewportLoad: () => latest.current.onViewportLoad?.(),
         updateTriggers: { renderSubLayers: [styleKey] },
         renderSubLayers: (sub) => {
           const planes = sub.data;
