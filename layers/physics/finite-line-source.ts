@@ -14,8 +14,8 @@
  * ρ∓ = √(r² + (z ∓ z')²), z = D + H/2.
  *
  * Method: s = e^u and composite Simpson in u over [ln s0, ln(7/r)] (e^(−49) cut-off), 48 points per
- * unit of u (at least 240); mid-depth: z' − z = r sinh v for the real source. Measured accuracy 1e-5
- * relative against mpmath (tests/reference/finite-line-source.test.ts). time_s = Infinity gives the
+ * unit of u (at least 240); mid-depth: z' − z = r sinh v for the real source. Measured accuracy better than 1e-9
+ * relative against mpmath (tests/reference/ground-response.test.ts). time_s = Infinity gives the
  * steady state (mean, D = 0, r ≪ H: g∞ → ln(H/r) − 1).
  * Validity: homogeneous ground, uniform heat rate along the pile (not uniform temperature), r ≪ H for
  * the pile's own radius. Special cases: t → 0 gives 0; early times meet the infinite line source.

@@ -10,7 +10,7 @@
  * analytic tail ∫ (2/π³)(π/(2β²)) dβ beyond 2000 (J1² + Y1² → 2/(πβ)). J1² + Y1² by the ascending
  * series (A&S 9.1.10–9.1.11) for β <= 12 and the Hankel asymptotic expansion (A&S 9.2.5–9.2.10, via
  * P² + Q²) above. Measured accuracy: 1e-6 relative against mpmath quadrature for 0.1 <= Fo <= 1e5
- * (tests/reference/infinite-cylinder-source.test.ts).
+ * (tests/reference/ground-response.test.ts).
  * Special cases: Fo → 0 gives 0; for Fo > ~1000 G → the line source E1(1/(4Fo))/(4π).
  *
  * Cheap path: `cylinderSourceGBernier`, the fit of Bernier (2001), ASHRAE Trans. 107(1),

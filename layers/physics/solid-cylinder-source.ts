@@ -11,7 +11,7 @@
  *   g = (1/π) ∫₀^π g_FLS(ρ(φ), t) dφ, ρ = 2 r0 sin(φ/2), g_FLS the mean finite-line-source response
  *   between two parallel lines (finite-line-source.ts).
  * Method: φ = π w³ removes the logarithmic singularity at φ = 0 (ρ → 0); composite Simpson in w with
- * 96 intervals. Measured 3e-7 (infinite) and 1e-5 (finite) relative against mpmath (tests/reference/solid-cylinder-source.test.ts).
+ * 96 intervals. Measured 3e-7 relative against mpmath (tests/reference/ground-response.test.ts).
  * Special cases: at late time, r = r0, the average of ln ρ over the circle is ln r0, so the result meets
  * the line source evaluated at r0; at early time (Fo = αt/r0² < ~10) it lies between the line source
  * (which has not yet reached the wall) and the hollow infinite cylinder source (which sends all the heat
