@@ -21,7 +21,8 @@
  * Fluid temperature over the design life: monthly loads superposed on g_N (interpolated in ln t over 32
  * precomputed times), the design-month peak added each year.
  * Cheap path (`method: 'singlePileCylinder'`): every pulse from the Bernier (2001) cylinder-source fit
- * for one pile, no interaction, closed-form N — for per-cell screening only (it under-sizes groups).
+ * for one pile, no interaction, closed-form N = ceil(drop of one pile / allowed drop) — for per-cell
+ * screening only (it under-sizes groups).
  * Limits: homogeneous ground without phase change (freezing of pore water near the pile adds latent heat
  * and changes k: not modelled here; the site simulator does that), no surface heat exchange beyond the
  * isothermal surface of the FLS, uniform heat rate along piles, identical piles in parallel.
@@ -287,6 +288,20 @@ function lifeSeries(p: Prepared, n: number): PileFieldSizingResult['fluidTempera
 export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResult {
   const p = prepare(input);
   const maxN = requireRange('maxPiles', input.maxPiles ?? 2000, 1, 1e5);
+  if (p.method === 'singlePileCylinder') {
+    // every term scales as 1/N: closed form N = ceil(total drop of one pile / allowed drop)
+    const d1 = drops(p, 1);
+    const n = Math.max(
+      1,
+      Math.ceil((d1.annual + d1.monthly + d1.peak) / (p.Tg + p.halfLoopDrop_K - p.minEft) - 1e-9),
+    );
+    if (n > maxN) {
+      throw new RangeError(
+        `maxPiles ${maxN} piles are not enough to keep the entering fluid above ${p.minEft} °C`,
+      );
+    }
+    return result(p, n, input.includeLifeSeries !== false);
+  }
   let hi = 1;
   while (eft(p, hi) < p.minEft) {
     if (hi >= maxN) {
@@ -303,7 +318,10 @@ export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResul
     if (eft(p, mid) >= p.minEft) hi = mid;
     else lo = mid;
   }
-  const n = hi;
+  return result(p, hi, input.includeLifeSeries !== false);
+}
+
+function result(p: Prepared, n: number, withSeries: boolean): PileFieldSizingResult {
   const d = drops(p, n);
   const controlling = (Object.keys(d) as Pulse[]).reduce(
     (best, k) => (d[k] > d[best] ? k : best),
@@ -319,10 +337,9 @@ export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResul
     lowestFluid_C: design - 2 * p.halfLoopDrop_K,
     groundLoad_W: p.q,
     copPeak: p.copPeak,
-    fluidTemperature_C:
-      input.includeLifeSeries === false
-        ? { year: [], minEnteringFluid_C: [], designMonthMeanFluid_C: [] }
-        : lifeSeries(p, n),
+    fluidTemperature_C: withSeries
+      ? lifeSeries(p, n)
+      : { year: [], minEnteringFluid_C: [], designMonthMeanFluid_C: [] },
     positions: layoutPositions({ count: n, layout: p.layout, pileRadius_m: p.rb }),
     method: p.method,
   };
