@@ -12,9 +12,11 @@
  *
  * Cell area on the ground: the analysis CRS need not be equal-area (the default polar stereographic
  * is conformal), so each cell's area is cellSize_m² times the squared local scale of the projection,
- * measured numerically: the great-circle lengths (sphere, R = 6371008.8 m, IUGG mean radius) of two
- * half-cell steps east and north of the centre, divided by the half-cell size. For a conformal or
- * equal-area grid of 1-2 km cells this is well within 0.1 % of the ellipsoidal area.
+ * measured numerically: the ground lengths of two half-cell steps east and north of the centre,
+ * divided by the half-cell size (for a conformal grid this is 1/k², k the projection's scale factor).
+ * Ground lengths use the WGS 84 ellipsoid's local radii of curvature (meridian M, prime vertical N;
+ * e.g. Snyder 1987, Map Projections—A Working Manual, eqs. 4-18, 4-20), exact to ~1e-8 over
+ * half a kilometre; a mean-sphere haversine would be 0.3 % short per direction at 75° N.
  */
 import type { Manifest } from '../../../layers/screening/manifest';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
@@ -101,8 +103,8 @@ export function buildCellTable(input: CellTableInput): CellTable {
       area[count] =
         cellSize_m *
         cellSize_m *
-        (greatCircle_m(lo, la, lonE, latE) / half) *
-        (greatCircle_m(lo, la, lonN, latN) / half);
+        (localDistance_m(lo, la, lonE, latE) / half) *
+        (localDistance_m(lo, la, lonN, latN) / half);
       colA[count] = c;
       rowA[count] = r;
       lookup[r * width + c] = count;
@@ -146,6 +148,21 @@ export function samplingZoom(manifest: Manifest, lat: number): number {
     if ((2 * Math.PI * 6378137 * Math.cos((lat * Math.PI) / 180)) / (tileSize * 2 ** z) <= cell) return z;
   }
   return maxZoom;
+}
+
+const WGS84_A = 6378137;
+const WGS84_E2 = 0.00669437999014;
+
+/** Distance between two nearby points (< a few km) from the WGS 84 local radii of curvature, m. */
+export function localDistance_m(lon1: number, lat1: number, lon2: number, lat2: number): number {
+  const d = Math.PI / 180;
+  const phi = ((lat1 + lat2) / 2) * d;
+  const w = 1 - WGS84_E2 * Math.sin(phi) ** 2;
+  const N = WGS84_A / Math.sqrt(w);
+  const M = (WGS84_A * (1 - WGS84_E2)) / (w * Math.sqrt(w));
+  const dx = N * Math.cos(phi) * (lon2 - lon1) * d;
+  const dy = M * (lat2 - lat1) * d;
+  return Math.hypot(dx, dy);
 }
 
 /** Haversine distance on the sphere of mean radius 6371008.8 m. */

@@ -1,0 +1,45 @@
+import { describe, expect, it } from 'vitest';
+import { classColours, colourTile, FADED_RGB, OKABE_ITO } from '../../web/src/map/colour-tile';
+import { compileFilter, EMPTY_FILTER } from '../../web/src/filters/cell-filter';
+import { rampColour } from '../../layers/screening/colour-ramps';
+import { testManifest } from './web-test-manifest';
+
+const bands = testManifest().bands;
+const plane = (vals: number[]) => Float32Array.from(vals);
+
+describe('tile colouring', () => {
+  it('colours continuous values on the band ramp over the legend range, nodata transparent', () => {
+    const planes = [plane([-10, 2, -4, NaN]), plane([0, 0, 0, 0]), plane([3, 3, 3, 3])];
+    const rgba = colourTile(planes, {
+      band: bands[0],
+      bandIndex: 0,
+      opacity: 1,
+      filter: compileFilter(EMPTY_FILTER, bands),
+    });
+    expect(Array.from(rgba.slice(0, 4))).toEqual([...rampColour('blueOrange', 0, 0, 1), 255]);
+    expect(Array.from(rgba.slice(4, 8))).toEqual([...rampColour('blueOrange', 1, 0, 1), 255]);
+    expect(rgba[15]).toBe(0);
+  });
+
+  it('fades cells failing the filter and applies the opacity', () => {
+    const planes = [plane([-8, -1]), plane([0, 0]), plane([3, 3])];
+    const f = compileFilter({ ranges: [{ bandId: 'groundTemp', max: -5 }], excluded: [] }, bands);
+    const rgba = colourTile(planes, { band: bands[0], bandIndex: 0, opacity: 0.5, filter: f });
+    expect(rgba[3]).toBe(128);
+    expect(Array.from(rgba.slice(4, 7))).toEqual(FADED_RGB);
+    expect(rgba[7]).toBeLessThan(rgba[3]);
+  });
+
+  it('gives each class its own colour', () => {
+    const unrampedClasses = { ...bands[2], ramp: undefined };
+    expect([...classColours(unrampedClasses).values()]).toEqual(OKABE_ITO.slice(0, 4));
+    const planes = [plane([0]), plane([0]), plane([2])];
+    const rgba = colourTile(planes, {
+      band: unrampedClasses,
+      bandIndex: 2,
+      opacity: 1,
+      filter: compileFilter(EMPTY_FILTER, bands),
+    });
+    expect(Array.from(rgba.slice(0, 3))).toEqual(OKABE_ITO[2]);
+  });
+});

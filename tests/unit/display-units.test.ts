@@ -1,0 +1,94 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import {
+  displayConversion,
+  formatLonLat,
+  formatNumber,
+  formatQuantity,
+  fromDisplay,
+  toDisplay,
+} from '../../web/src/units/display-units';
+
+describe('display units', () => {
+  it('converts temperatures with the Fahrenheit offset, differences without', () => {
+    // Fahrenheit scale definition: 0 °C = 32 °F, 100 °C = 212 °F, -40 °C = -40 °F (exact).
+    expect(toDisplay(0, '°C', 'NA')).toBeCloseTo(32, 12);
+    expect(toDisplay(100, '°C', 'NA')).toBeCloseTo(212, 12);
+    expect(toDisplay(-40, '°C', 'NA')).toBeCloseTo(-40, 12);
+    // A difference of 1 K is 1.8 °F (same definition).
+    expect(toDisplay(1, 'K', 'NA')).toBeCloseTo(1.8, 12);
+    expect(toDisplay(0.05, 'K/yr', 'NA')).toBeCloseTo(0.09, 12);
+  });
+
+  it('uses the exact foot, Btu and ton definitions', () => {
+    // 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
+    expect(toDisplay(0.3048, 'm', 'NA')).toBeCloseTo(1, 12);
+    // 1 ton of refrigeration = 12 000 Btu_IT/h = 3.516853 kW (reference-values.md §12, from the definition).
+    expect(toDisplay(3.516853, 'kW', 'NA')).toBeCloseTo(1, 6);
+    // 1 W = 3.412142 Btu_IT/h (1 Btu_IT = 1055.05585262 J, International Steam Table definition).
+    expect(toDisplay(1, 'W', 'NA')).toBeCloseTo(3.412142, 6);
+    // 1 W/(m·K) = 0.577789 Btu/(h·ft·°F) (ASHRAE Handbook—Fundamentals, SI conversion table; recalled from memory).
+    expect(toDisplay(1, 'W/m·K', 'NA')).toBeCloseTo(0.577789, 6);
+    // 1 km² = 0.386102 mi² (1 mi = 1609.344 m exactly).
+    expect(toDisplay(1, 'km²', 'NA')).toBeCloseTo(0.386102, 6);
+    // 1 US gal = 3.785411784 L exactly.
+    expect(toDisplay(3.785411784, 'L/yr', 'NA')).toBeCloseTo(1, 12);
+  });
+
+  it('shows a band stored in piles per ton as piles per kW in SI', () => {
+    const c = displayConversion('piles/ton', 'SI');
+    expect(c.unit).toBe('piles/kW');
+    // 10 piles per ton = 10 / 3.516853 piles per kW (ton definition above).
+    expect(toDisplay(10, 'piles/ton', 'SI')).toBeCloseTo(2.843451, 6);
+    expect(displayConversion('piles/ton', 'NA')).toEqual({ unit: 'piles/ton', factor: 1, offset: 0 });
+    expect(toDisplay(2, 'piles/kW', 'NA')).toBeCloseTo(7.033706, 6);
+  });
+
+  it('leaves unknown units, years and classes unchanged', () => {
+    for (const u of ['yr', '', '%', 'CAD/yr']) {
+      expect(displayConversion(u, 'NA')).toEqual({ unit: u, factor: 1, offset: 0 });
+      expect(toDisplay(12.5, u, 'SI')).toBe(12.5);
+    }
+  });
+
+  it('fromDisplay inverts toDisplay for every unit and system', () => {
+    const units = [
+      '°C',
+      'K',
+      'm',
+      'mm',
+      'km²',
+      'W',
+      'kW',
+      'W/m',
+      'W/m²',
+      'W/m·K',
+      'piles/ton',
+      'piles/kW',
+      'L/yr',
+      't/yr',
+      'yr',
+    ];
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...units),
+        fc.constantFrom('SI' as const, 'NA' as const),
+        fc.double({ min: -1e6, max: 1e6, noNaN: true }),
+        (u, sys, v) =>
+          Math.abs(fromDisplay(toDisplay(v, u, sys), u, sys) - v) <= 1e-9 * Math.max(1, Math.abs(v)),
+      ),
+      { seed: 42 },
+    );
+  });
+
+  it('formats numbers and nodata for people', () => {
+    expect(formatNumber(NaN)).toBe('no data');
+    expect(formatNumber(0)).toBe('0');
+    expect(formatNumber(3.14159)).toBe('3.14');
+    expect(formatNumber(0.012345)).toBe('0.0123');
+    expect(formatNumber(123456)).toBe('123,456');
+    expect(formatQuantity(0, '°C', 'NA')).toBe('32.0 °F');
+    expect(formatQuantity(NaN, 'm', 'SI')).toBe('no data');
+    expect(formatLonLat(-3.5, 75.25, 2)).toBe('75.25° N, 3.50° W');
+  });
+});

@@ -1,0 +1,123 @@
+import { describe, expect, it } from 'vitest';
+import {
+  bandPropertyName,
+  csvCell,
+  shortlistFromGeoJSON,
+  shortlistToCsv,
+  shortlistToGeoJSON,
+  sortShortlist,
+  unitSlug,
+} from '../../web/src/shortlist/shortlist-export';
+import type { ShortlistItem } from '../../web/src/shortlist/shortlist-item';
+import { testManifest } from './web-test-manifest';
+
+const manifest = testManifest();
+const item = (over: Partial<ShortlistItem>): ShortlistItem => ({
+  id: 'a',
+  name: 'Lanternhook east',
+  note: '',
+  lon: -3.1234567,
+  lat: 75.0123456,
+  addedAt: '2026-12-01T10:00:00.000Z',
+  origin: 'map',
+  values: { groundTemp: -4.5, pilesPerTon: 12, suitability: 3 },
+  metrics: {},
+  ...over,
+});
+
+describe('shortlist export', () => {
+  it('puts units into property names', () => {
+    expect(unitSlug('°C')).toBe('degC');
+    expect(unitSlug('piles/ton')).toBe('piles_per_ton');
+    expect(unitSlug('W/m·K')).toBe('W_per_mK');
+    expect(unitSlug('km²')).toBe('km2');
+    expect(manifest.bands.map(bandPropertyName)).toEqual([
+      'groundTemp_degC',
+      'pilesPerTon_piles_per_ton',
+      'suitability_class',
+    ]);
+  });
+
+  it('writes RFC 7946 GeoJSON: lon/lat order, no crs, cautions, scenario and provenance', () => {
+    const fc = shortlistToGeoJSON([item({})], manifest);
+    expect(fc.type).toBe('FeatureCollection');
+    expect('crs' in fc).toBe(false);
+    const f = fc.features[0];
+    expect(f.geometry).toEqual({ type: 'Point', coordinates: [-3.123457, 75.012346] });
+    const p = f.properties;
+    expect(p.groundTemp_degC).toBe(-4.5);
+    expect(p.suitability_class).toBe(3);
+    expect(p.suitability_label).toBe('good');
+    expect(p.lon_deg).toBe(-3.123457);
+    expect(String(p.cautions)).toContain('Screening estimate, not a design');
+    expect(String(p.cautions)).toContain('frost heave');
+    expect(String(p.fictionalData)).toContain('invented');
+    expect(p.scenario).toEqual({ name: 'test', warming_C_per_yr: 0.05 });
+    expect(String(p.provenance)).toContain('pile-atlas 9.9.9-test');
+    expect(String(p.provenance)).toContain('air.tif');
+    expect(p.rank).toBe(1);
+  });
+
+  it('neutralises spreadsheet formulas in CSV text cells', () => {
+    // OWASP "CSV Injection": cells starting with = + - @ tab or CR are prefixed with an apostrophe.
+    expect(csvCell('=SUM(A1)')).toBe("'=SUM(A1)");
+    expect(csvCell('+1')).toBe("'+1");
+    expect(csvCell('-cmd')).toBe("'-cmd");
+    expect(csvCell('@x')).toBe("'@x");
+    expect(csvCell('\tx')).toBe("'\tx");
+    expect(csvCell('\rx')).toBe(`"'\rx"`);
+    expect(csvCell('a "b", c')).toBe('"a ""b"", c"');
+    expect(csvCell(-4.5)).toBe('-4.5'); // numbers we write are plain decimals
+    expect(csvCell(null)).toBe('');
+    expect(csvCell({ a: 1 })).toBe('"{""a"":1}"');
+  });
+
+  it('writes CSV with the GeoJSON columns, one row per site', () => {
+    const csv = shortlistToCsv(
+      [item({ name: '=HYPERLINK("x")', note: 'north, dry' }), item({ id: 'b', name: 'B' })],
+      manifest,
+    );
+    const lines = csv.split('\r\n');
+    expect(lines).toHaveLength(4); // header, 2 rows, trailing empty
+    const header = lines[0].split(',');
+    const geo = Object.keys(shortlistToGeoJSON([item({})], manifest).features[0].properties);
+    expect(header).toEqual(geo);
+    expect(lines[1]).toContain(`"'=HYPERLINK(""x"")"`);
+    expect(lines[1]).toContain('"north, dry"');
+  });
+
+  it('re-imports its own export', () => {
+    const original = [
+      item({ note: 'n', metrics: { pileCount: 14, thawDelay_yr: 22.5 } }),
+      item({ id: 'b', name: 'B', values: { groundTemp: null } }),
+    ];
+    const json = JSON.parse(JSON.stringify(shortlistToGeoJSON(original, manifest)));
+    const { items, issues } = shortlistFromGeoJSON(json, manifest.bands);
+    expect(issues).toEqual([]);
+    expect(items).toHaveLength(2);
+    expect(items[0]).toEqual({ ...original[0], lon: -3.123457, lat: 75.012346 });
+    expect(items[1].values.groundTemp).toBeNull();
+  });
+
+  it('reports what is wrong with a file that is not a point collection', () => {
+    expect(shortlistFromGeoJSON({ type: 'Feature' }, manifest.bands).issues[0]).toMatch(/^type/);
+    const bad = {
+      type: 'FeatureCollection',
+      features: [{ type: 'Feature', geometry: { type: 'Point', coordinates: [200, 0] }, properties: {} }],
+    };
+    expect(shortlistFromGeoJSON(bad, manifest.bands).issues[0]).toMatch(
+      /^features\.0\.geometry\.coordinates\.0/,
+    );
+  });
+
+  it('sorts by name, date or any metric, nodata last', () => {
+    const list = [
+      item({ id: '1', name: 'b', values: { pilesPerTon: 20 } }),
+      item({ id: '2', name: 'a', values: { pilesPerTon: null } }),
+      item({ id: '3', name: 'c', values: { pilesPerTon: 5 } }),
+    ];
+    expect(sortShortlist(list, 'band:pilesPerTon', 'asc').map((i) => i.id)).toEqual(['3', '1', '2']);
+    expect(sortShortlist(list, 'band:pilesPerTon', 'desc').map((i) => i.id)).toEqual(['1', '3', '2']);
+    expect(sortShortlist(list, 'name', 'asc').map((i) => i.id)).toEqual(['2', '1', '3']);
+  });
+});
