@@ -5,7 +5,9 @@ import { requirePositive, requireRange, requireNonNegative } from './validate';
  * The Kudryavtsev (1974) method as used by Romanovsky & Osterkamp (1997), Permafrost and Periglacial
  * Processes 8:1–22, and Anisimov, Shiklomanov & Nelson (1997), Global and Planetary Change 15:61–77.
  * (Equations recalled from memory: TTOP form medium, ALT form low-medium confidence; the ALT form is
- * pinned by its exact pure-conduction limit, tested. Check against the papers before relying on it.)
+ * pinned by its exact pure-conduction limit, and the ALT agreed within 4 % with a 1-D enthalpy
+ * finite-difference model over four cases, see tests/reference/kudryavtsev.test.ts. Check against the
+ * papers before relying on the exact form.)
  *
  * Mean temperature at the top of permafrost, from the surface mean T̄s and amplitude Ās:
  *   TTOP = [½·T̄s·(k_f + k_t) + (Ās/π)·(k_t − k_f)·((T̄s/Ās)·asin(T̄s/Ās) + √(1 − T̄s²/Ās²))] / k*,
