@@ -1,25 +1,29 @@
 /**
- * `pile-atlas build`: inputs directory -> screened tile pyramid + manifest.json.
- * read + validate inputs (load-inputs.ts) -> analysis grid in EPSG:3413 (analysis-grid.ts) -> screen every
- * cell with a ScreeningModel (compute-layers.ts) -> Web Mercator tiles (write-tile-pyramid.ts) ->
- * manifest (layers/screening/manifest.ts) -> copy settlements/land GeoJSON. Everything is written into a
- * temporary directory beside `outDir`, validated, then swapped in (atomic-output.ts): on any error the
- * previous output stays untouched.
+ * `pile-atlas build`: inputs directory -> screened tile pyramid, per-band GeoTIFFs and manifest.json.
+ * read + validate inputs (load-inputs.ts) -> analysis grid in EPSG:3413 (analysis-grid.ts) -> screen
+ * every cell with a ScreeningModel, in row windows across worker threads (compute-layers.ts) -> Web
+ * Mercator tiles with overviews (write-tile-pyramid.ts) -> one GeoTIFF per band in EPSG:3413
+ * (write-band-geotiff.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
+ * Everything is written into a temporary directory beside `outDir`, validated, then swapped in
+ * (atomic-output.ts): on any error the previous output stays untouched.
  */
-import { copyFile, readFile, stat, writeFile } from 'node:fs/promises';
+import { availableParallelism } from 'node:os';
+import { copyFile, mkdir, readdir, readFile, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
-import { createBasicScreeningModel } from '../../layers/screening/basic-screening-model';
-import { manifestSchema, type Band, type Manifest } from '../../layers/screening/manifest';
+import { manifestCriteria } from '../../layers/screening/cell-screening-model';
+import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
-import { NODATA_CODE, quantisationFor, TILE_SIZE } from '../../layers/screening/tile-format';
+import { TILE_SIZE } from '../../layers/screening/tile-format';
+import { writeBandGeoTiff } from '../export/write-band-geotiff';
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
 import { analysisGridFor } from './analysis-grid';
+import { assembleManifest, bandFor, classShares } from './assemble-manifest';
 import { beginAtomicOutput } from './atomic-output';
 import { computeLayers } from './compute-layers';
 import { loadInputs } from './load-inputs';
+import { createModelFromSpec, type ModelSpec } from './model-spec';
 
 export interface BuildOptions {
   inDir: string;
@@ -27,17 +31,26 @@ export interface BuildOptions {
   onProgress?: (p: Progress) => void;
   /** Analysis cell size, m (default 1000). */
   cellSize_m?: number;
-  /** Screening model (default: the basic TTOP + Stefan model). */
+  /** 'screening' (default): the full per-cell model for `scenario`; 'basic': TTOP + Stefan only. */
+  modelKind?: 'screening' | 'basic';
+  /** Scenario JSON for the screening model (default: the documented default scenario). */
+  scenario?: unknown;
+  /** Name of the scenario file, for error messages and the manifest. */
+  scenarioFile?: string;
+  /** A custom model object (runs on the main thread; overrides modelKind). */
   model?: ScreeningModel;
-  /** Name and parameters of the model, recorded in the manifest. */
-  modelInfo?: { name: string; parameters?: Record<string, unknown> };
-  /** Scenario recorded in the manifest, if any. */
-  scenario?: Record<string, unknown>;
+  /** Worker threads for screening (default: available cores, at most 8; 1 = main thread). */
+  workers?: number;
+  /** Grids smaller than this are screened on the main thread (default 400 000 cells). */
+  minCellsForWorkers?: number;
+  /** Also write every band as a GeoTIFF in EPSG:3413 under geotiff/ (default true). */
+  geotiff?: boolean;
 }
 
 export interface BuildSummary {
   outDir: string;
   manifest: string;
+  model: string;
   cellsTotal: number;
   cellsScreened: number;
   cellsMissingInput: number;
@@ -49,94 +62,67 @@ export interface BuildSummary {
   bands: string[];
   /** Share of screened cells in each class, per class band: bandId -> label -> fraction. */
   classShares: Record<string, Record<string, number>>;
+  workers: number;
   seconds: number;
+  cellsPerSecond: number;
 }
 
-async function toolVersion(): Promise<string> {
-  const text = await readFile(new URL('../../package.json', import.meta.url), 'utf8');
-  return (JSON.parse(text) as { version: string }).version;
-}
-
-function bandRange(values: Float32Array): [number, number] {
-  let min = Infinity;
-  let max = -Infinity;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (v < min) min = v;
-    if (v > max) max = v;
+function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
+  if (options.model) return { model: options.model, name: 'custom' };
+  const spec: ModelSpec =
+    options.modelKind === 'basic'
+      ? { kind: 'basic' }
+      : { kind: 'screening', scenario: options.scenario ?? {} };
+  try {
+    return {
+      model: createModelFromSpec(spec),
+      spec,
+      name: spec.kind === 'basic' ? 'basic (TTOP + Stefan)' : 'per-cell screening model',
+    };
+  } catch (err) {
+    if (err instanceof TypeError || err instanceof RangeError) {
+      throw new InputError(`${options.scenarioFile ?? 'scenario'}: ${err.message}`);
+    }
+    throw err;
   }
-  return min <= max ? [min, max] : [0, 0];
 }
 
-function classShares(values: Float32Array, classes: { value: number; label: string }[]) {
-  const counts = new Map<number, number>();
-  let total = 0;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (v !== v) continue;
-    counts.set(v, (counts.get(v) ?? 0) + 1);
-    total++;
-  }
-  const shares: Record<string, number> = {};
-  for (const c of classes) {
-    const n = counts.get(c.value) ?? 0;
-    if (n > 0) shares[c.label] = +(n / total).toFixed(4);
-  }
-  return shares;
-}
-
-/** Build tiles and manifest from the inputs in `inDir` into `outDir` (atomically). */
+/** Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). */
 export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const started = Date.now();
   const { inDir, outDir, onProgress } = options;
   const cellSize_m = options.cellSize_m ?? 1000;
-  const model = options.model ?? createBasicScreeningModel();
-  const modelInfo = options.modelInfo ?? {
-    name: 'basic (TTOP + Stefan)',
-    parameters: { nFreeze: 0.5, nThaw: 1 },
-  };
   const progress = (stage: string, done: number, total: number) => onProgress?.({ stage, done, total });
+  const { model, spec, name: modelName } = resolveModel(options);
+  const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
 
   const { config, inputs } = await loadInputs(inDir, (d, t) => progress('read', d, t));
-  const required = inputs.filter((i) => i.role.required);
   const grid = analysisGridFor(
-    required.map((i) => ({ label: i.entry.file, grid: i.source.grid })),
+    inputs.filter((i) => i.role.required).map((i) => ({ label: i.entry.file, grid: i.source.grid })),
     cellSize_m,
   );
-  const result = computeLayers({ grid, inputs, model, onProgress: (d, t) => progress('screen', d, t) });
+  const result = await computeLayers({
+    grid,
+    inputs,
+    model,
+    spec,
+    workers: options.workers ?? Math.min(8, availableParallelism()),
+    minCellsForWorkers: options.minCellsForWorkers,
+    onProgress: (d, t) => progress('screen', d, t),
+  });
   if (result.cellsScreened === 0) {
     throw new InputError(
       `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
     );
   }
-
-  const bands: Band[] = result.layers.map((layer, b) => {
-    const [min, max] = bandRange(result.bands[b]);
-    const q = layer.kind === 'class' ? { scale: 1, offset: 0 } : quantisationFor(min, max);
-    return {
-      id: layer.id,
-      title: layer.title,
-      unit: layer.unit,
-      kind: layer.kind,
-      scale: q.scale,
-      offset: q.offset,
-      min,
-      max,
-      ...(layer.ramp ? { ramp: layer.ramp } : {}),
-      ...(layer.legendMin !== undefined ? { legendMin: layer.legendMin } : {}),
-      ...(layer.legendMax !== undefined ? { legendMax: layer.legendMax } : {}),
-      ...(layer.classes ? { classes: layer.classes } : {}),
-      description: layer.description,
-      source: layer.source,
-    };
-  });
-
+  const bands = result.layers.map((layer, i) => bandFor(layer, result.bands[i]));
   const margin = (2 * cellSize_m) / 111_000;
   const b = result.bounds;
+  const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
   const bounds: [number, number, number, number] = [
-    b[0] - margin / Math.cos((b[3] * Math.PI) / 180),
-    b[1] - margin,
-    b[2] + margin / Math.cos((b[3] * Math.PI) / 180),
+    Math.max(-180, b[0] - lonMargin),
+    Math.max(-85, b[1] - margin),
+    Math.min(180, b[2] + lonMargin),
     Math.min(85, b[3] + margin),
   ];
   const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
@@ -152,6 +138,25 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       bounds,
       onTile: (d, t) => progress('tiles', d, t),
     });
+    let geotiffs: Record<string, string> | undefined;
+    if (options.geotiff !== false) {
+      geotiffs = {};
+      await mkdir(join(output.dir, 'geotiff'));
+      for (let i = 0; i < bands.length; i++) {
+        const file = `geotiff/${bands[i].id}.tif`;
+        await writeBandGeoTiff({
+          path: join(output.dir, file),
+          values: result.bands[i],
+          width: grid.width,
+          height: grid.height,
+          geoTransform: grid.geoTransform,
+          crs: grid.crs,
+          description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+        });
+        geotiffs[bands[i].id] = file;
+        progress('geotiff', i + 1, bands.length);
+      }
+    }
     if (config.settlements)
       await copyFile(join(inDir, config.settlements), join(output.dir, 'settlements.geojson'));
     if (config.land) await copyFile(join(inDir, config.land), join(output.dir, 'land.geojson'));
@@ -166,55 +171,31 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       cellsScreened: result.cellsScreened,
       cellsMissingInput: result.cellsMissingInput,
       cellsModelNodata: result.cellsModelNodata,
-      screenedArea_km2: +((result.cellsScreened * cellSize_m * cellSize_m) / 1e6).toFixed(0),
+      screenedArea_km2: Math.round((result.cellsScreened * cellSize_m * cellSize_m) / 1e6),
       classShares: shares,
       tiles,
+      workers: result.workers,
       seconds,
     };
-    const manifest: Manifest = {
-      formatVersion: 1,
-      tool: { name: 'pile-atlas', version: await toolVersion() },
-      createdAt: new Date().toISOString(),
-      fictional: config.region.fictional,
-      notice: [
-        SCREENING_CAUTION,
-        ...GROUND_CAUTIONS,
-        ...(config.region.fictional ? [FICTIONAL_DATA_NOTICE] : []),
-      ].join(' '),
-      region: { name: config.region.name, bounds },
-      tiles: {
-        urlTemplate: 'tiles/{z}/{x}/{y}.bin',
-        tileSize: TILE_SIZE,
-        minZoom,
-        maxZoom,
-        encoding: 'uint16-planar-le',
-        nodataCode: NODATA_CODE,
-      },
-      analysisGrid: grid,
+    const manifest = await assembleManifest({
+      config,
+      inputs,
+      grid,
       bands,
-      sources: inputs.map((i) => ({
-        file: i.entry.file,
-        role: i.entry.role,
-        crs: i.source.grid.crs,
-        width: i.source.grid.width,
-        height: i.source.grid.height,
-        unit: i.entry.unit,
-        sha256: i.source.sha256,
-        provenance: i.entry.provenance ?? config.provenance,
-        licence: i.entry.licence ?? config.licence,
-      })),
-      ...(config.settlements ? { settlements: 'settlements.geojson' } : {}),
-      ...(config.land ? { land: 'land.geojson' } : {}),
+      bounds,
+      minZoom,
+      maxZoom,
       parameters: {
         cellSize_m,
-        resampling: { class: 'nearest', continuous: 'bilinear (valid neighbours)' },
-        model: modelInfo.name,
-        modelParameters: modelInfo.parameters ?? {},
+        resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
         overviews: { class: 'mode', continuous: 'mean' },
+        model: modelName,
+        ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
       },
-      ...(options.scenario ? { scenario: options.scenario } : {}),
+      ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
       summary,
-    };
+      geotiffs,
+    });
     const checked = manifestSchema.parse(manifest);
     await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
     await validateOutput(output.dir, checked);
@@ -222,6 +203,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     return {
       outDir,
       manifest: join(outDir, 'manifest.json'),
+      model: modelName,
       cellsTotal: result.cellsTotal,
       cellsScreened: result.cellsScreened,
       cellsMissingInput: result.cellsMissingInput,
@@ -232,7 +214,9 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       maxZoom,
       bands: bands.map((x) => x.id),
       classShares: shares,
+      workers: result.workers,
       seconds: (Date.now() - started) / 1000,
+      cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
     };
   } catch (err) {
     await output.discard();
@@ -244,7 +228,6 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
 async function validateOutput(dir: string, manifest: Manifest): Promise<void> {
   const again = manifestSchema.parse(JSON.parse(await readFile(join(dir, 'manifest.json'), 'utf8')));
   const expected = again.bands.length * TILE_SIZE * TILE_SIZE * 2;
-  const { readdir } = await import('node:fs/promises');
   for (let z = manifest.tiles.minZoom; z <= manifest.tiles.maxZoom; z++) {
     const xs = await readdir(join(dir, 'tiles', String(z))).catch(() => [] as string[]);
     if (xs.length === 0) throw new Error(`build produced no tiles at zoom ${z}`);

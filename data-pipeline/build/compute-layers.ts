@@ -1,74 +1,59 @@
 /**
- * Screens every analysis cell: resamples the inputs window by window (rows), fills CellInputs and
- * calls the ScreeningModel. Output bands: the model's layers, then a few input layers echoed for the
- * map (texture, bedrock depth, water content, air temperature), then `inputFlags`, a bit mask saying
- * which optional inputs fell back to a model or default in that cell.
+ * Screens every analysis cell, window by window (blocks of rows), on the main thread or across a pool
+ * of worker threads. Inputs are resampled per window, so only the input grids (shared, read-only) and
+ * the output bands (shared Float32, cells x bands x 4 bytes) are held whole. Output bands: the model's
+ * layers, a few input layers echoed for the map (texture, bedrock depth, water content, air
+ * temperature), then `inputFlags`, a bit mask of the optional inputs that fell back to a default.
  */
-import type { CellInputs, ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
+import { Worker } from 'node:worker_threads';
+import type { ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
 import { TEXTURE_CODES } from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
 import type { LoadedInput } from './load-inputs';
-import { cellCentresIn, resampleAt } from './resample-to-grid';
+import type { ModelSpec } from './model-spec';
+import {
+  createWindowScreener,
+  emptyStats,
+  INPUT_FLAG_BITS,
+  mergeStats,
+  type WindowInput,
+  type WindowStats,
+} from './screen-window';
 
-/** Flag bits of the inputFlags band: which optional input was absent in the cell. */
-export const INPUT_FLAG_BITS = { groundTemp_C: 1, geothermalFlux_W_m2: 2, nFreeze: 4 } as const;
+export { INPUT_FLAG_BITS };
 
-const ECHO_LAYERS: { role: GridRoleId; layer: ScreeningLayer }[] = [
+const continuousEcho = (
+  id: GridRoleId,
+  title: string,
+  unit: string,
+  ramp: string,
+  legend: [number, number],
+): ScreeningLayer => ({
+  id,
+  title,
+  unit,
+  kind: 'continuous',
+  ramp,
+  legendMin: legend[0],
+  legendMax: legend[1],
+  description: `${title} (input grid, bilinear resampling).`,
+  source: 'input grid (see sources)',
+});
+
+const ECHO_LAYERS: ScreeningLayer[] = [
   {
-    role: 'textureClass',
-    layer: {
-      id: 'textureClass',
-      title: 'Soil texture class',
-      unit: '',
-      kind: 'class',
-      classes: Object.entries(TEXTURE_CODES).map(([value, label]) => ({ value: Number(value), label })),
-      description: 'Dominant soil texture of the cell (input grid, nearest neighbour).',
-      source: 'input grid',
-    },
+    id: 'textureClass',
+    title: 'Soil texture class',
+    unit: '',
+    kind: 'class',
+    classes: Object.entries(TEXTURE_CODES).map(([value, label]) => ({ value: Number(value), label })),
+    description: 'Dominant soil texture of the cell (input grid, nearest neighbour).',
+    source: 'input grid (see sources)',
   },
-  {
-    role: 'bedrockDepth_m',
-    layer: {
-      id: 'bedrockDepth_m',
-      title: 'Depth to bedrock',
-      unit: 'm',
-      kind: 'continuous',
-      ramp: 'cividis',
-      legendMin: 0,
-      legendMax: 40,
-      description: 'Depth to bedrock (input grid, bilinear).',
-      source: 'input grid',
-    },
-  },
-  {
-    role: 'waterContent_m3m3',
-    layer: {
-      id: 'waterContent_m3m3',
-      title: 'Volumetric water + ice content',
-      unit: 'm³/m³',
-      kind: 'continuous',
-      ramp: 'viridis',
-      legendMin: 0,
-      legendMax: 1,
-      description: 'Total volumetric water and ice content (input grid, bilinear).',
-      source: 'input grid',
-    },
-  },
-  {
-    role: 'meanAirTemp_C',
-    layer: {
-      id: 'meanAirTemp_C',
-      title: 'Mean annual air temperature',
-      unit: '°C',
-      kind: 'continuous',
-      ramp: 'blueOrange',
-      legendMin: -14,
-      legendMax: 2,
-      description: 'Mean annual air temperature (input grid, bilinear).',
-      source: 'input grid',
-    },
-  },
+  continuousEcho('bedrockDepth_m', 'Depth to bedrock', 'm', 'cividis', [0, 40]),
+  continuousEcho('waterContent_m3m3', 'Volumetric water + ice content', 'm³/m³', 'viridis', [0, 1]),
+  continuousEcho('meanAirTemp_C', 'Mean annual air temperature', '°C', 'blueOrange', [-14, 2]),
 ];
 
 function flagsLayer(): ScreeningLayer {
@@ -96,124 +81,105 @@ function flagsLayer(): ScreeningLayer {
   };
 }
 
-export interface ComputeResult {
+export interface ComputeResult extends WindowStats {
   layers: ScreeningLayer[];
   bands: Float32Array[];
-  /** [west, south, east, north] degrees of the screened cells. */
-  bounds: [number, number, number, number];
   cellsTotal: number;
-  cellsScreened: number;
-  /** Land cells (texture known) lacking another required input (e.g. coast mismatch between grids). */
-  cellsMissingInput: number;
-  /** Screened cells where the model returned nodata (inputs outside the physics' domain). */
-  cellsModelNodata: number;
+  workers: number;
 }
 
 export interface ComputeOptions {
   grid: AnalysisGrid;
   inputs: LoadedInput[];
   model: ScreeningModel;
+  /** When given (and workers > 1), each worker builds its own model from this spec. */
+  spec?: ModelSpec;
+  workers?: number;
+  /** Below this many cells the main thread screens alone (worker start-up costs more). Default 400 000. */
+  minCellsForWorkers?: number;
   windowRows?: number;
   onProgress?: (done: number, total: number) => void;
 }
 
-/** Screen every cell of the analysis grid. */
-export function computeLayers(options: ComputeOptions): ComputeResult {
-  const { grid, inputs, model, windowRows = 64, onProgress } = options;
-  const echo = ECHO_LAYERS.filter(
-    (e) => inputs.some((i) => i.entry.role === e.role) && !model.layers.some((l) => l.id === e.layer.id),
-  );
-  const layers = [...model.layers, ...echo.map((e) => e.layer), flagsLayer()];
-  const n = grid.width * grid.height;
-  const bands = layers.map(() => new Float32Array(n).fill(NaN));
-  const nModel = model.layers.length;
-  const out = new Float32Array(nModel);
-  const byRole = new Map(inputs.map((i) => [i.entry.role, i]));
-  const roles = Object.keys(GRID_ROLES) as GridRoleId[];
-  const required = roles.filter((r) => GRID_ROLES[r].required);
-  const bounds: [number, number, number, number] = [Infinity, Infinity, -Infinity, -Infinity];
-  let cellsScreened = 0;
-  let cellsMissingInput = 0;
-  let cellsModelNodata = 0;
-  const cell: CellInputs = {
-    meanAirTemp_C: NaN,
-    airAmplitude_C: NaN,
-    warming_C_per_yr: NaN,
-    textureClass: NaN,
-    waterContent_m3m3: NaN,
-    bedrockDepth_m: NaN,
-    groundTemp_C: NaN,
-    geothermalFlux_W_m2: NaN,
-    nFreeze: NaN,
-    latitude_deg: NaN,
-  };
-
-  for (let row0 = 0; row0 < grid.height; row0 += windowRows) {
-    const row1 = Math.min(grid.height, row0 + windowRows);
-    const coordsByCrs = new Map<string, Float64Array>();
-    const coordsFor = (crs: string) => {
-      let c = coordsByCrs.get(crs);
-      if (!c) {
-        c = cellCentresIn(grid, row0, row1, crs);
-        coordsByCrs.set(crs, c);
-      }
-      return c;
+function runPool(
+  workers: number,
+  data: object,
+  windows: [number, number][],
+  onWindow: (s: WindowStats, rows: number) => void,
+): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const pool: Worker[] = [];
+    let next = 0;
+    let pending = windows.length;
+    let failed = false;
+    const finish = (err?: Error) => {
+      for (const w of pool) void w.terminate();
+      if (err) reject(err);
+      else resolve();
     };
-    const lonLat = coordsFor('EPSG:4326');
-    const sampled = new Map<GridRoleId, Float32Array>();
-    for (const [role, input] of byRole) {
-      const method = input.role.kind === 'class' ? 'nearest' : 'bilinear';
-      sampled.set(role, resampleAt(input.source.grid, coordsFor(input.source.grid.crs), method));
-    }
-    const count = (row1 - row0) * grid.width;
-    for (let k = 0; k < count; k++) {
-      let missing = 0;
-      for (const r of required) {
-        const v = (sampled.get(r) as Float32Array)[k];
-        if (v !== v) missing++;
+    const feed = (w: Worker) => {
+      if (next < windows.length) {
+        const [row0, row1] = windows[next++];
+        w.postMessage({ row0, row1 });
       }
-      if (missing > 0) {
-        // Land (texture known) without some other required input: a gap between the grids.
-        const texture = sampled.get('textureClass')?.[k] ?? NaN;
-        if (texture === texture) cellsMissingInput++;
-        continue;
-      }
-      let flags = 0;
-      for (const r of roles) {
-        const v = sampled.get(r)?.[k] ?? NaN;
-        (cell as unknown as Record<string, number>)[r] = v;
-        if (!GRID_ROLES[r].required && v !== v) flags |= INPUT_FLAG_BITS[r as keyof typeof INPUT_FLAG_BITS];
-      }
-      const lon = lonLat[2 * k];
-      const lat = lonLat[2 * k + 1];
-      cell.latitude_deg = lat;
-      model.evaluate(cell, out);
-      const index = row0 * grid.width + k;
-      let anyFinite = false;
-      for (let b = 0; b < nModel; b++) {
-        bands[b][index] = out[b];
-        if (out[b] === out[b]) anyFinite = true;
-      }
-      if (!anyFinite) cellsModelNodata++;
-      echo.forEach((e, j) => {
-        bands[nModel + j][index] = (sampled.get(e.role) as Float32Array)[k];
+    };
+    for (let i = 0; i < workers; i++) {
+      const w = new Worker(new URL('./screen-worker.mjs', import.meta.url), { workerData: data });
+      pool.push(w);
+      w.on('message', (msg: { error?: string; row0: number; row1: number; stats: WindowStats }) => {
+        if (failed) return;
+        if (msg.error) {
+          failed = true;
+          finish(new Error(`screening worker failed: ${msg.error}`));
+          return;
+        }
+        onWindow(msg.stats, msg.row1 - msg.row0);
+        if (--pending === 0) finish();
+        else feed(w);
       });
-      bands[layers.length - 1][index] = flags;
-      cellsScreened++;
-      if (lon < bounds[0]) bounds[0] = lon;
-      if (lat < bounds[1]) bounds[1] = lat;
-      if (lon > bounds[2]) bounds[2] = lon;
-      if (lat > bounds[3]) bounds[3] = lat;
+      w.on('error', (err) => {
+        if (!failed) {
+          failed = true;
+          finish(err);
+        }
+      });
+      feed(w);
     }
-    onProgress?.(row1, grid.height);
-  }
-  return {
-    layers,
-    bands,
-    bounds,
-    cellsTotal: n,
-    cellsScreened,
-    cellsMissingInput,
-    cellsModelNodata,
+  });
+}
+
+/** Screen every cell of the analysis grid. */
+export async function computeLayers(options: ComputeOptions): Promise<ComputeResult> {
+  const { grid, inputs, model, spec, windowRows = 32, onProgress } = options;
+  const present = new Set(inputs.map((i) => i.entry.role));
+  const modelIds = new Set(model.layers.map((l) => l.id));
+  const echoLayers = ECHO_LAYERS.filter((l) => present.has(l.id as GridRoleId) && !modelIds.has(l.id));
+  const layers = [...model.layers, ...echoLayers, flagsLayer()];
+  const n = grid.width * grid.height;
+  const bands = layers.map(() => new Float32Array(new SharedArrayBuffer(n * 4)).fill(NaN));
+  const windowInputs: WindowInput[] = inputs.map((i) => ({
+    role: i.entry.role,
+    kind: i.role.kind,
+    grid: i.source.grid,
+  }));
+  const echoRoles = echoLayers.map((l) => l.id as GridRoleId);
+  const windows: [number, number][] = [];
+  for (let r = 0; r < grid.height; r += windowRows) windows.push([r, Math.min(grid.height, r + windowRows)]);
+
+  const stats = emptyStats();
+  let rowsDone = 0;
+  const onWindow = (s: WindowStats, rows: number) => {
+    mergeStats(stats, s);
+    rowsDone += rows;
+    onProgress?.(rowsDone, grid.height);
   };
+  const parallel = spec && n >= (options.minCellsForWorkers ?? 400_000);
+  const workers = parallel ? Math.max(1, Math.min(options.workers ?? 1, windows.length)) : 1;
+  if (workers > 1 && spec) {
+    await runPool(workers, { spec, grid, inputs: windowInputs, echoRoles, bands }, windows, onWindow);
+  } else {
+    const screen = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, bands });
+    for (const [row0, row1] of windows) onWindow(screen(row0, row1), row1 - row0);
+  }
+  return { ...stats, layers, bands, cellsTotal: n, workers };
 }

@@ -1,44 +1,102 @@
-/** `pile-atlas build`: screen a region and write the tile pyramid and manifest. */
-import { buildTiles } from '../build/build-tiles';
+/** `pile-atlas build`: screen a region and write the tile pyramid, GeoTIFFs and manifest. */
+import { readFile } from 'node:fs/promises';
+import { availableParallelism } from 'node:os';
+import { buildTiles, type BuildSummary } from '../build/build-tiles';
+import { InputError } from '../input-error';
 import { INPUTS_CONFIG_FILE } from '../inputs-config';
 import { createProgressBar } from '../progress-bar';
 import type { Command } from './command';
 import { numberOption, parseOptions, requireOption } from './parse-options';
 
+async function readScenario(file: string): Promise<unknown> {
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    throw new InputError(`${file}: ${code === 'ENOENT' ? 'file not found' : `cannot read (${code})`}`);
+  }
+  try {
+    return JSON.parse(text);
+  } catch (err) {
+    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
+  }
+}
+
+/** The run summary for stderr: cells, time, and the share of cells in each class of the class bands. */
+export function formatRunSummary(s: BuildSummary): string {
+  const lines = [
+    `screened ${s.cellsScreened} of ${s.cellsTotal} cells in ${s.seconds.toFixed(1)} s ` +
+      `(${s.workers} worker${s.workers === 1 ? '' : 's'}, ${s.cellsPerSecond} cells/s); ` +
+      `${s.tiles} tiles, zoom ${s.minZoom}-${s.maxZoom}; model: ${s.model}`,
+  ];
+  if (s.cellsMissingInput > 0) lines.push(`warning: ${s.cellsMissingInput} land cells lack a required input`);
+  if (s.cellsModelNodata > 0) lines.push(`warning: ${s.cellsModelNodata} cells outside the model's domain`);
+  for (const [band, shares] of Object.entries(s.classShares)) {
+    const parts = Object.entries(shares).map(([label, f]) => `${label} ${(f * 100).toFixed(1)}%`);
+    lines.push(`  ${band}: ${parts.join(', ')}`);
+  }
+  return lines.join('\n') + '\n';
+}
+
 export const buildCommand: Command = {
   name: 'build',
-  summary: 'screen every cell of a region and write tiles + manifest.json',
-  help: `pile-atlas build --in <dir> --out <dir> [--cell-size M] [--quiet]
+  summary: 'screen every cell of a region and write tiles, GeoTIFFs and manifest.json',
+  help: `pile-atlas build --in <dir> --out <dir> [--scenario <file>] [options]
 
-Reads <in>/${INPUTS_CONFIG_FILE} and the GeoTIFF grids it lists (any supported CRS, any resolution),
-checks them (file, georeferencing, CRS, nodata, units and plausible ranges), resamples them onto one
-analysis grid in EPSG:3413 (nearest for classes, bilinear for continuous values), screens every cell
-and writes <out>/tiles/{z}/{x}/{y}.bin, <out>/manifest.json and copies of the settlements and land
-GeoJSON. The output is replaced atomically: if anything fails, a previous <out> stays as it was.
+Reads <in>/${INPUTS_CONFIG_FILE} and the GeoTIFF grids it lists (EPSG:4326, polar stereographic
+3413/3995, Lambert azimuthal 3571-3576, conic 3338/3978, UTM; any resolution and extent), checks them
+(file, georeferencing, CRS, nodata, units and plausible ranges), resamples them onto one analysis grid
+in EPSG:3413 (nearest for classes, bilinear for continuous values), screens every cell in parallel and
+writes:
+  <out>/tiles/{z}/{x}/{y}.bin   Web Mercator tile pyramid (overviews: classes by mode, values by mean)
+  <out>/geotiff/<band>.tif      every band as a GeoTIFF in EPSG:3413 (nodata -9999)
+  <out>/manifest.json           bands, units, ranges, sources with sha256, scenario, run summary
+  <out>/settlements.geojson, <out>/land.geojson (copied when the config lists them)
+The output is replaced atomically: if anything fails, a previous <out> stays as it was.
 
 Options:
-  --in <dir>        inputs directory (holding ${INPUTS_CONFIG_FILE})
-  --out <dir>       output directory
-  --cell-size M     analysis cell size in metres (default 1000)
-  --quiet           no progress bar
-  --help            this text
+  --in <dir>          inputs directory (holding ${INPUTS_CONFIG_FILE})
+  --out <dir>         output directory
+  --scenario <file>   scenario JSON for the screening model (default: documented defaults)
+  --model <name>      screening (default) or basic (TTOP + Stefan only)
+  --cell-size M       analysis cell size in metres (default 1000)
+  --workers N         worker threads (default: cores, here ${availableParallelism()})
+  --no-geotiff        skip the per-band GeoTIFFs
+  --quiet             no progress bar
+  --help              this text
 
-Prints a JSON summary on stdout; progress and ETA on stderr.`,
+Prints a JSON summary on stdout; progress with ETA and the run summary on stderr.`,
   async run(argv) {
-    const opts = parseOptions('build', argv, { values: ['in', 'out', 'cell-size'], flags: ['quiet'] });
+    const opts = parseOptions('build', argv, {
+      values: ['in', 'out', 'cell-size', 'scenario', 'model', 'workers'],
+      flags: ['quiet', 'no-geotiff'],
+    });
     const inDir = requireOption('build', opts, 'in');
     const outDir = requireOption('build', opts, 'out');
     const cellSize_m = numberOption('build', opts, 'cell-size', 1000, 50, 50_000);
+    const workers = numberOption('build', opts, 'workers', Math.min(8, availableParallelism()), 1, 64, true);
+    const modelKind = opts.values.model ?? 'screening';
+    if (modelKind !== 'screening' && modelKind !== 'basic') {
+      throw new InputError(`build: --model must be screening or basic, got "${modelKind}"`);
+    }
+    if (modelKind === 'basic' && opts.values.scenario) {
+      throw new InputError('build: --scenario applies to --model screening only');
+    }
+    const scenarioFile = opts.values.scenario;
+    const scenario = scenarioFile ? await readScenario(scenarioFile) : undefined;
     const summary = await buildTiles({
       inDir,
       outDir,
       cellSize_m,
+      workers,
+      modelKind,
+      scenario,
+      scenarioFile,
+      geotiff: !opts.flags.has('no-geotiff'),
       onProgress: opts.flags.has('quiet') ? undefined : createProgressBar(),
     });
-    process.stderr.write(
-      `screened ${summary.cellsScreened} cells of ${summary.cellsTotal} in ${summary.seconds.toFixed(1)} s; ` +
-        `${summary.tiles} tiles (zoom ${summary.minZoom}-${summary.maxZoom})\n`,
-    );
+    if (!opts.flags.has('quiet')) process.stderr.write(formatRunSummary(summary));
     process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
     return 0;
   },

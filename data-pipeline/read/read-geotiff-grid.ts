@@ -157,7 +157,8 @@ export async function readGeoTiffGrid(path: string, options: ReadGridOptions): P
   const nodata = options.nodataOverride ?? image.getGDALNoData();
   // Float32 files store nodata rounded to single precision: compare against both forms.
   const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
-  const values = new Float32Array(width * height);
+  // Shared memory, so worker threads can resample from the grid without copies.
+  const values = new Float32Array(new SharedArrayBuffer(width * height * 4));
   for (let i = 0; i < values.length; i++) {
     const v = raster[i];
     values[i] = v === nodata || v === nodataSingle || !Number.isFinite(v) ? NaN : v;

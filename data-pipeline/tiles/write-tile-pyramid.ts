@@ -8,7 +8,7 @@
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
+import { encodeValue, packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
 import type { AnalysisGrid } from '../build/analysis-grid';
 import { createTransform } from '../crs/crs-definitions';
 
@@ -63,40 +63,78 @@ export function tileRange(bounds: [number, number, number, number], z: number) {
   };
 }
 
+/** Mode of up to four values (NaN ignored; ties to the smaller value). */
+function mode4(a: number, b: number, c: number, d: number): number {
+  let best = NaN;
+  let bestCount = 0;
+  const vals = [a, b, c, d];
+  for (let i = 0; i < 4; i++) {
+    const v = vals[i];
+    if (v !== v) continue;
+    let count = 0;
+    for (let j = 0; j < 4; j++) if (vals[j] === v) count++;
+    if (count > bestCount || (count === bestCount && v < best)) {
+      best = v;
+      bestCount = count;
+    }
+  }
+  return best;
+}
+
 function aggregateInto(parent: Float32Array, child: Float32Array, dx: number, dy: number, kind: string) {
   const half = TILE_SIZE / 2;
-  const counts = new Map<number, number>();
+  const isClass = kind === 'class';
   for (let py = 0; py < half; py++) {
+    const rowBase = (dy * half + py) * TILE_SIZE + dx * half;
     for (let px = 0; px < half; px++) {
       const c0 = 2 * py * TILE_SIZE + 2 * px;
-      const quad = [child[c0], child[c0 + 1], child[c0 + TILE_SIZE], child[c0 + TILE_SIZE + 1]];
-      let result = NaN;
-      if (kind === 'class') {
-        counts.clear();
-        let best = -1;
-        for (const v of quad) {
-          if (v !== v) continue;
-          const n = (counts.get(v) ?? 0) + 1;
-          counts.set(v, n);
-          if (n > best || (n === best && v < result)) {
-            best = n;
-            result = v;
-          }
-        }
+      const a = child[c0];
+      const b = child[c0 + 1];
+      const c = child[c0 + TILE_SIZE];
+      const d = child[c0 + TILE_SIZE + 1];
+      let result: number;
+      if (isClass) {
+        result = mode4(a, b, c, d);
       } else {
         let sum = 0;
         let n = 0;
-        for (const v of quad) {
-          if (v === v) {
-            sum += v;
-            n++;
-          }
+        if (a === a) {
+          sum += a;
+          n++;
         }
-        if (n > 0) result = sum / n;
+        if (b === b) {
+          sum += b;
+          n++;
+        }
+        if (c === c) {
+          sum += c;
+          n++;
+        }
+        if (d === d) {
+          sum += d;
+          n++;
+        }
+        result = n > 0 ? sum / n : NaN;
       }
-      parent[(dy * half + py) * TILE_SIZE + dx * half + px] = result;
+      parent[rowBase + px] = result;
     }
   }
+}
+
+const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/** packTile's byte layout (tile-format.ts), written through a Uint16Array view on little-endian hosts. */
+export function encodeTile(planes: Float32Array[], quant: BandQuantisation[]): Uint8Array {
+  if (!LITTLE_ENDIAN_HOST) return packTile(planes, quant);
+  const n = TILE_SIZE * TILE_SIZE;
+  const codes = new Uint16Array(planes.length * n);
+  for (let b = 0; b < planes.length; b++) {
+    const plane = planes[b];
+    const q = quant[b];
+    const base = b * n;
+    for (let i = 0; i < n; i++) codes[base + i] = encodeValue(plane[i], q);
+  }
+  return new Uint8Array(codes.buffer);
 }
 
 /** Write the pyramid; returns the number of tiles written per zoom. */
@@ -111,34 +149,57 @@ export async function writeTilePyramid(options: TilePyramidOptions): Promise<Rec
   let done = 0;
   const n = TILE_SIZE * TILE_SIZE;
 
+  const index = new Int32Array(n);
   const sampleFinest = (x: number, y: number): Float32Array[] | null => {
-    const planes = bands.map(() => new Float32Array(n).fill(NaN));
-    let any = false;
     const z = maxZoom;
+    let anyCell = false;
     for (let py = 0; py < TILE_SIZE; py++) {
       const lat = latOfTileY(y + (py + 0.5) / TILE_SIZE, z);
-      for (let px = 0; px < TILE_SIZE; px++) {
-        const lon = lonOfTileX(x + (px + 0.5) / TILE_SIZE, z);
-        const [gx, gy] = toGrid(lon, lat);
-        const col = Math.floor((gx - gt[0]) / gt[1]);
-        const row = Math.floor((gy - gt[3]) / gt[5]);
-        if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
-        const cell = row * grid.width + col;
-        const i = py * TILE_SIZE + px;
-        for (let b = 0; b < bands.length; b++) {
-          const v = bands[b].values[cell];
-          planes[b][i] = v;
-          if (v === v) any = true;
+      // Exact transforms every 8 pixels along the row, linear in between (error of metres at most).
+      let prevPx = -1;
+      let prevX = 0;
+      let prevY = 0;
+      for (
+        let px = 0;
+        px < TILE_SIZE;
+        px = px === TILE_SIZE - 1 ? TILE_SIZE : Math.min(px + 8, TILE_SIZE - 1)
+      ) {
+        const [gx, gy] = toGrid(lonOfTileX(x + (px + 0.5) / TILE_SIZE, z), lat);
+        for (let k = prevPx + 1; k <= px; k++) {
+          const t = prevPx < 0 ? 1 : (k - prevPx) / (px - prevPx);
+          const cx = prevX + t * (gx - prevX);
+          const cy = prevY + t * (gy - prevY);
+          const col = Math.floor((cx - gt[0]) / gt[1]);
+          const row = Math.floor((cy - gt[3]) / gt[5]);
+          const inside = col >= 0 && row >= 0 && col < grid.width && row < grid.height;
+          index[py * TILE_SIZE + k] = inside ? row * grid.width + col : -1;
+          if (inside) anyCell = true;
         }
+        prevPx = px;
+        prevX = gx;
+        prevY = gy;
       }
     }
+    if (!anyCell) return null;
+    let any = false;
+    const planes = bands.map((band) => {
+      const plane = new Float32Array(n);
+      const values = band.values;
+      for (let i = 0; i < n; i++) {
+        const cell = index[i];
+        const v = cell >= 0 ? values[cell] : NaN;
+        plane[i] = v;
+        if (v === v) any = true;
+      }
+      return plane;
+    });
     return any ? planes : null;
   };
 
   const emit = async (z: number, x: number, y: number, planes: Float32Array[]) => {
     const dir = join(tilesDir, String(z), String(x));
     await mkdir(dir, { recursive: true });
-    await writeFile(join(dir, `${y}.bin`), packTile(planes, quant));
+    await writeFile(join(dir, `${y}.bin`), encodeTile(planes, quant));
     written[z] = (written[z] ?? 0) + 1;
   };
 

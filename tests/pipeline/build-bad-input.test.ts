@@ -22,7 +22,7 @@ beforeAll(async () => {
   ]);
   expect(first.code, first.stderr).toBe(0);
   goodTree = await hashTree(outDir);
-});
+}, 180_000);
 
 /** A copy of the demo inputs that the test may break. */
 async function brokenCopy(): Promise<string> {

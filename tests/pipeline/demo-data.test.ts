@@ -15,7 +15,7 @@ let dirOtherSeed: string;
 
 beforeAll(async () => {
   [dirA, dirB, dirOtherSeed] = await Promise.all([smallDemo(7), smallDemo(7), smallDemo(8)]);
-});
+}, 180_000);
 
 async function hashes(dir: string): Promise<Record<string, string>> {
   const files = (await readdir(dir)).sort();

@@ -1,0 +1,123 @@
+/**
+ * Assembles manifest.json (layers/screening/manifest.ts) from a build's pieces: quantised bands with
+ * their ranges and provenance, sources with checksums, cautions, analysis grid, tile pyramid, model
+ * parameters, scenario and criteria, and the run summary.
+ */
+import { readFile } from 'node:fs/promises';
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
+import type { Band, Criterion, Manifest } from '../../layers/screening/manifest';
+import type { ScreeningLayer } from '../../layers/screening/screening-model';
+import { NODATA_CODE, quantisationFor, TILE_SIZE } from '../../layers/screening/tile-format';
+import type { InputsConfig } from '../inputs-config';
+import type { AnalysisGrid } from './analysis-grid';
+import type { LoadedInput } from './load-inputs';
+
+export async function toolVersion(): Promise<string> {
+  const text = await readFile(new URL('../../package.json', import.meta.url), 'utf8');
+  return (JSON.parse(text) as { version: string }).version;
+}
+
+function bandRange(values: Float32Array): [number, number] {
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  return min <= max ? [min, max] : [0, 0];
+}
+
+/** Manifest band for a layer: range of the values present, quantisation covering it. */
+export function bandFor(layer: ScreeningLayer, values: Float32Array): Band {
+  const [min, max] = bandRange(values);
+  const q = layer.kind === 'class' ? { scale: 1, offset: 0 } : quantisationFor(min, max);
+  return {
+    id: layer.id,
+    title: layer.title,
+    unit: layer.unit,
+    kind: layer.kind,
+    scale: q.scale,
+    offset: q.offset,
+    min,
+    max,
+    ...(layer.ramp ? { ramp: layer.ramp } : {}),
+    ...(layer.legendMin !== undefined ? { legendMin: layer.legendMin } : {}),
+    ...(layer.legendMax !== undefined ? { legendMax: layer.legendMax } : {}),
+    ...(layer.classes ? { classes: layer.classes } : {}),
+    description: layer.description,
+    source: layer.source,
+  };
+}
+
+/** Share of the screened cells in each class of a class band (label -> fraction). */
+export function classShares(values: Float32Array, classes: { value: number; label: string }[]) {
+  const counts = new Map<number, number>();
+  let total = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v !== v) continue;
+    counts.set(v, (counts.get(v) ?? 0) + 1);
+    total++;
+  }
+  const shares: Record<string, number> = {};
+  for (const c of classes) {
+    const n = counts.get(c.value) ?? 0;
+    if (n > 0) shares[c.label] = +(n / total).toFixed(4);
+  }
+  return shares;
+}
+
+export interface ManifestParts {
+  config: InputsConfig;
+  inputs: LoadedInput[];
+  grid: AnalysisGrid;
+  bands: Band[];
+  bounds: [number, number, number, number];
+  minZoom: number;
+  maxZoom: number;
+  parameters: Record<string, unknown>;
+  scenario?: Record<string, unknown>;
+  criteria?: Criterion[];
+  summary: Record<string, unknown>;
+  geotiffs?: Record<string, string>;
+}
+
+export async function assembleManifest(p: ManifestParts): Promise<Manifest> {
+  const fictional = p.config.region.fictional;
+  return {
+    formatVersion: 1,
+    tool: { name: 'pile-atlas', version: await toolVersion() },
+    createdAt: new Date().toISOString(),
+    fictional,
+    notice: [SCREENING_CAUTION, ...GROUND_CAUTIONS, ...(fictional ? [FICTIONAL_DATA_NOTICE] : [])].join(' '),
+    region: { name: p.config.region.name, bounds: p.bounds },
+    tiles: {
+      urlTemplate: 'tiles/{z}/{x}/{y}.bin',
+      tileSize: TILE_SIZE,
+      minZoom: p.minZoom,
+      maxZoom: p.maxZoom,
+      encoding: 'uint16-planar-le',
+      nodataCode: NODATA_CODE,
+    },
+    analysisGrid: p.grid,
+    bands: p.bands,
+    sources: p.inputs.map((i) => ({
+      file: i.entry.file,
+      role: i.entry.role,
+      crs: i.source.grid.crs,
+      width: i.source.grid.width,
+      height: i.source.grid.height,
+      unit: i.entry.unit,
+      sha256: i.source.sha256,
+      provenance: i.entry.provenance ?? p.config.provenance,
+      licence: i.entry.licence ?? p.config.licence,
+    })),
+    ...(p.config.settlements ? { settlements: 'settlements.geojson' } : {}),
+    ...(p.config.land ? { land: 'land.geojson' } : {}),
+    parameters: { ...p.parameters, ...(p.geotiffs ? { geotiffs: p.geotiffs } : {}) },
+    ...(p.scenario ? { scenario: p.scenario } : {}),
+    ...(p.criteria ? { criteria: p.criteria } : {}),
+    summary: p.summary,
+  };
+}

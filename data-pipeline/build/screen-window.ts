@@ -1,0 +1,143 @@
+/**
+ * Screens one window of analysis rows [row0, row1): resamples every input grid at the cell centres
+ * (nearest for classes, bilinear for continuous values), fills CellInputs and runs the model, writing
+ * into the output bands. Used identically by the main thread and the worker threads, so a build gives
+ * the same numbers whatever the worker count.
+ */
+import type { Grid } from '../../layers/grid';
+import type { CellInputs, ScreeningModel } from '../../layers/screening/screening-model';
+import { GRID_ROLES, type GridRoleId } from '../inputs-config';
+import type { AnalysisGrid } from './analysis-grid';
+import { cellCentresIn, resampleAt } from './resample-to-grid';
+
+/** Flag bits of the inputFlags band: which optional input was absent in the cell. */
+export const INPUT_FLAG_BITS = { groundTemp_C: 1, geothermalFlux_W_m2: 2, nFreeze: 4 } as const;
+
+export interface WindowInput {
+  role: GridRoleId;
+  kind: 'continuous' | 'class';
+  grid: Grid;
+}
+
+export interface WindowContext {
+  grid: AnalysisGrid;
+  inputs: WindowInput[];
+  model: ScreeningModel;
+  /** Roles echoed as bands right after the model's layers, in order. */
+  echoRoles: GridRoleId[];
+  /** Output bands: model layers, echo bands, then the flags band. */
+  bands: Float32Array[];
+}
+
+export interface WindowStats {
+  cellsScreened: number;
+  cellsMissingInput: number;
+  cellsModelNodata: number;
+  /** [west, south, east, north] of the screened cell centres, degrees. */
+  bounds: [number, number, number, number];
+}
+
+export function emptyStats(): WindowStats {
+  return {
+    cellsScreened: 0,
+    cellsMissingInput: 0,
+    cellsModelNodata: 0,
+    bounds: [Infinity, Infinity, -Infinity, -Infinity],
+  };
+}
+
+export function mergeStats(into: WindowStats, s: WindowStats): void {
+  into.cellsScreened += s.cellsScreened;
+  into.cellsMissingInput += s.cellsMissingInput;
+  into.cellsModelNodata += s.cellsModelNodata;
+  into.bounds[0] = Math.min(into.bounds[0], s.bounds[0]);
+  into.bounds[1] = Math.min(into.bounds[1], s.bounds[1]);
+  into.bounds[2] = Math.max(into.bounds[2], s.bounds[2]);
+  into.bounds[3] = Math.max(into.bounds[3], s.bounds[3]);
+}
+
+const ROLES = Object.keys(GRID_ROLES) as GridRoleId[];
+const REQUIRED = ROLES.filter((r) => GRID_ROLES[r].required);
+
+/** Create a screener for the context; call it for each window. */
+export function createWindowScreener(ctx: WindowContext): (row0: number, row1: number) => WindowStats {
+  const { grid, inputs, model, echoRoles, bands } = ctx;
+  const nModel = model.layers.length;
+  const out = new Float32Array(nModel);
+  const flagsBand = bands[bands.length - 1];
+  const cell: CellInputs = {
+    meanAirTemp_C: NaN,
+    airAmplitude_C: NaN,
+    warming_C_per_yr: NaN,
+    textureClass: NaN,
+    waterContent_m3m3: NaN,
+    bedrockDepth_m: NaN,
+    groundTemp_C: NaN,
+    geothermalFlux_W_m2: NaN,
+    nFreeze: NaN,
+    latitude_deg: NaN,
+  };
+  const cellRecord = cell as unknown as Record<string, number>;
+
+  return (row0, row1) => {
+    const stats = emptyStats();
+    const coordsByCrs = new Map<string, Float64Array>();
+    const coordsFor = (crs: string) => {
+      let c = coordsByCrs.get(crs);
+      if (!c) {
+        c = cellCentresIn(grid, row0, row1, crs);
+        coordsByCrs.set(crs, c);
+      }
+      return c;
+    };
+    const lonLat = coordsFor('EPSG:4326');
+    const count = (row1 - row0) * grid.width;
+    const empty = new Float32Array(count).fill(NaN);
+    const sampled = new Map<GridRoleId, Float32Array>();
+    for (const r of ROLES) sampled.set(r, empty);
+    for (const input of inputs) {
+      const method = input.kind === 'class' ? 'nearest' : 'bilinear';
+      sampled.set(input.role, resampleAt(input.grid, coordsFor(input.grid.crs), method));
+    }
+    const required = REQUIRED.map((r) => sampled.get(r) as Float32Array);
+    const all = ROLES.map((r) => sampled.get(r) as Float32Array);
+    const texture = sampled.get('textureClass') as Float32Array;
+    const echo = echoRoles.map((r) => sampled.get(r) as Float32Array);
+    const bounds = stats.bounds;
+
+    for (let k = 0; k < count; k++) {
+      let missing = 0;
+      for (const values of required) if (values[k] !== values[k]) missing++;
+      if (missing > 0) {
+        // Land (texture known) lacking another required input: a gap between the grids.
+        if (texture[k] === texture[k]) stats.cellsMissingInput++;
+        continue;
+      }
+      let flags = 0;
+      for (let r = 0; r < ROLES.length; r++) {
+        const v = all[r][k];
+        cellRecord[ROLES[r]] = v;
+        if (v !== v) flags |= INPUT_FLAG_BITS[ROLES[r] as keyof typeof INPUT_FLAG_BITS] ?? 0;
+      }
+      const lon = lonLat[2 * k];
+      const lat = lonLat[2 * k + 1];
+      cell.latitude_deg = lat;
+      model.evaluate(cell, out);
+      const index = row0 * grid.width + k;
+      let anyFinite = false;
+      for (let b = 0; b < nModel; b++) {
+        bands[b][index] = out[b];
+        if (out[b] === out[b]) anyFinite = true;
+      }
+      if (!anyFinite) stats.cellsModelNodata++;
+      for (let j = 0; j < echo.length; j++) bands[nModel + j][index] = echo[j][k];
+      flagsBand[index] = flags;
+      stats.cellsScreened++;
+      if (lon < bounds[0]) bounds[0] = lon;
+      if (lat < bounds[1]) bounds[1] = lat;
+      if (lon > bounds[2]) bounds[2] = lon;
+      if (lat > bounds[3]) bounds[3] = lat;
+    }
+    return stats;
+  };
+}

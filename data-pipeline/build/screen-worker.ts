@@ -1,0 +1,30 @@
+/**
+ * Worker thread of the build: builds its own model from the ModelSpec, then screens the row windows
+ * the main thread posts, writing straight into the shared output bands (SharedArrayBuffer) and
+ * answering with the window's statistics.
+ */
+import { parentPort, workerData } from 'node:worker_threads';
+import type { GridRoleId } from '../inputs-config';
+import type { AnalysisGrid } from './analysis-grid';
+import { createModelFromSpec, type ModelSpec } from './model-spec';
+import { createWindowScreener, type WindowInput } from './screen-window';
+
+export interface ScreenWorkerData {
+  spec: ModelSpec;
+  grid: AnalysisGrid;
+  inputs: WindowInput[];
+  echoRoles: GridRoleId[];
+  bands: Float32Array[];
+}
+
+const data = workerData as ScreenWorkerData;
+const screen = createWindowScreener({ ...data, model: createModelFromSpec(data.spec) });
+
+parentPort?.on('message', (msg: { row0: number; row1: number }) => {
+  try {
+    const stats = screen(msg.row0, msg.row1);
+    parentPort?.postMessage({ row0: msg.row0, row1: msg.row1, stats });
+  } catch (err) {
+    parentPort?.postMessage({ error: (err as Error).stack ?? String(err) });
+  }
+});
