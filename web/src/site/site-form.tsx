@@ -274,7 +274,11 @@ export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: 
                 Remove
               </button>
             </div>
-            <SchemaField ctx={ctx} schema={b.element as z.ZodType} path={[...path, i]} name={String(i)} />
+            {el.base instanceof z.ZodObject ? (
+              <ObjectFields ctx={ctx} schema={el.base} path={[...path, i]} />
+            ) : (
+              <SchemaField ctx={ctx} schema={b.element as z.ZodType} path={[...path, i]} name={String(i)} />
+            )}
           </div>
         ))}
         <button

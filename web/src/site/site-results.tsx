@@ -61,6 +61,10 @@ export function useSiteDerived(run: SiteRunOutcome, scenario: Scenario) {
             Rb_mK_W: result.fluid.Rb_mK_W,
             spacing_m: scenario.pile.spacing_m,
             designLife_yr: input.years,
+            flowPerKilowatt_m3_s: Math.min(
+              1e-3,
+              Math.max(1e-6, ((result.fluid.flow_L_min / 60000) * piles) / (peakLoad_W / 1000)),
+            ),
           })
         : null;
     const savings = siteSavings(years, piles, scenario);
@@ -169,7 +173,7 @@ export function SiteSummaryTable(props: {
           }
         />
         <Row
-          label="Heat from the ground per pile (mean)"
+          label="Heat from the ground per pile, annual mean (quick: sustainable)"
           quick={m ? q(m.extractionPerPile.value, 'W', units) : '—'}
           sim={q(simExtraction, 'W', units)}
         />

@@ -139,6 +139,8 @@ export interface SizingInputs {
   Rb_mK_W: number;
   spacing_m: number;
   designLife_yr: number;
+  /** Loop flow per kW of peak load, m³/s per kW (the site's flow per pile × piles / peak kW). */
+  flowPerKilowatt_m3_s?: number;
 }
 
 /** Piles of the entered length needed for the peak load (three pulses), or the reason it failed. */
@@ -181,6 +183,7 @@ export function sizeSitePiles(
         massFraction: pile.fluid.name === 'water' ? 0 : pile.fluid.massFraction,
       },
       designLife_yr: s.designLife_yr,
+      flowPerKilowatt_m3_s: s.flowPerKilowatt_m3_s,
     });
     return { ok: true, sizing };
   } catch (e) {

@@ -3,7 +3,7 @@
  * and a legend. Children receive the scales. Sized by a viewBox so it scales with its container and
  * prints crisply.
  */
-import type { ReactNode } from 'react';
+import { useId, type ReactNode } from 'react';
 import { linearScale, niceTicks, type LinearScale } from './chart-scale';
 
 export interface LegendEntry {
@@ -49,6 +49,7 @@ export function ChartFrame(props: ChartFrameProps) {
   const xl = props.xTickLabel ?? fmt;
   const yl = props.yTickLabel ?? fmt;
   const titleId = `${props.testId ?? props.title}-title`.replace(/\W+/g, '-');
+  const clipId = `clip${useId().replace(/\W+/g, '')}`;
   return (
     <figure className="site-chart" data-testid={props.testId}>
       <figcaption id={titleId}>{props.title}</figcaption>
@@ -67,7 +68,17 @@ export function ChartFrame(props: ChartFrameProps) {
             <line key={`gx${v}`} x1={x(v)} x2={x(v)} y1={m.top} y2={height - m.bottom} />
           ))}
         </g>
-        <g className="plot">{props.children(x, y)}</g>
+        <clipPath id={clipId}>
+          <rect
+            x={m.left}
+            y={m.top - 2}
+            width={width - m.left - m.right}
+            height={height - m.top - m.bottom + 4}
+          />
+        </clipPath>
+        <g className="plot" clipPath={`url(#${clipId})`}>
+          {props.children(x, y)}
+        </g>
         <g className="axis">
           <line x1={m.left} x2={m.left} y1={m.top} y2={height - m.bottom} />
           <line x1={m.left} x2={width - m.right} y1={height - m.bottom} y2={height - m.bottom} />

@@ -27,8 +27,10 @@ export function DepthProfileChart(props: {
   const T = (v: number) => v * conv.factor + conv.offset;
   const Z = (v: number) => v * len.factor;
   const all = props.series.flatMap((s) => [...s.noPile, ...(s.withPile ?? [])]);
+  // The seasonal band near the surface swings by tens of kelvin: scale to the means and to the band
+  // below 1 m so the annual-mean curves stay readable (the band is clipped at the frame).
   const xDomain = niceDomain(
-    all.flatMap((p) => [T(p.min_C), T(p.max_C)]),
+    all.flatMap((p) => (p.z_m >= 1 ? [T(p.min_C), T(p.max_C)] : [T(p.mean_C)])),
     6,
     [T(props.freezingPoint_C)],
   );

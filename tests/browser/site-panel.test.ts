@@ -1,0 +1,143 @@
+/**
+ * End-to-end checks of the site panel in a real Chromium against the real demo pipeline output: a site
+ * run to completion with its charts, an invalid input showing its message without running, cancel,
+ * add to shortlist from the site study, and the print stylesheet of the site sheet.
+ * Screenshots (1280x720) go to the artifacts directory (browser-session.ts).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Page } from 'playwright-core';
+import { startSession, type BrowserSession } from './browser-session';
+
+let s: BrowserSession;
+let site: [number, number];
+
+beforeAll(async () => {
+  s = await startSession();
+  const settlements = JSON.parse(
+    readFileSync(join(s.dataDir, s.manifest.settlements ?? 'settlements.geojson'), 'utf8'),
+  ) as { features: { geometry: { coordinates: [number, number] } }[] };
+  site = settlements.features[0].geometry.coordinates;
+});
+
+afterAll(async () => {
+  await s?.close();
+});
+
+/** Open the app on the first settlement, click it and open the site study. */
+async function openSiteStudy(page: Page): Promise<void> {
+  await page.goto(`${s.url}?c=${site[0]},${site[1]}&z=${Math.min(9, s.manifest.tiles.maxZoom + 1)}`);
+  await page.waitForSelector('.maplibregl-canvas');
+  await page.waitForSelector('[data-testid=region-count-cells]', { timeout: 60_000 });
+  await page.waitForTimeout(300);
+  const box = await page.locator('[data-testid=map]').boundingBox();
+  if (!box) throw new Error('map not visible');
+  await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
+  await page.waitForSelector('[data-testid=site-card]', { timeout: 30_000 });
+  await page.click('[data-testid=open-site-study]');
+  await page.waitForSelector('[data-testid=site-study]');
+}
+
+async function setField(page: Page, id: string, value: string): Promise<void> {
+  const input = page.locator(`#${id}`);
+  await input.fill(value);
+}
+
+describe('site panel', () => {
+  it('runs a site to completion with charts present', async () => {
+    await openSiteStudy(s.page);
+    // Prefilled from the tiles: the climate field holds the cell's mean air temperature.
+    const maat = Number(await s.page.inputValue('#site-climate-meanAirTemp_C'));
+    expect(maat).toBeGreaterThan(-40);
+    expect(maat).toBeLessThan(10);
+    // A 12-year run keeps the test short; the panel's default is the design life.
+    await setField(s.page, 'site-years', '12');
+    await s.page.click('[data-testid=run-site]');
+    await s.page.waitForSelector('[data-testid=site-progress]', { timeout: 10_000 });
+    // The page stays responsive while the worker runs: the form still takes input.
+    const t0 = Date.now();
+    await s.page.evaluate(() => new Promise((r) => requestAnimationFrame(() => r(null))));
+    expect(Date.now() - t0).toBeLessThan(1000);
+    await s.page.waitForSelector('[data-testid=site-outcome]', { timeout: 180_000 });
+    for (const id of [
+      'chart-probe',
+      'chart-window',
+      'chart-profile',
+      'chart-fluid',
+      'chart-monthly-heat',
+      'chart-pulses',
+    ]) {
+      const chart = s.page.locator(`[data-testid=${id}]`);
+      await expect.poll(() => chart.count(), { timeout: 5000 }).toBe(1);
+      const drawn = await chart.locator('svg path, svg rect').count();
+      expect(drawn, `${id} draws something`).toBeGreaterThan(0);
+    }
+    // The probe chart's curves are real paths with many points.
+    const d = await s.page.locator('[data-testid=chart-probe] svg .plot path').first().getAttribute('d');
+    expect((d ?? '').split('L').length).toBeGreaterThan(50);
+    const summary = await s.page.locator('[data-testid=site-summary]').textContent();
+    expect(summary).toContain('Quick estimate');
+    expect(summary).toContain('Simulated');
+    expect(await s.page.locator('[data-testid=summary-piles] td').nth(1).textContent()).toMatch(/\d/);
+    expect(await s.page.locator('[data-testid=site-cautions]').textContent()).toContain('not a design');
+    expect(await s.page.locator('[data-testid=run-status]').textContent()).toMatch(/Done in/);
+    await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-run.png') });
+    await s.page.locator('.site-output').evaluate((el) => el.scrollTo(0, 520));
+    await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-charts.png') });
+    expect(s.pageErrors).toEqual([]);
+  });
+
+  it('prints a site sheet with inputs, results, charts and cautions, and no form', async () => {
+    await s.page.emulateMedia({ media: 'print' });
+    expect(await s.page.locator('.site-form').isVisible()).toBe(false);
+    expect(await s.page.locator('.site-sheet-inputs').isVisible()).toBe(true);
+    expect(await s.page.locator('[data-testid=chart-probe]').isVisible()).toBe(true);
+    expect(await s.page.locator('[data-testid=site-cautions]').isVisible()).toBe(true);
+    expect(await s.page.locator('[data-testid=map]').isVisible()).toBe(false);
+    const inputs = await s.page.locator('.site-sheet-inputs').textContent();
+    expect(inputs).toContain('Mean annual air temperature');
+    await s.page.emulateMedia({ media: 'screen' });
+  });
+
+  it('adds the studied site to the shortlist with its simulated results', async () => {
+    await s.page.click('[data-testid=site-add-shortlist]');
+    const stored = await s.page.evaluate(() => localStorage.getItem('pile-atlas.shortlist.v1'));
+    const items = JSON.parse(stored ?? '[]') as { origin: string; metrics: Record<string, unknown> }[];
+    const fromSite = items.filter((i) => i.origin === 'site');
+    expect(fromSite.length).toBeGreaterThan(0);
+    expect(typeof fromSite[fromSite.length - 1].metrics.simulatedYears_yr).toBe('number');
+  });
+
+  it('shows an invalid input message next to the field and does not run', async () => {
+    await openSiteStudy(s.page);
+    await setField(s.page, 'site-years', '0');
+    const err = s.page.locator('#site-years-err');
+    await expect.poll(() => err.textContent()).toMatch(/≥ 1/);
+    await setField(s.page, 'site-pile-length_m', '80');
+    await expect.poll(() => s.page.locator('#site-pile-length_m-err').textContent()).toMatch(/domain depth/);
+    await s.page.click('[data-testid=run-site]');
+    expect(await s.page.locator('[data-testid=run-status]').textContent()).toMatch(
+      /Not run: 2 inputs need attention/,
+    );
+    await s.page.waitForTimeout(500);
+    expect(await s.page.locator('[data-testid=site-progress]').count()).toBe(0);
+    expect(await s.page.locator('[data-testid=site-outcome]').count()).toBe(0);
+    // Focus moves to the first invalid field.
+    expect(await s.page.evaluate(() => document.activeElement?.id)).toBe('site-years');
+    await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-invalid.png') });
+  });
+
+  it('cancels a running simulation', async () => {
+    await setField(s.page, 'site-years', '60');
+    await setField(s.page, 'site-pile-length_m', '10');
+    await s.page.click('[data-testid=run-site]');
+    await s.page.waitForSelector('[data-testid=cancel-site]', { timeout: 10_000 });
+    await s.page.click('[data-testid=cancel-site]');
+    await expect.poll(() => s.page.locator('[data-testid=run-status]').textContent()).toMatch(/cancelled/);
+    expect(await s.page.locator('[data-testid=site-progress]').count()).toBe(0);
+    // Escape closes the study; the map is back.
+    await s.page.keyboard.press('Escape');
+    expect(await s.page.locator('[data-testid=site-study]').count()).toBe(0);
+  });
+});
