@@ -6,6 +6,7 @@
  * distribution against the documented bounds and re-runs a seeded subset live.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
+import { format, resolveConfig } from 'prettier';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import {
@@ -65,5 +66,7 @@ const out = {
 };
 const file = join(here, '..', 'tests', 'fixtures', 'calibration.json');
 mkdirSync(dirname(file), { recursive: true });
-writeFileSync(file, JSON.stringify(out, null, 1) + '\n');
+// Written in the repository's Prettier style so `npm run check` accepts it as generated.
+const style = (await resolveConfig(file)) ?? {};
+writeFileSync(file, await format(JSON.stringify(out), { ...style, parser: 'json' }));
 console.log(JSON.stringify(out.summary, null, 2));
