@@ -68,5 +68,5 @@ const file = join(here, '..', 'tests', 'fixtures', 'calibration.json');
 mkdirSync(dirname(file), { recursive: true });
 // Written in the repository's Prettier style so `npm run check` accepts it as generated.
 const style = (await resolveConfig(file)) ?? {};
-writeFileSync(file, await format(JSON.stringify(out), { ...style, parser: 'json' }));
+writeFileSync(file, await format(JSON.stringify(out, null, 1), { ...style, parser: 'json' }));
 console.log(JSON.stringify(out.summary, null, 2));
