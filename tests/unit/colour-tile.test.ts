@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { classColours, colourTile, FADED_RGB, OKABE_ITO } from '../../web/src/map/colour-tile';
+import {
+  classColours,
+  colourTile,
+  FADED_RGB,
+  NONE_CLASS_RGB,
+  OKABE_ITO,
+} from '../../web/src/map/colour-tile';
 import { compileFilter, EMPTY_FILTER } from '../../web/src/filters/cell-filter';
 import { rampColour } from '../../layers/screening/colour-ramps';
 import { testManifest } from './web-test-manifest';
@@ -30,16 +36,29 @@ describe('tile colouring', () => {
     expect(rgba[7]).toBeLessThan(rgba[3]);
   });
 
-  it('gives each class its own colour', () => {
+  it('gives each class its own colour, none/excluded in neutral grey', () => {
+    // The test band's classes: 0 excluded, 1 poor, 2 fair, 3 good.
     const unrampedClasses = { ...bands[2], ramp: undefined };
-    expect([...classColours(unrampedClasses).values()]).toEqual(OKABE_ITO.slice(0, 4));
+    const colours = classColours(unrampedClasses);
+    expect(colours.get(0)).toEqual(NONE_CLASS_RGB);
+    expect([1, 2, 3].map((v) => colours.get(v))).toEqual(OKABE_ITO.slice(0, 3));
     const planes = [plane([0]), plane([0]), plane([2])];
-    const rgba = colourTile(planes, {
-      band: unrampedClasses,
-      bandIndex: 2,
-      opacity: 1,
-      filter: compileFilter(EMPTY_FILTER, bands),
+    const filter = compileFilter(EMPTY_FILTER, bands);
+    const rgba = colourTile(planes, { band: unrampedClasses, bandIndex: 2, opacity: 1, filter });
+    expect(Array.from(rgba.slice(0, 3))).toEqual(OKABE_ITO[1]);
+    // With a ramp the ordinal classes run along it, ends included.
+    const ramped = classColours({ ...bands[2], ramp: 'viridis' });
+    expect(ramped.get(1)).toEqual(rampColour('viridis', 0, 0, 1));
+    expect(ramped.get(3)).toEqual(rampColour('viridis', 1, 0, 1));
+    // A nominal band without a "none" class uses the palette from its first class.
+    const nominal = classColours({
+      ...bands[2],
+      ramp: undefined,
+      classes: [
+        { value: 0, label: 'gravel' },
+        { value: 1, label: 'sand' },
+      ],
     });
-    expect(Array.from(rgba.slice(0, 3))).toEqual(OKABE_ITO[2]);
+    expect(nominal.get(0)).toEqual(OKABE_ITO[0]);
   });
 });

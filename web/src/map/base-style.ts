@@ -1,7 +1,7 @@
 /**
  * The offline base map: a MapLibre style with no remote sources, tiles, sprites or glyphs. Sea is the
- * background, land is a fill of the build's own coastline polygons (land.geojson), settlements are
- * circles (their names are drawn by a deck.gl TextLayer with the browser's local fonts).
+ * background, land is a fill of the build's own coastline polygons (land.geojson). Settlements (dots
+ * and names, the latter with the browser's local fonts) are deck.gl layers above the screening tiles.
  */
 import type { StyleSpecification } from 'maplibre-gl';
 import type { FeatureCollection } from 'geojson';
@@ -29,16 +29,3 @@ export function baseStyle(
     ],
   };
 }
-
-/** Layers drawn above the screening tiles (added after the deck overlay so they stay on top). */
-export const SETTLEMENT_CIRCLES = {
-  id: 'settlements',
-  type: 'circle' as const,
-  source: 'settlements',
-  paint: {
-    'circle-radius': 4,
-    'circle-color': '#ffffff',
-    'circle-stroke-color': '#1d2a33',
-    'circle-stroke-width': 1.5,
-  },
-};

@@ -29,13 +29,23 @@ export function legendRange(band: Band): [number, number] {
   return [band.legendMin ?? band.min, band.legendMax ?? band.max];
 }
 
-/** Colour of each class of a class band, in the band's class order. */
+/** Neutral grey for a "none / excluded" class, so that it reads as absence rather than a category. */
+export const NONE_CLASS_RGB: Rgb = [120, 120, 120];
+const NONE_LABEL = /^(excluded|none|no|not? .*|unsuitable)\b/i;
+
+/**
+ * Colour of each class of a class band, in the band's class order. A class with value 0 whose label
+ * says none/excluded/no is drawn neutral grey; the others take the band's ramp (ordinal classes) or
+ * the Okabe-Ito palette (nominal classes).
+ */
 export function classColours(band: Band): Map<number, Rgb> {
   const classes = band.classes ?? [];
   const m = new Map<number, Rgb>();
-  classes.forEach((c, i) => {
+  const rest = classes.filter((c) => !(c.value === 0 && NONE_LABEL.test(c.label)));
+  if (rest.length < classes.length) m.set(0, NONE_CLASS_RGB);
+  rest.forEach((c, i) => {
     const colour = band.ramp
-      ? rampColour(band.ramp, i, 0, Math.max(1, classes.length - 1))
+      ? rampColour(band.ramp, i, 0, Math.max(1, rest.length - 1))
       : OKABE_ITO[i % OKABE_ITO.length];
     m.set(c.value, colour);
   });

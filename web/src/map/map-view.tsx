@@ -15,7 +15,7 @@ import type { Feature, Point } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import { colourTile, type TileStyle } from './colour-tile';
-import { baseStyle, SETTLEMENT_CIRCLES } from './base-style';
+import { baseStyle } from './base-style';
 
 maplibregl.setWorkerUrl(workerUrl);
 
@@ -78,9 +78,6 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     map.addControl(overlay);
     mapRef.current = map;
     overlayRef.current = overlay;
-    map.on('load', () => {
-      map.addLayer(SETTLEMENT_CIRCLES);
-    });
     map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
     map.on('mouseout', () => latest.current.onHover(null));
     map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
@@ -145,6 +142,18 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       (f): f is Feature<Point> => f.geometry?.type === 'Point',
     );
     layers.push(
+      new ScatterplotLayer<Feature<Point>>({
+        id: 'settlement-dots',
+        data: settlements,
+        getPosition: (f) => f.geometry.coordinates as [number, number],
+        getRadius: 4,
+        radiusUnits: 'pixels',
+        getFillColor: [255, 255, 255, 255],
+        getLineColor: [20, 32, 40, 255],
+        stroked: true,
+        lineWidthUnits: 'pixels',
+        getLineWidth: 1.5,
+      }),
       new TextLayer<Feature<Point>>({
         id: 'settlement-names',
         data: settlements,

@@ -76,7 +76,10 @@ export function exportProperties(
   }
   for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;
   p.cautions = EXPORT_CAUTIONS;
-  if (manifest.fictional) p.fictionalData = `${FICTIONAL_DATA_NOTICE} ${manifest.notice}`;
+  if (manifest.fictional) {
+    const extra = manifest.notice.includes(FICTIONAL_DATA_NOTICE) ? '' : ` ${manifest.notice}`;
+    p.fictionalData = `${FICTIONAL_DATA_NOTICE}${extra}`;
+  }
   p.scenario = manifest.scenario ?? null;
   p.provenance = provenanceText(manifest);
   return p;
