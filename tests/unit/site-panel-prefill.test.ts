@@ -1,0 +1,118 @@
+/**
+ * Site panel prefill: the mapping from a clicked cell's tile bands to the site input (documented in
+ * web/src/site/site-prefill.ts), and back to the quick estimate's cell inputs.
+ */
+import { describe, expect, it } from 'vitest';
+import { siteInputSchema } from '../../layers/site/site-input-schema';
+import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
+import { screenCell } from '../../layers/screening/cell-screening-model';
+import {
+  cellInputsFromSite,
+  maxWaterContent_m3m3,
+  sitePrefill,
+  standardDesignLoad_W,
+} from '../../web/src/site/site-prefill';
+
+const cell = { meanAirTemp_C: -6.2, textureClass: 3, waterContent_m3m3: 0.38, bedrockDepth_m: 22.4 };
+
+describe('sitePrefill', () => {
+  it('maps climate, soil and bedrock from the tile bands into a valid site input', () => {
+    const { draft, notes } = sitePrefill(cell);
+    expect(draft.climate.meanAirTemp_C).toBe(-6.2);
+    expect(draft.ground.layers).toHaveLength(2);
+    expect(draft.ground.layers[0]).toMatchObject({
+      top_m: 0,
+      bottom_m: 22.4,
+      soil: { texture: 'silt', waterContent_m3m3: 0.38 },
+    });
+    expect(draft.ground.layers[1]).toMatchObject({ top_m: 22.4, bottom_m: 50, soil: { texture: 'bedrock' } });
+    const parsed = siteInputSchema.safeParse(draft);
+    expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);
+    // Amplitude and warming are not tile bands in this build: the regional defaults apply, with a note.
+    expect(notes.map((n) => n.path)).toEqual(['climate.amplitude_C', 'climate.warming_C_per_yr']);
+  });
+
+  it('takes amplitude and warming from the tiles when they are there (no notes)', () => {
+    const { draft, notes } = sitePrefill({ ...cell, airAmplitude_C: 21.5, warming_C_per_yr: 0.06 });
+    expect(draft.climate.amplitude_C).toBe(21.5);
+    expect(draft.climate.warming_C_per_yr).toBe(0.06);
+    expect(notes).toEqual([]);
+  });
+
+  it('caps water content at 95 % of the texture porosity so the soil catalogue accepts it', () => {
+    // Gravel at its catalogue dry density 1900 kg/m³ and solids 2650 kg/m³: porosity 0.283 (de Vries 1963 volume fractions).
+    const cap = maxWaterContent_m3m3('gravel');
+    expect(cap).toBeCloseTo(0.95 * (1 - 1900 / 2650), 10);
+    const { draft, notes } = sitePrefill({ ...cell, textureClass: 1, waterContent_m3m3: 0.6 });
+    expect(draft.ground.layers[0].soil?.waterContent_m3m3).toBeCloseTo(cap, 3);
+    expect(notes.some((n) => n.path === 'ground.layers.0.soil.waterContent_m3m3')).toBe(true);
+    expect(siteInputSchema.safeParse(draft).success).toBe(true);
+  });
+
+  it('makes the whole column bedrock for a bedrock cell or bedrock at the surface', () => {
+    for (const values of [
+      { ...cell, textureClass: 6 },
+      { ...cell, bedrockDepth_m: 0.1 },
+    ]) {
+      const { draft } = sitePrefill(values);
+      expect(draft.ground.layers).toHaveLength(1);
+      expect(draft.ground.layers[0]).toMatchObject({ top_m: 0, bottom_m: 50, soil: { texture: 'bedrock' } });
+    }
+  });
+
+  it('sizes the standard building load as UA·(balance − (MAAT − amplitude − margin))', () => {
+    // Scenario defaults (layers/screening/scenario.ts): UA 150 W/K, balance 18 °C, margin 8 K (recalled from memory).
+    expect(standardDesignLoad_W(DEFAULT_SCENARIO, -6.2, 18)).toBeCloseTo(150 * (18 - (-6.2 - 18 - 8)), 9);
+    const { draft } = sitePrefill(cell);
+    expect(draft.operation).toMatchObject({
+      mode: 'building',
+      designLoad_W: 7500,
+      pileCount: 16,
+      balancePoint_C: 18,
+    });
+  });
+
+  it('puts the scenario reference point first among the probes (same point as the map thaw delay)', () => {
+    const { draft } = sitePrefill(cell);
+    expect(draft.probes[0]).toEqual({
+      r_m: DEFAULT_SCENARIO.referenceRadius_m,
+      z_m: DEFAULT_SCENARIO.referenceDepth_m,
+    });
+  });
+
+  it('turns the form back into the quick estimate inputs (same texture, water, bedrock, climate)', () => {
+    const { draft } = sitePrefill(cell);
+    const ci = cellInputsFromSite(draft, DEFAULT_SCENARIO);
+    expect(ci).toMatchObject({
+      meanAirTemp_C: -6.2,
+      textureClass: 3,
+      waterContent_m3m3: 0.38,
+      bedrockDepth_m: 22.4,
+    });
+    const quick = screenCell(ci, DEFAULT_SCENARIO);
+    expect(quick.metrics.groundTemp.value).not.toBeNull();
+  });
+
+  it('has no quick estimate for explicit layer properties', () => {
+    const { draft } = sitePrefill(cell);
+    const explicit = {
+      ...draft,
+      ground: {
+        ...draft.ground,
+        layers: [
+          {
+            top_m: 0,
+            bottom_m: 50,
+            kFrozen_W_mK: 2,
+            kThawed_W_mK: 1.5,
+            cFrozen_J_m3K: 2e6,
+            cThawed_J_m3K: 2.5e6,
+            latent_J_m3: 1e8,
+            freezingPoint_C: 0,
+          },
+        ],
+      },
+    };
+    expect(cellInputsFromSite(explicit, DEFAULT_SCENARIO)).toBeNull();
+  });
+});
