@@ -112,28 +112,31 @@ export const suitabilitySchema = z.strictObject({
   /**
    * Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised. The
    * scoring ranges are judgement (common practice) set to span the demo region's values: piles per ton
-   * 10 (good) to 40 (poor) with the default pile; frozen margin 30 yr to 0 yr; load share 0.8 to 0.1;
+   * 20 (good) to 80 (poor) with the default pile; frozen margin 30 yr to 0 yr; load share 0.5 to 0.05;
    * fuel saved 300 L/yr to 0 per standard building; permafrost at pile depth −4 °C to −1 °C.
    */
   coldness: z
     .strictObject({ good_C: z.number().default(-4), poor_C: z.number().default(-1), weight: weight(2) })
     .default({ good_C: -4, poor_C: -1, weight: 2 }),
   pilesPerTon: z
-    .strictObject({ good: z.number().default(10), poor: z.number().default(40), weight: weight(2) })
-    .default({ good: 10, poor: 40, weight: 2 }),
+    .strictObject({ good: z.number().default(20), poor: z.number().default(80), weight: weight(2) })
+    .default({ good: 20, poor: 80, weight: 2 }),
   frozenMargin: z
     .strictObject({ good_yr: z.number().default(30), poor_yr: z.number().default(0), weight: weight(2) })
     .default({ good_yr: 30, poor_yr: 0, weight: 2 }),
   loadShare: z
-    .strictObject({ good: z.number().default(0.8), poor: z.number().default(0.1), weight: weight(1) })
-    .default({ good: 0.8, poor: 0.1, weight: 1 }),
+    .strictObject({ good: z.number().default(0.5), poor: z.number().default(0.05), weight: weight(1) })
+    .default({ good: 0.5, poor: 0.05, weight: 1 }),
   thawStability: z.strictObject({ weight: weight(1) }).default({ weight: 1 }),
   fuelSaved: z
     .strictObject({ good_L: z.number().default(300), poor_L: z.number().default(0), weight: weight(1) })
     .default({ good_L: 300, poor_L: 0, weight: 1 }),
-  /** Suitability score bounds: score >= good → class 'good', >= fair → 'fair', else 'poor'. */
+  /**
+   * Suitability score bounds: score >= good → class 'good', >= fair → 'fair', else 'poor'. Judgement:
+   * about the upper and lower quartiles of the scores over the demo region's input ranges.
+   */
   goodScore: z.number().min(0).max(1).default(0.65),
-  fairScore: z.number().min(0).max(1).default(0.4),
+  fairScore: z.number().min(0).max(1).default(0.5),
 });
 
 export const scenarioSchema = z
