@@ -70,7 +70,8 @@ export interface ConductionSetup {
   maxSweeps?: number;
   /** Linear solves with re-linearised capacity per step (1 = Pham's single pass; default 2). */
   phaseIterations?: number;
-  phaseTolerance_K?: number;
+  /** Relative change of a cell's apparent capacity below which no further pass is made. */
+  phaseTolerance?: number;
 }
 
 export interface EnergyLedger {
@@ -95,6 +96,8 @@ export interface ConductionSolver {
   sweeps: number;
   /** Total band rows re-factored so far (n per full factorisation; for benchmarks). */
   refactoredRows: number;
+  /** Iterative-refinement corrections so far (for benchmarks). */
+  refinements: number;
   /** Steps whose pile-coupling iteration stopped at maxSweeps before reaching the tolerance. */
   unconverged: number;
   step(dt_s: number): void;
@@ -110,7 +113,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const tol = s.tolerance_K ?? 1e-4;
   const maxSweeps = s.maxSweeps ?? 200;
   const phaseIterations = s.phaseIterations ?? 2;
-  const phaseTolerance_K = s.phaseTolerance_K ?? 1e-3;
+  const phaseTolerance = s.phaseTolerance ?? 1e-3;
   const mat = Int32Array.from(s.rowMaterial);
   if (mat.length !== nz) throw new RangeError(`rowMaterial must have ${nz} entries; received ${mat.length}`);
 
@@ -156,9 +159,16 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const rPrev = new Float64Array(Math.max(1, np));
   const fPrev = new Float64Array(Math.max(1, np));
   const A = createBandMatrix(n, nr);
-  const lastDiag = new Float64Array(n);
-  const lastLeft = new Float64Array(n);
-  const lastDown = new Float64Array(n);
+  const curDiag = new Float64Array(n);
+  const curLeft = new Float64Array(n);
+  const curDown = new Float64Array(n);
+  const factDiag = new Float64Array(n);
+  const factLeft = new Float64Array(n);
+  const factDown = new Float64Array(n);
+  const xb = new Float64Array(n);
+  const xr = new Float64Array(n);
+  const refactorTolerance = 1e-4;
+  const solveTolerance_K = 1e-7;
   let factored = false;
   const x = new Float64Array(n);
   const halfCell = new Float64Array(Math.max(1, np));
@@ -199,14 +209,13 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   }
 
   /**
-   * Assembles the band matrix (with the pile conductances of the moment) and factors it. Band rows are
-   * numbered from the bottom row of the mesh upwards (b = (nz − 1 − j)·nr + i), so that the rows that
-   * change most often (the active layer near the surface) come last: only band rows from the first
-   * changed one on are re-factored.
+   * Assembles the current band matrix (with the pile conductances of the moment) and re-factors it
+   * from the first band row whose entries moved by more than `refactorTolerance` (relative) from those
+   * the factor holds. Band rows are numbered from the bottom row of the mesh upwards
+   * (b = (nz − 1 − j)·nr + i) so that the rows that change most (the active layer) come last and
+   * re-factoring them is cheap. Smaller changes are absorbed by iterative refinement in `solveOnce`.
    */
   function factor(): void {
-    const a = A.band;
-    const w = nr + 1;
     let from = factored ? n : 0;
     for (let j = 0; j < nz; j++) {
       for (let i = 0; i < nr; i++) {
@@ -214,40 +223,85 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         const b = (nz - 1 - j) * nr + i;
         let diag = aP[c];
         if (i === 0 && j < np) diag += inner!.g_W_K[j];
-        const left = i > 0 ? -Gr[j * (nr - 1) + i - 1] : 0;
-        const down = j < nz - 1 ? -Gz[c] : 0;
-        if (b < from && (diag !== lastDiag[b] || left !== lastLeft[b] || down !== lastDown[b])) from = b;
-        lastDiag[b] = diag;
-        lastLeft[b] = left;
-        lastDown[b] = down;
+        curDiag[b] = diag;
+        curLeft[b] = i > 0 ? -Gr[j * (nr - 1) + i - 1] : 0;
+        curDown[b] = j < nz - 1 ? -Gz[c] : 0;
+        if (
+          b < from &&
+          (Math.abs(diag - factDiag[b]) > refactorTolerance * diag ||
+            Math.abs(curLeft[b] - factLeft[b]) > refactorTolerance * diag ||
+            Math.abs(curDown[b] - factDown[b]) > refactorTolerance * diag)
+        ) {
+          from = b;
+        }
       }
     }
     for (let j = 0; j < np; j++) gUsed[j] = inner!.g_W_K[j];
-    if (from >= n) return;
+    if (from < n) refactorFrom(from);
+  }
+
+  function refactorFrom(from: number): void {
+    const a = A.band;
+    const w = nr + 1;
     for (let b = from; b < n; b++) {
       const r0 = b * w - b + nr; // a[r0 + col] = A(b, col)
       for (let q = 0; q <= nr; q++) a[b * w + q] = 0;
-      a[r0 + b] = lastDiag[b];
-      if (b % nr > 0) a[r0 + b - 1] = lastLeft[b];
-      if (b >= nr) a[r0 + b - nr] = lastDown[b];
+      factDiag[b] = curDiag[b];
+      factLeft[b] = curLeft[b];
+      factDown[b] = curDown[b];
+      a[r0 + b] = curDiag[b];
+      if (b % nr > 0) a[r0 + b - 1] = curLeft[b];
+      if (b >= nr) a[r0 + b - nr] = curDown[b];
     }
     choleskyFactor(A, from);
     factored = true;
     solver.refactoredRows += n - from;
   }
 
+  /** Largest residual of the current band system at x (right-hand side xb), as a temperature. */
+  function refine(): number {
+    // res = rhsB − A_cur x, into xr; returns max |res_b| / diag_b.
+    let worst = 0;
+    for (let b = 0; b < n; b++) {
+      let r = xb[b] - curDiag[b] * x[b];
+      if (b % nr > 0) r -= curLeft[b] * x[b - 1];
+      if (b % nr < nr - 1) r -= curLeft[b + 1] * x[b + 1];
+      if (b >= nr) r -= curDown[b] * x[b - nr];
+      if (b + nr < n) r -= curDown[b + nr] * x[b + nr];
+      xr[b] = r;
+      const e = Math.abs(r) / curDiag[b];
+      if (e > worst) worst = e;
+    }
+    return worst;
+  }
+
   function solveOnce(): void {
     for (let j = 0; j < nz; j++) {
       const c = j * nr;
       const b = (nz - 1 - j) * nr;
-      for (let i = 0; i < nr; i++) x[b + i] = rhs[c + i];
+      for (let i = 0; i < nr; i++) xb[b + i] = rhs[c + i];
     }
     for (let j = 0; j < np; j++) {
       TbcUsed[j] = inner!.T_C[j];
       qUsed[j] = inner!.q_W[j];
-      x[(nz - 1 - j) * nr] += gUsed[j] * TbcUsed[j] + qUsed[j];
+      xb[(nz - 1 - j) * nr] += gUsed[j] * TbcUsed[j] + qUsed[j];
     }
+    x.set(xb);
     choleskySolve(A, x);
+    // Iterative refinement against the current matrix (the factor may be slightly stale).
+    for (let it = 0; ; it++) {
+      if (refine() < solveTolerance_K) break;
+      if (it >= 4) {
+        // Not converging: re-factor everything that differs at all and solve directly.
+        refactorFrom(0);
+        x.set(xb);
+        choleskySolve(A, x);
+        break;
+      }
+      choleskySolve(A, xr);
+      solver.refinements++;
+      for (let b = 0; b < n; b++) x[b] += xr[b];
+    }
     for (let j = 0; j < nz; j++) {
       const c = j * nr;
       const b = (nz - 1 - j) * nr;
@@ -315,6 +369,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     ledger,
     sweeps: 0,
     refactoredRows: 0,
+    refinements: 0,
     unconverged: 0,
     storedEnergy_J() {
       // Recomputed from the temperatures (an independent path from the incremental H updates).
@@ -356,14 +411,21 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         assemble(dt_s, Tsurf);
         if (outer === 0) updateInner();
         converged = solveLinear();
-        // Re-linearise: the secant capacity of each cell between T^n and the new T*.
+        // Re-linearise only if some cell's secant capacity between T^n and the new T* differs from the
+        // one used (a cell crossing into or out of its freezing interval); otherwise T* is final.
         let change = 0;
-        for (let c = 0; c < n; c++) {
-          const d = Math.abs(T[c] - Tguess[c]);
-          if (d > change) change = d;
-          Tguess[c] = T[c];
+        for (let j = 0; j < nz; j++) {
+          const mj = mat[j];
+          for (let i = 0; i < nr; i++) {
+            const c = j * nr + i;
+            const C = apparentCapacity(materials, mj, Told[c], T[c]);
+            const used = (cap[c] * dt_s) / V[c];
+            const d = Math.abs(C - used) / used;
+            if (d > change) change = d;
+            Tguess[c] = T[c];
+          }
         }
-        if (change < phaseTolerance_K) break;
+        if (change < phaseTolerance) break;
       }
       if (!converged) solver.unconverged++;
       // Boundary heat flows at T*, W (into the ground).

@@ -77,7 +77,7 @@ export function simulateSite(
   const rowMat = rowMaterials(meshes.pile, ground.bottoms_m);
   const init = initialState(input, ground, meshes.column, rowMat);
   const surface = surfaceForcing(input, true);
-  const tol = input.numerics.tolerance_K ?? 1e-3;
+  const tol = input.numerics.tolerance_K ?? 1e-2;
   const q = input.ground.geothermalFlux_W_m2;
   const warnings: string[] = [];
   const year = SECONDS_PER_YEAR;

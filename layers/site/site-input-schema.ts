@@ -260,7 +260,13 @@ export const siteInputSchema = z
         }),
         firstRadialStep_m: num({ title: 'First radial cell', unit: 'm', min: 0.001, max: 5 }).optional(),
         pileStep_m: num({ title: 'Vertical cell along the pile', unit: 'm', min: 0.01, max: 10 }).optional(),
-        tolerance_K: num({ title: 'Linear solver tolerance', unit: 'K', min: 1e-9, max: 1e-2 }).optional(),
+        tolerance_K: num({
+          title: 'Pile-loop coupling tolerance (fluid boundary temperature)',
+          unit: 'K',
+          min: 1e-9,
+          max: 0.1,
+          description: 'default 0.01 K',
+        }).optional(),
       })
       .strict()
       .default({ fidelity: 'standard' }),

@@ -66,7 +66,7 @@ describe('site solver against Neumann solutions', () => {
   it('two-phase thaw front (NEU-9) within 1 %', () => {
     const r = thawFront({ dz: 0.02, dt_days: 0.25, initial_C: -2, interval_K: 0.1 });
     expect(Math.abs(r.front_m / 1.17094 - 1)).toBeLessThan(0.01);
-    expect(r.relativeEnergyError).toBeLessThan(1e-9);
+    expect(r.relativeEnergyError).toBeLessThan(1e-6);
   });
 
   it('one-phase thaw front (NEU-10, ground at its solidus) within 1 %', () => {

@@ -1,0 +1,74 @@
+/**
+ * `npm run bench site`: times the standard 40-year site pair (examples/site-demo.json: the demo's
+ * default pile and site, simulated without and with the pile) and prints cell-updates per second next
+ * to a memory-streaming baseline measured in the same run (a[i] = a[i]·s + b[i] over 2 × 32 MB).
+ * A cell-update is one cell advanced by one time step (all linear solves of that step included).
+ * Wall time and process CPU time are both printed: on a shared machine the CPU time is the fairer one.
+ */
+import { readFileSync } from 'node:fs';
+import { loadavg } from 'node:os';
+import { siteInputSchema } from '../layers/site/site-input-schema';
+import { simulateSite } from '../layers/site/simulate-site';
+
+function streamingBaseline(): number {
+  const n = 4 * 1024 * 1024; // 32 MB per array
+  const a = new Float64Array(n).fill(1);
+  const b = new Float64Array(n).fill(0.5);
+  let best = Infinity;
+  for (let rep = 0; rep < 5; rep++) {
+    const t0 = performance.now();
+    for (let i = 0; i < n; i++) a[i] = a[i] * 0.999 + b[i];
+    best = Math.min(best, performance.now() - t0);
+  }
+  if (!(a[0] > 0)) throw new Error('baseline failed');
+  return n / (best / 1000); // element updates per second
+}
+
+function timed<T>(f: () => T): { value: T; wall_ms: number; cpu_ms: number } {
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  const value = f();
+  const wall_ms = performance.now() - t0;
+  const c = process.cpuUsage(c0);
+  return { value, wall_ms, cpu_ms: (c.user + c.system) / 1000 };
+}
+
+export async function run(): Promise<void> {
+  const raw = JSON.parse(readFileSync(new URL('../examples/site-demo.json', import.meta.url), 'utf8'));
+  const input = siteInputSchema.parse(raw);
+  console.log(
+    `load average ${loadavg()
+      .map((x) => x.toFixed(1))
+      .join(' ')} (other work on this machine slows it)`,
+  );
+  const baseline = streamingBaseline();
+  const runs: { wall_ms: number; cpu_ms: number }[] = [];
+  let cellUpdates = 0;
+  for (let i = 0; i < 4; i++) {
+    const r = timed(() => simulateSite(input));
+    runs.push(r);
+    const m = r.value.mesh;
+    cellUpdates = m.timeSteps * (m.nr * m.nz + m.nz);
+    if (i === 0) {
+      console.log(
+        `standard pair: ${input.years} years, ${m.timeSteps} steps of ${input.timeStep_days} d, ` +
+          `mesh ${m.nr} x ${m.nz} (+ one ${m.nz}-cell column without the pile), ` +
+          `energy balance error ${r.value.energyBalance.relativeError.toExponential(1)}`,
+      );
+    }
+  }
+  const cold = runs[0];
+  const warm = runs.slice(1).sort((x, y) => x.cpu_ms - y.cpu_ms)[0];
+  const fmt = (x: number) => x.toExponential(2);
+  console.log(
+    `cold (first call, includes JIT warm-up): wall ${cold.wall_ms.toFixed(0)} ms, cpu ${cold.cpu_ms.toFixed(0)} ms`,
+  );
+  console.log(
+    `warm (best of 3):                        wall ${warm.wall_ms.toFixed(0)} ms, cpu ${warm.cpu_ms.toFixed(0)} ms`,
+  );
+  console.log(`cell-updates per second (warm, cpu):     ${fmt(cellUpdates / (warm.cpu_ms / 1000))}`);
+  console.log(`memory-streaming baseline (elements/s):  ${fmt(baseline)}`);
+  console.log(
+    `ratio baseline / simulator:              ${(baseline / (cellUpdates / (warm.cpu_ms / 1000))).toFixed(0)}`,
+  );
+}
