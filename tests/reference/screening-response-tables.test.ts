@@ -1,0 +1,89 @@
+import { describe, it, expect } from 'vitest';
+import fc from 'fast-check';
+import {
+  buildResponseTables,
+  flsResponse,
+  rampShape,
+  rampTimeToRise_yr,
+  rampWarming_K,
+} from '../../layers/screening/response-tables';
+import { lookup } from '../../layers/screening/log-table';
+import { finiteLineSourceG } from '../../layers/physics/finite-line-source';
+import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
+
+const T = buildResponseTables(DEFAULT_SCENARIO);
+// Linear surface rise b = 0.05 K/yr, α = 1e-6 m²/s = 31.5576 m²/yr (365.25-day year), reference-values §7.
+const B = 0.05;
+const ALPHA_YR = 31.5576;
+
+describe('tabulated linear-ramp response (Carslaw & Jaeger 1959 §2.5, T − Ti = 4bt·i²erfc(x/2√αt))', () => {
+  // Values computed from C&J §2.5 with mpmath (reference-values.md §7, table LR-1 and LR-2), tol 2e-4 K
+  // (the printed precision).
+  const cases: [number, number, number][] = [
+    [5, 10, 0.36],
+    [10, 10, 0.2533],
+    [20, 10, 0.1166],
+    [5, 30, 1.2442],
+    [10, 30, 1.0243],
+    [20, 30, 0.6784],
+    [50, 30, 0.1613],
+  ];
+  for (const [x, t, expected] of cases) {
+    it(`x = ${x} m, t = ${t} yr: ${expected} K`, () => {
+      expect(Math.abs(rampWarming_K(T, x, t, B, ALPHA_YR) - expected)).toBeLessThan(2e-4);
+    });
+  }
+  it('at the surface the rise is b·t exactly', () => {
+    expect(rampWarming_K(T, 0, 40, B, ALPHA_YR)).toBeCloseTo(2, 12);
+  });
+  it('the inverse table returns the time of a given rise (round trip within 0.1 %, property)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.5, max: 40, noNaN: true }),
+        fc.double({ min: 1, max: 500, noNaN: true }),
+        fc.double({ min: 3, max: 60, noNaN: true }),
+        (z, t, a) => {
+          const rise = rampWarming_K(T, z, t, B, a);
+          if (rise < 1e-6) return;
+          expect(Math.abs(rampTimeToRise_yr(T, z, rise, B, a) / t - 1)).toBeLessThan(1e-3);
+        },
+      ),
+      { seed: 31, numRuns: 300 },
+    );
+  });
+  it('the forward table matches the exact shape τ·i²erfc(1/2√τ) within 0.4 %', () => {
+    for (let e = -1.5; e <= 6.5; e += 0.173) {
+      const tau = 10 ** e;
+      expect(Math.abs(lookup(T.rampForward, tau) / rampShape(tau) - 1)).toBeLessThan(4e-3);
+    }
+  });
+});
+
+describe('tabulated finite line source (layers/physics/finite-line-source.ts, Eskilson 1987; Zeng et al. 2002)', () => {
+  const s = DEFAULT_SCENARIO;
+  const geometry = { length_m: s.pile.length_m, buriedDepth_m: s.pile.topDepth_m, diffusivity_m2_s: 1e-6 };
+  const year = 365 * 86400;
+  it('mean over the pile at its radius: within 0.1 % of the direct quadrature from 1 day to 300 years', () => {
+    for (const t of [86400, 30 * 86400, year, 10 * year, 30 * year, 300 * year]) {
+      const g = finiteLineSourceG({ ...geometry, radius_m: s.pile.radius_m, time_s: t, point: 'mean' });
+      expect(Math.abs(flsResponse(T.pileMean, 1e-6, t) / g - 1)).toBeLessThan(1e-3);
+    }
+  });
+  it('mid-depth at the reference radius: within 1e-3 of its 30-year value from 1 month to 300 years', () => {
+    const g30 = finiteLineSourceG({
+      ...geometry,
+      radius_m: s.referenceRadius_m,
+      time_s: 30 * year,
+      point: 'midDepth',
+    });
+    for (const t of [30 * 86400, year, 5 * year, 30 * year, 100 * year, 300 * year]) {
+      const g = finiteLineSourceG({
+        ...geometry,
+        radius_m: s.referenceRadius_m,
+        time_s: t,
+        point: 'midDepth',
+      });
+      expect(Math.abs(flsResponse(T.referencePoint, 1e-6, t) - g) / g30).toBeLessThan(1e-3);
+    }
+  });
+});
