@@ -5,7 +5,7 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { createPortal } from 'react-dom';
-import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { siteInputSchema, type SiteInputDraft } from '../../../layers/site/site-input-schema';
 import { screenCell, type CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
@@ -254,6 +254,11 @@ export function SiteStudy(props: {
             ))}
           </form>
           <section className="site-output" aria-label="Site results">
+            <p className="print-only small" data-testid="sheet-header">
+              Pile Atlas site sheet · {place.name} · {place.lat.toFixed(4)}° N, {place.lon.toFixed(4)}° E ·
+              printed {new Date().toISOString().slice(0, 10)}
+              {manifest.fictional ? ` · ${FICTIONAL_DATA_NOTICE}` : ''}
+            </p>
             <div className="notice caution" role="note" data-testid="site-cautions">
               <strong>{SCREENING_CAUTION}</strong>
               <ul>
@@ -291,16 +296,22 @@ export function SiteStudy(props: {
               <h3>Inputs</h3>
               <table className="values">
                 <tbody>
-                  {flattenInputs(siteInputSchema, run.kind === 'done' ? run.outcome.input : draft).map(
-                    (l, i) => (
-                      <tr key={i}>
-                        <th scope="row">{l.label}</th>
-                        <td>
-                          {l.value} {l.unit}
-                        </td>
-                      </tr>
-                    ),
-                  )}
+                  {flattenInputs(
+                    siteInputSchema,
+                    run.kind === 'done'
+                      ? {
+                          ...run.outcome.input,
+                          probes: run.outcome.input.probes.slice(0, run.outcome.column.firstProbe),
+                        }
+                      : draft,
+                  ).map((l, i) => (
+                    <tr key={i}>
+                      <th scope="row">{l.label}</th>
+                      <td>
+                        {l.value} {l.unit}
+                      </td>
+                    </tr>
+                  ))}
                 </tbody>
               </table>
             </section>
