@@ -100,10 +100,11 @@ describe('calibration, live subset', () => {
   for (const c of [...thawing, ...others]) {
     it(`cell ${c.index}: the simulator reproduces the fixture and the errors stay within the P95 bounds`, () => {
       const r = calibrateCell(cells[c.index], DEFAULT_SCENARIO, fixture.options);
-      expect(r.sim.fluidDrop_K).toBeCloseTo(c.sim.fluidDrop_K as number, 3);
+      // Within 2 % / 0.5 yr: the simulator's numerics may be refined; a larger shift needs a re-run.
+      expect(Math.abs((r.sim.fluidDrop_K as number) / (c.sim.fluidDrop_K as number) - 1)).toBeLessThan(0.02);
       expect(Math.abs(r.pileCountError as number)).toBeLessThanOrEqual(BOUNDS.pileCount.p95);
       if (c.thawDelayError_yr !== null) {
-        expect(r.sim.thawDelay_yr).toBeCloseTo(c.sim.thawDelay_yr as number, 2);
+        expect(Math.abs((r.sim.thawDelay_yr as number) - (c.sim.thawDelay_yr as number))).toBeLessThan(0.5);
         expect(Math.abs(r.thawDelayError_yr as number)).toBeLessThanOrEqual(BOUNDS.thawDelay_yr.p95);
       }
     });
