@@ -8,9 +8,16 @@ import { cellCommand } from './commands/cell';
 import type { Command } from './commands/command';
 import { demoDataCommand } from './commands/demo-data';
 import { siteCommand } from './commands/site';
+import { shortlistCommand } from './commands/shortlist';
 import { InputError } from './input-error';
 
-export const COMMANDS: Command[] = [demoDataCommand, buildCommand, cellCommand, siteCommand];
+export const COMMANDS: Command[] = [
+  demoDataCommand,
+  buildCommand,
+  cellCommand,
+  siteCommand,
+  shortlistCommand,
+];
 
 export const EXIT_OK = 0;
 export const EXIT_INTERNAL = 1;

@@ -153,7 +153,11 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const { grid, inputs, model, spec, windowRows = 32, onProgress } = options;
   const present = new Set(inputs.map((i) => i.entry.role));
   const modelIds = new Set(model.layers.map((l) => l.id));
-  const echoLayers = ECHO_LAYERS.filter((l) => present.has(l.id as GridRoleId) && !modelIds.has(l.id));
+  // Echo an input only when the model has no layer of that name (with or without its unit suffix).
+  const echoLayers = ECHO_LAYERS.filter(
+    (l) =>
+      present.has(l.id as GridRoleId) && !modelIds.has(l.id) && !modelIds.has(l.id.replace(/_[^_]*$/, '')),
+  );
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
   const bands = layers.map(() => new Float32Array(new SharedArrayBuffer(n * 4)).fill(NaN));

@@ -130,7 +130,7 @@ describe('build on a small demo region', () => {
     for (const id of ['suitability', 'exclusion', 'permafrostClassToday'])
       expect(decoded[id], id).toBe(want(id));
     expect(decoded.textureClass).toBe(cell.textureClass);
-    expect(Math.abs(decoded.bedrockDepth_m - cell.bedrockDepth_m)).toBeLessThan(1e-3);
+    expect(Math.abs(decoded.bedrockDepth - cell.bedrockDepth_m)).toBeLessThan(1e-3);
     expect(decoded.inputFlags).toBe(7);
   });
 

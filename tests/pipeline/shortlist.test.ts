@@ -1,0 +1,153 @@
+import { readFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { buildTiles } from '../../data-pipeline/build/build-tiles';
+import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
+import { compileWhere, type ExpressionBand } from '../../data-pipeline/shortlist/where-expression';
+import { SCREENING_CAUTION } from '../../layers/cautions';
+import { makeTempDir, runCli, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+
+const BANDS: ExpressionBand[] = [
+  { id: 'thawDelay', unit: 'yr', kind: 'continuous' },
+  { id: 'pilesPerTon', unit: 'piles/ton', kind: 'continuous' },
+  { id: 'groundTemp', unit: '°C', kind: 'continuous' },
+  {
+    id: 'exclusion',
+    unit: '',
+    kind: 'class',
+    classes: [
+      { value: 0, label: 'not excluded' },
+      { value: 1, label: 'bedrock too shallow' },
+    ],
+  },
+  {
+    id: 'suitability',
+    unit: '',
+    kind: 'class',
+    classes: [
+      { value: 1, label: 'poor' },
+      { value: 2, label: 'fair' },
+      { value: 3, label: 'good' },
+    ],
+  },
+];
+
+describe('shortlist --where expressions', () => {
+  const test = (expr: string, values: number[]) => compileWhere(expr, BANDS).test(values);
+
+  it('evaluates comparisons, unit suffixes, not/and/or precedence and parentheses', () => {
+    const cell = [12, 2.5, -3.2, 0, 2];
+    expect(test('thawDelay_yr >= 10 and pilesPerTon <= 3 and not excluded', cell)).toBe(true);
+    expect(test('thawDelay_yr >= 10 and pilesPerTon <= 3 and not excluded', [12, 2.5, -3.2, 1, 2])).toBe(
+      false,
+    );
+    expect(test('groundTemp_C < -3', cell)).toBe(true);
+    expect(test('groundTemp<-3.5', cell)).toBe(false);
+    // and binds tighter than or: false or (true and true)
+    expect(test('thawDelay > 20 or pilesPerTon < 3 and suitability = fair', cell)).toBe(true);
+    expect(test('(thawDelay > 20 or pilesPerTon < 3) and suitability = good', cell)).toBe(false);
+    expect(test('not not suitability == "fair"', cell)).toBe(true);
+    expect(test('exclusion = not_excluded and suitability != poor', cell)).toBe(true);
+  });
+
+  it('treats nodata as failing every comparison', () => {
+    expect(test('thawDelay >= 0', [NaN, 1, 1, 0, 1])).toBe(false);
+    expect(test('not thawDelay >= 0', [NaN, 1, 1, 0, 1])).toBe(true);
+  });
+
+  it('reports the offending token and position', () => {
+    const message = (expr: string) => {
+      try {
+        compileWhere(expr, BANDS);
+      } catch (err) {
+        return (err as Error).message;
+      }
+      return 'no error';
+    };
+    expect(message('thawDelay_days > 3')).toMatch(
+      /"thawDelay_days" at position 1: band thawDelay is in "yr"/,
+    );
+    expect(message('suitability = great')).toMatch(/"great" at position 15 is not a class of suitability/);
+    expect(message('foo > 3')).toMatch(/unknown band "foo" at position 1/);
+    expect(message('thawDelay > 3 and')).toMatch(/unexpected end of expression/);
+    expect(message('thawDelay > 3 pilesPerTon < 2')).toMatch(/unexpected token "pilesPerTon" at position 15/);
+    expect(message('(thawDelay > 3')).toMatch(/expected "\)"/);
+    expect(message('thawDelay > 3 ; drop')).toMatch(/unexpected character ";" at position 15/);
+    expect(message('')).toMatch(/empty expression/);
+  });
+});
+
+describe('pile-atlas shortlist on a built demo', () => {
+  let tilesDir: string;
+
+  beforeAll(async () => {
+    const inDir = await smallDemo();
+    tilesDir = join(await makeTempDir('shortlist'), 'tiles');
+    await buildTiles({ inDir, outDir: tilesDir, cellSize_m: SMALL_DEMO.cellSize_m });
+  }, 180_000);
+
+  it('writes RFC 7946 GeoJSON of exactly the matching cells, with units in property names', async () => {
+    const where = 'groundTemp_C < -2 and not excluded';
+    const { code, stdout } = await runCli(['shortlist', '--tiles', tilesDir, '--where', where]);
+    expect(code).toBe(0);
+    const fc = JSON.parse(stdout);
+    expect(fc.type).toBe('FeatureCollection');
+    expect(fc.crs).toBeUndefined();
+    expect(fc.notice).toContain(SCREENING_CAUTION);
+    expect(fc.fictional).toBe(true);
+    expect(fc.where).toBe(where);
+    expect(fc.sources.length).toBe(6);
+
+    const temp = await readGeoTiffGrid(join(tilesDir, 'geotiff/groundTemp.tif'), { label: 'groundTemp' });
+    const excl = await readGeoTiffGrid(join(tilesDir, 'geotiff/exclusion.tif'), { label: 'exclusion' });
+    let expected = 0;
+    for (let i = 0; i < temp.grid.values.length; i++) {
+      if (temp.grid.values[i] < -2 && excl.grid.values[i] === 0) expected++;
+    }
+    expect(expected).toBeGreaterThan(0);
+    expect(fc.matched).toBe(expected);
+    expect(fc.features).toHaveLength(expected);
+    for (const f of fc.features) {
+      expect(f.properties.groundTemp_C).toBeLessThan(-2);
+      expect(f.properties.exclusion).toBe(0);
+      expect(f.properties.exclusion_label).toBeTypeOf('string');
+      const ring = f.geometry.coordinates[0];
+      expect(f.geometry.type).toBe('Polygon');
+      expect(ring).toHaveLength(5);
+      expect(ring[4]).toEqual(ring[0]);
+      for (const [lon, lat] of ring) {
+        expect(lon).toBeGreaterThan(-11);
+        expect(lon).toBeLessThan(5);
+        expect(lat).toBeGreaterThan(73.4);
+        expect(lat).toBeLessThan(76.6);
+      }
+    }
+  });
+
+  it('filters settlements, writes to --out, and rejects a bad expression with a one-line error', async () => {
+    const out = join(await makeTempDir('shortlist-out'), 'towns.geojson');
+    const ok = await runCli([
+      'shortlist',
+      '--tiles',
+      tilesDir,
+      '--where',
+      'groundTemp < 0',
+      '--settlements',
+      '--out',
+      out,
+    ]);
+    expect(ok.code).toBe(0);
+    const fc = JSON.parse(await readFile(out, 'utf8'));
+    expect(fc.subject).toBe('settlements');
+    expect(fc.features.length).toBeGreaterThan(0);
+    for (const f of fc.features) {
+      expect(f.geometry.type).toBe('Point');
+      expect(f.properties.name).toBeTypeOf('string');
+      expect(f.properties.groundTemp_C).toBeLessThan(0);
+    }
+    const bad = await runCli(['shortlist', '--tiles', tilesDir, '--where', 'groundTemp < cold']);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr.trim().split('\n')).toHaveLength(1);
+    expect(bad.stderr).toMatch(/"cold" at position 14 is not a number/);
+  });
+});
