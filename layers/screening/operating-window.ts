@@ -20,6 +20,9 @@
  * foundation piles carry is min(1, upper / q'_full). Binding limit: 'thaw' when the carried extraction
  * is below q'_min (the window is empty or the load too small to hold the ground frozen), else
  * 'over-cooling' or 'fluid' when the share is capped by that bound, else 'none' (the load fits).
+ * This is the equation of sizePileField (layers/site/pile-sizing.ts, after Bernier et al. 2008) for one
+ * pile with a continuous pile count, evaluated in closed form per cell (that function sizes an integer
+ * pile group with interaction and is meant for one site at a time).
  * Validity: single pile (no group interference, as in the site simulator), frozen ground around the
  * pile (no latent heat), uniform heat rate along the pile, surface held at its mean temperature.
  */
