@@ -16,6 +16,7 @@ import { formatUrlState, parseUrlState, type ViewState } from './state/url-state
 import type { UnitSystem } from './units/display-units';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
+import { defaultSiteName } from './shortlist/site-name';
 import { LayerPanel } from './panels/layer-panel';
 import { LegendPanel } from './panels/legend-panel';
 import { FilterPanel } from './panels/filter-panel';
@@ -236,6 +237,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
     shortlistStore.add({
       lon: selection.lon,
       lat: selection.lat,
+      name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, shortlist.length + 1),
       origin: 'map',
       values: cellValues(table, manifest.bands, selection.index),
     });
@@ -317,6 +319,20 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           flyTarget={flyTarget}
           onViewportLoad={onViewportLoad}
         />
+        <button
+          type="button"
+          className="inspect-centre"
+          onClick={() => {
+            const [lon, lat] = view.current.center;
+            if (drawing) setVertices((v) => [...v, [lon, lat]]);
+            else setSelection({ lon, lat, index: cellAt(lon, lat) });
+          }}
+          title="For keyboard use: pan with the arrow keys, then press this button"
+          data-testid="inspect-centre"
+        >
+          {drawing ? 'Add corner at map centre' : 'Inspect map centre'}
+        </button>
+        <span className="centre-mark" aria-hidden="true" />
         <HoverReadout
           hover={hover}
           table={table}

@@ -21,8 +21,8 @@ export const OKABE_ITO: Rgb[] = [
   [0, 0, 0],
 ];
 
-export const FADED_RGB: Rgb = [200, 200, 196];
-export const FADED_ALPHA = 0.3;
+export const FADED_RGB: Rgb = [150, 156, 162];
+export const FADED_ALPHA = 0.35;
 
 /** Legend range of a band (legendMin/legendMax when set, else the build's min/max). */
 export function legendRange(band: Band): [number, number] {

@@ -1,4 +1,8 @@
-/** The value under the cursor, in the corner of the map. */
+/**
+ * The values under the cursor, in the corner of the map: the shown layer first, then a few headline
+ * bands of the same cell (suitability, ground temperature, piles per ton, thaw delay) when the build
+ * has them. Everything else is one click away in the cell panel.
+ */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import type { CellTable } from '../data/cell-table';
 import { formatLonLat, type UnitSystem } from '../units/display-units';
@@ -10,6 +14,8 @@ export interface HoverState {
   index: number;
 }
 
+const HEADLINE_BANDS = ['suitability', 'groundTemp', 'pilesPerTon', 'thawDelay'];
+
 export function HoverReadout(props: {
   hover: HoverState | null;
   table: CellTable | null;
@@ -18,7 +24,7 @@ export function HoverReadout(props: {
   bandIndex: number;
   units: UnitSystem;
 }) {
-  const { hover, table, band, bandIndex, units } = props;
+  const { hover, table, band, bandIndex, units, manifest } = props;
   if (!hover) return null;
   let text: string;
   if (!table) text = 'loading cells…';
@@ -33,6 +39,20 @@ export function HoverReadout(props: {
       <div>
         {band.title}: <strong data-testid="hover-value">{text}</strong>
       </div>
+      {table && hover.index >= 0
+        ? manifest.bands.map((b, i) =>
+            HEADLINE_BANDS.includes(b.id) && i !== bandIndex ? (
+              <div key={b.id} className="small">
+                {b.title}:{' '}
+                {bandValueText(
+                  b,
+                  Number.isFinite(table.planes[i][hover.index]) ? table.planes[i][hover.index] : null,
+                  units,
+                )}
+              </div>
+            ) : null,
+          )
+        : null}
     </div>
   );
 }
