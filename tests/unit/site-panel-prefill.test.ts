@@ -3,6 +3,8 @@
  * web/src/site/site-prefill.ts), and back to the quick estimate's cell inputs.
  */
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { screenCell } from '../../layers/screening/cell-screening-model';
@@ -114,5 +116,36 @@ describe('sitePrefill', () => {
       },
     };
     expect(cellInputsFromSite(explicit, DEFAULT_SCENARIO)).toBeNull();
+  });
+});
+
+describe('sitePrefill over the whole input range', () => {
+  it('always gives an input the schema and the soil catalogue accept (property, seeded)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -20, max: 5, noNaN: true }),
+        fc.integer({ min: 1, max: 6 }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        fc.double({ min: 0, max: 200, noNaN: true }),
+        (maat, texture, water, bedrock) => {
+          const { draft } = sitePrefill({
+            meanAirTemp_C: maat,
+            textureClass: texture,
+            waterContent_m3m3: water,
+            bedrockDepth_m: bedrock,
+          });
+          const parsed = siteInputSchema.safeParse(draft);
+          expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);
+          for (const layer of draft.ground.layers) {
+            const soil = layer.soil;
+            if (!soil) throw new Error('prefill layers carry soil descriptions');
+            expect(() =>
+              soilThermalProperties({ texture: soil.texture, waterContent_m3m3: soil.waterContent_m3m3 }),
+            ).not.toThrow();
+          }
+        },
+      ),
+      { seed: 11, numRuns: 300 },
+    );
   });
 });

@@ -17,9 +17,12 @@ import {
   unwrapSchema,
   type Path,
 } from './schema-form-model';
+import { displayConversion, formatNumber, type UnitSystem } from '../units/display-units';
 
 export interface FormContext {
   root: unknown;
+  /** Display system: in 'NA' each SI field also shows its North American equivalent. */
+  units?: UnitSystem;
   issues: Map<string, string[]>;
   onChange(next: unknown): void;
 }
@@ -98,8 +101,21 @@ function NumberField(props: {
         />
         <span className="unit">{props.unit}</span>
       </span>
+      {ctx.units === 'NA' && typeof value === 'number' ? <AltUnit value={value} unit={props.unit} /> : null}
       <Messages id={`${id}-err`} messages={messages} />
     </div>
+  );
+}
+
+/** The North American equivalent of an SI value (display units module), when the unit has one. */
+function AltUnit(props: { value: number; unit: string }) {
+  const unit = props.unit === 'W/m·K' ? 'W/(m·K)' : props.unit;
+  const c = displayConversion(unit, 'NA');
+  if (c.unit === unit) return null;
+  return (
+    <span className="alt-unit">
+      = {formatNumber(props.value * c.factor + c.offset)} {c.unit}
+    </span>
   );
 }
 

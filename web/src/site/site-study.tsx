@@ -113,7 +113,7 @@ export function SiteStudy(props: {
     );
   };
 
-  const ctx: FormContext = { root: draft, issues, onChange: setDraft };
+  const ctx: FormContext = { root: draft, issues, onChange: setDraft, units };
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
   const running = run.kind === 'running';
 
