@@ -10,7 +10,8 @@
  * Reporting: probes (bilinear between cell centres), the year each probe first reaches its freezing
  * point (interpolated within the step) and the delay the pile buys, the thaw depth on the far-field
  * column (permafrost table, see SiteCaseResult), monthly fluid temperatures and energy, the lowest fluid
- * temperature, the volume the pile freezes that was unfrozen at the start (end of each winter), and the
+ * temperature, the volume the pile freezes by the end of each winter that was unfrozen at its start
+ * and stays unfrozen without the pile, and the
  * energy balance of each case, with a warning above 0.5 %.
  * Pure: no I/O; `onProgress` and `shouldCancel` let a Web Worker or the CLI report and stop.
  */
@@ -145,17 +146,23 @@ export function simulateSite(
     cases.push(makeCase(solver, meshes.pile.nr, meshes.pile.nr - 1));
   }
 
-  // Over-cooling bookkeeping: end of winter = the day the air (and surface) temperature turns positive.
+  // Over-cooling bookkeeping: winter = the part of the year with the air (and surface) below 0 °C,
+  // phase angle |φ| < θ = acos(T̄/A) about the coldest day; the first winter starts before t = 0.
   const c = input.climate;
   const ratio = c.meanAirTemp_C / Math.max(c.amplitude_C, 1e-9);
-  const endOfWinterDay =
-    Math.abs(ratio) < 1 ? c.coldestDay + (365 * Math.acos(ratio)) / (2 * Math.PI) : c.coldestDay + 365 / 2;
+  const theta = ratio <= -1 ? Math.PI : ratio >= 1 ? 0 : Math.acos(ratio);
+  const endOfWinterDay = c.coldestDay + (365 * theta) / (2 * Math.PI);
+  const winterLength_s = ((365 * theta) / Math.PI) * SECONDS_PER_DAY;
   const pileCase = cases[1];
-  const unfrozenAtStart = pileCase
-    ? Uint8Array.from(pileCase.solver.T, (T, cell) =>
-        liquidFractionAt(ground.table, rowMat[(cell / meshes.pile.nr) | 0], T) > 0.5 ? 1 : 0,
-      )
-    : null;
+  const unfrozenAtWinterStart = pileCase ? new Uint8Array(pileCase.solver.T.length) : null;
+  const markUnfrozen = () => {
+    if (!pileCase || !unfrozenAtWinterStart) return;
+    pileCase.solver.T.forEach((T, cell) => {
+      const m = rowMat[(cell / meshes.pile.nr) | 0];
+      unfrozenAtWinterStart[cell] = liquidFractionAt(ground.table, m, T) > 0.5 ? 1 : 0;
+    });
+  };
+  markUnfrozen();
   const overCooling = { year: [] as number[], frozenByPile_m3: [] as number[] };
 
   // Fluid bookkeeping by month.
@@ -176,6 +183,7 @@ export function simulateSite(
   let nextOutput = 0;
   let nextYearEnd = year;
   let nextWinter = endOfWinterDay * SECONDS_PER_DAY;
+  let nextWinterStart = nextWinter + year - winterLength_s;
   let winterYear = 1;
 
   const record = (run: CaseRun, t: number) => {
@@ -226,7 +234,11 @@ export function simulateSite(
         delivered[m] += siteLoop.delivered_W() * dt;
       }
     }
-    if (pileCase && unfrozenAtStart && t >= nextWinter - dt / 2) {
+    if (t >= nextWinterStart - dt / 2) {
+      markUnfrozen();
+      nextWinterStart += year;
+    }
+    if (pileCase && unfrozenAtWinterStart && t >= nextWinter - dt / 2) {
       const pm = meshes.pile;
       let vol = 0;
       for (let j = 0; j < pm.nz; j++) {
@@ -234,7 +246,10 @@ export function simulateSite(
         if (liquidFractionAt(ground.table, mj, noPileSolver.T[j]) <= 0.5) continue;
         for (let i = 0; i < pm.nr; i++) {
           const cell = j * pm.nr + i;
-          if (unfrozenAtStart[cell] && liquidFractionAt(ground.table, mj, pileCase.solver.T[cell]) <= 0.5) {
+          if (
+            unfrozenAtWinterStart[cell] &&
+            liquidFractionAt(ground.table, mj, pileCase.solver.T[cell]) <= 0.5
+          ) {
             vol += pileCase.solver.volume_m3[cell];
           }
         }

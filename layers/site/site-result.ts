@@ -65,8 +65,9 @@ export interface SiteOverCooling {
   /** Day of the year taken as the end of winter (surface temperature turns positive). */
   endOfWinterDay: number;
   /**
-   * Volume of ground unfrozen at the start that is frozen at the end of that winter with the pile while
-   * unfrozen at the same time without it, m³.
+   * Volume of ground that was unfrozen at the start of each winter (with the pile; the first winter:
+   * at t = 0) and is frozen at the end of that winter with the pile while unfrozen at the same time
+   * without it, m³ (the ground the pile freezes that nature would have left unfrozen).
    */
   frozenByPile_m3: number[];
 }
