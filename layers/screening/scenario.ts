@@ -28,8 +28,6 @@ export const standardPileSchema = z.strictObject({
    * table RB-1) and a water-filled coaxial steel pile (lower) (common practice).
    */
   resistance_mK_W: z.number().min(0.01).max(1).default(0.15),
-  /** Centre-to-centre spacing of the foundation piles, m (common practice for small buildings). */
-  spacing_m: z.number().min(0.5).max(20).default(3),
 });
 
 /** The standard building whose heating the piles serve. */
@@ -148,7 +146,10 @@ export const scenarioSchema = z
     designLife_yr: z.number().min(1).max(100).default(30),
     /** Depth at which thaw is tracked (the adfreeze zone of the foundation), m (common practice). */
     referenceDepth_m: z.number().min(0.5).max(40).default(6),
-    /** Radius from the pile axis at which thaw is tracked: half the pile spacing, m [derived]. */
+    /**
+     * Radius from the pile axis at which thaw is tracked, m: half of a 3 m pile spacing, midway between
+     * foundation piles (common practice spacing; the model itself treats one pile, as the simulator).
+     */
     referenceRadius_m: z.number().min(0.05).max(20).default(1.5),
     /** Search horizon for thaw years, yr; thaw later than this is reported as the horizon. */
     horizon_yr: z.number().min(10).max(1000).default(300),
