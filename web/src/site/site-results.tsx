@@ -59,7 +59,8 @@ export function useSiteDerived(run: SiteRunOutcome, scenario: Scenario) {
             heatCapacity_J_m3K: props.heatCapacity_J_m3K,
             groundTemp_C,
             Rb_mK_W: result.fluid.Rb_mK_W,
-            spacing_m: scenario.pile.spacing_m,
+            // Foundation pile spacing: twice the scenario's reference radius (half the spacing, midway between piles).
+            spacing_m: 2 * scenario.referenceRadius_m,
             designLife_yr: input.years,
             flowPerKilowatt_m3_s: Math.min(
               1e-3,
@@ -129,8 +130,10 @@ export function SiteSummaryTable(props: {
   const { run, derived: d, quick, units } = props;
   const m = quick?.metrics;
   const delay = d.thawDelay[0];
-  const delayText =
-    delay === null || delay === undefined
+  const startsThawed = run.result.noPile.probes[0]?.thawYear === 0;
+  const delayText = startsThawed
+    ? 'ground unfrozen at the start: nothing to delay'
+    : delay === null || delay === undefined
       ? run.result.withPile
         ? `no thaw within ${run.input.years} yr either way`
         : '—'
