@@ -25,7 +25,7 @@ import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 
 /**
  * Documented bounds (README, "Calibration"): |model − simulator|. Measured on the committed sample:
- * thaw delay median 1.10 yr, P95 2.94 yr (21 comparable cells); pile count median 13.6 %, P95 31.8 %
+ * thaw delay median 1.10 yr, P95 2.94 yr (21 comparable cells); pile count median 13.3 %, P95 31.8 %
  * (167 cells; the model counts more piles than the simulator implies: conservative).
  */
 const BOUNDS = {
