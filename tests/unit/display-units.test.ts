@@ -87,6 +87,7 @@ describe('display units', () => {
     expect(formatNumber(3.14159)).toBe('3.14');
     expect(formatNumber(0.012345)).toBe('0.0123');
     expect(formatNumber(123456)).toBe('123,456');
+    expect(formatNumber(2094.4)).toBe('2094');
     expect(formatQuantity(0, '°C', 'NA')).toBe('32.0 °F');
     expect(formatQuantity(NaN, 'm', 'SI')).toBe('no data');
     expect(formatLonLat(-3.5, 75.25, 2)).toBe('75.25° N, 3.50° W');

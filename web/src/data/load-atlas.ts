@@ -72,16 +72,30 @@ export async function loadAtlas(dataBase: URL): Promise<Atlas> {
   };
 }
 
+/** The tile zoom whose pixels resolve every analysis cell of the region (see samplingZoom). */
+export function regionSamplingZoom(atlas: Atlas): number {
+  const [, s, , n] = atlas.manifest.region.bounds;
+  const equatorward = Math.abs(s) < Math.abs(n) ? s : n;
+  return samplingZoom(atlas.manifest, s <= 0 && n >= 0 ? 0 : equatorward);
+}
+
+/**
+ * Start fetching every tile of the region at the sampling zoom (the cell table needs them, and at
+ * the opening view the map usually asks for the same ones), so downloads overlap the map's start-up.
+ */
+export function prefetchRegionTiles(atlas: Atlas): Promise<unknown> {
+  const zoom = regionSamplingZoom(atlas);
+  const { x0, x1, y0, y1 } = tilesCovering(atlas.manifest.region.bounds, zoom);
+  const jobs: Promise<unknown>[] = [];
+  for (let x = x0; x <= x1; x++) for (let y = y0; y <= y1; y++) jobs.push(atlas.tiles.get(zoom, x, y));
+  return Promise.all(jobs);
+}
+
 /** Fetch every tile at the sampling zoom and build the cell table (see cell-table.ts). */
 export async function loadCellTable(atlas: Atlas): Promise<CellTable> {
   const { manifest, tiles } = atlas;
-  const [, s, , n] = manifest.region.bounds;
-  const equatorward = Math.abs(s) < Math.abs(n) ? s : n;
-  const zoom = samplingZoom(manifest, s <= 0 && n >= 0 ? 0 : equatorward);
-  const { x0, x1, y0, y1 } = tilesCovering(manifest.region.bounds, zoom);
-  const jobs: Promise<unknown>[] = [];
-  for (let x = x0; x <= x1; x++) for (let y = y0; y <= y1; y++) jobs.push(tiles.get(zoom, x, y));
-  await Promise.all(jobs);
+  const zoom = regionSamplingZoom(atlas);
+  await prefetchRegionTiles(atlas);
   return buildCellTable({
     manifest,
     zoom,

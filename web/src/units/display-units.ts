@@ -91,7 +91,9 @@ export function formatNumber(value: number, significant = 3): string {
   if (!Number.isFinite(value)) return 'no data';
   if (value === 0) return '0';
   const abs = Math.abs(value);
-  if (abs >= 10 ** significant) return Math.round(value).toLocaleString('en-US');
+  // Group thousands only from 10 000 up, so calendar years read as years (2094, not 2,094).
+  if (abs >= 10 ** significant)
+    return abs >= 1e4 ? Math.round(value).toLocaleString('en-US') : String(Math.round(value));
   const digits = Math.max(0, significant - 1 - Math.floor(Math.log10(abs)));
   return value.toFixed(Math.min(digits, 6));
 }
