@@ -71,4 +71,11 @@ export async function run(): Promise<void> {
   console.log(
     `ratio baseline / simulator:              ${(baseline / (cellUpdates / (warm.cpu_ms / 1000))).toFixed(0)}`,
   );
+  const coarseInput = siteInputSchema.parse({ ...raw, numerics: { fidelity: 'coarse' } });
+  const coarse = timed(() => simulateSite(coarseInput));
+  const cm = coarse.value.mesh;
+  console.log(
+    `coarse fidelity (batch calibration), mesh ${cm.nr} x ${cm.nz}: wall ${coarse.wall_ms.toFixed(0)} ms, ` +
+      `cpu ${coarse.cpu_ms.toFixed(0)} ms`,
+  );
 }

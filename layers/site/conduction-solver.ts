@@ -355,9 +355,37 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         }
         history = true;
       }
-      solveOnce();
+      if (refactor) solveOnce();
+      else solveIncrement();
     }
     return false;
+  }
+
+  /**
+   * Re-solve after the loop changed only its boundary temperatures and heat rates: adds the response to
+   * the change of the pile terms (one substitution with the factor; its small staleness affects only
+   * the increment, so no refinement is needed).
+   */
+  function solveIncrement(): void {
+    xr.fill(0);
+    for (let j = 0; j < np; j++) {
+      const Tn = inner!.T_C[j];
+      const qn = inner!.q_W[j];
+      const b = (nz - 1 - j) * nr;
+      const d = gUsed[j] * (Tn - TbcUsed[j]) + (qn - qUsed[j]);
+      xr[b] = d;
+      xb[b] += d;
+      TbcUsed[j] = Tn;
+      qUsed[j] = qn;
+    }
+    choleskySolve(A, xr);
+    for (let b = 0; b < n; b++) x[b] += xr[b];
+    for (let j = 0; j < nz; j++) {
+      const c = j * nr;
+      const b = (nz - 1 - j) * nr;
+      for (let i = 0; i < nr; i++) T[c + i] = x[b + i];
+    }
+    solver.sweeps++;
   }
 
   const solver: ConductionSolver = {
