@@ -56,6 +56,15 @@ export function siteNotes(
   for (let i = 0; i < ownProbeCount; i++) {
     const p = result.noPile.probes[i];
     if (p.thawYear === null) continue;
+    if (p.thawYear === 0) {
+      notes.push({
+        kind: 'adfreeze',
+        text:
+          `The ground at ${p.r_m} m from the axis and ${p.z_m} m deep is unfrozen from the start: there is no permafrost ` +
+          'there to protect. Foundations are designed as for seasonally frozen ground; freezing it with the pile adds frost-heave risk.',
+      });
+      break;
+    }
     const withYear = result.withPile?.probes[i]?.thawYear ?? null;
     notes.push({
       kind: 'adfreeze',

@@ -170,7 +170,11 @@ export function SiteSummaryTable(props: {
           sim={
             d.sizing
               ? d.sizing.ok
-                ? `${d.sizing.sizing.pileCount} (${d.sizing.sizing.controllingPulse} pulse controls)`
+                ? `${d.sizing.sizing.pileCount} (three-pulse sizing, ${d.sizing.sizing.controllingPulse} pulse controls)${
+                    d.sizing.sizing.pileCount > 4 * d.piles
+                      ? '; far more piles than the foundation has: plan a hybrid with a backup heater'
+                      : ''
+                  }`
                 : `not sized: ${d.sizing.reason}`
               : '—'
           }
@@ -188,7 +192,11 @@ export function SiteSummaryTable(props: {
         <Row
           label="Active layer (thaw depth), first year"
           quick={m ? q(m.activeLayer.value, 'm', units) : '—'}
-          sim={q(run.result.noPile.annualThawDepth_m[0], 'm', units)}
+          sim={
+            (run.result.noPile.annualThawDepth_m[0] ?? 0) >= run.result.mesh.depth_m - 0.01
+              ? 'no permafrost in the column'
+              : q(run.result.noPile.annualThawDepth_m[0], 'm', units)
+          }
         />
         <Row label="Lowest fluid temperature" quick="—" sim={q(run.result.fluid?.lowest_C, '°C', units)} />
         <Row
