@@ -75,10 +75,9 @@ export function ClassCard(props: {
                 <tr key={c.id} title={c.description}>
                   <th scope="row">
                     {c.title}
-                    <span className="muted small">
-                      {' '}
-                      ({c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`})
-                    </span>
+                    <div className="muted">
+                      {c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`}
+                    </div>
                   </th>
                   <td>{v === null ? 'no data' : show(v, c.unit)}</td>
                   <td>
@@ -90,15 +89,21 @@ export function ClassCard(props: {
                       : verdict
                         ? 'pass'
                         : c.kind === 'exclusion'
-                          ? 'fail: excluded'
-                          : 'below'}
-                    {score !== null ? ` (score ${formatNumber(score, 2)})` : ''}
+                          ? 'excludes'
+                          : 'short'}
+                    {score !== null ? <div className="muted">score {formatNumber(score, 2)}</div> : null}
                   </td>
                 </tr>
               );
             })}
           </tbody>
         </table>
+      ) : null}
+      {criteria.length > 0 ? (
+        <p className="muted small">
+          A failed “must pass” criterion excludes the place. The others add weight × score (0 at the poor end,
+          1 at the good end) to the suitability score; “short” means the value misses the threshold.
+        </p>
       ) : (
         <p className="muted small">
           This build lists no criteria; the class comes from the model named in the legend.
