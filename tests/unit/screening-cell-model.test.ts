@@ -244,6 +244,37 @@ describe('monotonicity (property tests over the demo ranges)', () => {
   });
 });
 
+describe('robustness of the hot path', () => {
+  it('evaluate never throws and always writes a class, whatever the inputs (property)', () => {
+    const model = createScreeningModel();
+    const out = new Float32Array(METRIC_COUNT);
+    const num = (min: number, max: number) =>
+      fc.oneof(fc.double({ min, max, noNaN: true }), fc.constant(NaN), fc.constant(Infinity));
+    fc.assert(
+      fc.property(
+        fc.record({
+          meanAirTemp_C: num(-70, 50),
+          airAmplitude_C: num(-5, 70),
+          warming_C_per_yr: num(-2, 2),
+          textureClass: fc.oneof(fc.integer({ min: -1, max: 8 }), fc.constant(2.5)),
+          waterContent_m3m3: num(-0.1, 1.2),
+          bedrockDepth_m: num(-1, 100),
+          groundTemp_C: num(-45, 35),
+          geothermalFlux_W_m2: num(-0.1, 1.5),
+          nFreeze: num(0, 2),
+          latitude_deg: num(-90, 90),
+        }),
+        (c) => {
+          model.evaluate(c, out);
+          expect([0, 1, 2, 3]).toContain(out[METRIC.suitability]);
+          expect([0, 1, 2, 3, 4, 5]).toContain(out[METRIC.exclusion]);
+        },
+      ),
+      { seed: 37, numRuns: 400 },
+    );
+  });
+});
+
 describe('screenCell and evaluate agree', () => {
   it('the card shows the map value (Float32 of the same kernel) and explains the class', () => {
     const model = createScreeningModel();
