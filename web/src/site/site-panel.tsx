@@ -80,16 +80,13 @@ export function SitePanel(props: {
       </p>
       <ul className="small prefill-list">
         <li>
-          Air {formatQuantity(c.meanAirTemp_C, '°C', units)} mean, ±
-          {formatQuantity(c.amplitude_C, 'K', units)} over the year
+          Air {formatQuantity(c.meanAirTemp_C, '°C', units)} mean, swinging ±
+          {formatQuantity(c.amplitude_C, 'K', units).replace(' (difference)', '')} over the year
         </li>
         <li>
-          {layers
-            .map(
-              (l) =>
-                `${l.soil?.texture ?? 'layer'} ${formatQuantity(l.top_m, 'm', units, 2)}–${formatQuantity(l.bottom_m, 'm', units, 2)}`,
-            )
-            .join(', ')}
+          {layers.length > 1 && layers[1].soil?.texture === 'bedrock'
+            ? `${layers[0].soil?.texture ?? 'soil'} to ${formatQuantity(layers[0].bottom_m, 'm', units, 3)}, bedrock below`
+            : `${layers[0].soil?.texture ?? 'soil'} throughout the ${formatQuantity(layers[0].bottom_m, 'm', units, 2)} column`}
         </li>
       </ul>
       <button type="button" className="primary" onClick={() => setOpen(true)} data-testid="open-site-study">
