@@ -260,7 +260,7 @@ export function simulateSite(
       nextWinter += year;
     }
     if (t >= nextYearEnd - dt / 2) {
-      for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.depth_m(t)));
+      for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.periodMaxDepth_m()));
       nextYearEnd += year;
     }
     if (t >= nextOutput - dt / 2) {

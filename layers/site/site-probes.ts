@@ -67,6 +67,12 @@ export interface PermafrostTableTracker {
   /** Records cell j's temperature T[j * stride + offset] at `time_s` (times may be negative: spin-up). */
   observe(T: Float64Array, stride: number, offset: number, time_s: number): void;
   depth_m(time_s: number): number;
+  /**
+   * Deepest thaw since the last call (or the start), with sub-cell resolution: cells whose largest
+   * liquid fraction in the period reached 1 are passed from the surface down; the first one that did
+   * not adds its largest fraction of its height (the front's deepest position within it). Resets.
+   */
+  periodMaxDepth_m(): number;
 }
 
 export function createPermafrostTableTracker(
@@ -80,11 +86,25 @@ export function createPermafrostTableTracker(
   const lastThawed = initialLastThawed_s
     ? Float64Array.from(initialLastThawed_s)
     : new Float64Array(nz).fill(-Infinity);
+  const periodMax = new Float64Array(nz);
   return {
     observe(T, stride, offset, time_s) {
       for (let j = 0; j < nz; j++) {
-        if (liquidFractionAt(materials, rowMaterial[j], T[j * stride + offset]) > 0.5) lastThawed[j] = time_s;
+        const f = liquidFractionAt(materials, rowMaterial[j], T[j * stride + offset]);
+        if (f > 0.5) lastThawed[j] = time_s;
+        if (f > periodMax[j]) periodMax[j] = f;
       }
+    },
+    periodMaxDepth_m() {
+      let depth = mesh.zFaces_m[nz];
+      for (let j = 0; j < nz; j++) {
+        if (periodMax[j] < 1) {
+          depth = mesh.zFaces_m[j] + periodMax[j] * (mesh.zFaces_m[j + 1] - mesh.zFaces_m[j]);
+          break;
+        }
+      }
+      periodMax.fill(0);
+      return depth;
     },
     depth_m(time_s) {
       for (let j = 0; j < nz; j++) {

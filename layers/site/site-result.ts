@@ -31,7 +31,10 @@ export interface SiteCaseResult {
    * permafrost table; the domain depth when the column holds no permafrost.
    */
   thawDepth_m: number[];
-  /** Thaw depth at the end of each simulated year, m (one per year). */
+  /**
+   * Deepest thaw on the far-field column during each simulated year, m (one per year), with sub-cell
+   * resolution (the active-layer thickness, or the talik depth once the ground no longer refreezes).
+   */
   annualThawDepth_m: number[];
   probes: SiteProbeResult[];
   energyBalance: SiteEnergyBalance;
