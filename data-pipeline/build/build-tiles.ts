@@ -137,6 +137,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       maxZoom,
       bounds,
       onTile: (d, t) => progress('tiles', d, t),
+      workers: result.workers,
     });
     let geotiffs: Record<string, string> | undefined;
     if (options.geotiff !== false) {

@@ -7,6 +7,7 @@
  * level. All-nodata tiles are not written (an absent tile means nodata).
  */
 import { mkdir, writeFile } from 'node:fs/promises';
+import { Worker } from 'node:worker_threads';
 import { join } from 'node:path';
 import { encodeValue, packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
 import type { AnalysisGrid } from '../build/analysis-grid';
@@ -28,6 +29,8 @@ export interface TilePyramidOptions {
   /** [west, south, east, north] degrees of the data. */
   bounds: [number, number, number, number];
   onTile?: (done: number, total: number) => void;
+  /** Worker threads for the subtrees below the top levels (default 1: main thread only). */
+  workers?: number;
 }
 
 const EARTH_CIRCUMFERENCE_M = 2 * Math.PI * 6378137;
@@ -137,16 +140,31 @@ export function encodeTile(planes: Float32Array[], quant: BandQuantisation[]): U
   return new Uint8Array(codes.buffer);
 }
 
-/** Write the pyramid; returns the number of tiles written per zoom. */
-export async function writeTilePyramid(options: TilePyramidOptions): Promise<Record<number, number>> {
-  const { tilesDir, grid, bands, minZoom, maxZoom, bounds, onTile } = options;
+export interface TileRenderer {
+  /**
+   * Render tile (z, x, y) and its subtree down to maxZoom, writing every non-empty tile; returns its
+   * planes (null when all nodata). With `stopAt`, tiles at that zoom are not rendered but taken from
+   * the map (already written elsewhere, e.g. by a worker thread).
+   */
+  render(
+    z: number,
+    x: number,
+    y: number,
+    stopAt?: { zoom: number; planes: Map<string, Float32Array[] | null> },
+  ): Promise<Float32Array[] | null>;
+  /** Tiles written so far, per zoom. */
+  written: Record<number, number>;
+}
+
+export type TileRendererOptions = Omit<TilePyramidOptions, 'minZoom' | 'onTile'> & { onFinest?: () => void };
+
+/** The depth-first tile renderer used by writeTilePyramid and its worker threads. */
+export function createTileRenderer(options: TileRendererOptions): TileRenderer {
+  const { tilesDir, grid, bands, maxZoom, bounds, onFinest } = options;
   const toGrid = createTransform('EPSG:4326', grid.crs);
   const gt = grid.geoTransform;
   const quant = bands.map((b) => b.quant);
   const written: Record<number, number> = {};
-  const finest = tileRange(bounds, maxZoom);
-  const total = (finest.x1 - finest.x0 + 1) * (finest.y1 - finest.y0 + 1);
-  let done = 0;
   const n = TILE_SIZE * TILE_SIZE;
 
   const index = new Int32Array(n);
@@ -203,20 +221,20 @@ export async function writeTilePyramid(options: TilePyramidOptions): Promise<Rec
     written[z] = (written[z] ?? 0) + 1;
   };
 
-  const render = async (z: number, x: number, y: number): Promise<Float32Array[] | null> => {
+  const render: TileRenderer['render'] = async (z, x, y, stopAt) => {
     const range = tileRange(bounds, z);
     if (x < range.x0 || x > range.x1 || y < range.y0 || y > range.y1) return null;
+    if (stopAt && z === stopAt.zoom) return stopAt.planes.get(`${x}/${y}`) ?? null;
     let planes: Float32Array[] | null;
     if (z === maxZoom) {
       planes = sampleFinest(x, y);
-      done++;
-      onTile?.(done, total);
+      onFinest?.();
     } else {
       planes = null;
       for (let k = 0; k < 4; k++) {
         const dx = k & 1;
         const dy = k >> 1;
-        const child = await render(z + 1, 2 * x + dx, 2 * y + dy);
+        const child = await render(z + 1, 2 * x + dx, 2 * y + dy, stopAt);
         if (!child) continue;
         planes ??= bands.map(() => new Float32Array(n).fill(NaN));
         for (let b = 0; b < bands.length; b++) aggregateInto(planes[b], child[b], dx, dy, bands[b].kind);
@@ -226,9 +244,112 @@ export async function writeTilePyramid(options: TilePyramidOptions): Promise<Rec
     return planes;
   };
 
+  return { render, written };
+}
+
+/** Write the pyramid; returns the number of tiles written per zoom. */
+export async function writeTilePyramid(options: TilePyramidOptions): Promise<Record<number, number>> {
+  const { minZoom, maxZoom, bounds, onTile } = options;
+  const finest = tileRange(bounds, maxZoom);
+  const total = (finest.x1 - finest.x0 + 1) * (finest.y1 - finest.y0 + 1);
+  let done = 0;
+  const onFinest = () => onTile?.(++done, total);
+  const renderer = createTileRenderer({ ...options, onFinest });
+  const workers = Math.max(1, options.workers ?? 1);
+  let stopAt: { zoom: number; planes: Map<string, Float32Array[] | null> } | undefined;
+  let fromWorkers: Record<number, number> = {};
+  if (workers > 1 && maxZoom > minZoom) {
+    // Subtrees below a cut level go to worker threads; the cut is the first level with enough tiles.
+    let cut = minZoom + 1;
+    const count = (z: number) => {
+      const r = tileRange(bounds, z);
+      return (r.x1 - r.x0 + 1) * (r.y1 - r.y0 + 1);
+    };
+    while (cut < maxZoom && count(cut) < 4 * workers) cut++;
+    const r = tileRange(bounds, cut);
+    const jobs: [number, number][] = [];
+    for (let x = r.x0; x <= r.x1; x++) for (let y = r.y0; y <= r.y1; y++) jobs.push([x, y]);
+    const result = await renderSubtreesInWorkers(options, cut, jobs, workers, (finestDone) => {
+      done += finestDone;
+      onTile?.(done, total);
+    });
+    stopAt = { zoom: cut, planes: result.planes };
+    fromWorkers = result.written;
+  }
   const top = tileRange(bounds, minZoom);
   for (let x = top.x0; x <= top.x1; x++) {
-    for (let y = top.y0; y <= top.y1; y++) await render(minZoom, x, y);
+    for (let y = top.y0; y <= top.y1; y++) await renderer.render(minZoom, x, y, stopAt);
   }
+  const written = { ...renderer.written };
+  for (const [z, c] of Object.entries(fromWorkers)) written[Number(z)] = (written[Number(z)] ?? 0) + c;
   return written;
+}
+
+interface SubtreeResult {
+  key: string;
+  planes: Float32Array[] | null;
+  written: Record<number, number>;
+  finest: number;
+  error?: string;
+}
+
+function renderSubtreesInWorkers(
+  options: TilePyramidOptions,
+  zoom: number,
+  jobs: [number, number][],
+  workers: number,
+  onProgress: (finestDone: number) => void,
+): Promise<{ planes: Map<string, Float32Array[] | null>; written: Record<number, number> }> {
+  const data = {
+    tilesDir: options.tilesDir,
+    grid: options.grid,
+    bands: options.bands,
+    maxZoom: options.maxZoom,
+    bounds: options.bounds,
+  };
+  return new Promise((resolve, reject) => {
+    const planes = new Map<string, Float32Array[] | null>();
+    const written: Record<number, number> = {};
+    const pool: Worker[] = [];
+    let next = 0;
+    let pending = jobs.length;
+    let failed = false;
+    const finish = (err?: Error) => {
+      for (const w of pool) void w.terminate();
+      if (err) reject(err);
+      else resolve({ planes, written });
+    };
+    const feed = (w: Worker) => {
+      if (next < jobs.length) {
+        const [x, y] = jobs[next++];
+        w.postMessage({ z: zoom, x, y });
+      }
+    };
+    const count = Math.min(workers, jobs.length);
+    for (let i = 0; i < count; i++) {
+      const w = new Worker(new URL('./tile-worker.mjs', import.meta.url), { workerData: data });
+      pool.push(w);
+      w.on('message', (msg: SubtreeResult) => {
+        if (failed) return;
+        if (msg.error) {
+          failed = true;
+          finish(new Error(`tile worker failed: ${msg.error}`));
+          return;
+        }
+        planes.set(msg.key, msg.planes);
+        for (const [z, c] of Object.entries(msg.written)) written[Number(z)] = (written[Number(z)] ?? 0) + c;
+        onProgress(msg.finest);
+        if (--pending === 0) finish();
+        else feed(w);
+      });
+      w.on('error', (err) => {
+        if (!failed) {
+          failed = true;
+          finish(err);
+        }
+      });
+      feed(w);
+    }
+    if (jobs.length === 0) finish();
+  });
 }
