@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
   displayConversion,
+  displayTitle,
   formatLonLat,
   formatNumber,
   formatQuantity,
@@ -91,5 +92,20 @@ describe('display units', () => {
     expect(formatQuantity(0, '°C', 'NA')).toBe('32.0 °F');
     expect(formatQuantity(NaN, 'm', 'SI')).toBe('no data');
     expect(formatLonLat(-3.5, 75.25, 2)).toBe('75.25° N, 3.50° W');
+  });
+});
+
+describe('display titles', () => {
+  it('keeps "per ton" / "per kW" in a title in step with the shown unit', () => {
+    expect(displayTitle('Piles per ton of peak heating', 'piles/ton', 'SI')).toBe(
+      'Piles per kW of peak heating',
+    );
+    expect(displayTitle('Piles per ton of peak heating', 'piles/ton', 'NA')).toBe(
+      'Piles per ton of peak heating',
+    );
+    expect(displayTitle('Piles per kW of peak heating', 'piles/kW', 'NA')).toBe(
+      'Piles per ton of peak heating',
+    );
+    expect(displayTitle('Ground temperature', '°C', 'NA')).toBe('Ground temperature');
   });
 });

@@ -4,7 +4,7 @@
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import type { CellTable } from '../data/cell-table';
-import { formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
 import { ScreeningCaution } from './caution-notes';
 import { ClassCard } from './class-card';
 
@@ -62,7 +62,7 @@ export function CellPanel(props: {
             <tbody>
               {manifest.bands.map((b) => (
                 <tr key={b.id}>
-                  <th scope="row">{b.title}</th>
+                  <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
                   <td>{bandValueText(b, values?.[b.id] ?? null, units)}</td>
                 </tr>
               ))}

@@ -4,7 +4,7 @@
  * the card lists the class bands of the cell with their plain explanations.
  */
 import type { Criterion, Manifest } from '../../../layers/screening/manifest';
-import { displayConversion, formatNumber, type UnitSystem } from '../units/display-units';
+import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 
 /** Whether `value comparison threshold` holds (the criterion passes); null when the value is nodata. */
 export function criterionVerdict(c: Criterion, value: number | null): boolean | null {
@@ -74,7 +74,7 @@ export function ClassCard(props: {
               return (
                 <tr key={c.id} title={c.description}>
                   <th scope="row">
-                    {c.title}
+                    {displayTitle(c.title, c.unit, units)}
                     <div className="muted">
                       {c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`}
                     </div>

@@ -7,6 +7,7 @@ import type { Band } from '../../../layers/screening/manifest';
 import type { BandRange, FilterSpec } from '../filters/cell-filter';
 import {
   displayConversion,
+  displayTitle,
   formatNumber,
   fromDisplay,
   toDisplay,
@@ -42,7 +43,7 @@ function RangeRow(props: {
   return (
     <li className="filter-row" data-testid={`filter-${band.id}`}>
       <div className="row">
-        <strong>{band.title}</strong>
+        <strong>{displayTitle(band.title, band.unit, units)}</strong>
         <button
           type="button"
           className="icon"

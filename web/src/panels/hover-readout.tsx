@@ -5,7 +5,7 @@
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import type { CellTable } from '../data/cell-table';
-import { formatLonLat, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
 import { bandValueText } from './cell-panel';
 
 export interface HoverState {
@@ -37,13 +37,13 @@ export function HoverReadout(props: {
     <div className="readout" role="status" aria-live="off" data-testid="hover-readout">
       <div className="small muted">{formatLonLat(hover.lon, hover.lat, 3)}</div>
       <div>
-        {band.title}: <strong data-testid="hover-value">{text}</strong>
+        {displayTitle(band.title, band.unit, units)}: <strong data-testid="hover-value">{text}</strong>
       </div>
       {table && hover.index >= 0
         ? manifest.bands.map((b, i) =>
             HEADLINE_BANDS.includes(b.id) && i !== bandIndex ? (
               <div key={b.id} className="small">
-                {b.title}:{' '}
+                {displayTitle(b.title, b.unit, units)}:{' '}
                 {bandValueText(
                   b,
                   Number.isFinite(table.planes[i][hover.index]) ? table.planes[i][hover.index] : null,

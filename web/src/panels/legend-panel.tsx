@@ -3,7 +3,7 @@ import type { Band } from '../../../layers/screening/manifest';
 import { rampColour } from '../../../layers/screening/colour-ramps';
 import { classColours, FADED_ALPHA, FADED_RGB, legendRange } from '../map/colour-tile';
 import { LAND_COLOUR, SEA_COLOUR } from '../map/base-style';
-import { displayConversion, formatNumber, type UnitSystem } from '../units/display-units';
+import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 
 function css([r, g, b]: [number, number, number], a = 1): string {
   return `rgba(${r}, ${g}, ${b}, ${a})`;
@@ -55,7 +55,7 @@ export function LegendPanel(props: { band: Band; units: UnitSystem; filterActive
   }
   return (
     <section className="panel legend" aria-label="Legend" data-testid="legend">
-      <h2>{band.title}</h2>
+      <h2>{displayTitle(band.title, band.unit, units)}</h2>
       {body}
       <ul className="legend-keys">
         <li>

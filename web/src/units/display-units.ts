@@ -117,3 +117,15 @@ export function formatLonLat(lon: number, lat: number, digits = 3): string {
   const ew = lon >= 0 ? 'E' : 'W';
   return `${Math.abs(lat).toFixed(digits)}° ${ns}, ${Math.abs(lon).toFixed(digits)}° ${ew}`;
 }
+
+/**
+ * A band or criterion title in the chosen system: when the unit switches between tons and kW, the
+ * words "per ton" / "per kW" in the title follow, so that the title never contradicts the unit.
+ */
+export function displayTitle(title: string, unit: string, system: UnitSystem): string {
+  const shown = displayConversion(unit, system).unit;
+  if (shown === unit) return title;
+  if (/\bkW\b/.test(shown)) return title.replace(/\bper ton\b/g, 'per kW');
+  if (/\bton\b/.test(shown)) return title.replace(/\bper kW\b/g, 'per ton');
+  return title;
+}
