@@ -15,7 +15,13 @@ import {
 } from '../shortlist/shortlist-export';
 import { downloadFile } from '../download-file';
 import { bandValueText } from './cell-panel';
-import { formatLonLat, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatLonLat, formatNumber, type UnitSystem } from '../units/display-units';
+
+/** 'thawDelay_yr' -> 'thawDelay (yr)': metric keys carry their unit after the last underscore. */
+function metricLabel(key: string): string {
+  const i = key.lastIndexOf('_');
+  return i > 0 ? `${key.slice(0, i)} (${key.slice(i + 1)})` : key;
+}
 
 export function ShortlistPanel(props: {
   manifest: Manifest;
@@ -86,12 +92,34 @@ export function ShortlistPanel(props: {
       <ol className="shortlist-items" data-testid="shortlist-items">
         {sorted.map((it) => (
           <li key={it.id} data-testid="shortlist-item">
-            <div className="row">
-              <input
-                aria-label="Site name"
-                value={it.name}
-                onChange={(e) => shortlistStore.update(it.id, { name: e.target.value })}
-              />
+            <input
+              className="site-name"
+              aria-label="Site name"
+              value={it.name}
+              onChange={(e) => shortlistStore.update(it.id, { name: e.target.value })}
+            />
+            <textarea
+              aria-label="Note"
+              placeholder="note"
+              rows={1}
+              value={it.note}
+              onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
+            />
+            <div className="muted small">
+              {formatLonLat(it.lon, it.lat, 3)}
+              {shownBand
+                ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units)}`
+                : ''}
+              {it.origin === 'site' ? ' · site study' : ''}
+              {Object.entries(it.metrics)
+                .slice(0, 4)
+                .map(
+                  ([k, v]) =>
+                    ` · ${metricLabel(k)}: ${typeof v === 'number' ? formatNumber(v) : (v ?? 'no data')}`,
+                )
+                .join('')}
+            </div>
+            <div className="row item-actions">
               <button
                 type="button"
                 onClick={() => props.onLocate(it.lon, it.lat)}
@@ -106,20 +134,6 @@ export function ShortlistPanel(props: {
               >
                 remove
               </button>
-            </div>
-            <textarea
-              aria-label="Note"
-              placeholder="note"
-              rows={1}
-              value={it.note}
-              onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
-            />
-            <div className="muted small">
-              {formatLonLat(it.lon, it.lat, 3)}
-              {shownBand
-                ? ` · ${shownBand.title}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units)}`
-                : ''}
-              {it.origin === 'site' ? ' · site run' : ''}
             </div>
           </li>
         ))}
