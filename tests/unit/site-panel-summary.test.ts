@@ -155,3 +155,25 @@ describe('chart scales', () => {
     expect(linePath([0, 1, 2, 3], [0, NaN, 1, 1], x, y)).toBe('M0.0,10.0M20.0,0.0L30.0,0.0');
   });
 });
+
+describe('pile sizing by design pulse after a run', () => {
+  it('sizes the annual load alone below the full three-pulse design, which matches the sizing result', async () => {
+    const { simulateSite } = await import('../../layers/site/simulate-site');
+    const { sizeSiteByPulse } = await import('../../web/src/site/site-sizing');
+    const draft = {
+      ...sitePrefill({ meanAirTemp_C: -5, textureClass: 2, waterContent_m3m3: 0.3, bedrockDepth_m: 30 })
+        .draft,
+      years: 3,
+    };
+    const { input: withProfile, column } = withProfileProbes(siteInputSchema.parse(draft), 1.5);
+    const parsed = siteInputSchema.parse(withProfile);
+    const sized = sizeSiteByPulse(parsed, simulateSite(parsed), column, DEFAULT_SCENARIO);
+    if (!sized || !sized.ok)
+      throw new Error(`sizing failed: ${sized && !sized.ok ? sized.reason : 'no sizing'}`);
+    expect(sized.byPulse.peak).toBe(sized.sizing.pileCount);
+    expect(sized.byPulse.annual).not.toBeNull();
+    expect(sized.byPulse.annual as number).toBeLessThanOrEqual(sized.byPulse.peak);
+    // The ground temperature used is the first-year mean at the pile's mid-depth: frozen at this site.
+    expect(sized.groundTemp_C).toBeLessThan(0);
+  });
+});

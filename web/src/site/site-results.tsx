@@ -11,13 +11,8 @@ import { DEFAULT_HEAT_PUMP_CURVE, WATTS_PER_TON } from '../../../layers/physics/
 import { freezingPoint_C as fluidFreezingPoint_C } from '../../../layers/physics/fluids';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
 import { annualMeanAt, ownProbes, profileAtYear, type ProfileColumn } from './site-profile';
-import {
-  energyByYear,
-  groundPropertiesAt,
-  meanExtraction_W_m,
-  siteSavings,
-  sizeSitePiles,
-} from './site-summary';
+import { energyByYear, groundPropertiesAt, meanExtraction_W_m, siteSavings } from './site-summary';
+import type { SiteSizing } from './site-sizing';
 import { siteNotes } from './site-notes';
 import { ProbeTemperatureChart } from './charts/probe-temperature-chart';
 import { DepthProfileChart } from './charts/depth-profile-chart';
@@ -30,6 +25,8 @@ export interface SiteRunOutcome {
   input: SiteInput;
   result: SiteResult;
   column: ProfileColumn;
+  /** Pile sizing by design pulse, done in the worker (site-sizing.ts). */
+  sizing: SiteSizing | null;
   elapsed_ms: number;
 }
 
@@ -40,34 +37,11 @@ export function useSiteDerived(run: SiteRunOutcome, scenario: Scenario) {
     const years = energyByYear(input, result);
     const pile = input.pile;
     const mid = pile ? pile.topDepth_m + pile.length_m / 2 : scenario.referenceDepth_m;
-    const firstYear = profileAtYear(result.noPile, column, 1);
-    const groundTemp_C = annualMeanAt(firstYear, mid);
-    const frozen = !(groundTemp_C > 0);
-    const props = groundPropertiesAt(input, mid, frozen);
+    const groundTemp_C = annualMeanAt(profileAtYear(result.noPile, column, 1), mid);
     const peakLoad_W = input.operation.mode === 'building' ? input.operation.designLoad_W : null;
     const piles =
       input.operation.mode === 'building' ? input.operation.pileCount : scenario.building.foundationPiles;
-    const sizing =
-      pile && props && peakLoad_W && result.fluid && Number.isFinite(groundTemp_C)
-        ? sizeSitePiles(input, {
-            peakLoad_W,
-            balancePoint_C:
-              input.operation.mode === 'building'
-                ? input.operation.balancePoint_C
-                : scenario.building.balanceTemp_C,
-            conductivity_W_mK: props.conductivity_W_mK,
-            heatCapacity_J_m3K: props.heatCapacity_J_m3K,
-            groundTemp_C,
-            Rb_mK_W: result.fluid.Rb_mK_W,
-            // Foundation pile spacing: twice the scenario's reference radius (half the spacing, midway between piles).
-            spacing_m: 2 * scenario.referenceRadius_m,
-            designLife_yr: input.years,
-            flowPerKilowatt_m3_s: Math.min(
-              1e-3,
-              Math.max(1e-6, ((result.fluid.flow_L_min / 60000) * piles) / (peakLoad_W / 1000)),
-            ),
-          })
-        : null;
+    const sizing = run.sizing;
     const savings = siteSavings(years, piles, scenario);
     const curve =
       input.operation.mode === 'building' && input.operation.heatPump
@@ -331,7 +305,7 @@ export function SiteCharts(props: {
       ) : null}
       {d.sizing?.ok ? (
         <div className="chart-block">
-          <PileCountChart sizing={d.sizing.sizing} units={units} />
+          <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} />
         </div>
       ) : null}
     </div>

@@ -21,7 +21,7 @@ import type { SitePlace } from './site-panel';
 
 type RunState =
   | { kind: 'idle' }
-  | { kind: 'running'; progress: number }
+  | { kind: 'running'; progress: number; phase: 'simulating' | 'sizing' }
   | { kind: 'done'; outcome: SiteRunOutcome }
   | { kind: 'failed'; message: string }
   | { kind: 'cancelled' };
@@ -85,21 +85,21 @@ export function SiteStudy(props: {
     const pileR = inputParsed.pile ? inputParsed.pile.outerDiameter_m / 2 : 0;
     const r = Math.min(Math.max(scenario.referenceRadius_m, pileR + 0.05), inputParsed.domain.radius_m);
     const { input, column } = withProfileProbes(inputParsed, r);
-    setRun({ kind: 'running', progress: 0 });
+    setRun({ kind: 'running', progress: 0, phase: 'simulating' });
     let last = 0;
-    const h = runSiteInWorker(input, (f) => {
-      if (f - last >= 0.01 || f === 1) {
+    const h = runSiteInWorker(input, { scenario, column }, (f, phase) => {
+      if (phase === 'sizing' || f - last >= 0.01) {
         last = f;
-        setRun({ kind: 'running', progress: f });
+        setRun({ kind: 'running', progress: f, phase });
       }
     });
     handle.current = h;
     h.result.then(
-      ({ result, elapsed_ms }) => {
+      ({ result, sizing, elapsed_ms }) => {
         handle.current = null;
         setRun({
           kind: 'done',
-          outcome: { input: siteInputSchema.parse(input), result, column, elapsed_ms },
+          outcome: { input: siteInputSchema.parse(input), result, column, sizing, elapsed_ms },
         });
       },
       (e: unknown) => {
@@ -202,7 +202,9 @@ export function SiteStudy(props: {
             {blocked && issueCount > 0
               ? `Not run: ${issueCount} input${issueCount > 1 ? 's need' : ' needs'} attention (marked in the form).`
               : run.kind === 'running'
-                ? 'Simulating in the background; the map stays usable.'
+                ? run.phase === 'sizing'
+                  ? 'Sizing the pile field by design pulse…'
+                  : 'Simulating in the background; the map stays usable.'
                 : run.kind === 'done'
                   ? `Done in ${(run.outcome.elapsed_ms / 1000).toFixed(1)} s (${run.outcome.result.mesh.nr}×${run.outcome.result.mesh.nz} cells, ${run.outcome.result.mesh.timeSteps} steps).`
                   : run.kind === 'failed'

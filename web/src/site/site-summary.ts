@@ -129,7 +129,10 @@ export function annualHeating(input: {
 }
 
 export interface SizingInputs {
+  /** Peak heating load the field must carry, W. */
   peakLoad_W: number;
+  /** Design load at the coldest air that sets the annual energy, W (default peakLoad_W). */
+  designLoad_W?: number;
   balancePoint_C: number;
   /** Ground properties at the pile's mid-depth (frozen values in permafrost). */
   conductivity_W_mK: number;
@@ -147,11 +150,12 @@ export interface SizingInputs {
 export function sizeSitePiles(
   input: SiteInput,
   s: SizingInputs,
+  monthlyFractions?: number[],
 ): { ok: true; sizing: PileFieldSizingResult } | { ok: false; reason: string } {
   const pile = input.pile;
   if (!pile) return { ok: false, reason: 'no pile in this run' };
   const heat = annualHeating({
-    designLoad_W: s.peakLoad_W,
+    designLoad_W: s.designLoad_W ?? s.peakLoad_W,
     balancePoint_C: s.balancePoint_C,
     meanAirTemp_C: input.climate.meanAirTemp_C,
     amplitude_C: input.climate.amplitude_C,
@@ -164,7 +168,7 @@ export function sizeSitePiles(
     const sizing = sizePileField({
       peakHeatingLoad_W: s.peakLoad_W,
       annualHeating_kWh: heat.annual_kWh,
-      monthlyFractions: heat.monthlyFractions,
+      monthlyFractions: monthlyFractions ?? heat.monthlyFractions,
       pile: {
         length_m: pile.length_m,
         radius_m: pile.outerDiameter_m / 2,

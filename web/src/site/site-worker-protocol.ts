@@ -1,12 +1,19 @@
 /** Messages between the site panel and its Web Worker (site-worker.ts). Plain JSON-cloneable data. */
 import type { SiteInputDraft, SiteResult } from '../../../layers/site/site-input-schema';
+import type { Scenario } from '../../../layers/screening/scenario';
+import type { ProfileColumn } from './site-profile';
+import type { SiteSizing } from './site-sizing';
 
 export interface SiteRunRequest {
   type: 'run';
   input: SiteInputDraft;
+  /** For the pile sizing after the run. */
+  scenario: Scenario;
+  column: ProfileColumn;
 }
 
 export type SiteWorkerMessage =
   | { type: 'progress'; fraction: number }
-  | { type: 'done'; result: SiteResult; elapsed_ms: number }
+  | { type: 'sizing' }
+  | { type: 'done'; result: SiteResult; sizing: SiteSizing | null; elapsed_ms: number }
   | { type: 'error'; message: string };

@@ -1,62 +1,73 @@
 /**
- * Piles needed for the peak load by the three-pulse method (layers/site/pile-sizing.ts): how far each
- * design pulse (the design-life annual mean, the design month, the 6-hour peak) pulls the fluid below
- * the undisturbed ground at the chosen pile count; the largest one controls.
+ * Piles needed for the peak load by design pulse (site-sizing.ts, three-pulse method of
+ * layers/site/pile-sizing.ts): the count for the annual load alone, with the design month added, and
+ * with the peak hours added (the full design). The step that adds the most piles drives the design.
  */
-import type { PileFieldSizingResult, Pulse } from '../../../../layers/site/pile-sizing';
-import { displayConversion, type UnitSystem } from '../../units/display-units';
+import type { PileFieldSizingResult } from '../../../../layers/site/pile-sizing';
+import type { PulseCounts } from '../site-sizing';
 import { ChartFrame } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { niceDomain } from './chart-scale';
 
-const PULSES: { id: Pulse; label: string }[] = [
-  { id: 'annual', label: 'annual (design life)' },
-  { id: 'monthly', label: 'design month' },
-  { id: 'peak', label: 'peak hours' },
+const BARS: { id: keyof PulseCounts; label: string }[] = [
+  { id: 'annual', label: 'annual load alone' },
+  { id: 'monthly', label: '+ design month' },
+  { id: 'peak', label: '+ peak hours (full)' },
 ];
 
-export function PileCountChart(props: { sizing: PileFieldSizingResult; units: UnitSystem }) {
-  const s = props.sizing;
-  const conv = displayConversion('K', props.units);
-  const vals = PULSES.map((p) => s.pulseDrop_K[p.id] * conv.factor);
-  const yDomain = niceDomain(vals, 4, [0]);
+export function PileCountChart(props: { sizing: PileFieldSizingResult; byPulse: PulseCounts }) {
+  const { sizing: s, byPulse } = props;
+  const vals = BARS.map((b) => byPulse[b.id]);
+  const yDomain = niceDomain(
+    vals.filter((v): v is number => v !== null),
+    4,
+    [0],
+  );
+  const drops = `fluid drop by pulse at ${s.pileCount} piles: annual ${s.pulseDrop_K.annual.toFixed(1)} K, month ${s.pulseDrop_K.monthly.toFixed(1)} K, peak ${s.pulseDrop_K.peak.toFixed(1)} K`;
   return (
-    <ChartFrame
-      testId="chart-pulses"
-      title={`Piles needed: ${s.pileCount} (controlled by the ${PULSES.find((p) => p.id === s.controllingPulse)?.label})`}
-      description="Fluid temperature drop caused by each design pulse at the sized pile count; the largest controls the count."
-      xDomain={[0, 3]}
-      yDomain={yDomain}
-      xTicks={[0.5, 1.5, 2.5]}
-      xTickLabel={(v) => PULSES[Math.floor(v)]?.label ?? ''}
-      xLabel="design pulse"
-      yLabel={`fluid drop (${conv.unit.replace(' (difference)', '')})`}
-      legend={[
-        { label: 'controlling pulse', colour: C.withPile, kind: 'box' },
-        { label: 'other pulses', colour: C.bar, kind: 'box' },
-      ]}
-      height={220}
-    >
-      {(x, y) =>
-        PULSES.map((p, i) => {
-          const w = (x(1) - x(0)) * 0.5;
-          const v = vals[i];
-          return (
-            <g key={p.id}>
-              <rect
-                x={x(i + 0.5) - w / 2}
-                y={y(Math.max(0, v))}
-                width={w}
-                height={Math.abs(y(0) - y(v))}
-                fill={p.id === s.controllingPulse ? C.withPile : C.bar}
-              />
-              <text x={x(i + 0.5)} y={y(Math.max(0, v)) - 4} textAnchor="middle" className="marker-label">
-                {v.toFixed(1)}
-              </text>
-            </g>
-          );
-        })
-      }
-    </ChartFrame>
+    <>
+      <ChartFrame
+        testId="chart-pulses"
+        title={`Piles needed by design pulse: ${s.pileCount} in all (${s.controllingPulse} pulse controls)`}
+        description={`Pile count for the annual load alone, with the design month, and with the peak hours; ${drops}.`}
+        xDomain={[0, 3]}
+        yDomain={yDomain}
+        xTicks={[0.5, 1.5, 2.5]}
+        xTickLabel={(v) => BARS[Math.floor(v)]?.label ?? ''}
+        xLabel="design pulses included"
+        yLabel="piles needed"
+        legend={[
+          { label: 'full design', colour: C.withPile, kind: 'box' },
+          { label: 'with fewer pulses', colour: C.bar, kind: 'box' },
+        ]}
+        height={220}
+      >
+        {(x, y) =>
+          BARS.map((b, i) => {
+            const v = vals[i];
+            if (v === null) return null;
+            const w = (x(1) - x(0)) * 0.5;
+            return (
+              <g key={b.id}>
+                <rect
+                  x={x(i + 0.5) - w / 2}
+                  y={y(v)}
+                  width={w}
+                  height={y(0) - y(v)}
+                  fill={b.id === 'peak' ? C.withPile : C.bar}
+                />
+                <text x={x(i + 0.5)} y={y(v) - 4} textAnchor="middle" className="marker-label">
+                  {v}
+                </text>
+              </g>
+            );
+          })
+        }
+      </ChartFrame>
+      <p className="hint">
+        Each count is its own sizing; the near-square layout changes with the count, so neighbouring counts
+        can differ by a few piles. {drops[0].toUpperCase() + drops.slice(1)}.
+      </p>
+    </>
   );
 }
