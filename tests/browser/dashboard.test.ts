@@ -140,7 +140,6 @@ describe('dashboard', () => {
   });
 
   it('a filter changes the matching counter and fades cells without refetching', async () => {
-    await openApp(s.page);
     const before = await regionCells(s.page);
     const band = s.manifest.bands.find((b) => b.unit === '°C' && b.max > b.min) ?? s.manifest.bands[0];
     await s.page.selectOption('[data-testid=filter-add]', band.id);
