@@ -1,7 +1,8 @@
 /**
  * Piles needed for the peak load by design pulse (site-sizing.ts, three-pulse method of
  * layers/site/pile-sizing.ts): the count for the annual load alone, with the design month added, and
- * with the peak hours added (the full design). The step that adds the most piles drives the design.
+ * with the peak hours added (the full design). The step that adds the most piles drives the design; a
+ * step can also remove piles when its pulse is weaker than the previous one.
  */
 import type { PileFieldSizingResult } from '../../../../layers/site/pile-sizing';
 import type { PulseCounts } from '../site-sizing';
@@ -65,8 +66,10 @@ export function PileCountChart(props: { sizing: PileFieldSizingResult; byPulse: 
         }
       </ChartFrame>
       <p className="hint">
-        Each count is its own sizing; the near-square layout changes with the count, so neighbouring counts
-        can differ by a few piles. {drops[0].toUpperCase() + drops.slice(1)}.
+        Each count is its own sizing. A count can fall when a pulse is weaker than the one before it (the peak
+        hours&apos; ground load, taken at the heat pump&apos;s lowest COP, can lie below the design
+        month&apos;s mean), and the near-square layout shifts counts by a few piles.{' '}
+        {drops[0].toUpperCase() + drops.slice(1)}.
       </p>
     </>
   );
