@@ -14,7 +14,8 @@ export type ResampleMethod = 'nearest' | 'bilinear';
 /**
  * Centres of analysis rows [row0, row1) in `crs`, as interleaved x, y. Transforms exactly every
  * `stride`-th cell of each row and interpolates linearly between them (projections are smooth at
- * these scales; stride 1 = every cell exact).
+ * these scales; stride 1 = every cell exact). Where geographic longitudes wrap across the
+ * antimeridian between two exact points, the cells in between are transformed exactly.
  */
 export function cellCentresIn(target: AnalysisGrid, row0: number, row1: number, crs: string, stride = 8) {
   const toSource = createTransform(target.crs, crs);
@@ -30,7 +31,14 @@ export function cellCentresIn(target: AnalysisGrid, row0: number, row1: number, 
       const p = toSource(gt[0] + (c + 0.5) * gt[1], y);
       out[base + 2 * c] = p[0];
       out[base + 2 * c + 1] = p[1];
-      if (prevCol >= 0) {
+      if (prevCol >= 0 && Math.abs(p[0] - prev[0]) > 180) {
+        // Longitudes wrapping across the antimeridian: transform the cells in between exactly.
+        for (let k = prevCol + 1; k < c; k++) {
+          const q = toSource(gt[0] + (k + 0.5) * gt[1], y);
+          out[base + 2 * k] = q[0];
+          out[base + 2 * k + 1] = q[1];
+        }
+      } else if (prevCol >= 0) {
         for (let k = prevCol + 1; k < c; k++) {
           const t = (k - prevCol) / (c - prevCol);
           out[base + 2 * k] = prev[0] + t * (p[0] - prev[0]);

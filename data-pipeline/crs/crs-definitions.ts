@@ -16,7 +16,7 @@ export const CRS_DEFINITIONS: Record<string, string> = {
     '+proj=stere +lat_0=90 +lat_ts=70 +lon_0=-45 +k=1 +x_0=0 +y_0=0 +datum=WGS84 +units=m +no_defs',
   // WGS 84 / Arctic Polar Stereographic, true scale at 71°N.
   'EPSG:3995': '+proj=stere +lat_0=90 +lat_ts=71 +lon_0=0 +k=1 +x_0=0 +y_0=0 +datum=WGS84 +units=m +no_defs',
-  // NAD83 / Alaska Albers (NAD83 taken as WGS 84: sub-metre difference at 1 km cells).
+  // NAD83 / Alaska Albers (NAD83 taken as WGS 84: a metre or two apart, negligible at 1 km cells).
   'EPSG:3338':
     '+proj=aea +lat_0=50 +lon_0=-154 +lat_1=55 +lat_2=65 +x_0=0 +y_0=0 +ellps=GRS80 +towgs84=0,0,0,0,0,0,0 +units=m +no_defs',
   // NAD83 / Canada Atlas Lambert.

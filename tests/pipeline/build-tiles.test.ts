@@ -120,7 +120,7 @@ describe('build on a small demo region', () => {
     const decoded = await decodeAt(lon, lat);
     const band = (id: string) => manifest.bands.find((b) => b.id === id)!;
     // Tolerances: quantisation (scale / 2) plus the pipeline interpolating projected coordinates between
-    // exact transforms every 8 cells (a sub-metre shift of the sampling point): 0.2 % of the value.
+    // exact transforms every 8 cells (a shift of the sampling point of a few metres): 0.2 % of the value.
     for (const id of ['groundTemp', 'activeLayer', 'extractionPerPile', 'pilesPerTon']) {
       expect(Number.isFinite(want(id)), id).toBe(true);
       expect(Math.abs(decoded[id] - want(id)), id).toBeLessThanOrEqual(
