@@ -132,6 +132,15 @@ describe('site summary', () => {
     expect(notes.some((n) => n.kind === 'adfreeze')).toBe(true);
   });
 
+  it('says the ground is unfrozen from the start instead of giving a thaw year 0 adfreeze note', () => {
+    const r = fakeResult();
+    const thawed = { ...r.noPile, probes: r.noPile.probes.map((p) => ({ ...p, thawYear: 0 })) };
+    const notes = siteNotes(input, { ...r, noPile: thawed }, [], -8, input.probes.length);
+    const adfreeze = notes.filter((n) => n.kind === 'adfreeze');
+    expect(adfreeze).toHaveLength(1);
+    expect(adfreeze[0].text).toContain('unfrozen from the start');
+  });
+
   it('notes the fluid limit when the fluid reaches the lowest entering temperature', () => {
     const notes = siteNotes(input, fakeResult(), [], -5, input.probes.length);
     expect(notes.some((n) => n.kind === 'fluid')).toBe(true);
