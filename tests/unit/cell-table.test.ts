@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import proj4 from 'proj4';
-import { buildCellTable, cellIndexAt, greatCircle_m, samplingZoom } from '../../web/src/data/cell-table';
+import {
+  buildCellTable,
+  cellIndexAt,
+  greatCircle_m,
+  localDistance_m,
+  samplingZoom,
+} from '../../web/src/data/cell-table';
 import { lonLatToTileXY, tilesCovering } from '../../web/src/map/web-mercator';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
 import { testManifest } from './web-test-manifest';
@@ -93,8 +99,8 @@ describe('cell table', () => {
 
   it('measures great-circle distances on the mean sphere', () => {
     // One degree of longitude on the equator: 2π·6371008.8/360 = 111 195.08 m (computed).
-    expect(greatCircle_m(0, 0, 1, 0)).toBeCloseTo(111195.08, 1);
-    expect(greatCircle_m(10, 60, 10, 60)).toBe(0);
+    expect(greatCircle_m([0, 0], [1, 0])).toBeCloseTo(111195.08, 1);
+    expect(greatCircle_m([10, 60], [10, 60])).toBe(0);
   });
 
   it('addresses Web Mercator tiles consistently', () => {
@@ -102,5 +108,19 @@ describe('cell table', () => {
     const { x0: a, x1: b, y0: c, y1: d } = tilesCovering([-3.01, 74.99, -2.99, 75.01], 6);
     expect([a, c]).toEqual([Math.floor(tx), Math.floor(ty)]);
     expect([b, d]).toEqual([Math.floor(tx), Math.floor(ty)]);
+  });
+});
+
+describe('local ellipsoidal distance', () => {
+  it('matches the WGS 84 meridian and parallel arc lengths for short steps', () => {
+    // WGS 84 radii of curvature at 75° N (Snyder 1987, eqs. 4-18 and 4-20, computed with a = 6378137 m,
+    // e² = 0.00669437999014); a degree of latitude is M·π/180, of longitude N·cos φ·π/180.
+    const e2 = 0.00669437999014;
+    const phi = (75 * Math.PI) / 180;
+    const w = 1 - e2 * Math.sin(phi) ** 2;
+    const M = (6378137 * (1 - e2)) / w ** 1.5;
+    const N = 6378137 / Math.sqrt(w);
+    expect(localDistance_m([0, 74.995], [0, 75.005])).toBeCloseTo((M * Math.PI) / 180 / 100, 1);
+    expect(localDistance_m([0, 75], [0.01, 75])).toBeCloseTo((N * Math.cos(phi) * Math.PI) / 180 / 100, 1);
   });
 });

@@ -21,8 +21,8 @@ describe('default site names', () => {
 
   it('computes compass bearings', () => {
     // Due east along the equator is 90°, due north 0°, due west 270° (spherical trigonometry).
-    expect(bearing_deg(0, 0, 1, 0)).toBeCloseTo(90, 9);
-    expect(bearing_deg(0, 0, 0, 1)).toBeCloseTo(0, 9);
-    expect(bearing_deg(0, 0, -1, 0)).toBeCloseTo(270, 9);
+    expect(bearing_deg([0, 0], [1, 0])).toBeCloseTo(90, 9);
+    expect(bearing_deg([0, 0], [0, 1])).toBeCloseTo(0, 9);
+    expect(bearing_deg([0, 0], [-1, 0])).toBeCloseTo(270, 9);
   });
 });

@@ -103,8 +103,8 @@ export function buildCellTable(input: CellTableInput): CellTable {
       area[count] =
         cellSize_m *
         cellSize_m *
-        (localDistance_m(lo, la, lonE, latE) / half) *
-        (localDistance_m(lo, la, lonN, latN) / half);
+        (localDistance_m([lo, la], [lonE, latE]) / half) *
+        (localDistance_m([lo, la], [lonN, latN]) / half);
       colA[count] = c;
       rowA[count] = r;
       lookup[r * width + c] = count;
@@ -150,11 +150,14 @@ export function samplingZoom(manifest: Manifest, lat: number): number {
   return maxZoom;
 }
 
+/** A position [longitude, latitude] in degrees (GeoJSON order). */
+export type LonLat = [number, number];
+
 const WGS84_A = 6378137;
 const WGS84_E2 = 0.00669437999014;
 
 /** Distance between two nearby points (< a few km) from the WGS 84 local radii of curvature, m. */
-export function localDistance_m(lon1: number, lat1: number, lon2: number, lat2: number): number {
+export function localDistance_m([lon1, lat1]: LonLat, [lon2, lat2]: LonLat): number {
   const d = Math.PI / 180;
   const phi = ((lat1 + lat2) / 2) * d;
   const w = 1 - WGS84_E2 * Math.sin(phi) ** 2;
@@ -166,7 +169,7 @@ export function localDistance_m(lon1: number, lat1: number, lon2: number, lat2: 
 }
 
 /** Haversine distance on the sphere of mean radius 6371008.8 m. */
-export function greatCircle_m(lon1: number, lat1: number, lon2: number, lat2: number): number {
+export function greatCircle_m([lon1, lat1]: LonLat, [lon2, lat2]: LonLat): number {
   const d = Math.PI / 180;
   const s1 = Math.sin(((lat2 - lat1) * d) / 2);
   const s2 = Math.sin(((lon2 - lon1) * d) / 2);

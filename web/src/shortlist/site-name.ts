@@ -5,12 +5,12 @@
  * to 8 points.
  */
 import type { FeatureCollection } from 'geojson';
-import { greatCircle_m } from '../data/cell-table';
+import { greatCircle_m, type LonLat } from '../data/cell-table';
 
 const POINTS = ['N', 'NE', 'E', 'SE', 'S', 'SW', 'W', 'NW'];
 
 /** Initial great-circle bearing from (lon1, lat1) to (lon2, lat2), degrees clockwise from north. */
-export function bearing_deg(lon1: number, lat1: number, lon2: number, lat2: number): number {
+export function bearing_deg([lon1, lat1]: LonLat, [lon2, lat2]: LonLat): number {
   const d = Math.PI / 180;
   const y = Math.sin((lon2 - lon1) * d) * Math.cos(lat2 * d);
   const x =
@@ -31,11 +31,11 @@ export function defaultSiteName(
     const [slon, slat] = f.geometry.coordinates;
     const name = f.properties?.name;
     if (typeof name !== 'string') continue;
-    const d = greatCircle_m(slon, slat, lon, lat);
+    const d = greatCircle_m([slon, slat], [lon, lat]);
     if (!best || d < best.d) best = { name, lon: slon, lat: slat, d };
   }
   if (!best) return `Site ${ordinal}`;
   if (best.d < 1000) return `Site ${ordinal}, at ${best.name}`;
-  const dir = POINTS[Math.round(bearing_deg(best.lon, best.lat, lon, lat) / 45) % 8];
+  const dir = POINTS[Math.round(bearing_deg([best.lon, best.lat], [lon, lat]) / 45) % 8];
   return `Site ${ordinal}, ${Math.round(best.d / 1000)} km ${dir} of ${best.name}`;
 }
