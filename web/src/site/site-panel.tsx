@@ -26,7 +26,7 @@ export function nearestSettlement(
   for (const f of settlements?.features ?? []) {
     if (f.geometry?.type !== 'Point') continue;
     const [x, y] = f.geometry.coordinates;
-    const d = greatCircle_m(lon, lat, x, y);
+    const d = greatCircle_m([lon, lat], [x, y]);
     const name = f.properties?.name;
     if (d <= bestD && typeof name === 'string') {
       best = name;
