@@ -1,8 +1,18 @@
 import { cp, readdir, readFile, rm, truncate, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { writeArrayBuffer } from 'geotiff';
-import { beforeAll, describe, expect, it } from 'vitest';
-import { hashTree, makeTempDir, runCli, SMALL_DEMO, smallDemo, writePlainTiff } from './pipeline-fixtures';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  hashTree,
+  makeTempDir,
+  runCli,
+  SMALL_DEMO,
+  smallDemo,
+  writePlainTiff,
+  removeTempDirs,
+} from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 let demoDir: string;
 let outDir: string;

@@ -1,11 +1,13 @@
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fromFile } from 'geotiff';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles, type BuildSummary } from '../../data-pipeline/build/build-tiles';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
-import { hashTree, makeTempDir, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+import { hashTree, makeTempDir, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 let serialDir: string;
 let parallelDir: string;

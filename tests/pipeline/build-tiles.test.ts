@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles, type BuildSummary } from '../../data-pipeline/build/build-tiles';
 import { resampleAt } from '../../data-pipeline/build/resample-to-grid';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
@@ -12,7 +12,9 @@ import { createScreeningModel } from '../../layers/screening/cell-screening-mode
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { CellInputs } from '../../layers/screening/screening-model';
 import { TILE_SIZE, unpackTile } from '../../layers/screening/tile-format';
-import { makeTempDir, sha256OfFile, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+import { makeTempDir, sha256OfFile, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 let inDir: string;
 let outDir: string;

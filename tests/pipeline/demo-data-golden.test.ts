@@ -6,8 +6,10 @@
  */
 import { readdir, readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
-import { sha256OfFile, smallDemo } from './pipeline-fixtures';
+import { afterAll, describe, expect, it } from 'vitest';
+import { sha256OfFile, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 const GOLDEN = join(import.meta.dirname, 'golden', 'demo-data-seed7-scale4.json');
 

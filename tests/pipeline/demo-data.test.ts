@@ -1,13 +1,15 @@
 import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fromFile } from 'geotiff';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import { GRID_ROLES, inputsConfigSchema } from '../../data-pipeline/inputs-config';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
 import { resampleAt } from '../../data-pipeline/build/resample-to-grid';
 import { TEXTURE_CODES } from '../../layers/screening/screening-model';
-import { sha256OfFile, smallDemo } from './pipeline-fixtures';
+import { sha256OfFile, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 let dirA: string;
 let dirB: string;

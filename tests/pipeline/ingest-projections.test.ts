@@ -1,13 +1,15 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles, type BuildSummary } from '../../data-pipeline/build/build-tiles';
 import { resampleAt } from '../../data-pipeline/build/resample-to-grid';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import { writeBandGeoTiff } from '../../data-pipeline/export/write-band-geotiff';
 import { inputsConfigSchema } from '../../data-pipeline/inputs-config';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
-import { makeTempDir, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+import { makeTempDir, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 /** Reproject a demo grid into `crs` at `pixel_m`, over the data footprint (the region ±250 km). */
 async function reproject(

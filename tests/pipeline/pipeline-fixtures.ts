@@ -1,6 +1,6 @@
 /** Shared fixtures for the pipeline tests: temporary directories, hashes, a small demo region. */
 import { createHash } from 'node:crypto';
-import { mkdtemp, readdir, readFile, writeFile } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { vi } from 'vitest';
@@ -10,8 +10,17 @@ import { generateDemoData } from '../../data-pipeline/demo/generate-demo-data';
 /** Coarse settings so a whole demo build takes a second or two. */
 export const SMALL_DEMO = { resolutionScale: 4, cellSize_m: 4000 } as const;
 
+const tempDirs: string[] = [];
+
+/** A fresh temporary directory, removed by removeTempDirs (call it in afterAll). */
 export async function makeTempDir(prefix: string): Promise<string> {
-  return mkdtemp(join(tmpdir(), `pile-atlas-${prefix}-`));
+  const dir = await mkdtemp(join(tmpdir(), `pile-atlas-${prefix}-`));
+  tempDirs.push(dir);
+  return dir;
+}
+
+export async function removeTempDirs(): Promise<void> {
+  await Promise.all(tempDirs.splice(0).map((d) => rm(d, { recursive: true, force: true })));
 }
 
 export async function sha256OfFile(path: string): Promise<string> {

@@ -1,11 +1,13 @@
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles } from '../../data-pipeline/build/build-tiles';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
 import { compileWhere, type ExpressionBand } from '../../data-pipeline/shortlist/where-expression';
 import { SCREENING_CAUTION } from '../../layers/cautions';
-import { makeTempDir, runCli, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+import { makeTempDir, runCli, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
+
+afterAll(removeTempDirs);
 
 const BANDS: ExpressionBand[] = [
   { id: 'thawDelay', unit: 'yr', kind: 'continuous' },
