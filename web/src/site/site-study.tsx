@@ -11,7 +11,8 @@ import { screenCell, type CellScreening } from '../../../layers/screening/cell-s
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import type { UnitSystem } from '../units/display-units';
-import { fieldId, SchemaField, type FormContext } from './site-form';
+import { SchemaField } from './site-form';
+import { fieldId, type FormContext } from './form-inputs';
 import { flattenInputs, issuesByPath } from './schema-form-model';
 import { cellInputsFromSite, scenarioFromManifest, type SitePrefill } from './site-prefill';
 import { withProfileProbes } from './site-profile';
