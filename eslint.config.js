@@ -23,9 +23,18 @@ export default tseslint.config(
         'error',
         {
           patterns: [
-            { group: ['node:*', 'fs', 'path', 'os', 'worker_threads', 'child_process'], message: 'layers/ is pure: no Node APIs' },
-            { group: ['react', 'react-dom', 'maplibre-gl', '@deck.gl/*'], message: 'layers/ is pure: no UI imports' },
-            { group: ['**/web/**', '**/data-pipeline/**'], message: 'layers/ must not import from the edges' },
+            {
+              group: ['node:*', 'fs', 'path', 'os', 'worker_threads', 'child_process'],
+              message: 'layers/ is pure: no Node APIs',
+            },
+            {
+              group: ['react', 'react-dom', 'maplibre-gl', '@deck.gl/*'],
+              message: 'layers/ is pure: no UI imports',
+            },
+            {
+              group: ['**/web/**', '**/data-pipeline/**'],
+              message: 'layers/ must not import from the edges',
+            },
           ],
         },
       ],

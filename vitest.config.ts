@@ -9,6 +9,7 @@ export default defineConfig({
           include: ['tests/{unit,reference,pipeline}/**/*.test.ts'],
           environment: 'node',
           testTimeout: 60_000,
+          hookTimeout: 120_000,
         },
       },
       {

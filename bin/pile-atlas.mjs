@@ -8,7 +8,11 @@ import { fileURLToPath } from 'node:url';
 const here = dirname(fileURLToPath(import.meta.url));
 const require = createRequire(import.meta.url);
 const tsxCli = require.resolve('tsx/cli');
-const result = spawnSync(process.execPath, [tsxCli, join(here, '..', 'data-pipeline', 'cli.ts'), ...process.argv.slice(2)], {
-  stdio: 'inherit',
-});
+const result = spawnSync(
+  process.execPath,
+  [tsxCli, join(here, '..', 'data-pipeline', 'cli.ts'), ...process.argv.slice(2)],
+  {
+    stdio: 'inherit',
+  },
+);
 process.exit(result.status ?? 1);

@@ -3,7 +3,7 @@
  * of worker threads. Inputs are resampled per window, so only the input grids (shared, read-only) and
  * the output bands (shared Float32, cells x bands x 4 bytes) are held whole. Output bands: the model's
  * layers, a few input layers echoed for the map (texture, bedrock depth, water content, air
- * temperature), then `inputFlags`, a bit mask of the optional inputs that fell back to a default.
+ * temperature, its annual amplitude and warming trend: the site panel prefills from them), then `inputFlags`, a bit mask of the optional inputs that fell back to a default.
  */
 import { Worker } from 'node:worker_threads';
 import type { ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
@@ -54,6 +54,8 @@ const ECHO_LAYERS: ScreeningLayer[] = [
   continuousEcho('bedrockDepth_m', 'Depth to bedrock', 'm', 'cividis', [0, 40]),
   continuousEcho('waterContent_m3m3', 'Volumetric water + ice content', 'm³/m³', 'viridis', [0, 1]),
   continuousEcho('meanAirTemp_C', 'Mean annual air temperature', '°C', 'blueOrange', [-14, 2]),
+  continuousEcho('airAmplitude_C', 'Annual air temperature amplitude', 'K', 'viridis', [8, 26]),
+  continuousEcho('warming_C_per_yr', 'Air warming trend', 'K/yr', 'cividis', [0, 0.1]),
 ];
 
 function flagsLayer(): ScreeningLayer {

@@ -12,6 +12,8 @@ export const TILE_SIZE = 256;
 export const NODATA_CODE = 65535;
 export const MAX_CODE = 65534;
 
+const LITTLE_ENDIAN_HOST = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
 export interface BandQuantisation {
   scale: number;
   offset: number;
@@ -62,10 +64,23 @@ export function unpackTile(bytes: ArrayBuffer | Uint8Array, quant: BandQuantisat
       `unpackTile: ${u8.byteLength} bytes, expected ${quant.length * n * 2} for ${quant.length} bands`,
     );
   }
+  // Fast path: read the codes through a Uint16Array where the host is little-endian and aligned.
+  const codes =
+    LITTLE_ENDIAN_HOST && u8.byteOffset % 2 === 0
+      ? new Uint16Array(u8.buffer, u8.byteOffset, u8.byteLength / 2)
+      : null;
   const view = new DataView(u8.buffer, u8.byteOffset, u8.byteLength);
   return quant.map((q, b) => {
     const plane = new Float32Array(n);
-    for (let i = 0; i < n; i++) plane[i] = decodeValue(view.getUint16((b * n + i) * 2, true), q);
+    const base = b * n;
+    if (codes) {
+      for (let i = 0; i < n; i++) {
+        const code = codes[base + i];
+        plane[i] = code === NODATA_CODE ? NaN : q.offset + code * q.scale;
+      }
+    } else {
+      for (let i = 0; i < n; i++) plane[i] = decodeValue(view.getUint16((base + i) * 2, true), q);
+    }
     return plane;
   });
 }
