@@ -40,8 +40,26 @@ export function dataDirMiddleware(dir: string): Connect.NextHandleFunction {
       return;
     }
     res.setHeader('Content-Type', CONTENT_TYPES[extname(file)] ?? 'application/octet-stream');
-    res.setHeader('Content-Length', String(size));
     res.setHeader('Cache-Control', 'no-cache');
+    res.setHeader('Accept-Ranges', 'bytes');
+    // One byte range (RFC 9110 section 14): the map reads single bands of a tile this way.
+    const range = /^bytes=(\d+)-(\d+)$/.exec(req.headers.range ?? '');
+    if (range) {
+      const start = Number(range[1]);
+      const end = Math.min(Number(range[2]), size - 1);
+      if (start > end) {
+        res.statusCode = 416;
+        res.setHeader('Content-Range', `bytes */${size}`);
+        res.end();
+        return;
+      }
+      res.statusCode = 206;
+      res.setHeader('Content-Range', `bytes ${start}-${end}/${size}`);
+      res.setHeader('Content-Length', String(end - start + 1));
+      createReadStream(file, { start, end }).pipe(res);
+      return;
+    }
+    res.setHeader('Content-Length', String(size));
     createReadStream(file).pipe(res);
   };
 }

@@ -5,7 +5,7 @@
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
 import { SCREENING_CAUTION } from '../../layers/cautions';
-import { AtlasLoadError, loadAtlas, loadCellTable, prefetchRegionTiles, type Atlas } from './data/load-atlas';
+import { AtlasLoadError, loadAtlas, loadCellTable, type Atlas } from './data/load-atlas';
 import { cellIndexAt, type CellTable } from './data/cell-table';
 import { compileFilter, EMPTY_FILTER, type FilterSpec } from './filters/cell-filter';
 import { boundaryArea_km2, boundaryMask, summarise, type Boundary } from './filters/zonal-summary';
@@ -107,9 +107,6 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   // The cell table (readout, counters, panel) loads right after the first map paint, so that it does
   // not compete with the visible tiles; at the latest 6 s after start.
   const [tableWanted, setTableWanted] = useState(false);
-  useEffect(() => {
-    prefetchRegionTiles(atlas).catch(() => undefined); // errors resurface in loadCellTable
-  }, [atlas]);
   useEffect(() => {
     const t = setTimeout(() => setTableWanted(true), 6000);
     return () => clearTimeout(t);

@@ -107,6 +107,13 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     if (!overlay) return;
     const { atlas, style, styleKey, boundaryRings, drawingPath, selected, shortlist } = props;
     const { manifest, tiles } = atlas;
+    // Only the drawn band and the filtered bands are fetched for drawing (Range requests per band).
+    const neededBands = [
+      ...new Set([
+        style.bandIndex,
+        ...(style.filter.active ? [...style.filter.rangeBands, ...style.filter.classBands] : []),
+      ]),
+    ].sort((a, b) => a - b);
     const layers: Layer[] = [
       new TileLayer<Float32Array[] | null>({
         id: 'screening',
@@ -115,9 +122,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
         maxZoom: manifest.tiles.maxZoom,
         extent: manifest.region.bounds,
         maxRequests: 8,
-        getTileData: ({ index }) => tiles.get(index.z, index.x, index.y),
+        getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
         onViewportLoad: () => latest.current.onViewportLoad?.(),
-        updateTriggers: { renderSubLayers: [styleKey] },
+        updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
         renderSubLayers: (sub) => {
           const planes = sub.data;
           if (!planes) return null;
