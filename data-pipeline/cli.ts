@@ -71,6 +71,11 @@ export async function main(argv: string[]): Promise<number> {
 
 const invokedDirectly = process.argv[1] !== undefined && /cli\.[cm]?[jt]s$/.test(process.argv[1]);
 if (invokedDirectly) {
+  // A reader that stops early (`| head`) closes the pipe: that is not an error of ours.
+  process.stdout.on('error', (err: NodeJS.ErrnoException) => {
+    if (err.code === 'EPIPE') process.exit(EXIT_OK);
+    throw err;
+  });
   main(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;
