@@ -1,30 +1,10 @@
 /** `pile-atlas cell <input.json>`: one cell's screening metrics, flags and criteria as JSON. */
-import { readFile } from 'node:fs/promises';
 import { parseCellInputs, screenCell } from '../../layers/screening/cell-screening-model';
 import { parseScenario } from '../../layers/screening/scenario';
 import { InputError } from '../input-error';
 import type { Command } from './command';
+import { readJsonInput } from './read-json-input';
 import { parseOptions } from './parse-options';
-
-async function readJson(file: string): Promise<unknown> {
-  let text: string;
-  try {
-    text = file === '-' ? await readStdin() : await readFile(file, 'utf8');
-  } catch (err) {
-    throw new InputError(`${file}: cannot read (${(err as Error).message})`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
-  }
-}
-
-async function readStdin(): Promise<string> {
-  const chunks: Buffer[] = [];
-  for await (const c of process.stdin) chunks.push(c as Buffer);
-  return Buffer.concat(chunks).toString('utf8');
-}
 
 function isRecord(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
@@ -59,14 +39,14 @@ Options:
       throw new InputError('cell: expected exactly one input file (or - for stdin)');
     }
     const file = opts.positional[0];
-    const raw = await readJson(file);
+    const raw = await readJsonInput(file);
     const wrapped = isRecord(raw) && 'cell' in raw;
     const cellJson = wrapped ? raw.cell : raw;
     let scenarioJson: unknown = wrapped ? (raw.scenario ?? {}) : {};
     let scenarioFile = wrapped ? `${file}: scenario` : '(defaults)';
     if (opts.values.scenario !== undefined) {
       scenarioFile = opts.values.scenario;
-      scenarioJson = await readJson(scenarioFile);
+      scenarioJson = await readJsonInput(scenarioFile);
     }
     try {
       parseCellInputs(cellJson);

@@ -1,30 +1,10 @@
 /** `pile-atlas site <input.json | ->`: the single-site transient simulation, JSON in, JSON out. */
-import { readFile } from 'node:fs/promises';
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
 import { formatZodIssues, InputError } from '../input-error';
 import type { Command } from './command';
+import { readJsonInput } from './read-json-input';
 import { parseOptions } from './parse-options';
-
-async function readStdin(): Promise<string> {
-  const chunks: Buffer[] = [];
-  for await (const c of process.stdin) chunks.push(c as Buffer);
-  return Buffer.concat(chunks).toString('utf8');
-}
-
-async function readJson(file: string): Promise<unknown> {
-  let text: string;
-  try {
-    text = file === '-' ? await readStdin() : await readFile(file, 'utf8');
-  } catch (err) {
-    throw new InputError(`${file}: cannot read (${(err as Error).message})`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
-  }
-}
 
 export const siteCommand: Command = {
   name: 'site',
@@ -50,7 +30,7 @@ Options:
       throw new InputError('site: expected exactly one input file (or - for stdin)');
     }
     const file = opts.positional[0];
-    const raw = await readJson(file);
+    const raw = await readJsonInput(file);
     const parsed = siteInputSchema.safeParse(raw);
     if (!parsed.success) throw new InputError(formatZodIssues(file, parsed.error));
     let last = -1;
