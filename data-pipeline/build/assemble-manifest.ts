@@ -10,6 +10,7 @@ import type { ScreeningLayer } from '../../layers/screening/screening-model';
 import { NODATA_CODE, quantisationFor, TILE_SIZE } from '../../layers/screening/tile-format';
 import type { InputsConfig } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
+import { scanBand, type BandFiles } from './band-files';
 import type { LoadedInput } from './load-inputs';
 
 export async function toolVersion(): Promise<string> {
@@ -17,19 +18,42 @@ export async function toolVersion(): Promise<string> {
   return (JSON.parse(text) as { version: string }).version;
 }
 
-function bandRange(values: Float32Array): [number, number] {
-  let min = Infinity;
-  let max = -Infinity;
+/** Range of the values present in one band and, for class bands, the count of each value. */
+export interface BandStats {
+  range: [number, number];
+  counts?: Map<number, number>;
+}
+
+function accumulate(values: Float32Array, into: { min: number; max: number; counts?: Map<number, number> }) {
+  const counts = into.counts;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
-    if (v < min) min = v;
-    if (v > max) max = v;
+    if (v < into.min) into.min = v;
+    if (v > into.max) into.max = v;
+    if (counts && v === v) counts.set(v, (counts.get(v) ?? 0) + 1);
   }
-  return min <= max ? [min, max] : [0, 0];
+}
+
+/** Stats of one band file, read in bounded row chunks (band-files.ts scanBand). */
+export function bandStatsOf(files: BandFiles, band: number, kind: 'continuous' | 'class'): BandStats {
+  const acc = {
+    min: Infinity,
+    max: -Infinity,
+    counts: kind === 'class' ? new Map<number, number>() : undefined,
+  };
+  scanBand(files, band, (chunk) => accumulate(chunk, acc));
+  return { range: acc.min <= acc.max ? [acc.min, acc.max] : [0, 0], counts: acc.counts };
+}
+
+function bandRange(values: Float32Array | BandStats): [number, number] {
+  if (!(values instanceof Float32Array)) return values.range;
+  const acc = { min: Infinity, max: -Infinity };
+  accumulate(values, acc);
+  return acc.min <= acc.max ? [acc.min, acc.max] : [0, 0];
 }
 
 /** Manifest band for a layer: range of the values present, quantisation covering it. */
-export function bandFor(layer: ScreeningLayer, values: Float32Array): Band {
+export function bandFor(layer: ScreeningLayer, values: Float32Array | BandStats): Band {
   const [min, max] = bandRange(values);
   const q = layer.kind === 'class' ? { scale: 1, offset: 0 } : quantisationFor(min, max);
   return {
@@ -51,15 +75,15 @@ export function bandFor(layer: ScreeningLayer, values: Float32Array): Band {
 }
 
 /** Share of the screened cells in each class of a class band (label -> fraction). */
-export function classShares(values: Float32Array, classes: { value: number; label: string }[]) {
-  const counts = new Map<number, number>();
-  let total = 0;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (v !== v) continue;
-    counts.set(v, (counts.get(v) ?? 0) + 1);
-    total++;
+export function classShares(values: Float32Array | BandStats, classes: { value: number; label: string }[]) {
+  let counts = values instanceof Float32Array ? undefined : values.counts;
+  if (!counts) {
+    const acc = { min: Infinity, max: -Infinity, counts: new Map<number, number>() };
+    if (values instanceof Float32Array) accumulate(values, acc);
+    counts = acc.counts;
   }
+  let total = 0;
+  for (const c of counts.values()) total += c;
   const shares: Record<string, number> = {};
   for (const c of classes) {
     const n = counts.get(c.value) ?? 0;

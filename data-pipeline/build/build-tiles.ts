@@ -1,26 +1,34 @@
 /**
  * `pile-atlas build`: inputs directory -> screened tile pyramid, per-band GeoTIFFs and manifest.json.
  * read + validate inputs (load-inputs.ts) -> analysis grid in EPSG:3413 (analysis-grid.ts) -> screen
- * every cell with a ScreeningModel, in row windows across worker threads (compute-layers.ts) -> Web
+ * every cell with a ScreeningModel, in row windows across worker threads, each window's rows written to
+ * one raw Float32 file per band in the temporary output (compute-layers.ts, band-files.ts) -> Web
  * Mercator tiles with overviews (write-tile-pyramid.ts) -> one GeoTIFF per band in EPSG:3413
  * (write-band-geotiff.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
  * Everything is written into a temporary directory beside `outDir`, validated, then swapped in
  * (atomic-output.ts): on any error the previous output stays untouched.
+ * Memory budget, independent of the region's height and of its cell count (W = grid width, B = bands,
+ * T = threads): the input grids (read-only, shared, whole) plus per thread B x 32 rows x W x 4 B while
+ * screening; a max-zoom tile reads the box of cells under it (about 0.13 M cells x 4 B, one band at a
+ * time) and the depth-first pyramid keeps about two tiles of B x 256 KB per level; the main thread keeps
+ * the subtree roots from the tile workers (about 16 x T tiles at most); the GeoTIFF writer 2 x 64 rows x
+ * W x 4 B; band statistics 1 M cells x 4 B. The output bands are never held whole.
  */
 import { availableParallelism } from 'node:os';
-import { copyFile, mkdir, readdir, readFile, stat, writeFile } from 'node:fs/promises';
+import { copyFile, mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { manifestCriteria } from '../../layers/screening/cell-screening-model';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
-import { writeBandGeoTiff } from '../export/write-band-geotiff';
+import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-geotiff';
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
 import { analysisGridFor } from './analysis-grid';
-import { assembleManifest, bandFor, classShares } from './assemble-manifest';
+import { assembleManifest, bandFor, bandStatsOf, classShares } from './assemble-manifest';
 import { beginAtomicOutput } from './atomic-output';
+import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
@@ -101,38 +109,42 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     inputs.filter((i) => i.role.required).map((i) => ({ label: i.entry.file, grid: i.source.grid })),
     cellSize_m,
   );
-  const result = await computeLayers({
-    grid,
-    inputs,
-    model,
-    spec,
-    workers: options.workers ?? Math.min(8, availableParallelism()),
-    minCellsForWorkers: options.minCellsForWorkers,
-    onProgress: (d, t) => progress('screen', d, t),
-  });
-  if (result.cellsScreened === 0) {
-    throw new InputError(
-      `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
-    );
-  }
-  const bands = result.layers.map((layer, i) => bandFor(layer, result.bands[i]));
-  const margin = (2 * cellSize_m) / 111_000;
-  const b = result.bounds;
-  const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
-  const bounds: [number, number, number, number] = [
-    Math.max(-180, b[0] - lonMargin),
-    Math.max(-85, b[1] - margin),
-    Math.min(180, b[2] + lonMargin),
-    Math.min(85, b[3] + margin),
-  ];
-  const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
-
   const output = await beginAtomicOutput(outDir);
   try {
+    const bandsDir = join(output.dir, '.bands');
+    const result = await computeLayers({
+      grid,
+      bandsDir,
+      inputs,
+      model,
+      spec,
+      workers: options.workers ?? Math.min(8, availableParallelism()),
+      minCellsForWorkers: options.minCellsForWorkers,
+      onProgress: (d, t) => progress('screen', d, t),
+    });
+    if (result.cellsScreened === 0) {
+      throw new InputError(
+        `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
+      );
+    }
+    const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
+    const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
+    const margin = (2 * cellSize_m) / 111_000;
+    const b = result.bounds;
+    const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
+    const bounds: [number, number, number, number] = [
+      Math.max(-180, b[0] - lonMargin),
+      Math.max(-85, b[1] - margin),
+      Math.min(180, b[2] + lonMargin),
+      Math.min(85, b[3] + margin),
+    ];
+    const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
+
     const tilesByZoom = await writeTilePyramid({
       tilesDir: join(output.dir, 'tiles'),
       grid,
-      bands: bands.map((band, i) => ({ values: result.bands[i], kind: band.kind, quant: band })),
+      files: result.files,
+      bands: bands.map((band) => ({ kind: band.kind, quant: band })),
       minZoom,
       maxZoom,
       bounds,
@@ -145,15 +157,21 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       await mkdir(join(output.dir, 'geotiff'));
       for (let i = 0; i < bands.length; i++) {
         const file = `geotiff/${bands[i].id}.tif`;
-        await writeBandGeoTiff({
-          path: join(output.dir, file),
-          values: result.bands[i],
-          width: grid.width,
-          height: grid.height,
-          geoTransform: grid.geoTransform,
-          crs: grid.crs,
-          description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
-        });
+        const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
+        const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
+        try {
+          await writeBandGeoTiff({
+            path: join(output.dir, file),
+            readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
+            width: grid.width,
+            height: grid.height,
+            geoTransform: grid.geoTransform,
+            crs: grid.crs,
+            description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+          });
+        } finally {
+          closeBandFds([fd]);
+        }
         geotiffs[bands[i].id] = file;
         progress('geotiff', i + 1, bands.length);
       }
@@ -164,8 +182,9 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
     const shares: Record<string, Record<string, number>> = {};
     result.layers.forEach((layer, i) => {
-      if (layer.classes) shares[layer.id] = classShares(result.bands[i], layer.classes);
+      if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
     });
+    await rm(bandsDir, { recursive: true, force: true });
     const seconds = (Date.now() - started) / 1000;
     const summary = {
       cellsTotal: result.cellsTotal,

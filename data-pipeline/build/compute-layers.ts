@@ -1,15 +1,18 @@
 /**
- * Screens every analysis cell, window by window (blocks of rows), on the main thread or across a pool
- * of worker threads. Inputs are resampled per window, so only the input grids (shared, read-only) and
- * the output bands (shared Float32, cells x bands x 4 bytes) are held whole. Output bands: the model's
- * layers, a few input layers echoed for the map (texture, bedrock depth, water content, air
- * temperature, its annual amplitude and warming trend: the site panel prefills from them), then `inputFlags`, a bit mask of the optional inputs that fell back to a default.
+ * Screens every analysis cell, window by window (blocks of rows), on the main thread or across a pool of
+ * worker threads. Inputs are resampled per window and each window's output rows go straight to the band
+ * files (band-files.ts), so only the input grids (read-only) are held whole; the output costs bands x
+ * windowRows x width x 4 bytes per screening thread, whatever the region's height. Output bands: the
+ * model's layers, a few input layers echoed for the map (texture, bedrock depth, water content, air
+ * temperature, its annual amplitude and warming trend: the site panel prefills from them), then
+ * `inputFlags`, a bit mask of the optional inputs that fell back to a default.
  */
 import { Worker } from 'node:worker_threads';
 import type { ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
 import { TEXTURE_CODES } from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
+import { createBandFiles, type BandFiles } from './band-files';
 import type { LoadedInput } from './load-inputs';
 import type { ModelSpec } from './model-spec';
 import {
@@ -85,7 +88,8 @@ function flagsLayer(): ScreeningLayer {
 
 export interface ComputeResult extends WindowStats {
   layers: ScreeningLayer[];
-  bands: Float32Array[];
+  /** The output bands, one file each (in the order of `layers`). */
+  files: BandFiles;
   cellsTotal: number;
   workers: number;
 }
@@ -94,6 +98,8 @@ export interface ComputeOptions {
   grid: AnalysisGrid;
   inputs: LoadedInput[];
   model: ScreeningModel;
+  /** Directory that receives the band files (created; the caller removes it). */
+  bandsDir: string;
   /** When given (and workers > 1), each worker builds its own model from this spec. */
   spec?: ModelSpec;
   workers?: number;
@@ -152,7 +158,7 @@ function runPool(
 
 /** Screen every cell of the analysis grid. */
 export async function computeLayers(options: ComputeOptions): Promise<ComputeResult> {
-  const { grid, inputs, model, spec, windowRows = 32, onProgress } = options;
+  const { grid, inputs, model, spec, bandsDir, windowRows = 32, onProgress } = options;
   const present = new Set(inputs.map((i) => i.entry.role));
   const modelIds = new Set(model.layers.map((l) => l.id));
   // Echo an input only when the model has no layer of that name (with or without its unit suffix).
@@ -162,7 +168,7 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   );
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
-  const bands = layers.map(() => new Float32Array(new SharedArrayBuffer(n * 4)).fill(NaN));
+  const files = await createBandFiles(bandsDir, layers.length, grid.width, grid.height);
   const windowInputs: WindowInput[] = inputs.map((i) => ({
     role: i.entry.role,
     kind: i.role.kind,
@@ -182,10 +188,10 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const parallel = spec && n >= (options.minCellsForWorkers ?? 400_000);
   const workers = parallel ? Math.max(1, Math.min(options.workers ?? 1, windows.length)) : 1;
   if (workers > 1 && spec) {
-    await runPool(workers, { spec, grid, inputs: windowInputs, echoRoles, bands }, windows, onWindow);
+    await runPool(workers, { spec, grid, inputs: windowInputs, echoRoles, files }, windows, onWindow);
   } else {
-    const screen = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, bands });
+    const screen = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, files });
     for (const [row0, row1] of windows) onWindow(screen(row0, row1), row1 - row0);
   }
-  return { ...stats, layers, bands, cellsTotal: n, workers };
+  return { ...stats, layers, files, cellsTotal: n, workers };
 }

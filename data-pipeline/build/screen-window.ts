@@ -1,13 +1,15 @@
 /**
  * Screens one window of analysis rows [row0, row1): resamples every input grid at the cell centres
- * (nearest for classes, bilinear for continuous values), fills CellInputs and runs the model, writing
- * into the output bands. Used identically by the main thread and the worker threads, so a build gives
- * the same numbers whatever the worker count.
+ * (nearest for classes, bilinear for continuous values), fills CellInputs and runs the model into
+ * window-sized buffers, then writes the window's rows into the band files (band-files.ts). Memory per
+ * screener: bands x windowRows x width x 4 bytes plus the resampled inputs of one window. Used identically
+ * by the main thread and the worker threads, so a build gives the same numbers whatever the worker count.
  */
 import type { Grid } from '../../layers/grid';
 import type { CellInputs, ScreeningModel } from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
+import { closeBandFds, openBandFds, writeBandRows, type BandFiles } from './band-files';
 import { cellCentresIn, resampleAt } from './resample-to-grid';
 
 /** Flag bits of the inputFlags band: which optional input was absent in the cell. */
@@ -25,8 +27,8 @@ export interface WindowContext {
   model: ScreeningModel;
   /** Roles echoed as bands right after the model's layers, in order. */
   echoRoles: GridRoleId[];
-  /** Output bands: model layers, echo bands, then the flags band. */
-  bands: Float32Array[];
+  /** Output band files: model layers, echo bands, then the flags band (opened per window). */
+  files: BandFiles;
 }
 
 export interface WindowStats {
@@ -61,10 +63,10 @@ const REQUIRED = ROLES.filter((r) => GRID_ROLES[r].required);
 
 /** Create a screener for the context; call it for each window. */
 export function createWindowScreener(ctx: WindowContext): (row0: number, row1: number) => WindowStats {
-  const { grid, inputs, model, echoRoles, bands } = ctx;
+  const { grid, inputs, model, echoRoles, files } = ctx;
   const nModel = model.layers.length;
   const out = new Float32Array(nModel);
-  const flagsBand = bands[bands.length - 1];
+  let bands: Float32Array[] = [];
   const cell: CellInputs = {
     meanAirTemp_C: NaN,
     airAmplitude_C: NaN,
@@ -92,6 +94,11 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
     };
     const lonLat = coordsFor('EPSG:4326');
     const count = (row1 - row0) * grid.width;
+    if (bands.length === 0 || bands[0].length !== count) {
+      bands = files.paths.map(() => new Float32Array(count));
+    }
+    for (const band of bands) band.fill(NaN);
+    const flagsBand = bands[bands.length - 1];
     const empty = new Float32Array(count).fill(NaN);
     const sampled = new Map<GridRoleId, Float32Array>();
     for (const r of ROLES) sampled.set(r, empty);
@@ -123,7 +130,7 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
       const lat = lonLat[2 * k + 1];
       cell.latitude_deg = lat;
       model.evaluate(cell, out);
-      const index = row0 * grid.width + k;
+      const index = k;
       let anyFinite = false;
       for (let b = 0; b < nModel; b++) {
         bands[b][index] = out[b];
@@ -137,6 +144,12 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
       if (lat < bounds[1]) bounds[1] = lat;
       if (lon > bounds[2]) bounds[2] = lon;
       if (lat > bounds[3]) bounds[3] = lat;
+    }
+    const fds = openBandFds(files, 'r+');
+    try {
+      for (let b = 0; b < bands.length; b++) writeBandRows(fds[b], grid.width, row0, bands[b]);
+    } finally {
+      closeBandFds(fds);
     }
     return stats;
   };

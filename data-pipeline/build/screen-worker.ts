@@ -1,11 +1,12 @@
 /**
  * Worker thread of the build: builds its own model from the ModelSpec, then screens the row windows
- * the main thread posts, writing straight into the shared output bands (SharedArrayBuffer) and
- * answering with the window's statistics.
+ * the main thread posts, writing each window's rows into the band files at their offsets (windows never
+ * overlap) and answering with the window's statistics.
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import type { GridRoleId } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
+import type { BandFiles } from './band-files';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 import { createWindowScreener, type WindowInput } from './screen-window';
 
@@ -14,7 +15,7 @@ export interface ScreenWorkerData {
   grid: AnalysisGrid;
   inputs: WindowInput[];
   echoRoles: GridRoleId[];
-  bands: Float32Array[];
+  files: BandFiles;
 }
 
 const data = workerData as ScreenWorkerData;

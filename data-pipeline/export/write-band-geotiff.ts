@@ -3,13 +3,18 @@
  * Float32 samples in strips, georeferenced by ModelPixelScale + ModelTiepoint and a GeoKeyDirectory
  * with the EPSG code (GeoTIFF 1.0 keys: GTModelType, GTRasterType PixelIsArea, ProjectedCSType or
  * GeographicType), nodata as GDAL_NODATA (-9999; NaN cells are written as -9999). Rows are streamed
- * to the file strip by strip, so the whole image is never copied in memory.
+ * to the file strip by strip, so the whole image is never copied in memory; with `readRows` instead of
+ * `values` the band is read strip by strip too (64 rows x width x 4 bytes at a time), so memory does not
+ * grow with the image height.
  */
 import { open } from 'node:fs/promises';
 
 export interface BandGeoTiff {
   path: string;
-  values: Float32Array;
+  /** The whole band, row-major (or give `readRows`). */
+  values?: Float32Array;
+  /** Rows [row0, row1) of the band, row-major (used when `values` is absent). */
+  readRows?: (row0: number, row1: number) => Float32Array;
   width: number;
   height: number;
   /** GDAL-style transform without rotation. */
@@ -20,7 +25,8 @@ export interface BandGeoTiff {
 }
 
 export const GEOTIFF_NODATA = -9999;
-const ROWS_PER_STRIP = 64;
+export const GEOTIFF_ROWS_PER_STRIP = 64;
+const ROWS_PER_STRIP = GEOTIFF_ROWS_PER_STRIP;
 
 type Entry = { tag: number; type: 2 | 3 | 4 | 12; values: number[] | string };
 const TYPE_SIZE = { 2: 1, 3: 2, 4: 4, 12: 8 } as const;
@@ -31,10 +37,11 @@ function entryBytes(e: Entry): number {
 }
 
 export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
-  const { width, height, values, geoTransform: gt, crs } = band;
-  if (values.length !== width * height) {
+  const { width, height, values, readRows, geoTransform: gt, crs } = band;
+  if (values && values.length !== width * height) {
     throw new RangeError(`writeBandGeoTiff: ${values.length} values for ${width} x ${height}`);
   }
+  if (!values && !readRows) throw new TypeError('writeBandGeoTiff: give values or readRows');
   if (gt[2] !== 0 || gt[4] !== 0) throw new RangeError('writeBandGeoTiff: rotated grids are not supported');
   const code = Number(/^EPSG:(\d+)$/.exec(crs)?.[1]);
   if (!Number.isInteger(code)) throw new RangeError(`writeBandGeoTiff: crs must be EPSG:n, got ${crs}`);
@@ -105,10 +112,16 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
     await file.write(header);
     const chunk = Buffer.alloc(ROWS_PER_STRIP * width * 4);
     for (let s = 0; s < strips; s++) {
-      const first = s * ROWS_PER_STRIP * width;
+      const row0 = s * ROWS_PER_STRIP;
       const n = stripBytes[s] / 4;
+      const rows = values
+        ? values.subarray(row0 * width, row0 * width + n)
+        : (readRows as NonNullable<BandGeoTiff['readRows']>)(row0, row0 + n / width);
+      if (rows.length !== n) {
+        throw new RangeError(`writeBandGeoTiff: readRows gave ${rows.length} values for ${n / width} rows`);
+      }
       for (let i = 0; i < n; i++) {
-        const v = values[first + i];
+        const v = rows[i];
         chunk.writeFloatLE(v === v ? v : GEOTIFF_NODATA, 4 * i);
       }
       await file.write(chunk, 0, stripBytes[s]);

@@ -1,6 +1,6 @@
 /**
- * Tile worker thread: renders whole subtrees of the pyramid (writing their tiles) from the shared
- * analysis-grid bands, and returns each subtree root's planes so the main thread can build the levels
+ * Tile worker thread: renders whole subtrees of the pyramid (writing their tiles) from the
+ * analysis-grid band files, and returns each subtree root's planes so the main thread can build the levels
  * above from them.
  */
 import { parentPort, workerData } from 'node:worker_threads';

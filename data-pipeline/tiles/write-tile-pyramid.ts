@@ -1,20 +1,24 @@
 /**
- * Writes the Web Mercator tile pyramid `{z}/{x}/{y}.bin` (encoding: layers/screening/tile-format.ts)
- * from the analysis-grid bands. The finest zoom samples the analysis grid at each tile pixel centre
- * (nearest cell, so tile values are the computed cell values); each coarser level is built from its
- * four children: continuous bands by the mean of the valid child pixels, class bands by their mode
- * (ties to the smaller code). Tiles are produced depth-first, so memory holds at most four tiles per
- * level. All-nodata tiles are not written (an absent tile means nodata).
+ * Writes the Web Mercator tile pyramid `{z}/{x}/{y}.bin` (encoding: layers/screening/tile-format.ts) from
+ * the analysis-grid band files (build/band-files.ts). The finest zoom samples the analysis grid at each
+ * tile pixel centre (nearest cell, so tile values are the computed cell values): only the box of grid rows
+ * x columns under the tile is read from each band file (one buffer, reused band by band): at most about
+ * (256·√2·p/c + 2)² cells for Web Mercator pixel size p and cell size c, i.e. about 0.13 M cells (0.5 MB)
+ * per band where p = c (p <= c at the region's central latitude). Each coarser level is built from its
+ * four children: continuous bands by the mean of the valid child pixels, class bands by their mode (ties
+ * to the smaller code). Tiles are produced depth-first, so memory holds at most four tiles per level.
+ * All-nodata tiles are not written (an absent tile means nodata). Memory therefore does not grow with the
+ * region's size.
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { Worker } from 'node:worker_threads';
 import { join } from 'node:path';
 import { encodeValue, packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
 import type { AnalysisGrid } from '../build/analysis-grid';
+import { closeBandFds, openBandFds, readBandBox, type BandFiles } from '../build/band-files';
 import { createTransform } from '../crs/crs-definitions';
 
 export interface PyramidBand {
-  values: Float32Array;
   kind: 'continuous' | 'class';
   quant: BandQuantisation;
 }
@@ -23,6 +27,8 @@ export interface TilePyramidOptions {
   /** Directory that receives `{z}/{x}/{y}.bin`. */
   tilesDir: string;
   grid: AnalysisGrid;
+  /** Band files of the analysis grid (one per entry of `bands`, same order). */
+  files: BandFiles;
   bands: PyramidBand[];
   minZoom: number;
   maxZoom: number;
@@ -160,7 +166,7 @@ export type TileRendererOptions = Omit<TilePyramidOptions, 'minZoom' | 'onTile'>
 
 /** The depth-first tile renderer used by writeTilePyramid and its worker threads. */
 export function createTileRenderer(options: TileRendererOptions): TileRenderer {
-  const { tilesDir, grid, bands, maxZoom, bounds, onFinest } = options;
+  const { tilesDir, grid, files, bands, maxZoom, bounds, onFinest } = options;
   const toGrid = createTransform('EPSG:4326', grid.crs);
   const gt = grid.geoTransform;
   const quant = bands.map((b) => b.quant);
@@ -168,9 +174,14 @@ export function createTileRenderer(options: TileRendererOptions): TileRenderer {
   const n = TILE_SIZE * TILE_SIZE;
 
   const index = new Int32Array(n);
+  let box = new Float32Array(0);
   const sampleFinest = (x: number, y: number): Float32Array[] | null => {
     const z = maxZoom;
     let anyCell = false;
+    let row0 = grid.height;
+    let row1 = -1;
+    let col0 = grid.width;
+    let col1 = -1;
     for (let py = 0; py < TILE_SIZE; py++) {
       const lat = latOfTileY(y + (py + 0.5) / TILE_SIZE, z);
       // Exact transforms every 8 pixels along the row, linear in between (error of metres at most).
@@ -190,8 +201,14 @@ export function createTileRenderer(options: TileRendererOptions): TileRenderer {
           const col = Math.floor((cx - gt[0]) / gt[1]);
           const row = Math.floor((cy - gt[3]) / gt[5]);
           const inside = col >= 0 && row >= 0 && col < grid.width && row < grid.height;
-          index[py * TILE_SIZE + k] = inside ? row * grid.width + col : -1;
-          if (inside) anyCell = true;
+          if (inside) {
+            anyCell = true;
+            if (row < row0) row0 = row;
+            if (row > row1) row1 = row;
+            if (col < col0) col0 = col;
+            if (col > col1) col1 = col;
+            index[py * TILE_SIZE + k] = row * grid.width + col;
+          } else index[py * TILE_SIZE + k] = -1;
         }
         prevPx = px;
         prevX = gx;
@@ -199,19 +216,35 @@ export function createTileRenderer(options: TileRendererOptions): TileRenderer {
       }
     }
     if (!anyCell) return null;
-    let any = false;
-    const planes = bands.map((band) => {
-      const plane = new Float32Array(n);
-      const values = band.values;
-      for (let i = 0; i < n; i++) {
-        const cell = index[i];
-        const v = cell >= 0 ? values[cell] : NaN;
-        plane[i] = v;
-        if (v === v) any = true;
+    // Re-index into the box of rows [row0, row1] x columns [col0, col1] read from each band file.
+    const boxWidth = col1 - col0 + 1;
+    const boxCells = (row1 - row0 + 1) * boxWidth;
+    for (let i = 0; i < n; i++) {
+      const cell = index[i];
+      if (cell >= 0) {
+        const row = Math.floor(cell / grid.width);
+        index[i] = (row - row0) * boxWidth + (cell - row * grid.width - col0);
       }
-      return plane;
-    });
-    return any ? planes : null;
+    }
+    if (box.length < boxCells) box = new Float32Array(boxCells);
+    let any = false;
+    const fds = openBandFds(files, 'r');
+    try {
+      const planes = bands.map((_, b) => {
+        readBandBox(fds[b], grid.width, { row0, row1: row1 + 1, col0, col1: col1 + 1 }, box);
+        const plane = new Float32Array(n);
+        for (let i = 0; i < n; i++) {
+          const cell = index[i];
+          const v = cell >= 0 ? box[cell] : NaN;
+          plane[i] = v;
+          if (v === v) any = true;
+        }
+        return plane;
+      });
+      return any ? planes : null;
+    } finally {
+      closeBandFds(fds);
+    }
   };
 
   const emit = async (z: number, x: number, y: number, planes: Float32Array[]) => {
@@ -303,6 +336,7 @@ function renderSubtreesInWorkers(
   const data = {
     tilesDir: options.tilesDir,
     grid: options.grid,
+    files: options.files,
     bands: options.bands,
     maxZoom: options.maxZoom,
     bounds: options.bounds,

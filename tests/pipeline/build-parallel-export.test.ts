@@ -39,6 +39,9 @@ describe('parallel screening and GeoTIFF export', () => {
     delete par['manifest.json'];
     expect(Object.keys(par).length).toBeGreaterThan(20);
     expect(par).toEqual(serial);
+    // The output bands stream through temporary raw files that must not ship with the output.
+    expect(Object.keys(par).filter((f) => f.endsWith('.f32') || f.includes('.bands'))).toEqual([]);
+    expect(Object.keys(par).some((f) => f.startsWith('tiles/'))).toBe(true);
   });
 
   it('writes every band as a georeferenced EPSG:3413 GeoTIFF holding the band values', async () => {
