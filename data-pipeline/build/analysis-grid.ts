@@ -4,7 +4,7 @@
  * or from the scale factor, never in Web Mercator). Its extent is the intersection of the data
  * footprints (valid, non-nodata pixels) of the required input grids, snapped outward to the cell size.
  */
-import type { Grid } from '../../layers/grid';
+import type { GridHeader } from '../read/read-geotiff-grid';
 import { ANALYSIS_CRS, CRS_DEFINITIONS, createTransform } from '../crs/crs-definitions';
 import { InputError } from '../input-error';
 
@@ -20,29 +20,11 @@ export interface AnalysisGrid {
 
 export type Box = [number, number, number, number];
 
-/** Bounding box of a grid's valid (finite) pixels, in pixel indices [col0, row0, col1, row1] exclusive. */
-function validPixelBox(grid: Grid): Box | null {
-  let c0 = Infinity;
-  let r0 = Infinity;
-  let c1 = -Infinity;
-  let r1 = -Infinity;
-  for (let r = 0; r < grid.height; r++) {
-    const base = r * grid.width;
-    for (let c = 0; c < grid.width; c++) {
-      if (grid.values[base + c] === grid.values[base + c]) {
-        if (c < c0) c0 = c;
-        if (c > c1) c1 = c;
-        if (r < r0) r0 = r;
-        r1 = r;
-      }
-    }
-  }
-  return c1 < 0 ? null : [c0, r0, c1 + 1, r1 + 1];
-}
-
-/** Footprint of the grid's valid pixels in `targetCrs`: [minX, minY, maxX, maxY], or null if all nodata. */
-export function dataFootprint(grid: Grid, targetCrs: string): Box | null {
-  const box = validPixelBox(grid);
+/**
+ * Footprint of a grid's valid pixels in `targetCrs`: [minX, minY, maxX, maxY], or null if all nodata.
+ * `box` is the bounding box of the valid pixels [col0, row0, col1, row1) (load-inputs.ts finds it).
+ */
+export function dataFootprint(grid: GridHeader, box: Box | null, targetCrs: string): Box | null {
   if (!box) return null;
   const toTarget = createTransform(grid.crs, targetCrs);
   const gt = grid.geoTransform;
@@ -68,14 +50,17 @@ export function dataFootprint(grid: Grid, targetCrs: string): Box | null {
 }
 
 /** Analysis grid covering the intersection of the given grids' data footprints. */
-export function analysisGridFor(sources: { label: string; grid: Grid }[], cellSize_m: number): AnalysisGrid {
+export function analysisGridFor(
+  sources: { label: string; grid: GridHeader; validBox: Box | null }[],
+  cellSize_m: number,
+): AnalysisGrid {
   if (!(cellSize_m >= 10 && cellSize_m <= 100_000)) {
     throw new RangeError(`cellSize_m must be in [10, 100000] m, got ${cellSize_m}`);
   }
   let box: Box | null = null;
   const seen: string[] = [];
-  for (const { label, grid } of sources) {
-    const fp = dataFootprint(grid, ANALYSIS_CRS);
+  for (const { label, grid, validBox } of sources) {
+    const fp = dataFootprint(grid, validBox, ANALYSIS_CRS);
     if (!fp) throw new InputError(`${label}: grid holds no data (every pixel is nodata)`);
     const next: Box = box
       ? [Math.max(box[0], fp[0]), Math.max(box[1], fp[1]), Math.min(box[2], fp[2]), Math.min(box[3], fp[3])]

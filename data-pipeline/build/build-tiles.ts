@@ -7,9 +7,15 @@
  * (write-band-geotiff.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
  * Everything is written into a temporary directory beside `outDir`, validated, then swapped in
  * (atomic-output.ts): on any error the previous output stays untouched.
- * Memory budget, independent of the region's height and of its cell count (W = grid width, B = bands,
- * T = threads): the input grids (read-only, shared, whole) plus per thread B x 32 rows x W x 4 B while
- * screening; a max-zoom tile reads the box of cells under it (about 0.13 M cells x 4 B, one band at a
+ * Memory budget, independent of the region's height and of its cell count (W = analysis grid width,
+ * B = bands, T = threads, Wi = an input grid's width): no input grid is held whole. Loading scans each
+ * input in blocks of about 1 M pixels (4 MB: unit conversion, range check, valid-pixel box) and keeps
+ * only its header. While screening, each thread holds per 32-row window B x 32 x W x 4 B of output rows,
+ * the cell centres in each input CRS (32 x W x 16 B each) and the resampled inputs (10 x 32 x W x 4 B),
+ * and one input's pixel box at a time: the window's footprint in that grid padded by 2 pixels, about
+ * Wi x (32 x cell size / pixel size + 5) x 4 B (plus the strips or tiles geotiff.js decodes to read
+ * it), larger only where a projection turns the window's rows across the input; a max-zoom tile reads
+ * the box of cells under it (about 0.13 M cells x 4 B, one band at a
  * time) and the depth-first pyramid keeps about two tiles of B x 256 KB per level; the main thread keeps
  * the subtree roots from the tile workers (about 16 x T tiles at most); the GeoTIFF writer 2 x 64 rows x
  * W x 4 B; band statistics 1 M cells x 4 B. The output bands are never held whole.
@@ -106,7 +112,9 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
 
   const { config, inputs } = await loadInputs(inDir, (d, t) => progress('read', d, t));
   const grid = analysisGridFor(
-    inputs.filter((i) => i.role.required).map((i) => ({ label: i.entry.file, grid: i.source.grid })),
+    inputs
+      .filter((i) => i.role.required)
+      .map((i) => ({ label: i.entry.file, grid: i.source.grid, validBox: i.source.validBox })),
     cellSize_m,
   );
   const output = await beginAtomicOutput(outDir);

@@ -1,8 +1,9 @@
 /**
  * Screens every analysis cell, window by window (blocks of rows), on the main thread or across a pool of
  * worker threads. Inputs are resampled per window and each window's output rows go straight to the band
- * files (band-files.ts), so only the input grids (read-only) are held whole; the output costs bands x
- * windowRows x width x 4 bytes per screening thread, whatever the region's height. Output bands: the
+ * files (band-files.ts); each window reads from the input files only the pixel boxes under it
+ * (screen-window.ts), so nothing grows with the region's height: the output costs bands x windowRows x
+ * width x 4 bytes per screening thread, the inputs one window's footprint per thread. Output bands: the
  * model's layers, a few input layers echoed for the map (texture, bedrock depth, water content, air
  * temperature, its annual amplitude and warming trend: the site panel prefills from them), then
  * `inputFlags`, a bit mask of the optional inputs that fell back to a default.
@@ -121,9 +122,21 @@ function runPool(
     let pending = windows.length;
     let failed = false;
     const finish = (err?: Error) => {
-      for (const w of pool) void w.terminate();
-      if (err) reject(err);
-      else resolve();
+      if (err) {
+        for (const w of pool) void w.terminate();
+        reject(err);
+        return;
+      }
+      // Let every worker close its input files, then end it.
+      let open = pool.length;
+      for (const w of pool) {
+        w.removeAllListeners('message');
+        w.on('message', () => {
+          void w.terminate();
+          if (--open === 0) resolve();
+        });
+        w.postMessage({ close: true });
+      }
     };
     const feed = (w: Worker) => {
       if (next < windows.length) {
@@ -173,6 +186,10 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     role: i.entry.role,
     kind: i.role.kind,
     grid: i.source.grid,
+    path: i.source.path,
+    label: i.source.label,
+    nodata: i.source.nodata,
+    unit: i.entry.unit,
   }));
   const echoRoles = echoLayers.map((l) => l.id as GridRoleId);
   const windows: [number, number][] = [];
@@ -190,8 +207,12 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   if (workers > 1 && spec) {
     await runPool(workers, { spec, grid, inputs: windowInputs, echoRoles, files }, windows, onWindow);
   } else {
-    const screen = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, files });
-    for (const [row0, row1] of windows) onWindow(screen(row0, row1), row1 - row0);
+    const screener = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, files });
+    try {
+      for (const [row0, row1] of windows) onWindow(await screener.screen(row0, row1), row1 - row0);
+    } finally {
+      await screener.close();
+    }
   }
   return { ...stats, layers, files, cellsTotal: n, workers };
 }

@@ -52,13 +52,60 @@ export function cellCentresIn(target: AnalysisGrid, row0: number, row1: number, 
   return out;
 }
 
-/** Sample `source` at the given source-CRS coordinates (interleaved x, y). */
-export function resampleAt(source: Grid, coords: Float64Array, method: ResampleMethod): Float32Array {
+/** Pixel box [x0, y0, x1, y1) (exclusive) of a raster. */
+export type PixelBox = [number, number, number, number];
+
+/**
+ * The pixel box of `source` that resampling at `coords` (interleaved x, y in the source CRS) touches:
+ * the bounding box of the points' pixel positions, padded by 2 pixels (bilinear reads the next pixel
+ * centre on each side), clipped to the raster; null when no point falls inside the raster. Taken from
+ * the very points resampled, so curved projections and the antimeridian need no special case.
+ */
+export function footprintBox(source: Omit<Grid, 'values'>, coords: Float64Array): PixelBox | null {
+  const [g0, g1, g2, g3, g4, g5] = source.geoTransform;
+  const det = g1 * g5 - g2 * g4;
+  let c0 = Infinity;
+  let r0 = Infinity;
+  let c1 = -Infinity;
+  let r1 = -Infinity;
+  for (let i = 0; i < coords.length; i += 2) {
+    const dx = coords[i] - g0;
+    const dy = coords[i + 1] - g3;
+    const col = (g5 * dx - g2 * dy) / det;
+    const row = (-g4 * dx + g1 * dy) / det;
+    if (!(col >= 0 && row >= 0 && col < source.width && row < source.height)) continue;
+    if (col < c0) c0 = col;
+    if (col > c1) c1 = col;
+    if (row < r0) r0 = row;
+    if (row > r1) r1 = row;
+  }
+  if (c1 < 0) return null;
+  return [
+    Math.max(0, Math.floor(c0) - 2),
+    Math.max(0, Math.floor(r0) - 2),
+    Math.min(source.width, Math.floor(c1) + 3),
+    Math.min(source.height, Math.floor(r1) + 3),
+  ];
+}
+
+/**
+ * Sample `source` at the given source-CRS coordinates (interleaved x, y). With `box`, `source.values`
+ * holds only that pixel box of the raster (row-major, width x1 - x0), e.g. as read by footprintBox;
+ * pixels outside it count as nodata.
+ */
+export function resampleAt(
+  source: Grid,
+  coords: Float64Array,
+  method: ResampleMethod,
+  box: PixelBox = [0, 0, source.width, source.height],
+): Float32Array {
   const n = coords.length / 2;
   const out = new Float32Array(n);
   const [g0, g1, g2, g3, g4, g5] = source.geoTransform;
   const det = g1 * g5 - g2 * g4;
   const { width, height, values } = source;
+  const [bx0, by0, bx1, by1] = box;
+  const bw = bx1 - bx0;
   for (let i = 0; i < n; i++) {
     const dx = coords[2 * i] - g0;
     const dy = coords[2 * i + 1] - g3;
@@ -70,7 +117,9 @@ export function resampleAt(source: Grid, coords: Float64Array, method: ResampleM
       continue;
     }
     if (method === 'nearest') {
-      out[i] = values[Math.floor(row) * width + Math.floor(col)];
+      const c = Math.floor(col);
+      const r = Math.floor(row);
+      out[i] = c >= bx0 && r >= by0 && c < bx1 && r < by1 ? values[(r - by0) * bw + (c - bx0)] : NaN;
       continue;
     }
     const u = col - 0.5;
@@ -84,8 +133,8 @@ export function resampleAt(source: Grid, coords: Float64Array, method: ResampleM
     for (let k = 0; k < 4; k++) {
       const c = c0 + (k & 1);
       const r = r0 + (k >> 1);
-      if (c < 0 || r < 0 || c >= width || r >= height) continue;
-      const value = values[r * width + c];
+      if (c < bx0 || r < by0 || c >= bx1 || r >= by1) continue;
+      const value = values[(r - by0) * bw + (c - bx0)];
       if (value !== value) continue;
       const wgt = (k & 1 ? fu : 1 - fu) * (k >> 1 ? fv : 1 - fv);
       sum += wgt * value;

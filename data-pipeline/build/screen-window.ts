@@ -1,24 +1,61 @@
 /**
- * Screens one window of analysis rows [row0, row1): resamples every input grid at the cell centres
- * (nearest for classes, bilinear for continuous values), fills CellInputs and runs the model into
- * window-sized buffers, then writes the window's rows into the band files (band-files.ts). Memory per
- * screener: bands x windowRows x width x 4 bytes plus the resampled inputs of one window. Used identically
+ * Screens one window of analysis rows [row0, row1): for every input grid, reads from its file only the
+ * pixel box under the window's cell centres (footprintBox, padded 2 pixels for bilinear), converts it
+ * to SI and resamples it (nearest for classes, bilinear for continuous values); fills CellInputs and runs
+ * the model into window-sized buffers, then writes the window's rows into the band files (band-files.ts).
+ * Memory per screener: bands x windowRows x width x 4 bytes, the resampled inputs of one window, and one
+ * input's pixel box at a time (the window's footprint in that grid, whatever the region's height). Used identically
  * by the main thread and the worker threads, so a build gives the same numbers whatever the worker count.
  */
-import type { Grid } from '../../layers/grid';
+import { fromFile, type GeoTIFF, type GeoTIFFImage } from 'geotiff';
 import type { CellInputs, ScreeningModel } from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
+import { readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import type { AnalysisGrid } from './analysis-grid';
 import { closeBandFds, openBandFds, writeBandRows, type BandFiles } from './band-files';
-import { cellCentresIn, resampleAt } from './resample-to-grid';
+import { cellCentresIn, footprintBox, resampleAt } from './resample-to-grid';
 
 /** Flag bits of the inputFlags band: which optional input was absent in the cell. */
 export const INPUT_FLAG_BITS = { groundTemp_C: 1, geothermalFlux_W_m2: 2, nFreeze: 4 } as const;
 
+/** An input grid as a screener reads it: file, georeferencing, nodata and declared unit. */
 export interface WindowInput {
   role: GridRoleId;
   kind: 'continuous' | 'class';
-  grid: Grid;
+  grid: GridHeader;
+  path: string;
+  /** The file as named in messages. */
+  label: string;
+  nodata: number | null;
+  /** The unit declared in the inputs config (converted to the role's SI unit on read). */
+  unit: string;
+}
+
+/** Images opened by a screener, one per input file, kept open across its windows (closed by `close`). */
+type ImageCache = Map<string, { tiff: GeoTIFF; image: GeoTIFFImage }>;
+
+/**
+ * Read the part of `input` that resampling at `coords` touches (footprintBox), converted to SI, and
+ * resample it; all NaN when the points miss the raster.
+ */
+async function sampleInput(
+  input: WindowInput,
+  coords: Float64Array,
+  cache: ImageCache,
+): Promise<Float32Array> {
+  const box = footprintBox(input.grid, coords);
+  if (!box) return new Float32Array(coords.length / 2).fill(NaN);
+  const convert = (GRID_ROLES[input.role].units as Record<string, (v: number) => number>)[input.unit];
+  let opened = cache.get(input.path);
+  if (!opened) {
+    const tiff = await fromFile(input.path);
+    opened = { tiff, image: await tiff.getImage() };
+    cache.set(input.path, opened);
+  }
+  const values = await readGridWindow({ image: opened.image, label: input.label, nodata: input.nodata }, box);
+  for (let i = 0; i < values.length; i++) if (values[i] === values[i]) values[i] = convert(values[i]);
+  const method = input.kind === 'class' ? 'nearest' : 'bilinear';
+  return resampleAt({ ...input.grid, values }, coords, method, box);
 }
 
 export interface WindowContext {
@@ -61,8 +98,21 @@ export function mergeStats(into: WindowStats, s: WindowStats): void {
 const ROLES = Object.keys(GRID_ROLES) as GridRoleId[];
 const REQUIRED = ROLES.filter((r) => GRID_ROLES[r].required);
 
-/** Create a screener for the context; call it for each window. */
-export function createWindowScreener(ctx: WindowContext): (row0: number, row1: number) => WindowStats {
+export interface WindowScreener {
+  /** Screen analysis rows [row0, row1) and write them into the band files. */
+  screen: (row0: number, row1: number) => Promise<WindowStats>;
+  /** Close the input files the screener opened. */
+  close: () => Promise<void>;
+}
+
+/** Create a screener for the context; call `screen` for each window, then `close`. */
+export function createWindowScreener(ctx: WindowContext): WindowScreener {
+  const cache: ImageCache = new Map();
+  const close = async () => {
+    const open = [...cache.values()];
+    cache.clear();
+    for (const { tiff } of open) await tiff.close();
+  };
   const { grid, inputs, model, echoRoles, files } = ctx;
   const nModel = model.layers.length;
   const out = new Float32Array(nModel);
@@ -81,7 +131,7 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
   };
   const cellRecord = cell as unknown as Record<string, number>;
 
-  return (row0, row1) => {
+  const screen = async (row0: number, row1: number) => {
     const stats = emptyStats();
     const coordsByCrs = new Map<string, Float64Array>();
     const coordsFor = (crs: string) => {
@@ -102,10 +152,8 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
     const empty = new Float32Array(count).fill(NaN);
     const sampled = new Map<GridRoleId, Float32Array>();
     for (const r of ROLES) sampled.set(r, empty);
-    for (const input of inputs) {
-      const method = input.kind === 'class' ? 'nearest' : 'bilinear';
-      sampled.set(input.role, resampleAt(input.grid, coordsFor(input.grid.crs), method));
-    }
+    for (const input of inputs)
+      sampled.set(input.role, await sampleInput(input, coordsFor(input.grid.crs), cache));
     const required = REQUIRED.map((r) => sampled.get(r) as Float32Array);
     const all = ROLES.map((r) => sampled.get(r) as Float32Array);
     const texture = sampled.get('textureClass') as Float32Array;
@@ -153,4 +201,5 @@ export function createWindowScreener(ctx: WindowContext): (row0: number, row1: n
     }
     return stats;
   };
+  return { screen, close };
 }

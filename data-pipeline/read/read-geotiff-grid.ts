@@ -5,8 +5,8 @@
  * override) and non-finite values become NaN. Multi-band files: the first band is read.
  */
 import { createHash } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
-import { fromArrayBuffer, type GeoTIFFImage } from 'geotiff';
+import { open, readFile } from 'node:fs/promises';
+import { fromArrayBuffer, fromFile, type GeoTIFFImage } from 'geotiff';
 import type { Grid } from '../../layers/grid';
 import { CRS_DEFINITIONS, proj4DefinitionFor } from '../crs/crs-definitions';
 import { InputError } from '../input-error';
@@ -119,6 +119,119 @@ async function checkDataInFile(image: GeoTIFFImage, label: string, fileLength: n
   }
 }
 
+/** A grid's georeferencing without its values. */
+export type GridHeader = Omit<Grid, 'values'>;
+
+/** An opened GeoTIFF, checked like readGeoTiffGrid, whose pixels are read window by window. */
+export interface OpenedGeoTiff {
+  header: GridHeader;
+  image: GeoTIFFImage;
+  label: string;
+  nodata: number | null;
+  description: string | null;
+  integerSamples: boolean;
+  close: () => Promise<void>;
+}
+
+function fileError(label: string, err: unknown): InputError {
+  const code = (err as NodeJS.ErrnoException).code;
+  if (code === 'ENOENT') return new InputError(`${label}: file not found`);
+  if (code === 'EISDIR') return new InputError(`${label}: is a directory, expected a GeoTIFF file`);
+  return new InputError(`${label}: cannot read file (${code ?? String(err)})`);
+}
+
+/**
+ * Open a single-band GeoTIFF without reading its pixels, with the same checks as readGeoTiffGrid (TIFF
+ * header, strips/tiles inside the file, georeferencing, CRS). Call `close` when done.
+ */
+export async function openGeoTiffGrid(path: string, options: ReadGridOptions): Promise<OpenedGeoTiff> {
+  const { label } = options;
+  const head = new Uint8Array(8);
+  let size: number;
+  let bytesRead: number;
+  try {
+    const fh = await open(path, 'r');
+    try {
+      size = (await fh.stat()).size;
+      ({ bytesRead } = await fh.read(head, 0, 8, 0));
+    } finally {
+      await fh.close();
+    }
+  } catch (err) {
+    throw fileError(label, err);
+  }
+  if (!isTiffHeader(head.subarray(0, bytesRead))) {
+    throw new InputError(`${label}: not a TIFF file (no TIFF header)`);
+  }
+  let tiff: Awaited<ReturnType<typeof fromFile>>;
+  let image: GeoTIFFImage;
+  try {
+    tiff = await fromFile(path);
+  } catch (err) {
+    throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+  }
+  const close = async () => {
+    await tiff.close();
+  };
+  try {
+    try {
+      image = await tiff.getImage();
+    } catch (err) {
+      throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+    }
+    await checkDataInFile(image, label, size);
+    const geoTransform = await geoTransformOf(image, label);
+    const crs = crsOf(image, label);
+    const nodata = options.nodataOverride ?? image.getGDALNoData();
+    const formats = asNumbers(await loadTag(image, 'SampleFormat'));
+    const description = await loadTag(image, 'ImageDescription');
+    return {
+      header: { width: image.getWidth(), height: image.getHeight(), geoTransform, crs },
+      image,
+      label,
+      nodata: nodata ?? null,
+      description: typeof description === 'string' ? description : null,
+      integerSamples: formats.length === 0 || formats[0] !== 3,
+      close,
+    };
+  } catch (err) {
+    await close();
+    throw err;
+  }
+}
+
+/**
+ * Read the pixel box [x0, y0, x1, y1) (exclusive) of the first band as Float32, row-major, box width
+ * x1 - x0; nodata and non-finite values become NaN. Works for stripped and tiled files alike.
+ */
+export async function readGridWindow(
+  opened: Pick<OpenedGeoTiff, 'image' | 'label' | 'nodata'>,
+  box: [number, number, number, number],
+): Promise<Float32Array> {
+  const { image, label, nodata } = opened;
+  const n = (box[2] - box[0]) * (box[3] - box[1]);
+  let raster: ArrayLike<number>;
+  try {
+    raster = (await image.readRasters({
+      window: box,
+      samples: [0],
+      interleave: true,
+    })) as unknown as ArrayLike<number>;
+  } catch (err) {
+    throw new InputError(`${label}: unreadable image data (${(err as Error).message.split('\n')[0]})`);
+  }
+  if (raster.length !== n) {
+    throw new InputError(`${label}: image data has ${raster.length} samples, expected ${n}`);
+  }
+  const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
+  const values = new Float32Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = raster[i];
+    values[i] = v === nodata || v === nodataSingle || !Number.isFinite(v) ? NaN : v;
+  }
+  return values;
+}
+
 /** Read a single-band GeoTIFF file into a Grid (nodata -> NaN). */
 export async function readGeoTiffGrid(path: string, options: ReadGridOptions): Promise<SourceGrid> {
   const { label } = options;
@@ -126,10 +239,7 @@ export async function readGeoTiffGrid(path: string, options: ReadGridOptions): P
   try {
     bytes = await readFile(path);
   } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') throw new InputError(`${label}: file not found`);
-    if (code === 'EISDIR') throw new InputError(`${label}: is a directory, expected a GeoTIFF file`);
-    throw new InputError(`${label}: cannot read file (${code ?? String(err)})`);
+    throw fileError(label, err);
   }
   if (!isTiffHeader(bytes)) throw new InputError(`${label}: not a TIFF file (no TIFF header)`);
   const sha256 = createHash('sha256').update(bytes).digest('hex');

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { AnalysisGrid } from '../../data-pipeline/build/analysis-grid';
-import { cellCentresIn, resampleAt } from '../../data-pipeline/build/resample-to-grid';
+import { cellCentresIn, footprintBox, resampleAt } from '../../data-pipeline/build/resample-to-grid';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import type { Grid } from '../../layers/grid';
 
@@ -62,5 +62,52 @@ describe('resampling onto the analysis grid', () => {
     }
     expect(wraps).toBe(true);
     expect(maxErr).toBeLessThan(5);
+  });
+
+  it('resampling from the footprint box alone gives exactly what the whole grid gives', () => {
+    // 50 x 40 pixels of 1000 m with nodata holes; the points: a 3-row window of 3413 cell centres seen
+    // from a grid in a different CRS, so the footprint is a curved band, not a rectangle.
+    const width = 50;
+    const height = 40;
+    const values = new Float32Array(width * height);
+    for (let i = 0; i < values.length; i++) values[i] = i % 7 === 0 ? NaN : Math.sin(i * 0.37) * 10;
+    const [cx, cy] = createTransform('EPSG:4326', 'EPSG:3338')(-150, 66);
+    const whole: Grid = {
+      values,
+      width,
+      height,
+      geoTransform: [cx - 25_000, 1000, 0, cy + 20_000, 0, -1000],
+      crs: 'EPSG:3338',
+    };
+    // The window is centred on the raster's centre, and longer than the raster is wide.
+    const [ax, ay] = createTransform('EPSG:3338', 'EPSG:3413')(cx, cy);
+    const grid: AnalysisGrid = {
+      crs: 'EPSG:3413',
+      proj4: '',
+      width: 70,
+      height: 3,
+      cellSize_m: 900,
+      geoTransform: [ax - 35 * 900, 900, 0, ay + 1.5 * 900, 0, -900],
+    };
+    const coords = cellCentresIn(grid, 0, 3, 'EPSG:3338');
+    const box = footprintBox(whole, coords);
+    expect(box).not.toBeNull();
+    const [x0, y0, x1, y1] = box as [number, number, number, number];
+    // A proper sub-box, so the comparison exercises the index translation.
+    expect((x1 - x0) * (y1 - y0)).toBeLessThan(width * height);
+    const part = new Float32Array((x1 - x0) * (y1 - y0));
+    for (let r = y0; r < y1; r++)
+      part.set(values.subarray(r * width + x0, r * width + x1), (r - y0) * (x1 - x0));
+    for (const method of ['nearest', 'bilinear'] as const) {
+      const expected = resampleAt(whole, coords, method);
+      const got = resampleAt({ ...whole, values: part }, coords, method, [x0, y0, x1, y1]);
+      expect(expected.some((v) => !Number.isNaN(v))).toBe(true);
+      expect(expected.some((v) => Number.isNaN(v))).toBe(true);
+      expect(Array.from(got)).toEqual(Array.from(expected));
+    }
+  });
+
+  it('footprintBox is null when every point misses the raster', () => {
+    expect(footprintBox(source, Float64Array.from([-50, 15, 100, 100]))).toBeNull();
   });
 });
