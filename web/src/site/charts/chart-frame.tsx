@@ -129,3 +129,28 @@ export function ChartFrame(props: ChartFrameProps) {
     </figure>
   );
 }
+
+/** A dashed horizontal reference line across the plot (a freezing point, a fluid limit); none when y is not finite. */
+export function ReferenceLine(props: {
+  x: LinearScale;
+  y: LinearScale;
+  xDomain: [number, number];
+  value: number;
+  colour: string;
+  dash: string;
+  className?: string;
+}) {
+  if (!Number.isFinite(props.value)) return null;
+  return (
+    <line
+      className={props.className}
+      x1={props.x(props.xDomain[0])}
+      x2={props.x(props.xDomain[1])}
+      y1={props.y(props.value)}
+      y2={props.y(props.value)}
+      stroke={props.colour}
+      strokeDasharray={props.dash}
+      strokeWidth="1.5"
+    />
+  );
+}

@@ -2,7 +2,7 @@
  * the fluid's freezing point marked. */
 import type { SiteFluidResult } from '../../../../layers/site/site-input-schema';
 import { displayConversion, type UnitSystem } from '../../units/display-units';
-import { ChartFrame } from './chart-frame';
+import { ChartFrame, ReferenceLine } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { linePath, niceDomain } from './chart-scale';
 
@@ -53,28 +53,8 @@ export function FluidTemperatureChart(props: {
     >
       {(x, y) => (
         <>
-          {Number.isFinite(minE) ? (
-            <line
-              x1={x(xDomain[0])}
-              x2={x(xDomain[1])}
-              y1={y(minE)}
-              y2={y(minE)}
-              stroke={C.limit}
-              strokeDasharray="6 3"
-              strokeWidth="1.5"
-            />
-          ) : null}
-          {Number.isFinite(frz) ? (
-            <line
-              x1={x(xDomain[0])}
-              x2={x(xDomain[1])}
-              y1={y(frz)}
-              y2={y(frz)}
-              stroke={C.freezing}
-              strokeDasharray="2 3"
-              strokeWidth="1.5"
-            />
-          ) : null}
+          <ReferenceLine x={x} y={y} xDomain={xDomain} value={minE} colour={C.limit} dash="6 3" />
+          <ReferenceLine x={x} y={y} xDomain={xDomain} value={frz} colour={C.freezing} dash="2 3" />
           <path d={linePath(t, inlet, x, y)} fill="none" stroke={C.inlet} strokeWidth="1.2" />
           <path d={linePath(t, outlet, x, y)} fill="none" stroke={C.outlet} strokeWidth="1.2" />
         </>

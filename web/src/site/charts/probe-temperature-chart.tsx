@@ -1,7 +1,7 @@
 /** Temperature at one probe over the run, with and without the pile, the freezing point marked. */
 import type { SiteResult } from '../../../../layers/site/site-input-schema';
 import { displayConversion, type UnitSystem } from '../../units/display-units';
-import { ChartFrame } from './chart-frame';
+import { ChartFrame, ReferenceLine } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { linePath, niceDomain } from './chart-scale';
 
@@ -41,15 +41,14 @@ export function ProbeTemperatureChart(props: {
     >
       {(x, y) => (
         <>
-          <line
+          <ReferenceLine
             className="freezing"
-            x1={x(xDomain[0])}
-            x2={x(xDomain[1])}
-            y1={y(fp)}
-            y2={y(fp)}
-            stroke={C.freezing}
-            strokeDasharray="5 3"
-            strokeWidth="1.5"
+            x={x}
+            y={y}
+            xDomain={xDomain}
+            value={fp}
+            colour={C.freezing}
+            dash="5 3"
           />
           <path d={linePath(years, noT, x, y)} fill="none" stroke={C.noPile} strokeWidth="1.3" />
           {withP ? (
