@@ -2,7 +2,8 @@
  * First full map paint of the dashboard (target: under 3 s from the local server, issue "planner's
  * dashboard" item 7): the demo build, one Vite production build, the preview server and headless
  * Chromium with software WebGL2, as in the browser tests. Each run opens a fresh browser profile (no
- * HTTP cache) and reads the time the app records when the opening view's tiles have all been drawn.
+ * HTTP cache) and reads the time the app records when the opening view's tiles have all been drawn
+ * and the GPU has finished that frame (map-view.tsx, onFirstPaint).
  */
 import { startSession } from '../tests/browser/browser-session';
 

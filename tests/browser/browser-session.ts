@@ -140,6 +140,33 @@ export async function countForegroundPixels(
   );
 }
 
+/** The RGB colour of an element's screenshot at points given relative to the element's top left. */
+export async function pixelsAt(
+  page: Page,
+  selector: string,
+  points: { x: number; y: number }[],
+): Promise<[number, number, number][]> {
+  const png = await page.locator(selector).screenshot();
+  return page.evaluate(
+    async ({ b64, points }) => {
+      const img = new Image();
+      img.src = `data:image/png;base64,${b64}`;
+      await img.decode();
+      const c = document.createElement('canvas');
+      c.width = img.width;
+      c.height = img.height;
+      const ctx = c.getContext('2d');
+      if (!ctx) throw new Error('no 2d context');
+      ctx.drawImage(img, 0, 0);
+      return points.map(({ x, y }) => {
+        const d = ctx.getImageData(Math.round(x), Math.round(y), 1, 1).data;
+        return [d[0], d[1], d[2]] as [number, number, number];
+      });
+    },
+    { b64: png.toString('base64'), points },
+  );
+}
+
 /** Hex colour '#rrggbb' -> [r, g, b]. */
 export function hexRgb(hex: string): [number, number, number] {
   const v = parseInt(hex.slice(1), 16);

@@ -8,12 +8,21 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { countForegroundPixels, hexRgb, startSession, type BrowserSession } from './browser-session';
+import {
+  countForegroundPixels,
+  hexRgb,
+  pixelsAt,
+  startSession,
+  type BrowserSession,
+} from './browser-session';
 import { LAND_COLOUR, SEA_COLOUR } from '../../web/src/map/base-style';
+import { classColours } from '../../web/src/map/colour-tile';
+import { formatLonLat } from '../../web/src/units/display-units';
 import { bandPropertyName, unitSlug } from '../../web/src/shortlist/shortlist-export';
 
 let s: BrowserSession;
 let site: [number, number];
+let settlementCount = 0;
 let exportedGeoJson = '';
 
 beforeAll(async () => {
@@ -24,6 +33,7 @@ beforeAll(async () => {
     features: { geometry: { coordinates: [number, number] } }[];
   };
   site = settlements.features[0].geometry.coordinates;
+  settlementCount = settlements.features.length;
 });
 
 afterAll(async () => {
@@ -122,6 +132,49 @@ describe('dashboard', () => {
     expect(s.manifest.bands.filter((b) => typeof p[bandPropertyName(b)] === 'number').length).toBeGreaterThan(
       0,
     );
+  });
+
+  it('marks settlements (keyboard reachable) and shortlisted sites, and draws each cell where it is', async () => {
+    const band = s.manifest.bands.find((b) => b.id === 'suitability');
+    if (!band?.classes) throw new Error('the demo build has no suitability class band');
+    await openApp(s.page, `${siteQuery()}&layer=${band.id}&opacity=1`);
+    const settlementButtons = s.page.getByRole('button', { name: /^Settlement .+: show its values$/ });
+    await expect(settlementButtons.count()).resolves.toBe(settlementCount);
+    await expect(s.page.locator('.shortlist-pin').count()).resolves.toBe(1);
+
+    // Keyboard: focus the first settlement's marker and press Enter; the panel shows that place.
+    await settlementButtons.first().focus();
+    await s.page.keyboard.press('Enter');
+    await expect(s.page.locator('[data-testid=cell-panel]').textContent()).resolves.toContain(
+      formatLonLat(site[0], site[1], 4),
+    );
+    await expect(s.page.locator('.selected-ring').count()).resolves.toBe(1);
+
+    // Alignment of the drawn tiles with the cells: at opaque layer, the pixel under the cursor has
+    // the colour of the class the cell table reports there (nearest-neighbour tiles, so cell edges
+    // may differ by a pixel: allow one miss of nine).
+    const box = await s.page.locator('[data-testid=map]').boundingBox();
+    if (!box) throw new Error('map not visible');
+    const colours = classColours(band);
+    const points: { x: number; y: number; expected: [number, number, number] | null }[] = [];
+    for (const fx of [0.25, 0.5, 0.75])
+      for (const fy of [0.3, 0.55, 0.8]) {
+        const x = box.width * fx + 37;
+        const y = box.height * fy - 23;
+        await s.page.mouse.move(box.x + x, box.y + y);
+        const label = await s.page.locator('[data-testid=hover-value]').textContent();
+        const cls = band.classes.find((c) => c.label === label);
+        points.push({ x, y, expected: cls ? (colours.get(cls.value) ?? null) : null });
+      }
+    await s.page.mouse.move(box.x + 2, box.y + box.height - 2);
+    const withData = points.filter((p) => p.expected);
+    expect(withData.length).toBeGreaterThanOrEqual(6);
+    const seen = await pixelsAt(s.page, '[data-testid=map]', withData);
+    const matches = withData.filter((p, i) =>
+      p.expected!.every((v, k) => Math.abs(v - seen[i][k]) <= 3),
+    ).length;
+    console.log(`tile colour matches the cell's class at ${matches} of ${withData.length} points`);
+    expect(matches).toBeGreaterThanOrEqual(withData.length - 1);
   });
 
   it('switches layers and units and the legend follows', async () => {

@@ -99,10 +99,8 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const shortlist = useShortlist();
   const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
   const [viewportLoads, setViewportLoads] = useState(0);
-  const onViewportLoad = useCallback(() => {
-    setFirstPaint_ms((t) => t ?? Math.round(performance.now()));
-    setViewportLoads((n) => n + 1);
-  }, []);
+  const onViewportLoad = useCallback(() => setViewportLoads((n) => n + 1), []);
+  const onFirstPaint = useCallback((time_ms: number) => setFirstPaint_ms(Math.round(time_ms)), []);
 
   // The cell table (readout, counters, panel) loads right after the first map paint, so that it does
   // not compete with the visible tiles; at the latest 6 s after start.
@@ -318,6 +316,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           onViewChange={onViewChange}
           flyTarget={flyTarget}
           onViewportLoad={onViewportLoad}
+          onFirstPaint={onFirstPaint}
         />
         <button
           type="button"

@@ -1,7 +1,7 @@
 /**
  * The offline base map: a MapLibre style with no remote sources, tiles, sprites or glyphs. Sea is the
  * background, land is a fill of the build's own coastline polygons (land.geojson). Settlements (dots
- * and names, the latter with the browser's local fonts) are deck.gl layers above the screening tiles.
+ * and names in the browser's local fonts) are HTML markers above the screening tiles (point-markers.ts).
  */
 import type { StyleSpecification } from 'maplibre-gl';
 import type { FeatureCollection } from 'geojson';

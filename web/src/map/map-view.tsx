@@ -1,7 +1,10 @@
 /**
- * The map: MapLibre for the offline base map, a deck.gl overlay for the screening tiles (TileLayer +
- * BitmapLayer coloured on the client by colour-tile.ts), settlement names, the drawn boundary and the
- * shortlisted sites. Changing the band, opacity or filters recolours tiles already loaded.
+ * The map: MapLibre for the offline base map, deck.gl drawn inside MapLibre's WebGL context
+ * (interleaved) for the screening tiles (TileLayer + BitmapLayer coloured on the client by
+ * colour-tile.ts) and the drawn boundary; settlements, shortlisted sites and the selected place are
+ * HTML markers (point-markers.ts). Changing the band, opacity or filters recolours tiles already
+ * loaded. The first full paint is reported once, after the GPU has finished the frame that drew
+ * every tile of the opening view (onFirstPaint; the first-paint benchmark reads it).
  */
 import { memo, useEffect, useRef } from 'react';
 import * as maplibregl from 'maplibre-gl';
@@ -9,13 +12,13 @@ import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
 import { MapboxOverlay } from '@deck.gl/mapbox';
 import { TileLayer } from '@deck.gl/geo-layers';
-import { BitmapLayer, PathLayer, ScatterplotLayer, TextLayer } from '@deck.gl/layers';
+import { BitmapLayer, PathLayer } from '@deck.gl/layers';
 import type { Layer } from '@deck.gl/core';
-import type { Feature, Point } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import { colourTile, type TileStyle } from './colour-tile';
 import { baseStyle } from './base-style';
+import { passiveMarker, settlementMarker } from './point-markers';
 
 maplibregl.setWorkerUrl(workerUrl);
 
@@ -34,8 +37,10 @@ export interface MapViewProps {
   onHover: (lngLat: [number, number] | null) => void;
   onClick: (lngLat: [number, number]) => void;
   onViewChange: (center: [number, number], zoom: number) => void;
-  /** Called when every tile of the current view has loaded (and drawn). */
+  /** Called when every tile of the current view has loaded. */
   onViewportLoad?: () => void;
+  /** Called once, with performance.now(), when the first view's tiles have all been drawn. */
+  onFirstPaint?: (time_ms: number) => void;
   /** Centre the map here whenever `seq` changes. */
   flyTarget: { lon: number; lat: number; seq: number } | null;
 }
@@ -52,10 +57,15 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   const latest = useRef(props);
   latest.current = props;
   const painted = useRef(new WeakMap<Float32Array[], Painted>());
+  const screeningLayer = useRef<TileLayer<Float32Array[] | null> | null>(null);
+  const firstPaintDone = useRef(false);
+  const viewportLoaded = useRef(false);
 
   useEffect(() => {
     if (!container.current) return;
     const { atlas, initialView } = latest.current;
+    firstPaintDone.current = false;
+    viewportLoaded.current = false;
     const [w, s, e, n] = atlas.manifest.region.bounds;
     const map = new maplibregl.Map({
       container: container.current,
@@ -71,13 +81,34 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       doubleClickZoom: false,
       canvasContextAttributes: { preserveDrawingBuffer: true },
     });
+    exposeTransformForDeck(map);
     map.touchZoomRotate.disableRotation();
     map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
     map.addControl(new maplibregl.ScaleControl({ unit: 'metric' }), 'bottom-right');
-    const overlay = new MapboxOverlay({ interleaved: false, layers: [] });
+    // Interleaved: deck.gl draws into MapLibre's own WebGL context (one context, one canvas to
+    // composite; with software WebGL a second context roughly doubles the start-up cost).
+    const overlay = new MapboxOverlay({
+      interleaved: true,
+      layers: [],
+      onAfterRender: ({ gl }) => {
+        if (firstPaintDone.current || !viewportLoaded.current) return;
+        if (!screeningLayer.current || !allTilesDrawn(screeningLayer.current)) return;
+        // Every tile of the view is loaded and its bitmap drawn in this frame; wait for the GPU to
+        // finish the frame so that the time reported is when the pixels exist, not when they were asked.
+        firstPaintDone.current = true;
+        gl?.finish();
+        latest.current.onFirstPaint?.(performance.now());
+      },
+    });
     map.addControl(overlay);
     mapRef.current = map;
     overlayRef.current = overlay;
+    for (const f of atlas.settlements?.features ?? []) {
+      if (f.geometry?.type !== 'Point') continue;
+      const [lon, lat] = f.geometry.coordinates;
+      const name = String(f.properties?.name ?? 'Settlement');
+      settlementMarker(map, { lon, lat, name }, (lngLat) => latest.current.onClick(lngLat));
+    }
     map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
     map.on('mouseout', () => latest.current.onHover(null));
     map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
@@ -97,6 +128,22 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     if (map) map.getCanvas().style.cursor = props.drawing ? 'crosshair' : '';
   }, [props.drawing]);
 
+  const { shortlist, selected } = props;
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!map) return;
+    const pins = shortlist.map((p) => passiveMarker(map, p, 'shortlist-pin', `Shortlisted: ${p.name}`));
+    return () => pins.forEach((m) => m.remove());
+  }, [shortlist]);
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!map || !selected) return;
+    const ring = passiveMarker(map, { lon: selected[0], lat: selected[1] }, 'selected-ring');
+    return () => {
+      ring.remove();
+    };
+  }, [selected]);
+
   const fly = props.flyTarget;
   useEffect(() => {
     if (fly && mapRef.current) mapRef.current.easeTo({ center: [fly.lon, fly.lat], duration: 300 });
@@ -105,7 +152,7 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   useEffect(() => {
     const overlay = overlayRef.current;
     if (!overlay) return;
-    const { atlas, style, styleKey, boundaryRings, drawingPath, selected, shortlist } = props;
+    const { atlas, style, styleKey, boundaryRings, drawingPath } = props;
     const { manifest, tiles } = atlas;
     // Only the drawn band and the filtered bands are fetched for drawing (Range requests per band).
     const neededBands = [
@@ -114,69 +161,40 @@ export const MapView = memo(function MapView(props: MapViewProps) {
         ...(style.filter.active ? [...style.filter.rangeBands, ...style.filter.classBands] : []),
       ]),
     ].sort((a, b) => a - b);
-    const layers: Layer[] = [
-      new TileLayer<Float32Array[] | null>({
-        id: 'screening',
-        tileSize: manifest.tiles.tileSize,
-        minZoom: manifest.tiles.minZoom,
-        maxZoom: manifest.tiles.maxZoom,
-        extent: manifest.region.bounds,
-        maxRequests: 8,
-        getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
-        onViewportLoad: () => latest.current.onViewportLoad?.(),
-        updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
-        renderSubLayers: (sub) => {
-          const planes = sub.data;
-          if (!planes) return null;
-          let p = painted.current.get(planes);
-          if (!p || p.key !== styleKey) {
-            const image = new ImageData(TILE_SIZE, TILE_SIZE);
-            colourTile(planes, style, image.data);
-            p = { key: styleKey, image };
-            painted.current.set(planes, p);
-          }
-          const [min, max] = sub.tile.boundingBox;
-          return new BitmapLayer({
-            id: `${sub.id}-bitmap`,
-            image: p.image,
-            bounds: [min[0], min[1], max[0], max[1]],
-            textureParameters: { minFilter: 'nearest', magFilter: 'nearest' },
-          });
-        },
-      }),
-    ];
-    const settlements = (atlas.settlements?.features ?? []).filter(
-      (f): f is Feature<Point> => f.geometry?.type === 'Point',
-    );
-    layers.push(
-      new ScatterplotLayer<Feature<Point>>({
-        id: 'settlement-dots',
-        data: settlements,
-        getPosition: (f) => f.geometry.coordinates as [number, number],
-        getRadius: 4,
-        radiusUnits: 'pixels',
-        getFillColor: [255, 255, 255, 255],
-        getLineColor: [20, 32, 40, 255],
-        stroked: true,
-        lineWidthUnits: 'pixels',
-        getLineWidth: 1.5,
-      }),
-      new TextLayer<Feature<Point>>({
-        id: 'settlement-names',
-        data: settlements,
-        getPosition: (f) => f.geometry.coordinates as [number, number],
-        getText: (f) => String(f.properties?.name ?? ''),
-        getSize: 13,
-        getColor: [20, 32, 40, 255],
-        getPixelOffset: [0, -14],
-        fontFamily: 'system-ui, sans-serif',
-        fontWeight: 600,
-        outlineWidth: 3,
-        outlineColor: [255, 255, 255, 230],
-        fontSettings: { sdf: true },
-        characterSet: 'auto',
-      }),
-    );
+    const tileLayer = new TileLayer<Float32Array[] | null>({
+      id: 'screening',
+      tileSize: manifest.tiles.tileSize,
+      minZoom: manifest.tiles.minZoom,
+      maxZoom: manifest.tiles.maxZoom,
+      extent: manifest.region.bounds,
+      maxRequests: 16,
+      getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
+      onViewportLoad: () => {
+        viewportLoaded.current = true;
+        latest.current.onViewportLoad?.();
+      },
+      updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
+      renderSubLayers: (sub) => {
+        const planes = sub.data;
+        if (!planes) return null;
+        let p = painted.current.get(planes);
+        if (!p || p.key !== styleKey) {
+          const image = new ImageData(TILE_SIZE, TILE_SIZE);
+          colourTile(planes, style, image.data);
+          p = { key: styleKey, image };
+          painted.current.set(planes, p);
+        }
+        const [min, max] = sub.tile.boundingBox;
+        return new BitmapLayer({
+          id: `${sub.id}-bitmap`,
+          image: p.image,
+          bounds: [min[0], min[1], max[0], max[1]],
+          textureParameters: { minFilter: 'nearest', magFilter: 'nearest' },
+        });
+      },
+    });
+    screeningLayer.current = tileLayer;
+    const layers: Layer[] = [tileLayer];
     const paths = drawingPath.length > 0 ? [...boundaryRings, drawingPath] : boundaryRings;
     if (paths.length > 0) {
       layers.push(
@@ -190,41 +208,35 @@ export const MapView = memo(function MapView(props: MapViewProps) {
         }),
       );
     }
-    layers.push(
-      new ScatterplotLayer<{ lon: number; lat: number; name: string }>({
-        id: 'shortlist',
-        data: shortlist,
-        getPosition: (d) => [d.lon, d.lat],
-        getRadius: 6,
-        radiusUnits: 'pixels',
-        getFillColor: [255, 255, 255, 255],
-        getLineColor: [190, 30, 90, 255],
-        lineWidthUnits: 'pixels',
-        getLineWidth: 3,
-        stroked: true,
-      }),
-    );
-    if (selected) {
-      layers.push(
-        new ScatterplotLayer<[number, number]>({
-          id: 'selected',
-          data: [selected],
-          getPosition: (d) => d,
-          getRadius: 9,
-          radiusUnits: 'pixels',
-          filled: false,
-          stroked: true,
-          getLineColor: [20, 32, 40, 255],
-          lineWidthUnits: 'pixels',
-          getLineWidth: 2,
-        }),
-      );
-    }
     overlay.setProps({ layers });
   }, [props]);
 
   return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
 });
+
+/**
+ * Whether every tile the layer shows for the current view has its bitmap built (tiles without data
+ * have nothing to draw). Reads the tile set deck.gl keeps in the layer's state.
+ */
+function allTilesDrawn(layer: TileLayer<Float32Array[] | null>): boolean {
+  const tiles = (layer.state as { tileset?: { selectedTiles?: { content: unknown; layers: unknown }[] } })
+    ?.tileset?.selectedTiles;
+  return Boolean(tiles && tiles.length > 0 && tiles.every((t) => t.content === null || t.layers));
+}
+
+/**
+ * deck.gl's MapLibre adapter (interleaved mode) reads `map.transform.height` to turn the near and far
+ * planes MapLibre hands to custom layers into deck's units; MapLibre 6 no longer has a `transform`
+ * property. Give the adapter the one thing it needs, the map's height in CSS pixels (the unit of
+ * MapLibre's camera metrics); near/far come from the render options, so `_nearZ`/`_farZ` stay unset.
+ */
+function exposeTransformForDeck(map: maplibregl.Map): void {
+  if ('transform' in map) return;
+  Object.defineProperty(map, 'transform', {
+    configurable: true,
+    get: () => ({ height: map.getContainer().clientHeight }),
+  });
+}
 
 /** Move the map (used by the shortlist's "show" buttons). */
 export type FlyTo = (lon: number, lat: number) => void;
