@@ -136,8 +136,24 @@ describe('site panel', () => {
     await s.page.click('[data-testid=cancel-site]');
     await expect.poll(() => s.page.locator('[data-testid=run-status]').textContent()).toMatch(/cancelled/);
     expect(await s.page.locator('[data-testid=site-progress]').count()).toBe(0);
-    // Escape closes the study; the map is back.
+    // The study is modal: Tab cycles inside it and never reaches the page behind.
+    const outside: string[] = [];
+    for (let i = 0; i < 60; i++) {
+      await s.page.keyboard.press('Tab');
+      const where = await s.page.evaluate(() => {
+        const a = document.activeElement;
+        if (!a || a === document.body) return null;
+        return a.closest('[data-testid=site-study]') ? null : `${a.tagName} ${a.textContent?.slice(0, 30)}`;
+      });
+      if (where) outside.push(where);
+    }
+    expect(outside).toEqual([]);
+    // Escape closes the study; the map is back and the page takes focus again.
     await s.page.keyboard.press('Escape');
     expect(await s.page.locator('[data-testid=site-study]').count()).toBe(0);
+    await s.page.locator('[data-testid=layer-select]').focus();
+    expect(await s.page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe(
+      'layer-select',
+    );
   });
 });

@@ -10,7 +10,7 @@ import { siteInputSchema, type SiteInputDraft } from '../../../layers/site/site-
 import { screenCell, type CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
-import type { UnitSystem } from '../units/display-units';
+import { formatLonLat, type UnitSystem } from '../units/display-units';
 import { SchemaField } from './site-form';
 import { fieldId, type FormContext } from './form-inputs';
 import { flattenInputs, issuesByPath } from './schema-form-model';
@@ -51,6 +51,13 @@ export function SiteStudy(props: {
   onClose.current = props.onClose;
 
   useEffect(() => {
+    // A modal dialog: the page behind it is inert (no focus, no clicks, hidden from assistive
+    // technology) while it is open, so Tab stays inside the study; Escape closes it.
+    const page = [...document.body.children].filter(
+      (el): el is HTMLElement => el instanceof HTMLElement && !el.classList.contains('site-overlay'),
+    );
+    const wasInert = page.map((el) => el.inert);
+    page.forEach((el) => (el.inert = true));
     heading.current?.focus();
     const onKey = (e: KeyboardEvent) => {
       if (e.key === 'Escape') onClose.current();
@@ -58,6 +65,7 @@ export function SiteStudy(props: {
     window.addEventListener('keydown', onKey);
     return () => {
       window.removeEventListener('keydown', onKey);
+      page.forEach((el, i) => (el.inert = wasInert[i]));
       handle.current?.cancel();
     };
   }, []);
@@ -160,9 +168,7 @@ export function SiteStudy(props: {
           <h2 id="site-study-title" tabIndex={-1} ref={heading}>
             Site study <span className="muted">· {place.name}</span>
           </h2>
-          <span className="site-where small muted">
-            {place.lat.toFixed(4)}° N, {place.lon.toFixed(4)}° E
-          </span>
+          <span className="site-where small muted">{formatLonLat(place.lon, place.lat, 4)}</span>
           <div className="site-actions">
             <button type="button" onClick={() => window.print()} data-testid="print-site-sheet">
               Print site sheet
