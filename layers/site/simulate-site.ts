@@ -274,7 +274,6 @@ export function simulateSite(
     }
   }
 
-  for (const run of cases) console.log('STATS', steps, run.solver.sweeps / steps, run.solver.refactoredRows / steps, run.solver.refinements / steps, run.solver.unconverged);
   let worst = 0;
   for (const run of cases) {
     const eb = energyBalance(run.stored0, run.solver);
