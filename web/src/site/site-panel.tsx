@@ -3,7 +3,7 @@
  * (site-prefill.ts). The small card in the side bar shows what was taken from the map; "Open site
  * study" opens the full study (site-study.tsx) with the form, the run and the results.
  */
-import { useEffect, useMemo, useState } from 'react';
+import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
 import type { FeatureCollection } from 'geojson';
 import type { Manifest } from '../../../layers/screening/manifest';
 import type { CellTable } from '../data/cell-table';
@@ -11,8 +11,10 @@ import { greatCircle_m } from '../data/cell-table';
 import { cellValues, type CellSelection } from '../panels/cell-panel';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
 import { sitePrefill } from './site-prefill';
-import { SiteStudy } from './site-study';
 import './site-panel.css';
+
+// The study (form, charts, simulator worker) loads on first use, not with the map.
+const SiteStudy = lazy(() => import('./site-study').then((m) => ({ default: m.SiteStudy })));
 
 /** A settlement within `maxDistance_m` of the click names the site. */
 export function nearestSettlement(
@@ -93,13 +95,15 @@ export function SitePanel(props: {
         Open site study
       </button>
       {open ? (
-        <SiteStudy
-          place={place}
-          prefill={prefill}
-          manifest={manifest}
-          units={units}
-          onClose={() => setOpen(false)}
-        />
+        <Suspense fallback={<p className="small">Opening the site study…</p>}>
+          <SiteStudy
+            place={place}
+            prefill={prefill}
+            manifest={manifest}
+            units={units}
+            onClose={() => setOpen(false)}
+          />
+        </Suspense>
       ) : null}
     </section>
   );
