@@ -4,6 +4,8 @@
  * to a memory-streaming baseline measured in the same run (a[i] = a[i]·s + b[i] over 2 × 32 MB).
  * A cell-update is one cell advanced by one time step (all linear solves of that step included).
  * Wall time and process CPU time are both printed: on a shared machine the CPU time is the fairer one.
+ * Also printed: the solver's work per time step (passes of forward and back substitution, where two
+ * right-hand sides solved in one pass count once; right-hand sides; band rows re-factored).
  */
 import { readFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
@@ -55,6 +57,18 @@ export async function run(): Promise<void> {
           `mesh ${m.nr} x ${m.nz} (+ one ${m.nz}-cell column without the pile), ` +
           `energy balance error ${r.value.energyBalance.relativeError.toExponential(1)}`,
       );
+      for (const [name, c] of [
+        ['without pile', r.value.noPile],
+        ['with pile', r.value.withPile],
+      ] as const) {
+        const w = c?.solverWork;
+        if (!w) continue;
+        const per = (x: number) => (x / m.timeSteps).toFixed(2);
+        console.log(
+          `  ${name}: per step ${per(w.substitutions)} substitution passes (${per(w.rightHandSides)} ` +
+            `right-hand sides), ${per(w.refactoredRows)} band rows re-factored`,
+        );
+      }
     }
   }
   const cold = runs[0];

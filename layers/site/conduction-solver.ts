@@ -19,12 +19,14 @@
  * Boundaries: surface temperature (Dirichlet through the top half-cell), a fixed upward heat flux at the
  * bottom (geothermal), zero flux at the far radius, and at the inner radius (the pile wall) either zero
  * flux or an `InnerBoundary` (pile rows) that supplies a conductance, a temperature and a heat rate per
- * row; the loop is re-evaluated from each new field and the system re-solved (Anderson-accelerated
- * fixed point) until its boundary temperatures move less than `tolerance_K`.
+ * row; the loop is re-evaluated from each new field until its boundary temperatures move less than
+ * `tolerance_K`, with the fluid level (the dominant, uniform mode of the coupling) corrected through a
+ * unit response solved in the same pass over the factor (see `solveLinear`), so that a pass usually
+ * needs one substitution for the field and the response and at most one correction.
  * Energy bookkeeping: every step adds the boundary heat flows at T* times Δt; the change of the stored
  * enthalpy (sensible + latent) must match their sum (checked by `energyBalance`).
  */
-import { choleskyFactor, choleskySolve, createBandMatrix } from './banded-cholesky';
+import { choleskyFactor, choleskySolve, choleskySolvePair, createBandMatrix } from './banded-cholesky';
 import type { SiteMesh } from './site-mesh';
 import {
   apparentCapacity,
@@ -51,6 +53,13 @@ export interface InnerBoundary {
    * returns the largest change of T_C made (K).
    */
   update(innerT_C: Float64Array, halfCell_W_mK: Float64Array): number;
+  /**
+   * Optional: the change of T_C that a change `dInnerT_C` of the inner-cell temperatures would cause
+   * under the command and conductances of the latest `update` (the linear part of the boundary's
+   * affine response; q and g are taken as independent of the cell temperatures). Written into `out`;
+   * must not change the boundary's state. Lets the solver couple the boundary without extra solves.
+   */
+  linearResponse?(dInnerT_C: Float64Array, out: Float64Array): void;
   /** Called once the step is accepted, with the step length. */
   endStep(dt_s: number): void;
 }
@@ -92,8 +101,10 @@ export interface ConductionSolver {
   volume_m3: Float64Array;
   time_s: number;
   ledger: EnergyLedger;
-  /** Total linear solves (back-substitutions) so far (for benchmarks). */
+  /** Total passes of forward and back substitution so far (two right-hand sides in one pass count once). */
   sweeps: number;
+  /** Total right-hand sides solved so far (for benchmarks). */
+  rightHandSides: number;
   /** Total band rows re-factored so far (n per full factorisation; for benchmarks). */
   refactoredRows: number;
   /** Iterative-refinement corrections so far (for benchmarks). */
@@ -156,8 +167,8 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const gUsed = new Float64Array(Math.max(1, np));
   const TbcUsed = new Float64Array(Math.max(1, np));
   const qUsed = new Float64Array(Math.max(1, np));
-  const rPrev = new Float64Array(Math.max(1, np));
-  const fPrev = new Float64Array(Math.max(1, np));
+  const unitInner = new Float64Array(Math.max(1, np));
+  const unitResponse = new Float64Array(Math.max(1, np));
   const A = createBandMatrix(n, nr);
   const curDiag = new Float64Array(n);
   const curLeft = new Float64Array(n);
@@ -167,6 +178,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const factDown = new Float64Array(n);
   const xb = new Float64Array(n);
   const xr = new Float64Array(n);
+  const xu = new Float64Array(n);
   const refactorTolerance = 1e-4;
   const solveTolerance_K = 1e-7;
   let factored = false;
@@ -177,26 +189,25 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
 
   function updateInner(): number {
     if (!inner) return 0;
-    for (let j = 0; j < np; j++) {
-      innerT[j] = T[j * nr];
-      halfCell[j] = k[j * nr] / gIn[0];
-    }
+    for (let j = 0; j < np; j++) innerT[j] = T[j * nr];
     return inner.update(innerT, halfCell);
   }
 
   function assemble(dt_s: number, Tsurf: number): void {
     for (let j = 0; j < nz; j++) {
       const mj = mat[j];
+      const last = j === nz - 1;
       for (let i = 0; i < nr; i++) {
         const c = j * nr + i;
         const C = apparentCapacity(materials, mj, Told[c], Tguess[c]);
-        cap[c] = (C * V[c]) / dt_s;
-        let diag = cap[c];
-        let b = cap[c] * Told[c];
+        const cp = (C * V[c]) / dt_s;
+        cap[c] = cp;
+        let diag = cp;
+        let b = cp * Told[c];
         if (i > 0) diag += Gr[j * (nr - 1) + i - 1];
         if (i < nr - 1) diag += Gr[j * (nr - 1) + i];
         if (j > 0) diag += Gz[c - nr];
-        if (j < nz - 1) diag += Gz[c];
+        if (!last) diag += Gz[c];
         else b += qBottom * Az[i];
         if (j === 0) {
           diag += Gs[i];
@@ -213,26 +224,31 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
    * from the first band row whose entries moved by more than `refactorTolerance` (relative) from those
    * the factor holds. Band rows are numbered from the bottom row of the mesh upwards
    * (b = (nz − 1 − j)·nr + i) so that the rows that change most (the active layer) come last and
-   * re-factoring them is cheap. Smaller changes are absorbed by iterative refinement in `solveOnce`.
+   * re-factoring them is cheap. Smaller changes are corrected by defect correction in `solveLinear`.
    */
   function factor(): void {
     let from = factored ? n : 0;
     for (let j = 0; j < nz; j++) {
+      const b0 = (nz - 1 - j) * nr;
       for (let i = 0; i < nr; i++) {
         const c = j * nr + i;
-        const b = (nz - 1 - j) * nr + i;
+        const b = b0 + i;
         let diag = aP[c];
         if (i === 0 && j < np) diag += inner!.g_W_K[j];
+        const left = i > 0 ? -Gr[j * (nr - 1) + i - 1] : 0;
+        const down = j < nz - 1 ? -Gz[c] : 0;
         curDiag[b] = diag;
-        curLeft[b] = i > 0 ? -Gr[j * (nr - 1) + i - 1] : 0;
-        curDown[b] = j < nz - 1 ? -Gz[c] : 0;
-        if (
-          b < from &&
-          (Math.abs(diag - factDiag[b]) > refactorTolerance * diag ||
-            Math.abs(curLeft[b] - factLeft[b]) > refactorTolerance * diag ||
-            Math.abs(curDown[b] - factDown[b]) > refactorTolerance * diag)
-        ) {
-          from = b;
+        curLeft[b] = left;
+        curDown[b] = down;
+        if (b < from) {
+          const lim = refactorTolerance * diag;
+          if (
+            Math.abs(diag - factDiag[b]) > lim ||
+            Math.abs(left - factLeft[b]) > lim ||
+            Math.abs(down - factDown[b]) > lim
+          ) {
+            from = b;
+          }
         }
       }
     }
@@ -243,9 +259,9 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   function refactorFrom(from: number): void {
     const a = A.band;
     const w = nr + 1;
+    a.fill(0, from * w, n * w);
     for (let b = from; b < n; b++) {
       const r0 = b * w - b + nr; // a[r0 + col] = A(b, col)
-      for (let q = 0; q <= nr; q++) a[b * w + q] = 0;
       factDiag[b] = curDiag[b];
       factLeft[b] = curLeft[b];
       factDown[b] = curDown[b];
@@ -258,24 +274,31 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     solver.refactoredRows += n - from;
   }
 
-  /** Largest residual of the current band system at x (right-hand side xb), as a temperature. */
-  function refine(): number {
-    // res = rhsB − A_cur x, into xr; returns max |res_b| / diag_b.
+  /**
+   * Residual of the current band system at x (right-hand side xb) into xr; returns the largest
+   * |residual_b| / diag_b (a temperature).
+   */
+  function residual(): number {
     let worst = 0;
-    for (let b = 0; b < n; b++) {
-      let r = xb[b] - curDiag[b] * x[b];
-      if (b % nr > 0) r -= curLeft[b] * x[b - 1];
-      if (b % nr < nr - 1) r -= curLeft[b + 1] * x[b + 1];
-      if (b >= nr) r -= curDown[b] * x[b - nr];
-      if (b + nr < n) r -= curDown[b + nr] * x[b + nr];
-      xr[b] = r;
-      const e = Math.abs(r) / curDiag[b];
-      if (e > worst) worst = e;
+    for (let rb = 0; rb < nz; rb++) {
+      const b0 = rb * nr;
+      for (let i = 0; i < nr; i++) {
+        const b = b0 + i;
+        let r = xb[b] - curDiag[b] * x[b];
+        if (i > 0) r -= curLeft[b] * x[b - 1];
+        if (i < nr - 1) r -= curLeft[b + 1] * x[b + 1];
+        if (rb > 0) r -= curDown[b] * x[b - nr];
+        if (rb < nz - 1) r -= curDown[b + nr] * x[b + nr];
+        xr[b] = r;
+        const e = Math.abs(r) / curDiag[b];
+        if (e > worst) worst = e;
+      }
     }
     return worst;
   }
 
-  function solveOnce(): void {
+  /** Right-hand side in band order with the pile's boundary values of the moment (recorded as used). */
+  function buildRhs(): void {
     for (let j = 0; j < nz; j++) {
       const c = j * nr;
       const b = (nz - 1 - j) * nr;
@@ -286,106 +309,166 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
       qUsed[j] = inner!.q_W[j];
       xb[(nz - 1 - j) * nr] += gUsed[j] * TbcUsed[j] + qUsed[j];
     }
-    x.set(xb);
-    choleskySolve(A, x);
-    // Iterative refinement against the current matrix (the factor may be slightly stale).
-    for (let it = 0; ; it++) {
-      if (refine() < solveTolerance_K) break;
-      if (it >= 4) {
-        // Not converging: re-factor everything that differs at all and solve directly.
-        refactorFrom(0);
-        x.set(xb);
-        choleskySolve(A, x);
-        break;
-      }
-      choleskySolve(A, xr);
-      solver.refinements++;
-      for (let b = 0; b < n; b++) x[b] += xr[b];
-    }
+  }
+
+  /** Copies the solution from band order into the cell temperatures. */
+  function copyField(): void {
     for (let j = 0; j < nz; j++) {
       const c = j * nr;
       const b = (nz - 1 - j) * nr;
       for (let i = 0; i < nr; i++) T[c + i] = x[b + i];
     }
-    solver.sweeps++;
+  }
+
+  /** Whether the boundary can state its linear response and exchanges heat on some row. */
+  function coupled(): boolean {
+    if (!inner || !inner.linearResponse) return false;
+    for (let j = 0; j < np; j++) if (gUsed[j] > 0) return true;
+    return false;
+  }
+
+  /** Right-hand side of the unit response: every coupled row's boundary temperature raised by 1 K. */
+  function unitResponseRhs(): void {
+    xu.fill(0);
+    for (let j = 0; j < np; j++) xu[(nz - 1 - j) * nr] = gUsed[j];
+  }
+
+  let unitValid = false;
+  let coarseDone = false;
+  let stale = 0;
+
+  /**
+   * Solves the step's linear system together with the pile loop, by defect correction with the
+   * (possibly slightly stale) factor:
+   * 1. One pass over the factor solves for the field x at the loop's current boundary values and, when
+   *    the loop can state its linear response, for the unit response u (the field change when every
+   *    pile-row boundary temperature rises by 1 K).
+   * 2. The loop is evaluated at x. Its boundary temperatures depend on the inner cells mainly through
+   *    one mode, the level of the fluid (for a given extraction the whole profile shifts with the
+   *    ground), so the residual r = F(x) − y of the coupling is first reduced along that mode without
+   *    another solve: y ← y + s, x ← x + s·u, with s the conductance-weighted least-squares root of
+   *    r + s·(P·u − 1) (P the loop's linear response). Since the loop is affine for a fixed command,
+   *    this is exact for the fluid level; what is left is the weak row-to-row part.
+   * 3. Otherwise one substitution with the current residual of the system (the factor's staleness) plus
+   *    the remaining boundary change (a fixed-point step y ← F(x)) corrects x, and 2 is repeated.
+   * It stops when the loop's boundary temperatures move less than `tolerance_K` and the residual of
+   * the system is below `solveTolerance_K`, as a temperature, so the field satisfies the system with
+   * the boundary values recorded as used (which the energy ledger takes). `acceptStale`: see `iterate`;
+   * `withUnit`: solve the unit response together with the field (otherwise only when step 2 needs it).
+   */
+  function solveLinear(acceptStale: boolean, withUnit: boolean): boolean {
+    factor();
+    buildRhs();
+    x.set(xb);
+    unitValid = false;
+    if (withUnit && coupled()) {
+      unitResponseRhs();
+      choleskySolvePair(A, x, xu);
+      solver.sweeps++;
+      solver.rightHandSides += 2;
+      unitValid = true;
+    } else {
+      choleskySolve(A, x);
+      solver.sweeps++;
+      solver.rightHandSides++;
+    }
+    coarseDone = false;
+    stale = 0;
+    return iterate(acceptStale);
   }
 
   /**
-   * Direct solve (banded Cholesky, bandwidth nr), then fixed-point iteration with the pile loop: the
-   * loop updates its boundary temperatures from the new field and the system is re-solved (re-factored
-   * only if the loop's conductances changed, e.g. the pump switched) until they move less than tol.
+   * Steps 2 and 3 of `solveLinear`. With `acceptStale` it returns as soon as the coupling has
+   * converged, leaving the factor's staleness (a residual of order 1e-5 K) uncorrected: used for a
+   * pass whose T* only serves to re-linearise the capacities (its coupling error may be `tolerance_K`,
+   * far larger); `iterate(false)` then finishes the pass if it turns out to be the last.
    */
-  function solveLinear(): boolean {
-    factor();
-    solveOnce();
-    if (!inner) return true;
-    let history = false;
+  function iterate(acceptStale: boolean): boolean {
     for (let it = 0; it < maxSweeps; it++) {
-      updateInner();
-      // Residual of the fixed point x = F(x) on the boundary temperatures: F from the loop, x as used.
       let worst = 0;
       let refactor = false;
-      for (let j = 0; j < np; j++) {
-        const r = inner.T_C[j] - TbcUsed[j];
-        if (Math.abs(r) > worst) worst = Math.abs(r);
-        if (inner.g_W_K[j] !== gUsed[j]) refactor = true;
+      if (inner) {
+        for (let j = 0; j < np; j++) innerT[j] = x[(nz - 1 - j) * nr];
+        inner.update(innerT, halfCell);
+        for (let j = 0; j < np; j++) {
+          // Rows without conductance exchange nothing: their boundary temperature does not matter.
+          const r = gUsed[j] > 0 ? inner.T_C[j] - TbcUsed[j] : 0;
+          if (Math.abs(r) > worst) worst = Math.abs(r);
+          if (inner.g_W_K[j] !== gUsed[j]) refactor = true;
+        }
       }
-      if (worst < tol && !refactor) return true;
       if (refactor) {
+        // The loop changed its conductances (e.g. the pump switched): new matrix and right-hand side.
         factor();
-        history = false;
+        buildRhs();
+        unitValid = false;
+        residual();
       } else {
-        // Anderson mixing of depth 1 (a secant step), which converges a linear fixed point in a few steps.
-        let num = 0;
-        let den = 0;
-        for (let j = 0; j < np; j++) {
-          const r = inner.T_C[j] - TbcUsed[j];
-          const dr = r - rPrev[j];
-          if (history) {
-            num += r * dr;
-            den += dr * dr;
+        const res = residual();
+        if (worst < tol && (acceptStale || res < solveTolerance_K)) return true;
+        if (res >= solveTolerance_K && ++stale > 4) {
+          // Defect correction not converging: re-factor everything that differs at all.
+          refactorFrom(0);
+          unitValid = false;
+          stale = 0;
+        }
+        if (worst >= tol && !coarseDone && coupled()) {
+          coarseDone = true;
+          if (!unitValid) {
+            // The unit response was not solved with the field (see `step`): solve it now.
+            unitResponseRhs();
+            choleskySolve(A, xu);
+            solver.sweeps++;
+            solver.rightHandSides++;
+            unitValid = true;
           }
-          rPrev[j] = r;
+          if (coarseCorrection()) continue;
         }
-        const theta = history && den > 0 ? num / den : 0;
         for (let j = 0; j < np; j++) {
-          const f = inner.T_C[j];
-          if (theta !== 0) inner.T_C[j] = f - theta * (f - fPrev[j]);
-          fPrev[j] = f;
+          const b = (nz - 1 - j) * nr;
+          const d = gUsed[j] * (inner!.T_C[j] - TbcUsed[j]) + (inner!.q_W[j] - qUsed[j]);
+          xr[b] += d;
+          xb[b] += d;
+          TbcUsed[j] = inner!.T_C[j];
+          qUsed[j] = inner!.q_W[j];
         }
-        history = true;
       }
-      if (refactor) solveOnce();
-      else solveIncrement();
+      choleskySolve(A, xr);
+      solver.sweeps++;
+      solver.rightHandSides++;
+      solver.refinements++;
+      for (let b = 0; b < n; b++) x[b] += xr[b];
+      coarseDone = false;
     }
     return false;
   }
 
   /**
-   * Re-solve after the loop changed only its boundary temperatures and heat rates: adds the response to
-   * the change of the pile terms (one substitution with the factor; its small staleness affects only
-   * the increment, so no refinement is needed).
+   * Step 2 of `solveLinear`: shifts the pile's boundary temperatures by the s that best cancels the
+   * coupling residual along the unit response, and the field by s·u. Returns false if there is no
+   * such shift (no coupled row, or the response is degenerate).
    */
-  function solveIncrement(): void {
-    xr.fill(0);
+  function coarseCorrection(): boolean {
+    for (let j = 0; j < np; j++) unitInner[j] = xu[(nz - 1 - j) * nr];
+    inner!.linearResponse!(unitInner, unitResponse);
+    let num = 0;
+    let den = 0;
     for (let j = 0; j < np; j++) {
-      const Tn = inner!.T_C[j];
-      const qn = inner!.q_W[j];
-      const b = (nz - 1 - j) * nr;
-      const d = gUsed[j] * (Tn - TbcUsed[j]) + (qn - qUsed[j]);
-      xr[b] = d;
-      xb[b] += d;
-      TbcUsed[j] = Tn;
-      qUsed[j] = qn;
+      const g = gUsed[j];
+      if (!(g > 0)) continue;
+      const v = 1 - unitResponse[j];
+      num += g * v * (inner!.T_C[j] - TbcUsed[j]);
+      den += g * v * v;
     }
-    choleskySolve(A, xr);
-    for (let b = 0; b < n; b++) x[b] += xr[b];
-    for (let j = 0; j < nz; j++) {
-      const c = j * nr;
-      const b = (nz - 1 - j) * nr;
-      for (let i = 0; i < nr; i++) T[c + i] = x[b + i];
+    const s = num / den;
+    if (!(den > 0) || !Number.isFinite(s)) return false;
+    for (let j = 0; j < np; j++) {
+      if (!(gUsed[j] > 0)) continue;
+      TbcUsed[j] += s;
+      xb[(nz - 1 - j) * nr] += gUsed[j] * s;
     }
-    solver.sweeps++;
+    for (let b = 0; b < n; b++) x[b] += s * xu[b];
+    return true;
   }
 
   const solver: ConductionSolver = {
@@ -396,6 +479,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     time_s: 0,
     ledger,
     sweeps: 0,
+    rightHandSides: 0,
     refactoredRows: 0,
     refinements: 0,
     unconverged: 0,
@@ -428,6 +512,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         }
       }
       for (let i = 0; i < nr; i++) Gs[i] = Az[i] / ((0.5 * dz[0]) / k[i]);
+      for (let j = 0; j < np; j++) halfCell[j] = k[j * nr] / gIn[0];
       Told.set(T);
       if (inner) inner.beginStep(t1, dt_s);
       for (let c = 0; c < n; c++) {
@@ -438,7 +523,11 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
       for (let outer = 0; outer < phaseIterations; outer++) {
         assemble(dt_s, Tsurf);
         if (outer === 0) updateInner();
-        converged = solveLinear();
+        const last = outer + 1 === phaseIterations;
+        // The first pass usually needs the pile coupling's unit response (solved in the same pass over
+        // the factor); a re-linearisation pass starts from coupled boundary values and rarely does.
+        converged = solveLinear(!last, outer === 0);
+        copyField();
         // Re-linearise only if some cell's secant capacity between T^n and the new T* differs from the
         // one used (a cell crossing into or out of its freezing interval); otherwise T* is final.
         let change = 0;
@@ -453,7 +542,13 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
             Tguess[c] = T[c];
           }
         }
-        if (change < phaseTolerance) break;
+        if (change < phaseTolerance) {
+          if (!last) {
+            converged = iterate(false);
+            copyField();
+          }
+          break;
+        }
       }
       if (!converged) solver.unconverged++;
       // Boundary heat flows at T*, W (into the ground).

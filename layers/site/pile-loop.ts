@@ -18,6 +18,9 @@
  * or pump off, no exchange) and a second march gives each row's channel temperatures. Summing the two
  * channel equations shows ṁc (T_out − T_in) = extracted heat exactly (discrete energy balance).
  * The ground sees, per row, conductance Δz (g_cd + g_cu) to the weighted channel temperature.
+ * For a fixed command these boundary temperatures are affine in the cell temperatures; `linearResponse`
+ * returns their linear part (the same marches with the command's value set to zero), which the solver
+ * uses to couple the loop without extra linear solves.
  * Validity: ṁc large enough that the counter-flow march is well conditioned (turbulent or transitional
  * flow in practice; NTU per row ≪ 10).
  */
@@ -73,6 +76,11 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
   const dn = new Float64Array(3);
   const un = new Float64Array(3);
   const ext = new Float64Array(3);
+  const Tb = new Float64Array(rows);
+  let src: Float64Array = Tc;
+  let lastKind: LoopCommand['kind'] = 'off';
+  let evalIn = NaN;
+  let evalOut = NaN;
 
   const loop: PileLoop = {
     rows,
@@ -102,6 +110,7 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
       if (cmd.kind === 'off') {
         loop.running = false;
         loop.extraction_W = 0;
+        lastKind = 'off';
         for (let j = 0; j < rows; j++) {
           change = Math.max(change, loop.g_W_K[j] > 0 ? Math.abs(loop.g_W_K[j]) : 0);
           loop.g_W_K[j] = 0;
@@ -110,53 +119,81 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
         return change;
       }
       loop.running = true;
-      // First march: affine forms.
-      d.fill(0);
-      u.fill(0);
-      ext.fill(0);
-      d[1] = 1;
-      u[2] = 1;
-      for (let j = 0; j < rows; j++) marchRow(j, 3);
-      // Bottom: d - u = 0 (coefficients b), extraction = ext.
-      const b0 = d[0] - u[0];
-      const b1 = d[1] - u[1];
-      const b2 = d[2] - u[2];
-      let Tin: number;
-      let Tout: number;
-      if (cmd.kind === 'inlet') {
-        Tin = cmd.inlet_C;
-        Tout = -(b0 + b1 * Tin) / b2;
-      } else if (cmd.kind === 'outlet') {
-        Tout = cmd.outlet_C;
-        Tin = -(b0 + b2 * Tout) / b1;
-      } else {
-        // b0 + b1 Tin + b2 Tout = 0;  ext0 + ext1 Tin + ext2 Tout = E
-        const E = cmd.extraction_W;
-        const det = b1 * ext[2] - b2 * ext[1];
-        Tin = (-b0 * ext[2] - b2 * (E - ext[0])) / det;
-        Tout = (b1 * (E - ext[0]) + b0 * ext[1]) / det;
-      }
-      // Second march with numbers: the channel means per row give the ground's boundary values.
-      d[0] = Tin;
-      u[0] = Tout;
-      ext[0] = 0;
+      lastKind = cmd.kind;
+      const value =
+        cmd.kind === 'inlet' ? cmd.inlet_C : cmd.kind === 'outlet' ? cmd.outlet_C : cmd.extraction_W;
+      src = Tc;
+      evaluate(cmd.kind, value, Tb);
       for (let j = 0; j < rows; j++) {
-        const meanD = marchRow(j, 1);
-        const meanU = 0.5 * (u[0] + un[0]);
-        d[0] = dn[0];
-        u[0] = un[0];
-        const g = gc1[j] + gc2[j];
-        const Tb = g > 0 ? (gc1[j] * meanD + gc2[j] * meanU) / g : Tc[j];
-        change = Math.max(change, Math.abs(Tb - loop.T_C[j]));
-        loop.T_C[j] = Tb;
-        loop.g_W_K[j] = dz[j] * g;
+        change = Math.max(change, Math.abs(Tb[j] - loop.T_C[j]));
+        loop.T_C[j] = Tb[j];
+        loop.g_W_K[j] = dz[j] * (gc1[j] + gc2[j]);
       }
-      loop.inlet_C = Tin;
-      loop.outlet_C = Tout;
-      loop.extraction_W = mc * (Tout - Tin);
+      loop.inlet_C = evalIn;
+      loop.outlet_C = evalOut;
+      loop.extraction_W = mc * (evalOut - evalIn);
       return change;
     },
+    linearResponse(dInnerT: Float64Array, out: Float64Array): void {
+      if (lastKind === 'off') {
+        for (let j = 0; j < rows; j++) out[j] = dInnerT[j];
+        return;
+      }
+      // The map from cell temperatures to boundary temperatures is affine for a fixed command: its
+      // linear part is the same march with the command's value set to zero.
+      src = dInnerT;
+      evaluate(lastKind, 0, out);
+      src = Tc;
+    },
   };
+
+  /**
+   * Fluid temperatures for the ground temperatures in `src` and the command (kind, value): first march
+   * with affine forms, closure by the command, second march with numbers; writes each row's weighted
+   * channel temperature (the ground's boundary value; the cell's own value where g = 0) into `out` and
+   * the inlet and outlet temperatures into evalIn / evalOut.
+   */
+  function evaluate(kind: 'inlet' | 'outlet' | 'extraction', value: number, out: Float64Array): void {
+    d.fill(0);
+    u.fill(0);
+    ext.fill(0);
+    d[1] = 1;
+    u[2] = 1;
+    for (let j = 0; j < rows; j++) marchRow(j, 3);
+    // Bottom: d - u = 0 (coefficients b), extraction = ext.
+    const b0 = d[0] - u[0];
+    const b1 = d[1] - u[1];
+    const b2 = d[2] - u[2];
+    let Tin: number;
+    let Tout: number;
+    if (kind === 'inlet') {
+      Tin = value;
+      Tout = -(b0 + b1 * Tin) / b2;
+    } else if (kind === 'outlet') {
+      Tout = value;
+      Tin = -(b0 + b2 * Tout) / b1;
+    } else {
+      // b0 + b1 Tin + b2 Tout = 0;  ext0 + ext1 Tin + ext2 Tout = E
+      const E = value;
+      const det = b1 * ext[2] - b2 * ext[1];
+      Tin = (-b0 * ext[2] - b2 * (E - ext[0])) / det;
+      Tout = (b1 * (E - ext[0]) + b0 * ext[1]) / det;
+    }
+    // Second march with numbers: the channel means per row give the ground's boundary values.
+    d[0] = Tin;
+    u[0] = Tout;
+    ext[0] = 0;
+    for (let j = 0; j < rows; j++) {
+      const meanD = marchRow(j, 1);
+      const meanU = 0.5 * (u[0] + un[0]);
+      d[0] = dn[0];
+      u[0] = un[0];
+      const g = gc1[j] + gc2[j];
+      out[j] = g > 0 ? (gc1[j] * meanD + gc2[j] * meanU) / g : src[j];
+    }
+    evalIn = Tin;
+    evalOut = Tout;
+  }
 
   /**
    * Advances both channels over row j (trapezoidal rule) for the first `comps` affine components;
@@ -173,7 +210,7 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
     const m22 = a2 + b - mc;
     const det = m11 * m22 - m12 * m21;
     for (let k = 0; k < comps; k++) {
-      const tc = k === 0 ? Tc[j] : 0;
+      const tc = k === 0 ? src[j] : 0;
       const r1 = (mc - a1 - b) * d[k] + b * u[k] + 2 * a1 * tc;
       const r2 = b * d[k] - (mc + a2 + b) * u[k] + 2 * a2 * tc;
       const dNew = (r1 * m22 - m12 * r2) / det;

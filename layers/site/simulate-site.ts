@@ -287,6 +287,11 @@ export function simulateSite(
       relativeError: eb.relativeError,
     };
     run.out.unconvergedSteps = run.solver.unconverged;
+    run.out.solverWork = {
+      substitutions: run.solver.sweeps,
+      rightHandSides: run.solver.rightHandSides,
+      refactoredRows: run.solver.refactoredRows,
+    };
     run.out.probes.forEach((p, i) => {
       const tt = run.thawTime_s[i];
       p.thawYear = tt === null ? null : round4(tt / year);

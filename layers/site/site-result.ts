@@ -40,6 +40,11 @@ export interface SiteCaseResult {
   energyBalance: SiteEnergyBalance;
   /** Steps whose linear solve hit the sweep limit. */
   unconvergedSteps: number;
+  /**
+   * Work of the linear solver over the run (for benchmarks): passes of forward and back substitution
+   * (two right-hand sides in one pass count once), right-hand sides solved, and band rows re-factored.
+   */
+  solverWork?: { substitutions: number; rightHandSides: number; refactoredRows: number };
 }
 
 export interface SiteFluidResult {
