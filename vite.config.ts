@@ -8,15 +8,21 @@ import react from '@vitejs/plugin-react';
 import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { serveDataDir } from './web/build/serve-data-dir.ts';
+import { serveBuiltAssets } from './web/build/serve-built-assets.ts';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
+const outDir = resolve(here, 'dist/web');
 
 export default defineConfig({
   root: resolve(here, 'web'),
   base: './',
-  plugins: [react(), serveDataDir(resolve(here, process.env.PILE_ATLAS_DATA ?? '.cache/demo-tiles'))],
+  plugins: [
+    react(),
+    serveDataDir(resolve(here, process.env.PILE_ATLAS_DATA ?? '.cache/demo-tiles')),
+    serveBuiltAssets(outDir),
+  ],
   build: {
-    outDir: resolve(here, 'dist/web'),
+    outDir,
     emptyOutDir: true,
     chunkSizeWarningLimit: 4000,
   },
