@@ -18,6 +18,7 @@ import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import { colourTile, type TileStyle } from './colour-tile';
 import { baseStyle } from './base-style';
+import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
 
 maplibregl.setWorkerUrl(workerUrl);
@@ -82,6 +83,11 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       canvasContextAttributes: { preserveDrawingBuffer: true },
     });
     exposeTransformForDeck(map);
+    // Start the opening view's tile reads now, while deck.gl sets itself up; its TileLayer then finds
+    // them in flight in the tile store (same tiles, same bands) instead of asking only later.
+    for (const t of openingTiles(map, atlas.manifest)) {
+      atlas.tiles.getBands(t.z, t.x, t.y, bandsToDraw(latest.current.style)).catch(() => undefined);
+    }
     map.touchZoomRotate.disableRotation();
     map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
     map.addControl(new maplibregl.ScaleControl({ unit: 'metric' }), 'bottom-right');
@@ -154,13 +160,7 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     if (!overlay) return;
     const { atlas, style, styleKey, boundaryRings, drawingPath } = props;
     const { manifest, tiles } = atlas;
-    // Only the drawn band and the filtered bands are fetched for drawing (Range requests per band).
-    const neededBands = [
-      ...new Set([
-        style.bandIndex,
-        ...(style.filter.active ? [...style.filter.rangeBands, ...style.filter.classBands] : []),
-      ]),
-    ].sort((a, b) => a - b);
+    const neededBands = bandsToDraw(style);
     const tileLayer = new TileLayer<Float32Array[] | null>({
       id: 'screening',
       tileSize: manifest.tiles.tileSize,
@@ -213,6 +213,42 @@ export const MapView = memo(function MapView(props: MapViewProps) {
 
   return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
 });
+
+/** The bands drawn for a style: the shown band and those the live filter tests (Range reads per band). */
+function bandsToDraw(style: TileStyle): number[] {
+  return [
+    ...new Set([
+      style.bandIndex,
+      ...(style.filter.active ? [...style.filter.rangeBands, ...style.filter.classBands] : []),
+    ]),
+  ].sort((a, b) => a - b);
+}
+
+/**
+ * The tiles the screening TileLayer will ask for first: deck.gl's rule (getTileIndices) is tile zoom
+ * = round(map zoom + log2(512 / tileSize)), clamped to the layer's zoom range, tiles covering the view
+ * inside the layer's extent.
+ */
+function openingTiles(
+  map: maplibregl.Map,
+  manifest: Atlas['manifest'],
+): { z: number; x: number; y: number }[] {
+  const { minZoom, maxZoom, tileSize } = manifest.tiles;
+  const z = Math.max(minZoom, Math.min(maxZoom, Math.round(map.getZoom() + Math.log2(512 / tileSize))));
+  const view = map.getBounds();
+  const [w, s, e, n] = manifest.region.bounds;
+  const box: [number, number, number, number] = [
+    Math.max(w, view.getWest()),
+    Math.max(s, view.getSouth()),
+    Math.min(e, view.getEast()),
+    Math.min(n, view.getNorth()),
+  ];
+  if (box[0] >= box[2] || box[1] >= box[3]) return [];
+  const { x0, x1, y0, y1 } = tilesCovering(box, z);
+  const out: { z: number; x: number; y: number }[] = [];
+  for (let x = x0; x <= x1; x++) for (let y = y0; y <= y1; y++) out.push({ z, x, y });
+  return out;
+}
 
 /**
  * Whether every tile the layer shows for the current view has its bitmap built (tiles without data
