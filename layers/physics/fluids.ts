@@ -1,17 +1,23 @@
 /**
  * Heat-transfer fluid properties: water and aqueous propylene glycol or ethanol.
  *
- * Method: the handbook tables in `fluid-property-tables.ts` (see their provenance notes: ASHRAE
- * Handbook—Fundamentals ch. 31; CRC Handbook; Melinder 2007) are interpolated
+ * Method: the property tables in `fluid-property-tables.ts` (IAPWS formulations for water; Melinder
+ * 2010 correlations and a handbook propylene glycol table for the mixtures; every entry's source is in
+ * its provenance note) are interpolated
  * - in temperature: linearly between table columns (10 K apart);
  * - in mass fraction: linearly between table rows (0.1 apart), except the freezing point, which uses
  *   a monotone cubic (Fritsch & Carlson 1980, SIAM J. Numer. Anal. 17:238) through the rows because
  *   it curves strongly with concentration;
  * - viscosity in the logarithm (it is close to exponential in both variables).
  * Validity: mass fraction 0–0.4, temperature from the freezing point to 40 °C. Accuracy: that of the
- * tables (see there) plus interpolation error, measured against the handbook's intermediate rows at
- * 25 % and 35 % propylene glycol: freezing point within 0.3 K, density within 0.1 kg/m³, specific
- * heat within 10 J/(kg·K) (tests/reference/fluids.test.ts).
+ * sources plus interpolation error, measured at the 25 % and 35 % rows that are not in the tables
+ * (tests/reference/fluids-tables.test.ts): propylene glycol against the handbook, freezing point
+ * within 0.3 K, density 0.2 kg/m³, specific heat 10 J/(kg·K); against Melinder, conductivity 0.13 %,
+ * viscosity 0.5 %; ethanol against Melinder, freezing point 0.11 K, density 0.09 %, specific heat
+ * 0.4 %, conductivity 0.2 %, viscosity 3.1 %; water at 25 °C against IAPWS, density 0.15 kg/m³,
+ * viscosity 0.5 %. The sources themselves differ: the handbook propylene glycol densities lie
+ * 0.3–0.6 % above Melinder's, and ethanol freezing points in Lange's Handbook lie up to 1.15 K above
+ * Melinder's between 13 and 30 % by mass (choose the freeze-protection margin with that in mind).
  * Special cases: a temperature below the mixture's freezing point is refused (RangeError); water is
  * the row with mass fraction 0 of every mixture.
  */

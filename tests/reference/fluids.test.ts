@@ -5,6 +5,7 @@ import {
   massFractionForFreezeProtection,
   requireFluidAbove,
 } from '../../layers/physics/fluids';
+import reference from './fixtures/fluid-properties-reference.json';
 
 // The table rows are 10 % apart; these checks use the handbook's intermediate rows (25 %, 35 %), which
 // are NOT in our table, so they test the interpolation against read values.
@@ -31,14 +32,18 @@ describe('propylene glycol against ASHRAE Handbook—Fundamentals ch. 31 (read v
   });
 });
 
-describe('water at 25 °C, between table columns (Incropera & DeWitt Table A.6 / CRC, recalled from memory)', () => {
+describe('water at 25 °C, between table columns (IAPWS-95 / IAPWS 2008 / IAPWS 2011, fixture computed by the iapws package)', () => {
   const p = fluidProperties({ fluid: 'water', massFraction: 0, temperature_C: 25 });
-  it('density 997.0 kg/m³ ±0.3', () => expect(Math.abs(p.density_kg_m3 - 997.0)).toBeLessThan(0.3));
-  it('viscosity 0.890 mPa·s ±1 % (log interpolation)', () =>
-    expect(Math.abs(p.viscosity_Pa_s / 0.89e-3 - 1)).toBeLessThan(0.01));
-  it('conductivity 0.607 W/(m·K) ±0.003', () =>
-    expect(Math.abs(p.conductivity_W_mK - 0.607)).toBeLessThan(0.003));
-  it('specific heat 4180 J/(kg·K) ±5', () => expect(Math.abs(p.specificHeat_J_kgK - 4180)).toBeLessThan(5));
+  const w = reference.water.points.find((q) => q.temperature_C === 25);
+  it('the fixture has the 25 °C point', () => expect(w?.temperature_C).toBe(25));
+  it('density 997.05 kg/m³ ±0.3', () =>
+    expect(Math.abs(p.density_kg_m3 - (w?.density_kg_m3 ?? NaN))).toBeLessThan(0.3));
+  it('viscosity 0.8900 mPa·s ±1 % (log interpolation)', () =>
+    expect(Math.abs(p.viscosity_Pa_s / ((w?.viscosity_mPa_s ?? NaN) * 1e-3) - 1)).toBeLessThan(0.01));
+  it('conductivity 0.6065 W/(m·K) ±0.003', () =>
+    expect(Math.abs(p.conductivity_W_mK - (w?.conductivity_W_mK ?? NaN))).toBeLessThan(0.003));
+  it('specific heat 4181.3 J/(kg·K) ±5', () =>
+    expect(Math.abs(p.specificHeat_J_kgK - (w?.specificHeat_J_kgK ?? NaN))).toBeLessThan(5));
 });
 
 describe('ethanol at 20 °C (CRC Handbook density table, recalled from memory)', () => {
