@@ -155,7 +155,9 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const Told = new Float64Array(n);
   const Tguess = new Float64Array(n);
   const k = new Float64Array(n);
+  const rk = new Float64Array(n); // 1 / k
   const cap = new Float64Array(n); // C V / Δt, W/K
+  const capC = new Float64Array(n); // apparent capacity C, J/m³K
   const aP = new Float64Array(n);
   const rhs = new Float64Array(n);
   const Gr = new Float64Array(Math.max(1, nz * (nr - 1)));
@@ -201,6 +203,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         const c = j * nr + i;
         const C = apparentCapacity(materials, mj, Told[c], Tguess[c]);
         const cp = (C * V[c]) / dt_s;
+        capC[c] = C;
         cap[c] = cp;
         let diag = cp;
         let b = cp * Told[c];
@@ -275,26 +278,30 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   }
 
   /**
-   * Residual of the current band system at x (right-hand side xb) into xr; returns the largest
-   * |residual_b| / diag_b (a temperature).
+   * Residual of the current band system at x (right-hand side xb) into xr; returns whether every
+   * |residual_b| / diag_b (a temperature) is below `solveTolerance_K`. Entries outside the mesh are
+   * zero in curLeft/curDown, so only the first and last nr band rows need the range checks.
    */
-  function residual(): number {
-    let worst = 0;
-    for (let rb = 0; rb < nz; rb++) {
-      const b0 = rb * nr;
-      for (let i = 0; i < nr; i++) {
-        const b = b0 + i;
-        let r = xb[b] - curDiag[b] * x[b];
-        if (i > 0) r -= curLeft[b] * x[b - 1];
-        if (i < nr - 1) r -= curLeft[b + 1] * x[b + 1];
-        if (rb > 0) r -= curDown[b] * x[b - nr];
-        if (rb < nz - 1) r -= curDown[b + nr] * x[b + nr];
-        xr[b] = r;
-        const e = Math.abs(r) / curDiag[b];
-        if (e > worst) worst = e;
+  function residual(): boolean {
+    let small = true;
+    for (let b = 0; b < n; b++) {
+      let r = xb[b] - curDiag[b] * x[b];
+      if (b >= nr && b < n - nr) {
+        r -=
+          curLeft[b] * x[b - 1] +
+          curLeft[b + 1] * x[b + 1] +
+          curDown[b] * x[b - nr] +
+          curDown[b + nr] * x[b + nr];
+      } else {
+        if (b > 0) r -= curLeft[b] * x[b - 1];
+        if (b < n - 1) r -= curLeft[b + 1] * x[b + 1];
+        if (b >= nr) r -= curDown[b] * x[b - nr];
+        if (b < n - nr) r -= curDown[b + nr] * x[b + nr];
       }
+      xr[b] = r;
+      if (small && !(Math.abs(r) < solveTolerance_K * curDiag[b])) small = false;
     }
-    return worst;
+    return small;
   }
 
   /** Right-hand side in band order with the pile's boundary values of the moment (recorded as used). */
@@ -404,14 +411,6 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         unitValid = false;
         residual();
       } else {
-        const res = residual();
-        if (worst < tol && (acceptStale || res < solveTolerance_K)) return true;
-        if (res >= solveTolerance_K && ++stale > 4) {
-          // Defect correction not converging: re-factor everything that differs at all.
-          refactorFrom(0);
-          unitValid = false;
-          stale = 0;
-        }
         if (worst >= tol && !coarseDone && coupled()) {
           coarseDone = true;
           if (!unitValid) {
@@ -423,6 +422,15 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
             unitValid = true;
           }
           if (coarseCorrection()) continue;
+        }
+        if (worst < tol && acceptStale) return true;
+        const small = residual();
+        if (worst < tol && small) return true;
+        if (!small && ++stale > 4) {
+          // Defect correction not converging: re-factor everything that differs at all.
+          refactorFrom(0);
+          unitValid = false;
+          stale = 0;
         }
         for (let j = 0; j < np; j++) {
           const b = (nz - 1 - j) * nr;
@@ -497,21 +505,24 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         for (let i = 0; i < nr; i++) {
           const c = j * nr + i;
           k[c] = conductivityAt(materials, mj, T[c]);
+          rk[c] = 1 / k[c];
         }
       }
       for (let j = 0; j < nz; j++) {
         for (let i = 0; i < nr - 1; i++) {
           const c = j * nr + i;
-          Gr[j * (nr - 1) + i] = dz[j] / (gOut[i] / k[c] + gIn[i + 1] / k[c + 1]);
+          Gr[j * (nr - 1) + i] = dz[j] / (gOut[i] * rk[c] + gIn[i + 1] * rk[c + 1]);
         }
         if (j < nz - 1) {
+          const h0 = 0.5 * dz[j];
+          const h1 = 0.5 * dz[j + 1];
           for (let i = 0; i < nr; i++) {
             const c = j * nr + i;
-            Gz[c] = Az[i] / ((0.5 * dz[j]) / k[c] + (0.5 * dz[j + 1]) / k[c + nr]);
+            Gz[c] = Az[i] / (h0 * rk[c] + h1 * rk[c + nr]);
           }
         }
       }
-      for (let i = 0; i < nr; i++) Gs[i] = Az[i] / ((0.5 * dz[0]) / k[i]);
+      for (let i = 0; i < nr; i++) Gs[i] = Az[i] / (0.5 * dz[0] * rk[i]);
       for (let j = 0; j < np; j++) halfCell[j] = k[j * nr] / gIn[0];
       Told.set(T);
       if (inner) inner.beginStep(t1, dt_s);
@@ -530,19 +541,21 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         copyField();
         // Re-linearise only if some cell's secant capacity between T^n and the new T* differs from the
         // one used (a cell crossing into or out of its freezing interval); otherwise T* is final.
-        let change = 0;
-        for (let j = 0; j < nz; j++) {
+        let relinearise = false;
+        for (let j = 0; j < nz && !relinearise; j++) {
           const mj = mat[j];
           for (let i = 0; i < nr; i++) {
             const c = j * nr + i;
+            const used = capC[c];
             const C = apparentCapacity(materials, mj, Told[c], T[c]);
-            const used = (cap[c] * dt_s) / V[c];
-            const d = Math.abs(C - used) / used;
-            if (d > change) change = d;
-            Tguess[c] = T[c];
+            if (!(Math.abs(C - used) < phaseTolerance * used)) {
+              relinearise = true;
+              break;
+            }
           }
         }
-        if (change < phaseTolerance) {
+        Tguess.set(T);
+        if (!relinearise) {
           if (!last) {
             converged = iterate(false);
             copyField();
@@ -567,7 +580,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         const mj = mat[j];
         for (let i = 0; i < nr; i++) {
           const c = j * nr + i;
-          H[c] += (cap[c] * dt_s * (T[c] - Told[c])) / V[c];
+          H[c] += capC[c] * (T[c] - Told[c]);
           T[c] = temperatureAt(materials, mj, H[c]);
         }
       }
