@@ -9,7 +9,7 @@ import reference from './fixtures/fluid-properties-reference.json';
 
 // The table rows are 10 % apart; these checks use the handbook's intermediate rows (25 %, 35 %), which
 // are NOT in our table, so they test the interpolation against read values.
-describe('propylene glycol against ASHRAE Handbook—Fundamentals ch. 31 (read values, reference-values.md §9c)', () => {
+describe('propylene glycol against the handbook design table (read values, reference-values.md §9c)', () => {
   const cases = [
     // [mass fraction, freezing point °C, cp at 0 °C J/(kg·K), density at 0 °C kg/m³]
     [0.25, -9.6, 3860, 1031.0],
