@@ -158,6 +158,8 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const rk = new Float64Array(n); // 1 / k
   const cap = new Float64Array(n); // C V / Δt, W/K
   const capC = new Float64Array(n); // apparent capacity C, J/m³K
+  const gSum = new Float64Array(n); // Σ conductances to neighbours and surface, W/K
+  const bFixed = new Float64Array(n); // fixed heat inflow (surface, geothermal), W
   const aP = new Float64Array(n);
   const rhs = new Float64Array(n);
   const Gr = new Float64Array(Math.max(1, nz * (nr - 1)));
@@ -195,29 +197,51 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     return inner.update(innerT, halfCell);
   }
 
-  function assemble(dt_s: number, Tsurf: number): void {
+  /**
+   * Per step (conductances fixed): each cell's sum of conductances to its neighbours and the surface,
+   * and its fixed heat inflow (surface temperature through the top half cell, geothermal flux).
+   */
+  function assembleConductances(Tsurf: number): void {
     for (let j = 0; j < nz; j++) {
-      const mj = mat[j];
       const last = j === nz - 1;
       for (let i = 0; i < nr; i++) {
         const c = j * nr + i;
-        const C = apparentCapacity(materials, mj, Told[c], Tguess[c]);
+        let g = 0;
+        let b = 0;
+        if (i > 0) g += Gr[j * (nr - 1) + i - 1];
+        if (i < nr - 1) g += Gr[j * (nr - 1) + i];
+        if (j > 0) g += Gz[c - nr];
+        if (!last) g += Gz[c];
+        else b += qBottom * Az[i];
+        if (j === 0) {
+          g += Gs[i];
+          b += Gs[i] * Tsurf;
+        }
+        gSum[c] = g;
+        bFixed[c] = b;
+      }
+    }
+  }
+
+  /** Per pass: capacities (secant between T^n and the guess), diagonal and right-hand side. */
+  function assemble(dt_s: number): void {
+    const { Ts, Tl, cF, cT } = materials;
+    for (let j = 0; j < nz; j++) {
+      const mj = mat[j];
+      const ts = Ts[mj];
+      const tl = Tl[mj];
+      const cf = cF[mj];
+      const ct = cT[mj];
+      for (let c = j * nr; c < (j + 1) * nr; c++) {
+        const t0 = Told[c];
+        const t1 = Tguess[c];
+        // Same value as apparentCapacity; its branch cases inline (most cells).
+        const C = t0 < ts && t1 < ts ? cf : t0 > tl && t1 > tl ? ct : apparentCapacity(materials, mj, t0, t1);
         const cp = (C * V[c]) / dt_s;
         capC[c] = C;
         cap[c] = cp;
-        let diag = cp;
-        let b = cp * Told[c];
-        if (i > 0) diag += Gr[j * (nr - 1) + i - 1];
-        if (i < nr - 1) diag += Gr[j * (nr - 1) + i];
-        if (j > 0) diag += Gz[c - nr];
-        if (!last) diag += Gz[c];
-        else b += qBottom * Az[i];
-        if (j === 0) {
-          diag += Gs[i];
-          b += Gs[i] * Tsurf;
-        }
-        aP[c] = diag;
-        rhs[c] = b;
+        aP[c] = cp + gSum[c];
+        rhs[c] = cp * t0 + bFixed[c];
       }
     }
   }
@@ -524,6 +548,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
       }
       for (let i = 0; i < nr; i++) Gs[i] = Az[i] / (0.5 * dz[0] * rk[i]);
       for (let j = 0; j < np; j++) halfCell[j] = k[j * nr] / gIn[0];
+      assembleConductances(Tsurf);
       Told.set(T);
       if (inner) inner.beginStep(t1, dt_s);
       for (let c = 0; c < n; c++) {
@@ -532,7 +557,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
       }
       let converged = false;
       for (let outer = 0; outer < phaseIterations; outer++) {
-        assemble(dt_s, Tsurf);
+        assemble(dt_s);
         if (outer === 0) updateInner();
         const last = outer + 1 === phaseIterations;
         // The first pass usually needs the pile coupling's unit response (solved in the same pass over
@@ -542,12 +567,21 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         // Re-linearise only if some cell's secant capacity between T^n and the new T* differs from the
         // one used (a cell crossing into or out of its freezing interval); otherwise T* is final.
         let relinearise = false;
+        const { Ts, Tl, cF, cT } = materials;
         for (let j = 0; j < nz && !relinearise; j++) {
           const mj = mat[j];
-          for (let i = 0; i < nr; i++) {
-            const c = j * nr + i;
+          const ts = Ts[mj];
+          const tl = Tl[mj];
+          for (let c = j * nr; c < (j + 1) * nr; c++) {
             const used = capC[c];
-            const C = apparentCapacity(materials, mj, Told[c], T[c]);
+            const t0 = Told[c];
+            const t1 = T[c];
+            const C =
+              t0 < ts && t1 < ts
+                ? cF[mj]
+                : t0 > tl && t1 > tl
+                  ? cT[mj]
+                  : apparentCapacity(materials, mj, t0, t1);
             if (!(Math.abs(C - used) < phaseTolerance * used)) {
               relinearise = true;
               break;
