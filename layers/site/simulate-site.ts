@@ -34,7 +34,7 @@ import {
   probeTemperature,
   type ProbeStencil,
 } from './site-probes';
-import type { SiteCaseResult, SiteEnergyBalance, SiteFluidResult, SiteResult } from './site-result';
+import type { SiteCaseResult, SiteFluidResult, SiteResult } from './site-result';
 import { buildMeshes, initialState, resolveGround, rowMaterials, surfaceForcing } from './site-setup';
 
 export interface SimulateSiteOptions {
@@ -101,8 +101,17 @@ export function simulateSite(
         thawDepth_m: [],
         annualThawDepth_m: [],
         probes: input.probes.map((p) => ({ r_m: p.r_m, z_m: p.z_m, T_C: [], thawYear: null })),
-        energyBalance: {} as SiteEnergyBalance,
+        // Filled at the end; created with their final shape so that no object changes shape mid-run.
+        energyBalance: {
+          stored_J: 0,
+          boundaries_J: 0,
+          surface_J: 0,
+          bottom_J: 0,
+          pile_J: 0,
+          relativeError: 0,
+        },
         unconvergedSteps: 0,
+        solverWork: { substitutions: 0, rightHandSides: 0, refactoredRows: 0 },
       },
     };
   };
