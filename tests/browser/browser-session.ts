@@ -97,19 +97,26 @@ async function closeServer(server: PreviewServer): Promise<void> {
   await server.close();
 }
 
-/**
- * Count the pixels of an element's screenshot that are neither of the given background colours
- * (within a tolerance per channel). The PNG is decoded by the page itself (no image library needed).
- */
-export async function countForegroundPixels(
-  page: Page,
-  selector: string,
-  backgrounds: [number, number, number][],
-  tolerance = 6,
-): Promise<{ total: number; foreground: number; distinct: number }> {
+interface ScreenshotJob {
+  /** Colours to leave out of the count, and the tolerance per channel. */
+  backgrounds: [number, number, number][];
+  tolerance: number;
+  /** Points (element pixels from the top left) whose colours to return. */
+  points: { x: number; y: number }[];
+}
+
+interface ScreenshotFindings {
+  total: number;
+  foreground: number;
+  distinct: number;
+  colours: [number, number, number][];
+}
+
+/** Screenshot an element and read its pixels in the page itself (no image library needed). */
+async function readScreenshot(page: Page, selector: string, job: ScreenshotJob): Promise<ScreenshotFindings> {
   const png = await page.locator(selector).screenshot();
   return page.evaluate(
-    async ({ b64, backgrounds, tolerance }) => {
+    async ({ b64, job }) => {
       const img = new Image();
       img.src = `data:image/png;base64,${b64}`;
       await img.decode();
@@ -121,23 +128,45 @@ export async function countForegroundPixels(
       ctx.drawImage(img, 0, 0);
       const d = ctx.getImageData(0, 0, c.width, c.height).data;
       let foreground = 0;
-      const colours = new Set<number>();
+      const distinct = new Set<number>();
       for (let i = 0; i < d.length; i += 4) {
-        const isBg = backgrounds.some(
+        const isBg = job.backgrounds.some(
           (bg) =>
-            Math.abs(d[i] - bg[0]) <= tolerance &&
-            Math.abs(d[i + 1] - bg[1]) <= tolerance &&
-            Math.abs(d[i + 2] - bg[2]) <= tolerance,
+            Math.abs(d[i] - bg[0]) <= job.tolerance &&
+            Math.abs(d[i + 1] - bg[1]) <= job.tolerance &&
+            Math.abs(d[i + 2] - bg[2]) <= job.tolerance,
         );
         if (!isBg) {
           foreground++;
-          colours.add((d[i] << 16) | (d[i + 1] << 8) | d[i + 2]);
+          distinct.add((d[i] << 16) | (d[i + 1] << 8) | d[i + 2]);
         }
       }
-      return { total: d.length / 4, foreground, distinct: colours.size };
+      const colours = job.points.map(({ x, y }) => {
+        const k = (Math.round(y) * c.width + Math.round(x)) * 4;
+        return [d[k], d[k + 1], d[k + 2]] as [number, number, number];
+      });
+      return { total: d.length / 4, foreground, distinct: distinct.size, colours };
     },
-    { b64: png.toString('base64'), backgrounds, tolerance },
+    { b64: png.toString('base64'), job },
   );
+}
+
+/**
+ * Count the pixels of an element's screenshot that are neither of the given background colours
+ * (within a tolerance per channel).
+ */
+export async function countForegroundPixels(
+  page: Page,
+  selector: string,
+  backgrounds: [number, number, number][],
+  tolerance = 6,
+): Promise<{ total: number; foreground: number; distinct: number }> {
+  const { total, foreground, distinct } = await readScreenshot(page, selector, {
+    backgrounds,
+    tolerance,
+    points: [],
+  });
+  return { total, foreground, distinct };
 }
 
 /** The RGB colour of an element's screenshot at points given relative to the element's top left. */
@@ -146,25 +175,7 @@ export async function pixelsAt(
   selector: string,
   points: { x: number; y: number }[],
 ): Promise<[number, number, number][]> {
-  const png = await page.locator(selector).screenshot();
-  return page.evaluate(
-    async ({ b64, points }) => {
-      const img = new Image();
-      img.src = `data:image/png;base64,${b64}`;
-      await img.decode();
-      const c = document.createElement('canvas');
-      c.width = img.width;
-      c.height = img.height;
-      const ctx = c.getContext('2d');
-      if (!ctx) throw new Error('no 2d context');
-      ctx.drawImage(img, 0, 0);
-      return points.map(({ x, y }) => {
-        const d = ctx.getImageData(Math.round(x), Math.round(y), 1, 1).data;
-        return [d[0], d[1], d[2]] as [number, number, number];
-      });
-    },
-    { b64: png.toString('base64'), points },
-  );
+  return (await readScreenshot(page, selector, { backgrounds: [], tolerance: 0, points })).colours;
 }
 
 /** Hex colour '#rrggbb' -> [r, g, b]. */
