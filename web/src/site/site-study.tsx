@@ -211,7 +211,7 @@ export function SiteStudy(props: {
               : run.kind === 'running'
                 ? run.phase === 'sizing'
                   ? 'Sizing the pile field by design pulse…'
-                  : 'Simulating in the background; the map stays usable.'
+                  : 'Simulating in the background; the page stays responsive (Cancel stops it).'
                 : run.kind === 'done'
                   ? `Done in ${(run.outcome.elapsed_ms / 1000).toFixed(1)} s (${run.outcome.result.mesh.nr}×${run.outcome.result.mesh.nz} cells, ${run.outcome.result.mesh.timeSteps} steps).`
                   : run.kind === 'failed'
