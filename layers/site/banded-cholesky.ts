@@ -86,12 +86,27 @@ export function choleskySolve(m: BandMatrix, b: Float64Array): void {
 
 /**
  * Solves L Lᵀ x = b and L Lᵀ y = c in place in one pass over the factor (each factor entry is read
- * once for both right-hand sides: about 1.3 single solves in time instead of 2).
+ * once for both right-hand sides: about 1.5 single solves in time instead of 2). `cFrom`: c is zero
+ * in every row before it (so is L⁻¹c), which the forward substitution skips.
  */
-export function choleskySolvePair(m: BandMatrix, b: Float64Array, c: Float64Array): void {
+export function choleskySolvePair(m: BandMatrix, b: Float64Array, c: Float64Array, cFrom = 0): void {
   const { n, p, band: a } = m;
   const w = p + 1;
-  for (let i = 0; i < n; i++) {
+  const c0 = Math.max(0, Math.min(n, cFrom));
+  for (let i = 0; i < c0; i++) {
+    const ri = i * w - i + p;
+    const j0 = i - p > 0 ? i - p : 0;
+    let s0 = b[i];
+    let s1 = 0;
+    let j = j0;
+    for (; j + 1 < i; j += 2) {
+      s0 -= a[ri + j] * b[j];
+      s1 -= a[ri + j + 1] * b[j + 1];
+    }
+    if (j < i) s0 -= a[ri + j] * b[j];
+    b[i] = (s0 + s1) / a[ri + i];
+  }
+  for (let i = c0; i < n; i++) {
     const ri = i * w - i + p;
     const j0 = i - p > 0 ? i - p : 0;
     let s0 = b[i];

@@ -156,6 +156,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const Tguess = new Float64Array(n);
   const k = new Float64Array(n);
   const rk = new Float64Array(n); // 1 / k
+  const kRowChanged = new Uint8Array(nz);
   const cap = new Float64Array(n); // C V / Δt, W/K
   const capC = new Float64Array(n); // apparent capacity C, J/m³K
   const gSum = new Float64Array(n); // Σ conductances to neighbours and surface, W/K
@@ -208,6 +209,10 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
    */
   function assembleConductances(Tsurf: number): void {
     for (let j = 0; j < nz; j++) {
+      // Only rows next to a conductivity change, and the boundary rows (surface temperature), change.
+      if (!(kRowChanged[j] || (j > 0 && kRowChanged[j - 1]) || (j < nz - 1 && kRowChanged[j + 1]))) {
+        if (j !== 0 && j !== nz - 1) continue;
+      }
       const last = j === nz - 1;
       for (let i = 0; i < nr; i++) {
         const c = j * nr + i;
@@ -402,7 +407,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     unitValid = false;
     if (withUnit && coupled()) {
       unitResponseRhs();
-      choleskySolvePair(A, xr, xu);
+      choleskySolvePair(A, xr, xu, (nz - np) * nr);
       solver.sweeps++;
       solver.rightHandSides += 2;
       unitValid = true;
@@ -533,20 +538,28 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     step(dt_s: number) {
       const t1 = solver.time_s + dt_s;
       const Tsurf = s.surfaceTemperature_C(t1);
+      // Conductivities at the old temperature; conductances are recomputed only next to a change.
       for (let j = 0; j < nz; j++) {
         const mj = mat[j];
-        for (let i = 0; i < nr; i++) {
-          const c = j * nr + i;
-          k[c] = conductivityAt(materials, mj, T[c]);
-          rk[c] = 1 / k[c];
+        let changed = 0;
+        for (let c = j * nr; c < (j + 1) * nr; c++) {
+          const kNew = conductivityAt(materials, mj, T[c]);
+          if (kNew !== k[c]) {
+            k[c] = kNew;
+            rk[c] = 1 / kNew;
+            changed = 1;
+          }
         }
+        kRowChanged[j] = changed;
       }
       for (let j = 0; j < nz; j++) {
-        for (let i = 0; i < nr - 1; i++) {
-          const c = j * nr + i;
-          Gr[j * (nr - 1) + i] = dz[j] / (gOut[i] * rk[c] + gIn[i + 1] * rk[c + 1]);
+        if (kRowChanged[j]) {
+          for (let i = 0; i < nr - 1; i++) {
+            const c = j * nr + i;
+            Gr[j * (nr - 1) + i] = dz[j] / (gOut[i] * rk[c] + gIn[i + 1] * rk[c + 1]);
+          }
         }
-        if (j < nz - 1) {
+        if (j < nz - 1 && (kRowChanged[j] || kRowChanged[j + 1])) {
           const h0 = 0.5 * dz[j];
           const h1 = 0.5 * dz[j + 1];
           for (let i = 0; i < nr; i++) {
