@@ -57,6 +57,7 @@ export interface PileLoop extends InnerBoundary {
   outlet_C: number;
   extraction_W: number;
   running: boolean;
+  linearResponse(dInnerT_C: Float64Array, out: Float64Array): void;
 }
 
 /** Creates the loop boundary for the first `rowLength_m.length` rows of the mesh. */

@@ -4,6 +4,8 @@
  * over the down-and-up path (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, mean
  * temperature for constant surface temperature, eq. 8.42b in the 6th ed.; equation number recalled from
  * memory); and the loop's energy balance ṁc(T_out − T_in) equals the heat drawn from the ground rows.
+ * The loop's linear response (used by the solver to couple it without extra solves) is checked against
+ * the loop itself: for a fixed command the boundary temperatures are affine in the cell temperatures.
  */
 import { describe, expect, it } from 'vitest';
 import { createPileLoop } from '../../layers/site/pile-loop';
@@ -58,5 +60,35 @@ describe('pile loop', () => {
     loop.update(ground, new Float64Array(rows).fill(8));
     expect(loop.running).toBe(false);
     expect(Math.max(...loop.g_W_K)).toBe(0);
+  });
+
+  it('states its linear response: the change of the boundary temperatures between two ground states', () => {
+    const commands = [
+      { kind: 'inlet', inlet_C: -6 },
+      { kind: 'outlet', outlet_C: -4 },
+      { kind: 'extraction', extraction_W: 300 },
+    ] as const;
+    for (const cmd of commands) {
+      const loop = loopWith(() => cmd, 0.7);
+      const half = Float64Array.from({ length: rows }, (_, j) => 6 + 0.1 * j);
+      const g1 = Float64Array.from({ length: rows }, (_, j) => -2 + 0.05 * j);
+      const g2 = Float64Array.from({ length: rows }, (_, j) => -2 + 0.05 * j + 0.3 * Math.sin(j));
+      loop.beginStep(0, 1);
+      loop.update(g2, half);
+      const T2 = Float64Array.from(loop.T_C);
+      loop.update(g1, half);
+      const T1 = Float64Array.from(loop.T_C);
+      const state = [loop.inlet_C, loop.outlet_C, loop.extraction_W];
+      const d = Float64Array.from(g2, (x, j) => x - g1[j]);
+      const out = new Float64Array(rows);
+      loop.linearResponse(d, out);
+      for (let j = 0; j < rows; j++) expect(Math.abs(out[j] - (T2[j] - T1[j]))).toBeLessThan(1e-12);
+      // A uniform shift of the ground moves everything by the same amount for a given extraction.
+      if (cmd.kind === 'extraction') {
+        loop.linearResponse(new Float64Array(rows).fill(1), out);
+        for (let j = 0; j < rows; j++) expect(out[j]).toBeCloseTo(1, 12);
+      }
+      expect([loop.inlet_C, loop.outlet_C, loop.extraction_W]).toEqual(state);
+    }
   });
 });
