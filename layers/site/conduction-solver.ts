@@ -172,6 +172,8 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   const gUsed = new Float64Array(Math.max(1, np));
   const TbcUsed = new Float64Array(Math.max(1, np));
   const qUsed = new Float64Array(Math.max(1, np));
+  const rPrev = new Float64Array(Math.max(1, np));
+  const fPrev = new Float64Array(Math.max(1, np));
   const unitInner = new Float64Array(Math.max(1, np));
   const unitResponse = new Float64Array(Math.max(1, np));
   const A = createBandMatrix(n, nr);
@@ -375,6 +377,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
   }
 
   let unitValid = false;
+  let history = false;
   let coarseDone = false;
   let stale = 0;
 
@@ -418,6 +421,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     }
     for (let b = 0; b < n; b++) x[b] += xr[b];
     coarseDone = false;
+    history = false;
     stale = 0;
     return iterate(acceptStale);
   }
@@ -447,6 +451,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         factor();
         buildRhs();
         unitValid = false;
+        history = false;
         residual();
       } else {
         if (worst >= tol && !coarseDone && coupled()) {
@@ -470,14 +475,34 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
           unitValid = false;
           stale = 0;
         }
+        // Fixed-point step on what the fluid-level correction left, with Anderson mixing of depth 1
+        // (a secant step on the residual F(y) − y, exact for the affine loop along the last direction).
+        let theta = 0;
+        if (inner && history) {
+          let num = 0;
+          let den = 0;
+          for (let j = 0; j < np; j++) {
+            if (!(gUsed[j] > 0)) continue;
+            const r = inner.T_C[j] - TbcUsed[j];
+            const dr = r - rPrev[j];
+            num += r * dr;
+            den += dr * dr;
+          }
+          theta = den > 0 ? num / den : 0;
+        }
         for (let j = 0; j < np; j++) {
           const b = (nz - 1 - j) * nr;
-          const d = gUsed[j] * (inner!.T_C[j] - TbcUsed[j]) + (inner!.q_W[j] - qUsed[j]);
+          const f = inner!.T_C[j];
+          rPrev[j] = f - TbcUsed[j];
+          const y = theta !== 0 && gUsed[j] > 0 ? f - theta * (f - fPrev[j]) : f;
+          fPrev[j] = f;
+          const d = gUsed[j] * (y - TbcUsed[j]) + (inner!.q_W[j] - qUsed[j]);
           xr[b] += d;
           xb[b] += d;
-          TbcUsed[j] = inner!.T_C[j];
+          TbcUsed[j] = y;
           qUsed[j] = inner!.q_W[j];
         }
+        history = true;
       }
       choleskySolve(A, xr);
       solver.sweeps++;
