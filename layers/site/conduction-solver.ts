@@ -394,7 +394,8 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
    *    r + s·(P·u − 1) (P the loop's linear response). Since the loop is affine for a fixed command,
    *    this is exact for the fluid level; what is left is the weak row-to-row part.
    * 3. Otherwise one substitution with the current residual of the system (the factor's staleness) plus
-   *    the remaining boundary change (a fixed-point step y ← F(x)) corrects x, and 2 is repeated.
+   *    the remaining boundary change (a fixed-point step y ← F(x) with Anderson mixing of depth 1)
+   *    corrects x, and 2 is repeated.
    * It stops when the loop's boundary temperatures move less than `tolerance_K` and the residual of
    * the system is below `solveTolerance_K`, as a temperature, so the field satisfies the system with
    * the boundary values recorded as used (which the energy ledger takes). `acceptStale`: see `iterate`;
@@ -428,7 +429,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
 
   /**
    * Steps 2 and 3 of `solveLinear`. With `acceptStale` it returns as soon as the coupling has
-   * converged, leaving the factor's staleness (a residual of order 1e-5 K) uncorrected: used for a
+   * converged, leaving what the factor's staleness left of the residual uncorrected: used for a
    * pass whose T* only serves to re-linearise the capacities (its coupling error may be `tolerance_K`,
    * far larger); `iterate(false)` then finishes the pass if it turns out to be the last.
    */
