@@ -80,7 +80,14 @@ export function choleskySolve(m: BandMatrix, b: Float64Array): void {
     const xi = b[i] / a[ri + i];
     b[i] = xi;
     const j0 = i - p > 0 ? i - p : 0;
-    for (let j = j0; j < i; j++) b[j] -= a[ri + j] * xi;
+    let j = j0;
+    for (; j + 3 < i; j += 4) {
+      b[j] -= a[ri + j] * xi;
+      b[j + 1] -= a[ri + j + 1] * xi;
+      b[j + 2] -= a[ri + j + 2] * xi;
+      b[j + 3] -= a[ri + j + 3] * xi;
+    }
+    for (; j < i; j++) b[j] -= a[ri + j] * xi;
   }
 }
 
@@ -139,7 +146,16 @@ export function choleskySolvePair(m: BandMatrix, b: Float64Array, c: Float64Arra
     b[i] = xi;
     c[i] = yi;
     const j0 = i - p > 0 ? i - p : 0;
-    for (let j = j0; j < i; j++) {
+    let j = j0;
+    for (; j + 1 < i; j += 2) {
+      const l0 = a[ri + j];
+      const l1 = a[ri + j + 1];
+      b[j] -= l0 * xi;
+      c[j] -= l0 * yi;
+      b[j + 1] -= l1 * xi;
+      c[j + 1] -= l1 * yi;
+    }
+    if (j < i) {
       const l = a[ri + j];
       b[j] -= l * xi;
       c[j] -= l * yi;
