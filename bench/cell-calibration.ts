@@ -6,8 +6,10 @@
  * model's carried annual-average load with a monthly heating profile (monthly factors ∝ heating
  * degree-hours of the month's mean air temperature, mean 1), probes at the reference point and along
  * the pile. Compared:
- *  - thaw delay at the reference point: model thawDelay vs the simulator's thawDelay_yr, where the
- *    simulator thaws within the run in both cases (not a lower bound);
+ *  - thaw delay at the reference point: model thawDelay vs the simulator's thawDelay_yr, two-sided
+ *    where the simulator thaws within the run in both cases; one-sided where only the no-pile run
+ *    thaws (the simulated delay is then a lower bound, and the model's delay is only checked against
+ *    it: below = certainly conservative, at or above = consistent);
  *  - pile count: piles scale with the fluid temperature drop per unit load (linearity), so the ratio
  *    (simulated drop)/(modelled drop) for the same monthly load history is the ratio of the pile count
  *    the simulator implies to the model's. The modelled drop is the three-pulse ground part without
@@ -93,19 +95,57 @@ export interface CalibrationOptions {
   fidelity: 'coarse' | 'standard' | 'fine';
 }
 
+/**
+ * The simulator at its own default numerics (7-day steps, standard mesh) over 196 years: 28 × 7 years,
+ * so the step is exactly 7 days (the simulator rounds the step to fit the run) and a shorter run of a
+ * multiple of 7 years marches the same steps, bit for bit (the live test's re-runs rely on this: the
+ * simulated thaw time is so flat near 0 °C that a 1e-4 change of the step moved one delay by 0.8 yr).
+ * 200 years is the schema's longest run. Pilot on the first 20 sample cells (bench/calibration-pilot.ts,
+ * 14 simulated): two-sided thaw-delay comparisons 1 at 80 yr, 7 at 120, 8 at 160, 10 at 200 (3 cells
+ * do not thaw even without the pile by 200 yr). Numerical resolution of the simulated delay on those
+ * cells: 28-day → 7-day steps change it by up to 0.58 yr (so a 28-day step, let alone a coarser one, is
+ * not within 0.2 yr), 7 → 3.5 days by ≤ 0.10 yr on 9 of 10 cells (0.58 on one), coarse → standard mesh
+ * by up to 0.87 yr. Cost about 6 s a simulated cell.
+ */
 export const DEFAULT_CALIBRATION_OPTIONS: CalibrationOptions = {
-  years: 80,
-  timeStep_days: 28,
-  fidelity: 'coarse',
+  years: 196,
+  timeStep_days: 7,
+  fidelity: 'standard',
 };
 
 export interface CalibrationCase {
   cell: CellInputs;
   excluded: boolean;
-  model: { thawDelay_yr: number; pilesPerTon: number; fluidDrop_K: number; carried_W_m: number };
-  sim: { thawDelay_yr: number | null; lowerBound: boolean; fluidDrop_K: number | null; seconds: number };
-  /** model − simulator, yr (null when not comparable). */
+  model: {
+    /** Thaw time at the reference point without piles, yr from the start (the model's horizon caps it). */
+    noPileThaw_yr: number;
+    thawDelay_yr: number;
+    pilesPerTon: number;
+    fluidDrop_K: number;
+    carried_W_m: number;
+  };
+  sim: {
+    /** Thaw time at the reference point without and with the pile, yr from the start (null: not by the end). */
+    noPileThaw_yr: number | null;
+    pileThaw_yr: number | null;
+    thawDelay_yr: number | null;
+    lowerBound: boolean;
+    fluidDrop_K: number | null;
+    seconds: number;
+  };
+  /**
+   * How the thaw delays compare: 'two-sided' when both simulator runs thaw within the run; 'lower-bound'
+   * when only the no-pile run thaws (the simulated delay is then at least years − noPileThaw_yr);
+   * 'none' otherwise (neither thaws, or the cell is excluded).
+   */
+  thawComparison: 'two-sided' | 'lower-bound' | 'none';
+  /** model − simulator, yr ('two-sided' cases only, else null). */
   thawDelayError_yr: number | null;
+  /**
+   * model − the simulator's lower bound, yr ('lower-bound' cases only, else null). Negative: the model
+   * is certainly below the simulated delay (conservative by at least this much); ≥ 0: consistent.
+   */
+  thawDelayOverLowerBound_yr: number | null;
   /** simulator-implied / model pile count − 1 (null when not comparable). */
   pileCountError: number | null;
 }
@@ -152,6 +192,7 @@ export function calibrateCell(
   });
   const fluidDropModel = winter + carried * rGa + carried * peakFactor * (s.pile.resistance_mK_W + rGm);
   const model = {
+    noPileThaw_yr: m[METRIC.thawYear] - s.startYear,
     thawDelay_yr: m[METRIC.thawDelay],
     pilesPerTon: m[METRIC.pilesPerTon],
     fluidDrop_K: fluidDropModel,
@@ -161,8 +202,17 @@ export function calibrateCell(
     cell,
     excluded,
     model,
-    sim: { thawDelay_yr: null, lowerBound: false, fluidDrop_K: null, seconds: 0 },
+    sim: {
+      noPileThaw_yr: null,
+      pileThaw_yr: null,
+      thawDelay_yr: null,
+      lowerBound: false,
+      fluidDrop_K: null,
+      seconds: 0,
+    },
+    thawComparison: 'none',
     thawDelayError_yr: null,
+    thawDelayOverLowerBound_yr: null,
     pileCountError: null,
   };
   if (excluded || !(carried > 0)) return empty;
@@ -249,29 +299,83 @@ export function calibrateCell(
   }
   const simDelay = r.thawDelay_yr[0];
   const lowerBound = r.thawDelayIsLowerBound[0];
-  const comparableThaw =
-    simDelay !== null &&
-    !lowerBound &&
-    Number.isFinite(model.thawDelay_yr) &&
-    r.noPile.probes[0].thawYear !== null;
+  const noPileThaw = r.noPile.probes[0].thawYear;
+  const pileThaw = r.withPile ? r.withPile.probes[0].thawYear : null;
+  const modelFinite = Number.isFinite(model.thawDelay_yr);
+  const thawComparison: CalibrationCase['thawComparison'] =
+    !modelFinite || simDelay === null || noPileThaw === null
+      ? 'none'
+      : lowerBound
+        ? 'lower-bound'
+        : pileThaw !== null
+          ? 'two-sided'
+          : 'none';
   return {
     cell,
     excluded,
     model,
-    sim: { thawDelay_yr: simDelay, lowerBound, fluidDrop_K: fluidDrop, seconds },
-    thawDelayError_yr: comparableThaw ? model.thawDelay_yr - (simDelay as number) : null,
+    sim: {
+      noPileThaw_yr: noPileThaw,
+      pileThaw_yr: pileThaw,
+      thawDelay_yr: simDelay,
+      lowerBound,
+      fluidDrop_K: fluidDrop,
+      seconds,
+    },
+    thawComparison,
+    thawDelayError_yr: thawComparison === 'two-sided' ? model.thawDelay_yr - (simDelay as number) : null,
+    thawDelayOverLowerBound_yr:
+      thawComparison === 'lower-bound' ? model.thawDelay_yr - (simDelay as number) : null,
     pileCountError: fluidDrop !== null && fluidDropModel > 0 ? fluidDrop / fluidDropModel - 1 : null,
   };
 }
 
-/** Median and 95th percentile of |x| (nearest-rank). */
-export function errorSummary(xs: number[]): { n: number; median: number; p95: number; max: number } {
+/**
+ * Median, 95th percentile (nearest rank) and maximum of |x|, and the median of the signed x
+ * (the bias: > 0 when the model is above the simulator more often than not).
+ */
+export function errorSummary(xs: number[]): {
+  n: number;
+  median: number;
+  p95: number;
+  max: number;
+  signedMedian: number;
+} {
   const a = xs.map(Math.abs).sort((p, q) => p - q);
-  const rank = (p: number) => a[Math.min(a.length - 1, Math.max(0, Math.ceil(p * a.length) - 1))];
+  const signed = [...xs].sort((p, q) => p - q);
+  const rank = (v: number[], p: number) =>
+    v[Math.min(v.length - 1, Math.max(0, Math.ceil(p * v.length) - 1))];
   return {
     n: a.length,
-    median: a.length ? rank(0.5) : NaN,
-    p95: a.length ? rank(0.95) : NaN,
+    median: a.length ? rank(a, 0.5) : NaN,
+    p95: a.length ? rank(a, 0.95) : NaN,
     max: a.length ? a[a.length - 1] : NaN,
+    signedMedian: signed.length ? rank(signed, 0.5) : NaN,
+  };
+}
+
+/**
+ * One-sided thaw-delay figures over the 'lower-bound' cases (the simulator's with-pile run had not thawed
+ * by the end of the run), from model − bound: how many model delays fall below the bound (the model
+ * is certainly conservative there) and how many at or above it (consistent with the simulator, not
+ * checkable further), with the median and largest shortfall below the bound.
+ */
+export function lowerBoundSummary(overBound_yr: number[]): {
+  n: number;
+  belowBound: number;
+  atOrAboveBound: number;
+  medianShortfall_yr: number;
+  maxShortfall_yr: number;
+} {
+  const short = overBound_yr
+    .filter((d) => d < 0)
+    .map((d) => -d)
+    .sort((p, q) => p - q);
+  return {
+    n: overBound_yr.length,
+    belowBound: short.length,
+    atOrAboveBound: overBound_yr.length - short.length,
+    medianShortfall_yr: short.length ? short[Math.ceil(0.5 * short.length) - 1] : NaN,
+    maxShortfall_yr: short.length ? short[short.length - 1] : NaN,
   };
 }
