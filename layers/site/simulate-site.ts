@@ -320,18 +320,29 @@ export function simulateSite(
   const withPile = pileCase ? pileCase.out : null;
   const thawDelay_yr: (number | null)[] = [];
   const lowerBound: boolean[] = [];
+  const upperBound: boolean[] = [];
   input.probes.forEach((_, i) => {
     const a = noPile.probes[i].thawYear;
     const b = withPile ? withPile.probes[i].thawYear : null;
-    if (a === null && b === null) {
+    if (!withPile || (a === null && b === null)) {
       thawDelay_yr.push(null);
       lowerBound.push(false);
+      upperBound.push(false);
     } else if (a !== null && b === null) {
-      thawDelay_yr.push(withPile ? round4(input.years - a) : null);
-      lowerBound.push(withPile !== null);
-    } else {
-      thawDelay_yr.push(round4((b ?? input.years) - (a ?? input.years)));
+      // The pile case has not thawed by the end of the run: the delay is at least years − a.
+      thawDelay_yr.push(round4(input.years - a));
+      lowerBound.push(true);
+      upperBound.push(false);
+    } else if (a === null && b !== null) {
+      // Only the pile case thawed (heat injected into the ground): the ground without the pile thaws
+      // after the run, so the delay is at most b − years (negative: the pile brings the thaw forward).
+      thawDelay_yr.push(round4(b - input.years));
       lowerBound.push(false);
+      upperBound.push(true);
+    } else {
+      thawDelay_yr.push(round4((b as number) - (a as number)));
+      lowerBound.push(false);
+      upperBound.push(false);
     }
   });
 
@@ -372,6 +383,7 @@ export function simulateSite(
     withPile,
     thawDelay_yr,
     thawDelayIsLowerBound: lowerBound,
+    thawDelayIsUpperBound: upperBound,
     energyBalance: { relativeError: worst },
     fluid,
     overCooling: pileCase ? { ...overCooling, endOfWinterDay: round4(endOfWinterDay % 365) } : null,

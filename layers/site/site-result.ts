@@ -87,6 +87,11 @@ export interface SiteResult {
   thawDelay_yr: (number | null)[];
   /** Per probe: true when the pile case did not thaw within the run, so the delay is a lower bound. */
   thawDelayIsLowerBound: boolean[];
+  /**
+   * Per probe: true when only the pile case thawed within the run (heat injected into the ground), so
+   * the delay (negative) is an upper bound: the pile brings the thaw forward by at least its magnitude.
+   */
+  thawDelayIsUpperBound: boolean[];
   energyBalance: { relativeError: number };
   fluid: SiteFluidResult | null;
   overCooling: SiteOverCooling | null;

@@ -33,6 +33,7 @@ function fakeResult(overrides: Partial<SiteResult> = {}): SiteResult {
     withPile: caseResult,
     thawDelay_yr: input.probes.map(() => null),
     thawDelayIsLowerBound: input.probes.map(() => false),
+    thawDelayIsUpperBound: input.probes.map(() => false),
     energyBalance: { relativeError: 0 },
     fluid: {
       month_yr: Array.from({ length: months }, (_, m) => m / 12),

@@ -65,6 +65,33 @@ describe('simulateSite', () => {
     expect(f.lowest_C!).toBeGreaterThan(-8 - 0.5);
   });
 
+  it('a pile that injects heat thaws the ground sooner: the (negative) delay is flagged as an upper bound', () => {
+    // 400 W put into the ground (cooling mode) at a warm permafrost site: the ground around the pile
+    // thaws within the first year, the ground without the pile not within the 6-year run.
+    const hot = shortRun((d) => {
+      d.years = 6;
+      d.operation = { mode: 'heatRate', extraction_W: -400 };
+    });
+    const wp = hot.withPile!;
+    let flagged = 0;
+    hot.thawDelay_yr.forEach((delay, i) => {
+      const a = hot.noPile.probes[i].thawYear;
+      const b = wp.probes[i].thawYear;
+      expect(hot.thawDelayIsLowerBound[i] && hot.thawDelayIsUpperBound[i]).toBe(false);
+      if (a === null && b !== null) {
+        flagged++;
+        expect(hot.thawDelayIsUpperBound[i]).toBe(true);
+        expect(delay).toBeCloseTo(b - 6, 3);
+        expect(delay!).toBeLessThan(0);
+      } else {
+        expect(hot.thawDelayIsUpperBound[i]).toBe(false);
+      }
+    });
+    expect(flagged).toBeGreaterThan(0);
+    // Extraction never brings the thaw forward, so nothing is flagged as an upper bound there.
+    expect(r.thawDelayIsUpperBound.every((f) => !f)).toBe(true);
+  });
+
   it('can be cancelled', () => {
     const d = structuredClone(example);
     d.numerics = { fidelity: 'coarse' };

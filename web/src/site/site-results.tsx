@@ -75,6 +75,7 @@ export function useSiteDerived(run: SiteRunOutcome, scenario: Scenario) {
       withPile: result.withPile ? ownProbes(result.withPile, column) : null,
       thawDelay: result.thawDelay_yr.slice(0, own),
       lowerBound: result.thawDelayIsLowerBound.slice(0, own),
+      upperBound: result.thawDelayIsUpperBound.slice(0, own),
     };
   }, [run, scenario]);
 }
@@ -111,7 +112,9 @@ export function SiteSummaryTable(props: {
       ? run.result.withPile
         ? `no thaw within ${run.input.years} yr either way`
         : '—'
-      : `${d.lowerBound[0] ? 'more than ' : ''}${delay.toFixed(1)} yr`;
+      : d.upperBound[0]
+        ? `none: the pile brings the thaw forward by more than ${(-delay).toFixed(1)} yr`
+        : `${d.lowerBound[0] ? 'more than ' : ''}${delay.toFixed(1)} yr`;
   const p0 = run.input.probes[0];
   const peak_kW = d.peakLoad_W ? d.peakLoad_W / 1000 : null;
   const quickPiles =

@@ -135,6 +135,7 @@ export function SiteStudy(props: {
     if (derived && run.kind === 'done') {
       metrics.thawDelay_yr = derived.thawDelay[0] ?? null;
       metrics.thawDelayIsLowerBound = derived.lowerBound[0] ? 'yes' : 'no';
+      metrics.thawDelayIsUpperBound = derived.upperBound[0] ? 'yes' : 'no';
       metrics.pileCount = derived.sizing?.ok ? derived.sizing.sizing.pileCount : null;
       metrics.peakLoad_kW = derived.peakLoad_W !== null ? derived.peakLoad_W / 1000 : null;
       metrics.lowestFluid_C = run.outcome.result.fluid?.lowest_C ?? null;
