@@ -19,6 +19,7 @@
  *    lowest monthly mean fluid temperature over the design life.
  */
 import { simulateSite } from '../layers/site/simulate-site';
+import { createRandom } from '../data-pipeline/demo/seeded-random';
 import type { SiteInputDraft } from '../layers/site/site-input-schema';
 import { cylinderSourceGBernier } from '../layers/physics/infinite-cylinder-source';
 import { SECONDS_PER_YEAR } from '../layers/physics/surface-forcing';
@@ -45,21 +46,9 @@ export const DEMO_RANGES = {
   water: { 1: 0.15, 2: 0.24, 3: 0.45, 4: 0.45, 5: 0.8 } as Record<number, number>,
 } as const;
 
-/** Small seeded generator (mulberry32). */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** A Latin-hypercube-like seeded sample of `n` cells over the demo ranges. */
 export function sampleCalibrationCells(n: number, seed: number): CellInputs[] {
-  const r = rng(seed);
+  const r = createRandom(seed);
   const strata = (k: number) => {
     const idx = Array.from({ length: n }, (_, i) => (i + r()) / n);
     for (let i = n - 1; i > 0; i--) {
