@@ -98,8 +98,6 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const [flyTarget, setFlyTarget] = useState<{ lon: number; lat: number; seq: number } | null>(null);
   const shortlist = useShortlist();
   const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
-  const [viewportLoads, setViewportLoads] = useState(0);
-  const onViewportLoad = useCallback(() => setViewportLoads((n) => n + 1), []);
   const onFirstPaint = useCallback((time_ms: number) => setFirstPaint_ms(Math.round(time_ms)), []);
 
   // The cell table (readout, counters, panel) loads right after the first map paint, so that it does
@@ -295,12 +293,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         />
         <SourcesPanel manifest={manifest} />
       </aside>
-      <main
-        className="map-wrap"
-        data-testid="map-wrap"
-        data-first-paint-ms={firstPaint_ms ?? undefined}
-        data-viewport-loads={viewportLoads}
-      >
+      <main className="map-wrap" data-testid="map-wrap" data-first-paint-ms={firstPaint_ms ?? undefined}>
         <MapView
           atlas={atlas}
           style={style}
@@ -315,7 +308,6 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           onClick={onClick}
           onViewChange={onViewChange}
           flyTarget={flyTarget}
-          onViewportLoad={onViewportLoad}
           onFirstPaint={onFirstPaint}
         />
         <button

@@ -38,8 +38,6 @@ export interface MapViewProps {
   onHover: (lngLat: [number, number] | null) => void;
   onClick: (lngLat: [number, number]) => void;
   onViewChange: (center: [number, number], zoom: number) => void;
-  /** Called when every tile of the current view has loaded. */
-  onViewportLoad?: () => void;
   /** Called once, with performance.now(), when the first view's tiles have all been drawn. */
   onFirstPaint?: (time_ms: number) => void;
   /** Centre the map here whenever `seq` changes. */
@@ -60,13 +58,11 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   const painted = useRef(new WeakMap<Float32Array[], Painted>());
   const screeningLayer = useRef<TileLayer<Float32Array[] | null> | null>(null);
   const firstPaintDone = useRef(false);
-  const viewportLoaded = useRef(false);
 
   useEffect(() => {
     if (!container.current) return;
     const { atlas, initialView } = latest.current;
     firstPaintDone.current = false;
-    viewportLoaded.current = false;
     const [w, s, e, n] = atlas.manifest.region.bounds;
     const map = new maplibregl.Map({
       container: container.current,
@@ -97,8 +93,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       interleaved: true,
       layers: [],
       onAfterRender: ({ gl }) => {
-        if (firstPaintDone.current || !viewportLoaded.current) return;
-        if (!screeningLayer.current || !allTilesDrawn(screeningLayer.current)) return;
+        if (firstPaintDone.current || !screeningLayer.current || !allTilesDrawn(screeningLayer.current))
+          return;
         // Every tile of the view is loaded and its bitmap drawn in this frame; wait for the GPU to
         // finish the frame so that the time reported is when the pixels exist, not when they were asked.
         firstPaintDone.current = true;
@@ -169,10 +165,6 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       extent: manifest.region.bounds,
       maxRequests: 16,
       getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
-      onViewportLoad: () => {
-        viewportLoaded.current = true;
-        latest.current.onViewportLoad?.();
-      },
       updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
       renderSubLayers: (sub) => {
         const planes = sub.data;
@@ -251,13 +243,18 @@ function openingTiles(
 }
 
 /**
- * Whether every tile the layer shows for the current view has its bitmap built (tiles without data
- * have nothing to draw). Reads the tile set deck.gl keeps in the layer's state.
+ * Whether every tile the layer shows for the current view has loaded and has its bitmap built (tiles
+ * without data have nothing to draw). Reads the tile set deck.gl keeps in the layer's state.
  */
 function allTilesDrawn(layer: TileLayer<Float32Array[] | null>): boolean {
-  const tiles = (layer.state as { tileset?: { selectedTiles?: { content: unknown; layers: unknown }[] } })
-    ?.tileset?.selectedTiles;
-  return Boolean(tiles && tiles.length > 0 && tiles.every((t) => t.content === null || t.layers));
+  const tiles = (
+    layer.state as {
+      tileset?: { selectedTiles?: { isLoaded: boolean; content: unknown; layers: unknown }[] };
+    }
+  )?.tileset?.selectedTiles;
+  return Boolean(
+    tiles && tiles.length > 0 && tiles.every((t) => t.isLoaded && (t.content === null || t.layers)),
+  );
 }
 
 /**
