@@ -8,7 +8,6 @@
  * temperature, its annual amplitude and warming trend: the site panel prefills from them), then
  * `inputFlags`, a bit mask of the optional inputs that fell back to a default.
  */
-import { Worker } from 'node:worker_threads';
 import type { ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
 import { TEXTURE_CODES } from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
@@ -16,6 +15,7 @@ import type { AnalysisGrid } from './analysis-grid';
 import { createBandFiles, type BandFiles } from './band-files';
 import type { LoadedInput } from './load-inputs';
 import type { ModelSpec } from './model-spec';
+import { runWorkerPool } from '../worker-pool';
 import {
   createWindowScreener,
   emptyStats,
@@ -116,56 +116,16 @@ function runPool(
   windows: [number, number][],
   onWindow: (s: WindowStats, rows: number) => void,
 ): Promise<void> {
-  return new Promise((resolve, reject) => {
-    const pool: Worker[] = [];
-    let next = 0;
-    let pending = windows.length;
-    let failed = false;
-    const finish = (err?: Error) => {
-      if (err) {
-        for (const w of pool) void w.terminate();
-        reject(err);
-        return;
-      }
-      // Let every worker close its input files, then end it.
-      let open = pool.length;
-      for (const w of pool) {
-        w.removeAllListeners('message');
-        w.on('message', () => {
-          void w.terminate();
-          if (--open === 0) resolve();
-        });
-        w.postMessage({ close: true });
-      }
-    };
-    const feed = (w: Worker) => {
-      if (next < windows.length) {
-        const [row0, row1] = windows[next++];
-        w.postMessage({ row0, row1 });
-      }
-    };
-    for (let i = 0; i < workers; i++) {
-      const w = new Worker(new URL('./screen-worker.mjs', import.meta.url), { workerData: data });
-      pool.push(w);
-      w.on('message', (msg: { error?: string; row0: number; row1: number; stats: WindowStats }) => {
-        if (failed) return;
-        if (msg.error) {
-          failed = true;
-          finish(new Error(`screening worker failed: ${msg.error}`));
-          return;
-        }
-        onWindow(msg.stats, msg.row1 - msg.row0);
-        if (--pending === 0) finish();
-        else feed(w);
-      });
-      w.on('error', (err) => {
-        if (!failed) {
-          failed = true;
-          finish(err);
-        }
-      });
-      feed(w);
-    }
+  return runWorkerPool<[number, number], { error?: string; row0: number; row1: number; stats: WindowStats }>({
+    script: new URL('./screen-worker.mjs', import.meta.url),
+    workerData: data,
+    size: workers,
+    jobs: windows,
+    message: ([row0, row1]) => ({ row0, row1 }),
+    onAnswer: (a) => onWindow(a.stats, a.row1 - a.row0),
+    label: 'screening worker',
+    // Let every worker close its input files, then end it.
+    closeMessage: { close: true },
   });
 }
 

@@ -11,12 +11,12 @@
  * region's size.
  */
 import { mkdir, writeFile } from 'node:fs/promises';
-import { Worker } from 'node:worker_threads';
 import { join } from 'node:path';
 import { encodeValue, packTile, TILE_SIZE, type BandQuantisation } from '../../layers/screening/tile-format';
 import type { AnalysisGrid } from '../build/analysis-grid';
 import { closeBandFds, openBandFds, readBandBox, type BandFiles } from '../build/band-files';
 import { createTransform } from '../crs/crs-definitions';
+import { runWorkerPool } from '../worker-pool';
 
 export interface PyramidBand {
   kind: 'continuous' | 'class';
@@ -326,7 +326,7 @@ interface SubtreeResult {
   error?: string;
 }
 
-function renderSubtreesInWorkers(
+async function renderSubtreesInWorkers(
   options: TilePyramidOptions,
   zoom: number,
   jobs: [number, number][],
@@ -341,49 +341,20 @@ function renderSubtreesInWorkers(
     maxZoom: options.maxZoom,
     bounds: options.bounds,
   };
-  return new Promise((resolve, reject) => {
-    const planes = new Map<string, Float32Array[] | null>();
-    const written: Record<number, number> = {};
-    const pool: Worker[] = [];
-    let next = 0;
-    let pending = jobs.length;
-    let failed = false;
-    const finish = (err?: Error) => {
-      for (const w of pool) void w.terminate();
-      if (err) reject(err);
-      else resolve({ planes, written });
-    };
-    const feed = (w: Worker) => {
-      if (next < jobs.length) {
-        const [x, y] = jobs[next++];
-        w.postMessage({ z: zoom, x, y });
-      }
-    };
-    const count = Math.min(workers, jobs.length);
-    for (let i = 0; i < count; i++) {
-      const w = new Worker(new URL('./tile-worker.mjs', import.meta.url), { workerData: data });
-      pool.push(w);
-      w.on('message', (msg: SubtreeResult) => {
-        if (failed) return;
-        if (msg.error) {
-          failed = true;
-          finish(new Error(`tile worker failed: ${msg.error}`));
-          return;
-        }
-        planes.set(msg.key, msg.planes);
-        for (const [z, c] of Object.entries(msg.written)) written[Number(z)] = (written[Number(z)] ?? 0) + c;
-        onProgress(msg.finest);
-        if (--pending === 0) finish();
-        else feed(w);
-      });
-      w.on('error', (err) => {
-        if (!failed) {
-          failed = true;
-          finish(err);
-        }
-      });
-      feed(w);
-    }
-    if (jobs.length === 0) finish();
+  const planes = new Map<string, Float32Array[] | null>();
+  const written: Record<number, number> = {};
+  await runWorkerPool<[number, number], SubtreeResult>({
+    script: new URL('./tile-worker.mjs', import.meta.url),
+    workerData: data,
+    size: workers,
+    jobs,
+    message: ([x, y]) => ({ z: zoom, x, y }),
+    onAnswer: (msg) => {
+      planes.set(msg.key, msg.planes);
+      for (const [z, c] of Object.entries(msg.written)) written[Number(z)] = (written[Number(z)] ?? 0) + c;
+      onProgress(msg.finest);
+    },
+    label: 'tile worker',
   });
+  return { planes, written };
 }
