@@ -3,11 +3,10 @@
  * `ConductionSystem` state of conduction-system.ts: per step the conductivities at the old temperature,
  * the exact conductances (cylindrical shells in series in r, half cells in series in z and to the
  * surface, recomputed only next to a conductivity change), each cell's conductance sum and fixed inflow
- * (surface temperature, geothermal flux); per pass the apparent capacities (the Pham 1985 secant between
- * T^n and the guess), the diagonal and the right-hand side.
+ * (surface temperature, geothermal flux); per pass of the enthalpy Newton iteration the tangent capacities, the diagonal and the right-hand side.
  */
 import type { ConductionSystem } from './conduction-system';
-import { apparentCapacity, conductivityAt } from './ground-enthalpy';
+import { conductivityAt } from './ground-enthalpy';
 
 /**
  * Per step: conductivities at the old temperature; conductances are recomputed only next to a change
@@ -81,26 +80,42 @@ function assembleConductances(st: ConductionSystem, Tsurf: number): void {
   }
 }
 
-/** Per pass: capacities (secant between T^n and the guess), diagonal and right-hand side. */
-export function assemble(st: ConductionSystem, dt_s: number): void {
-  const { materials, mat, nr, nz, Told, Tguess, V, capC, cap, aP, rhs, gSum, bFixed } = st;
-  const { Ts, Tl, cF, cT } = materials;
+/**
+ * Per pass of the enthalpy Newton iteration (conduction-solver.ts): the tangent capacity C = dH/dT at the
+ * linearisation state (Tguess, Hk), the diagonal and the right-hand side of
+ *   (C V/Δt + ΣG) T − Σ G T_nb = b + (V/Δt)(H^n − H^k + C T^k),
+ * i.e. the cell balance V (H^k + C (T − T^k) − H^n)/Δt = fluxes at the new time. `Hn` is the enthalpy at
+ * the start of the step.
+ */
+export function assemble(st: ConductionSystem, dt_s: number, Hn: Float64Array, Hk: Float64Array): void {
+  const { materials, mat, nr, nz, Tguess, V, capC, cap, aP, rhs, gSum, bFixed } = st;
+  const { Ts, Tl, cF, cT, cMushy } = materials;
+  const rdt = 1 / dt_s;
   for (let j = 0; j < nz; j++) {
     const mj = mat[j];
     const ts = Ts[mj];
     const tl = Tl[mj];
     const cf = cF[mj];
     const ct = cT[mj];
+    const cm = cMushy[mj];
     for (let c = j * nr; c < (j + 1) * nr; c++) {
-      const t0 = Told[c];
-      const t1 = Tguess[c];
-      // Same value as apparentCapacity; its branch cases inline (most cells).
-      const C = t0 < ts && t1 < ts ? cf : t0 > tl && t1 > tl ? ct : apparentCapacity(materials, mj, t0, t1);
-      const cp = (C * V[c]) / dt_s;
+      const tk = Tguess[c];
+      const C = tangentCapacity(tk, ts, tl, cf, cm, ct);
+      const vdt = V[c] * rdt;
+      const cp = C * vdt;
       capC[c] = C;
       cap[c] = cp;
       aP[c] = cp + gSum[c];
-      rhs[c] = cp * t0 + bFixed[c];
+      rhs[c] = cp * tk + vdt * (Hn[c] - Hk[c]) + bFixed[c];
     }
   }
+}
+
+/**
+ * dH/dT of the linear-interval enthalpy at T (frozen, mushy or thawed branch). At a kink the branch
+ * on the side of the interval is taken (T = Ts or Tl counts as mushy), which makes the Newton step from
+ * a frozen or thawed cell that reaches its interval land on the interval's edge and continue there.
+ */
+export function tangentCapacity(T: number, ts: number, tl: number, cf: number, cm: number, ct: number): number {
+  return T < ts ? cf : T > tl ? ct : cm;
 }

@@ -4,15 +4,24 @@
  * Method. Cell balance over a time step Δt (backward Euler, fluxes at the new time):
  *   V (H_i^{n+1} − H_i^n)/Δt = Σ_nb G_i,nb (T_nb − T_i) + boundary terms,
  * with G the exact conductances of cylindrical shells in r, 2π Δz / (ln(r_f/r_c)/k_i + ln(r_c'/r_f)/k_j),
- * and of half-cells in series in z. Phase change uses the enthalpy-conserving apparent-capacity scheme of
- * Pham (1985, Int. J. Heat Mass Transfer 28:2079-2084): the capacity is the enthalpy secant between the
- * old temperature and a linear extrapolation of the last two steps; the linear system is solved for T*,
- * then the capacity is re-linearised as the secant between T^n and T* and the system solved again
- * (`phaseIterations`, default 2: the single pass showed a front error of about 2 % in the NEU-9 test
- * that did not vanish as Δt → 0; the second pass removes it); finally the enthalpy is advanced by
- * exactly C (T* − T^n) (which equals the flux divergence at T*) and the new temperature is T(H).
- * Latent heat is therefore conserved to round-off whatever the step, and the scheme stays stable for
- * steps of days. Conductivities are taken at the old temperature.
+ * and of half-cells in series in z, and H = H(T) the enthalpy of ground-enthalpy.ts. This fully
+ * implicit enthalpy equation is solved to convergence in every step by the Newton linearisation of the
+ * enthalpy with the monotone enthalpy update of Swaminathan & Voller (1992, Metall. Trans. B 23:651-664,
+ * "A general enthalpy method for modeling solidification processes"): from a state (T^k, H^k = H(T^k)),
+ *   V (H^k + C^k (T − T^k) − H^n)/Δt = fluxes(T),   C^k = dH/dT at T^k,
+ * is solved for T*, the enthalpy is advanced to H^{k+1} = H^k + C^k (T* − T^k) and the next state is
+ * T^{k+1} = T(H^{k+1}) (the step projected back onto the enthalpy curve, which is what keeps the
+ * iteration from overshooting across the freezing interval); it stops when |T(H^{k+1}) − T*| is below
+ * `phaseTolerance_K` (1e-4 K) in every cell. The accepted H^{k+1} balances the fluxes at T* exactly, so
+ * latent and sensible heat are conserved to round-off, and because H(T) is increasing and the matrix is
+ * an M-matrix, the converged solution obeys the discrete maximum principle: no cell leaves the range of
+ * its boundary values (the earlier fixed two-pass secant scheme of Pham 1985 did not converge across
+ * the interval under seasonal forcing and let near-surface cells fall 20+ K below the coldest surface
+ * temperature with 7-day steps). A step that does not converge in 16 passes, or whose pile coupling
+ * does not, is halved (up to 10 times, counted in `refinedSteps`); a step that still cannot converge
+ * throws a `SiteStepError` with the reason. Conductivities are re-evaluated at each pass's state (the
+ * iteration is fully implicit in k as well; taking them at T^n thawed the active layer of the demo site
+ * 4 % too deep with 7-day steps).
  * The linear system (5-point stencil, symmetric positive definite) is solved directly by a banded
  * Cholesky factorisation (bandwidth nr; rows numbered from the bottom up so that only the rows from
  * the deepest changed one upwards are re-factored: in most steps only the active layer changes).
@@ -34,7 +43,7 @@ import { createConductionCoupling, iterateCoupled, solveCoupled, updateInner } f
 import { assemble, updateConductances } from './conduction-assembly';
 import { copyField, createConductionSystem } from './conduction-system';
 import type { SiteMesh } from './site-mesh';
-import { apparentCapacity, enthalpyAt, temperatureAt } from './ground-enthalpy';
+import { enthalpyAt, temperatureAt } from './ground-enthalpy';
 import type { ConductionSetup } from './conduction-system';
 
 export type { ConductionSetup, InnerBoundary } from './conduction-system';
@@ -65,23 +74,188 @@ export interface ConductionSolver {
   refactoredRows: number;
   /** Iterative-refinement corrections so far (for benchmarks). */
   refinements: number;
-  /** Steps whose pile-coupling iteration stopped at maxSweeps before reaching the tolerance. */
+  /** Steps accepted with the pile coupling stopped at maxSweeps (always 0: such a step is halved). */
   unconverged: number;
+  /** Steps that were halved because an attempt did not converge (each halving counts once). */
+  refinedSteps: number;
+  /** Passes of the enthalpy Newton iteration so far (for benchmarks). */
+  phasePasses: number;
   step(dt_s: number): void;
   /** Stored enthalpy, J. */
   storedEnergy_J(): number;
 }
 
+/** Why a step could not be completed (thrown as the message of a RangeError). */
+export class SiteStepError extends RangeError {
+  constructor(message: string) {
+    super(message);
+    this.name = 'SiteStepError';
+  }
+}
+
+/** Passes of the enthalpy Newton iteration before the step is halved (model choice). */
+const MAX_PHASE_PASSES = 16;
+/** Halvings of one step before the run stops with an error (a step of Δt / 2^10). */
+const MAX_STEP_HALVINGS = 10;
+
 /** Creates a solver in its initial state (time 0). Allocates everything once; `step` allocates nothing. */
 export function createConductionSolver(s: ConductionSetup): ConductionSolver {
-  const phaseIterations = s.phaseIterations ?? 2;
-  const phaseTolerance = s.phaseTolerance ?? 1e-3;
+  const maxPasses = s.phaseIterations ?? MAX_PHASE_PASSES;
+  const phaseTolerance_K = s.phaseTolerance_K ?? 1e-4;
   const st = createConductionSystem(s);
   const pc = createConductionCoupling(st, s.tolerance_K, s.maxSweeps);
   const { mesh, materials, mat, nr, nz, n, np, inner, qBottom, Az, V, T, H, Tprev, Told, Tguess, capC, Gs } =
     st;
   const { gUsed, TbcUsed, qUsed } = st;
   const ledger: EnergyLedger = { surface_J: 0, bottom_J: 0, pile_J: 0, gross_J: 0 };
+  // Newton state: linearisation enthalpy, the updated enthalpy, and the state saved before a step.
+  const Hk = new Float64Array(n);
+  const Hnew = new Float64Array(n);
+  const saveT = new Float64Array(n);
+  const saveH = new Float64Array(n);
+  const saveTprev = new Float64Array(n);
+  let dtPrev = 0;
+
+  /**
+   * One attempt at a step of dt_s from the current state. Returns null when accepted (state advanced),
+   * or the reason it could not converge (state unspecified: the caller restores it).
+   */
+  const attempt = (dt_s: number): string | null => {
+    const t1 = solver.time_s + dt_s;
+    const Tsurf = s.surfaceTemperature_C(t1);
+    // Conductivities at the old temperature; conductances are recomputed only next to a change.
+    updateConductances(st, Tsurf);
+    Told.set(T);
+    if (inner) inner.beginStep(t1, dt_s);
+    // Starting state of the iteration: the last steps' trend carried forward (any consistent
+    // (T, H(T)) pair is a valid start; this one usually lands in the right branch of every cell).
+    const ratio = dtPrev > 0 ? dt_s / dtPrev : 0;
+    for (let j = 0; j < nz; j++) {
+      const mj = mat[j];
+      for (let c = j * nr; c < (j + 1) * nr; c++) {
+        const g = Told[c] + ratio * (Told[c] - Tprev[c]);
+        Tguess[c] = g;
+        T[c] = g;
+        Hk[c] = enthalpyAt(materials, mj, g);
+      }
+    }
+    let coupledOk = false;
+    let phaseOk = false;
+    let worst = 0;
+    for (let pass = 0; pass < maxPasses; pass++) {
+      solver.phasePasses++;
+      assemble(st, dt_s, H, Hk);
+      if (pass === 0) updateInner(st, pc);
+      coupledOk = solveCoupled(st, pc, true, pass === 0);
+      copyField(st);
+      worst = newtonUpdate();
+      if (!Number.isFinite(worst)) return `temperatures not finite`;
+      phaseOk = worst < phaseTolerance_K;
+      if (phaseOk) {
+        // Finish the pass: the coupling and the factor's staleness to the full tolerance.
+        coupledOk = iterateCoupled(st, pc, false);
+        copyField(st);
+        newtonUpdate();
+        break;
+      }
+      // Next linearisation state: the Newton step projected onto the enthalpy curve.
+      for (let j = 0; j < nz; j++) {
+        const mj = mat[j];
+        for (let c = j * nr; c < (j + 1) * nr; c++) {
+          Hk[c] = Hnew[c];
+          Tguess[c] = temperatureAt(materials, mj, Hnew[c]);
+        }
+      }
+      // Conductivities at the new state too (Picard on k inside the Newton iteration): lagging them
+      // at T^n was a first-order error that thawed the active layer 4 % too deep with 7-day steps.
+      T.set(Tguess);
+      updateConductances(st, Tsurf);
+    }
+    if (!phaseOk) {
+      return `the phase-change iteration did not converge in ${maxPasses} passes (largest enthalpy/temperature mismatch ${worst.toExponential(2)} K)`;
+    }
+    if (!coupledOk) return 'the pile-loop coupling did not converge';
+    // Boundary heat flows at the solved temperatures T*, W (into the ground).
+    let qs = 0;
+    for (let i = 0; i < nr; i++) qs += Gs[i] * (Tsurf - T[i]);
+    let qb = 0;
+    for (let i = 0; i < nr; i++) qb += qBottom * Az[i];
+    let qp = 0;
+    for (let j = 0; j < np; j++) qp += gUsed[j] * (TbcUsed[j] - T[j * nr]) + qUsed[j];
+    ledger.surface_J += qs * dt_s;
+    ledger.bottom_J += qb * dt_s;
+    ledger.pile_J += qp * dt_s;
+    ledger.gross_J += (Math.abs(qs) + Math.abs(qb) + Math.abs(qp)) * dt_s;
+    // Accept: the enthalpy that balances the fluxes at T* exactly, and the temperature it implies.
+    for (let j = 0; j < nz; j++) {
+      const mj = mat[j];
+      for (let c = j * nr; c < (j + 1) * nr; c++) {
+        H[c] = Hnew[c];
+        T[c] = temperatureAt(materials, mj, Hnew[c]);
+      }
+    }
+    Tprev.set(Told);
+    dtPrev = dt_s;
+    if (inner) inner.endStep(dt_s);
+    solver.time_s = t1;
+    return null;
+  };
+
+  /** Hnew = H^k + C (T* − T^k) for every cell; returns max |T(Hnew) − T*| (K), NaN if not finite. */
+  const newtonUpdate = (): number => {
+    let worst = 0;
+    for (let j = 0; j < nz; j++) {
+      const mj = mat[j];
+      for (let c = j * nr; c < (j + 1) * nr; c++) {
+        const h = Hk[c] + capC[c] * (T[c] - Tguess[c]);
+        Hnew[c] = h;
+        const d = Math.abs(temperatureAt(materials, mj, h) - T[c]);
+        if (!(d <= worst)) worst = d; // NaN propagates
+      }
+    }
+    return worst;
+  };
+
+  const save = () => {
+    saveT.set(T);
+    saveH.set(H);
+    saveTprev.set(Tprev);
+    return {
+      time: solver.time_s,
+      dtPrev,
+      surface: ledger.surface_J,
+      bottom: ledger.bottom_J,
+      pile: ledger.pile_J,
+      gross: ledger.gross_J,
+    };
+  };
+  const restore = (m: ReturnType<typeof save>) => {
+    T.set(saveT);
+    H.set(saveH);
+    Tprev.set(saveTprev);
+    solver.time_s = m.time;
+    dtPrev = m.dtPrev;
+    ledger.surface_J = m.surface;
+    ledger.bottom_J = m.bottom;
+    ledger.pile_J = m.pile;
+    ledger.gross_J = m.gross;
+  };
+
+  /** Advances by dt_s, halving the step where it does not converge (at most MAX_STEP_HALVINGS times). */
+  const advance = (dt_s: number, depth: number): void => {
+    const mark = save();
+    const why = attempt(dt_s);
+    if (why === null) return;
+    restore(mark);
+    if (depth >= MAX_STEP_HALVINGS) {
+      throw new SiteStepError(
+        `site simulation: time step at t = ${(solver.time_s / 86400).toFixed(2)} d could not converge even at ${(dt_s / 86400).toPrecision(3)} d: ${why}`,
+      );
+    }
+    solver.refinedSteps++;
+    advance(dt_s / 2, depth + 1);
+    advance(dt_s / 2, depth + 1);
+  };
 
   const solver: ConductionSolver = {
     mesh,
@@ -95,6 +269,8 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     refactoredRows: 0,
     refinements: 0,
     unconverged: 0,
+    refinedSteps: 0,
+    phasePasses: 0,
     storedEnergy_J() {
       // Recomputed from the temperatures (an independent path from the incremental H updates).
       let e = 0;
@@ -102,82 +278,7 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
       return e;
     },
     step(dt_s: number) {
-      const t1 = solver.time_s + dt_s;
-      const Tsurf = s.surfaceTemperature_C(t1);
-      // Conductivities at the old temperature; conductances are recomputed only next to a change.
-      updateConductances(st, Tsurf);
-      Told.set(T);
-      if (inner) inner.beginStep(t1, dt_s);
-      for (let c = 0; c < n; c++) {
-        Tguess[c] = 2 * Told[c] - Tprev[c];
-        T[c] = Tguess[c];
-      }
-      let converged = false;
-      for (let outer = 0; outer < phaseIterations; outer++) {
-        assemble(st, dt_s);
-        if (outer === 0) updateInner(st, pc);
-        const last = outer + 1 === phaseIterations;
-        // The first pass usually needs the pile coupling's unit response (solved in the same pass over
-        // the factor); a re-linearisation pass starts from coupled boundary values and rarely does.
-        converged = solveCoupled(st, pc, !last, outer === 0);
-        copyField(st);
-        // Re-linearise only if some cell's secant capacity between T^n and the new T* differs from the
-        // one used (a cell crossing into or out of its freezing interval); otherwise T* is final.
-        let relinearise = false;
-        const { Ts, Tl, cF, cT } = materials;
-        for (let j = 0; j < nz && !relinearise; j++) {
-          const mj = mat[j];
-          const ts = Ts[mj];
-          const tl = Tl[mj];
-          for (let c = j * nr; c < (j + 1) * nr; c++) {
-            const used = capC[c];
-            const t0 = Told[c];
-            const t1 = T[c];
-            const C =
-              t0 < ts && t1 < ts
-                ? cF[mj]
-                : t0 > tl && t1 > tl
-                  ? cT[mj]
-                  : apparentCapacity(materials, mj, t0, t1);
-            if (!(Math.abs(C - used) < phaseTolerance * used)) {
-              relinearise = true;
-              break;
-            }
-          }
-        }
-        Tguess.set(T);
-        if (!relinearise) {
-          if (!last) {
-            converged = iterateCoupled(st, pc, false);
-            copyField(st);
-          }
-          break;
-        }
-      }
-      if (!converged) solver.unconverged++;
-      // Boundary heat flows at T*, W (into the ground).
-      let qs = 0;
-      for (let i = 0; i < nr; i++) qs += Gs[i] * (Tsurf - T[i]);
-      let qb = 0;
-      for (let i = 0; i < nr; i++) qb += qBottom * Az[i];
-      let qp = 0;
-      for (let j = 0; j < np; j++) qp += gUsed[j] * (TbcUsed[j] - T[j * nr]) + qUsed[j];
-      ledger.surface_J += qs * dt_s;
-      ledger.bottom_J += qb * dt_s;
-      ledger.pile_J += qp * dt_s;
-      ledger.gross_J += (Math.abs(qs) + Math.abs(qb) + Math.abs(qp)) * dt_s;
-      // Enthalpy update and latent correction (Pham 1985).
-      for (let j = 0; j < nz; j++) {
-        const mj = mat[j];
-        for (let i = 0; i < nr; i++) {
-          const c = j * nr + i;
-          H[c] += capC[c] * (T[c] - Told[c]);
-          T[c] = temperatureAt(materials, mj, H[c]);
-        }
-      }
-      Tprev.set(Told);
-      if (inner) inner.endStep(dt_s);
-      solver.time_s = t1;
+      advance(dt_s, 0);
     },
   };
   // The linear system and the coupling count their work on the public solver object.

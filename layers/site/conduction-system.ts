@@ -55,10 +55,10 @@ export interface ConductionSetup {
   inner: InnerBoundary | null;
   tolerance_K?: number;
   maxSweeps?: number;
-  /** Linear solves with re-linearised capacity per step (1 = Pham's single pass; default 2). */
+  /** Most passes of the enthalpy Newton iteration in one step before the step is halved (default 16). */
   phaseIterations?: number;
-  /** Relative change of a cell's apparent capacity below which no further pass is made. */
-  phaseTolerance?: number;
+  /** Largest |T(H) − T*| accepted at the end of the Newton iteration, K (default 1e-4). */
+  phaseTolerance_K?: number;
 }
 
 /** Work counters (the public solver object carries them; see `ConductionSolver`). */
@@ -118,7 +118,7 @@ export interface ConductionSystem {
   kRowChanged: Uint8Array;
   /** C V / Δt, W/K. */
   cap: Float64Array;
-  /** Apparent capacity C, J/m³K. */
+  /** Tangent capacity C = dH/dT at the linearisation state, J/m³K. */
   capC: Float64Array;
   /** Σ conductances to neighbours and surface, W/K. */
   gSum: Float64Array;

@@ -32,6 +32,7 @@ import {
   createPermafrostTableTracker,
   probeStencil,
   probeTemperature,
+  probeThawMeasure,
   type ProbeStencil,
 } from './site-probes';
 import type { SiteCaseResult, SiteFluidResult, SiteResult } from './site-result';
@@ -86,12 +87,13 @@ export function simulateSite(
   const makeCase = (solver: ConductionSolver, stride: number, offset: number): CaseRun => {
     const mesh = solver.mesh;
     const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
-    const lastProbeT = Float64Array.from(stencils.map((s) => probeTemperature(s, solver.T)));
+    // Last thaw measure per probe (probeThawMeasure: ≥ 0 once the front has passed the probe).
+    const lastProbeT = Float64Array.from(stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)));
     return {
       solver,
       stencils,
       lastProbeT,
-      thawTime_s: stencils.map((s, i) => (lastProbeT[i] >= s.freezingPoint_C ? 0 : null)),
+      thawTime_s: stencils.map((_, i) => (lastProbeT[i] >= 0 ? 0 : null)),
       tracker: createPermafrostTableTracker(mesh, ground.table, rowMat, year, init.lastThawed_s),
       trackerStride: stride,
       trackerOffset: offset,
@@ -214,13 +216,15 @@ export function simulateSite(
       run.solver.step(dt);
       run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, t);
       run.stencils.forEach((st, i) => {
-        const Tp = probeTemperature(st, run.solver.T);
-        if (run.thawTime_s[i] === null && Tp >= st.freezingPoint_C) {
+        // Thaw at a probe: the front (liquid fraction of the probe's cell) passes the probe's depth,
+        // interpolated linearly within the step.
+        const m = probeThawMeasure(st, ground.table, rowMat, run.solver.T, run.solver.mesh.nr);
+        if (run.thawTime_s[i] === null && m >= 0) {
           const prev = run.lastProbeT[i];
-          const frac = Tp > prev ? (st.freezingPoint_C - prev) / (Tp - prev) : 1;
+          const frac = m > prev ? -prev / (m - prev) : 1;
           run.thawTime_s[i] = t - dt + Math.min(1, Math.max(0, frac)) * dt;
         }
-        run.lastProbeT[i] = Tp;
+        run.lastProbeT[i] = m;
       });
     }
     if (siteLoop) {

@@ -19,7 +19,11 @@ export const SITE_DEFAULTS = {
     value: 0.06,
     source: 'continental average about 0.06–0.07 W/m² (recalled from memory)',
   },
-  freezingInterval_K: { value: 0.5, source: 'numerical smoothing of the latent release (model choice)' },
+  freezingInterval_K: {
+    value: 0.1,
+    source:
+      'numerical smoothing of the latent release (model choice): narrow enough that ground a few tenths of a kelvin below 0 °C is frozen and a front sits inside one cell; was 0.5 K before the converged enthalpy iteration',
+  },
   domainRadius_m: { value: 20, source: 'model choice: far field for a single pile over decades' },
   domainDepth_m: { value: 50, source: 'model choice: below the 40-year warming signal at about 30–50 m' },
   coldestDay: { value: 15, source: 'mid-January (common practice)' },

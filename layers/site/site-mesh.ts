@@ -37,6 +37,12 @@ export interface SiteMeshOptions {
   verticalGrowth: number;
   /** Largest vertical step down to `fineDepth_m` (pile tip), m. */
   pileStep_m: number;
+  /**
+   * Largest vertical step in the near-surface zone (the active layer and its deepening), m, and the
+   * depth of that zone, m (optional: no such zone).
+   */
+  surfaceStep_m?: number;
+  surfaceZone_m?: number;
   /** Depth to which `pileStep_m` applies (normally the pile length; 0 for no pile), m. */
   fineDepth_m: number;
   /** Largest vertical step below the fine zone, m. */
@@ -121,7 +127,11 @@ export function buildSiteMesh(o: SiteMeshOptions): SiteMesh {
     o.depth_m,
     o.firstVerticalStep_m,
     o.verticalGrowth,
-    (z) => (z < fine + o.pileStep_m ? o.pileStep_m : o.farStep_m),
+    (z) =>
+      Math.min(
+        z < fine + o.pileStep_m ? o.pileStep_m : o.farStep_m,
+        z < (o.surfaceZone_m ?? 0) ? (o.surfaceStep_m ?? Infinity) : Infinity,
+      ),
     o.mandatoryDepths_m,
   );
   return meshFromFaces(rFaces, zFaces);

@@ -16,6 +16,14 @@ export interface ProbeStencil {
   w11: number;
   /** Freezing point of the material at the probe, °C. */
   freezingPoint_C: number;
+  /** The cell row holding the probe, its material, the two columns about the probe and their weight. */
+  row: number;
+  material: number;
+  col0: number;
+  col1: number;
+  colWeight1: number;
+  /** Fraction of the row's height above the probe: the front passes the probe when f reaches it. */
+  depthInRow: number;
 }
 
 function bracket(centres: Float64Array, x: number): [number, number, number] {
@@ -40,6 +48,8 @@ export function probeStencil(
   let row = 0;
   while (row < mesh.nz - 1 && mesh.zFaces_m[row + 1] < z_m) row++;
   const nr = mesh.nr;
+  const z0 = mesh.zFaces_m[row];
+  const z1 = mesh.zFaces_m[row + 1];
   return {
     c00: j0 * nr + i0,
     c01: j0 * nr + i1,
@@ -50,7 +60,43 @@ export function probeStencil(
     w10: fz * (1 - fr),
     w11: fz * fr,
     freezingPoint_C: materials.Tf[rowMaterial[row]],
+    row,
+    material: rowMaterial[row],
+    col0: i0,
+    col1: i1,
+    colWeight1: fr,
+    depthInRow: Math.min(1, Math.max(0, (z_m - z0) / (z1 - z0))),
   };
+}
+
+/**
+ * How far the thaw front has passed the probe, as a liquid fraction of the probe's cell: the cell's
+ * liquid fraction (between the two columns about the probe) minus the fraction of the cell's height
+ * above the probe. In the enthalpy method a front inside a cell sits at its top face plus f times its
+ * height (f the liquid fraction, e.g. Voller & Cross 1981), so the probe has thawed from above when
+ * this is ≥ 0 and the cell above has thawed through (otherwise the measure is the fraction the cell
+ * above still lacks, negative); it resolves thaw times inside a cell instead of at cell centres.
+ */
+export function probeThawMeasure(
+  s: ProbeStencil,
+  materials: MaterialTable,
+  rowMaterial: ArrayLike<number>,
+  T: Float64Array,
+  nr: number,
+): number {
+  const c = s.row * nr;
+  const f0 = liquidFractionAt(materials, s.material, T[c + s.col0]);
+  const f1 = liquidFractionAt(materials, s.material, T[c + s.col1]);
+  const m = f0 + s.colWeight1 * (f1 - f0) - s.depthInRow;
+  if (s.row === 0 || m < 0) return m;
+  // A front inside the probe's cell has come from above only if the cell above has thawed through
+  // (ground warmed into its freezing interval from the side or below is not a front).
+  const a = c - nr;
+  const m0 = rowMaterial[s.row - 1];
+  const g0 = liquidFractionAt(materials, m0, T[a + s.col0]);
+  const g1 = liquidFractionAt(materials, m0, T[a + s.col1]);
+  const above = g0 + s.colWeight1 * (g1 - g0);
+  return above >= 1 ? m : Math.min(m, above - 1);
 }
 
 export function probeTemperature(s: ProbeStencil, T: Float64Array): number {
@@ -58,10 +104,14 @@ export function probeTemperature(s: ProbeStencil, T: Float64Array): number {
 }
 
 /**
- * Tracks the permafrost table on one column: a cell counts as thawed when its liquid fraction exceeds
- * 1/2, and as permafrost when it has not thawed within the last `memory_s` (365 days). The thaw depth is
- * the top face of the shallowest permafrost cell (the depth reached by thaw within the past year,
- * continuous from the surface), or the column depth when no cell is permafrost.
+ * Tracks the permafrost table on one column. A cell's thawed part is its liquid fraction f of its height
+ * from the top (the front inside a cell, as in the enthalpy method); the thaw depth is the deepest point
+ * reached by thaw within the last `memory_s` (365 days), continuous from the surface: cells that were
+ * wholly thawed (f = 1) within the memory are passed from the surface down, and the first that was not
+ * adds its largest liquid fraction within the memory times its height (resolved inside the cell, not at
+ * its faces). The largest fraction is held until it is a memory old, then restarts from the current
+ * value (a sliding maximum kept with one sample per cell). Cells thawed in the spin-up (liquid fraction
+ * above 1/2 within its last year) count as wholly thawed until the run's own history replaces them.
  */
 export interface PermafrostTableTracker {
   /** Records cell j's temperature T[j * stride + offset] at `time_s` (times may be negative: spin-up). */
@@ -83,15 +133,21 @@ export function createPermafrostTableTracker(
   initialLastThawed_s?: Float64Array,
 ): PermafrostTableTracker {
   const nz = mesh.nz;
-  const lastThawed = initialLastThawed_s
+  const lastFull = initialLastThawed_s
     ? Float64Array.from(initialLastThawed_s)
     : new Float64Array(nz).fill(-Infinity);
+  const recentMax = new Float64Array(nz);
+  const recentMaxAt = new Float64Array(nz).fill(-Infinity);
   const periodMax = new Float64Array(nz);
   return {
     observe(T, stride, offset, time_s) {
       for (let j = 0; j < nz; j++) {
         const f = liquidFractionAt(materials, rowMaterial[j], T[j * stride + offset]);
-        if (f > 0.5) lastThawed[j] = time_s;
+        if (f >= 1) lastFull[j] = time_s;
+        if (f >= recentMax[j] || recentMaxAt[j] < time_s - memory_s) {
+          recentMax[j] = f;
+          recentMaxAt[j] = time_s;
+        }
         if (f > periodMax[j]) periodMax[j] = f;
       }
     },
@@ -107,8 +163,12 @@ export function createPermafrostTableTracker(
       return depth;
     },
     depth_m(time_s) {
+      const since = time_s - memory_s;
       for (let j = 0; j < nz; j++) {
-        if (lastThawed[j] < time_s - memory_s) return mesh.zFaces_m[j];
+        if (lastFull[j] < since) {
+          const f = recentMaxAt[j] >= since ? recentMax[j] : 0;
+          return mesh.zFaces_m[j] + f * (mesh.zFaces_m[j + 1] - mesh.zFaces_m[j]);
+        }
       }
       return mesh.zFaces_m[nz];
     },

@@ -86,11 +86,19 @@ describe('site solver against Neumann solutions', () => {
     expect(errors[2]).toBeLessThan(0.01 * 1.17094);
   });
 
-  it('time-step refinement alone reduces the error (NEU-9, dz = 0.025 m)', () => {
-    const e = [8, 2, 0.25].map((dt) =>
-      Math.abs(thawFront({ dz: 0.025, dt_days: dt, initial_C: -2, interval_K: 0.1 }).front_m - 1.17094),
+  it('time-step refinement alone converges (NEU-9, dz = 0.025 m)', () => {
+    // With the converged enthalpy iteration the time-step error at 2 d is already below the mesh and
+    // freezing-interval error (of the opposite sign), so the error against Neumann is not monotone in
+    // the step; the front itself converges in the step: successive differences shrink, at first order
+    // or better (backward Euler).
+    const f = [8, 2, 0.5, 0.125].map(
+      (dt) => thawFront({ dz: 0.025, dt_days: dt, initial_C: -2, interval_K: 0.1 }).front_m,
     );
-    expect(e[1]).toBeLessThan(e[0]);
-    expect(e[2]).toBeLessThan(e[1]);
+    const d1 = Math.abs(f[0] - f[1]);
+    const d2 = Math.abs(f[1] - f[2]);
+    const d3 = Math.abs(f[2] - f[3]);
+    expect(d2).toBeLessThan(d1 / 2);
+    expect(d3).toBeLessThan(d2 / 2);
+    expect(Math.abs(f[3] / 1.17094 - 1)).toBeLessThan(0.01);
   });
 });
