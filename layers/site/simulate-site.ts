@@ -113,7 +113,7 @@ export function simulateSite(
           relativeError: 0,
         },
         unconvergedSteps: 0,
-        solverWork: { substitutions: 0, rightHandSides: 0, refactoredRows: 0 },
+        solverWork: { substitutions: 0, rightHandSides: 0, refactoredRows: 0, phasePasses: 0, halvedSteps: 0 },
       },
     };
   };
@@ -304,6 +304,8 @@ export function simulateSite(
       substitutions: run.solver.sweeps,
       rightHandSides: run.solver.rightHandSides,
       refactoredRows: run.solver.refactoredRows,
+      phasePasses: run.solver.phasePasses,
+      halvedSteps: run.solver.refinedSteps,
     };
     run.out.probes.forEach((p, i) => {
       const tt = run.thawTime_s[i];

@@ -38,13 +38,20 @@ export interface SiteCaseResult {
   annualThawDepth_m: number[];
   probes: SiteProbeResult[];
   energyBalance: SiteEnergyBalance;
-  /** Steps whose linear solve hit the sweep limit. */
+  /** Steps accepted with the pile coupling at its sweep limit (0: such steps are halved instead). */
   unconvergedSteps: number;
   /**
    * Work of the linear solver over the run (for benchmarks): passes of forward and back substitution
-   * (two right-hand sides in one pass count once), right-hand sides solved, and band rows re-factored.
+   * (two right-hand sides in one pass count once), right-hand sides solved, band rows re-factored,
+   * passes of the enthalpy Newton iteration, and steps halved because an attempt did not converge.
    */
-  solverWork?: { substitutions: number; rightHandSides: number; refactoredRows: number };
+  solverWork?: {
+    substitutions: number;
+    rightHandSides: number;
+    refactoredRows: number;
+    phasePasses: number;
+    halvedSteps: number;
+  };
 }
 
 export interface SiteFluidResult {
