@@ -9,7 +9,7 @@
  *
  * Method: both integrals are changed to the hyperbolic variable of their own source, z' − z = r sinh v
  * (real) and z' + z = r sinh v (mirror), so dz'/ρ = dv and the integrands are erfc(r cosh v/√(4αt)),
- * smooth and bounded; composite Simpson with 64 points per unit of v (at least 64). Measured against
+ * smooth and bounded; composite Simpson with 32 points per unit of v (at least 32). Measured against
  * the mid-depth quadrature of finite-line-source.ts (2000 points) and a brute-force z' quadrature:
  * better than 1e-7 relative (tests/reference/finite-line-source-point.test.ts).
  * Steady state (t → ∞, erfc → 1), in closed form:
@@ -31,11 +31,11 @@ export interface FlsPointGeometry {
   diffusivity_m2_s: number;
 }
 
-const POINTS_PER_UNIT = 64;
+const POINTS_PER_UNIT = 32;
 
 function simpsonErfc(r: number, w: number, vLo: number, vHi: number): number {
   if (!(vHi > vLo)) return 0;
-  let n = Math.max(64, Math.ceil((vHi - vLo) * POINTS_PER_UNIT));
+  let n = Math.max(32, Math.ceil((vHi - vLo) * POINTS_PER_UNIT));
   if (n % 2 === 1) n++;
   const h = (vHi - vLo) / n;
   let sum = 0;
