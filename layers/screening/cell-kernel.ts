@@ -24,8 +24,9 @@
  *     month by month against the lagged, pile-averaged annual wave (monthly-peak.ts), the mean fluid
  *     from the lowest EFT by the project's convention (layers/physics/fluid-temperature-convention.ts);
  *     the reference point's cooling from every pile of the group at the reference depth and radius;
- *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0, piles operating from
- *     the start year on (forward search from the no-pile time, then regula falsi to 0.01 yr), plus the
+ *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0 (g_ref: the whole group at
+ *     the reference point), piles operating from the start year on (forward search from the no-pile
+ *     time, then regula falsi to 0.01 yr), plus the
  *     latent delay, lengthened by c/b: the Stefan front X·dX/dt = k_t·(b(t − t0) − c)/L driven against
  *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
  *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
@@ -102,7 +103,8 @@ export function createKernelScratch(): KernelScratch {
  *   A_s·|(d/(z2 − z1))·(e^(−(1+i)z1/d) − e^(−(1+i)z2/d))/(1 + i)|,
  * d the damping depth √(Pα/π) in frozen ground. A_s is the winter half of the n-factor-transferred
  * surface wave, n_f·A (conduction only; latent heat in an active layer above the pile top is ignored,
- * which over-estimates the anomaly there).
+ * which over-estimates the anomaly there). The kernel uses the month-by-month phasor of monthly-peak.ts
+ * (whose modulus this is); kept for the calibration harness.
  */
 export function pileWinterAnomaly_K(p: {
   surfaceAmplitude_C: number;
