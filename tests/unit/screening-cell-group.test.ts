@@ -97,6 +97,12 @@ describe('the foundation as a group (4 × 4 at 3 m, finite-line-source field res
     expect(g.reference).toEqual({ x_m: 4.5, y_m: 3 });
     expect(g.referenceDistances_m.filter((d) => Math.abs(d - 1.5) < 1e-9)).toHaveLength(2);
   });
+  it('one pile: the point at the reference radius from it; 3 × 3: midway between the centre pile and its neighbour', () => {
+    expect(foundationGroup(one).reference).toEqual({ x_m: 1.5, y_m: 0 });
+    const nine = foundationGroup(parseScenario({ building: { foundationPiles: 9 } }));
+    expect(nine.reference).toEqual({ x_m: 4.5, y_m: 3 });
+    expect(Math.min(...nine.referenceDistances_m)).toBeCloseTo(1.5, 12);
+  });
   it('piles interact: more piles per ton and less fluid-limited extraction per pile than one pile alone', () => {
     const a = run({}, one).m;
     const b = run({}).m;
