@@ -19,8 +19,9 @@
  * θ_m = 2πm/12 the month's centre, m = 0 the coldest month of the surface wave. |P| ≤ 1; arg P is the
  * lag of the pile-averaged wave (about two months for the standard pile). A_s is the surface amplitude.
  * Simplifications: as in the method, the months before m enter only through the annual average (the
- * month's own pulse is one month long; the full history, as in pile-sizing.ts's life series, adds some
- * percent in the months after the coldest); conduction only (no latent heat near the pile).
+ * month's own pulse is one month long; the full monthly history, as in pile-sizing.ts's life series,
+ * deepens the design month's fluid drop by about 1 % for an isolated pile, measured, and somewhat more in
+ * the months after the coldest); conduction only (no latent heat near the pile).
  */
 import { dampingDepth_m } from '../physics/ground-temperature-wave';
 
