@@ -8,3 +8,5 @@ export * from './finite-line-source';
 export * from './solid-cylinder-source';
 export * from './load-aggregation';
 export * from './heat-pump';
+export * from './fluid-temperature-convention';
+export * from './finite-line-source-point';

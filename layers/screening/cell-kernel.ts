@@ -16,17 +16,23 @@
  *     0 °C (tabulated here) plus the latent-heat delay z·√(L/(k_thawed·b)) of a Stefan front under a
  *     rising surface excess;
  *  5. standard building: heating demand UA·HDD (HDD = freezing index of T_air − T_balance), peak load
- *     UA·(T_balance − T_design), annual and peak-month load fractions; ground load = heat·(1 − 1/COP);
- *  6. operating window and pile count (operating-window.ts); the peak terms see the winter ground:
- *     the mean along the pile less the annual wave's winter anomaly (pileWinterAnomaly_K);
- *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0, piles operating from
- *     the start year on (forward search from the no-pile time, then regula falsi to 0.01 yr), plus the
+ *     UA·(T_balance − T_design), and the 12 monthly loads UA·(T_balance − T_month)⁺ with their peaks
+ *     the design margin colder; ground load = heat·(1 − 1/COP), the peak at the COP of the lowest EFT,
+ *     annual and monthly loads at the COP of the undisturbed ground (as layers/site/pile-sizing.ts);
+ *  6. operating window and pile count (operating-window.ts): the peak per pile of the foundation group
+ *     (foundation-group.ts; finite-line-source field response, response-tables.ts) at the fluid limit,
+ *     month by month against the lagged, pile-averaged annual wave (monthly-peak.ts), the mean fluid
+ *     from the lowest EFT by the project's convention (layers/physics/fluid-temperature-convention.ts);
+ *     the reference point's cooling from every pile of the group at the reference depth and radius;
+ *  7. thaw with piles: first time T_ref + W(t) − q'_carried·g_ref(t)/(2πk) ≥ 0 (g_ref: the whole group at
+ *     the reference point), piles operating from the start year on (forward search from the no-pile
+ *     time, then regula falsi to 0.01 yr), plus the
  *     latent delay, lengthened by c/b: the Stefan front X·dX/dt = k_t·(b(t − t0) − c)/L driven against
  *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
  *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
- *  8. economics at the seasonal COP: EFT_season = T_pile − q'_carried·(R_b + g_life/(2πk)) − ΔT_half
- *     (annual-average extraction through the pile and the long-term ground resistance), COP from the
- *     scenario's heat-pump curve (layers/physics/heat-pump.ts);
+ *  8. economics at the seasonal COP: mean fluid T_pile − q'_carried·(R_b + g_N(t_L)/(2πk)) (annual-average
+ *     extraction through the pile and the group's long-term response), EFT = mean + ΔT/2 (heating), COP
+ *     from the scenario's heat-pump curve (layers/physics/heat-pump.ts);
  *  9. exclusions, soft scores, class (suitability.ts).
  */
 import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
@@ -36,7 +42,10 @@ import { stefanDepth_m } from '../physics/stefan';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
 import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
-import { operatingWindow, threePulsePeakPerPile_W, type WindowResult } from './operating-window';
+import { operatingWindow, type WindowResult } from './operating-window';
+import { MONTH_COS, MONTHS, monthlyPeakPerPile_W, pileWavePhasor } from './monthly-peak';
+import { lookup } from './log-table';
+import { enteringFromMeanFluid_C, meanFluidFromEntering_C } from '../physics/fluid-temperature-convention';
 import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
 import {
   EXCLUSION,
@@ -51,12 +60,21 @@ import { METRIC as M } from './cell-layers';
 /** One refrigeration ton, W: 12 000 Btu_IT/h (reference-values §12). */
 export const TON_W = 3516.853;
 const MONTH_S = SECONDS_PER_YEAR / 12;
+/** Duration of the peak pulse, s: 6 h (Kavanaugh & Rafferty 1997; as layers/site/pile-sizing.ts). */
+const PEAK_S = 6 * 3600;
 const HOURS_PER_YEAR = 8760;
 
 /** Reusable scratch for one thread. */
 export interface KernelScratch {
   soil: SoilPoint;
   window: WindowResult;
+  /** Monthly mean and peak ground loads over the design peak (monthly-peak.ts). */
+  monthlyFraction: Float64Array;
+  peakFraction: Float64Array;
+  /** Pile-averaged annual-wave phasor [re, im]. */
+  phasor: Float64Array;
+  /** Month whose load limits the pile (0 = the coldest month of the surface wave). */
+  peakMonth: Float64Array;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -71,6 +89,10 @@ export function createKernelScratch(): KernelScratch {
       loadShare: 0,
       binding: 0,
     },
+    monthlyFraction: new Float64Array(MONTHS),
+    peakFraction: new Float64Array(MONTHS),
+    phasor: new Float64Array(2),
+    peakMonth: new Float64Array(1),
   };
 }
 
@@ -81,7 +103,8 @@ export function createKernelScratch(): KernelScratch {
  *   A_s·|(d/(z2 − z1))·(e^(−(1+i)z1/d) − e^(−(1+i)z2/d))/(1 + i)|,
  * d the damping depth √(Pα/π) in frozen ground. A_s is the winter half of the n-factor-transferred
  * surface wave, n_f·A (conduction only; latent heat in an active layer above the pile top is ignored,
- * which over-estimates the anomaly there).
+ * which over-estimates the anomaly there). The kernel uses the month-by-month phasor of monthly-peak.ts
+ * (whose modulus this is); kept for the calibration harness.
  */
 export function pileWinterAnomaly_K(p: {
   surfaceAmplitude_C: number;
@@ -187,47 +210,61 @@ export function evaluateCellMetrics(
   m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
   m[M.permafrostClassEnd] = permafrostClass(tPileEnd, s.permafrostClasses);
 
-  // 5. standard building
+  // 5. standard building: design peak, annual average and the 12 monthly loads (month centres of the
+  // sinusoidal year, m = 0 the coldest), each month's peak the design margin below its mean
   const bld = s.building;
+  const ua = bld.heatLossCoefficient_W_K;
   const hdd = degreeDays({
     meanAirTemp_C: cell.meanAirTemp_C - bld.balanceTemp_C,
     amplitude_C: cell.airAmplitude_C,
   }).freezingIndex_Cd;
-  const demand_kWh = (bld.heatLossCoefficient_W_K * hdd * 24) / 1000;
+  const demand_kWh = (ua * hdd * 24) / 1000;
   m[M.heatingDemand] = demand_kWh;
   const coldMonth = cell.meanAirTemp_C - cell.airAmplitude_C;
-  const peak_W =
-    bld.heatLossCoefficient_W_K * Math.max(1, bld.balanceTemp_C - (coldMonth - bld.designMargin_K));
+  const peak_W = ua * Math.max(1, bld.balanceTemp_C - (coldMonth - bld.designMargin_K));
   const avg_W = (demand_kWh * 1000) / HOURS_PER_YEAR;
-  const month_W = bld.heatLossCoefficient_W_K * Math.max(0, bld.balanceTemp_C - coldMonth);
   const hp = s.heatPump;
-  const copDesign = copFromTable(k.cop, hp.minEnteringFluid_C);
-  const groundFactor = 1 - 1 / copDesign;
+  // Ground loads as pile-sizing.ts: the peak at the COP of the lowest EFT, the annual and monthly loads
+  // at the COP of the undisturbed ground (more heat from the ground: conservative).
+  const groundFactor = 1 - 1 / copFromTable(k.cop, hp.minEnteringFluid_C);
+  const seasonFactor = 1 - 1 / copFromTable(k.cop, tPile);
+  const toPeak = seasonFactor / (peak_W * groundFactor);
+  for (let i = 0; i < MONTHS; i++) {
+    const tAir = cell.meanAirTemp_C - cell.airAmplitude_C * MONTH_COS[i];
+    x.monthlyFraction[i] = ua * Math.max(0, bld.balanceTemp_C - tAir) * toPeak;
+    x.peakFraction[i] = (ua * Math.max(0, bld.balanceTemp_C - tAir + bld.designMargin_K)) / peak_W;
+  }
 
-  // 6. fluid bound, pile count, window
+  // 6. fluid bound, pile count, window: one pile of the foundation group, month by month against the
+  // lagged pile-averaged wave (monthly-peak.ts)
   const H = s.pile.length_m;
-  const gLife = flsResponse(k.tables.pileMean, alphaF, lifeS);
-  const gMonth = flsResponse(k.tables.pileMean, alphaF, MONTH_S);
-  const annualFraction = avg_W / peak_W;
-  const winter = pileWinterAnomaly_K({
-    surfaceAmplitude_C: nF * cell.airAmplitude_C,
-    diffusivity_m2_s: alphaF,
-    top_m: s.pile.topDepth_m,
-    bottom_m: s.pile.topDepth_m + H,
-  });
-  const qPeak = threePulsePeakPerPile_W({
-    groundTemp_C: tPile - winter,
-    meanFluid_C: hp.minEnteringFluid_C + hp.fluidHalfDelta_K,
-    length_m: H,
-    radius_m: s.pile.radius_m,
-    resistance_mK_W: s.pile.resistance_mK_W,
-    conductivity_W_mK: kF,
-    diffusivity_m2_s: alphaF,
-    annualFraction,
-    monthlyFraction: month_W / peak_W,
-    gLife,
-    gMonth,
-  });
+  const gLife = flsResponse(k.tables.fieldMean, alphaF, lifeS);
+  const gMonth = flsResponse(k.tables.fieldMean, alphaF, MONTH_S + PEAK_S);
+  const rb = s.pile.radius_m;
+  const gPeak = lookup(k.tables.cylinderWall, (alphaF * PEAK_S) / (rb * rb));
+  const annualFraction = avg_W * toPeak;
+  pileWavePhasor(
+    { diffusivity_m2_s: alphaF, top_m: s.pile.topDepth_m, bottom_m: s.pile.topDepth_m + H },
+    x.phasor,
+  );
+  const qPeak = monthlyPeakPerPile_W(
+    {
+      groundMean_C: tPile,
+      surfaceAmplitude_C: nF * cell.airAmplitude_C,
+      phasor: x.phasor,
+      meanFluid_C: meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating'),
+      length_m: H,
+      resistance_mK_W: s.pile.resistance_mK_W,
+      conductivity_W_mK: kF,
+      gLife,
+      gMonth,
+      gPeak,
+      annualFraction,
+      monthlyFraction: x.monthlyFraction,
+      peakFraction: x.peakFraction,
+    },
+    x.peakMonth,
+  );
   m[M.extractionPerPile] = annualFraction * qPeak;
   m[M.pilesPerTon] = qPeak > 0 ? (TON_W * groundFactor) / qPeak : NaN;
   const gRefLife = flsResponse(k.tables.referencePoint, alphaF, lifeS);
@@ -240,7 +277,7 @@ export function evaluateCellMetrics(
       conductivity_W_mK: kF,
       gReferenceLife: gRefLife,
       upperFluid_W_m: (annualFraction * qPeak) / H,
-      full_W_m: (avg_W * groundFactor) / (bld.foundationPiles * H),
+      full_W_m: (avg_W * seasonFactor) / (bld.foundationPiles * H),
     },
     x.window,
   );
@@ -276,8 +313,11 @@ export function evaluateCellMetrics(
   }
 
   // 8. economics
-  const eft =
-    tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)) - hp.fluidHalfDelta_K;
+  const eft = enteringFromMeanFluid_C(
+    tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)),
+    2 * hp.fluidHalfDelta_K,
+    'heating',
+  );
   const scop = copFromTable(k.cop, eft);
   const heat_kWh = w.loadShare * demand_kWh;
   m[M.seasonalCop] = scop;

@@ -54,8 +54,10 @@ const TTOP_SRC =
   'TTOP (Smith & Riseborough 1996, 2002) with geothermal gradient; or the ground-temperature grid';
 const RAMP_SRC =
   'Carslaw & Jaeger (1959) §2.5 linear surface warming plus a Stefan latent-heat delay (years-to-thaw)';
-const FLS_SRC = 'finite line source (Eskilson 1987; Zeng, Diao & Fang 2002) superposed on the warming';
-const SIZING_SRC = 'three-pulse method (Kavanaugh & Rafferty 1997) with a finite-line long pulse';
+const FLS_SRC =
+  'finite line source of the foundation group at the reference point (Eskilson 1987; Zeng, Diao & Fang 2002) superposed on the warming';
+const SIZING_SRC =
+  'three-pulse method (Kavanaugh & Rafferty 1997), month by month against the lagged ground, with the foundation group field response';
 const ECON_SRC = 'degree-day demand; diesel-grid vs oil-furnace balance (reference-values §12)';
 
 /** The layer definitions for a scenario (units and texts; ranges come from the build). */
@@ -64,6 +66,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
   const life = s.designLife_yr;
   const z = s.referenceDepth_m;
   const r = s.referenceRadius_m;
+  const group = `${s.building.foundationPiles}-pile, ${s.building.pileSpacing_m} m spacing`;
   const L: Record<MetricId, Omit<ScreeningLayer, 'id'>> = {
     suitability: {
       title: 'Suitability class',
@@ -150,7 +153,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       unit: 'yr',
       kind: 'continuous',
       ramp: 'viridis',
-      description: `As thawYear at ${r} m from a pile operating at its carried extraction.`,
+      description: `As thawYear at ${r} m from a foundation pile (between piles), every pile of the group operating at its carried extraction.`,
       source: FLS_SRC,
     },
     thawDelay: {
@@ -178,7 +181,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       unit: 'W',
       kind: 'continuous',
       ramp: 'viridis',
-      description: 'Annual-average heat a standard pile yields at the fluid limit through the design life.',
+      description: `Annual-average heat a standard pile of the ${group} foundation yields at the fluid limit through the design life.`,
       source: SIZING_SRC,
     },
     pilesPerTon: {
@@ -188,7 +191,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'cividis',
       legendMin: 0,
       legendMax: 40,
-      description: 'Standard piles per ton (3.517 kW) of peak building heating at the fluid limit.',
+      description: `Standard piles per ton (3.517 kW) of peak building heating at the fluid limit, each loaded as a pile of the ${group} foundation.`,
       source: SIZING_SRC,
     },
     windowLower: {

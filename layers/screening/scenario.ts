@@ -47,6 +47,17 @@ export const standardBuildingSchema = z.strictObject({
   designMargin_K: z.number().min(0).max(30).default(8),
   /** Number of foundation piles of the building that carry a loop (4 x 4 grid) (common practice). */
   foundationPiles: z.number().int().min(1).max(400).default(16),
+  /**
+   * Centre-to-centre spacing of the foundation piles, m: about 3 m under a small building (common
+   * practice, no published source). The piles form a rectangular group filled row by row
+   * (layers/site/sizing-layout.ts), whose finite-line-source field response sizes them.
+   */
+  pileSpacing_m: z.number().min(0.2).max(50).default(3),
+  /**
+   * Piles per row of the group; omitted: ceil(√foundationPiles), as square as the count allows (16 → 4 × 4)
+   * (common practice).
+   */
+  pileColumns: z.number().int().min(1).max(400).optional(),
 });
 
 /** Heat pump and fluid limits. */
@@ -56,7 +67,11 @@ export const heatPumpLimitsSchema = z.strictObject({
    * the colder end for permafrost, with 30 % propylene glycol freezing at −12.7 °C (reference-values §9c).
    */
   minEnteringFluid_C: z.number().min(-20).max(5).default(-8),
-  /** Mean fluid minus entering fluid temperature at peak, K (half the loop ΔT of 3 K) (common practice). */
+  /**
+   * Half the loop ΔT across the heat pump at peak, K (loop ΔT 3 K, common practice). In heating the
+   * mean fluid is minEnteringFluid_C − fluidHalfDelta_K and the fluid entering the piles is
+   * minEnteringFluid_C − 2·fluidHalfDelta_K (layers/physics/fluid-temperature-convention.ts).
+   */
   fluidHalfDelta_K: z.number().min(0).max(10).default(1.5),
   /**
    * COP and capacity against entering fluid temperature: the science core's editable curve
@@ -147,8 +162,10 @@ export const scenarioSchema = z
     /** Depth at which thaw is tracked (the adfreeze zone of the foundation), m (common practice). */
     referenceDepth_m: z.number().min(0.5).max(40).default(6),
     /**
-     * Radius from the pile axis at which thaw is tracked, m: half of a 3 m pile spacing, midway between
-     * foundation piles (common practice spacing; the model itself treats one pile, as the simulator).
+     * Radius from the pile axis at which thaw is tracked, m: half of the 3 m pile spacing, midway between
+     * two foundation piles (common practice spacing). The point lies at this distance from the pile of
+     * the group nearest its centre, along the row towards the centre (layers/screening/foundation-group.ts);
+     * every pile of the group cools it.
      */
     referenceRadius_m: z.number().min(0.05).max(20).default(1.5),
     /** Search horizon for thaw years, yr; thaw later than this is reported as the horizon. */
@@ -184,6 +201,13 @@ export const scenarioSchema = z
         code: 'custom',
         path: ['suitability', 'fairScore'],
         message: `must be <= goodScore (${s.suitability.goodScore}); received ${s.suitability.fairScore}`,
+      });
+    }
+    if (s.building.pileSpacing_m < 2 * s.pile.radius_m) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['building', 'pileSpacing_m'],
+        message: `must be >= the pile diameter 2 × pile.radius_m (${2 * s.pile.radius_m}); received ${s.building.pileSpacing_m}`,
       });
     }
     if (s.referenceRadius_m <= s.pile.radius_m) {

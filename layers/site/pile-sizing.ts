@@ -11,7 +11,8 @@
  * count N of piles of given length H rather than a length. With q' = Q/(N H) per metre of pile
  * (heat extracted > 0) and the pulses superposed in time,
  *   T_f = T_g − [q'_a g_N(t_life) + (q'_m − q'_a) g_N(t_m + t_p) + (q'_p − q'_m) g_cyl(t_p)]/(2πk) − q'_p R_b,
- *   EFT = T_f + Q_p/(2 ṁc_p), lowest fluid temperature = EFT − Q_p/(ṁc_p),
+ *   EFT = T_f + Q_p/(2 ṁc_p), lowest fluid temperature = EFT − Q_p/(ṁc_p) (heating: the fluid entering
+ *   the heat pump is the warmest point of the loop; layers/physics/fluid-temperature-convention.ts),
  * q_a the annual mean ground load, q_m the design month's, q_p the peak (t_p, default 6 h), g_cyl the
  * cylinder source at the pile wall (2πG, Carslaw & Jaeger). N is the least count with EFT >= the
  * minimum EFT (exponential search, then bisection; EFT rises with N). The controlling pulse is the one
@@ -30,6 +31,11 @@
 import { cylinderSourceG, cylinderSourceGBernier } from '../physics/infinite-cylinder-source';
 import { pileFieldGFunction } from '../physics/finite-line-source';
 import { fluidProperties, requireFluidAbove, type FluidName } from '../physics/fluids';
+import {
+  enteringFromMeanFluid_C,
+  leavingFromEnteringFluid_C,
+  meanFluidFromEntering_C,
+} from '../physics/fluid-temperature-convention';
 import { heatPumpAt, WATTS_PER_TON, type HeatPumpCurve, DEFAULT_HEAT_PUMP_CURVE } from '../physics/heat-pump';
 import { requireNonNegative, requirePositive, requireRange } from '../physics/validate';
 import { layoutPositions, type PileLayout } from './sizing-layout';
@@ -234,7 +240,7 @@ function drops(p: Prepared, n: number): Record<Pulse, number> {
 
 function eft(p: Prepared, n: number): number {
   const d = drops(p, n);
-  return p.Tg - d.annual - d.monthly - d.peak + p.halfLoopDrop_K;
+  return enteringFromMeanFluid_C(p.Tg - d.annual - d.monthly - d.peak, 2 * p.halfLoopDrop_K, 'heating');
 }
 
 /** Entering fluid temperature at the design condition for a given pile count (same method). */
@@ -279,7 +285,7 @@ function lifeSeries(p: Prepared, n: number): PileFieldSizingResult['fluidTempera
     out.year.push(y + 1);
     out.designMonthMeanFluid_C.push(meanF);
     const peakDrop = (p.q.peak - p.qMonths[p.designMonth]) * gP * c + (p.q.peak / L) * p.Rb;
-    out.minEnteringFluid_C.push(meanF - peakDrop + p.halfLoopDrop_K);
+    out.minEnteringFluid_C.push(enteringFromMeanFluid_C(meanF - peakDrop, 2 * p.halfLoopDrop_K, 'heating'));
   }
   return out;
 }
@@ -293,7 +299,11 @@ export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResul
     const d1 = drops(p, 1);
     const n = Math.max(
       1,
-      Math.ceil((d1.annual + d1.monthly + d1.peak) / (p.Tg + p.halfLoopDrop_K - p.minEft) - 1e-9),
+      Math.ceil(
+        (d1.annual + d1.monthly + d1.peak) /
+          (p.Tg - meanFluidFromEntering_C(p.minEft, 2 * p.halfLoopDrop_K, 'heating')) -
+          1e-9,
+      ),
     );
     if (n > maxN) {
       throw new RangeError(
@@ -327,14 +337,18 @@ function result(p: Prepared, n: number, withSeries: boolean): PileFieldSizingRes
     (best, k) => (d[k] > d[best] ? k : best),
     'annual' as Pulse,
   );
-  const design = p.Tg - d.annual - d.monthly - d.peak + p.halfLoopDrop_K;
+  const design = enteringFromMeanFluid_C(
+    p.Tg - d.annual - d.monthly - d.peak,
+    2 * p.halfLoopDrop_K,
+    'heating',
+  );
   return {
     pileCount: n,
     totalLength_m: n * p.H,
     controllingPulse: controlling,
     pulseDrop_K: d,
     enteringFluidAtDesign_C: design,
-    lowestFluid_C: design - 2 * p.halfLoopDrop_K,
+    lowestFluid_C: leavingFromEnteringFluid_C(design, 2 * p.halfLoopDrop_K, 'heating'),
     groundLoad_W: p.q,
     copPeak: p.copPeak,
     fluidTemperature_C: withSeries

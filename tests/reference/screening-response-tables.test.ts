@@ -8,8 +8,11 @@ import {
   rampWarming_K,
 } from '../../layers/screening/response-tables';
 import { lookup } from '../../layers/screening/log-table';
-import { finiteLineSourceG } from '../../layers/physics/finite-line-source';
-import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
+import { finiteLineSourceG, pileFieldGFunction } from '../../layers/physics/finite-line-source';
+import { finiteLineSourcePointG } from '../../layers/physics/finite-line-source-point';
+import { cylinderSourceG } from '../../layers/physics/infinite-cylinder-source';
+import { foundationGroup } from '../../layers/screening/foundation-group';
+import { DEFAULT_SCENARIO, parseScenario } from '../../layers/screening/scenario';
 
 const T = buildResponseTables(DEFAULT_SCENARIO);
 // Linear surface rise b = 0.05 K/yr, α = 1e-6 m²/s = 31.5576 m²/yr (365.25-day year), reference-values §7.
@@ -69,21 +72,53 @@ describe('tabulated finite line source (layers/physics/finite-line-source.ts, Es
       expect(Math.abs(flsResponse(T.pileMean, 1e-6, t) / g - 1)).toBeLessThan(1e-3);
     }
   });
-  it('mid-depth at the reference radius: within 1e-3 of its 30-year value from 1 month to 300 years', () => {
-    const g30 = finiteLineSourceG({
+  it('the foundation group, mean over its piles: within 1e-3 of the direct field g-function (4 × 4 at 3 m)', () => {
+    const positions = foundationGroup(s).positions;
+    const times = [30 * 86400, year, 5 * year, 30 * year, 100 * year, 300 * year];
+    const direct = pileFieldGFunction({
       ...geometry,
-      radius_m: s.referenceRadius_m,
-      time_s: 30 * year,
-      point: 'midDepth',
+      positions,
+      pileRadius_m: s.pile.radius_m,
+      times_s: times,
     });
+    times.forEach((t, i) => {
+      expect(Math.abs(flsResponse(T.fieldMean, 1e-6, t) - direct[i]) / direct[3]).toBeLessThan(1e-3);
+    });
+    // a 4 × 4 group at 3 m responds 2.4-2.7 times one pile alone at 30 years (issue 11; measured here)
+    const ratio = flsResponse(T.fieldMean, 1e-6, 30 * year) / flsResponse(T.pileMean, 1e-6, 30 * year);
+    expect(ratio).toBeGreaterThan(2.2);
+    expect(ratio).toBeLessThan(2.9);
+  });
+  it('one pile alone at the default reference point (mid-depth, 1.5 m) equals the mid-depth FLS of the core', () => {
+    const one = parseScenario({ building: { foundationPiles: 1 } });
+    const t1 = buildResponseTables(one);
+    const g30 = finiteLineSourceG({ ...geometry, radius_m: 1.5, time_s: 30 * year, point: 'midDepth' });
     for (const t of [30 * 86400, year, 5 * year, 30 * year, 100 * year, 300 * year]) {
-      const g = finiteLineSourceG({
-        ...geometry,
-        radius_m: s.referenceRadius_m,
-        time_s: t,
-        point: 'midDepth',
-      });
-      expect(Math.abs(flsResponse(T.referencePoint, 1e-6, t) - g) / g30).toBeLessThan(1e-3);
+      const g = finiteLineSourceG({ ...geometry, radius_m: 1.5, time_s: t, point: 'midDepth' });
+      expect(Math.abs(flsResponse(t1.referencePoint, 1e-6, t) - g) / g30).toBeLessThan(1e-3);
+    }
+  });
+  // Item 6 of issue 11: the reference point at the scenario's depth, near the pile head and tip too.
+  for (const depth of [1.2, 6, 10.8, 13]) {
+    it(`the group at the reference point at ${depth} m: within 1e-3 of the direct sum of point responses`, () => {
+      const sc = parseScenario({ referenceDepth_m: depth });
+      const tt = buildResponseTables(sc);
+      const d = foundationGroup(sc).referenceDistances_m;
+      const direct = (t: number) =>
+        d.reduce(
+          (a, r) => a + finiteLineSourcePointG({ ...geometry, radius_m: r, depth_m: depth, time_s: t }),
+          0,
+        );
+      const g30 = direct(30 * year);
+      for (const t of [30 * 86400, year, 5 * year, 30 * year, 300 * year]) {
+        expect(Math.abs(flsResponse(tt.referencePoint, 1e-6, t) - direct(t)) / g30).toBeLessThan(1e-3);
+      }
+    });
+  }
+  it('cylinder source at the pile wall: within 1e-3 of the direct integral (6 h to 1 month, all soils)', () => {
+    for (const fo of [0.02, 0.3, 3.05, 40, 400, 5000]) {
+      const g = 2 * Math.PI * cylinderSourceG(fo);
+      expect(Math.abs(lookup(T.cylinderWall, fo) / g - 1)).toBeLessThan(1e-3);
     }
   });
 });

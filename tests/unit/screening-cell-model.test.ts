@@ -154,8 +154,10 @@ describe('exclusions', () => {
 });
 
 describe('operating window and binding limit', () => {
-  it('default heat pump: fluid-limited; a cold-capable heat pump and strict over-cooling: over-cooling binds', () => {
-    expect(metrics({})[METRIC.bindingLimit]).toBe(2);
+  it('default heat pump: gravel (6 K allowed) fluid-limited; silt in the 4 × 4 group (2 K) and strict over-cooling: over-cooling binds', () => {
+    // Silt was fluid-limited before the group: one pile cooled the point between piles 2.6 times less.
+    expect(metrics({ textureClass: 1, waterContent_m3m3: 0.15 })[METRIC.bindingLimit]).toBe(2);
+    expect(metrics({})[METRIC.bindingLimit]).toBe(3);
     const s = parseScenario({ heatPump: { minEnteringFluid_C: -18 }, maxOvercooling_K: 0.5 });
     const m = metrics({}, s);
     expect(m[METRIC.bindingLimit]).toBe(3);
