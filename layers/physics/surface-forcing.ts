@@ -43,6 +43,18 @@ export function degreeDays(input: { meanAirTemp_C: number; amplitude_C: number }
 }
 
 /**
+ * Share of the sinusoidal year T(t) = T̄ + A·sin(2πt/P) spent above 0 °C: f_t = (π + 2·asin(T̄/A))/(2π)
+ * for |T̄| < A, 1 for T̄ ≥ A, 0 for T̄ ≤ −A (A = 0: 1 when T̄ > 0, else 0). It is also dI_t/dT̄ / P (the
+ * derivative of degreeDays' thawing index), since only the thawed part of the year gains from a shift.
+ * Hot-path helper: no validation, NaN in gives NaN out.
+ */
+export function thawSeasonFraction(meanAirTemp_C: number, amplitude_C: number): number {
+  if (meanAirTemp_C >= amplitude_C) return meanAirTemp_C > 0 || amplitude_C > 0 ? 1 : 0;
+  if (meanAirTemp_C <= -amplitude_C) return 0;
+  return 0.5 + Math.asin(meanAirTemp_C / amplitude_C) / Math.PI;
+}
+
+/**
  * n-factors: surface index = n × air index (Lunardini 1978). Freezing n_f < 1 under snow; thawing n_t
  * < 1 under moss and forest, > 1 on bare gravel or pavement.
  */

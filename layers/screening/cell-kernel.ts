@@ -6,7 +6,9 @@
  *  1. soil properties from the texture table at the cell's water content (cell-constants.ts);
  *  2. air freezing/thawing indices of the sinusoidal year (degreeDays, surface-forcing.ts), surface
  *     indices with n-factors (Lunardini 1978), TTOP (Smith & Riseborough 1996, 2002), active layer by
- *     Stefan (thawed k, surface thawing index, latent heat of all pore water);
+ *     the two-phase Neumann solution over the thaw season with the sensible heat of both zones
+ *     (layers/physics/neumann-active-layer.ts: the thaw-season step of equal degree-days into frozen
+ *     ground at TTOP, as in the modified Berggren method);
  *  3. ground temperature at the pile's mid-depth: the ground-temperature grid when given, else TTOP
  *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
  *     adds the gradient between the two depths;
@@ -29,10 +31,10 @@
  *     scenario's heat-pump curve (layers/physics/heat-pump.ts);
  *  9. exclusions, soft scores, class (suitability.ts).
  */
-import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
+import { degreeDays, SECONDS_PER_YEAR, thawSeasonFraction } from '../physics/surface-forcing';
 import { dampingDepth_m } from '../physics/ground-temperature-wave';
 import { ttop_C } from '../physics/ttop';
-import { stefanDepth_m } from '../physics/stefan';
+import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
 import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
@@ -157,14 +159,16 @@ export function evaluateCellMetrics(
     kThawed_W_mK: soil.kThawed,
     kFrozen_W_mK: kF,
   });
-  const alt =
-    air.thawingIndex_Cd > 0
-      ? stefanDepth_m({
-          conductivity_W_mK: soil.kThawed,
-          index_Cd: nT * air.thawingIndex_Cd,
-          latent_J_m3: soil.latent,
-        })
-      : 0;
+  const alt = neumannActiveLayerKernel_m(
+    nT * air.thawingIndex_Cd,
+    thawSeasonFraction(cell.meanAirTemp_C, cell.airAmplitude_C),
+    ttop,
+    soil.kThawed,
+    kF,
+    soil.cThawed,
+    soil.cFrozen,
+    soil.latent,
+  );
   m[M.activeLayer] = alt;
 
   // 3. ground temperatures

@@ -134,8 +134,10 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'cividis',
       legendMin: 0,
       legendMax: 4,
-      description: 'Stefan thaw depth under the surface thawing index.',
-      source: 'Stefan equation (e.g. Lunardini 1981)',
+      description:
+        'Seasonal thaw depth with the sensible heat of the thawed and frozen ground (thaw-season step of the surface thawing index into ground at TTOP).',
+      source:
+        'two-phase Neumann solution over the thaw season (Carslaw & Jaeger 1959 §11.2), as in the modified Berggren method (Aldrich & Paynter 1953)',
     },
     thawYear: {
       title: 'Thaw year without piles',

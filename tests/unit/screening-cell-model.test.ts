@@ -18,7 +18,7 @@ import { criterionSchema, bandSchema } from '../../layers/screening/manifest';
 import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
 import { degreeDays } from '../../layers/physics/surface-forcing';
 import { ttop_C } from '../../layers/physics/ttop';
-import { stefanDepth_m } from '../../layers/physics/stefan';
+import { neumannActiveLayer_m } from '../../layers/physics/neumann-active-layer';
 import type { CellInputs } from '../../layers/screening/screening-model';
 
 const base: CellInputs = {
@@ -77,7 +77,7 @@ describe('layers and manifest criteria', () => {
 });
 
 describe('the kernel reuses the science core (cross-checks against direct calls)', () => {
-  it('ground temperature = TTOP + geothermal gradient below the Stefan active layer', () => {
+  it('ground temperature = TTOP + geothermal gradient below the Neumann thaw-season active layer', () => {
     const m = metrics({});
     const p = soilThermalProperties({ texture: 'silt', waterContent_m3m3: 0.4 });
     const dd = degreeDays({ meanAirTemp_C: -6, amplitude_C: 18 });
@@ -89,9 +89,17 @@ describe('the kernel reuses the science core (cross-checks against direct calls)
       kThawed_W_mK: p.kThawed_W_mK,
       kFrozen_W_mK: p.kFrozen_W_mK,
     });
-    const alt = stefanDepth_m({
-      conductivity_W_mK: p.kThawed_W_mK,
-      index_Cd: dd.thawingIndex_Cd,
+    // Issue 11 item 4: the active layer carries the sensible heat of both zones (was Stefan, all pore
+    // water, no sensible heat: 7 % deeper here, up to 2.7× in rock).
+    const alt = neumannActiveLayer_m({
+      meanAirTemp_C: -6,
+      amplitude_C: 18,
+      nThaw: 1,
+      ttop_C: t,
+      kThawed_W_mK: p.kThawed_W_mK,
+      kFrozen_W_mK: p.kFrozen_W_mK,
+      cThawed_J_m3K: p.cThawed_J_m3K,
+      cFrozen_J_m3K: p.cFrozen_J_m3K,
       latent_J_m3: p.latent_J_m3,
     });
     const zp = s.pile.topDepth_m + s.pile.length_m / 2;
