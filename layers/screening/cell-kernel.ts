@@ -12,7 +12,10 @@
  *  3. ground temperature at the pile's mid-depth: the ground-temperature grid when given, else TTOP
  *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
  *     adds the gradient between the two depths;
- *  4. warming: linear surface trend (the air trend) propagated by conduction in frozen ground
+ *  4. warming: the air trend through the n-factor transfer shared with the site simulator (the trend
+ *     is added to the air, then the n-factors act: surfaceMeanWarming_K, surface-forcing.ts), as the
+ *     linear surface rate with the same surface-mean change at the end of the design life
+ *     (surfaceWarmingRate_K_per_yr), propagated by conduction in frozen ground
  *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles by the method of
  *     layers/physics/years-to-thaw.ts: the time the conduction rise brings the reference point to
  *     0 °C (tabulated here) plus the latent-heat delay z·√(L/(k_thawed·b)) of a Stefan front under a
@@ -31,7 +34,13 @@
  *     scenario's heat-pump curve (layers/physics/heat-pump.ts);
  *  9. exclusions, soft scores, class (suitability.ts).
  */
-import { degreeDays, SECONDS_PER_YEAR, thawSeasonFraction } from '../physics/surface-forcing';
+import {
+  degreeDays,
+  SECONDS_PER_YEAR,
+  surfaceMeanSensitivity,
+  surfaceMeanWarming_K,
+  thawSeasonFraction,
+} from '../physics/surface-forcing';
 import { dampingDepth_m } from '../physics/ground-temperature-wave';
 import { ttop_C } from '../physics/ttop';
 import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
@@ -101,6 +110,44 @@ export function pileWinterAnomaly_K(p: {
   const im = -e1 * Math.sin(u1) + e2 * Math.sin(u2);
   // |(re + i·im)/(1 + i)| = |re + i·im|/√2
   return (p.surfaceAmplitude_C * d * Math.hypot(re, im)) / (Math.SQRT2 * (p.bottom_m - p.top_m));
+}
+
+/**
+ * Surface warming rate of a cell, K/yr: the linear surface trend with the simulator's surface-mean
+ * change at the end of the design life, surfaceMeanWarming_K(ΔT_air = b·life)/life (surface-forcing.ts;
+ * under n_f < 1 snow about 0.5–0.8 of the air trend). The ramp, the thaw years and the latent delay
+ * all use it. Trends taking the air mean beyond ±40 K or outside −80…60 °C use the slope
+ * surfaceMeanSensitivity at today's climate instead.
+ */
+export function surfaceWarmingRate_K_per_yr(
+  cell: Pick<CellInputs, 'meanAirTemp_C' | 'airAmplitude_C' | 'warming_C_per_yr'>,
+  nFreeze: number,
+  nThaw: number,
+  life_yr: number,
+): number {
+  if (cell.warming_C_per_yr === 0) return 0;
+  const airWarming_K = cell.warming_C_per_yr * life_yr;
+  const shifted = cell.meanAirTemp_C + airWarming_K;
+  if (Math.abs(airWarming_K) > 40 || shifted < -80 || shifted > 60) {
+    // Beyond the transfer's checked range (trends of more than 0.4 K/yr held for a century): the
+    // slope at today's climate, so that the kernel never throws.
+    const sens = surfaceMeanSensitivity({
+      meanAirTemp_C: cell.meanAirTemp_C,
+      amplitude_C: cell.airAmplitude_C,
+      nFreeze,
+      nThaw,
+    });
+    return sens * cell.warming_C_per_yr;
+  }
+  return (
+    surfaceMeanWarming_K({
+      meanAirTemp_C: cell.meanAirTemp_C,
+      amplitude_C: cell.airAmplitude_C,
+      nFreeze,
+      nThaw,
+      airWarming_K,
+    }) / life_yr
+  );
 }
 
 function validInputs(c: CellInputs): boolean {
@@ -182,8 +229,8 @@ export function evaluateCellMetrics(
     : tPile + grad * (zr - zp);
   const alphaF = kF / soil.cFrozen;
   const alphaYr = alphaF * SECONDS_PER_YEAR;
-  const b = cell.warming_C_per_yr;
   const life = s.designLife_yr;
+  const b = surfaceWarmingRate_K_per_yr(cell, nF, nT, life);
   const lifeS = life * SECONDS_PER_YEAR;
   const tPileEnd = tPile + rampWarming_K(k.tables, zp, life, b, alphaYr);
   m[M.groundTemp] = tPile;

@@ -64,9 +64,10 @@ describe('active layer: per-cell model within 15 % of the simulator (issue 11 it
           nFreeze: c[2],
         });
         const alt = cell.metrics.activeLayer.value as number;
-        expect(Math.abs(alt / sim - 1), `${texture} ${water} ${c.join('/')}: map ${alt} sim ${sim}`).toBeLessThan(
-          0.15,
-        );
+        expect(
+          Math.abs(alt / sim - 1),
+          `${texture} ${water} ${c.join('/')}: map ${alt} sim ${sim}`,
+        ).toBeLessThan(0.15);
       }
     }, 60_000);
   }
