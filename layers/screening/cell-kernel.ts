@@ -9,9 +9,12 @@
  *     the two-phase Neumann solution over the thaw season with the sensible heat of both zones
  *     (layers/physics/neumann-active-layer.ts: the thaw-season step of equal degree-days into frozen
  *     ground at TTOP, as in the modified Berggren method);
+ *  1b. excess ice: water above the texture's porosity n is excess ice, e = (θ − n)/(1 − n), carried
+ *     in the latent heat, capacity and conductivity (soil-catalogue.ts) and reported (band excessIce);
  *  3. ground temperature at the pile's mid-depth: the ground-temperature grid when given, else TTOP
  *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
- *     adds the gradient between the two depths;
+ *     adds the gradient between the two depths; at the end of the life latent-aware
+ *     (groundTempEndOfLife_C: 0 °C while the ice melts, the zero curtain, flagged);
  *  4. warming: the air trend through the n-factor transfer shared with the site simulator (the trend
  *     is added to the air, then the n-factors act: surfaceMeanWarming_K, surface-forcing.ts), as the
  *     linear surface rate with the same surface-mean change at the end of the design life
@@ -29,6 +32,7 @@
  *     latent delay, lengthened by c/b: the Stefan front X·dX/dt = k_t·(b(t − t0) − c)/L driven against
  *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
  *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
+ *     thaw after the scenario's climate horizon is capped there and flagged (climate-horizon.ts);
  *  8. economics at the seasonal COP: EFT_season = T_pile − q'_carried·(R_b + g_life/(2πk)) − ΔT_half
  *     (annual-average extraction through the pile and the long-term ground resistance), COP from the
  *     scenario's heat-pump curve (layers/physics/heat-pump.ts);
@@ -58,6 +62,7 @@ import {
   thawStabilityScore,
 } from './suitability';
 import { METRIC as M } from './cell-layers';
+import { THAW_HORIZON } from './climate-horizon';
 
 /** One refrigeration ton, W: 12 000 Btu_IT/h (reference-values §12). */
 export const TON_W = 3516.853;
@@ -68,6 +73,8 @@ const HOURS_PER_YEAR = 8760;
 export interface KernelScratch {
   soil: SoilPoint;
   window: WindowResult;
+  /** Set by groundTempEndOfLife_C: latent heat holds the ground at 0 °C at the end of life. */
+  zeroCurtain: boolean;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -82,6 +89,7 @@ export function createKernelScratch(): KernelScratch {
       loadShare: 0,
       binding: 0,
     },
+    zeroCurtain: false,
   };
 }
 
@@ -191,6 +199,9 @@ export function evaluateCellMetrics(
   m[M.bedrockDepth] = cell.bedrockDepth_m;
   const tex = cell.textureClass;
   m[M.thawStability] = thawStabilityScore(tex, cell.waterContent_m3m3);
+  const porosity = k.soil[tex].thetaMax;
+  m[M.excessIce] =
+    cell.waterContent_m3m3 > porosity ? (cell.waterContent_m3m3 - porosity) / (1 - porosity) : 0;
 
   // 1-2. soil, forcing, TTOP, active layer
   const soil = soilAt(k.soil[tex], cell.waterContent_m3m3, x.soil);
@@ -232,11 +243,13 @@ export function evaluateCellMetrics(
   const life = s.designLife_yr;
   const b = surfaceWarmingRate_K_per_yr(cell, nF, nT, life);
   const lifeS = life * SECONDS_PER_YEAR;
-  const tPileEnd = tPile + rampWarming_K(k.tables, zp, life, b, alphaYr);
+  const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, b, alphaYr);
   m[M.groundTemp] = tPile;
   m[M.groundTempEnd] = tPileEnd;
+  m[M.zeroCurtain] = x.zeroCurtain ? 1 : 0;
   m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
-  m[M.permafrostClassEnd] = permafrostClass(tPileEnd, s.permafrostClasses);
+  // Held at 0 °C by its ice: still frozen ground, warm permafrost.
+  m[M.permafrostClassEnd] = x.zeroCurtain ? 1 : permafrostClass(tPileEnd, s.permafrostClasses);
 
   // 5. standard building
   const bld = s.building;
@@ -305,11 +318,8 @@ export function evaluateCellMetrics(
 
   // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
   if (tRef < 0) {
-    const horizon = s.horizon_yr;
-    const tL =
-      b > 0
-        ? (zr * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
-        : Infinity;
+    const horizon = s.climateHorizonYear - s.startYear;
+    const tL = latentDelay_yr(zr, soil, b);
     const t0s = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
     const cP = w.carried_W_m / (2 * Math.PI * kF);
     const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, b, alphaYr, alphaF, zr, horizon });
@@ -318,11 +328,22 @@ export function evaluateCellMetrics(
     const cooling = Number.isFinite(tPs)
       ? cP * flsResponse(k.tables.referencePoint, alphaF, tPs * SECONDS_PER_YEAR)
       : 0;
-    const t0c = Math.min(t0s + tL, horizon);
-    const tPc = Math.min(tPs + tL + cooling / b, horizon);
+    // Beyond the climate horizon a thaw is "after <year>" (climate-horizon.ts): the years are capped at
+    // the horizon and flagged, the delay and margin become lower bounds (delay undetermined when
+    // neither thaws within the horizon).
+    const t0 = t0s + tL;
+    const tP = Math.max(t0, tPs + tL + cooling / b);
+    const flag = !(t0 <= horizon)
+      ? THAW_HORIZON.bothAfter
+      : !(tP <= horizon)
+        ? THAW_HORIZON.pilesAfter
+        : THAW_HORIZON.within;
+    const t0c = Math.min(t0, horizon);
+    const tPc = Math.min(tP, horizon);
+    m[M.thawBeyondHorizon] = flag;
     m[M.thawYear] = s.startYear + t0c;
     m[M.thawYearPiles] = s.startYear + tPc;
-    m[M.thawDelay] = tPc - t0c;
+    m[M.thawDelay] = flag === THAW_HORIZON.bothAfter ? NaN : tPc - t0c;
     m[M.frozenMargin] = tPc - life;
   }
 
@@ -359,6 +380,47 @@ export function evaluateCellMetrics(
     wt[5] * linearScore(m[M.fuelSaved], u.fuelSaved.good_L, u.fuelSaved.poor_L);
   m[M.suitabilityScore] = score;
   m[M.suitability] = suitabilityClass(score, u);
+}
+
+/**
+ * Latent-heat delay of thaw at depth z, yr: the quasi-steady Stefan front under a surface excess rising
+ * at b reaches z a time z·√(L/(k_t·b)) after the conduction wave brings z to 0 °C
+ * (layers/physics/years-to-thaw.ts). Infinity for b ≤ 0.
+ */
+function latentDelay_yr(z_m: number, soil: SoilPoint, b: number): number {
+  return b > 0
+    ? (z_m * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
+    : Infinity;
+}
+
+/**
+ * Ground temperature at depth z at the end of the design life without piles, latent-aware (step 3):
+ * the conduction ramp T + W(life) while it stays below 0 °C; once the ramp passes 0 °C (at t0) the
+ * ground's ice must melt first, for the latent delay t_L of latentDelay_yr, the same split as the thaw
+ * years: until t0 + t_L the ground sits at its freezing point, 0 °C (zero curtain, x.zeroCurtain set;
+ * freezing-point depression of fine soils neglected, as in the thaw years); after it, the ramp
+ * delayed by t_L, T + W(life − t_L) ≥ 0. Ground unfrozen today (T ≥ 0) keeps the conduction ramp.
+ * So a cell ends its life above 0 °C exactly when its thaw year at that depth falls within the life.
+ */
+function groundTempEndOfLife_C(
+  k: CellConstants,
+  x: KernelScratch,
+  t_C: number,
+  z_m: number,
+  life: number,
+  b: number,
+  alphaYr: number,
+): number {
+  x.zeroCurtain = false;
+  const ramp = t_C + rampWarming_K(k.tables, z_m, life, b, alphaYr);
+  if (!(t_C < 0) || ramp < 0) return ramp;
+  const t0 = rampTimeToRise_yr(k.tables, z_m, -t_C, b, alphaYr);
+  const tL = latentDelay_yr(z_m, x.soil, b);
+  if (!(t0 + tL <= life)) {
+    x.zeroCurtain = true;
+    return 0;
+  }
+  return t_C + rampWarming_K(k.tables, z_m, life - tL, b, alphaYr);
 }
 
 /** Temperature at the reference point minus 0 °C after t years with the piles operating. */
