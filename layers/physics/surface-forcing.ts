@@ -225,12 +225,37 @@ export interface SurfaceClimate {
  * T̄ + A·sin): T̄_s = (n_t·I_t − n_f·I_f)/P, the indices by the exact integral of degreeDays.
  */
 export function nFactorSurfaceMean_C(c: SurfaceClimate): number {
-  const air = degreeDays(c);
-  return (
-    (requireNFactor('nThaw', c.nThaw) * air.thawingIndex_Cd -
-      requireNFactor('nFreeze', c.nFreeze) * air.freezingIndex_Cd) /
-    PERIOD_DAYS
+  const mean = requireRange('meanAirTemp_C', c.meanAirTemp_C, -80, 60, 'C');
+  const amp = requireRange('amplitude_C', c.amplitude_C, 0, 80, 'K');
+  return nFactorSurfaceMeanKernel_C(
+    mean,
+    amp,
+    requireNFactor('nFreeze', c.nFreeze),
+    requireNFactor('nThaw', c.nThaw),
   );
+}
+
+/**
+ * nFactorSurfaceMean_C for hot loops (no validation): with the thawing index of degreeDays,
+ * (n_t·I_t − n_f·(I_t − P·T̄))/P.
+ */
+export function nFactorSurfaceMeanKernel_C(
+  meanAirTemp_C: number,
+  amplitude_C: number,
+  nFreeze: number,
+  nThaw: number,
+): number {
+  let thaw: number;
+  if (meanAirTemp_C >= amplitude_C) thaw = PERIOD_DAYS * meanAirTemp_C;
+  else if (meanAirTemp_C <= -amplitude_C) thaw = 0;
+  else {
+    const r = meanAirTemp_C / amplitude_C;
+    thaw =
+      (PERIOD_DAYS / (2 * Math.PI)) *
+      (meanAirTemp_C * (Math.PI + 2 * Math.asin(r)) + 2 * amplitude_C * Math.sqrt(1 - r * r));
+  }
+  const freeze = Math.max(0, thaw - PERIOD_DAYS * meanAirTemp_C);
+  return (nThaw * thaw - nFreeze * freeze) / PERIOD_DAYS;
 }
 
 /**

@@ -41,8 +41,8 @@
 import {
   degreeDays,
   SECONDS_PER_YEAR,
+  nFactorSurfaceMeanKernel_C,
   surfaceMeanSensitivity,
-  surfaceMeanWarming_K,
   thawSeasonFraction,
 } from '../physics/surface-forcing';
 import { dampingDepth_m } from '../physics/ground-temperature-wave';
@@ -122,7 +122,8 @@ export function pileWinterAnomaly_K(p: {
 
 /**
  * Surface warming rate of a cell, K/yr: the linear surface trend with the simulator's surface-mean
- * change at the end of the design life, surfaceMeanWarming_K(ΔT_air = b·life)/life (surface-forcing.ts;
+ * change at the end of the design life, surfaceMeanWarming_K(ΔT_air = b·life)/life (surface-forcing.ts,
+ * through its unchecked kernel;
  * under n_f < 1 snow about 0.5–0.8 of the air trend). The ramp, the thaw years and the latent delay
  * all use it. Trends taking the air mean beyond ±40 K or outside −80…60 °C use the slope
  * surfaceMeanSensitivity at today's climate instead.
@@ -147,14 +148,12 @@ export function surfaceWarmingRate_K_per_yr(
     });
     return sens * cell.warming_C_per_yr;
   }
+  // surfaceMeanWarming_K without its checks (inputs checked by validInputs; hot path).
+  const a = cell.airAmplitude_C;
   return (
-    surfaceMeanWarming_K({
-      meanAirTemp_C: cell.meanAirTemp_C,
-      amplitude_C: cell.airAmplitude_C,
-      nFreeze,
-      nThaw,
-      airWarming_K,
-    }) / life_yr
+    (nFactorSurfaceMeanKernel_C(shifted, a, nFreeze, nThaw) -
+      nFactorSurfaceMeanKernel_C(cell.meanAirTemp_C, a, nFreeze, nThaw)) /
+    life_yr
   );
 }
 
