@@ -26,13 +26,13 @@ import { requireNonNegative, requirePositive, requireRange } from './validate';
  * C·V_s/L (recalled from memory, medium confidence). Here λ comes from the exact two-phase root with
  * separate thawed and frozen properties instead of the published chart for averaged properties.
  *
- * Accuracy: within −9 %/+5 % of the site simulator's one-dimensional enthalpy solution (periodic state,
- * fine mesh) for gravel, sand, silt, clay, peat and rock, wet and dry, over MAAT −14 to −4 °C, amplitude
- * 16–24 K, n_f 0.3–0.9 (tests/unit/active-layer-simulator.test.ts), where the Stefan equation with all
- * pore water reads 0–170 % high (rock, dry gravel) and Kudryavtsev (kudryavtsev.ts) 10 % high to 36 %
- * low (peat). Special cases: no thaw season (I_t = 0) → 0; TTOP ≥ 0 (no permafrost below) → the
- * one-phase problem (B = 0), the depth a summer thaws into ground at its freezing point; L = 0 with
- * B = 0 → Infinity (no front). Small Ste and TTOP → 0: the Stefan depth √(2k₁·n_t·I_t/L). Neglects
+ * Accuracy: within −9 %/+6 % of the site simulator's one-dimensional enthalpy solution (periodic state,
+ * fine mesh) for gravel, sand, silt (also ice-rich), clay, peat and rock, wet and dry, over MAAT −14 to
+ * −6 °C, amplitude 16–24 K, n_f 0.4–0.9 (tests/unit/active-layer-simulator.test.ts), where the Stefan
+ * equation with all pore water reads 6–216 % high (worst in rock and dry gravel) and Kudryavtsev
+ * (kudryavtsev.ts) 14 % high to 36 % low (peat). Special cases: no thaw season (I_t = 0) → 0;
+ * TTOP ≥ 0 (no permafrost below) → the one-phase problem (B = 0), the depth a summer thaws into ground
+ * at its freezing point; L = 0 with B = 0 → Infinity (no front). Small Ste and TTOP → 0: the Stefan depth √(2k₁·n_t·I_t/L). Neglects
  * freezing-point depression and unfrozen water (the front is the 0 °C isotherm) and the shape of the
  * season (a step of equal degree-days, not a half sine).
  */
