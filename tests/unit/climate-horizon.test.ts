@@ -12,6 +12,7 @@ import { bandFor } from '../../data-pipeline/build/assemble-manifest';
 import { bandValueText } from '../../web/src/panels/cell-panel';
 import { exportProperties } from '../../web/src/shortlist/shortlist-export';
 import { testManifest } from './web-test-manifest';
+import { screenCell } from '../../layers/screening/cell-screening-model';
 
 const bands: Band[] = cellLayers(DEFAULT_SCENARIO).map((l) => bandFor(l, new Float32Array([0, 1, 2])));
 const band = (id: string) => bands.find((b) => b.id === id) as Band;
@@ -67,5 +68,19 @@ describe('climate horizon qualifier (issue 11 item 8)', () => {
     expect(p.thawYear_qualifier).toBe('after 2100');
     expect(p.frozenMargin_qualifier).toBe('≥ 45 yr');
     expect(p.thawDelay_qualifier).toMatch(/no thaw before 2100/);
+  });
+  it('the cell card (pile-atlas cell) carries the same qualifiers', () => {
+    const card = screenCell({
+      meanAirTemp_C: -6.5,
+      airAmplitude_C: 18,
+      warming_C_per_yr: 0.04,
+      textureClass: 'silt',
+      waterContent_m3m3: 0.38,
+      bedrockDepth_m: 18,
+    });
+    expect(card.metrics.thawBeyondHorizon.value).toBe(2);
+    expect(card.metrics.thawYear.qualifier).toBe('after 2100');
+    expect(card.metrics.frozenMargin.qualifier).toBe('≥ 45 yr');
+    expect(card.metrics.groundTemp.qualifier).toBeUndefined();
   });
 });
