@@ -71,6 +71,7 @@ export function bandFor(layer: ScreeningLayer, values: Float32Array | BandStats)
     ...(layer.classes ? { classes: layer.classes } : {}),
     description: layer.description,
     source: layer.source,
+    ...(layer.horizon ? { horizon: layer.horizon } : {}),
   };
 }
 

@@ -9,6 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Feature, FeatureCollection, Point, Polygon } from 'geojson';
 import { manifestSchema, type Band, type Manifest } from '../../layers/screening/manifest';
+import { horizonText } from '../../layers/screening/climate-horizon';
 import { createTransform } from '../crs/crs-definitions';
 import { formatZodIssues, InputError } from '../input-error';
 import { readGeoTiffGrid } from '../read/read-geotiff-grid';
@@ -81,6 +82,9 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
     planes.push(src.grid.values);
   }
   const names = manifest.bands.map(propertyName);
+  const flagIndex = manifest.bands.map((b) =>
+    b.horizon ? manifest.bands.findIndex((x) => x.id === b.horizon?.flagBand) : -1,
+  );
   const values = new Float64Array(manifest.bands.length);
   const propertiesOf = (cell: number): Record<string, number | string | null> => {
     const props: Record<string, number | string | null> = {};
@@ -88,6 +92,12 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
       const v = planes[b][cell];
       props[names[b]] = v === v ? +v.toPrecision(6) : null;
       if (band.classes) props[`${band.id}_label`] = band.classes.find((c) => c.value === v)?.label ?? null;
+      if (band.horizon) {
+        // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
+        const f = flagIndex[b];
+        const value = v === v ? `${+v.toPrecision(4)} ${band.unit}` : '';
+        props[`${band.id}_qualifier`] = horizonText(band.horizon, f < 0 ? undefined : planes[f][cell], value);
+      }
     });
     return props;
   };

@@ -131,3 +131,88 @@ export function neumannTwoPhase(input: {
     },
   };
 }
+
+/**
+ * erfc x·e^(x²) for x ≥ 0 by the Chebyshev fit of Press et al. (1992), Numerical Recipes in C, 2nd ed.,
+ * §6.2 (erfcc: fractional error of erfc below 1.2e-7 everywhere), without its e^(−x²) factor.
+ */
+function erfcxFast(x: number): number {
+  const t = 1 / (1 + 0.5 * x);
+  return (
+    t *
+    Math.exp(
+      -1.26551223 +
+        t *
+          (1.00002368 +
+            t *
+              (0.37409196 +
+                t *
+                  (0.09678418 +
+                    t *
+                      (-0.18628806 +
+                        t *
+                          (0.27886807 +
+                            t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
+    )
+  );
+}
+
+/** erf x for x ≥ 0: Maclaurin series to x¹¹ below 0.5 (A&S 7.1.5; relative error < 3e-8), else 1 − erfc. */
+function erfFast(x: number, expMinusX2: number): number {
+  if (x < 0.5) {
+    const x2 = x * x;
+    return (
+      1.1283791670955126 *
+      x *
+      (1 + x2 * (-1 / 3 + x2 * (1 / 10 + x2 * (-1 / 42 + x2 * (1 / 216 + x2 * (-1 / 1320))))))
+    );
+  }
+  return 1 - expMinusX2 * erfcxFast(x);
+}
+
+/**
+ * λ of the two-phase Neumann problem for hot loops (no validation, no allocation), from
+ * B = (k₂/k₁)·ν·|T_m − T_i|/|T_s − T_m| ≥ 0, ν = √(α₁/α₂) > 0 and invSte = L/(C₁|T_s − T_m|) ≥ 0 (0: no
+ * latent heat, the front is the T_m isotherm of two-phase conduction). The root of neumannTwoPhase's
+ * equation multiplied by erf λ,
+ *   G(λ) = e^(−λ²) − B·erf λ/erfcx(λν) − √π·invSte·λ·erf λ,
+ * which falls strictly and smoothly from G(0) = 1 (no 1/erf λ pole), by Newton steps kept inside the
+ * bracket found so far (bisection when a step leaves it), started at the root of its small-λ
+ * expansion (1 + 2·invSte)λ² + (2B/√π)λ − 1 = 0; 3–5 steps to |G| < 1e-9 or a step below 1e-8·λ. erf and erfcx are fast fits
+ * (erfFast, erfcxFast: relative error below 1.2e-7), so λ agrees with the bisection of neumannTwoPhase
+ * to 1e-6 relative (tests/unit/neumann-kernel.property.test.ts). Returns Infinity when B = 0 and
+ * invSte = 0 (nothing stops the front), NaN for invalid input.
+ */
+export function neumannTwoPhaseLambdaKernel(B: number, nu: number, invSte: number): number {
+  if (!(B >= 0) || !(nu > 0) || !(invSte >= 0)) return NaN;
+  if (B === 0 && invSte === 0) return Infinity;
+  const sqrtPi = 1.7724538509055159;
+  const twoOverSqrtPi = 1.1283791670955126;
+  const a = 1 + 2 * invSte;
+  const bq = twoOverSqrtPi * B;
+  let l = 2 / (bq + Math.sqrt(bq * bq + 4 * a)); // = (−bq + √(bq² + 4a))/(2a), cancellation-free
+  let lo = 0;
+  let hi = Infinity;
+  for (let i = 0; i < 100; i++) {
+    const e2 = Math.exp(-l * l);
+    const el = erfFast(l, e2);
+    const x = l * nu;
+    const ex = erfcxFast(x);
+    const G = e2 - (B * el) / ex - sqrtPi * invSte * l * el;
+    // G is only as smooth as the 1.2e-7 fits: stop at that level rather than chase their noise.
+    if (Math.abs(G) < 1e-9) return l;
+    if (G > 0) lo = l;
+    else hi = l;
+    // d/dλ: erf′ = (2/√π)e^(−λ²), erfcx′(x) = 2x·erfcx x − 2/√π.
+    const dEl = twoOverSqrtPi * e2;
+    const dG =
+      -2 * l * e2 -
+      B * (dEl / ex - (el * nu * (2 * x * ex - twoOverSqrtPi)) / (ex * ex)) -
+      sqrtPi * invSte * (el + l * dEl);
+    let next = l - G / dG;
+    if (!(next > lo && next < hi)) next = hi === Infinity ? 2 * l : 0.5 * (lo + hi);
+    if (Math.abs(next - l) <= 1e-8 * l) return next;
+    l = next;
+  }
+  return hi === Infinity ? l : 0.5 * (lo + hi);
+}

@@ -115,9 +115,19 @@ export const TEXTURE_CATALOGUE: Record<TextureName, TextureDefaults> = {
   },
 };
 
+/**
+ * Largest total water + ice content accepted, m³/m³: above the texture's porosity the excess is carried
+ * as excess ice (soilThermalProperties); 0.99 keeps a solids fraction (common practice: ice-rich
+ * permafrost with massive ice runs to 0.9 and more by volume).
+ */
+export const MAX_WATER_CONTENT_M3M3 = 0.99;
+
 export interface SoilLayerDescription {
   texture: TextureName;
-  /** Total volumetric water + ice content, m³/m³ (0 … porosity). */
+  /**
+   * Total volumetric water + ice content, m³/m³ (0 … MAX_WATER_CONTENT_M3M3); above the porosity the
+   * excess is excess ice.
+   */
   waterContent_m3m3: number;
   dryDensity_kg_m3?: number;
   quartzFraction?: number;
@@ -133,20 +143,36 @@ export interface SoilThermalProperties {
   kThawed_W_mK: number;
   cFrozen_J_m3K: number;
   cThawed_J_m3K: number;
-  /** Volumetric latent heat of all pore water, J/m³ (ρ_w·L_f·θ). */
+  /** Volumetric latent heat of all pore water and excess ice, J/m³ (ρ_w·L_f·θ). */
   latent_J_m3: number;
   freezingPoint_C: number;
+  /** Porosity of the texture at its dry density (before any excess ice). */
   porosity: number;
+  /**
+   * Excess ice: volume of ice beyond the pore space per volume of frozen ground, counted as its water
+   * volume (as θ is), e = (θ − n)/(1 − n) for θ > n, else 0, m³/m³. Draining, its meltwater leaves a
+   * thaw strain of about e (settlement per metre of thawed ground).
+   */
+  excessIce_m3m3: number;
   /** Unfrozen volumetric water at frozenTemperature_C, m³/m³. */
   unfrozenWater_m3m3: number;
+  /** Dry bulk density of the ground as resolved (lowered by excess ice: ρ_s·(1 − θ)), kg/m³. */
   dryDensity_kg_m3: number;
 }
 
 const TEXTURE_NAMES = Object.values(TEXTURE_CODES) as TextureName[];
 
 /**
- * Resolves a soil layer description to thermal properties. Porosity n = 1 − ρd/ρs; water content must
- * lie in [0, n]. Frozen properties count the Anderson–Tice unfrozen water at frozenTemperature_C (fine
+ * Resolves a soil layer description to thermal properties. Porosity n = 1 − ρd/ρs; water content in
+ * [0, MAX_WATER_CONTENT_M3M3]. Water above the porosity is excess ice (segregated or disseminated ice
+ * of ice-rich permafrost), never clipped: the ground is taken as the soil expanded by that ice, solids
+ * fraction (1 − e)(1 − n) = 1 − θ, i.e. porosity raised to the water content and dry density lowered
+ * to ρ_s(1 − θ), saturated. Then the latent heat counts all of θ; the de Vries heat capacity the ice
+ * and the reduced solids; and the conductivity is the Johansen (1975) saturated value, the geometric
+ * mean k_s^(1−θ)·k_ice^(θ−θu)·k_w^θu (Côté & Konrad 2005 likewise with n → θ for peat), which lies
+ * between the series (vertical flow across horizontal ice lenses) and parallel (radial flow into a pile
+ * along them) bounds of segregated ice (layered-medium bounds, e.g. Farouki 1981 ch. 5, recalled from
+ * memory). Frozen properties count the Anderson–Tice unfrozen water at frozenTemperature_C (fine
  * soils only) as liquid. Bedrock: k = k_sat (geometric mean with the rock matrix, pores taken as filled:
  * < 2 % error for n ≤ 0.05). Peat: Côté & Konrad (2005) organic parameters.
  */
@@ -160,14 +186,18 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
     d.solidsDensity_kg_m3 - 10,
     'kg/m3',
   );
-  const n = 1 - rhoD / d.solidsDensity_kg_m3;
+  const n0 = 1 - rhoD / d.solidsDensity_kg_m3;
   const theta = requireRange(
     'waterContent_m3m3',
     layer.waterContent_m3m3,
     0,
-    n,
-    `m3/m3 (0..porosity for ${texture})`,
+    MAX_WATER_CONTENT_M3M3,
+    `m3/m3 (above the porosity ${n0.toFixed(3)} of ${texture}: excess ice)`,
   );
+  // Excess ice: the soil expanded by the ice beyond its pores (porosity n → θ, ρd → ρs(1 − θ)).
+  const excess = theta > n0 ? (theta - n0) / (1 - n0) : 0;
+  const n = theta > n0 ? theta : n0;
+  const rhoDGround = theta > n0 ? d.solidsDensity_kg_m3 * (1 - theta) : rhoD;
   const q = requireRange('quartzFraction', layer.quartzFraction ?? d.quartzFraction, 0, 1);
   const sArea = requireRange(
     'specificSurface_m2_g',
@@ -187,12 +217,12 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
     ? unfrozenWaterContent_m3m3({
         temperature_C: tFrozen,
         specificSurface_m2_g: sArea,
-        dryDensity_kg_m3: rhoD,
+        dryDensity_kg_m3: rhoDGround,
         waterContent_m3m3: theta,
       })
     : 0;
   const fp = fine
-    ? freezingPoint_C({ specificSurface_m2_g: sArea, dryDensity_kg_m3: rhoD, waterContent_m3m3: theta })
+    ? freezingPoint_C({ specificSurface_m2_g: sArea, dryDensity_kg_m3: rhoDGround, waterContent_m3m3: theta })
     : 0;
 
   let kThawed: number;
@@ -233,7 +263,7 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
       porosity: n,
       waterContent_m3m3: theta,
       solidsConductivity_W_mK: johansenSolidsConductivity_W_mK(q, d.grading),
-      dryConductivity_W_mK: johansenDryConductivity_W_mK(rhoD),
+      dryConductivity_W_mK: johansenDryConductivity_W_mK(rhoDGround),
       grading: d.grading,
     };
     kThawed = johansenConductivity_W_mK({ ...base, state: 'thawed' });
@@ -269,8 +299,9 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
     cThawed_J_m3K: cThawed,
     latent_J_m3: volumetricLatentHeat_J_m3(theta),
     freezingPoint_C: fp,
-    porosity: n,
+    porosity: n0,
+    excessIce_m3m3: excess,
     unfrozenWater_m3m3: thetaU,
-    dryDensity_kg_m3: rhoD,
+    dryDensity_kg_m3: rhoDGround,
   };
 }

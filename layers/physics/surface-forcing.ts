@@ -43,6 +43,18 @@ export function degreeDays(input: { meanAirTemp_C: number; amplitude_C: number }
 }
 
 /**
+ * Share of the sinusoidal year T(t) = T̄ + A·sin(2πt/P) spent above 0 °C: f_t = (π + 2·asin(T̄/A))/(2π)
+ * for |T̄| < A, 1 for T̄ ≥ A, 0 for T̄ ≤ −A (A = 0: 1 when T̄ > 0, else 0). It is also dI_t/dT̄ / P (the
+ * derivative of degreeDays' thawing index), since only the thawed part of the year gains from a shift.
+ * Hot-path helper: no validation, NaN in gives NaN out.
+ */
+export function thawSeasonFraction(meanAirTemp_C: number, amplitude_C: number): number {
+  if (meanAirTemp_C >= amplitude_C) return meanAirTemp_C > 0 || amplitude_C > 0 ? 1 : 0;
+  if (meanAirTemp_C <= -amplitude_C) return 0;
+  return 0.5 + Math.asin(meanAirTemp_C / amplitude_C) / Math.PI;
+}
+
+/**
  * n-factors: surface index = n × air index (Lunardini 1978). Freezing n_f < 1 under snow; thawing n_t
  * < 1 under moss and forest, > 1 on bare gravel or pavement.
  */
@@ -144,9 +156,19 @@ export interface SurfaceTemperatureInput {
 }
 
 /**
- * Ground-surface temperature at a time: air temperature (sinusoid plus trend) scaled by n_t when above
- * 0 °C and by n_f when below (the instantaneous n-factor transfer; over a year this reproduces the
- * surface indices n_t·I_t and n_f·I_f of Lunardini 1978 exactly).
+ * The n-factor transfer, the one rule by which air temperature becomes ground-surface temperature in
+ * both the per-cell model and the site simulator: T_s = n_t·T_air when T_air ≥ 0, n_f·T_air below.
+ * It acts on the instantaneous air temperature *including* the warming trend, so a warming air mean
+ * moves the surface mean by surfaceMeanWarming_K (below), not by the air warming itself.
+ */
+export function nFactorTransfer_C(airTemp_C: number, nFreeze: number, nThaw: number): number {
+  return airTemp_C >= 0 ? nThaw * airTemp_C : nFreeze * airTemp_C;
+}
+
+/**
+ * Ground-surface temperature at a time: air temperature (sinusoid plus trend) through the n-factor
+ * transfer (nFactorTransfer_C; over a year this reproduces the surface indices n_t·I_t and n_f·I_f of
+ * Lunardini 1978 exactly). The site simulator's surface boundary (layers/site/site-setup.ts).
  */
 export function surfaceTemperature_C(input: SurfaceTemperatureInput): number {
   const mean = requireRange('meanAirTemp_C', input.meanAirTemp_C, -80, 60, 'C');
@@ -158,7 +180,7 @@ export function surfaceTemperature_C(input: SurfaceTemperatureInput): number {
   const days = t / SECONDS_PER_DAY;
   const offset = input.trend ? warmingOffset_C(input.trend, t / SECONDS_PER_YEAR) : 0;
   const air = mean + offset - amp * Math.cos((2 * Math.PI * (days - t0)) / PERIOD_DAYS);
-  return air >= 0 ? nt * air : nf * air;
+  return nFactorTransfer_C(air, nf, nt);
 }
 
 /**
@@ -189,4 +211,79 @@ export function surfaceSinusoid(input: {
     else hi = mid;
   }
   return { ...base, surfaceAmplitude_C: 0.5 * (lo + hi) };
+}
+
+export interface SurfaceClimate {
+  meanAirTemp_C: number;
+  amplitude_C: number;
+  nFreeze: number;
+  nThaw: number;
+}
+
+/**
+ * Annual mean of the n-factored sinusoidal surface temperature (nFactorTransfer_C of the year
+ * T̄ + A·sin): T̄_s = (n_t·I_t − n_f·I_f)/P, the indices by the exact integral of degreeDays.
+ */
+export function nFactorSurfaceMean_C(c: SurfaceClimate): number {
+  const mean = requireRange('meanAirTemp_C', c.meanAirTemp_C, -80, 60, 'C');
+  const amp = requireRange('amplitude_C', c.amplitude_C, 0, 80, 'K');
+  return nFactorSurfaceMeanKernel_C(
+    mean,
+    amp,
+    requireNFactor('nFreeze', c.nFreeze),
+    requireNFactor('nThaw', c.nThaw),
+  );
+}
+
+/**
+ * nFactorSurfaceMean_C for hot loops (no validation): with the thawing index of degreeDays,
+ * (n_t·I_t − n_f·(I_t − P·T̄))/P.
+ */
+export function nFactorSurfaceMeanKernel_C(
+  meanAirTemp_C: number,
+  amplitude_C: number,
+  nFreeze: number,
+  nThaw: number,
+): number {
+  let thaw: number;
+  if (meanAirTemp_C >= amplitude_C) thaw = PERIOD_DAYS * meanAirTemp_C;
+  else if (meanAirTemp_C <= -amplitude_C) thaw = 0;
+  else {
+    const r = meanAirTemp_C / amplitude_C;
+    thaw =
+      (PERIOD_DAYS / (2 * Math.PI)) *
+      (meanAirTemp_C * (Math.PI + 2 * Math.asin(r)) + 2 * amplitude_C * Math.sqrt(1 - r * r));
+  }
+  const freeze = Math.max(0, thaw - PERIOD_DAYS * meanAirTemp_C);
+  return (nThaw * thaw - nFreeze * freeze) / PERIOD_DAYS;
+}
+
+/**
+ * The surface-warming transfer shared by the map and the simulator: the change of the surface mean
+ * when the air mean warms by ΔT_air (the amplitude unchanged),
+ *   ΔT̄_s = T̄_s(T̄ + ΔT_air) − T̄_s(T̄)   (nFactorSurfaceMean_C),
+ * exactly what the simulator's surface (surfaceTemperature_C: the trend added to the air, then the
+ * n-factors) averages to over a year whose trend offset is ΔT_air. Its slope is
+ *   dT̄_s/dT̄ = n_t·f_t + n_f·(1 − f_t)        (surfaceMeanSensitivity),
+ * f_t the thawed share of the year (thawSeasonFraction): from I_t − I_f = P·T̄ and
+ * dI_t/dT̄ = P·f_t (degreeDays), d(n_t I_t − n_f I_f)/dT̄ = P·(n_t f_t + n_f(1 − f_t)). Under snow
+ * (n_f ≈ 0.5) and a short summer the surface warms by only 0.5–0.7 K per K of air warming; putting
+ * the whole air trend on the surface over-states the warming at depth. The trend is not exactly linear
+ * at the surface (f_t grows as the air warms); the per-cell model uses the secant over the design life.
+ */
+export function surfaceMeanWarming_K(c: SurfaceClimate & { airWarming_K: number }): number {
+  const d = requireRange('airWarming_K', c.airWarming_K, -40, 40, 'K');
+  const shifted = { ...c, meanAirTemp_C: c.meanAirTemp_C + d };
+  return nFactorSurfaceMean_C(shifted) - nFactorSurfaceMean_C(c);
+}
+
+/** dT̄_s/dT̄ of the n-factored sinusoid: n_t·f_t + n_f·(1 − f_t) (see surfaceMeanWarming_K). */
+export function surfaceMeanSensitivity(c: SurfaceClimate): number {
+  const nf = requireNFactor('nFreeze', c.nFreeze);
+  const nt = requireNFactor('nThaw', c.nThaw);
+  const ft = thawSeasonFraction(
+    requireRange('meanAirTemp_C', c.meanAirTemp_C, -80, 60, 'C'),
+    requireRange('amplitude_C', c.amplitude_C, 0, 80, 'K'),
+  );
+  return nt * ft + nf * (1 - ft);
 }

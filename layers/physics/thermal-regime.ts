@@ -13,6 +13,7 @@ export * from './ttop';
 export * from './stefan';
 export * from './kudryavtsev';
 export * from './neumann';
+export * from './neumann-active-layer';
 export * from './ground-temperature-wave';
 export * from './carslaw-jaeger-surface-response';
 export * from './geothermal-gradient';

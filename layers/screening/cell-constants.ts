@@ -9,9 +9,12 @@
  * 2005 conductivity, de Vries 1963 heat capacity, latent heat of the pore water) evaluated at 65 water
  * contents from 1 % to 100 % of the texture's porosity with the catalogue's default densities; a cell
  * interpolates linearly (error < 1 % of k, measured against direct calls, tests/unit/screening-cell-model).
- * Water contents above the porosity are clamped to it (saturated ground; excess ice is not modelled).
+ * Above the porosity the water is excess ice (soil-catalogue.ts: porosity raised to the water content,
+ * all of it latent heat and ice conductivity), tabulated at EXCESS_TABLE_POINTS more water contents from
+ * the porosity to MAX_WATER_CONTENT_M3M3 (0.99); the excess-ice fraction e = (θ − n)/(1 − n) is exact.
+ * Only water contents above 0.99 (massive ice) take the properties at 0.99.
  */
-import { soilThermalProperties } from '../physics/soil-catalogue';
+import { MAX_WATER_CONTENT_M3M3, soilThermalProperties } from '../physics/soil-catalogue';
 import { heatPumpAt } from '../physics/heat-pump';
 import { TEXTURE_CODES, type TextureCode } from './screening-model';
 import type { Scenario } from './scenario';
@@ -25,11 +28,16 @@ import {
 import { softWeights } from './suitability';
 
 export const SOIL_TABLE_POINTS = 65;
+/** Table points from the porosity to MAX_WATER_CONTENT_M3M3 (excess ice), the porosity included. */
+export const EXCESS_TABLE_POINTS = 33;
 
 export interface SoilTable {
   thetaMin: number;
+  /** The texture's porosity (end of the pore-water part of the table). */
   thetaMax: number;
   step: number;
+  /** Step of the excess-ice part, from thetaMax to MAX_WATER_CONTENT_M3M3. */
+  excessStep: number;
   kFrozen: Float64Array;
   kThawed: Float64Array;
   cFrozen: Float64Array;
@@ -71,21 +79,25 @@ function soilTable(code: TextureCode): SoilTable {
   const porosity = soilThermalProperties({ texture, waterContent_m3m3: 0 }).porosity;
   const thetaMin = 0.01 * porosity;
   const step = (porosity - thetaMin) / (SOIL_TABLE_POINTS - 1);
+  const excessStep = (MAX_WATER_CONTENT_M3M3 - porosity) / (EXCESS_TABLE_POINTS - 1);
+  const n = SOIL_TABLE_POINTS + EXCESS_TABLE_POINTS - 1;
   const t: SoilTable = {
     thetaMin,
     thetaMax: porosity,
     step,
-    kFrozen: new Float64Array(SOIL_TABLE_POINTS),
-    kThawed: new Float64Array(SOIL_TABLE_POINTS),
-    cFrozen: new Float64Array(SOIL_TABLE_POINTS),
-    cThawed: new Float64Array(SOIL_TABLE_POINTS),
-    latent: new Float64Array(SOIL_TABLE_POINTS),
+    excessStep,
+    kFrozen: new Float64Array(n),
+    kThawed: new Float64Array(n),
+    cFrozen: new Float64Array(n),
+    cThawed: new Float64Array(n),
+    latent: new Float64Array(n),
   };
-  for (let i = 0; i < SOIL_TABLE_POINTS; i++) {
-    const p = soilThermalProperties({
-      texture,
-      waterContent_m3m3: Math.min(porosity, thetaMin + i * step),
-    });
+  for (let i = 0; i < n; i++) {
+    const theta =
+      i < SOIL_TABLE_POINTS
+        ? Math.min(porosity, thetaMin + i * step)
+        : Math.min(MAX_WATER_CONTENT_M3M3, porosity + (i - SOIL_TABLE_POINTS + 1) * excessStep);
+    const p = soilThermalProperties({ texture, waterContent_m3m3: theta });
     t.kFrozen[i] = p.kFrozen_W_mK;
     t.kThawed[i] = p.kThawed_W_mK;
     t.cFrozen[i] = p.cFrozen_J_m3K;
@@ -106,15 +118,21 @@ export interface SoilPoint {
 }
 
 export function soilAt(t: SoilTable, waterContent_m3m3: number, out: SoilPoint): SoilPoint {
-  const th =
-    waterContent_m3m3 < t.thetaMin
-      ? t.thetaMin
-      : waterContent_m3m3 > t.thetaMax
-        ? t.thetaMax
-        : waterContent_m3m3;
-  const u = (th - t.thetaMin) / t.step;
-  const i = Math.min(SOIL_TABLE_POINTS - 2, Math.floor(u));
-  const f = u - i;
+  let i: number;
+  let f: number;
+  if (waterContent_m3m3 > t.thetaMax) {
+    // Excess ice: the second part of the table.
+    const th = waterContent_m3m3 > MAX_WATER_CONTENT_M3M3 ? MAX_WATER_CONTENT_M3M3 : waterContent_m3m3;
+    const u = (th - t.thetaMax) / t.excessStep;
+    const j = Math.min(EXCESS_TABLE_POINTS - 2, Math.floor(u));
+    i = SOIL_TABLE_POINTS - 1 + j;
+    f = u - j;
+  } else {
+    const th = waterContent_m3m3 < t.thetaMin ? t.thetaMin : waterContent_m3m3;
+    const u = (th - t.thetaMin) / t.step;
+    i = Math.min(SOIL_TABLE_POINTS - 2, Math.floor(u));
+    f = u - i;
+  }
   out.kFrozen = t.kFrozen[i] + (t.kFrozen[i + 1] - t.kFrozen[i]) * f;
   out.kThawed = t.kThawed[i] + (t.kThawed[i + 1] - t.kThawed[i]) * f;
   out.cFrozen = t.cFrozen[i] + (t.cFrozen[i + 1] - t.cFrozen[i]) * f;

@@ -6,11 +6,19 @@
  *  1. soil properties from the texture table at the cell's water content (cell-constants.ts);
  *  2. air freezing/thawing indices of the sinusoidal year (degreeDays, surface-forcing.ts), surface
  *     indices with n-factors (Lunardini 1978), TTOP (Smith & Riseborough 1996, 2002), active layer by
- *     Stefan (thawed k, surface thawing index, latent heat of all pore water);
+ *     the two-phase Neumann solution over the thaw season with the sensible heat of both zones
+ *     (layers/physics/neumann-active-layer.ts: the thaw-season step of equal degree-days into frozen
+ *     ground at TTOP, as in the modified Berggren method);
+ *  1b. excess ice: water above the texture's porosity n is excess ice, e = (θ − n)/(1 − n), carried
+ *     in the latent heat, capacity and conductivity (soil-catalogue.ts) and reported (band excessIce);
  *  3. ground temperature at the pile's mid-depth: the ground-temperature grid when given, else TTOP
  *     plus the geothermal gradient q_g/k_frozen below the active layer; the reference-depth temperature
- *     adds the gradient between the two depths;
- *  4. warming: linear surface trend (the air trend) propagated by conduction in frozen ground
+ *     adds the gradient between the two depths; at the end of the life latent-aware
+ *     (groundTempEndOfLife_C: 0 °C while the ice melts, the zero curtain, flagged);
+ *  4. warming: the air trend through the n-factor transfer shared with the site simulator (the trend
+ *     is added to the air, then the n-factors act: surfaceMeanWarming_K, surface-forcing.ts), as the
+ *     linear surface rate with the same surface-mean change at the end of the design life
+ *     (surfaceWarmingRate_K_per_yr), propagated by conduction in frozen ground
  *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles by the method of
  *     layers/physics/years-to-thaw.ts: the time the conduction rise brings the reference point to
  *     0 °C (tabulated here) plus the latent-heat delay z·√(L/(k_thawed·b)) of a Stefan front under a
@@ -30,15 +38,22 @@
  *     latent delay, lengthened by c/b: the Stefan front X·dX/dt = k_t·(b(t − t0) − c)/L driven against
  *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
  *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
+ *     thaw after the scenario's climate horizon is capped there and flagged (climate-horizon.ts);
  *  8. economics at the seasonal COP: mean fluid T_pile − q'_carried·(R_b + g_N(t_L)/(2πk)) (annual-average
  *     extraction through the pile and the group's long-term response), EFT = mean + ΔT/2 (heating), COP
  *     from the scenario's heat-pump curve (layers/physics/heat-pump.ts);
  *  9. exclusions, soft scores, class (suitability.ts).
  */
-import { degreeDays, SECONDS_PER_YEAR } from '../physics/surface-forcing';
+import {
+  degreeDays,
+  SECONDS_PER_YEAR,
+  nFactorSurfaceMeanKernel_C,
+  surfaceMeanSensitivity,
+  thawSeasonFraction,
+} from '../physics/surface-forcing';
 import { dampingDepth_m } from '../physics/ground-temperature-wave';
 import { ttop_C } from '../physics/ttop';
-import { stefanDepth_m } from '../physics/stefan';
+import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
 import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
@@ -56,6 +71,7 @@ import {
   thawStabilityScore,
 } from './suitability';
 import { METRIC as M } from './cell-layers';
+import { THAW_HORIZON } from './climate-horizon';
 
 /** One refrigeration ton, W: 12 000 Btu_IT/h (reference-values §12). */
 export const TON_W = 3516.853;
@@ -75,6 +91,8 @@ export interface KernelScratch {
   phasor: Float64Array;
   /** Month whose load limits the pile (0 = the coldest month of the surface wave). */
   peakMonth: Float64Array;
+  /** Set by groundTempEndOfLife_C: latent heat holds the ground at 0 °C at the end of life. */
+  zeroCurtain: boolean;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -93,6 +111,7 @@ export function createKernelScratch(): KernelScratch {
     peakFraction: new Float64Array(MONTHS),
     phasor: new Float64Array(2),
     peakMonth: new Float64Array(1),
+    zeroCurtain: false,
   };
 }
 
@@ -122,6 +141,43 @@ export function pileWinterAnomaly_K(p: {
   const im = -e1 * Math.sin(u1) + e2 * Math.sin(u2);
   // |(re + i·im)/(1 + i)| = |re + i·im|/√2
   return (p.surfaceAmplitude_C * d * Math.hypot(re, im)) / (Math.SQRT2 * (p.bottom_m - p.top_m));
+}
+
+/**
+ * Surface warming rate of a cell, K/yr: the linear surface trend with the simulator's surface-mean
+ * change at the end of the design life, surfaceMeanWarming_K(ΔT_air = b·life)/life (surface-forcing.ts,
+ * through its unchecked kernel;
+ * under n_f < 1 snow about 0.5–0.8 of the air trend). The ramp, the thaw years and the latent delay
+ * all use it. Trends taking the air mean beyond ±40 K or outside −80…60 °C use the slope
+ * surfaceMeanSensitivity at today's climate instead.
+ */
+export function surfaceWarmingRate_K_per_yr(
+  cell: Pick<CellInputs, 'meanAirTemp_C' | 'airAmplitude_C' | 'warming_C_per_yr'>,
+  nFreeze: number,
+  nThaw: number,
+  life_yr: number,
+): number {
+  if (cell.warming_C_per_yr === 0) return 0;
+  const airWarming_K = cell.warming_C_per_yr * life_yr;
+  const shifted = cell.meanAirTemp_C + airWarming_K;
+  if (Math.abs(airWarming_K) > 40 || shifted < -80 || shifted > 60) {
+    // Beyond the transfer's checked range (trends of more than 0.4 K/yr held for a century): the
+    // slope at today's climate, so that the kernel never throws.
+    const sens = surfaceMeanSensitivity({
+      meanAirTemp_C: cell.meanAirTemp_C,
+      amplitude_C: cell.airAmplitude_C,
+      nFreeze,
+      nThaw,
+    });
+    return sens * cell.warming_C_per_yr;
+  }
+  // surfaceMeanWarming_K without its checks (inputs checked by validInputs; hot path).
+  const a = cell.airAmplitude_C;
+  return (
+    (nFactorSurfaceMeanKernel_C(shifted, a, nFreeze, nThaw) -
+      nFactorSurfaceMeanKernel_C(cell.meanAirTemp_C, a, nFreeze, nThaw)) /
+    life_yr
+  );
 }
 
 function validInputs(c: CellInputs): boolean {
@@ -165,6 +221,9 @@ export function evaluateCellMetrics(
   m[M.bedrockDepth] = cell.bedrockDepth_m;
   const tex = cell.textureClass;
   m[M.thawStability] = thawStabilityScore(tex, cell.waterContent_m3m3);
+  const porosity = k.soil[tex].thetaMax;
+  m[M.excessIce] =
+    cell.waterContent_m3m3 > porosity ? (cell.waterContent_m3m3 - porosity) / (1 - porosity) : 0;
 
   // 1-2. soil, forcing, TTOP, active layer
   const soil = soilAt(k.soil[tex], cell.waterContent_m3m3, x.soil);
@@ -180,14 +239,16 @@ export function evaluateCellMetrics(
     kThawed_W_mK: soil.kThawed,
     kFrozen_W_mK: kF,
   });
-  const alt =
-    air.thawingIndex_Cd > 0
-      ? stefanDepth_m({
-          conductivity_W_mK: soil.kThawed,
-          index_Cd: nT * air.thawingIndex_Cd,
-          latent_J_m3: soil.latent,
-        })
-      : 0;
+  const alt = neumannActiveLayerKernel_m(
+    nT * air.thawingIndex_Cd,
+    thawSeasonFraction(cell.meanAirTemp_C, cell.airAmplitude_C),
+    ttop,
+    soil.kThawed,
+    kF,
+    soil.cThawed,
+    soil.cFrozen,
+    soil.latent,
+  );
   m[M.activeLayer] = alt;
 
   // 3. ground temperatures
@@ -201,14 +262,16 @@ export function evaluateCellMetrics(
     : tPile + grad * (zr - zp);
   const alphaF = kF / soil.cFrozen;
   const alphaYr = alphaF * SECONDS_PER_YEAR;
-  const b = cell.warming_C_per_yr;
   const life = s.designLife_yr;
+  const b = surfaceWarmingRate_K_per_yr(cell, nF, nT, life);
   const lifeS = life * SECONDS_PER_YEAR;
-  const tPileEnd = tPile + rampWarming_K(k.tables, zp, life, b, alphaYr);
+  const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, b, alphaYr);
   m[M.groundTemp] = tPile;
   m[M.groundTempEnd] = tPileEnd;
+  m[M.zeroCurtain] = x.zeroCurtain ? 1 : 0;
   m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
-  m[M.permafrostClassEnd] = permafrostClass(tPileEnd, s.permafrostClasses);
+  // Held at 0 °C by its ice: still frozen ground, warm permafrost.
+  m[M.permafrostClassEnd] = x.zeroCurtain ? 1 : permafrostClass(tPileEnd, s.permafrostClasses);
 
   // 5. standard building: design peak, annual average and the 12 monthly loads (month centres of the
   // sinusoidal year, m = 0 the coldest), each month's peak the design margin below its mean
@@ -291,11 +354,8 @@ export function evaluateCellMetrics(
 
   // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
   if (tRef < 0) {
-    const horizon = s.horizon_yr;
-    const tL =
-      b > 0
-        ? (zr * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
-        : Infinity;
+    const horizon = s.climateHorizonYear - s.startYear;
+    const tL = latentDelay_yr(zr, soil, b);
     const t0s = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
     const cP = w.carried_W_m / (2 * Math.PI * kF);
     const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, b, alphaYr, alphaF, zr, horizon });
@@ -304,11 +364,22 @@ export function evaluateCellMetrics(
     const cooling = Number.isFinite(tPs)
       ? cP * flsResponse(k.tables.referencePoint, alphaF, tPs * SECONDS_PER_YEAR)
       : 0;
-    const t0c = Math.min(t0s + tL, horizon);
-    const tPc = Math.min(tPs + tL + cooling / b, horizon);
+    // Beyond the climate horizon a thaw is "after <year>" (climate-horizon.ts): the years are capped at
+    // the horizon and flagged, the delay and margin become lower bounds (delay undetermined when
+    // neither thaws within the horizon).
+    const t0 = t0s + tL;
+    const tP = Math.max(t0, tPs + tL + cooling / b);
+    const flag = !(t0 <= horizon)
+      ? THAW_HORIZON.bothAfter
+      : !(tP <= horizon)
+        ? THAW_HORIZON.pilesAfter
+        : THAW_HORIZON.within;
+    const t0c = Math.min(t0, horizon);
+    const tPc = Math.min(tP, horizon);
+    m[M.thawBeyondHorizon] = flag;
     m[M.thawYear] = s.startYear + t0c;
     m[M.thawYearPiles] = s.startYear + tPc;
-    m[M.thawDelay] = tPc - t0c;
+    m[M.thawDelay] = flag === THAW_HORIZON.bothAfter ? NaN : tPc - t0c;
     m[M.frozenMargin] = tPc - life;
   }
 
@@ -348,6 +419,47 @@ export function evaluateCellMetrics(
     wt[5] * linearScore(m[M.fuelSaved], u.fuelSaved.good_L, u.fuelSaved.poor_L);
   m[M.suitabilityScore] = score;
   m[M.suitability] = suitabilityClass(score, u);
+}
+
+/**
+ * Latent-heat delay of thaw at depth z, yr: the quasi-steady Stefan front under a surface excess rising
+ * at b reaches z a time z·√(L/(k_t·b)) after the conduction wave brings z to 0 °C
+ * (layers/physics/years-to-thaw.ts). Infinity for b ≤ 0.
+ */
+function latentDelay_yr(z_m: number, soil: SoilPoint, b: number): number {
+  return b > 0
+    ? (z_m * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
+    : Infinity;
+}
+
+/**
+ * Ground temperature at depth z at the end of the design life without piles, latent-aware (step 3):
+ * the conduction ramp T + W(life) while it stays below 0 °C; once the ramp passes 0 °C (at t0) the
+ * ground's ice must melt first, for the latent delay t_L of latentDelay_yr, the same split as the thaw
+ * years: until t0 + t_L the ground sits at its freezing point, 0 °C (zero curtain, x.zeroCurtain set;
+ * freezing-point depression of fine soils neglected, as in the thaw years); after it, the ramp
+ * delayed by t_L, T + W(life − t_L) ≥ 0. Ground unfrozen today (T ≥ 0) keeps the conduction ramp.
+ * So a cell ends its life above 0 °C exactly when its thaw year at that depth falls within the life.
+ */
+function groundTempEndOfLife_C(
+  k: CellConstants,
+  x: KernelScratch,
+  t_C: number,
+  z_m: number,
+  life: number,
+  b: number,
+  alphaYr: number,
+): number {
+  x.zeroCurtain = false;
+  const ramp = t_C + rampWarming_K(k.tables, z_m, life, b, alphaYr);
+  if (!(t_C < 0) || ramp < 0) return ramp;
+  const t0 = rampTimeToRise_yr(k.tables, z_m, -t_C, b, alphaYr);
+  const tL = latentDelay_yr(z_m, x.soil, b);
+  if (!(t0 + tL <= life)) {
+    x.zeroCurtain = true;
+    return 0;
+  }
+  return t_C + rampWarming_K(k.tables, z_m, life - tL, b, alphaYr);
 }
 
 /** Temperature at the reference point minus 0 °C after t years with the piles operating. */

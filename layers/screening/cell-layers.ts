@@ -6,6 +6,7 @@ import type { ScreeningLayer } from './screening-model';
 import type { Scenario } from './scenario';
 import { EXCLUSION_LABELS, PERMAFROST_CLASS_LABELS, SUITABILITY_LABELS } from './suitability';
 import { BINDING_LABELS } from './operating-window';
+import { THAW_HORIZON, THAW_HORIZON_LABELS } from './climate-horizon';
 
 const IDS = [
   'suitability',
@@ -40,6 +41,9 @@ const IDS = [
   'fuelIncrease',
   'bedrockDepth',
   'thawStability',
+  'excessIce',
+  'zeroCurtain',
+  'thawBeyondHorizon',
 ] as const;
 
 export type MetricId = (typeof IDS)[number];
@@ -67,6 +71,13 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
   const z = s.referenceDepth_m;
   const r = s.referenceRadius_m;
   const group = `${s.building.foundationPiles}-pile, ${s.building.pileSpacing_m} m spacing`;
+  const hy = s.climateHorizonYear;
+  const horizon = (
+    after: number[],
+    atLeast: number[],
+    undetermined: number[],
+  ): ScreeningLayer['horizon'] => ({ year: hy, flagBand: 'thawBeyondHorizon', after, atLeast, undetermined });
+  const { pilesAfter, bothAfter } = THAW_HORIZON;
   const L: Record<MetricId, Omit<ScreeningLayer, 'id'>> = {
     suitability: {
       title: 'Suitability class',
@@ -111,7 +122,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'blueOrange',
       legendMin: -10,
       legendMax: 2,
-      description: `As groundTemp after ${life} years of warming, without piles.`,
+      description: `As groundTemp after ${life} years of warming, without piles; latent-aware: where the conduction ramp reaches 0 °C but the ground's ice has not melted by then, 0 °C (zero curtain, see zeroCurtain); once thawed, the ramp delayed by the melting time.`,
       source: `${TTOP_SRC}; ${RAMP_SRC}`,
     },
     permafrostClassToday: {
@@ -137,24 +148,28 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'cividis',
       legendMin: 0,
       legendMax: 4,
-      description: 'Stefan thaw depth under the surface thawing index.',
-      source: 'Stefan equation (e.g. Lunardini 1981)',
+      description:
+        'Seasonal thaw depth with the sensible heat of the thawed and frozen ground (thaw-season step of the surface thawing index into ground at TTOP).',
+      source:
+        'two-phase Neumann solution over the thaw season (Carslaw & Jaeger 1959 §11.2), as in the modified Berggren method (Aldrich & Paynter 1953)',
     },
     thawYear: {
       title: 'Thaw year without piles',
       unit: 'yr',
       kind: 'continuous',
       ramp: 'viridis',
-      description: `Year the ground at ${z} m thaws under the warming trend: conduction to 0 °C plus melting of its ice (capped at start + ${s.horizon_yr}).`,
+      description: `Year the ground at ${z} m thaws under the warming trend: conduction to 0 °C plus melting of its ice; ${hy} with thawBeyondHorizon = 2 means after ${hy} (the scenario's climate horizon).`,
       source: RAMP_SRC,
+      horizon: horizon([bothAfter], [], []),
     },
     thawYearPiles: {
       title: 'Thaw year with piles',
       unit: 'yr',
       kind: 'continuous',
       ramp: 'viridis',
-      description: `As thawYear at ${r} m from a foundation pile (between piles), every pile of the group operating at its carried extraction.`,
+      description: `As thawYear at ${r} m from a foundation pile (between piles), every pile of the group operating at its carried extraction; ${hy} with thawBeyondHorizon ≥ 1 means after ${hy}.`,
       source: FLS_SRC,
+      horizon: horizon([pilesAfter, bothAfter], [], []),
     },
     thawDelay: {
       title: 'Thaw delay',
@@ -163,8 +178,9 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'viridis',
       legendMin: 0,
       legendMax: 50,
-      description: 'Years of frozen ground the piles buy at the reference depth and radius.',
+      description: `Years of frozen ground the piles buy at the reference depth and radius (a lower bound where the thaw with piles falls after ${hy}; not determined where neither thaws before ${hy}).`,
       source: FLS_SRC,
+      horizon: horizon([], [pilesAfter], [bothAfter]),
     },
     frozenMargin: {
       title: 'Frozen-ground margin',
@@ -173,8 +189,9 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       ramp: 'viridis',
       legendMin: -20,
       legendMax: 100,
-      description: `Thaw year with piles minus the end of the design life (${life} yr).`,
+      description: `Thaw year with piles minus the end of the design life (${life} yr); a lower bound where the thaw falls after ${hy}.`,
       source: FLS_SRC,
+      horizon: horizon([], [pilesAfter, bothAfter], []),
     },
     extractionPerPile: {
       title: 'Sustainable extraction per pile',
@@ -348,6 +365,41 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       legendMax: 1,
       description: 'Texture and ice-content thaw stability score, 0 unstable to 1 stable.',
       source: 'suitability.ts (common practice)',
+    },
+    excessIce: {
+      title: 'Excess ice',
+      unit: 'm³/m³',
+      kind: 'continuous',
+      ramp: 'cividis',
+      legendMin: 0,
+      legendMax: 0.5,
+      description:
+        "Ice beyond the texture's pore space per volume of frozen ground, as water volume: e = (θ − n)/(1 − n) for water content θ above the porosity n, else 0. Its meltwater leaves a thaw strain of about e (settlement per metre of thawed ground).",
+      source:
+        'soil catalogue porosity at the texture default density (soil-catalogue.ts); input water + ice content',
+    },
+    zeroCurtain: {
+      title: 'Zero curtain at the end of life',
+      unit: '',
+      kind: 'class',
+      classes: [
+        { value: 0, label: 'no' },
+        {
+          value: 1,
+          label: 'yes: held at 0 °C while its ice melts',
+          description: `Conduction alone would warm the ground at pile depth above 0 °C within ${life} years, but its latent heat is not spent yet: the ground stays at its freezing point.`,
+        },
+      ],
+      description: `Where groundTempEnd is 0 °C because latent heat holds the ground at its freezing point (after ${life} years, without piles).`,
+      source: RAMP_SRC,
+    },
+    thawBeyondHorizon: {
+      title: 'Thaw beyond the climate horizon',
+      unit: '',
+      kind: 'class',
+      classes: classes(THAW_HORIZON_LABELS),
+      description: `Whether the thaw years fall after ${hy}, the scenario's climate horizon (thawYear, thawYearPiles, thawDelay and frozenMargin read "after ${hy}" or "≥" there).`,
+      source: 'scenario climateHorizonYear (climate-horizon.ts)',
     },
   };
   return IDS.map((id) => ({ id, ...L[id] }));

@@ -24,6 +24,7 @@ import {
   type CriterionDefinition,
 } from './suitability';
 import { BINDING_LABELS } from './operating-window';
+import { horizonText } from './climate-horizon';
 
 /** Build the per-cell model for a scenario (defaults filled in; throws TypeError naming bad fields). */
 export function createScreeningModel(scenario: unknown = {}): ScreeningModel & { scenario: Scenario } {
@@ -99,8 +100,11 @@ export interface CellScreening {
   permafrost: { today: string; endOfLife: string };
   bindingLimit: string;
   flags: { fuelIncrease: boolean; fluidLimitReached: boolean; overcoolingBinds: boolean; thawBinds: boolean };
-  /** Every layer's value with its unit (null = not applicable). */
-  metrics: Record<MetricId, { value: number | null; unit: string; title: string }>;
+  /**
+   * Every layer's value with its unit (null = not applicable). Thaw years and durations past the
+   * scenario's climate horizon also carry `qualifier` ("after 2100", "≥ 45 yr"; climate-horizon.ts).
+   */
+  metrics: Record<MetricId, { value: number | null; unit: string; title: string; qualifier?: string }>;
   criteria: CriterionResult[];
 }
 
@@ -118,8 +122,13 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
   // The same kernel as `evaluate`, in full (Float64) precision for the card.
   evaluateCellMetrics(inputs, buildCellConstants(s), createKernelScratch(), m);
   const layers = cellLayers(s);
+  const flag = m[METRIC.thawBeyondHorizon];
   const metrics = Object.fromEntries(
-    METRIC_IDS.map((id, i) => [id, { value: nul(m[i]), unit: layers[i].unit, title: layers[i].title }]),
+    METRIC_IDS.map((id, i) => {
+      const entry = { value: nul(m[i]), unit: layers[i].unit, title: layers[i].title };
+      const q = horizonText(layers[i].horizon, flag, `${+m[i].toPrecision(4)} ${layers[i].unit}`);
+      return [id, q === null ? entry : { ...entry, qualifier: q }];
+    }),
   ) as CellScreening['metrics'];
   const excl = m[METRIC.exclusion];
   const criteria = criteriaDefinitions(s).map((c): CriterionResult => {

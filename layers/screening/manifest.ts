@@ -32,6 +32,21 @@ export const bandSchema = z.object({
   description: z.string(),
   /** Published model or data the band comes from. */
   source: z.string(),
+  /**
+   * Thaw years and durations bounded by the scenario's climate horizon (climate-horizon.ts): the class
+   * band `flagBand` says per cell whether this band's value is the horizon year standing for a thaw
+   * "after <year>" (`after`), a lower bound (`atLeast`), or not determined within the horizon
+   * (`undetermined`, value nodata). Readers must show those cells as such, never as a plain number.
+   */
+  horizon: z
+    .object({
+      year: z.number().int(),
+      flagBand: z.string(),
+      after: z.array(z.number().int()),
+      atLeast: z.array(z.number().int()),
+      undetermined: z.array(z.number().int()),
+    })
+    .optional(),
 });
 
 /**

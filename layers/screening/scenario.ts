@@ -168,8 +168,13 @@ export const scenarioSchema = z
      * every pile of the group cools it.
      */
     referenceRadius_m: z.number().min(0.05).max(20).default(1.5),
-    /** Search horizon for thaw years, yr; thaw later than this is reported as the horizon. */
-    horizon_yr: z.number().min(10).max(1000).default(300),
+    /**
+     * Last year of the scenario's climate (its warming trend), calendar year: thaw later than this is
+     * reported as "after <year>" (the thaw-year bands hold the year itself and the thawBeyondHorizon
+     * flag says so), never as a year the linear trend would reach centuries on. 2100, the end of the
+     * century to which published climate projections commonly run (common practice).
+     */
+    climateHorizonYear: z.number().int().min(1950).max(2500).default(2100),
     /**
      * Largest allowed cooling of the ground at the reference radius at the end of the design life for
      * frost-susceptible soils (silt, clay, peat), K: more freezes unfrozen pockets and the active layer
@@ -208,6 +213,13 @@ export const scenarioSchema = z
         code: 'custom',
         path: ['building', 'pileSpacing_m'],
         message: `must be >= the pile diameter 2 × pile.radius_m (${2 * s.pile.radius_m}); received ${s.building.pileSpacing_m}`,
+      });
+    }
+    if (s.climateHorizonYear <= s.startYear) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['climateHorizonYear'],
+        message: `must be after startYear (${s.startYear}); received ${s.climateHorizonYear}`,
       });
     }
     if (s.referenceRadius_m <= s.pile.radius_m) {

@@ -52,6 +52,16 @@ export interface ScreeningLayer {
   classes?: { value: number; label: string; description?: string }[];
   description: string;
   source: string;
+  /** Climate-horizon qualifier of a thaw year or duration (manifest.ts bandSchema.horizon). */
+  horizon?: HorizonQualifier;
+}
+
+export interface HorizonQualifier {
+  year: number;
+  flagBand: string;
+  after: number[];
+  atLeast: number[];
+  undetermined: number[];
 }
 
 export interface ScreeningModel {

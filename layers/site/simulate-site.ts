@@ -6,7 +6,9 @@
  * far-field column of a pile-free (r, z) run). With the pile the (r, z) mesh of `buildSiteMesh` is
  * coupled to the pile loop (pile-loop.ts, site-operation.ts). Both start from the same initial state
  * (site-setup.ts) and use the same surface forcing (n-factored sinusoid plus linear warming,
- * surface-forcing.ts) and geothermal flux; the solver is conduction-solver.ts.
+ * surface-forcing.ts: the trend is added to the air before the n-factors act, the surface-warming
+ * transfer the per-cell model shares through surfaceMeanWarming_K) and geothermal flux; the solver is
+ * conduction-solver.ts.
  * Reporting: probes (bilinear between cell centres), the year each probe first reaches its freezing
  * point (interpolated within the step) and the delay the pile buys, the thaw depth on the far-field
  * column (permafrost table, see SiteCaseResult), monthly fluid temperatures and energy, the lowest fluid

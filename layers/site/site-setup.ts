@@ -153,7 +153,12 @@ export function buildMeshes(input: SiteInput, ground: SiteGround): SiteMeshes {
   return { pile, column };
 }
 
-/** Surface temperature function of the input's climate (with its warming trend), °C. */
+/**
+ * Surface temperature function of the input's climate (with its warming trend), °C. The surface-warming
+ * transfer shared with the per-cell model (surface-forcing.ts): the trend is added to the air, then the
+ * n-factors act (nFactorTransfer_C), so the surface mean warms by surfaceMeanWarming_K, about
+ * n_t·f_t + n_f·(1 − f_t) per K of air warming, not by the air trend itself.
+ */
 export function surfaceForcing(input: SiteInput, withTrend: boolean): (time_s: number) => number {
   const c = input.climate;
   const trend = withTrend ? { kind: 'linear' as const, rate_C_per_yr: c.warming_C_per_yr } : undefined;

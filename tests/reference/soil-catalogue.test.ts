@@ -182,11 +182,44 @@ describe('texture catalogue and resolver', () => {
   });
 });
 
+// Issue 11 item 7. Hand computations with the constituent constants of soil-constituents.ts (Johansen's
+// k_ice 2.2 and k_water 0.57 W/m·K, quartz 7.7 and other minerals 2.0 W/m·K; ρs 2650 kg/m³, c_s 840,
+// c_ice 2090 J/kg·K; L_f 333.6 kJ/kg). Gravel (coarse, quartz 0.6, ρd 1900 kg/m³): porosity
+// n = 1 − 1900/2650 = 0.283019. At θ = 0.5 the excess ice is e = (0.5 − n)/(1 − n) = 0.302632 and the
+// ground is the soil expanded by it: porosity 0.5, saturated, so Johansen's geometric mean gives
+// k_s = 7.7^0.6·2.0^0.4 = 4.49062, k_f = k_s^0.5·2.2^0.5 = 3.14315, k_t = k_s^0.5·0.57^0.5 = 1.59989,
+// C_f = 0.5·2650·840 + 0.5·1000·2090 = 2.1580e6 J/m³K, L = 1000·333.6e3·0.5 = 166.8e6 J/m³.
+describe('excess ice above the porosity (soil expanded by the ice; hand computations; tol 1e-5 rel)', () => {
+  const p = soilThermalProperties({ texture: 'gravel', waterContent_m3m3: 0.5 });
+  const ks = 7.7 ** 0.6 * 2.0 ** 0.4;
+  it('excess-ice fraction, latent heat of all the water, ice-rich heat capacity', () => {
+    expect(p.porosity).toBeCloseTo(1 - 1900 / 2650, 12);
+    expect(rel(p.excessIce_m3m3, (0.5 - (1 - 1900 / 2650)) / (1900 / 2650))).toBeLessThan(1e-9);
+    expect(rel(p.excessIce_m3m3, 0.302632)).toBeLessThan(1e-5);
+    expect(rel(p.latent_J_m3, 166.8e6)).toBeLessThan(1e-9);
+    expect(rel(p.cFrozen_J_m3K, 0.5 * 2650 * 840 + 0.5 * 1000 * 2090)).toBeLessThan(1e-5);
+  });
+  it('conductivity: Johansen saturated geometric mean with porosity raised to θ', () => {
+    expect(rel(p.kFrozen_W_mK, Math.sqrt(ks * 2.2))).toBeLessThan(1e-5);
+    expect(rel(p.kFrozen_W_mK, 3.14315)).toBeLessThan(1e-5);
+    expect(rel(p.kThawed_W_mK, 1.59989)).toBeLessThan(1e-5);
+  });
+  it('lies between the series and parallel bounds of saturated soil and segregated ice lenses', () => {
+    const sat = soilThermalProperties({ texture: 'gravel', waterContent_m3m3: 1 - 1900 / 2650 });
+    const e = p.excessIce_m3m3;
+    const series = 1 / ((1 - e) / sat.kFrozen_W_mK + e / 2.2);
+    const parallel = (1 - e) * sat.kFrozen_W_mK + e * 2.2;
+    expect(p.kFrozen_W_mK).toBeGreaterThanOrEqual(series);
+    expect(p.kFrozen_W_mK).toBeLessThanOrEqual(parallel);
+    expect(sat.excessIce_m3m3).toBe(0);
+  });
+});
+
 describe('bad input names the parameter and the range', () => {
-  it('water content above porosity', () => {
+  it('water content above the largest accepted (0.99; above the porosity is excess ice, issue 11 item 7)', () => {
     expect(() =>
-      soilThermalProperties({ texture: 'sand', waterContent_m3m3: 0.5, dryDensity_kg_m3: 1600 }),
-    ).toThrow(/waterContent_m3m3 must be in \[0, 0\.39/);
+      soilThermalProperties({ texture: 'sand', waterContent_m3m3: 0.995, dryDensity_kg_m3: 1600 }),
+    ).toThrow(/waterContent_m3m3 must be in \[0, 0\.99/);
   });
   it('negative porosity and water content', () => {
     const base = {

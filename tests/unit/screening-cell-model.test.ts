@@ -18,7 +18,7 @@ import { criterionSchema, bandSchema } from '../../layers/screening/manifest';
 import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
 import { degreeDays } from '../../layers/physics/surface-forcing';
 import { ttop_C } from '../../layers/physics/ttop';
-import { stefanDepth_m } from '../../layers/physics/stefan';
+import { neumannActiveLayer_m } from '../../layers/physics/neumann-active-layer';
 import type { CellInputs } from '../../layers/screening/screening-model';
 
 const base: CellInputs = {
@@ -77,7 +77,7 @@ describe('layers and manifest criteria', () => {
 });
 
 describe('the kernel reuses the science core (cross-checks against direct calls)', () => {
-  it('ground temperature = TTOP + geothermal gradient below the Stefan active layer', () => {
+  it('ground temperature = TTOP + geothermal gradient below the Neumann thaw-season active layer', () => {
     const m = metrics({});
     const p = soilThermalProperties({ texture: 'silt', waterContent_m3m3: 0.4 });
     const dd = degreeDays({ meanAirTemp_C: -6, amplitude_C: 18 });
@@ -89,9 +89,17 @@ describe('the kernel reuses the science core (cross-checks against direct calls)
       kThawed_W_mK: p.kThawed_W_mK,
       kFrozen_W_mK: p.kFrozen_W_mK,
     });
-    const alt = stefanDepth_m({
-      conductivity_W_mK: p.kThawed_W_mK,
-      index_Cd: dd.thawingIndex_Cd,
+    // Issue 11 item 4: the active layer carries the sensible heat of both zones (was Stefan, all pore
+    // water, no sensible heat: 7 % deeper here, up to 2.7× in rock).
+    const alt = neumannActiveLayer_m({
+      meanAirTemp_C: -6,
+      amplitude_C: 18,
+      nThaw: 1,
+      ttop_C: t,
+      kThawed_W_mK: p.kThawed_W_mK,
+      kFrozen_W_mK: p.kFrozen_W_mK,
+      cThawed_J_m3K: p.cThawed_J_m3K,
+      cFrozen_J_m3K: p.cFrozen_J_m3K,
       latent_J_m3: p.latent_J_m3,
     });
     const zp = s.pile.topDepth_m + s.pile.length_m / 2;
@@ -117,6 +125,36 @@ describe('the kernel reuses the science core (cross-checks against direct calls)
         expect(Math.abs(out.cFrozen / p.cFrozen_J_m3K - 1)).toBeLessThan(0.01);
       }
     });
+  });
+  it('excess ice (issue 11 item 7): above the porosity the table follows soilThermalProperties to 1 %, latent heat exact, never clamped', () => {
+    const k = buildCellConstants(DEFAULT_SCENARIO);
+    const out = createKernelScratch().soil;
+    const names = ['gravel', 'sand', 'silt', 'clay', 'peat', 'bedrock'] as const;
+    names.forEach((texture, i) => {
+      const t = k.soil[i + 1];
+      for (let j = 1; j < 20; j++) {
+        const th = t.thetaMax + ((0.99 - t.thetaMax) * j) / 20.3;
+        const p = soilThermalProperties({ texture, waterContent_m3m3: th });
+        soilAt(t, th, out);
+        expect(Math.abs(out.kFrozen / p.kFrozen_W_mK - 1)).toBeLessThan(0.01);
+        expect(Math.abs(out.kThawed / p.kThawed_W_mK - 1)).toBeLessThan(0.01);
+        expect(Math.abs(out.cFrozen / p.cFrozen_J_m3K - 1)).toBeLessThan(0.01);
+        expect(Math.abs(out.latent / p.latent_J_m3 - 1)).toBeLessThan(1e-9);
+      }
+    });
+    // Ice-rich silt at θ 0.7: porosity 1 − 1400/2650 = 0.47170 (catalogue densities), excess ice
+    // e = (0.7 − 0.47170)/(1 − 0.47170) = 0.43214 (hand); its latent heat is that of all 0.7 m³/m³.
+    const ice = metrics({ waterContent_m3m3: 0.7 });
+    expect(ice[METRIC.excessIce]).toBeCloseTo(0.43214, 4);
+    expect(metrics({ waterContent_m3m3: 0.4 })[METRIC.excessIce]).toBe(0);
+    // More ice to melt: the thaw without piles comes later than at the porosity (a warm cell whose
+    // saturated ground thaws before the climate horizon: 2085 here).
+    const warm = { meanAirTemp_C: -2, warming_C_per_yr: 0.08 };
+    const sat = metrics({ ...warm, waterContent_m3m3: 0.4717 });
+    expect(sat[METRIC.thawBeyondHorizon]).toBeLessThan(2);
+    expect(metrics({ ...warm, waterContent_m3m3: 0.7 })[METRIC.thawYear]).toBeGreaterThan(
+      sat[METRIC.thawYear],
+    );
   });
   it('winter anomaly: deep piles see none, a pile at the surface sees about half the surface wave', () => {
     expect(
@@ -179,8 +217,16 @@ describe('operating window and binding limit', () => {
         expect(share).toBeLessThanOrEqual(1);
         expect(m[METRIC.windowUpper]).toBeLessThanOrEqual(m[METRIC.windowUpperFluid] + 1e-9);
         expect(m[METRIC.windowUpper]).toBeLessThanOrEqual(m[METRIC.windowUpperOvercool] + 1e-9);
-        expect(m[METRIC.thawDelay]).toBeGreaterThanOrEqual(0);
-        expect(m[METRIC.thawYearPiles]).toBeGreaterThanOrEqual(m[METRIC.thawYear]);
+        // Issue 11 item 8: thaw years never past the climate horizon; the delay is undetermined (NaN)
+        // exactly when neither case thaws before it.
+        const flag = m[METRIC.thawBeyondHorizon];
+        if (Number.isFinite(flag)) {
+          expect(m[METRIC.thawYearPiles]).toBeLessThanOrEqual(DEFAULT_SCENARIO.climateHorizonYear);
+          expect(Number.isNaN(m[METRIC.thawDelay])).toBe(flag === 2);
+          if (flag !== 2) expect(m[METRIC.thawDelay]).toBeGreaterThanOrEqual(0);
+          if (flag >= 1) expect(m[METRIC.thawYearPiles]).toBe(DEFAULT_SCENARIO.climateHorizonYear);
+          expect(m[METRIC.thawYearPiles]).toBeGreaterThanOrEqual(m[METRIC.thawYear]);
+        }
         expect(m[METRIC.fuelIncrease]).toBe(m[METRIC.seasonalCop] < m[METRIC.breakEvenCopFuel] ? 1 : 0);
         const score = m[METRIC.suitabilityScore];
         expect(score).toBeGreaterThanOrEqual(0);
@@ -188,6 +234,52 @@ describe('operating window and binding limit', () => {
       }),
       { seed: 5, numRuns: 150 },
     );
+  });
+});
+
+describe('end-of-life ground temperature and thaw years agree (issue 11 item 8)', () => {
+  const life = DEFAULT_SCENARIO.designLife_yr;
+  const endYear = DEFAULT_SCENARIO.startYear + life;
+  it('default scenario: pile mid-depth = reference depth (6 m), so groundTempEnd > 0 exactly when the no-pile thaw year falls within the life; the zero curtain sits at 0 °C', () => {
+    expect(DEFAULT_SCENARIO.pile.topDepth_m + DEFAULT_SCENARIO.pile.length_m / 2).toBe(
+      DEFAULT_SCENARIO.referenceDepth_m,
+    );
+    let curtains = 0;
+    fc.assert(
+      fc.property(cellArb, (c) => {
+        const m = metrics(c);
+        if (!(m[METRIC.groundTemp] < 0)) return;
+        const end = m[METRIC.groundTempEnd];
+        const thawed = m[METRIC.thawYear] <= endYear && m[METRIC.thawBeyondHorizon] !== 2;
+        expect(end > 0).toBe(thawed);
+        if (m[METRIC.zeroCurtain] === 1) {
+          curtains++;
+          expect(end).toBe(0);
+          expect(m[METRIC.permafrostClassEnd]).toBe(1);
+        }
+      }),
+      { seed: 31, numRuns: 300 },
+    );
+    expect(curtains).toBeGreaterThan(0);
+  });
+  it('warm silt: the conduction ramp passes 0 °C within the life but the ice has not melted: 0 °C, zero curtain', () => {
+    const m = metrics({ meanAirTemp_C: -3, warming_C_per_yr: 0.08, waterContent_m3m3: 0.4717 });
+    expect(m[METRIC.groundTempEnd]).toBe(0);
+    expect(m[METRIC.zeroCurtain]).toBe(1);
+    expect(m[METRIC.thawYear]).toBeGreaterThan(endYear);
+  });
+  it('thaw years never pass the climate horizon; a later horizon reveals the capped years', () => {
+    const m = metrics({});
+    expect(m[METRIC.thawBeyondHorizon]).toBe(2);
+    expect(m[METRIC.thawYear]).toBe(2100);
+    expect(m[METRIC.thawYearPiles]).toBe(2100);
+    expect(m[METRIC.thawDelay]).toBeNaN();
+    expect(m[METRIC.frozenMargin]).toBe(2100 - endYear);
+    const later = metrics({}, parseScenario({ climateHorizonYear: 2400 }));
+    expect(later[METRIC.thawBeyondHorizon]).toBe(0);
+    expect(later[METRIC.thawYear]).toBeGreaterThan(2100);
+    expect(later[METRIC.thawYearPiles]).toBeLessThanOrEqual(2400);
+    expect(() => parseScenario({ climateHorizonYear: 2020 })).toThrow(/climateHorizonYear/);
   });
 });
 
@@ -226,6 +318,8 @@ describe('monotonicity (property tests over the demo ranges)', () => {
         const b = metrics(c, more);
         if (a[METRIC.exclusion] !== 0) return;
         expect(b[METRIC.extractionCarried]).toBeGreaterThanOrEqual(a[METRIC.extractionCarried] - 1e-9);
+        // Undetermined (NaN) when neither case thaws before the climate horizon (issue 11 item 8).
+        if (Number.isNaN(a[METRIC.thawDelay])) return;
         expect(b[METRIC.thawDelay]).toBeGreaterThanOrEqual(a[METRIC.thawDelay] - 0.02);
       }),
       { seed: 23, numRuns: 100 },

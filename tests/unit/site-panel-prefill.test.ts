@@ -10,7 +10,7 @@ import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { screenCell } from '../../layers/screening/cell-screening-model';
 import {
   cellInputsFromSite,
-  maxWaterContent_m3m3,
+  MAX_SITE_WATER_CONTENT_M3M3,
   sitePrefill,
   standardDesignLoad_W,
 } from '../../web/src/site/site-prefill';
@@ -41,14 +41,16 @@ describe('sitePrefill', () => {
     expect(notes).toEqual([]);
   });
 
-  it('caps water content at 95 % of the texture porosity so the soil catalogue accepts it', () => {
-    // Gravel at its catalogue dry density 1900 kg/m³ and solids 2650 kg/m³: porosity 0.283 (de Vries 1963 volume fractions).
-    const cap = maxWaterContent_m3m3('gravel');
-    expect(cap).toBeCloseTo(0.95 * (1 - 1900 / 2650), 10);
+  it('passes water above the porosity through as excess ice (issue 11 item 7), capping only at the site input limit', () => {
+    // Gravel at its catalogue dry density 1900 kg/m³ and solids 2650 kg/m³: porosity 0.283; 0.6 m³/m³ is
+    // ice-rich gravel (excess ice), no longer clipped to 95 % of the porosity.
     const { draft, notes } = sitePrefill({ ...cell, textureClass: 1, waterContent_m3m3: 0.6 });
-    expect(draft.ground.layers[0].soil?.waterContent_m3m3).toBeCloseTo(cap, 3);
-    expect(notes.some((n) => n.path === 'ground.layers.0.soil.waterContent_m3m3')).toBe(true);
+    expect(draft.ground.layers[0].soil?.waterContent_m3m3).toBe(0.6);
+    expect(notes.some((n) => n.path === 'ground.layers.0.soil.waterContent_m3m3')).toBe(false);
     expect(siteInputSchema.safeParse(draft).success).toBe(true);
+    const massive = sitePrefill({ ...cell, textureClass: 1, waterContent_m3m3: 0.98 });
+    expect(massive.draft.ground.layers[0].soil?.waterContent_m3m3).toBe(MAX_SITE_WATER_CONTENT_M3M3);
+    expect(massive.notes.some((n) => n.path === 'ground.layers.0.soil.waterContent_m3m3')).toBe(true);
   });
 
   it('makes the whole column bedrock for a bedrock cell or bedrock at the surface', () => {

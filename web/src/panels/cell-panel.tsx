@@ -3,6 +3,7 @@
  * button that puts it on the shortlist.
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
+import { horizonText } from '../../../layers/screening/climate-horizon';
 import type { CellTable } from '../data/cell-table';
 import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
 import { ScreeningCaution } from './caution-notes';
@@ -25,10 +26,32 @@ export function cellValues(table: CellTable, bands: Band[], index: number): Reco
   return out;
 }
 
-export function bandValueText(band: Band, v: number | null, units: UnitSystem): string {
+/**
+ * A band value as shown; `horizonFlag` is the cell's value of the band's horizon flag band
+ * (band.horizon.flagBand, climate-horizon.ts): thaw years past the scenario's climate horizon read
+ * "after <year>" and bounded durations "≥ value", never a plain number.
+ */
+export function bandValueText(
+  band: Band,
+  v: number | null,
+  units: UnitSystem,
+  horizonFlag?: number | null,
+): string {
+  if (band.kind !== 'class') {
+    const h = horizonText(band.horizon, horizonFlag, v === null ? '' : formatQuantity(v, band.unit, units));
+    if (h !== null) return h;
+  }
   if (v === null) return 'no data';
   if (band.kind === 'class') return band.classes?.find((c) => c.value === Math.round(v))?.label ?? String(v);
   return formatQuantity(v, band.unit, units);
+}
+
+/** The horizon flag of a cell for a band, from the cell's values by band id (undefined: none). */
+export function horizonFlagOf(
+  band: Band,
+  values: Record<string, number | null | undefined> | null | undefined,
+): number | null | undefined {
+  return band.horizon ? values?.[band.horizon.flagBand] : undefined;
 }
 
 export function CellPanel(props: {
@@ -63,7 +86,7 @@ export function CellPanel(props: {
               {manifest.bands.map((b) => (
                 <tr key={b.id}>
                   <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
-                  <td>{bandValueText(b, values?.[b.id] ?? null, units)}</td>
+                  <td>{bandValueText(b, values?.[b.id] ?? null, units, horizonFlagOf(b, values))}</td>
                 </tr>
               ))}
             </tbody>

@@ -4,6 +4,7 @@
  * the card lists the class bands of the cell with their plain explanations.
  */
 import type { Criterion, Manifest } from '../../../layers/screening/manifest';
+import { horizonText } from '../../../layers/screening/climate-horizon';
 import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 
 /** Whether `value comparison threshold` holds (the criterion passes); null when the value is nodata. */
@@ -40,6 +41,14 @@ export function ClassCard(props: {
   const show = (v: number, unit: string) => {
     const c = displayConversion(unit, units);
     return `${formatNumber(v * c.factor + c.offset)}${c.unit ? ` ${c.unit}` : ''}`;
+  };
+  // Thaw-based criteria past the climate horizon read "≥ value" / "after <year>" (climate-horizon.ts).
+  const valueText = (c: Criterion, v: number | null): string => {
+    const band = manifest.bands.find((b) => b.id === c.bandId);
+    const flag = band?.horizon ? values[band.horizon.flagBand] : undefined;
+    const h = horizonText(band?.horizon, flag, v === null ? '' : show(v, c.unit));
+    if (h !== null) return h;
+    return v === null ? 'no data' : show(v, c.unit);
   };
   return (
     <details className="class-card" open data-testid="class-card">
@@ -79,7 +88,7 @@ export function ClassCard(props: {
                       {c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`}
                     </div>
                   </th>
-                  <td>{v === null ? 'no data' : show(v, c.unit)}</td>
+                  <td>{valueText(c, v)}</td>
                   <td>
                     {c.comparison} {show(c.threshold, c.unit)}
                   </td>

@@ -26,12 +26,18 @@ export function HoverReadout(props: {
 }) {
   const { hover, table, band, bandIndex, units, manifest } = props;
   if (!hover) return null;
+  // The cell's value of a band's climate-horizon flag (thaw after <year>, climate-horizon.ts).
+  const flagOf = (b: Band): number | null | undefined => {
+    if (!b.horizon || !table || hover.index < 0) return undefined;
+    const i = manifest.bands.findIndex((x) => x.id === b.horizon?.flagBand);
+    return i < 0 ? undefined : table.planes[i][hover.index];
+  };
   let text: string;
   if (!table) text = 'loading cells…';
   else if (hover.index < 0) text = 'no data here';
   else {
     const v = table.planes[bandIndex][hover.index];
-    text = bandValueText(band, Number.isFinite(v) ? v : null, units);
+    text = bandValueText(band, Number.isFinite(v) ? v : null, units, flagOf(band));
   }
   return (
     <div className="readout" role="status" aria-live="off" data-testid="hover-readout">
@@ -48,6 +54,7 @@ export function HoverReadout(props: {
                   b,
                   Number.isFinite(table.planes[i][hover.index]) ? table.planes[i][hover.index] : null,
                   units,
+                  flagOf(b),
                 )}
               </div>
             ) : null,

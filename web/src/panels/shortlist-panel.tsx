@@ -14,7 +14,7 @@ import {
   type ShortlistSortKey,
 } from '../shortlist/shortlist-export';
 import { downloadFile } from '../download-file';
-import { bandValueText } from './cell-panel';
+import { bandValueText, horizonFlagOf } from './cell-panel';
 import { displayTitle, formatLonLat, formatNumber, type UnitSystem } from '../units/display-units';
 
 /** 'thawDelay_yr' -> 'thawDelay (yr)': metric keys carry their unit after the last underscore. */
@@ -108,7 +108,7 @@ export function ShortlistPanel(props: {
             <div className="muted small">
               {formatLonLat(it.lon, it.lat, 3)}
               {shownBand
-                ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units)}`
+                ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units, horizonFlagOf(shownBand, it.values))}`
                 : ''}
               {it.origin === 'site' ? ' · site study' : ''}
               {Object.entries(it.metrics)

@@ -12,6 +12,7 @@
 import { z } from 'zod';
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
+import { horizonText } from '../../../layers/screening/climate-horizon';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
 
 type PropertyValue = string | number | boolean | null | Record<string, unknown>;
@@ -72,6 +73,11 @@ export function exportProperties(
     if (band.kind === 'class') {
       const label = band.classes?.find((c) => c.value === v)?.label;
       p[`${band.id}_label`] = label ?? null;
+    }
+    if (band.horizon) {
+      // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
+      const value = typeof v === 'number' && Number.isFinite(v) ? `${+v.toPrecision(4)} ${band.unit}` : '';
+      p[`${band.id}_qualifier`] = horizonText(band.horizon, item.values[band.horizon.flagBand], value);
     }
   }
   for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;

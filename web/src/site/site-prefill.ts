@@ -9,8 +9,8 @@
  *   nFreeze                 -> climate.nFreeze            (else scenario.ground.nFreeze); nThaw from the scenario
  *   geothermalFlux_W_m2     -> ground.geothermalFlux_W_m2 (else scenario.ground.geothermalFlux_W_m2)
  *   textureClass, waterContent_m3m3 -> ground.layers[0] = { texture, water + ice content } from the surface
- *                              down to the bedrock (water content capped at 95 % of the texture's porosity
- *                              at its catalogue dry density, so the soil catalogue accepts it)
+ *                              down to the bedrock (water above the texture's porosity is excess ice, as
+ *                              on the map; capped only at the site input's 0.95 m³/m³, with a note)
  *   bedrockDepth_m          -> ground.layers[1] = bedrock (water 0.02) from that depth to the domain bottom;
  *                              a cell of bedrock texture, or bedrock within 0.2 m, is bedrock throughout
  * From the scenario (manifest.scenario, defaults of layers/screening/scenario.ts): the standard pile
@@ -20,7 +20,6 @@
  * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
  */
 import type { SiteInputDraft } from '../../../layers/site/site-input-schema';
-import { TEXTURE_CATALOGUE } from '../../../layers/physics/soil-catalogue';
 import { TEXTURE_CODES, type CellInputs, type TextureName } from '../../../layers/screening/screening-model';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../../layers/screening/scenario';
 
@@ -67,11 +66,11 @@ function finite(v: number | null | undefined): v is number {
 
 const round = (x: number, digits: number): number => Number(x.toFixed(digits));
 
-/** Largest water + ice content the soil catalogue accepts for a texture at its catalogue density. */
-export function maxWaterContent_m3m3(texture: TextureName): number {
-  const d = TEXTURE_CATALOGUE[texture];
-  return 0.95 * (1 - d.dryDensity_kg_m3 / d.solidsDensity_kg_m3);
-}
+/**
+ * Largest water + ice content the site input accepts (site-input-schema.ts, 0.95 m³/m³). Above the
+ * texture's porosity the soil catalogue carries the excess as excess ice, as the map does (issue 11).
+ */
+export const MAX_SITE_WATER_CONTENT_M3M3 = 0.95;
 
 /** Design heating load of the scenario's standard building at a site's climate, W. */
 export function standardDesignLoad_W(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
@@ -138,12 +137,12 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   if (texture === 'bedrock' || bedrock < 0.2) {
     layers = [bedrockLayer(0)];
   } else {
-    const cap = maxWaterContent_m3m3(texture);
+    const cap = MAX_SITE_WATER_CONTENT_M3M3;
     const water = round(Math.min(Math.max(rawWater, 0), cap), 3);
     if (water < rawWater - 1e-9) {
       notes.push({
         path: 'ground.layers.0.soil.waterContent_m3m3',
-        text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds what ${texture} holds at its typical density; capped at ${water}.`,
+        text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds the site input's largest water + ice content; capped at ${water}.`,
       });
     }
     const soilBottom = Math.min(round(bedrock, 1), DOMAIN_DEPTH_M);
