@@ -89,6 +89,9 @@ interface Row {
   thawNoPile: number | null;
   /** Thaw year with the pile at the first and second probe. */
   thawPile: (number | null)[];
+  /** Thaw delay at the first probe, yr, and whether it is a lower bound (pile case not thawed). */
+  delay: number | null;
+  delayLowerBound: boolean;
   probeNoPile: number[];
   probePile: number[];
   activeLayerFirst: number;
@@ -97,10 +100,14 @@ interface Row {
   cells: string;
 }
 
+/** First probe's temperature at t_yr, linear between the bracketing outputs (output times sit on steps). */
 function atTime(r: SiteResult['noPile'] | null, t_yr: number): number {
   if (!r) return NaN;
-  const i = r.time_yr.findIndex((t) => Math.abs(t - t_yr) < 1e-3);
-  return i < 0 ? NaN : r.probes[0].T_C[i];
+  const t = r.time_yr;
+  const i = t.findIndex((x) => x >= t_yr);
+  if (i <= 0) return i === 0 ? r.probes[0].T_C[0] : NaN;
+  const f = (t_yr - t[i - 1]) / (t[i] - t[i - 1]);
+  return r.probes[0].T_C[i - 1] + f * (r.probes[0].T_C[i] - r.probes[0].T_C[i - 1]);
 }
 
 function runOne(base: SiteInput, step_days: number, mesh: Mesh): Row {
@@ -114,6 +121,8 @@ function runOne(base: SiteInput, step_days: number, mesh: Mesh): Row {
     mesh,
     thawNoPile: r.noPile.probes[0].thawYear,
     thawPile: [0, 1].map((i) => (r.withPile ? r.withPile.probes[i].thawYear : null)),
+    delay: r.thawDelay_yr[0],
+    delayLowerBound: r.thawDelayIsLowerBound[0],
     probeNoPile: PROBE_TIMES_YR.map((t) => atTime(r.noPile, t)),
     probePile: PROBE_TIMES_YR.map((t) => atTime(r.withPile, t)),
     activeLayerFirst: a[0],
@@ -127,13 +136,13 @@ const fmt = (x: number | null, d = 3): string => (x === null || !Number.isFinite
 
 function table(rows: Row[]): string {
   const head =
-    '| step (d) | mesh | cells | thaw yr, no pile | thaw yr, pile (probe 1) | thaw yr, pile (probe 2) | ' +
+    '| step (d) | mesh | cells | thaw yr, no pile | thaw yr, pile (probe 1) | thaw yr, pile (probe 2) | delay, probe 1 (yr) | ' +
     PROBE_TIMES_YR.map((t) => `T(${t} yr) no pile °C | T(${t} yr) pile °C`).join(' | ') +
     ' | active layer yr 1 (m) | active layer last yr (m) | CPU (s) |';
   const sep = '|' + ' --- |'.repeat(head.split('|').length - 2);
   const body = rows.map(
     (r) =>
-      `| ${r.step_days} | ${r.mesh} | ${r.cells} | ${fmt(r.thawNoPile)} | ${fmt(r.thawPile[0])} | ${fmt(r.thawPile[1])} | ` +
+      `| ${r.step_days} | ${r.mesh} | ${r.cells} | ${fmt(r.thawNoPile)} | ${fmt(r.thawPile[0])} | ${fmt(r.thawPile[1])} | ${r.delayLowerBound ? '≥ ' : ''}${fmt(r.delay, 2)} | ` +
       PROBE_TIMES_YR.map((_, i) => `${fmt(r.probeNoPile[i])} | ${fmt(r.probePile[i])}`).join(' | ') +
       ` | ${fmt(r.activeLayerFirst)} | ${fmt(r.activeLayerLast)} | ${r.cpu_s.toFixed(1)} |`,
   );
@@ -197,7 +206,9 @@ function study(name: string, base: SiteInput): void {
     const best = extrapolated(series);
     const d = def ? get(def) : null;
     const err = best !== null && d !== null ? (d - best).toFixed(3) : 'n/a';
-    console.log(`- ${q}: ${richardson(series)}; default (${DEFAULT_STEP} d, standard) ${fmt(d)}, error ${err}`);
+    console.log(
+      `- ${q}: ${richardson(series)}; default (${DEFAULT_STEP} d, standard) ${fmt(d)}, error ${err}`,
+    );
   }
   console.log('\nMesh (coarse, standard, fine, fine+; nominal r = 2 in the first vertical cell):\n');
   for (const step of meshSteps) {
@@ -209,7 +220,10 @@ function study(name: string, base: SiteInput): void {
 }
 
 console.log(`# simulateSite convergence study${quick ? ' (quick)' : ''}`);
-study('Demo site (examples/site-demo.json); probe 1 at r = 0.5 m, z = 2 m; probe 2 at r = 1.5 m, z = 2 m', demo);
+study(
+  'Demo site (examples/site-demo.json); probe 1 at r = 0.5 m, z = 2 m; probe 2 at r = 1.5 m, z = 2 m',
+  demo,
+);
 study(
   'Thin active layer (peat 0.3 m over ice-rich silt, −7.5 °C, +0.12 K/yr); probe 1 at r = 1.5 m, z = 0.75 m; probe 2 at r = 0.5 m, z = 0.75 m',
   thin,
