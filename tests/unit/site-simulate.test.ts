@@ -18,7 +18,12 @@ function shortRun(mutate: (d: typeof example) => void = () => {}) {
 }
 
 describe('simulateSite', () => {
-  const r = shortRun((d) => (d.operation = { mode: 'heatRate', extraction_W: 250 }));
+  // 250 W for 3 years takes the fluid to about −14 °C: 40 % propylene glycol (freezing point about
+  // −21 °C, fluids.ts table) keeps it liquid (30 % would freeze and the run would refuse).
+  const r = shortRun((d) => {
+    d.operation = { mode: 'heatRate', extraction_W: 250 };
+    d.pile.fluid.massFraction = 0.4;
+  });
 
   it('returns consistent shapes', () => {
     const wp = r.withPile!;
