@@ -69,9 +69,13 @@ export async function run(): Promise<void> {
     if (r.outcome !== 'ok' && ex.length < 3) ex.push({ message: r.message, draft });
     examples.set(r.outcome, ex);
   }
-  console.log(`seed ${seed}, ${years}-year coarse runs: ${valid} schema-valid (${schemaRefused} drafts refused by the schema)`);
+  console.log(
+    `seed ${seed}, ${years}-year coarse runs: ${valid} schema-valid (${schemaRefused} drafts refused by the schema)`,
+  );
   for (const [k, v] of counts) console.log(`  ${k}: ${v}`);
-  console.log(`  time: ${total.toFixed(1)} s in all, ${(total / Math.max(1, valid)).toFixed(3)} s a run, slowest ${slowest.toFixed(2)} s`);
+  console.log(
+    `  time: ${total.toFixed(1)} s in all, ${(total / Math.max(1, valid)).toFixed(3)} s a run, slowest ${slowest.toFixed(2)} s`,
+  );
   for (const [k, ex] of examples) {
     for (const e of ex) {
       console.log(`\n[${k}] ${e.message.slice(0, 400)}`);
