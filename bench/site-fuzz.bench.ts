@@ -15,7 +15,8 @@ export type FuzzOutcome =
   | 'ok'
   | 'fluid freezes or boils (refused, names pile.fluid)'
   | 'unconverged coupling'
-  | 'maximum principle'
+  | 'maximum principle, no-pile column'
+  | 'maximum principle, pile case only'
   | 'below absolute zero'
   | 'diverged (non-finite)'
   | 'rejected by the simulator';
@@ -36,7 +37,10 @@ export function classifySiteRun(draft: unknown): { outcome: FuzzOutcome; message
         : /absolute zero/.test(message)
           ? 'below absolute zero'
           : /maximum principle/.test(message)
-            ? 'maximum principle'
+            ? // The no-pile case is the ground alone (no loop): a violation there is the ground scheme's.
+              /no-pile ground reaches/.test(message)
+              ? 'maximum principle, no-pile column'
+              : 'maximum principle, pile case only'
             : 'unconverged coupling';
     } else outcome = 'rejected by the simulator';
   }

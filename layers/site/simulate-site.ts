@@ -41,7 +41,14 @@ import {
   type ProbeStencil,
 } from './site-probes';
 import type { SiteCaseResult, SiteFluidResult, SiteResult } from './site-result';
-import { buildMeshes, initialState, resolveGround, rowMaterials, surfaceForcing } from './site-setup';
+import {
+  buildMeshes,
+  initialState,
+  resolveGround,
+  rowMaterials,
+  surfaceForcing,
+  type InitialState,
+} from './site-setup';
 
 export interface SimulateSiteOptions {
   onProgress?(fraction: number): void;
@@ -211,7 +218,7 @@ export function simulateSite(
     record(run, 0);
   }
   nextOutput = outputEvery;
-  const extremes = startExtremes(cases, init.rowT_C);
+  const extremes = startExtremes(cases, init);
   const fields = cases.map((run) => run.solver.T);
 
   let lastProgress = -1;
@@ -398,10 +405,16 @@ export function simulateSite(
   return result;
 }
 
-/** The extremes tracker of a run, with the initial field and every case's field at t = 0 observed. */
-function startExtremes(cases: readonly CaseRun[], initialRowT_C: ArrayLike<number>): ExtremesTracker {
+/**
+ * The extremes tracker of a run: the starting profile as the initial value (before any spin-up), the
+ * spin-up's surface values as boundary values and its fields as the no-pile case's (so that an overshoot
+ * in the spin-up is caught rather than widening the bound), and every case's field at t = 0.
+ */
+function startExtremes(cases: readonly CaseRun[], init: InitialState): ExtremesTracker {
   const extremes = createExtremesTracker(cases.length);
-  extremes.observeInitial(initialRowT_C);
+  extremes.observeInitial(init.startRange_C);
+  for (const v of init.spinUpSurfaceRange_C) if (Number.isFinite(v)) extremes.observeSurface(v, 0);
+  extremes.observeGround(0, init.spinUpFieldRange_C, 0);
   cases.forEach((run, k) => extremes.observeGround(k, run.solver.T, 0));
   return extremes;
 }
