@@ -22,6 +22,7 @@ export const HeatPumpCurveSchema = z
     capacityRatio: z.array(z.number().finite().gt(0).max(5)).min(2),
     minEnteringFluid_C: z.number().finite().min(-30).max(20),
   })
+  .strict()
   .refine(
     (c) => c.cop.length === c.enteringFluid_C.length && c.capacityRatio.length === c.enteringFluid_C.length,
     {

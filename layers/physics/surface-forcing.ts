@@ -38,7 +38,8 @@ export function degreeDays(input: { meanAirTemp_C: number; amplitude_C: number }
   if (mean <= -amp) return { freezingIndex_Cd: -P * mean, thawingIndex_Cd: 0 };
   const r = mean / amp;
   const s = Math.asin(r);
-  const thaw = (P / (2 * Math.PI)) * (mean * (Math.PI + 2 * s) + 2 * amp * Math.sqrt(1 - r * r));
+  // Clipped at 0: for mean ≈ −amp the two terms cancel and round-off can leave −1e-13 C·day.
+  const thaw = Math.max(0, (P / (2 * Math.PI)) * (mean * (Math.PI + 2 * s) + 2 * amp * Math.sqrt(1 - r * r)));
   return { freezingIndex_Cd: Math.max(0, thaw - P * mean), thawingIndex_Cd: thaw };
 }
 

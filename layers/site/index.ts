@@ -4,3 +4,4 @@ export * from './site-result';
 export * from './simulate-site';
 export * from './pile-sizing';
 export * from './sizing-layout';
+export * from './site-bounds';

@@ -12,17 +12,32 @@
  * The steady fluid energy balance along depth (thermal mass of the fluid neglected: its transit time is
  * minutes, the time step days),
  *   ṁc dT_d/dz = g_cd (T_cell − T_d) + g_12' (T_u − T_d),   −ṁc dT_u/dz = g_cu (T_cell − T_u) + g_12' (T_d − T_u),
- * is integrated over each row with the trapezoidal rule, with T_d = T_u at the bottom. All temperatures
- * are affine in (T_in, T_out), so one march gives the bottom condition and the extracted heat as affine
- * forms; the operating command then fixes T_in and T_out (given inlet; given extraction; given outlet;
- * or pump off, no exchange) and a second march gives each row's channel temperatures. Summing the two
- * channel equations shows ṁc (T_out − T_in) = extracted heat exactly (discrete energy balance).
+ * is integrated over each row with the trapezoidal rule, with T_d = T_u at the bottom. The two-point
+ * boundary problem is solved by the double sweep (Godunov's sweep, the continuous form of the Thomas
+ * algorithm; e.g. Keller 1968, Numerical Methods for Two-Point Boundary-Value Problems, ch. 3, recalled
+ * from memory): a sweep from the bottom up carries the relation u = α d + β at each face (α = 1, β = 0
+ * at the bottom; α depends on the conductances only, β is linear in the cell temperatures), which gives
+ * T_out = α₀ T_in + β₀ at the top; the operating command then fixes T_in and T_out (given inlet; given
+ * extraction ṁc (T_out − T_in); given outlet; or pump off, no exchange) and a sweep down gives each
+ * face's channel temperatures. The sweep coefficients stay bounded (|α| ≤ 1, denominators ≥ (ṁc)²) for
+ * any number of transfer units, where marching affine forms from the top (the previous method) grows
+ * like exp(NTU) and overflowed for long piles at low flow. Summing the two channel equations shows
+ * ṁc (T_out − T_in) = extracted heat exactly (discrete energy balance).
+ * Heat-pump command: the heat pump draws `extraction_W` unless that would take its entering fluid (the
+ * loop outlet) below `minOutlet_C`; then it draws the largest extraction that holds the outlet there,
+ * E_lim = ṁc (1 − α₀)(T_eq − minOutlet)/α₀ with T_eq = β₀/(1 − α₀) the outlet at zero extraction (the
+ * outlet falls with E); never less than zero (a heat pump in heating does not inject heat). Whether it
+ * runs at all is decided once per step, at its first evaluation: off when the limit allows no extraction
+ * (the ground is at or below the lowest entering temperature: the building is served by the backup
+ * heater for that step). Within the step the extraction min(E, E_lim), clipped at 0, is a continuous,
+ * piecewise affine function of the cell temperatures with fixed conductances, so the coupling iteration
+ * converges; without the latch the pump switched on and off between sweeps and never converged.
  * The ground sees, per row, conductance Δz (g_cd + g_cu) to the weighted channel temperature.
- * For a fixed command these boundary temperatures are affine in the cell temperatures; `linearResponse`
- * returns their linear part (the same marches with the command's value set to zero), which the solver
- * uses to couple the loop without extra linear solves.
- * Validity: ṁc large enough that the counter-flow march is well conditioned (turbulent or transitional
- * flow in practice; NTU per row ≪ 10).
+ * For a fixed command (branch) these boundary temperatures are affine in the cell temperatures;
+ * `linearResponse` returns their linear part (the same sweeps with the command's value set to zero),
+ * which the solver uses to couple the loop without extra linear solves.
+ * Validity: steady fluid (transit time ≪ step); trapezoidal rows resolve the exchange when the NTU per
+ * row is below about 2 (beyond it the row profile oscillates, bounded, about the exact one).
  */
 import type { InnerBoundary } from './conduction-solver';
 
@@ -30,7 +45,8 @@ export type LoopCommand =
   | { kind: 'off' }
   | { kind: 'inlet'; inlet_C: number }
   | { kind: 'outlet'; outlet_C: number }
-  | { kind: 'extraction'; extraction_W: number };
+  | { kind: 'extraction'; extraction_W: number }
+  | { kind: 'heatPump'; extraction_W: number; minOutlet_C: number };
 
 export interface PileLoopSpec {
   /** Length of each pile row, m (the first rows of the mesh). */
@@ -57,6 +73,8 @@ export interface PileLoop extends InnerBoundary {
   outlet_C: number;
   extraction_W: number;
   running: boolean;
+  /** Heat-pump command: whether the latest evaluation held the outlet at its lower limit. */
+  atLimit: boolean;
   linearResponse(dInnerT_C: Float64Array, out: Float64Array): void;
 }
 
@@ -71,17 +89,17 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
   const g12 = new Float64Array(rows);
   const Tc = new Float64Array(rows);
   let time = 0;
-  // Affine coefficient vectors [const, Tin, Tout] for the two channels during the march.
-  const d = new Float64Array(3);
-  const u = new Float64Array(3);
-  const dn = new Float64Array(3);
-  const un = new Float64Array(3);
-  const ext = new Float64Array(3);
+  // Sweep coefficients at each face (u = α d + β), the per-row pivots and the face temperatures.
+  const alpha = new Float64Array(rows + 1);
+  const beta = new Float64Array(rows + 1);
+  const pivot = new Float64Array(rows);
   const Tb = new Float64Array(rows);
   let src: Float64Array = Tc;
-  let lastKind: LoopCommand['kind'] = 'off';
+  let lastKind: 'off' | 'inlet' | 'outlet' | 'extraction' = 'off';
   let evalIn = NaN;
   let evalOut = NaN;
+  // Heat-pump latch: the step's on/off decision (null until the step's first evaluation).
+  let stepOn: boolean | null = null;
 
   const loop: PileLoop = {
     rows,
@@ -92,8 +110,10 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
     outlet_C: NaN,
     extraction_W: 0,
     running: false,
+    atLimit: false,
     beginStep(time_s: number) {
       time = time_s;
+      stepOn = null;
     },
     endStep() {},
     update(innerT: Float64Array, halfCell: Float64Array): number {
@@ -107,8 +127,27 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
         Tc[j] = innerT[j];
       }
       const cmd = spec.command(time, Number.isFinite(loop.outlet_C) ? loop.outlet_C : innerT[0]);
+      let kind: 'off' | 'inlet' | 'outlet' | 'extraction' = cmd.kind === 'heatPump' ? 'extraction' : cmd.kind;
+      let value = 0;
+      loop.atLimit = false;
+      if (cmd.kind !== 'off') {
+        src = Tc;
+        sweepUp();
+        if (cmd.kind === 'heatPump') {
+          const lim = extractionLimit(cmd.minOutlet_C);
+          if (stepOn === null) stepOn = cmd.extraction_W > 0 && lim > 0;
+          if (!stepOn) kind = 'off';
+          else if (cmd.extraction_W > lim) {
+            kind = lim > 0 ? 'outlet' : 'extraction';
+            value = lim > 0 ? cmd.minOutlet_C : 0;
+            loop.atLimit = lim > 0;
+          } else value = cmd.extraction_W;
+        } else
+          value =
+            cmd.kind === 'inlet' ? cmd.inlet_C : cmd.kind === 'outlet' ? cmd.outlet_C : cmd.extraction_W;
+      }
       let change = 0;
-      if (cmd.kind === 'off') {
+      if (kind === 'off') {
         loop.running = false;
         loop.extraction_W = 0;
         lastKind = 'off';
@@ -120,11 +159,8 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
         return change;
       }
       loop.running = true;
-      lastKind = cmd.kind;
-      const value =
-        cmd.kind === 'inlet' ? cmd.inlet_C : cmd.kind === 'outlet' ? cmd.outlet_C : cmd.extraction_W;
-      src = Tc;
-      evaluate(cmd.kind, value, Tb);
+      lastKind = kind;
+      evaluate(kind, value, Tb);
       for (let j = 0; j < rows; j++) {
         change = Math.max(change, Math.abs(Tb[j] - loop.T_C[j]));
         loop.T_C[j] = Tb[j];
@@ -141,92 +177,85 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
         return;
       }
       // The map from cell temperatures to boundary temperatures is affine for a fixed command: its
-      // linear part is the same march with the command's value set to zero.
+      // linear part is the same sweeps with the command's value set to zero.
       src = dInnerT;
+      sweepUp();
       evaluate(lastKind, 0, out);
       src = Tc;
     },
   };
 
+  /** Sweep from the bottom up: u = α d + β at every face for the cell temperatures in `src`. */
+  function sweepUp(): void {
+    alpha[rows] = 1;
+    beta[rows] = 0;
+    for (let j = rows - 1; j >= 0; j--) {
+      // Half-row conductances (channel to cell, channel to channel), W/K.
+      const a1 = 0.5 * dz[j] * gc1[j];
+      const a2 = 0.5 * dz[j] * gc2[j];
+      const b = 0.5 * dz[j] * g12[j];
+      const tc = src[j];
+      const ap = alpha[j + 1];
+      const bp = beta[j + 1];
+      const m22 = a2 + b - mc;
+      const P = mc + a1 + b - b * ap;
+      const Q = -b + m22 * ap;
+      const D = Q * b + P * (mc + a2 + b);
+      alpha[j] = (P * b - Q * (mc - a1 - b)) / D;
+      beta[j] = (P * (2 * a2 * tc - m22 * bp) - Q * (2 * a1 * tc + b * bp)) / D;
+      pivot[j] = P;
+    }
+  }
+
   /**
-   * Fluid temperatures for the ground temperatures in `src` and the command (kind, value): first march
-   * with affine forms, closure by the command, second march with numbers; writes each row's weighted
-   * channel temperature (the ground's boundary value; the cell's own value where g = 0) into `out` and
-   * the inlet and outlet temperatures into evalIn / evalOut.
+   * Largest extraction that keeps the outlet at or above `minOutlet_C` (W; +Infinity if the outlet does
+   * not fall with the extraction), from the sweep coefficients of the current cell temperatures.
+   */
+  function extractionLimit(minOutlet_C: number): number {
+    const a0 = alpha[0];
+    const b0 = beta[0];
+    if (!(1 - a0 > 1e-12)) return 0; // no exchange: the loop cannot extract
+    const equilibrium = b0 / (1 - a0);
+    if (!(a0 > 1e-12)) return equilibrium >= minOutlet_C ? Infinity : -Infinity;
+    return (mc * (1 - a0) * (equilibrium - minOutlet_C)) / a0;
+  }
+
+  /**
+   * Fluid temperatures for the ground temperatures in `src` (after `sweepUp`) and the command (kind,
+   * value): closure at the top, then the sweep down; writes each row's weighted channel temperature
+   * (the ground's boundary value; the cell's own value where g = 0) into `out` and the inlet and outlet
+   * temperatures into evalIn / evalOut.
    */
   function evaluate(kind: 'inlet' | 'outlet' | 'extraction', value: number, out: Float64Array): void {
-    d.fill(0);
-    u.fill(0);
-    ext.fill(0);
-    d[1] = 1;
-    u[2] = 1;
-    for (let j = 0; j < rows; j++) marchRow(j, 3);
-    // Bottom: d - u = 0 (coefficients b), extraction = ext.
-    const b0 = d[0] - u[0];
-    const b1 = d[1] - u[1];
-    const b2 = d[2] - u[2];
+    const a0 = alpha[0];
+    const b0 = beta[0];
     let Tin: number;
     let Tout: number;
     if (kind === 'inlet') {
       Tin = value;
-      Tout = -(b0 + b1 * Tin) / b2;
+      Tout = a0 * Tin + b0;
     } else if (kind === 'outlet') {
       Tout = value;
-      Tin = -(b0 + b2 * Tout) / b1;
+      Tin = (Tout - b0) / a0;
     } else {
-      // b0 + b1 Tin + b2 Tout = 0;  ext0 + ext1 Tin + ext2 Tout = E
-      const E = value;
-      const det = b1 * ext[2] - b2 * ext[1];
-      Tin = (-b0 * ext[2] - b2 * (E - ext[0])) / det;
-      Tout = (b1 * (E - ext[0]) + b0 * ext[1]) / det;
+      // value = ṁc (T_out − T_in) with T_out = α₀ T_in + β₀.
+      Tin = 1 - a0 > 1e-12 ? (b0 - value / mc) / (1 - a0) : src[0];
+      Tout = a0 * Tin + b0;
     }
-    // Second march with numbers: the channel means per row give the ground's boundary values.
-    d[0] = Tin;
-    u[0] = Tout;
-    ext[0] = 0;
+    let d = Tin;
+    let u = Tout;
     for (let j = 0; j < rows; j++) {
-      const meanD = marchRow(j, 1);
-      const meanU = 0.5 * (u[0] + un[0]);
-      d[0] = dn[0];
-      u[0] = un[0];
+      const a1 = 0.5 * dz[j] * gc1[j];
+      const b = 0.5 * dz[j] * g12[j];
+      const dn = ((mc - a1 - b) * d + b * u + 2 * a1 * src[j] + b * beta[j + 1]) / pivot[j];
+      const un = alpha[j + 1] * dn + beta[j + 1];
       const g = gc1[j] + gc2[j];
-      out[j] = g > 0 ? (gc1[j] * meanD + gc2[j] * meanU) / g : src[j];
+      out[j] = g > 0 ? (gc1[j] * 0.5 * (d + dn) + gc2[j] * 0.5 * (u + un)) / g : src[j];
+      d = dn;
+      u = un;
     }
     evalIn = Tin;
     evalOut = Tout;
-  }
-
-  /**
-   * Advances both channels over row j (trapezoidal rule) for the first `comps` affine components;
-   * with comps === 3 updates d, u and ext in place; with comps === 1 writes dn/un and returns the down
-   * channel's row mean.
-   */
-  function marchRow(j: number, comps: number): number {
-    const a1 = 0.5 * dz[j] * gc1[j];
-    const a2 = 0.5 * dz[j] * gc2[j];
-    const b = 0.5 * dz[j] * g12[j];
-    const m11 = mc + a1 + b;
-    const m12 = -b;
-    const m21 = -b;
-    const m22 = a2 + b - mc;
-    const det = m11 * m22 - m12 * m21;
-    for (let k = 0; k < comps; k++) {
-      const tc = k === 0 ? src[j] : 0;
-      const r1 = (mc - a1 - b) * d[k] + b * u[k] + 2 * a1 * tc;
-      const r2 = b * d[k] - (mc + a2 + b) * u[k] + 2 * a2 * tc;
-      const dNew = (r1 * m22 - m12 * r2) / det;
-      const uNew = (m11 * r2 - m21 * r1) / det;
-      if (comps === 3) {
-        // extraction over the row: Δz [g_cd (Tc − mean d) + g_cu (Tc − mean u)]
-        ext[k] += 2 * a1 * (tc - 0.5 * (d[k] + dNew)) + 2 * a2 * (tc - 0.5 * (u[k] + uNew));
-        d[k] = dNew;
-        u[k] = uNew;
-      } else {
-        dn[k] = dNew;
-        un[k] = uNew;
-      }
-    }
-    return comps === 1 ? 0.5 * (d[0] + dn[0]) : 0;
   }
 
   return loop;

@@ -18,7 +18,6 @@
  * Pure: no I/O; `onProgress` and `shouldCancel` let a Web Worker or the CLI report and stop.
  */
 import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../cautions';
-import { requireFluidAbove } from '../physics/fluids';
 import { SECONDS_PER_DAY, SECONDS_PER_YEAR, surfaceTemperature_C } from '../physics/surface-forcing';
 import { createConductionSolver, energyBalance, type ConductionSolver } from './conduction-solver';
 import { liquidFractionAt } from './ground-enthalpy';
@@ -28,6 +27,13 @@ import {
   type SiteInput,
   type SiteInputDraft,
 } from './site-input-schema';
+import {
+  checkPhysicalBounds,
+  createExtremesTracker,
+  fluxRise_K,
+  observeSiteStep,
+  type ExtremesTracker,
+} from './site-bounds';
 import { rowsAbove } from './site-mesh';
 import { createSiteLoop, type SiteLoop } from './site-operation';
 import {
@@ -38,7 +44,14 @@ import {
   type ProbeStencil,
 } from './site-probes';
 import type { SiteCaseResult, SiteFluidResult, SiteResult } from './site-result';
-import { buildMeshes, initialState, resolveGround, rowMaterials, surfaceForcing } from './site-setup';
+import {
+  buildMeshes,
+  initialState,
+  resolveGround,
+  rowMaterials,
+  surfaceForcing,
+  type InitialState,
+} from './site-setup';
 
 export interface SimulateSiteOptions {
   onProgress?(fraction: number): void;
@@ -209,6 +222,8 @@ export function simulateSite(
     record(run, 0);
   }
   nextOutput = outputEvery;
+  const extremes = startExtremes(cases, init);
+  const fields = cases.map((run) => run.solver.T);
 
   let lastProgress = -1;
   for (let s = 1; s <= steps; s++) {
@@ -229,6 +244,7 @@ export function simulateSite(
         run.lastProbeT[i] = m;
       });
     }
+    observeSiteStep(extremes, fields, siteLoop ? siteLoop.loop : null, surface(t), t / year);
     if (siteLoop) {
       const loop = siteLoop.loop;
       const m = Math.min(months - 1, Math.floor((t - dt / 2) / (year / 12)));
@@ -314,9 +330,6 @@ export function simulateSite(
       p.thawYear = tt === null ? null : round4(tt / year);
     });
     worst = Math.max(worst, eb.relativeError);
-    if (run.solver.unconverged > 0) {
-      warnings.push(`${run.solver.unconverged} time steps stopped at the linear-solver sweep limit`);
-    }
   }
   if (worst > 0.005) {
     warnings.push(
@@ -371,22 +384,9 @@ export function simulateSite(
       Ra_mK_W: round4(siteLoop.Ra_mK_W),
       flow_L_min: siteLoop.flow_L_min,
     };
-    if (Number.isFinite(lowest)) {
-      const f = input.pile.fluid;
-      try {
-        requireFluidAbove({
-          fluid: f.name,
-          massFraction: f.name === 'water' ? 0 : f.massFraction,
-          lowestTemperature_C: lowest,
-          margin_K: 0,
-        });
-      } catch (e) {
-        warnings.push(`pile.fluid: ${(e as Error).message}`);
-      }
-    }
   }
 
-  return {
+  const result: SiteResult = {
     noPile,
     withPile,
     thawDelay_yr,
@@ -405,4 +405,24 @@ export function simulateSite(
     warnings,
     cautions: [SCREENING_CAUTION, ...GROUND_CAUTIONS],
   };
+  checkPhysicalBounds(result, {
+    fluid: input.pile ? input.pile.fluid : null,
+    extremes,
+    fluxRise_K: fluxRise_K(q, ground.bottoms_m, ground.layers),
+  });
+  return result;
+}
+
+/**
+ * The extremes tracker of a run: the starting profile as the initial value (before any spin-up), the
+ * spin-up's surface values as boundary values and its fields as the no-pile case's (so that an overshoot
+ * in the spin-up is caught rather than widening the bound), and every case's field at t = 0.
+ */
+function startExtremes(cases: readonly CaseRun[], init: InitialState): ExtremesTracker {
+  const extremes = createExtremesTracker(cases.length);
+  extremes.observeInitial(init.startRange_C);
+  for (const v of init.spinUpSurfaceRange_C) if (Number.isFinite(v)) extremes.observeSurface(v, 0);
+  extremes.observeGround(0, init.spinUpFieldRange_C, 0);
+  cases.forEach((run, k) => extremes.observeGround(k, run.solver.T, 0));
+  return extremes;
 }

@@ -4,11 +4,22 @@
  * Every numeric field carries `.meta({ title, unit, min, max, description })` so a form can render its
  * label, unit and limits (read them with `fieldMeta(schema)` or zod's `globalRegistry`). Cross-field
  * checks (layer gaps and overlaps, probes outside the domain, a pile longer than the domain, a mesh
- * or step that cannot resolve the pile) are reported as issues with the field path.
+ * or step that cannot resolve the pile) are reported as issues with the field path, and so is every rule
+ * the simulator's physics enforces (site-input-rules.ts: soil porosity and water content, pipes that fit
+ * the casing, fluid above its freezing point at the given inlet or heat-pump limit, plausible surface
+ * temperatures and geothermal rise), so that every input the schema accepts runs.
  * Defaults are listed with their provenance in `SITE_DEFAULTS`.
  */
 import { z } from 'zod';
-import { HeatPumpCurveSchema } from '../physics/heat-pump';
+import { DEFAULT_HEAT_PUMP_CURVE, HeatPumpCurveSchema } from '../physics/heat-pump';
+import {
+  climateRules,
+  fluidRules,
+  groundRules,
+  LAYER_PROPERTY_LIMITS,
+  pileRules,
+  soilRules,
+} from './site-input-rules';
 
 /** Defaults and their provenance. */
 export const SITE_DEFAULTS = {
@@ -69,12 +80,12 @@ export const groundLayerSchema = z
     top_m: num({ title: 'Layer top', unit: 'm', min: 0, max: 1000 }),
     bottom_m: num({ title: 'Layer bottom', unit: 'm', min: 0, max: 1000 }),
     soil: soilDescriptionSchema.optional(),
-    kFrozen_W_mK: num({ title: 'Conductivity, frozen', unit: 'W/m·K', min: 0.02, max: 10 }).optional(),
-    kThawed_W_mK: num({ title: 'Conductivity, thawed', unit: 'W/m·K', min: 0.02, max: 10 }).optional(),
-    cFrozen_J_m3K: num({ title: 'Heat capacity, frozen', unit: 'J/m³·K', min: 1e5, max: 6e6 }).optional(),
-    cThawed_J_m3K: num({ title: 'Heat capacity, thawed', unit: 'J/m³·K', min: 1e5, max: 6e6 }).optional(),
-    latent_J_m3: num({ title: 'Volumetric latent heat', unit: 'J/m³', min: 0, max: 3.4e8 }).optional(),
-    freezingPoint_C: num({ title: 'Freezing point', unit: '°C', min: -10, max: 0.5 }).optional(),
+    kFrozen_W_mK: num({ title: 'Conductivity, frozen', ...LAYER_PROPERTY_LIMITS.kFrozen_W_mK }).optional(),
+    kThawed_W_mK: num({ title: 'Conductivity, thawed', ...LAYER_PROPERTY_LIMITS.kThawed_W_mK }).optional(),
+    cFrozen_J_m3K: num({ title: 'Heat capacity, frozen', ...LAYER_PROPERTY_LIMITS.cFrozen_J_m3K }).optional(),
+    cThawed_J_m3K: num({ title: 'Heat capacity, thawed', ...LAYER_PROPERTY_LIMITS.cThawed_J_m3K }).optional(),
+    latent_J_m3: num({ title: 'Volumetric latent heat', ...LAYER_PROPERTY_LIMITS.latent_J_m3 }).optional(),
+    freezingPoint_C: num({ title: 'Freezing point', ...LAYER_PROPERTY_LIMITS.freezingPoint_C }).optional(),
     freezingInterval_K: num({
       title: 'Freezing interval',
       unit: 'K',
@@ -279,6 +290,7 @@ export const siteInputSchema = z
   .superRefine((input, ctx) => {
     const depth = input.domain.depth_m;
     const layers = input.ground.layers;
+    const kMin: number[] = [];
     layers.forEach((layer, i) => {
       const path = ['ground', 'layers', i];
       if (!(layer.bottom_m > layer.top_m)) {
@@ -298,6 +310,11 @@ export const siteInputSchema = z
         });
       }
       const explicitCount = EXPLICIT.filter((k) => layer[k] !== undefined).length;
+      kMin.push(
+        layer.soil && explicitCount === 0
+          ? soilRules(layer.soil, [...path, 'soil'], ctx)
+          : Math.min(layer.kFrozen_W_mK ?? NaN, layer.kThawed_W_mK ?? NaN),
+      );
       if (layer.soil && explicitCount > 0) {
         ctx.addIssue({
           code: 'custom',
@@ -313,8 +330,13 @@ export const siteInputSchema = z
         });
       }
     });
+    groundRules(layers, input.ground.geothermalFlux_W_m2, depth, kMin, ctx);
+    climateRules(input.climate, input.years, ctx);
     const pile = input.pile;
     if (pile) {
+      const op = input.operation;
+      pileRules(pile, op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min, ctx);
+      fluidRules(pile, op, DEFAULT_HEAT_PUMP_CURVE.minEnteringFluid_C, ctx);
       if (pile.topDepth_m + pile.length_m > depth - 2) {
         ctx.addIssue({
           code: 'custom',

@@ -11,9 +11,11 @@
  * - inletTemperature: the given inlet temperature and flow (pump off in months marked false).
  * - building: load per pile = designLoad/pileCount × (T_balance − T_air)/(T_balance − T_air,coldest),
  *   ≥ 0 (degree-day load line, common practice); ground load = load (1 − 1/COP(EFT)) (heat-pump.ts),
- *   COP at the previous step's outlet (= entering fluid) temperature; when the outlet would fall below the
- *   curve's lowest EFT, the outlet is held there and the heat pump takes less (the rest is left to a
- *   backup heater and reported as unmet).
+ *   COP at the previous step's outlet (= entering fluid) temperature, held for the step; when the outlet
+ *   would fall below the curve's lowest EFT the heat pump draws only what holds the outlet there, and when
+ *   the ground cannot supply any heat above that EFT (ground at or below it) the heat pump is off for
+ *   the step (limiting modes of the loop's heat-pump command, pile-loop.ts); what it does not deliver is
+ *   left to a backup heater and reported as unmet.
  */
 import { fluidProperties, freezingPoint_C } from '../physics/fluids';
 import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
@@ -40,15 +42,23 @@ export function monthOf(time_s: number): number {
   return Math.min(11, Math.floor(day / (365 / 12)));
 }
 
-export function createSiteLoop(
-  input: SiteInput,
-  mesh: SiteMesh,
-  pileRows: number,
-  airTemperature_C: (time_s: number) => number,
-): SiteLoop {
-  const pile = input.pile!;
-  const op = input.operation;
-  const flow_L_min = op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min;
+type SitePile = NonNullable<SiteInput['pile']>;
+
+/** The loop's resistances and flow capacity (see the module comment); throws naming `pile.*`. */
+export interface LoopResistances {
+  Rb: number;
+  Ra: number;
+  R12: number;
+  /** ṁ c of the loop, W/K. */
+  flowCapacity_W_K: number;
+}
+
+/**
+ * Resistances and flow capacity of the pile's loop at `flow_L_min` (measured Rb, Ra if given, else
+ * `pileResistance`). Also the site schema's last check of a pile (site-input-rules.ts): it throws a
+ * RangeError naming `pile.fluid` or `pile.loop` for what the physics refuses.
+ */
+export function loopResistances(pile: SitePile, flow_L_min: number): LoopResistances {
   const spec = {
     fluid: pile.fluid.name,
     massFraction: pile.fluid.name === 'water' ? 0 : pile.fluid.massFraction,
@@ -62,53 +72,60 @@ export function createSiteLoop(
   const props = fluidProperties({ ...spec, temperature_C: Math.max(0, tf + 1) });
   const flow_m3_s = flow_L_min / 60000;
   const mcp = flow_m3_s * props.density_kg_m3 * props.specificHeat_J_kgK;
-  let Rb: number;
-  let Ra: number;
-  let R12: number;
   if (pile.resistance) {
-    Rb = pile.resistance.Rb_mK_W;
-    Ra = pile.resistance.Ra_mK_W;
-    R12 =
+    const Rb = pile.resistance.Rb_mK_W;
+    const Ra = pile.resistance.Ra_mK_W;
+    const R12 =
       pile.loop.type === 'coaxial'
         ? Ra
         : 4 * Rb * Ra > 0 && 4 * Rb > Ra
           ? (4 * Rb * Ra) / (4 * Rb - Ra)
           : Infinity;
-  } else {
-    const casing = {
-      outerRadius_m: pile.outerDiameter_m / 2,
-      innerRadius_m: pile.outerDiameter_m / 2 - pile.wallThickness_m,
-      conductivity_W_mK: pile.steelConductivity_W_mK,
-    };
-    const common = { casing, fluid: props, flowRate_m3_s: flow_m3_s, length_m: pile.length_m };
-    const loopSpec = pile.loop;
-    try {
-      const r =
-        loopSpec.type === 'uTube'
-          ? pileResistance({
-              ...common,
-              loop: 'uTube',
-              pipeOuterRadius_m: loopSpec.pipeOuterDiameter_m / 2,
-              pipeInnerRadius_m: loopSpec.pipeInnerDiameter_m / 2,
-              pipeConductivity_W_mK: loopSpec.pipeConductivity_W_mK,
-              shankHalfSpacing_m: loopSpec.shankSpacing_m / 2,
-              fillConductivity_W_mK: loopSpec.fillConductivity_W_mK,
-            })
-          : pileResistance({
-              ...common,
-              loop: 'coaxial',
-              centreOuterRadius_m: loopSpec.centreOuterDiameter_m / 2,
-              centreInnerRadius_m: loopSpec.centreInnerDiameter_m / 2,
-              centreConductivity_W_mK: loopSpec.centreConductivity_W_mK,
-              downFlow: loopSpec.downFlow,
-            });
-      Rb = r.Rb_mK_W;
-      Ra = r.Ra_mK_W;
-      R12 = r.R12_mK_W;
-    } catch (e) {
-      throw new RangeError(`pile.loop: ${(e as Error).message}`);
-    }
+    return { Rb, Ra, R12, flowCapacity_W_K: mcp };
   }
+  const casing = {
+    outerRadius_m: pile.outerDiameter_m / 2,
+    innerRadius_m: pile.outerDiameter_m / 2 - pile.wallThickness_m,
+    conductivity_W_mK: pile.steelConductivity_W_mK,
+  };
+  const common = { casing, fluid: props, flowRate_m3_s: flow_m3_s, length_m: pile.length_m };
+  const loopSpec = pile.loop;
+  try {
+    const r =
+      loopSpec.type === 'uTube'
+        ? pileResistance({
+            ...common,
+            loop: 'uTube',
+            pipeOuterRadius_m: loopSpec.pipeOuterDiameter_m / 2,
+            pipeInnerRadius_m: loopSpec.pipeInnerDiameter_m / 2,
+            pipeConductivity_W_mK: loopSpec.pipeConductivity_W_mK,
+            shankHalfSpacing_m: loopSpec.shankSpacing_m / 2,
+            fillConductivity_W_mK: loopSpec.fillConductivity_W_mK,
+          })
+        : pileResistance({
+            ...common,
+            loop: 'coaxial',
+            centreOuterRadius_m: loopSpec.centreOuterDiameter_m / 2,
+            centreInnerRadius_m: loopSpec.centreInnerDiameter_m / 2,
+            centreConductivity_W_mK: loopSpec.centreConductivity_W_mK,
+            downFlow: loopSpec.downFlow,
+          });
+    return { Rb: r.Rb_mK_W, Ra: r.Ra_mK_W, R12: r.R12_mK_W, flowCapacity_W_K: mcp };
+  } catch (e) {
+    throw new RangeError(`pile.loop: ${(e as Error).message}`);
+  }
+}
+
+export function createSiteLoop(
+  input: SiteInput,
+  mesh: SiteMesh,
+  pileRows: number,
+  airTemperature_C: (time_s: number) => number,
+): SiteLoop {
+  const pile = input.pile!;
+  const op = input.operation;
+  const flow_L_min = op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min;
+  const { Rb, Ra, R12, flowCapacity_W_K: mcp } = loopResistances(pile, flow_L_min);
   let gDown: number;
   let gUp: number;
   if (pile.loop.type === 'uTube') {
@@ -130,7 +147,6 @@ export function createSiteLoop(
 
   let demand = NaN;
   let cop = NaN;
-  let limited = false;
   let stepTime = -1;
   const curve = op.mode === 'building' ? (op.heatPump ?? DEFAULT_HEAT_PUMP_CURVE) : DEFAULT_HEAT_PUMP_CURVE;
   let lastOutlet = NaN;
@@ -146,7 +162,8 @@ export function createSiteLoop(
       return { kind: 'inlet', inlet_C: op.inlet_C };
     }
     if (time_s !== stepTime) {
-      // New step: the load from the air temperature, COP at the last step's entering fluid temperature.
+      // New step: the load from the air temperature, COP at the last step's entering fluid temperature
+      // (held for the step, so the step's heat-pump command is a fixed function of the ground).
       stepTime = time_s;
       const coldest = input.climate.meanAirTemp_C - input.climate.amplitude_C;
       const span = Math.max(1, op.balancePoint_C - coldest);
@@ -155,16 +172,11 @@ export function createSiteLoop(
       const eft = Number.isFinite(lastOutlet) ? lastOutlet : outlet_C;
       cop = heatPumpAt({ enteringFluid_C: Math.max(-60, Math.min(60, eft)), curve }).cop;
       demand = load;
-      limited = false;
     }
     if (!(demand > 0)) return { kind: 'off' };
-    const ground = demand * (1 - 1 / cop);
-    if (limited && loop.running && loop.extraction_W > ground) limited = false;
-    else if (!limited && loop.running && loop.outlet_C < curve.minEnteringFluid_C) limited = true;
-    if (limited && loop.running && loop.extraction_W <= 0) return { kind: 'off' };
-    return limited
-      ? { kind: 'outlet', outlet_C: curve.minEnteringFluid_C }
-      : { kind: 'extraction', extraction_W: ground };
+    // The loop limits the draw so that the entering fluid stays at or above the curve's lowest EFT, and
+    // switches the heat pump off for the step when the ground cannot supply any heat above it.
+    return { kind: 'heatPump', extraction_W: demand * (1 - 1 / cop), minOutlet_C: curve.minEnteringFluid_C };
   };
 
   const loop = createPileLoop({
@@ -178,6 +190,7 @@ export function createSiteLoop(
   });
   const baseEnd = loop.endStep;
   loop.endStep = (dt: number) => {
+    // A heat pump that was off keeps the last entering temperature it saw for its COP.
     lastOutlet = loop.running ? loop.outlet_C : lastOutlet;
     baseEnd(dt);
   };

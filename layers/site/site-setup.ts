@@ -179,6 +179,27 @@ export interface InitialState {
   rowT_C: Float64Array;
   /** Liquid fraction > 1/2 in the last spin-up year per row: times (s, negative) of the last thaw. */
   lastThawed_s: Float64Array;
+  /**
+   * For the physical-bounds check (site-bounds.ts): the range of the starting profile (uniform, or the
+   * TTOP profile before the spin-up), and the ranges the field and the surface took during the spin-up
+   * (equal to the profile's range and empty (±Infinity) without a spin-up), °C.
+   */
+  startRange_C: [number, number];
+  spinUpFieldRange_C: [number, number];
+  spinUpSurfaceRange_C: [number, number];
+}
+
+/** Min and max of a field, °C (NaN if any value is not finite). */
+function rangeOf(T: ArrayLike<number>, into: [number, number]): void {
+  for (let j = 0; j < T.length; j++) {
+    const v = T[j];
+    if (!Number.isFinite(v)) {
+      into[0] = NaN;
+      into[1] = NaN;
+    }
+    if (v < into[0]) into[0] = v;
+    if (v > into[1]) into[1] = v;
+  }
 }
 
 /** The initial temperature per row (see the module comment). */
@@ -196,7 +217,14 @@ export function initialState(
     for (let j = 0; j < nz; j++) {
       if (liquidFractionAt(ground.table, rowMaterial[j], T[j]) > 0.5) lastThawed[j] = 0;
     }
-    return { rowT_C: T, lastThawed_s: lastThawed };
+    const u = init.uniform_C;
+    return {
+      rowT_C: T,
+      lastThawed_s: lastThawed,
+      startRange_C: [u, u],
+      spinUpFieldRange_C: [u, u],
+      spinUpSurfaceRange_C: [Infinity, -Infinity],
+    };
   }
   const c = input.climate;
   const dd = degreeDays({ meanAirTemp_C: c.meanAirTemp_C, amplitude_C: c.amplitude_C });
@@ -219,11 +247,16 @@ export function initialState(
     zPrev = column.zCentres_m[j];
     T[j] = temp;
   }
+  const startRange: [number, number] = [Infinity, -Infinity];
+  rangeOf(T, startRange);
+  const fieldRange: [number, number] = [startRange[0], startRange[1]];
+  const surfaceRange: [number, number] = [Infinity, -Infinity];
+  const spinSurface = surfaceForcing(input, false);
   const solver = createConductionSolver({
     mesh: column,
     materials: ground.table,
     rowMaterial,
-    surfaceTemperature_C: surfaceForcing(input, false),
+    surfaceTemperature_C: spinSurface,
     bottomFlux_W_m2: q,
     initialT_C: T,
     inner: null,
@@ -234,10 +267,20 @@ export function initialState(
   const dtExact = total / steps;
   for (let s = 1; s <= steps; s++) {
     solver.step(dtExact);
+    rangeOf(solver.T, fieldRange);
+    const Ts = spinSurface(s * dtExact);
+    surfaceRange[0] = Math.min(surfaceRange[0], Ts);
+    surfaceRange[1] = Math.max(surfaceRange[1], Ts);
     const t = s * dtExact - total;
     for (let j = 0; j < nz; j++) {
       if (liquidFractionAt(ground.table, rowMaterial[j], solver.T[j]) > 0.5) lastThawed[j] = t;
     }
   }
-  return { rowT_C: Float64Array.from(solver.T), lastThawed_s: lastThawed };
+  return {
+    rowT_C: Float64Array.from(solver.T),
+    lastThawed_s: lastThawed,
+    startRange_C: startRange,
+    spinUpFieldRange_C: fieldRange,
+    spinUpSurfaceRange_C: surfaceRange,
+  };
 }

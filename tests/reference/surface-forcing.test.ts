@@ -20,6 +20,15 @@ describe('surface forcing: degree-days of a sinusoidal 365-day year (exact integ
       expect(Math.abs(d.thawingIndex_Cd - Number(th))).toBeLessThan(1e-9 + 1e-10 * Number(th));
     });
   }
+  it('a mean a hair above −amplitude thaws (almost) not at all, never a negative index', () => {
+    // Mean −40 + 2e-14 °C, amplitude 40 K: the exact thawing index is O(1e-19) C·day; the closed form
+    // cancels to −2e-13 without the clip (found by the site fuzz, issue 16), which TTOP then refused.
+    const d = degreeDays({ meanAirTemp_C: -39.99999999999998, amplitude_C: 40 });
+    expect(d.thawingIndex_Cd).toBeGreaterThanOrEqual(0);
+    expect(d.thawingIndex_Cd).toBeLessThan(1e-9);
+    expect(d.freezingIndex_Cd).toBeCloseTo(365 * 40, 6);
+  });
+
   it('n-factors scale the indices (Lunardini 1978): n_f 0.5, n_t 0.9', () => {
     const s = surfaceDegreeDays(
       { freezingIndex_Cd: 3500, thawingIndex_Cd: 1200 },

@@ -85,4 +85,69 @@ describe('siteInputSchema', () => {
     expect(meta['operation.extraction_W'].unit).toBe('W');
     expect(meta['probes[].r_m'].title).toMatch(/radius/i);
   });
+
+  // Rules the simulator's physics enforces, now in the schema with the user's field names
+  // (site-input-rules.ts). Porosity n = 1 − ρd/ρs (soil-catalogue.ts: silt 1400 kg/m³ over 2650 kg/m³
+  // solids gives n = 0.472, hand computation).
+  it('reports water content above the soil porosity at the water content, with the porosity', () => {
+    const msg = issuesOf((d) => (d.ground.layers[1].soil.waterContent_m3m3 = 0.6)).join();
+    expect(msg).toMatch(
+      /ground\.layers\.1\.soil\.waterContent_m3m3: water \+ ice content 0\.6 m³\/m³ exceeds the porosity 0\.472/,
+    );
+  });
+
+  it('reports a dry density that leaves no pores, and a soil too dry for the unfrozen-water curve', () => {
+    expect(issuesOf((d) => (d.ground.layers[1].soil.dryDensity_kg_m3 = 2640)).join()).toMatch(
+      /ground\.layers\.1\.soil\.dryDensity_kg_m3: dry density 2640 kg\/m³ gives a porosity of 0\.004/,
+    );
+    expect(
+      issuesOf((d) => (d.ground.layers[1].soil = { texture: 'clay', waterContent_m3m3: 0.001 })).join(),
+    ).toMatch(/ground\.layers\.1\.soil: .*freezingPoint_C .*too dry/);
+  });
+
+  it('reports U-tube pipes that do not fit the casing in diameters, not radii', () => {
+    // Casing inner diameter 0.1683 − 2·0.0071 = 0.1541 m: legs of 0.09 m do not fit twice.
+    const msg = issuesOf((d) => (d.pile.loop.pipeOuterDiameter_m = 0.09)).join();
+    expect(msg).toMatch(
+      /pile\.loop\.pipeOuterDiameter_m: U-tube pipe outer diameter 0\.09 m .*inner diameter .*0\.154 m/,
+    );
+    expect(msg).not.toMatch(/Radius/);
+    expect(issuesOf((d) => (d.pile.loop.shankSpacing_m = 0.15)).join()).toMatch(
+      /pile\.loop\.shankSpacing_m: leg spacing/,
+    );
+  });
+
+  it('refuses unknown keys in operation.heatPump', () => {
+    const msg = issuesOf(
+      (d) =>
+        (d.operation.heatPump = {
+          enteringFluid_C: [-10, 10],
+          cop: [3, 4],
+          capacityRatio: [1, 1],
+          minEnteringFluid_C: -8,
+          colour: 'red',
+        }),
+    ).join();
+    expect(msg).toMatch(/operation\.heatPump/);
+  });
+
+  it('refuses a fluid that the operation freezes before running', () => {
+    // Water freezes at 0 °C; the default heat pump holds its entering fluid at −8 °C (heat-pump.ts).
+    expect(issuesOf((d) => (d.pile.fluid = { name: 'water', massFraction: 0 })).join()).toMatch(
+      /pile\.fluid: the heat pump's lowest entering fluid temperature -8 °C \(default curve\) is not above the freezing point 0 °C/,
+    );
+    expect(
+      issuesOf((d) => (d.operation = { mode: 'inletTemperature', inlet_C: -20, flow_L_min: 12 })).join(),
+    ).toMatch(/operation\.inlet_C: inlet temperature -20 °C is not above the freezing point/);
+  });
+
+  it('refuses surface temperatures colder than any on Earth', () => {
+    // nFreeze 3 × (−40 − 40) = −240 °C.
+    const msg = issuesOf((d) => {
+      d.climate.meanAirTemp_C = -40;
+      d.climate.amplitude_C = 40;
+      d.climate.nFreeze = 3;
+    }).join();
+    expect(msg).toMatch(/climate\.nFreeze: the coldest surface temperature .* = -240 °C is below -90 °C/);
+  });
 });

@@ -91,4 +91,59 @@ describe('pile loop', () => {
       expect([loop.inlet_C, loop.outlet_C, loop.extraction_W]).toEqual(state);
     }
   });
+
+  it('stays finite at hundreds of transfer units (long pile, low flow): the outlet reaches the ground', () => {
+    // 100 m, 50 W/m·K per channel, ṁc = 30 W/K: NTU = 2·50·100/30 ≈ 333, so exp(−NTU) ≈ 1e-145 and
+    // T_out = T_g to round-off (same constant-wall solution as above). Marching affine forms from the
+    // top overflowed here (growth like exp(NTU)); the double sweep stays bounded.
+    const n = 400;
+    const long = createPileLoop({
+      rowLength_m: new Array(n).fill(0.25),
+      rowActive: new Array(n).fill(true),
+      gDown_W_mK: 50,
+      gUp_W_mK: 50,
+      gChannels_W_mK: 0,
+      flowCapacity_W_K: 30,
+      command: () => ({ kind: 'inlet', inlet_C: -6 }),
+    });
+    long.beginStep(0, 1);
+    long.update(new Float64Array(n).fill(-1), new Float64Array(n).fill(huge));
+    expect(long.outlet_C).toBeCloseTo(-1, 5);
+    expect(long.T_C.every(Number.isFinite)).toBe(true);
+  });
+
+  it('heat-pump command: draws the demand, or holds the outlet at its limit, or is off for the step', () => {
+    // Uniform ground −3 °C, no short-circuit: at extraction E the outlet is T_g − E/(ṁc)·e^−NTU/(1 − e^−NTU)
+    // (constant-wall exchanger, as above), so the outlet limit −4 °C allows E_lim = ṁc (1 − e^−NTU)/e^−NTU · 1 K.
+    const demand = 40;
+    let minOutlet = -4;
+    const loop = loopWith(() => ({ kind: 'heatPump', extraction_W: demand, minOutlet_C: minOutlet }));
+    const ground = new Float64Array(rows).fill(-3);
+    const half = new Float64Array(rows).fill(huge);
+    const x = Math.exp(-(2.5 * 20) / 400);
+    const eLim = (400 * (1 - x)) / x;
+    loop.beginStep(0, 1);
+    loop.update(ground, half);
+    expect(eLim).toBeGreaterThan(demand);
+    expect(loop.extraction_W).toBeCloseTo(demand, 9);
+    expect(loop.atLimit).toBe(false);
+    minOutlet = -3.5; // E_lim halves (about 27 W): below the demand
+    loop.update(ground, half);
+    expect(loop.atLimit).toBe(true);
+    expect(loop.outlet_C).toBeCloseTo(-3.5, 9);
+    // Trapezoidal rows against the exact exponential: agreement to about 1e-4 relative.
+    expect(loop.extraction_W).toBeCloseTo(eLim / 2, 2);
+    // Ground at the limit: no heat above it. Within the step the draw falls to zero (pump still on);
+    // at the next step the heat pump is off for the whole step.
+    minOutlet = -3;
+    loop.update(ground, half);
+    expect(loop.extraction_W).toBeCloseTo(0, 9);
+    loop.beginStep(1, 1);
+    loop.update(ground, half);
+    expect(loop.running).toBe(false);
+    expect(Math.max(...loop.g_W_K)).toBe(0);
+    // The decision holds for the step even if the ground warms during its iteration.
+    loop.update(new Float64Array(rows).fill(5), half);
+    expect(loop.running).toBe(false);
+  });
 });
