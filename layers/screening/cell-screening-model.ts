@@ -24,6 +24,7 @@ import {
   type CriterionDefinition,
 } from './suitability';
 import { BINDING_LABELS } from './operating-window';
+import { formatZodIssues } from '../validation-error';
 
 /** Build the per-cell model for a scenario (defaults filled in; throws TypeError naming bad fields). */
 export function createScreeningModel(scenario: unknown = {}): ScreeningModel & { scenario: Scenario } {
@@ -76,7 +77,7 @@ export type CellInputJson = z.input<typeof cellInputSchema>;
 export function parseCellInputs(input: unknown): CellInputs {
   const r = cellInputSchema.safeParse(input);
   if (!r.success) {
-    const lines = r.error.issues.map((i) => `${i.path.length ? i.path.join('.') : '(root)'}: ${i.message}`);
+    const lines = formatZodIssues(r.error);
     throw new TypeError(`invalid cell inputs: ${lines.join('; ')}`);
   }
   return r.data;

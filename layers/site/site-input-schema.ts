@@ -9,6 +9,7 @@
  */
 import { z } from 'zod';
 import { HeatPumpCurveSchema } from '../physics/heat-pump';
+import { formatZodIssues } from '../validation-error';
 
 /** Defaults and their provenance. */
 export const SITE_DEFAULTS = {
@@ -387,7 +388,7 @@ export type SiteInputDraft = z.input<typeof siteInputSchema>;
 
 /** Formats zod issues as one line each: `path: message`. */
 export function formatSiteInputIssues(error: z.ZodError): string[] {
-  return error.issues.map((iss) => `${iss.path.length ? iss.path.join('.') : '(root)'}: ${iss.message}`);
+  return formatZodIssues(error);
 }
 
 /**

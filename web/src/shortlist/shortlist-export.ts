@@ -13,6 +13,7 @@ import { z } from 'zod';
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 type PropertyValue = string | number | boolean | null | Record<string, unknown>;
 
@@ -147,7 +148,7 @@ export function shortlistFromGeoJSON(
   if (!parsed.success) {
     return {
       items: [],
-      issues: parsed.error.issues.map((i) => `${i.path.join('.') || '(root)'}: ${i.message}`),
+      issues: formatZodIssues(parsed.error),
     };
   }
   const items: ShortlistItem[] = [];
@@ -178,7 +179,7 @@ export function shortlistFromGeoJSON(
     };
     const ok = shortlistItemSchema.safeParse(candidate);
     if (ok.success) items.push(ok.data);
-    else issues.push(...ok.error.issues.map((iss) => `features.${i}.${iss.path.join('.')}: ${iss.message}`));
+    else issues.push(...formatZodIssues(ok.error, { prefix: `features.${i}` }));
   });
   return { items, issues };
 }
