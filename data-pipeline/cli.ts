@@ -75,7 +75,10 @@ export function reportError(command: string, err: unknown, verbose: boolean): nu
   const where = whereThrown(e);
   const head = `pile-atlas ${command}: internal error (a bug or a system failure, not bad input): `;
   const tail = `${where ? ` at ${where}` : ''}${verbose ? '' : '; --verbose for the stack'}`;
-  const what = clip(oneLine(`${e.name}: ${e.message}`), Math.max(40, SUMMARY_MAX_CHARS - head.length - tail.length));
+  const what = clip(
+    oneLine(`${e.name}: ${e.message}`),
+    Math.max(40, SUMMARY_MAX_CHARS - head.length - tail.length),
+  );
   process.stderr.write(`${head}${what}${tail}\n`);
   if (verbose && e.stack) process.stderr.write(`${e.stack}\n`);
   return EXIT_INTERNAL;

@@ -23,7 +23,10 @@ export function formatIssuePath(path: readonly PropertyKey[], root = '(root)'): 
  * The one `path: message` formatter. `prefix` is prepended to the path (`features.3` gives
  * `features.3.geometry: ...`); `root` names an empty path.
  */
-export function formatIssue(issue: ValidationIssue, options: { prefix?: string; root?: string } = {}): string {
+export function formatIssue(
+  issue: ValidationIssue,
+  options: { prefix?: string; root?: string } = {},
+): string {
   const { prefix, root } = options;
   const path = issue.path.length > 0 ? formatIssuePath(issue.path) : undefined;
   const where = prefix ? (path ? `${prefix}.${path}` : prefix) : (path ?? root ?? '(root)');

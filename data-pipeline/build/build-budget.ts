@@ -38,7 +38,11 @@ export function defaultBudget(): BuildBudget {
 export const MAX_BLOCK_BYTES = 512 * MB;
 
 const fmtBytes = (b: number): string =>
-  b >= 1e9 ? `${(b / 1e9).toFixed(1)} GB` : b >= 1e6 ? `${(b / 1e6).toFixed(1)} MB` : `${Math.round(b / 1e3)} kB`;
+  b >= 1e9
+    ? `${(b / 1e9).toFixed(1)} GB`
+    : b >= 1e6
+      ? `${(b / 1e6).toFixed(1)} MB`
+      : `${Math.round(b / 1e3)} kB`;
 
 export interface RasterDeclaration {
   width: number;
@@ -58,7 +62,9 @@ export interface RasterDeclaration {
 export function checkRasterBudget(label: string, d: RasterDeclaration, budget: BuildBudget): void {
   const dims = [d.width, d.height, d.bitsPerSample, d.samplesPerPixel, d.blockWidth, d.blockHeight];
   if (!dims.every((v) => Number.isInteger(v) && v > 0)) {
-    throw new InputError(`${label}: unreadable TIFF (declared size ${d.width} x ${d.height} is not positive)`);
+    throw new InputError(
+      `${label}: unreadable TIFF (declared size ${d.width} x ${d.height} is not positive)`,
+    );
   }
   const bytesPerPixel = (d.bitsPerSample / 8) * d.samplesPerPixel;
   const decoded = d.width * d.height * bytesPerPixel;

@@ -173,7 +173,8 @@ export async function loadInputs(
 ) {
   const config = await readInputsConfig(inDir);
   const geojson: LoadedInputs['geojson'] = {};
-  if (config.settlements) geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
+  if (config.settlements)
+    geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
   if (config.land) geojson.land = await readGeoJsonLayer(inDir, 'land', config.land);
   const inputs: LoadedInput[] = [];
   for (const [i, entry] of config.grids.entries()) {

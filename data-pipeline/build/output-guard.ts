@@ -34,13 +34,19 @@ export function checkOutputTarget(inDir: string, outDir: string): void {
   const realIn = realpathSync(inDir);
   const realOut = realPathOf(outDir);
   if (realOut === realIn) {
-    throw new InputError(`--out ${outDir}: is the inputs directory (--in); the build would replace its inputs`);
+    throw new InputError(
+      `--out ${outDir}: is the inputs directory (--in); the build would replace its inputs`,
+    );
   }
   if (within(realIn, realOut)) {
-    throw new InputError(`--out ${outDir}: lies inside the inputs directory ${inDir}; choose a directory outside it`);
+    throw new InputError(
+      `--out ${outDir}: lies inside the inputs directory ${inDir}; choose a directory outside it`,
+    );
   }
   if (within(realOut, realIn)) {
-    throw new InputError(`--out ${outDir}: contains the inputs directory ${inDir}; the build would replace it`);
+    throw new InputError(
+      `--out ${outDir}: contains the inputs directory ${inDir}; the build would replace it`,
+    );
   }
   let st;
   try {

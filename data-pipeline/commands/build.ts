@@ -14,7 +14,8 @@ const MB = 1024 * 1024;
 /** The budget options (--max-*), over the defaults. */
 function budgetOptions(opts: ParsedOptions): BuildBudget {
   const d = defaultBudget();
-  const mb = (name: string, fallback: number) => numberOption('build', opts, name, fallback / MB, 1, 1e9) * MB;
+  const mb = (name: string, fallback: number) =>
+    Math.round(numberOption('build', opts, name, fallback / MB, 0.001, 1e9) * MB);
   return {
     maxInputBytes: mb('max-input-mb', d.maxInputBytes),
     maxCells: numberOption('build', opts, 'max-cells', d.maxCells, 1, 1e12, true),

@@ -37,15 +37,15 @@ Options:
     let last = -1;
     // The input passed its schema: an error the simulator throws now is a bug (exit 1), not bad input.
     const result = simulateSite(parsed.data, {
-        onProgress: opts.flags.has('progress')
-          ? (f) => {
-              const pct = Math.floor(f * 10) * 10;
-              if (pct !== last) {
-                last = pct;
-                process.stderr.write(`site: ${pct} %\n`);
-              }
+      onProgress: opts.flags.has('progress')
+        ? (f) => {
+            const pct = Math.floor(f * 10) * 10;
+            if (pct !== last) {
+              last = pct;
+              process.stderr.write(`site: ${pct} %\n`);
             }
-          : undefined,
+          }
+        : undefined,
     });
     for (const w of result.warnings) process.stderr.write(`site: warning: ${w}\n`);
     process.stdout.write(JSON.stringify(result, null, opts.flags.has('compact') ? undefined : 2) + '\n');

@@ -24,6 +24,35 @@ export function lineColumnAt(text: string, position: number): { line: number; co
   return { line, column: end - lineStart + 1 };
 }
 
+/** True when `prefix` is valid JSON or could become valid by appending characters. */
+function viablePrefix(prefix: string): boolean {
+  try {
+    JSON.parse(prefix);
+    return true;
+  } catch (err) {
+    const message = (err as Error).message;
+    if (/Unexpected end of JSON input/.test(message)) return true;
+    const at = /\bat position (\d+)/.exec(message);
+    return at !== null && Number(at[1]) >= prefix.length;
+  }
+}
+
+/**
+ * Offset of the character where `text` stops being valid JSON (V8 names the token but not its
+ * position for some errors): viable prefixes are closed under shortening, so a binary search over
+ * the prefix length finds the first offending character in log2(n) parses.
+ */
+export function jsonErrorOffset(text: string): number {
+  let lo = 0;
+  let hi = text.length;
+  while (lo < hi) {
+    const mid = Math.ceil((lo + hi) / 2);
+    if (viablePrefix(text.slice(0, mid))) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
+}
+
 /** The reason of a JSON.parse error in a few words, on one line, with its position if V8 gives one. */
 export function describeJsonSyntaxError(text: string, err: unknown): string {
   const raw = err instanceof Error ? err.message : String(err);
@@ -33,8 +62,7 @@ export function describeJsonSyntaxError(text: string, err: unknown): string {
   if (token) reason = token[1];
   reason = clip(oneLine(reason), 80);
   const end = /Unexpected end of JSON input/.test(raw);
-  const position = at ? Number(at[1]) : end ? text.length : undefined;
-  if (position === undefined) return reason;
+  const position = at ? Number(at[1]) : end ? text.length : jsonErrorOffset(text);
   const { line, column } = lineColumnAt(text, position);
   return `${reason} at line ${line}, column ${column}`;
 }
