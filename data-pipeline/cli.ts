@@ -130,6 +130,19 @@ export function runCliProcess(argv: string[]): void {
       process.exit(128 + number);
     });
   }
+  // Under `npm run`, a wrapper killed outright (SIGKILL) cannot forward anything; this process then
+  // finds itself re-parented and stops like on SIGHUP instead of finishing the build as an orphan.
+  if (process.env.npm_lifecycle_event !== undefined) {
+    const parent = process.ppid;
+    setInterval(() => {
+      if (process.ppid === parent) return;
+      abortActiveOutputs();
+      process.stderr.write(
+        'pile-atlas: the npm wrapper is gone; stopped, the previous output is untouched\n',
+      );
+      process.exit(128 + SIGNALS.SIGHUP);
+    }, 250).unref();
+  }
   main(argv).then(
     (code) => {
       process.exitCode = code;

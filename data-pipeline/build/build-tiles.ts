@@ -35,7 +35,7 @@ import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
 import { analysisGridFor } from './analysis-grid';
 import { assembleManifest, bandFor, bandStatsOf, classShares } from './assemble-manifest';
-import { beginAtomicOutput } from './atomic-output';
+import { beginAtomicOutput, recoverOutput } from './atomic-output';
 import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from './build-budget';
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
@@ -123,6 +123,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const cellSize_m = options.cellSize_m ?? 1000;
   const progress = (stage: string, done: number, total: number) => onProgress?.({ stage, done, total });
   const budget: BuildBudget = { ...defaultBudget(), ...options.budget };
+  // A build killed earlier may have left a swap half done: put the previous output back first.
+  recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
   const { model, spec, name: modelName } = resolveModel(options);
   const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
