@@ -98,7 +98,10 @@ export interface BuildEstimate {
  * output rows, 32 x W x 16 B of cell centres per input, 10 x 32 x W x 4 B of resampled inputs and a
  * 32-row input box per input; the tile writer about 2 tiles of B x 128 kB per zoom level per thread;
  * a fixed 256 MB per thread for the runtime. Disk: the band files (B x cells x 4 B), the GeoTIFFs (the
- * same again), the tiles (cells x 4 tile pixels per cell at most x 4/3 for the overviews x B x 2 B).
+ * same again), the tiles: B x 256 x 256 x 2 B each, at the highest zoom enough to cover the grid at
+ * up to 1.5 tile pixels per cell along each side (the zoom is chosen so a pixel is 1/2 to 1 cell, and
+ * the grid's box in Web Mercator is larger than in EPSG:3413) plus a ring of edge tiles, and the same
+ * for each of the four overview levels above it at half the size each.
  */
 export function estimateBuild(o: {
   width: number;
@@ -119,7 +122,12 @@ export function estimateBuild(o: {
     256 * MB;
   const memoryBytes = o.threads * perThread + 2 * 64 * o.width * 4 + 4 * MB;
   const bandFiles = o.bands * cells * 4;
-  const tiles = cells * 4 * (4 / 3) * o.bands * 2 + 16 * MB;
+  let tileCount = 0;
+  for (let level = 0; level <= 4; level++) {
+    const across = (n: number) => Math.ceil((3 * n) / 256 / 2 ** level) + 2;
+    tileCount += across(o.width) * across(o.height);
+  }
+  const tiles = tileCount * o.bands * 256 * 256 * 2 + 16 * MB;
   const diskBytes = bandFiles + (o.geotiff ? bandFiles : 0) + tiles;
   return { memoryBytes, diskBytes };
 }
@@ -157,7 +165,7 @@ export function checkBuildBudget(
         (budget.maxDiskBytes === undefined
           ? `only ${fmtBytes(free)} free there`
           : `over the budget of ${fmtBytes(free)} (--max-disk-mb)`) +
-        '; free space, choose another --out, a larger --cell-size or --no-geotiff',
+        '; free space, choose another --out, a larger --cell-size, --no-geotiff, or set --max-disk-mb',
     );
   }
 }

@@ -57,7 +57,7 @@ export function jsonErrorOffset(text: string): number {
 export function describeJsonSyntaxError(text: string, err: unknown): string {
   const raw = err instanceof Error ? err.message : String(err);
   const at = /\bat position (\d+)/.exec(raw);
-  let reason = raw.replace(/\s*in JSON at position \d+.*$/s, '');
+  let reason = raw.replace(/\s*(in JSON )?at position \d+.*$/s, '');
   const token = /^(Unexpected token '.*?'|Unexpected non-whitespace character after JSON),/s.exec(reason);
   if (token) reason = token[1];
   reason = clip(oneLine(reason), 80);
