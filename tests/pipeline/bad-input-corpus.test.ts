@@ -790,3 +790,18 @@ describe('errors that are not bad input', () => {
     for (const l of lines) expect(l).toMatch(/^pile-atlas build: error: pile-atlas-inputs\.json: /);
   });
 });
+
+describe('demo-data refuses to write over what is not a demo region', () => {
+  it('--out naming a file, or a non-empty directory without an inputs config: exit 2, untouched', async () => {
+    const base = await makeTempDir('demo-out');
+    await writeFile(join(base, 'notes.txt'), 'keep me\n');
+    const before = await hashTree(base);
+    for (const out of [join(base, 'notes.txt'), base]) {
+      const r = await runCli(['demo-data', '--out', out, '--resolution-scale', '8']);
+      expect(r.code, r.stderr).toBe(2);
+      expect(r.stderr.trimEnd().split('\n')).toHaveLength(1);
+      expect(r.stderr).toMatch(/^pile-atlas demo-data: error: --out /);
+    }
+    expect(await hashTree(base)).toEqual(before);
+  });
+});
