@@ -41,7 +41,9 @@ function topLevelHelp(): string {
     'Commands:',
     ...COMMANDS.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
     '',
-    "Run `pile-atlas <command> --help` for a command's options.",
+    "Run `pile-atlas <command> --help` for a command's options. Any command takes --verbose: every issue",
+    'of a bad input, one per line, and the stack of an internal error.',
+    'Exit codes: 0 success, 2 bad input (one line naming the file and field), 1 internal error.',
   ].join('\n');
 }
 

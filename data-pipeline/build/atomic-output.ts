@@ -88,6 +88,10 @@ export function recoverOutput(outDir: string): { rolledBack: boolean; removed: s
   } else if (!journal) {
     rmSync(join(parent, journalName(base)), { force: true });
   }
+  // A journal written but not yet renamed into place: the swap had not begun.
+  if (!journal || journal.pid === process.pid || !pidAlive(journal.pid)) {
+    rmSync(join(parent, `${journalName(base)}.tmp`), { force: true });
+  }
   const live = readJournal(join(parent, journalName(base)));
   for (const name of readdirSync(parent)) {
     const m = STALE.exec(name);

@@ -97,7 +97,7 @@ export interface BuildEstimate {
  * Peak memory and disk of a build (build-tiles.ts header): per screening thread B x 32 x W x 4 B of
  * output rows, 32 x W x 16 B of cell centres per input, 10 x 32 x W x 4 B of resampled inputs and a
  * 32-row input box per input; the tile writer about 2 tiles of B x 128 kB per zoom level per thread;
- * a fixed 256 MB per thread for the runtime. Disk: the band files (B x cells x 4 B), the GeoTIFFs (the
+ * an allowance of 128 MB per thread for the runtime (common practice, not measured). Disk: the band files (B x cells x 4 B), the GeoTIFFs (the
  * same again), the tiles: B x 256 x 256 x 2 B each, at the highest zoom enough to cover the grid at
  * up to 1.5 tile pixels per cell along each side (the zoom is chosen so a pixel is 1/2 to 1 cell, and
  * the grid's box in Web Mercator is larger than in EPSG:3413) plus a ring of edge tiles, and the same
@@ -119,7 +119,7 @@ export function estimateBuild(o: {
     10 * 32 * o.width * 4 +
     o.inputs * 40 * o.inputWidthMax * 4 +
     2 * 17 * o.bands * 131_072 +
-    256 * MB;
+    128 * MB;
   const memoryBytes = o.threads * perThread + 2 * 64 * o.width * 4 + 4 * MB;
   const bandFiles = o.bands * cells * 4;
   let tileCount = 0;

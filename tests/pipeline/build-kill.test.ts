@@ -101,6 +101,19 @@ async function previousOutputNow(out: string): Promise<string> {
   return journal?.aside ? join(dirname(out), journal.aside) : out;
 }
 
+/**
+ * The processes of `family` still alive after up to 10 s (tsx's esbuild service, a child of the
+ * build, exits by itself when its parent's pipe closes, a moment after the parent). Kills survivors,
+ * so that a failing test leaves no orphan either.
+ */
+async function survivorsOf(family: number[]): Promise<number[]> {
+  const deadline = Date.now() + 10_000;
+  while (family.some(alive) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+  const survivors = family.filter(alive);
+  for (const pid of survivors) process.kill(pid, 'SIGKILL');
+  return survivors;
+}
+
 const leftovers = async (out: string) =>
   (await readdir(dirname(out))).filter((n) => n.startsWith(`.${basename(out)}.`));
 
@@ -122,7 +135,7 @@ describe('kill -9 at every stage: the previous output is whole at that instant a
     await exited(child);
     // At the instant of the kill: whole, at --out or at the journal's aside path.
     expect(await hashTree(await previousOutputNow(out))).toEqual(previousTree);
-    expect(family.filter(alive)).toEqual([]);
+    expect(await survivorsOf(family)).toEqual([]);
     // The next build (here: its first step, the recovery) puts it back and removes the rest.
     recoverOutput(out);
     expect(await hashTree(out)).toEqual(previousTree);
@@ -142,7 +155,7 @@ describe('signals to the wrappers stop the whole build: no process left, output 
     child.kill('SIGTERM');
     const { code } = await exited(child);
     expect(code).toBe(143);
-    expect(family.filter(alive)).toEqual([]);
+    expect(await survivorsOf(family)).toEqual([]);
     expect(await leftovers(out)).toEqual([]);
     expect(await hashTree(out)).toEqual(previousTree);
   });
@@ -172,11 +185,7 @@ describe('signals to the wrappers stop the whole build: no process left, output 
       expect(family.length).toBeGreaterThan(0);
       npm.kill(signal);
       await exited(npm);
-      const deadline = Date.now() + 10_000;
-      while (family.some(alive) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
-      const survivors = family.filter(alive);
-      for (const pid of survivors) process.kill(pid, 'SIGKILL'); // leave no orphan, even on failure
-      expect(survivors).toEqual([]);
+      expect(await survivorsOf(family)).toEqual([]);
       recoverOutput(out);
       expect(await hashTree(out)).toEqual(previousTree);
       expect(await leftovers(out)).toEqual([]);
