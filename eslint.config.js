@@ -1,8 +1,10 @@
-// Lint config: typescript-eslint recommended rules on every TypeScript source, plus one project rule:
-// the science core in layers/ must stay free of DOM, Node and UI imports (style.md habit 1).
+// Lint config: typescript-eslint recommended rules on every TypeScript source, plus the project rules:
+// the science core in layers/ must stay free of DOM, Node and UI imports (style.md habit 1), and every
+// folder imports only in its allowed direction (eslint-import-boundaries.js, DEVELOPERS.md).
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import globals from 'globals';
+import boundaries from './eslint-import-boundaries.js';
 
 export default tseslint.config(
   { ignores: ['node_modules', 'dist', 'demo-data', 'tiles-out', 'web/public/tiles', '.cache', 'coverage'] },
@@ -11,7 +13,9 @@ export default tseslint.config(
   {
     files: ['**/*.{ts,tsx}'],
     languageOptions: { globals: { ...globals.browser, ...globals.node } },
+    plugins: { boundaries },
     rules: {
+      'boundaries/import-direction': 'error',
       '@typescript-eslint/no-explicit-any': 'error',
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
     },
@@ -34,6 +38,22 @@ export default tseslint.config(
             {
               group: ['**/web/**', '**/data-pipeline/**'],
               message: 'layers/ must not import from the edges',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
+    files: ['web/src/**/*.{ts,tsx}'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: ['node:*', 'fs', 'path', 'os', 'worker_threads', 'child_process'],
+              message: 'web/src runs in the browser: no Node APIs',
             },
           ],
         },

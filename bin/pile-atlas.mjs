@@ -1,18 +1,9 @@
 #!/usr/bin/env node
-// Entry point of the `pile-atlas` command line: runs the TypeScript CLI through tsx.
-import { spawnSync } from 'node:child_process';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+// Entry point of the `pile-atlas` command line. The TypeScript CLI runs in this very process (tsx
+// registered as a loader), not in a child: a signal sent to this process reaches the build itself,
+// which removes its partial output, and no child process can outlive it.
+import { register } from 'tsx/esm/api';
 
-const here = dirname(fileURLToPath(import.meta.url));
-const require = createRequire(import.meta.url);
-const tsxCli = require.resolve('tsx/cli');
-const result = spawnSync(
-  process.execPath,
-  [tsxCli, join(here, '..', 'data-pipeline', 'cli.ts'), ...process.argv.slice(2)],
-  {
-    stdio: 'inherit',
-  },
-);
-process.exit(result.status ?? 1);
+register();
+const { runCliProcess } = await import('../data-pipeline/cli.ts');
+runCliProcess(process.argv.slice(2));

@@ -1,22 +1,13 @@
 /**
- * A problem with the user's input (a file, a field, a command-line option). The CLI prints its message
- * as one line without a stack trace and exits non-zero; the message names the file and field.
+ * A problem with the user's input (a file, a field, a command-line option, the output directory, the
+ * disk the output goes to): the pipeline's ValidationError (layers/validation-error.ts) with a message
+ * that already names the file and field. The CLI prints it as one line without a stack trace and exits 2.
  */
-import type { z } from 'zod';
+import { ValidationError } from '../layers/validation-error';
 
-export class InputError extends Error {
+export class InputError extends ValidationError {
   constructor(message: string) {
-    super(message);
+    super('', message);
     this.name = 'InputError';
   }
-}
-
-/** One line listing every zod issue of `error` as `<file>: <path>: <message>`. */
-export function formatZodIssues(file: string, error: z.ZodError): string {
-  return error.issues
-    .map((issue) => {
-      const path = issue.path.length > 0 ? issue.path.map(String).join('.') : '(root)';
-      return `${file}: ${path}: ${issue.message}`;
-    })
-    .join('; ');
 }

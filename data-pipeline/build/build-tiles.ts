@@ -21,9 +21,11 @@
  * W x 4 B; band statistics 1 M cells x 4 B. The output bands are never held whole.
  */
 import { availableParallelism } from 'node:os';
-import { copyFile, mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
+import { mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { manifestCriteria } from '../../layers/screening/cell-screening-model';
+import { scenarioSchema } from '../../layers/screening/scenario';
+import { ValidationError } from '../../layers/validation-error';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
@@ -33,7 +35,10 @@ import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
 import { analysisGridFor } from './analysis-grid';
 import { assembleManifest, bandFor, bandStatsOf, classShares } from './assemble-manifest';
-import { beginAtomicOutput } from './atomic-output';
+import { beginAtomicOutput, recoverOutput } from './atomic-output';
+import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from './build-budget';
+import { faultPoint, type FaultStage } from './fault-points';
+import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
 import { loadInputs } from './load-inputs';
@@ -59,6 +64,8 @@ export interface BuildOptions {
   minCellsForWorkers?: number;
   /** Also write every band as a GeoTIFF in EPSG:3413 under geotiff/ (default true). */
   geotiff?: boolean;
+  /** Limits checked before reading and writing (default: defaultBudget()). */
+  budget?: Partial<BuildBudget>;
 }
 
 export interface BuildSummary {
@@ -87,18 +94,26 @@ function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: Mo
     options.modelKind === 'basic'
       ? { kind: 'basic' }
       : { kind: 'screening', scenario: options.scenario ?? {} };
-  try {
-    return {
-      model: createModelFromSpec(spec),
-      spec,
-      name: spec.kind === 'basic' ? 'basic (TTOP + Stefan)' : 'per-cell screening model',
-    };
-  } catch (err) {
-    if (err instanceof TypeError || err instanceof RangeError) {
-      throw new InputError(`${options.scenarioFile ?? 'scenario'}: ${err.message}`);
-    }
-    throw err;
+  if (spec.kind === 'screening') {
+    // Validated here, so that an error the model throws afterwards is a bug (exit 1), not bad input.
+    const parsed = scenarioSchema.safeParse(spec.scenario ?? {});
+    if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario', parsed.error);
   }
+  return {
+    model: createModelFromSpec(spec),
+    spec,
+    name: spec.kind === 'basic' ? 'basic (TTOP + Stefan)' : 'per-cell screening model',
+  };
+}
+
+const DISK_FULL = new Set(['ENOSPC', 'EDQUOT']);
+
+/** A full disk while writing `outDir`: one line naming the output (the previous output is untouched). */
+function diskFullError(outDir: string, stage: string, err: NodeJS.ErrnoException): InputError {
+  return new InputError(
+    `--out ${outDir}: no space left on the device (${err.code} while writing the ${stage}); ` +
+      'nothing was replaced, the previous output is untouched; free space or choose another --out',
+  );
 }
 
 /** Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). */
@@ -107,18 +122,48 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const { inDir, outDir, onProgress } = options;
   const cellSize_m = options.cellSize_m ?? 1000;
   const progress = (stage: string, done: number, total: number) => onProgress?.({ stage, done, total });
+  const budget: BuildBudget = { ...defaultBudget(), ...options.budget };
+  // A build killed earlier may have left a swap half done: put the previous output back first.
+  recoverOutput(outDir);
+  checkOutputTarget(inDir, outDir);
   const { model, spec, name: modelName } = resolveModel(options);
   const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
 
-  const { config, inputs } = await loadInputs(inDir, (d, t) => progress('read', d, t));
+  const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
+  await faultPoint('read', inDir);
   const grid = analysisGridFor(
     inputs
       .filter((i) => i.role.required)
       .map((i) => ({ label: i.entry.file, grid: i.source.grid, validBox: i.source.validBox })),
     cellSize_m,
   );
+  const threads = options.workers ?? Math.min(8, availableParallelism());
+  checkBuildBudget(
+    {
+      outDir,
+      width: grid.width,
+      height: grid.height,
+      cellSize_m,
+      ...estimateBuild({
+        width: grid.width,
+        height: grid.height,
+        bands: model.layers.length + 8,
+        inputs: inputs.length,
+        threads,
+        inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
+        geotiff: options.geotiff !== false,
+      }),
+    },
+    budget,
+  );
   const output = await beginAtomicOutput(outDir);
+  let stage: FaultStage = 'screen';
+  const enter = async (next: FaultStage, target: string) => {
+    stage = next;
+    await faultPoint(next, target);
+  };
   try {
+    await enter('screen', output.dir);
     const bandsDir = join(output.dir, '.bands');
     const result = await computeLayers({
       grid,
@@ -126,7 +171,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       inputs,
       model,
       spec,
-      workers: options.workers ?? Math.min(8, availableParallelism()),
+      workers: threads,
       minCellsForWorkers: options.minCellsForWorkers,
       onProgress: (d, t) => progress('screen', d, t),
     });
@@ -148,6 +193,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     ];
     const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
 
+    await enter('tiles', join(output.dir, 'tiles'));
     const tilesByZoom = await writeTilePyramid({
       tilesDir: join(output.dir, 'tiles'),
       grid,
@@ -161,6 +207,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     });
     let geotiffs: Record<string, string> | undefined;
     if (options.geotiff !== false) {
+      await enter('geotiff', join(output.dir, 'geotiff'));
       geotiffs = {};
       await mkdir(join(output.dir, 'geotiff'));
       for (let i = 0; i < bands.length; i++) {
@@ -184,9 +231,11 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         progress('geotiff', i + 1, bands.length);
       }
     }
-    if (config.settlements)
-      await copyFile(join(inDir, config.settlements), join(output.dir, 'settlements.geojson'));
-    if (config.land) await copyFile(join(inDir, config.land), join(output.dir, 'land.geojson'));
+    await enter('manifest', join(output.dir, 'manifest.json'));
+    // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
+    if (geojson.settlements !== undefined)
+      await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
+    if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
     const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
     const shares: Record<string, Record<string, number>> = {};
     result.layers.forEach((layer, i) => {
@@ -227,6 +276,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     const checked = manifestSchema.parse(manifest);
     await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
     await validateOutput(output.dir, checked);
+    stage = 'swap';
     await output.commit();
     return {
       outDir,
@@ -248,6 +298,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     };
   } catch (err) {
     await output.discard();
+    const code = (err as NodeJS.ErrnoException)?.code;
+    if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
     throw err;
   }
 }

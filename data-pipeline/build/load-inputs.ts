@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { formatZodIssues, InputError } from '../input-error';
+import { ValidationError } from '../../layers/validation-error';
 import {
   GRID_ROLES,
   INPUTS_CONFIG_FILE,
@@ -17,7 +17,12 @@ import {
   type GridRole,
   type InputsConfig,
 } from '../inputs-config';
+import { InputError } from '../input-error';
+import { validateGeoJsonLayer, type GeoJsonLayer } from '../read/geojson-input';
+import { resolveInputFile } from '../read/input-paths';
+import { MAX_JSON_BYTES, readJsonFile } from '../read/read-json-file';
 import { openGeoTiffGrid, readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
+import { defaultBudget, type BuildBudget } from './build-budget';
 
 /** An input grid as screening needs it: where to read it and how (its values stay in the file). */
 export interface InputSource {
@@ -44,30 +49,37 @@ export interface LoadedInputs {
   config: InputsConfig;
   configFile: string;
   inputs: LoadedInput[];
+  /** The validated text of each GeoJSON layer the config lists, published as read. */
+  geojson: Partial<Record<GeoJsonLayer, string>>;
 }
 
 /** Read and validate the inputs config in `inDir`. */
 export async function readInputsConfig(inDir: string, file = INPUTS_CONFIG_FILE): Promise<InputsConfig> {
-  let text: string;
-  try {
-    text = await readFile(join(inDir, file), 'utf8');
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    throw new InputError(
-      code === 'ENOENT'
-        ? `${file}: file not found in ${inDir}`
-        : `${file}: cannot read (${code ?? String(err)})`,
-    );
-  }
+  const path = join(inDir, file);
   let json: unknown;
   try {
-    json = JSON.parse(text);
+    json = await readJsonFile(path, file);
   } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
+    if (err instanceof InputError && err.message === `${file}: file not found`) {
+      throw new InputError(`${file}: file not found in ${inDir}`);
+    }
+    throw err;
   }
   const parsed = inputsConfigSchema.safeParse(json);
-  if (!parsed.success) throw new InputError(formatZodIssues(file, parsed.error));
+  if (!parsed.success) throw ValidationError.fromZod(file, parsed.error);
   return parsed.data;
+}
+
+/** Read a GeoJSON layer the config lists (inside the inputs directory) and validate it as RFC 7946. */
+async function readGeoJsonLayer(inDir: string, layer: GeoJsonLayer, file: string): Promise<string> {
+  const path = await resolveInputFile(inDir, file, layer, INPUTS_CONFIG_FILE);
+  const bytes = await readFile(path);
+  if (bytes.byteLength > MAX_JSON_BYTES) {
+    throw new InputError(`${file}: ${bytes.byteLength} bytes, over the limit of ${MAX_JSON_BYTES} bytes`);
+  }
+  const text = bytes.toString('utf8');
+  validateGeoJsonLayer(layer, file, text);
+  return text;
 }
 
 /**
@@ -108,9 +120,14 @@ const SCAN_CELLS = 1 << 20;
  * Open one input and scan it block by block of rows: unit conversion + range check and the bounding
  * box of its valid pixels. Nothing of the grid is kept: screening reads windows again from the file.
  */
-async function scanInput(inDir: string, entry: GridEntry): Promise<LoadedInput> {
-  const path = join(inDir, entry.file);
-  const opened = await openGeoTiffGrid(path, { label: entry.file, nodataOverride: entry.nodata });
+async function scanInput(
+  inDir: string,
+  entry: GridEntry,
+  index: number,
+  budget: BuildBudget,
+): Promise<LoadedInput> {
+  const path = await resolveInputFile(inDir, entry.file, `grids.${index}.file`, INPUTS_CONFIG_FILE);
+  const opened = await openGeoTiffGrid(path, { label: entry.file, nodataOverride: entry.nodata, budget });
   try {
     const { width, height } = opened.header;
     const source: InputSource = {
@@ -149,12 +166,20 @@ async function scanInput(inDir: string, entry: GridEntry): Promise<LoadedInput> 
 }
 
 /** Read the config and scan every grid in it (converted and range-checked; values not kept). */
-export async function loadInputs(inDir: string, onGrid?: (done: number, total: number) => void) {
+export async function loadInputs(
+  inDir: string,
+  onGrid?: (done: number, total: number) => void,
+  budget: BuildBudget = defaultBudget(),
+) {
   const config = await readInputsConfig(inDir);
+  const geojson: LoadedInputs['geojson'] = {};
+  if (config.settlements)
+    geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
+  if (config.land) geojson.land = await readGeoJsonLayer(inDir, 'land', config.land);
   const inputs: LoadedInput[] = [];
-  for (const entry of config.grids) {
-    inputs.push(await scanInput(inDir, entry));
+  for (const [i, entry] of config.grids.entries()) {
+    inputs.push(await scanInput(inDir, entry, i, budget));
     onGrid?.(inputs.length, config.grids.length);
   }
-  return { config, configFile: INPUTS_CONFIG_FILE, inputs } satisfies LoadedInputs;
+  return { config, configFile: INPUTS_CONFIG_FILE, inputs, geojson } satisfies LoadedInputs;
 }

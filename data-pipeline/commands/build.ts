@@ -1,26 +1,27 @@
 /** `pile-atlas build`: screen a region and write the tile pyramid, GeoTIFFs and manifest. */
-import { readFile } from 'node:fs/promises';
 import { availableParallelism } from 'node:os';
+import { defaultBudget, type BuildBudget } from '../build/build-budget';
 import { buildTiles, type BuildSummary } from '../build/build-tiles';
 import { InputError } from '../input-error';
 import { INPUTS_CONFIG_FILE } from '../inputs-config';
 import { createProgressBar } from '../progress-bar';
 import type { Command } from './command';
-import { numberOption, parseOptions, requireOption } from './parse-options';
+import { readJsonFile } from '../read/read-json-file';
+import { numberOption, parseOptions, requireOption, type ParsedOptions } from './parse-options';
 
-async function readScenario(file: string): Promise<unknown> {
-  let text: string;
-  try {
-    text = await readFile(file, 'utf8');
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    throw new InputError(`${file}: ${code === 'ENOENT' ? 'file not found' : `cannot read (${code})`}`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
-  }
+const MB = 1024 * 1024;
+
+/** The budget options (--max-*), over the defaults. */
+function budgetOptions(opts: ParsedOptions): BuildBudget {
+  const d = defaultBudget();
+  const mb = (name: string, fallback: number) =>
+    Math.round(numberOption('build', opts, name, fallback / MB, 0.001, 1e9) * MB);
+  return {
+    maxInputBytes: mb('max-input-mb', d.maxInputBytes),
+    maxCells: numberOption('build', opts, 'max-cells', d.maxCells, 1, 1e12, true),
+    maxMemoryBytes: mb('max-memory-mb', d.maxMemoryBytes),
+    ...(opts.values['max-disk-mb'] !== undefined ? { maxDiskBytes: mb('max-disk-mb', 0) } : {}),
+  };
 }
 
 /** The run summary for stderr: cells, time, and the share of cells in each class of the class bands. */
@@ -53,7 +54,11 @@ writes:
   <out>/geotiff/<band>.tif      every band as a GeoTIFF in EPSG:3413 (nodata -9999)
   <out>/manifest.json           bands, units, ranges, sources with sha256, scenario, run summary
   <out>/settlements.geojson, <out>/land.geojson (copied when the config lists them)
-The output is replaced atomically: if anything fails, a previous <out> stays as it was.
+The output is replaced atomically: if anything fails or the build is killed, a previous <out> stays
+as it was (the next build finishes the recovery and removes what a killed build left behind). --out
+may not be --in, lie inside it or contain it, or name a file or a non-empty directory that is not a
+previous build. Before reading pixels the build checks each grid's declared size, the analysis grid,
+and the memory and disk it needs against a budget.
 
 Options:
   --in <dir>          inputs directory (holding ${INPUTS_CONFIG_FILE})
@@ -64,12 +69,28 @@ Options:
   --workers N         worker threads (default: cores, here ${availableParallelism()})
   --no-geotiff        skip the per-band GeoTIFFs
   --quiet             no progress bar
+  --max-input-mb N    decoded size allowed per input grid (default ${defaultBudget().maxInputBytes / MB})
+  --max-cells N       analysis grid cells allowed (default ${defaultBudget().maxCells})
+  --max-memory-mb N   estimated memory allowed (default 3/4 of RAM, here ${Math.round(defaultBudget().maxMemoryBytes / MB)})
+  --max-disk-mb N     disk the build may fill (default: the free space where --out is)
+  --verbose           every issue of a bad input, one per line, and stack traces of internal errors
   --help              this text
 
 Prints a JSON summary on stdout; progress with ETA and the run summary on stderr.`,
   async run(argv) {
     const opts = parseOptions('build', argv, {
-      values: ['in', 'out', 'cell-size', 'scenario', 'model', 'workers'],
+      values: [
+        'in',
+        'out',
+        'cell-size',
+        'scenario',
+        'model',
+        'workers',
+        'max-input-mb',
+        'max-cells',
+        'max-memory-mb',
+        'max-disk-mb',
+      ],
       flags: ['quiet', 'no-geotiff'],
     });
     const inDir = requireOption('build', opts, 'in');
@@ -84,7 +105,8 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
       throw new InputError('build: --scenario applies to --model screening only');
     }
     const scenarioFile = opts.values.scenario;
-    const scenario = scenarioFile ? await readScenario(scenarioFile) : undefined;
+    const scenario = scenarioFile ? await readJsonFile(scenarioFile, scenarioFile) : undefined;
+    const budget = budgetOptions(opts);
     const summary = await buildTiles({
       inDir,
       outDir,
@@ -94,6 +116,7 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
       scenario,
       scenarioFile,
       geotiff: !opts.flags.has('no-geotiff'),
+      budget,
       onProgress: opts.flags.has('quiet') ? undefined : createProgressBar(),
     });
     if (!opts.flags.has('quiet')) process.stderr.write(formatRunSummary(summary));

@@ -1,6 +1,7 @@
 /** `pile-atlas cell <input.json>`: one cell's screening metrics, flags and criteria as JSON. */
-import { parseCellInputs, screenCell } from '../../layers/screening/cell-screening-model';
-import { parseScenario } from '../../layers/screening/scenario';
+import { cellInputSchema, screenCell } from '../../layers/screening/cell-screening-model';
+import { scenarioSchema } from '../../layers/screening/scenario';
+import { ValidationError } from '../../layers/validation-error';
 import { InputError } from '../input-error';
 import type { Command } from './command';
 import { readJsonInput } from './read-json-input';
@@ -48,16 +49,11 @@ Options:
       scenarioFile = opts.values.scenario;
       scenarioJson = await readJsonInput(scenarioFile);
     }
-    try {
-      parseCellInputs(cellJson);
-    } catch (err) {
-      throw new InputError(`${file}: ${wrapped ? 'cell: ' : ''}${(err as Error).message}`);
-    }
-    try {
-      parseScenario(scenarioJson);
-    } catch (err) {
-      throw new InputError(`${scenarioFile}: ${(err as Error).message}`);
-    }
+    // Both validated here, so that an error the model throws afterwards is a bug (exit 1).
+    const cell = cellInputSchema.safeParse(cellJson);
+    if (!cell.success) throw ValidationError.fromZod(wrapped ? `${file}: cell` : file, cell.error);
+    const scenario = scenarioSchema.safeParse(scenarioJson ?? {});
+    if (!scenario.success) throw ValidationError.fromZod(scenarioFile, scenario.error);
     const result = screenCell(cellJson, scenarioJson);
     const text = opts.flags.has('compact') ? JSON.stringify(result) : JSON.stringify(result, null, 2);
     process.stdout.write(text + '\n');

@@ -2,6 +2,9 @@
 import { DEMO_SEED, generateDemoData } from '../demo/generate-demo-data';
 import type { Command } from './command';
 import { numberOption, parseOptions, requireOption } from './parse-options';
+import { readdirSync, statSync } from 'node:fs';
+import { InputError } from '../input-error';
+import { INPUTS_CONFIG_FILE } from '../inputs-config';
 
 export const demoDataCommand: Command = {
   name: 'demo-data',
@@ -26,6 +29,7 @@ Prints a JSON summary on stdout.`,
     const outDir = requireOption('demo-data', opts, 'out');
     const seed = numberOption('demo-data', opts, 'seed', DEMO_SEED, 0, 2 ** 32 - 1, true);
     const resolutionScale = numberOption('demo-data', opts, 'resolution-scale', 1, 0.25, 64);
+    refuseToOverwrite(outDir);
     const started = Date.now();
     await generateDemoData({ outDir, seed, resolutionScale });
     process.stdout.write(
@@ -40,3 +44,20 @@ Prints a JSON summary on stdout.`,
     return 0;
   },
 };
+
+/** demo-data writes into --out: refuse a file, or a non-empty directory that is not a demo region. */
+function refuseToOverwrite(outDir: string): void {
+  let st;
+  try {
+    st = statSync(outDir);
+  } catch {
+    return;
+  }
+  if (!st.isDirectory()) throw new InputError(`--out ${outDir}: names an existing file, not a directory`);
+  const names = readdirSync(outDir);
+  if (names.length > 0 && !names.includes(INPUTS_CONFIG_FILE)) {
+    throw new InputError(
+      `--out ${outDir}: an existing non-empty directory that is not an inputs directory (no ${INPUTS_CONFIG_FILE}); refusing to write into it`,
+    );
+  }
+}

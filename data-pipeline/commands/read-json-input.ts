@@ -1,24 +1,27 @@
 /** Reads a command's JSON input from a file, or from standard input when the name is `-`. */
-import { readFile } from 'node:fs/promises';
 import { InputError } from '../input-error';
+import { MAX_JSON_BYTES, parseJsonText, readJsonFile } from '../read/read-json-file';
 
 async function readStdin(): Promise<string> {
   const chunks: Buffer[] = [];
-  for await (const c of process.stdin) chunks.push(c as Buffer);
+  let bytes = 0;
+  for await (const c of process.stdin) {
+    bytes += (c as Buffer).byteLength;
+    if (bytes > MAX_JSON_BYTES) throw new InputError(`stdin: over the limit of ${MAX_JSON_BYTES} bytes`);
+    chunks.push(c as Buffer);
+  }
   return Buffer.concat(chunks).toString('utf8');
 }
 
 /** Parsed JSON of `file` (or stdin for `-`); an unreadable file or bad JSON is an InputError naming it. */
 export async function readJsonInput(file: string): Promise<unknown> {
+  if (file !== '-') return readJsonFile(file, file);
   let text: string;
   try {
-    text = file === '-' ? await readStdin() : await readFile(file, 'utf8');
+    text = await readStdin();
   } catch (err) {
-    throw new InputError(`${file}: cannot read (${(err as Error).message})`);
+    if (err instanceof InputError) throw err;
+    throw new InputError(`stdin: cannot read (${(err as NodeJS.ErrnoException).code ?? String(err)})`);
   }
-  try {
-    return JSON.parse(text);
-  } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
-  }
+  return parseJsonText('-', text);
 }

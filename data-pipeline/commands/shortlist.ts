@@ -1,5 +1,7 @@
 /** `pile-atlas shortlist`: filter a build's cells (or settlements) and write RFC 7946 GeoJSON. */
 import { writeFile } from 'node:fs/promises';
+import { isAbsolute, relative, resolve } from 'node:path';
+import { InputError } from '../input-error';
 import { shortlist } from '../shortlist/shortlist-cells';
 import type { Command } from './command';
 import { numberOption, parseOptions, requireOption } from './parse-options';
@@ -43,6 +45,11 @@ Screening estimate, not a design.`,
     const tilesDir = requireOption('shortlist', opts, 'tiles');
     const where = requireOption('shortlist', opts, 'where');
     const limit = numberOption('shortlist', opts, 'limit', 10_000, 1, 10_000_000, true);
+    const out = opts.values.out;
+    const rel = out === undefined ? '..' : relative(resolve(tilesDir), resolve(out));
+    if (rel === '' || (!rel.startsWith('..') && !isAbsolute(rel))) {
+      throw new InputError(`--out ${out}: lies inside the build (--tiles ${tilesDir}); write it elsewhere`);
+    }
     const collection = await shortlist({
       tilesDir,
       where,

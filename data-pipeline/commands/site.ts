@@ -1,7 +1,8 @@
 /** `pile-atlas site <input.json | ->`: the single-site transient simulation, JSON in, JSON out. */
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
-import { formatZodIssues, InputError } from '../input-error';
+import { ValidationError } from '../../layers/validation-error';
+import { InputError } from '../input-error';
 import type { Command } from './command';
 import { readJsonInput } from './read-json-input';
 import { parseOptions } from './parse-options';
@@ -32,26 +33,20 @@ Options:
     const file = opts.positional[0];
     const raw = await readJsonInput(file);
     const parsed = siteInputSchema.safeParse(raw);
-    if (!parsed.success) throw new InputError(formatZodIssues(file, parsed.error));
+    if (!parsed.success) throw ValidationError.fromZod(file, parsed.error);
     let last = -1;
-    let result;
-    try {
-      result = simulateSite(parsed.data, {
-        onProgress: opts.flags.has('progress')
-          ? (f) => {
-              const pct = Math.floor(f * 10) * 10;
-              if (pct !== last) {
-                last = pct;
-                process.stderr.write(`site: ${pct} %\n`);
-              }
+    // The input passed its schema: an error the simulator throws now is a bug (exit 1), not bad input.
+    const result = simulateSite(parsed.data, {
+      onProgress: opts.flags.has('progress')
+        ? (f) => {
+            const pct = Math.floor(f * 10) * 10;
+            if (pct !== last) {
+              last = pct;
+              process.stderr.write(`site: ${pct} %\n`);
             }
-          : undefined,
-      });
-    } catch (err) {
-      if (err instanceof RangeError || err instanceof TypeError)
-        throw new InputError(`${file}: ${err.message}`);
-      throw err;
-    }
+          }
+        : undefined,
+    });
     for (const w of result.warnings) process.stderr.write(`site: warning: ${w}\n`);
     process.stdout.write(JSON.stringify(result, null, opts.flags.has('compact') ? undefined : 2) + '\n');
     return 0;

@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import { open, readFile } from 'node:fs/promises';
 import { fromArrayBuffer, fromFile, type GeoTIFFImage } from 'geotiff';
 import type { Grid } from '../../layers/grid';
+import { checkRasterBudget, defaultBudget, type BuildBudget } from '../build/build-budget';
 import { CRS_DEFINITIONS, proj4DefinitionFor } from '../crs/crs-definitions';
 import { InputError } from '../input-error';
 
@@ -25,6 +26,8 @@ export interface SourceGrid {
 export interface ReadGridOptions {
   label: string;
   nodataOverride?: number;
+  /** Declared-size budget checked before any pixel is decoded (default: defaultBudget()). */
+  budget?: BuildBudget;
 }
 
 const USER_DEFINED = 32767;
@@ -101,8 +104,16 @@ async function geoTransformOf(image: GeoTIFFImage, label: string): Promise<Grid[
   return gt;
 }
 
-/** Check that every strip or tile lies inside the file (a truncated download fails here). */
-async function checkDataInFile(image: GeoTIFFImage, label: string, fileLength: number): Promise<void> {
+/**
+ * Check that every strip or tile lies inside the file (a truncated download fails here) and that the
+ * declared size is within the budget (a decompression bomb fails here), before any pixel is decoded.
+ */
+async function checkDataInFile(
+  image: GeoTIFFImage,
+  label: string,
+  fileLength: number,
+  budget: BuildBudget,
+): Promise<void> {
   const offsets = asNumbers((await loadTag(image, 'StripOffsets')) ?? (await loadTag(image, 'TileOffsets')));
   const counts = asNumbers(
     (await loadTag(image, 'StripByteCounts')) ?? (await loadTag(image, 'TileByteCounts')),
@@ -117,6 +128,33 @@ async function checkDataInFile(image: GeoTIFFImage, label: string, fileLength: n
       );
     }
   }
+  let bitsPerSample: number;
+  let samplesPerPixel: number;
+  let blockWidth: number;
+  let blockHeight: number;
+  try {
+    bitsPerSample = image.getBitsPerSample(0);
+    samplesPerPixel = image.getSamplesPerPixel();
+    blockWidth = image.getTileWidth();
+    blockHeight = Math.min(image.getTileHeight(), image.getHeight());
+  } catch (err) {
+    throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+  }
+  checkRasterBudget(
+    label,
+    {
+      width: image.getWidth(),
+      height: image.getHeight(),
+      bitsPerSample,
+      samplesPerPixel,
+      blocks: offsets.length,
+      blockWidth,
+      blockHeight,
+      distinctOffsets: new Set(offsets).size,
+      fileBytes: fileLength,
+    },
+    budget,
+  );
 }
 
 /** A grid's georeferencing without its values. */
@@ -179,7 +217,7 @@ export async function openGeoTiffGrid(path: string, options: ReadGridOptions): P
     } catch (err) {
       throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
     }
-    await checkDataInFile(image, label, size);
+    await checkDataInFile(image, label, size, options.budget ?? defaultBudget());
     const geoTransform = await geoTransformOf(image, label);
     const crs = crsOf(image, label);
     const nodata = options.nodataOverride ?? image.getGDALNoData();
@@ -250,7 +288,7 @@ export async function readGeoTiffGrid(path: string, options: ReadGridOptions): P
   } catch (err) {
     throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
   }
-  await checkDataInFile(image, label, bytes.byteLength);
+  await checkDataInFile(image, label, bytes.byteLength, options.budget ?? defaultBudget());
   const geoTransform = await geoTransformOf(image, label);
   const crs = crsOf(image, label);
   const width = image.getWidth();

@@ -11,7 +11,9 @@ import type { Feature, FeatureCollection, Point, Polygon } from 'geojson';
 import { manifestSchema, type Band, type Manifest } from '../../layers/screening/manifest';
 import { horizonText } from '../../layers/screening/climate-horizon';
 import { createTransform } from '../crs/crs-definitions';
-import { formatZodIssues, InputError } from '../input-error';
+import { ValidationError } from '../../layers/validation-error';
+import { InputError } from '../input-error';
+import { parseJsonText } from '../read/read-json-file';
 import { readGeoTiffGrid } from '../read/read-geotiff-grid';
 import { compileWhere } from './where-expression';
 
@@ -45,14 +47,8 @@ async function readManifest(tilesDir: string): Promise<Manifest> {
   } catch {
     throw new InputError(`${file}: file not found (is --tiles the output of pile-atlas build?)`);
   }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (err) {
-    throw new InputError(`${file}: not valid JSON (${(err as Error).message})`);
-  }
-  const parsed = manifestSchema.safeParse(json);
-  if (!parsed.success) throw new InputError(formatZodIssues(file, parsed.error));
+  const parsed = manifestSchema.safeParse(parseJsonText(file, text));
+  if (!parsed.success) throw ValidationError.fromZod(file, parsed.error);
   return parsed.data;
 }
 

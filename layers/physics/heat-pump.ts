@@ -14,6 +14,7 @@
  */
 import { z } from 'zod';
 import { requireRange } from './validate';
+import { formatIssue } from '../validation-error';
 
 export const HeatPumpCurveSchema = z
   .object({
@@ -64,7 +65,7 @@ export function heatPumpAt(input: { enteringFluid_C: number; curve?: HeatPumpCur
   const parsed = HeatPumpCurveSchema.safeParse(input.curve ?? DEFAULT_HEAT_PUMP_CURVE);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    throw new RangeError(`curve.${issue.path.join('.')}: ${issue.message}`);
+    throw new RangeError(formatIssue(issue, { prefix: 'curve' }));
   }
   const c = parsed.data;
   return {

@@ -1,5 +1,4 @@
-import type { TextureName } from '../screening/screening-model';
-import { TEXTURE_CODES } from '../screening/screening-model';
+import { TEXTURE_CODES, type TextureName } from './texture-codes';
 import { SOIL_CONSTITUENTS as S } from './soil-constituents';
 import {
   johansenConductivity_W_mK,

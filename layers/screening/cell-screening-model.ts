@@ -25,6 +25,7 @@ import {
 } from './suitability';
 import { BINDING_LABELS } from './operating-window';
 import { horizonText } from './climate-horizon';
+import { formatZodIssues } from '../validation-error';
 
 /** Build the per-cell model for a scenario (defaults filled in; throws TypeError naming bad fields). */
 export function createScreeningModel(scenario: unknown = {}): ScreeningModel & { scenario: Scenario } {
@@ -77,7 +78,7 @@ export type CellInputJson = z.input<typeof cellInputSchema>;
 export function parseCellInputs(input: unknown): CellInputs {
   const r = cellInputSchema.safeParse(input);
   if (!r.success) {
-    const lines = r.error.issues.map((i) => `${i.path.length ? i.path.join('.') : '(root)'}: ${i.message}`);
+    const lines = formatZodIssues(r.error);
     throw new TypeError(`invalid cell inputs: ${lines.join('; ')}`);
   }
   return r.data;

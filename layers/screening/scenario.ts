@@ -9,6 +9,7 @@
  */
 import { z } from 'zod';
 import { DEFAULT_HEAT_PUMP_CURVE, HeatPumpCurveSchema } from '../physics/heat-pump';
+import { formatZodIssues } from '../validation-error';
 
 const pos = () => z.number().positive();
 const frac = () => z.number().gt(0).lte(1);
@@ -244,6 +245,6 @@ export const DEFAULT_SCENARIO: Scenario = scenarioSchema.parse({});
 export function parseScenario(input: unknown): Scenario {
   const r = scenarioSchema.safeParse(input ?? {});
   if (r.success) return r.data;
-  const lines = r.error.issues.map((i) => `${i.path.length ? i.path.join('.') : '(root)'}: ${i.message}`);
+  const lines = formatZodIssues(r.error);
   throw new TypeError(`invalid scenario: ${lines.join('; ')}`);
 }

@@ -13,7 +13,7 @@ export interface CellInputs {
   airAmplitude_C: number;
   /** Linear warming trend of the air, K per year. */
   warming_C_per_yr: number;
-  /** Soil texture class code (see TEXTURE_CODES in layers/physics/soil-catalogue.ts). */
+  /** Soil texture class code (see TEXTURE_CODES in layers/physics/texture-codes.ts). */
   textureClass: number;
   /** Volumetric total water + ice content, m³/m³. */
   waterContent_m3m3: number;
@@ -29,17 +29,8 @@ export interface CellInputs {
   latitude_deg: number;
 }
 
-/** Texture class codes used by every grid in the product (uint8 in GeoTIFFs, 0 = nodata). */
-export const TEXTURE_CODES = {
-  1: 'gravel',
-  2: 'sand',
-  3: 'silt',
-  4: 'clay',
-  5: 'peat',
-  6: 'bedrock',
-} as const;
-export type TextureCode = keyof typeof TEXTURE_CODES;
-export type TextureName = (typeof TEXTURE_CODES)[TextureCode];
+/** Texture class codes (layers/physics/texture-codes.ts). */
+export { TEXTURE_CODES, type TextureCode, type TextureName } from '../physics/texture-codes';
 
 export interface ScreeningLayer {
   id: string;

@@ -20,6 +20,7 @@ import {
   pileRules,
   soilRules,
 } from './site-input-rules';
+import { formatZodIssues } from '../validation-error';
 
 /** Defaults and their provenance. */
 export const SITE_DEFAULTS = {
@@ -413,7 +414,7 @@ export type SiteInputDraft = z.input<typeof siteInputSchema>;
 
 /** Formats zod issues as one line each: `path: message`. */
 export function formatSiteInputIssues(error: z.ZodError): string[] {
-  return error.issues.map((iss) => `${iss.path.length ? iss.path.join('.') : '(root)'}: ${iss.message}`);
+  return formatZodIssues(error);
 }
 
 /**

@@ -9,11 +9,11 @@ import { join, resolve } from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import type { PreviewServer } from 'vite';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import { ensureDemoTiles } from '../../data-pipeline/demo/ensure-demo-tiles';
 import {
   buildWebAppIfStale,
   DEFAULT_DATA_DIR,
   DEFAULT_INPUTS_DIR,
-  ensureDemoTiles,
   serveWebApp,
 } from '../../web/build/web-server';
 

@@ -1,8 +1,9 @@
 /** Shared fixtures for the pipeline tests: temporary directories, hashes, a small demo region. */
 import { createHash } from 'node:crypto';
-import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
+import { link, mkdir, mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { deflateSync } from 'node:zlib';
 import { vi } from 'vitest';
 import { main } from '../../data-pipeline/cli';
 import { generateDemoData } from '../../data-pipeline/demo/generate-demo-data';
@@ -103,4 +104,66 @@ export async function writePlainTiff(path: string, width: number, height: number
   });
   for (let i = 0; i < width * height; i++) buf.writeFloatLE(-3 + i * 0.01, dataOffset + i * 4);
   await writeFile(path, buf);
+}
+
+/**
+ * A copy of the directory `src` made of hard links (instant, no bytes copied). Replace a file with
+ * `replaceFile`, never write into a linked one: that would change the original too.
+ */
+export async function linkedCopy(src: string, prefix = 'linked'): Promise<string> {
+  const dir = join(await makeTempDir(prefix), 'in');
+  await mkdir(dir);
+  for (const name of await readdir(src)) await link(join(src, name), join(dir, name));
+  return dir;
+}
+
+/** Replace `dir/name` (unlinking it first, so a hard-linked original is left alone). */
+export async function replaceFile(dir: string, name: string, content: string | Uint8Array): Promise<void> {
+  await rm(join(dir, name), { force: true, recursive: true });
+  await writeFile(join(dir, name), content);
+}
+
+/**
+ * A decompression bomb (issue 16): a TIFF declaring `width` x `height` Float32 pixels, deflate
+ * compressed, one row per strip, every strip pointing at the same small compressed payload of one
+ * row of zeros. The file is a few hundred kB; decoded it would be width x height x 4 bytes.
+ */
+export function tiffBomb(width: number, height: number): Uint8Array {
+  const payload = deflateSync(Buffer.alloc(width * 4));
+  const tags: [number, number, number, number | 'offsets' | 'counts'][] = [
+    [256, 4, 1, width],
+    [257, 4, 1, height],
+    [258, 3, 1, 32],
+    [259, 3, 1, 8],
+    [262, 3, 1, 1],
+    [273, 4, height, 'offsets'],
+    [277, 3, 1, 1],
+    [278, 4, 1, 1],
+    [279, 4, height, 'counts'],
+    [339, 3, 1, 3],
+  ];
+  const ifdSize = 2 + tags.length * 12 + 4;
+  const offsetsAt = 8 + ifdSize;
+  const countsAt = offsetsAt + height * 4;
+  const payloadAt = countsAt + height * 4;
+  const buf = Buffer.alloc(payloadAt + payload.byteLength);
+  buf.write('II', 0, 'latin1');
+  buf.writeUInt16LE(42, 2);
+  buf.writeUInt32LE(8, 4);
+  buf.writeUInt16LE(tags.length, 8);
+  tags.forEach(([tag, type, count, value], i) => {
+    const o = 10 + i * 12;
+    buf.writeUInt16LE(tag, o);
+    buf.writeUInt16LE(type, o + 2);
+    buf.writeUInt32LE(count, o + 4);
+    const v = value === 'offsets' ? offsetsAt : value === 'counts' ? countsAt : value;
+    if (type === 3) buf.writeUInt16LE(v, o + 8);
+    else buf.writeUInt32LE(v, o + 8);
+  });
+  for (let r = 0; r < height; r++) {
+    buf.writeUInt32LE(payloadAt, offsetsAt + r * 4);
+    buf.writeUInt32LE(payload.byteLength, countsAt + r * 4);
+  }
+  payload.copy(buf, payloadAt);
+  return buf;
 }

@@ -1,6 +1,7 @@
 /**
- * Node-side helpers shared by `npm start` and the browser tests: make sure a data build exists, build
- * the web app once with Vite, and serve it (Vite preview, data at /data/).
+ * Node-side helpers shared by `npm start` and the browser tests: build the web app once with Vite and
+ * serve it (Vite preview, data at /data/). Making the data build is the pipeline's part
+ * (data-pipeline/demo/ensure-demo-tiles.ts): web/ does not import the pipeline.
  */
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import { resolve } from 'node:path';
@@ -11,29 +12,6 @@ export const REPO_ROOT = resolve(fileURLToPath(new URL('.', import.meta.url)), '
 export const DEFAULT_DATA_DIR = resolve(REPO_ROOT, '.cache/demo-tiles');
 export const DEFAULT_INPUTS_DIR = resolve(REPO_ROOT, '.cache/demo-data');
 export const WEB_OUT_DIR = resolve(REPO_ROOT, 'dist/web');
-
-/**
- * Generate the demo inputs and build their tiles into `dataDir` unless a manifest is already there.
- * Returns whether anything was built.
- */
-export async function ensureDemoTiles(options: {
-  dataDir: string;
-  inputsDir: string;
-  log?: (line: string) => void;
-}): Promise<boolean> {
-  const { dataDir, inputsDir } = options;
-  const log = options.log ?? (() => undefined);
-  if (existsSync(resolve(dataDir, 'manifest.json'))) return false;
-  const { generateDemoData } = await import('../../data-pipeline/demo/generate-demo-data');
-  const { buildTiles } = await import('../../data-pipeline/build/build-tiles');
-  if (!existsSync(resolve(inputsDir, 'pile-atlas-inputs.json'))) {
-    log(`generating the fictional demo region into ${inputsDir} …`);
-    await generateDemoData({ outDir: inputsDir });
-  }
-  log(`building tiles into ${dataDir} …`);
-  await buildTiles({ inDir: inputsDir, outDir: dataDir });
-  return true;
-}
 
 /** Build the web app (production bundle) with the data directory baked into the preview plugin. */
 export async function buildWebApp(dataDir: string): Promise<void> {

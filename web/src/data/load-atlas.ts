@@ -9,6 +9,7 @@ import { manifestSchema, type Manifest } from '../../../layers/screening/manifes
 import { buildCellTable, samplingZoom, type CellTable } from './cell-table';
 import { createTileStore, type TileStore } from './tile-store';
 import { tilesCovering } from '../map/web-mercator';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 export interface Atlas {
   manifest: Manifest;
@@ -52,7 +53,7 @@ export async function loadAtlas(dataBase: URL): Promise<Atlas> {
   if (!parsed.success) {
     throw new AtlasLoadError(
       'The data manifest does not match the expected format.',
-      parsed.error.issues.map((i) => `${i.path.join('.') || '(root)'}: ${i.message}`),
+      formatZodIssues(parsed.error),
     );
   }
   const manifest = parsed.data;

@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import type { Boundary } from './zonal-summary';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 const position = z.tuple([z.number().min(-180).max(180), z.number().min(-90).max(90)]).rest(z.number());
 const ring = z.array(position).min(4);
@@ -30,9 +31,7 @@ export function parseBoundary(json: unknown): { boundary: Boundary | null; probl
   const take = (g: unknown, path: string) => {
     const r = geometry.safeParse(g);
     if (!r.success) {
-      problems.push(
-        ...r.error.issues.map((i) => `${path}${i.path.length ? '.' + i.path.join('.') : ''}: ${i.message}`),
-      );
+      problems.push(...formatZodIssues(r.error, { prefix: path }));
       return;
     }
     const strip = (rings: number[][][]): Pos[][] => rings.map((rg) => rg.map((p) => [p[0], p[1]] as Pos));

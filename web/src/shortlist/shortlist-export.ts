@@ -14,6 +14,7 @@ import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { horizonText } from '../../../layers/screening/climate-horizon';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 type PropertyValue = string | number | boolean | null | Record<string, unknown>;
 
@@ -153,7 +154,7 @@ export function shortlistFromGeoJSON(
   if (!parsed.success) {
     return {
       items: [],
-      issues: parsed.error.issues.map((i) => `${i.path.join('.') || '(root)'}: ${i.message}`),
+      issues: formatZodIssues(parsed.error),
     };
   }
   const items: ShortlistItem[] = [];
@@ -184,7 +185,7 @@ export function shortlistFromGeoJSON(
     };
     const ok = shortlistItemSchema.safeParse(candidate);
     if (ok.success) items.push(ok.data);
-    else issues.push(...ok.error.issues.map((iss) => `features.${i}.${iss.path.join('.')}: ${iss.message}`));
+    else issues.push(...formatZodIssues(ok.error, { prefix: `features.${i}` }));
   });
   return { items, issues };
 }

@@ -15,6 +15,7 @@
  */
 import { z } from 'zod';
 import { shortlistItemSchema, type NewShortlistItem, type ShortlistItem } from './shortlist-item';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 export const SHORTLIST_STORAGE_KEY = 'pile-atlas.shortlist.v1';
 
@@ -38,7 +39,7 @@ export interface ShortlistStore {
 }
 
 function issuesText(error: z.ZodError): string {
-  return error.issues.map((i) => `${i.path.join('.') || '(root)'}: ${i.message}`).join('; ');
+  return formatZodIssues(error).join('; ');
 }
 
 let counter = 0;

@@ -10,6 +10,7 @@
 import { z } from 'zod';
 import type { FilterSpec } from '../filters/cell-filter';
 import type { UnitSystem } from '../units/display-units';
+import { formatZodIssues } from '../../../layers/validation-error';
 
 export interface ViewState {
   center: [number, number];
@@ -90,7 +91,7 @@ export function parseUrlState(
   });
   const parsed = urlSchema.safeParse(raw);
   if (!parsed.success) {
-    for (const i of parsed.error.issues) problems.push(`${i.path.join('.') || '(url)'}: ${i.message}`);
+    problems.push(...formatZodIssues(parsed.error, { root: '(url)' }));
     return { state: defaults, problems };
   }
   const p = parsed.data;

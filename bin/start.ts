@@ -1,16 +1,12 @@
 /**
  * `npm start`: build the fictional demo region and its tiles if they are missing, build the web app,
- * serve it and print its URL. Environment: PILE_ATLAS_DATA (a pipeline build to serve instead of the
+ * serve it and print its URL. It lives in bin/ because it joins the pipeline and the web app, which
+ * do not import each other. Environment: PILE_ATLAS_DATA (a pipeline build to serve instead of the
  * demo, default .cache/demo-tiles), PORT (default 5173; the next free port is used if taken).
  */
 import { resolve } from 'node:path';
-import {
-  buildWebApp,
-  DEFAULT_DATA_DIR,
-  DEFAULT_INPUTS_DIR,
-  ensureDemoTiles,
-  serveWebApp,
-} from '../web/build/web-server';
+import { ensureDemoTiles } from '../data-pipeline/demo/ensure-demo-tiles';
+import { buildWebApp, DEFAULT_DATA_DIR, DEFAULT_INPUTS_DIR, serveWebApp } from '../web/build/web-server';
 
 const log = (line: string) => process.stderr.write(`${line}\n`);
 
