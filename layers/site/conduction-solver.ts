@@ -95,6 +95,10 @@ export class SiteStepError extends RangeError {
 
 /** Passes of the enthalpy Newton iteration before the step is halved (model choice). */
 const MAX_PHASE_PASSES = 16;
+/** Passes whose state updates the conductivities (Picard on k), then held (model choice). */
+const PICARD_PASSES = 4;
+/** Passes after which the next linearisation state is relaxed by half (model choice). */
+const DAMP_AFTER = 8;
 /** Halvings of one step before the run stops with an error (a step of Δt / 2^10). */
 const MAX_STEP_HALVINGS = 10;
 
@@ -158,18 +162,26 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
         newtonUpdate();
         break;
       }
-      // Next linearisation state: the Newton step projected onto the enthalpy curve.
+      // Next linearisation state: the Newton step projected onto the enthalpy curve (relaxed by half
+      // after DAMP_AFTER passes, which breaks the rare two-cycle of a cell whose capacities differ by
+      // orders of magnitude across its interval; the fixed point is the same).
+      const omega = pass >= DAMP_AFTER ? 0.5 : 1;
       for (let j = 0; j < nz; j++) {
         const mj = mat[j];
         for (let c = j * nr; c < (j + 1) * nr; c++) {
-          Hk[c] = Hnew[c];
-          Tguess[c] = temperatureAt(materials, mj, Hnew[c]);
+          const h = Hk[c] + omega * (Hnew[c] - Hk[c]);
+          Hk[c] = h;
+          Tguess[c] = temperatureAt(materials, mj, h);
         }
       }
       // Conductivities at the new state too (Picard on k inside the Newton iteration): lagging them
       // at T^n was a first-order error that thawed the active layer 4 % too deep with 7-day steps.
-      T.set(Tguess);
-      updateConductances(st, Tsurf);
+      // After PICARD_PASSES they are held, so that a cell whose k jumps across its interval cannot
+      // keep the iteration cycling (any fixed k conserves energy exactly).
+      if (pass + 1 < PICARD_PASSES) {
+        T.set(Tguess);
+        updateConductances(st, Tsurf);
+      }
     }
     if (!phaseOk) {
       return `the phase-change iteration did not converge in ${maxPasses} passes (largest enthalpy/temperature mismatch ${worst.toExponential(2)} K)`;

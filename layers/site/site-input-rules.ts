@@ -55,8 +55,8 @@ const add = (ctx: Ctx, path: Path, message: string): void => ctx.addIssue({ code
 const f3 = (x: number): string => String(Math.round(x * 1000) / 1000);
 
 /**
- * Soil description rules: porosity from the dry density within the models' range, water content at most
- * the porosity, a specific surface of 0 (coarse) or within the unfrozen-water curve; then the catalogue
+ * Soil description rules: porosity from the dry density within the models' range (water above the
+ * porosity is excess ice and accepted), a specific surface of 0 (coarse) or within the unfrozen-water curve; then the catalogue
  * itself. Returns the layer's lower conductivity (frozen or thawed), W/m·K, or NaN if it has issues.
  */
 export function soilRules(soil: SoilIn, path: Path, ctx: Ctx): number {
@@ -74,15 +74,9 @@ export function soilRules(soil: SoilIn, path: Path, ctx: Ctx): number {
       `dry density ${f3(rhoD)} kg/m³${given} gives a porosity of ${f3(n)} for ${soil.texture} (solids ${rhoS} kg/m³); ` +
         `it must be between ${f3((1 - POROSITY_MAX) * rhoS)} and ${f3((1 - POROSITY_MIN) * rhoS)} kg/m³ (porosity ${POROSITY_MIN}–${POROSITY_MAX})`,
     );
-  } else if (soil.waterContent_m3m3 > n) {
-    ok = false;
-    add(
-      ctx,
-      [...path, 'waterContent_m3m3'],
-      `water + ice content ${f3(soil.waterContent_m3m3)} m³/m³ exceeds the porosity ${f3(n)} of ${soil.texture} at dry density ` +
-        `${f3(rhoD)} kg/m³${given} (porosity = 1 − dry density / solids density ${rhoS} kg/m³)`,
-    );
   }
+  // Water above the porosity is excess ice (segregated ice: the soil catalogue carries it in the
+  // latent heat, capacity and conductivity), not an error; the field's own limit (0.95) caps it.
   const s = soil.specificSurface_m2_g;
   if (s !== undefined && s > 0 && s < SPECIFIC_SURFACE_MIN_m2_g) {
     ok = false;

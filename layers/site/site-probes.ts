@@ -118,9 +118,9 @@ export interface PermafrostTableTracker {
   observe(T: Float64Array, stride: number, offset: number, time_s: number): void;
   depth_m(time_s: number): number;
   /**
-   * Deepest thaw since the last call (or the start), with sub-cell resolution: cells whose largest
-   * liquid fraction in the period reached 1 are passed from the surface down; the first one that did
-   * not adds its largest fraction of its height (the front's deepest position within it). Resets.
+   * Deepest thaw since the last call (or the start), with sub-cell resolution (the active layer when
+   * the period is a year): the depth where the period's largest liquid fraction falls through 1/2,
+   * from the part of each cell that thawed (see the implementation). Resets.
    */
   periodMaxDepth_m(): number;
 }
@@ -139,6 +139,7 @@ export function createPermafrostTableTracker(
   const recentMax = new Float64Array(nz);
   const recentMaxAt = new Float64Array(nz).fill(-Infinity);
   const periodMax = new Float64Array(nz);
+  const periodMin = new Float64Array(nz).fill(1);
   return {
     observe(T, stride, offset, time_s) {
       for (let j = 0; j < nz; j++) {
@@ -149,17 +150,27 @@ export function createPermafrostTableTracker(
           recentMaxAt[j] = time_s;
         }
         if (f > periodMax[j]) periodMax[j] = f;
+        if (f < periodMin[j]) periodMin[j] = f;
       }
     },
     periodMaxDepth_m() {
-      let depth = mesh.zFaces_m[nz];
+      // Σ over the cells from the surface down of the part of each that thawed in the period: 1 for a
+      // cell that thawed through, else its rise of liquid fraction in the period as a share of what it
+      // could rise ((max − min)/(1 − min)); it stops at the first cell that did not thaw at all. For a
+      // sharp front this is the front's deepest position; for a front spread over cells (the freezing
+      // interval) it is the depth where the liquid fraction reached 1/2; ground that stays partly
+      // frozen all year (warm permafrost inside its interval) adds nothing.
+      let depth = 0;
       for (let j = 0; j < nz; j++) {
-        if (periodMax[j] < 1) {
-          depth = mesh.zFaces_m[j] + periodMax[j] * (mesh.zFaces_m[j + 1] - mesh.zFaces_m[j]);
-          break;
-        }
+        const hi = periodMax[j];
+        const lo = periodMin[j];
+        const part = hi >= 1 ? 1 : lo < 1 ? (hi - lo) / (1 - lo) : 0;
+        if (!(part > 1e-9)) break;
+        depth += part * (mesh.zFaces_m[j + 1] - mesh.zFaces_m[j]);
+        if (part < 1 && j + 1 < nz && !(periodMax[j + 1] > periodMin[j + 1])) break;
       }
       periodMax.fill(0);
+      periodMin.fill(1);
       return depth;
     },
     depth_m(time_s) {

@@ -89,11 +89,8 @@ describe('siteInputSchema', () => {
   // Rules the simulator's physics enforces, now in the schema with the user's field names
   // (site-input-rules.ts). Porosity n = 1 − ρd/ρs (soil-catalogue.ts: silt 1400 kg/m³ over 2650 kg/m³
   // solids gives n = 0.472, hand computation).
-  it('reports water content above the soil porosity at the water content, with the porosity', () => {
-    const msg = issuesOf((d) => (d.ground.layers[1].soil.waterContent_m3m3 = 0.6)).join();
-    expect(msg).toMatch(
-      /ground\.layers\.1\.soil\.waterContent_m3m3: water \+ ice content 0\.6 m³\/m³ exceeds the porosity 0\.472/,
-    );
+  it('accepts water content above the soil porosity as excess ice (issue 11 item 7)', () => {
+    expect(issuesOf((d) => (d.ground.layers[1].soil.waterContent_m3m3 = 0.6))).toEqual([]);
   });
 
   it('reports a dry density that leaves no pores, and a soil too dry for the unfrozen-water curve', () => {

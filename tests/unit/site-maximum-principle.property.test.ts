@@ -51,7 +51,7 @@ function porosity(texture: (typeof TEXTURES)[number]): number {
 }
 
 describe('site simulator: maximum principle under seasonal forcing', () => {
-  it('every cell stays within the initial and surface temperature range at every step (50 seeded runs)', () => {
+  it('every cell stays within the initial and surface temperature range at every step (50 seeded draws)', () => {
     let runs = 0;
     fc.assert(
       fc.property(caseArb, (c) => {
@@ -66,7 +66,7 @@ describe('site simulator: maximum principle under seasonal forcing', () => {
           top = bottom;
           return layer;
         });
-        const input = siteInputSchema.parse({
+        const parsed = siteInputSchema.safeParse({
           years: 3,
           timeStep_days: c.timeStep_days,
           outputStep_days: 31,
@@ -84,6 +84,11 @@ describe('site simulator: maximum principle under seasonal forcing', () => {
           domain: { radius_m: 20, depth_m: 30 },
           numerics: { fidelity: c.fidelity },
         });
+        // Only inputs the schema accepts (a very dry fine soil is refused: its unfrozen-water curve
+        // gives no usable freezing point).
+        fc.pre(parsed.success);
+        if (!parsed.success) return;
+        const input = parsed.data;
         const ground = resolveGround(input);
         const meshes = buildMeshes(input, ground);
         const rowMat = rowMaterials(meshes.column, ground.bottoms_m);
@@ -123,6 +128,6 @@ describe('site simulator: maximum principle under seasonal forcing', () => {
       }),
       { seed: 20261202, numRuns: 50 },
     );
-    expect(runs).toBe(50);
+    expect(runs).toBeGreaterThanOrEqual(40);
   });
 });
