@@ -279,7 +279,32 @@ export function pileRules(pile: PileIn, flow_L_min: number, ctx: Ctx): void {
 interface OperationIn {
   mode: 'heatRate' | 'inletTemperature' | 'building';
   inlet_C?: number;
+  extraction_W?: number;
+  monthlyFactors?: number[];
   heatPump?: { minEnteringFluid_C: number };
+}
+
+/**
+ * Largest heat rate per metre of active pile the simulator accepts, W/m. Ground heat exchangers
+ * deliver some 10–80 W/m (common practice); 2000 W/m would need a fluid hundreds of kelvin from the
+ * ground in any soil, so a rate above it is a mistyped input, refused here by name rather than left to
+ * a run that cannot converge.
+ */
+export const MAX_HEAT_RATE_W_PER_M = 2000;
+
+/** Heat-rate mode: the peak monthly rate per metre of the active pile length within ±MAX_HEAT_RATE_W_PER_M. */
+export function heatRateRules(length_m: number, op: OperationIn, ctx: Ctx): void {
+  if (op.mode !== 'heatRate' || op.extraction_W === undefined || !(length_m > 0)) return;
+  const factor = op.monthlyFactors ? Math.max(...op.monthlyFactors.map(Math.abs)) : 1;
+  const peak = Math.abs(op.extraction_W) * factor;
+  const perMetre = peak / length_m;
+  if (perMetre > MAX_HEAT_RATE_W_PER_M) {
+    add(
+      ctx,
+      ['operation', 'extraction_W'],
+      `the peak heat rate ${f3(peak)} W over the pile's ${f3(length_m)} m is ${f3(perMetre)} W/m, above the ${MAX_HEAT_RATE_W_PER_M} W/m any ground can supply or take (10–80 W/m is usual)`,
+    );
+  }
 }
 
 /**

@@ -16,6 +16,7 @@ import {
   climateRules,
   fluidRules,
   groundRules,
+  heatRateRules,
   LAYER_PROPERTY_LIMITS,
   pileRules,
   soilRules,
@@ -338,6 +339,7 @@ export const siteInputSchema = z
       const op = input.operation;
       pileRules(pile, op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min, ctx);
       fluidRules(pile, op, DEFAULT_HEAT_PUMP_CURVE.minEnteringFluid_C, ctx);
+      heatRateRules(pile.length_m, op, ctx);
       if (pile.topDepth_m + pile.length_m > depth - 2) {
         ctx.addIssue({
           code: 'custom',

@@ -168,9 +168,16 @@ describe('simulateSite controllers and bounds', () => {
   });
 
   it('refuses a heat rate that freezes the fluid, naming pile.fluid (it used to report −333 °C)', () => {
-    const d = sensibleOnly((x) => (x.operation = { mode: 'heatRate', extraction_W: 1e6 }));
+    // 3 kW from the 10 m pile (300 W/m, within the schema's 2000 W/m): the fluid falls far below the
+    // freezing point of 30 % propylene glycol.
+    const d = sensibleOnly((x) => (x.operation = { mode: 'heatRate', extraction_W: 3000 }));
     expect(() => simulateSite(d)).toThrow(SiteFluidLimitError);
     expect(() => simulateSite(d)).toThrow(/^pile\.fluid: the fluid freezes/);
+  });
+
+  it('refuses in the schema a heat rate no ground can supply (1 MW from a 10 m pile), naming the field', () => {
+    const d = sensibleOnly((x) => (x.operation = { mode: 'heatRate', extraction_W: 1e6 }));
+    expect(() => simulateSite(d)).toThrow(/operation\.extraction_W: the peak heat rate 1000000 W .* 2000 W\/m/);
   });
 
   it('checkPhysicalBounds: NaN, ground outside its boundary values and a frozen fluid are errors', () => {
