@@ -116,6 +116,13 @@ export function assemble(st: ConductionSystem, dt_s: number, Hn: Float64Array, H
  * on the side of the interval is taken (T = Ts or Tl counts as mushy), which makes the Newton step from
  * a frozen or thawed cell that reaches its interval land on the interval's edge and continue there.
  */
-export function tangentCapacity(T: number, ts: number, tl: number, cf: number, cm: number, ct: number): number {
+export function tangentCapacity(
+  T: number,
+  ts: number,
+  tl: number,
+  cf: number,
+  cm: number,
+  ct: number,
+): number {
   return T < ts ? cf : T > tl ? ct : cm;
 }

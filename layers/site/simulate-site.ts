@@ -103,7 +103,9 @@ export function simulateSite(
     const mesh = solver.mesh;
     const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
     // Last thaw measure per probe (probeThawMeasure: ≥ 0 once the front has passed the probe).
-    const lastProbeT = Float64Array.from(stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)));
+    const lastProbeT = Float64Array.from(
+      stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)),
+    );
     return {
       solver,
       stencils,
@@ -128,7 +130,13 @@ export function simulateSite(
           relativeError: 0,
         },
         unconvergedSteps: 0,
-        solverWork: { substitutions: 0, rightHandSides: 0, refactoredRows: 0, phasePasses: 0, halvedSteps: 0 },
+        solverWork: {
+          substitutions: 0,
+          rightHandSides: 0,
+          refactoredRows: 0,
+          phasePasses: 0,
+          halvedSteps: 0,
+        },
       },
     };
   };

@@ -177,7 +177,9 @@ describe('simulateSite controllers and bounds', () => {
 
   it('refuses in the schema a heat rate no ground can supply (1 MW from a 10 m pile), naming the field', () => {
     const d = sensibleOnly((x) => (x.operation = { mode: 'heatRate', extraction_W: 1e6 }));
-    expect(() => simulateSite(d)).toThrow(/operation\.extraction_W: the peak heat rate 1000000 W .* 2000 W\/m/);
+    expect(() => simulateSite(d)).toThrow(
+      /operation\.extraction_W: the peak heat rate 1000000 W .* 2000 W\/m/,
+    );
   });
 
   it('checkPhysicalBounds: NaN, ground outside its boundary values and a frozen fluid are errors', () => {
