@@ -9,6 +9,9 @@ import type { FeatureCollection } from 'geojson';
 export const SEA_COLOUR = '#d5e1e8';
 export const LAND_COLOUR = '#f3efe6';
 export const COAST_COLOUR = '#7f8f99';
+export const BOUNDARY_COLOUR = '#be1e5a';
+/** The boundary outline layer; the screening tiles are drawn below it (map-view.tsx). */
+export const BOUNDARY_LAYER_ID = 'boundary';
 
 const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
 
@@ -21,11 +24,18 @@ export function baseStyle(
     sources: {
       land: { type: 'geojson', data: land ?? EMPTY },
       settlements: { type: 'geojson', data: settlements ?? EMPTY },
+      boundary: { type: 'geojson', data: EMPTY },
     },
     layers: [
       { id: 'sea', type: 'background', paint: { 'background-color': SEA_COLOUR } },
       { id: 'land', type: 'fill', source: 'land', paint: { 'fill-color': LAND_COLOUR } },
       { id: 'coast', type: 'line', source: 'land', paint: { 'line-color': COAST_COLOUR, 'line-width': 1 } },
+      {
+        id: BOUNDARY_LAYER_ID,
+        type: 'line',
+        source: 'boundary',
+        paint: { 'line-color': BOUNDARY_COLOUR, 'line-width': 2 },
+      },
     ],
   };
 }
