@@ -11,6 +11,7 @@ import { compileFilter, EMPTY_FILTER, type FilterSpec } from './filters/cell-fil
 import { summarise } from './filters/zonal-summary';
 import { useBoundary } from './filters/use-boundary';
 import { MapView } from './map/map-view';
+import { MAX_SHORTLIST_PINS } from './map/point-markers';
 import type { TileStyle } from './map/colour-tile';
 import { formatUrlState, parseUrlState, type ViewState } from './state/url-state';
 import type { UnitSystem } from './units/display-units';
@@ -30,6 +31,7 @@ import { SitePanel } from './site/site-panel';
 
 const DATA_BASE = new URL('data/', document.baseURI);
 const NO_RINGS: [number, number][][] = [];
+
 /** Metres per degree of latitude, rounded (WGS 84 meridian degree is 110.6-111.7 km): for a tolerance only. */
 const METRES_PER_DEGREE = 111_320;
 
@@ -210,7 +212,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
 
   const rings = zone.boundary?.display ?? NO_RINGS;
   const shortlistPoints = useMemo(
-    () => shortlist.map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
+    () => shortlist.slice(0, MAX_SHORTLIST_PINS).map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
     [shortlist],
   );
   const selectedPoint = useMemo<[number, number] | null>(
