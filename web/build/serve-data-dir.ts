@@ -9,7 +9,7 @@ import type { Connect, Plugin } from 'vite';
 import { createReadStream, statSync, type ReadStream } from 'node:fs';
 import type { ServerResponse } from 'node:http';
 import { extname, resolve, sep } from 'node:path';
-import { requestPath } from './preview-hardening';
+import { requestPath } from './preview-hardening.ts';
 
 const PREFIX = '/data/';
 
