@@ -71,7 +71,11 @@ async function stopProbe(page: Page): Promise<{ maxGap_ms: number; longTasks: nu
   return page.evaluate(() => {
     const p = window.__probe;
     p.stop();
-    return { maxGap_ms: Math.max(p.maxGap_ms, performance.now() - p.last), longTasks: p.longTasks, gaps: p.gaps };
+    return {
+      maxGap_ms: Math.max(p.maxGap_ms, performance.now() - p.last),
+      longTasks: p.longTasks,
+      gaps: p.gaps,
+    };
   });
 }
 
@@ -115,14 +119,20 @@ export async function run(): Promise<void> {
       const result_s = (Date.now() - t0) / 1000;
       await s.page.waitForTimeout(1500); // the map frames that draw the outline
       const probe = await stopProbe(s.page);
-      const status = await s.page.locator('[data-testid=boundary-message]').textContent().catch(() => '');
+      const status = await s.page
+        .locator('[data-testid=boundary-message]')
+        .textContent()
+        .catch(() => '');
       console.log(
         `${size.toLocaleString('en-US')} vertices: ${outcome} after ${result_s.toFixed(1)} s; longest ` +
           `main-thread gap ${probe.maxGap_ms.toFixed(0)} ms; long tasks ${JSON.stringify(probe.longTasks)} ms`,
       );
       console.log(`  message: ${status ?? ''}`);
       console.log(`  gaps over 100 ms [start ms, length ms]: ${JSON.stringify(probe.gaps)}`);
-      await s.page.screenshot({ path: join(s.artifactsDir, `boundary-${size}-1280x720.png`), timeout: 120_000 });
+      await s.page.screenshot({
+        path: join(s.artifactsDir, `boundary-${size}-1280x720.png`),
+        timeout: 120_000,
+      });
       // Reference: one plain map redraw.
       await startProbe(s.page);
       await s.page.fill('[data-testid=opacity]', '0.5').catch(async () => {

@@ -9,7 +9,13 @@ import { readdirSync, statSync } from 'node:fs';
 import { Agent, request } from 'node:http';
 import { join, relative } from 'node:path';
 import { TILE_SIZE } from '../layers/screening/tile-format';
-import { buildWebAppIfStale, DEFAULT_DATA_DIR, DEFAULT_INPUTS_DIR, ensureDemoTiles, serveWebApp } from '../web/build/web-server';
+import {
+  buildWebAppIfStale,
+  DEFAULT_DATA_DIR,
+  DEFAULT_INPUTS_DIR,
+  ensureDemoTiles,
+  serveWebApp,
+} from '../web/build/web-server';
 import { createRandom } from '../data-pipeline/demo/seeded-random';
 
 /** One band plane of a tile: TILE_SIZE² 16-bit values (as web/src/data/tile-store.ts reads it). */
@@ -35,7 +41,10 @@ export async function run(): Promise<void> {
   await buildWebAppIfStale(DEFAULT_DATA_DIR);
   const { server, url } = await serveWebApp({ dataDir: DEFAULT_DATA_DIR, port: 0 });
   const u = new URL(url);
-  const files = tileFiles(DEFAULT_DATA_DIR).map((f) => ({ path: `/data/${relative(DEFAULT_DATA_DIR, f)}`, size: statSync(f).size }));
+  const files = tileFiles(DEFAULT_DATA_DIR).map((f) => ({
+    path: `/data/${relative(DEFAULT_DATA_DIR, f)}`,
+    size: statSync(f).size,
+  }));
   const random = createRandom(2026);
   const agent = new Agent({ keepAlive: true, maxSockets: concurrency });
   const latencies: number[] = [];
@@ -48,7 +57,13 @@ export async function run(): Promise<void> {
       const start = Math.floor(random() * planes) * PLANE_BYTES;
       const t0 = performance.now();
       const r = request(
-        { host: u.hostname, port: u.port, path: f.path, agent, headers: { Range: `bytes=${start}-${start + PLANE_BYTES - 1}` } },
+        {
+          host: u.hostname,
+          port: u.port,
+          path: f.path,
+          agent,
+          headers: { Range: `bytes=${start}-${start + PLANE_BYTES - 1}` },
+        },
         (res) => {
           res.on('data', () => undefined);
           res.on('end', () => {

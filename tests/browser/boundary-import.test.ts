@@ -40,11 +40,17 @@ function writeJson(name: string, json: unknown): string {
 
 /** Pick a file in the "Import boundary" input; wait until the worker is done; return the message. */
 async function importFile(page: Page, file: string): Promise<string> {
-  const before = await page.locator('[data-testid=boundary-message]').textContent().catch(() => null);
+  const before = await page
+    .locator('[data-testid=boundary-message]')
+    .textContent()
+    .catch(() => null);
   await page.setInputFiles('[data-testid=boundary-import]', file);
   for (let i = 0; i < 1200; i++) {
     const busy = await page.locator('[data-testid=boundary-busy]').count();
-    const text = await page.locator('[data-testid=boundary-message]').textContent().catch(() => null);
+    const text = await page
+      .locator('[data-testid=boundary-message]')
+      .textContent()
+      .catch(() => null);
     if (busy === 0 && text !== null && text !== before) return text;
     await page.waitForTimeout(100);
   }
@@ -53,9 +59,7 @@ async function importFile(page: Page, file: string): Promise<string> {
 
 const outlinePixels = async (page: Page) =>
   (await countForegroundPixels(page, '[data-testid=map]', [], 0)).total -
-  (
-    await countForegroundPixels(page, '[data-testid=map]', [hexRgb(BOUNDARY_COLOUR)], 40)
-  ).foreground;
+  (await countForegroundPixels(page, '[data-testid=map]', [hexRgb(BOUNDARY_COLOUR)], 40)).foreground;
 
 describe('boundary import', () => {
   it('reads a 300,000-vertex boundary off the main thread, counts its cells and draws its outline', async () => {
@@ -75,9 +79,15 @@ describe('boundary import', () => {
     const message = await importFile(s.page, file);
     const gap = await s.page.evaluate('clearInterval(window.__gapTimer), Math.round(window.__gap.max)');
     console.log(`${message} Longest main-thread gap while it ran: ${gap} ms`);
-    expect(message).toMatch(/^Boundary from boundary-300000\.geojson: 300,000 vertices in 1 polygon\(s\), drawn with [\d,]+/);
-    const zone = Number((await s.page.locator('[data-testid=zone-count-cells]').textContent())?.replace(/,/g, ''));
-    const region = Number((await s.page.locator('[data-testid=region-count-cells]').textContent())?.replace(/,/g, ''));
+    expect(message).toMatch(
+      /^Boundary from boundary-300000\.geojson: 300,000 vertices in 1 polygon\(s\), drawn with [\d,]+/,
+    );
+    const zone = Number(
+      (await s.page.locator('[data-testid=zone-count-cells]').textContent())?.replace(/,/g, ''),
+    );
+    const region = Number(
+      (await s.page.locator('[data-testid=region-count-cells]').textContent())?.replace(/,/g, ''),
+    );
     expect(zone).toBeGreaterThan(0);
     expect(zone).toBeLessThan(region);
     await s.page.waitForTimeout(1500);
@@ -99,7 +109,9 @@ describe('boundary import', () => {
         ],
       ],
     });
-    expect(await importFile(s.page, open)).toMatch(/^open-ring\.geojson was not used: \(root\)\.coordinates\.0: the ring is not closed/);
+    expect(await importFile(s.page, open)).toMatch(
+      /^open-ring\.geojson was not used: \(root\)\.coordinates\.0: the ring is not closed/,
+    );
     const bowTie = writeJson('bow-tie.geojson', {
       type: 'Polygon',
       coordinates: [
@@ -118,9 +130,16 @@ describe('boundary import', () => {
       crs: { type: 'name', properties: { name: 'urn:ogc:def:crs:EPSG::3413' } },
       features: [],
     });
-    expect(await importFile(s.page, polar)).toMatch(/crs: coordinate reference system "urn:ogc:def:crs:EPSG::3413" is not supported/);
-    const marked = writeJson('<img src=x onerror="window.__pwned=1">.geojson', { type: 'Polygon', coordinates: [] });
-    expect(await importFile(s.page, marked)).toContain('<img src=x onerror="window.__pwned=1">.geojson was not used');
+    expect(await importFile(s.page, polar)).toMatch(
+      /crs: coordinate reference system "urn:ogc:def:crs:EPSG::3413" is not supported/,
+    );
+    const marked = writeJson('<img src=x onerror="window.__pwned=1">.geojson', {
+      type: 'Polygon',
+      coordinates: [],
+    });
+    expect(await importFile(s.page, marked)).toContain(
+      '<img src=x onerror="window.__pwned=1">.geojson was not used',
+    );
     expect(await s.page.evaluate('window.__pwned === undefined')).toBe(true);
     expect(await s.page.locator('[data-testid=zone-count-cells]').textContent()).toBe(zoneBefore);
   });
@@ -143,8 +162,22 @@ describe('boundary import', () => {
       }
       throw new Error('no message');
     };
-    expect(await draw([[-1, -1], [1, 1], [1, -1], [-1, 1]])).toMatch(/^The drawn shape was not used: .*crosses itself/);
-    expect(await draw([[-1, -1], [1, -1], [1, 1], [-1, 1]])).toMatch(/^Boundary from the drawn shape: 4 vertices/);
+    expect(
+      await draw([
+        [-1, -1],
+        [1, 1],
+        [1, -1],
+        [-1, 1],
+      ]),
+    ).toMatch(/^The drawn shape was not used: .*crosses itself/);
+    expect(
+      await draw([
+        [-1, -1],
+        [1, -1],
+        [1, 1],
+        [-1, 1],
+      ]),
+    ).toMatch(/^Boundary from the drawn shape: 4 vertices/);
     await s.page.click('[data-testid=boundary-clear]');
     await expect(s.page.locator('[data-testid=zone-count-cells]').count()).resolves.toBe(0);
     expect(s.pageErrors).toEqual([]);

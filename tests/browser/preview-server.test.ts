@@ -34,17 +34,23 @@ afterAll(async () => {
 
 function get(path: string) {
   const u = new URL(s.url);
-  return new Promise<{ status: number; headers: IncomingMessage['headers']; body: string }>((resolve, reject) => {
-    const r = request({ host: u.hostname, port: u.port, path }, (res) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () =>
-        resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks).toString() }),
-      );
-    });
-    r.on('error', reject);
-    r.end();
-  });
+  return new Promise<{ status: number; headers: IncomingMessage['headers']; body: string }>(
+    (resolve, reject) => {
+      const r = request({ host: u.hostname, port: u.port, path }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () =>
+          resolve({
+            status: res.statusCode ?? 0,
+            headers: res.headers,
+            body: Buffer.concat(chunks).toString(),
+          }),
+        );
+      });
+      r.on('error', reject);
+      r.end();
+    },
+  );
 }
 
 describe('preview server', () => {
@@ -89,7 +95,10 @@ describe('preview server', () => {
     await s.page.goto(s.url);
     await s.page.waitForSelector('[data-testid=region-count-cells]', { timeout: 120_000 });
     await s.page.waitForSelector('[data-testid=map-wrap][data-first-paint-ms]', { timeout: 120_000 });
-    const map = await countForegroundPixels(s.page, '[data-testid=map]', [hexRgb(SEA_COLOUR), hexRgb(LAND_COLOUR)]);
+    const map = await countForegroundPixels(s.page, '[data-testid=map]', [
+      hexRgb(SEA_COLOUR),
+      hexRgb(LAND_COLOUR),
+    ]);
     expect(map.foreground / map.total).toBeGreaterThan(0.05);
     const [w, so, e, n] = s.manifest.region.bounds;
     const [x, y] = [(w + e) / 2, (so + n) / 2];

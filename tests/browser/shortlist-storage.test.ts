@@ -50,7 +50,9 @@ afterAll(async () => {
 async function openApp(page: Page): Promise<void> {
   await page.goto(s.url);
   await page.waitForSelector('[data-testid=shortlist-panel]', { timeout: 60_000 });
-  await page.waitForSelector('[data-testid=shortlist-save-state]:not([data-state=loading])', { timeout: 60_000 });
+  await page.waitForSelector('[data-testid=shortlist-save-state]:not([data-state=loading])', {
+    timeout: 60_000,
+  });
 }
 
 async function saveState(page: Page): Promise<string | null> {
@@ -93,7 +95,13 @@ function siteCollection(prefix: string, n: number): string {
     features: Array.from({ length: n }, (_, i) => ({
       type: 'Feature',
       geometry: { type: 'Point', coordinates: [-3 + (i % 100) * 0.01, 75 + Math.floor(i / 100) * 0.001] },
-      properties: { pileAtlasId: `${prefix}-${i}`, name: `${prefix} ${i}`, note, origin: 'map', addedAt: '2026-12-01T00:00:00.000Z' },
+      properties: {
+        pileAtlasId: `${prefix}-${i}`,
+        name: `${prefix} ${i}`,
+        note,
+        origin: 'map',
+        addedAt: '2026-12-01T00:00:00.000Z',
+      },
     })),
   });
 }
@@ -118,7 +126,10 @@ describe('shortlist storage', () => {
       values: {},
       metrics: {},
     }));
-    await s.page.evaluate(([k, v]) => localStorage.setItem(k, v), [LEGACY_STORAGE_KEY, JSON.stringify(legacy)]);
+    await s.page.evaluate(
+      ([k, v]) => localStorage.setItem(k, v),
+      [LEGACY_STORAGE_KEY, JSON.stringify(legacy)],
+    );
     await openApp(s.page);
     expect(await waitSettled(s.page)).toBe('saved');
     expect(await shortlistCount(s.page)).toBe(2);
@@ -140,7 +151,9 @@ describe('shortlist storage', () => {
     expect(await s.page.locator('[data-testid=shortlist-item]').count()).toBe(200);
     await openApp(s.page);
     expect(await shortlistCount(s.page)).toBe(10_002);
-    expect(await s.page.locator('[data-testid=shortlist-save-state]').textContent()).toContain('10,002 site(s)');
+    expect(await s.page.locator('[data-testid=shortlist-save-state]').textContent()).toContain(
+      '10,002 site(s)',
+    );
   });
 
   it('over quota: tells the user, keeps the tab and the saved list, asks before leaving, saves once space is back', async () => {
@@ -153,7 +166,9 @@ describe('shortlist storage', () => {
     expect(await waitSettled(s.page)).toBe('unsaved');
     const alert = await s.page.locator('[data-testid=shortlist-save-problem]').textContent();
     console.log(`over quota the user reads: ${alert}`);
-    expect(alert).toMatch(/^Not saved: the browser's storage for this page is full\. The 20,002 site\(s\) shown are still in this tab, and the list saved before \(10,002 site\(s\)\) is kept/);
+    expect(alert).toMatch(
+      /^Not saved: the browser's storage for this page is full\. The 20,002 site\(s\) shown are still in this tab, and the list saved before \(10,002 site\(s\)\) is kept/,
+    );
     expect(await shortlistCount(s.page)).toBe(20_002);
     expect(await savedInDb(s.page)).toBe(10_002);
     // Later edits neither throw nor get lost in the tab.

@@ -113,7 +113,10 @@ describe('site panel', () => {
             const all = open.result.transaction('sites', 'readonly').objectStore('sites').getAll();
             all.onerror = () => reject(all.error);
             all.onsuccess = () => {
-              const records = all.result as { order: number; item: { origin: string; metrics: Record<string, unknown> } }[];
+              const records = all.result as {
+                order: number;
+                item: { origin: string; metrics: Record<string, unknown> };
+              }[];
               resolve(records.sort((a, b) => a.order - b.order).map((r) => r.item));
               open.result.close();
             };

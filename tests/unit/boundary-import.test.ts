@@ -44,8 +44,12 @@ describe('boundary import: accepted shapes', () => {
     const crs = { type: 'name', properties: { name: 'urn:ogc:def:crs:OGC:1.3:CRS84' } };
     expect(parseBoundary({ type: 'Polygon', coordinates: [ring], crs }).boundary).not.toBeNull();
     expect(
-      parseBoundary({ type: 'Feature', crs, properties: {}, geometry: { type: 'Polygon', coordinates: [ring] } })
-        .boundary,
+      parseBoundary({
+        type: 'Feature',
+        crs,
+        properties: {},
+        geometry: { type: 'Polygon', coordinates: [ring] },
+      }).boundary,
     ).not.toBeNull();
   });
 
@@ -109,7 +113,11 @@ describe('boundary import: refused shapes, with paths', () => {
       [1, 1],
       [0, 1],
     ];
-    const r = parseBoundary({ type: 'Feature', properties: {}, geometry: { type: 'Polygon', coordinates: [open] } });
+    const r = parseBoundary({
+      type: 'Feature',
+      properties: {},
+      geometry: { type: 'Polygon', coordinates: [open] },
+    });
     expect(r.boundary).toBeNull();
     expect(r.problems[0]).toBe(
       'geometry.coordinates.0: the ring is not closed: its last position [0, 1] must repeat its first [0, 0] (RFC 7946 section 3.1.6)',
@@ -119,7 +127,9 @@ describe('boundary import: refused shapes, with paths', () => {
   it('refuses coordinates that are not finite or out of range', () => {
     // JSON.parse turns 1e999 into Infinity.
     const parsed = JSON.parse('{"type":"Polygon","coordinates":[[[0,0],[1e999,0],[1,1],[0,0]]]}');
-    expect(parseBoundary(parsed).problems[0]).toMatch(/coordinates\.0\.1\.0: longitude must be a finite number .* got Infinity/);
+    expect(parseBoundary(parsed).problems[0]).toMatch(
+      /coordinates\.0\.1\.0: longitude must be a finite number .* got Infinity/,
+    );
     const lat = parseBoundary({
       type: 'Polygon',
       coordinates: [
@@ -145,13 +155,23 @@ describe('boundary import: refused shapes, with paths', () => {
 
   it('refuses any crs other than CRS84, saying what to do', () => {
     const polar = { type: 'name', properties: { name: 'urn:ogc:def:crs:EPSG::3413' } };
-    const r = parseBoundary({ type: 'FeatureCollection', crs: polar, features: [
-      { type: 'Feature', properties: {}, geometry: { type: 'Polygon', coordinates: [ring] } },
-    ] });
+    const r = parseBoundary({
+      type: 'FeatureCollection',
+      crs: polar,
+      features: [{ type: 'Feature', properties: {}, geometry: { type: 'Polygon', coordinates: [ring] } }],
+    });
     expect(r.boundary).toBeNull();
-    expect(r.problems[0]).toMatch(/^crs: coordinate reference system "urn:ogc:def:crs:EPSG::3413" is not supported; .*WGS 84/);
-    const linked = parseBoundary({ type: 'Polygon', coordinates: [ring], crs: { type: 'link', properties: { href: 'x' } } });
-    expect(linked.problems).toEqual([expect.stringMatching(/^crs: coordinate reference system of type "link"/)]);
+    expect(r.problems[0]).toMatch(
+      /^crs: coordinate reference system "urn:ogc:def:crs:EPSG::3413" is not supported; .*WGS 84/,
+    );
+    const linked = parseBoundary({
+      type: 'Polygon',
+      coordinates: [ring],
+      crs: { type: 'link', properties: { href: 'x' } },
+    });
+    expect(linked.problems).toEqual([
+      expect.stringMatching(/^crs: coordinate reference system of type "link"/),
+    ]);
   });
 
   it('refuses a self-crossing ring and says where it crosses', () => {
@@ -169,7 +189,9 @@ describe('boundary import: refused shapes, with paths', () => {
       ],
     });
     expect(r.boundary).toBeNull();
-    expect(r.problems[0]).toMatch(/^\(root\)\.coordinates\.0: the ring crosses itself near lon 1\.00000, lat 1\.00000 \(edges 0 and 2\)/);
+    expect(r.problems[0]).toMatch(
+      /^\(root\)\.coordinates\.0: the ring crosses itself near lon 1\.00000, lat 1\.00000 \(edges 0 and 2\)/,
+    );
   });
 
   it('refuses a hole that crosses its exterior', () => {

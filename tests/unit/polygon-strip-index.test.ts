@@ -7,7 +7,11 @@ import booleanPointInPolygon from '@turf/boolean-point-in-polygon';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { flattenPolygons, type LonLat } from '../../web/src/geometry/flat-rings';
-import { buildStripIndex, maskPointsInPolygons, pointInStripIndex } from '../../web/src/geometry/polygon-strip-index';
+import {
+  buildStripIndex,
+  maskPointsInPolygons,
+  pointInStripIndex,
+} from '../../web/src/geometry/polygon-strip-index';
 
 const sq = (x0: number, y0: number, d: number): LonLat[] => [
   [x0, y0],
@@ -40,10 +44,16 @@ describe('polygon strip index', () => {
     fc.assert(
       fc.property(
         fc.array(fc.double({ min: 0.2, max: 1, noNaN: true }), { minLength: 3, maxLength: 400 }),
-        fc.array(fc.tuple(fc.double({ min: -1.2, max: 1.2, noNaN: true }), fc.double({ min: -1.2, max: 1.2, noNaN: true })), {
-          minLength: 1,
-          maxLength: 200,
-        }),
+        fc.array(
+          fc.tuple(
+            fc.double({ min: -1.2, max: 1.2, noNaN: true }),
+            fc.double({ min: -1.2, max: 1.2, noNaN: true }),
+          ),
+          {
+            minLength: 1,
+            maxLength: 200,
+          },
+        ),
         (radii, points) => {
           const ring: LonLat[] = radii.map((r, i) => {
             const t = (2 * Math.PI * i) / radii.length;

@@ -67,15 +67,23 @@ afterAll(() => new Promise<void>((r) => server.close(() => r())));
 
 /** A raw GET (fetch would normalise the URL before sending it). */
 function get(path: string, headers: Record<string, string> = {}) {
-  return new Promise<{ status: number; headers: IncomingMessage['headers']; body: string }>((resolve, reject) => {
-    const r = request({ host: '127.0.0.1', port, path, headers }, (res) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks).toString() }));
-    });
-    r.on('error', reject);
-    r.end();
-  });
+  return new Promise<{ status: number; headers: IncomingMessage['headers']; body: string }>(
+    (resolve, reject) => {
+      const r = request({ host: '127.0.0.1', port, path, headers }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () =>
+          resolve({
+            status: res.statusCode ?? 0,
+            headers: res.headers,
+            body: Buffer.concat(chunks).toString(),
+          }),
+        );
+      });
+      r.on('error', reject);
+      r.end();
+    },
+  );
 }
 
 describe('preview server hardening', () => {

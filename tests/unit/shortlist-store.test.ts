@@ -115,7 +115,9 @@ describe('shortlist store', () => {
     expect(db.names()).toEqual(['kept']); // saved list untouched
     const st = s.saveStatus();
     expect(st.state).toBe('unsaved');
-    expect(st.problem).toMatch(/^Not saved: the browser's storage for this page is full\. The 3,001 site\(s\) shown .* \(1 site\(s\)\) is kept\. Export GeoJSON/);
+    expect(st.problem).toMatch(
+      /^Not saved: the browser's storage for this page is full\. The 3,001 site\(s\) shown .* \(1 site\(s\)\) is kept\. Export GeoJSON/,
+    );
     // Later edits do not throw, and are kept in the tab.
     expect(() => s.update('imp5', { note: 'x' })).not.toThrow();
     await s.settled();

@@ -69,7 +69,9 @@ export function malformedUrlGuard(): Connect.NextHandleFunction {
 }
 
 /** Security headers on every response. */
-export function securityHeaders(headers: Record<string, string> = SECURITY_HEADERS): Connect.NextHandleFunction {
+export function securityHeaders(
+  headers: Record<string, string> = SECURITY_HEADERS,
+): Connect.NextHandleFunction {
   return (_req, res, next) => {
     for (const [k, v] of Object.entries(headers)) res.setHeader(k, v);
     next();
@@ -77,7 +79,9 @@ export function securityHeaders(headers: Record<string, string> = SECURITY_HEADE
 }
 
 /** Last in the chain: an error becomes a fixed 500 (the real error goes to the server's log only). */
-export function opaqueErrors(log: (line: string) => void = (l) => process.stderr.write(`${l}\n`)): Connect.ErrorHandleFunction {
+export function opaqueErrors(
+  log: (line: string) => void = (l) => process.stderr.write(`${l}\n`),
+): Connect.ErrorHandleFunction {
   return (err, _req, res, _next) => {
     log(`preview server: ${err instanceof Error ? err.message : String(err)}`);
     if (res.headersSent) {

@@ -39,7 +39,12 @@ export interface BoundaryParse {
 }
 
 /** Names of OGC CRS84 (WGS 84 longitude, latitude) as GeoJSON 2008 files write them. */
-const CRS84_NAMES = new Set(['urn:ogc:def:crs:ogc:1.3:crs84', 'urn:ogc:def:crs:ogc::crs84', 'ogc:crs84', 'crs84']);
+const CRS84_NAMES = new Set([
+  'urn:ogc:def:crs:ogc:1.3:crs84',
+  'urn:ogc:def:crs:ogc::crs84',
+  'ogc:crs84',
+  'crs84',
+]);
 /** Most problems listed; the rest are counted. */
 const MAX_LISTED = 8;
 
@@ -87,8 +92,10 @@ function checkCrs(crs: unknown, path: string, problems: Problems): void {
     return;
   }
   const name = parsed.data.properties?.name;
-  if (parsed.data.type === 'name' && typeof name === 'string' && CRS84_NAMES.has(name.trim().toLowerCase())) return;
-  const shown = typeof name === 'string' ? `"${name.slice(0, 80)}"` : `of type "${parsed.data.type.slice(0, 40)}"`;
+  if (parsed.data.type === 'name' && typeof name === 'string' && CRS84_NAMES.has(name.trim().toLowerCase()))
+    return;
+  const shown =
+    typeof name === 'string' ? `"${name.slice(0, 80)}"` : `of type "${parsed.data.type.slice(0, 40)}"`;
   problems.add(
     `${path}: coordinate reference system ${shown} is not supported; boundaries must be WGS 84 ` +
       'longitude/latitude (OGC CRS84, as RFC 7946 GeoJSON requires): export the file again in WGS 84',
@@ -96,7 +103,7 @@ function checkCrs(crs: unknown, path: string, problems: Problems): void {
 }
 
 function fmt(v: unknown): string {
-  return typeof v === 'number' ? String(v) : JSON.stringify(v)?.slice(0, 40) ?? String(v);
+  return typeof v === 'number' ? String(v) : (JSON.stringify(v)?.slice(0, 40) ?? String(v));
 }
 
 /** One ring: positions checked, consecutive repeats dropped; null when it cannot be used. */
@@ -164,7 +171,8 @@ export function parseBoundary(json: unknown): BoundaryParse {
   const take = (g: unknown, path: string) => {
     const r = geometry.safeParse(g);
     if (!r.success) {
-      for (const i of r.error.issues) problems.add(`${path}${i.path.length ? '.' + i.path.join('.') : ''}: ${i.message}`);
+      for (const i of r.error.issues)
+        problems.add(`${path}${i.path.length ? '.' + i.path.join('.') : ''}: ${i.message}`);
       return;
     }
     if (g !== json) checkCrs(r.data.crs, `${path}.crs`, problems);
@@ -193,7 +201,8 @@ export function parseBoundary(json: unknown): BoundaryParse {
       const t = (f.geometry as { type?: string } | null)?.type;
       if (t === 'Polygon' || t === 'MultiPolygon') take(f.geometry, `features.${i}.geometry`);
     });
-    if (polys.length === 0 && problems.count === 0) problems.add('features: no Polygon or MultiPolygon found');
+    if (polys.length === 0 && problems.count === 0)
+      problems.add('features: no Polygon or MultiPolygon found');
   } else {
     const asFeature = feature.safeParse(json);
     if (asFeature.success) checkCrs(asFeature.data.crs, 'crs', problems);
@@ -212,7 +221,12 @@ export function parseBoundary(json: unknown): BoundaryParse {
   if (search.crossing) {
     const c = search.crossing;
     const where = `near lon ${c.lon.toFixed(5)}, lat ${c.lat.toFixed(5)}`;
-    const what = c.kind === 'overlap' ? 'runs back along itself' : c.kind === 'touch' ? 'touches itself' : 'crosses itself';
+    const what =
+      c.kind === 'overlap'
+        ? 'runs back along itself'
+        : c.kind === 'touch'
+          ? 'touches itself'
+          : 'crosses itself';
     problems.add(
       c.ringA === c.ringB
         ? `${ringPath(c.ringA)}: the ring ${what} ${where} (edges ${c.edgeA} and ${c.edgeB}); a boundary must be a simple polygon`
@@ -232,7 +246,9 @@ export function parseBoundary(json: unknown): BoundaryParse {
     }
   }
   if (rewound > 0)
-    notes.push(`${rewound} ring(s) rewound to the RFC 7946 orientation (exterior counter-clockwise, holes clockwise)`);
+    notes.push(
+      `${rewound} ring(s) rewound to the RFC 7946 orientation (exterior counter-clockwise, holes clockwise)`,
+    );
   return {
     boundary: { rings, polygons: polys.length, vertices: rings.coords.length / 2 - ringCount(rings), notes },
     problems: [],

@@ -66,7 +66,11 @@ export async function runBoundaryJob(req: BoundaryJobRequest): Promise<BoundaryJ
       try {
         json = JSON.parse(await file.text());
       } catch (e) {
-        return { type: 'refused', id: req.id, problems: [`not valid JSON: ${(e as Error).message.slice(0, 200)}`] };
+        return {
+          type: 'refused',
+          id: req.id,
+          problems: [`not valid JSON: ${(e as Error).message.slice(0, 200)}`],
+        };
       }
     } else json = req.source.json;
     const parsed = parseBoundary(json);

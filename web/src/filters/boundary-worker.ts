@@ -6,6 +6,10 @@ self.onmessage = (event: MessageEvent<BoundaryJobRequest>) => {
   runBoundaryJob(event.data).then(
     (reply) => postMessage(reply, { transfer: replyTransferables(reply) }),
     (e: unknown) =>
-      postMessage({ type: 'refused', id: event.data.id, problems: [`could not be read: ${(e as Error).message}`] }),
+      postMessage({
+        type: 'refused',
+        id: event.data.id,
+        problems: [`could not be read: ${(e as Error).message}`],
+      }),
   );
 };

@@ -33,16 +33,22 @@ function describe(b: LoadedBoundary, elapsed_ms: number): string {
 /** `displayTolerance_deg`: Douglas-Peucker tolerance of the drawn copy (about a quarter cell). */
 export function useBoundary(table: CellTable | null, displayTolerance_deg: number): BoundaryState {
   const [boundary, setBoundary] = useState<LoadedBoundary | null>(null);
-  const [masked, setMasked] = useState<{ boundary: LoadedBoundary; table: CellTable; mask: Uint8Array } | null>(
-    null,
-  );
+  const [masked, setMasked] = useState<{
+    boundary: LoadedBoundary;
+    table: CellTable;
+    mask: Uint8Array;
+  } | null>(null);
   const [busy, setBusy] = useState<string | null>(null);
   const [message, setMessage] = useState<string | null>(null);
   const tableRef = useRef(table);
   tableRef.current = table;
 
   const run = useCallback(
-    (source: BoundarySource, busyText: string, onDone: (reply: BoundaryJobReply, t: CellTable | null) => void) => {
+    (
+      source: BoundarySource,
+      busyText: string,
+      onDone: (reply: BoundaryJobReply, t: CellTable | null) => void,
+    ) => {
       const t = tableRef.current;
       setBusy(busyText);
       runBoundaryInWorker({
@@ -95,14 +101,19 @@ export function useBoundary(table: CellTable | null, displayTolerance_deg: numbe
         setMessage('A boundary needs at least three corners.');
         return;
       }
-      run({ kind: 'json', json: polygon, name: 'the drawn shape' }, 'Checking the drawn shape…', accept('The drawn shape'));
+      run(
+        { kind: 'json', json: polygon, name: 'the drawn shape' },
+        'Checking the drawn shape…',
+        accept('The drawn shape'),
+      );
     },
     [run, accept],
   );
 
   // The cell table arrived (or changed) after the boundary: mark the cells in the worker.
   useEffect(() => {
-    if (busy || !boundary || !table || (masked && masked.boundary === boundary && masked.table === table)) return;
+    if (busy || !boundary || !table || (masked && masked.boundary === boundary && masked.table === table))
+      return;
     run({ kind: 'rings', boundary }, 'Counting cells inside the boundary…', (reply, t) => {
       if (reply.type === 'done' && reply.mask && t) setMasked({ boundary, table: t, mask: reply.mask });
     });

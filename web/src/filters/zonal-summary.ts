@@ -50,7 +50,10 @@ export function summarise(table: CellTable, filter: CompiledFilter, mask?: Uint8
 /** Geodesic area of the boundary itself (all its polygons, holes taken out), km². */
 export function boundaryArea_km2(rings: FlatRings): number {
   return (
-    area({ type: 'Feature', properties: {}, geometry: { type: 'MultiPolygon', coordinates: unflattenPolygons(rings) } }) /
-    1e6
+    area({
+      type: 'Feature',
+      properties: {},
+      geometry: { type: 'MultiPolygon', coordinates: unflattenPolygons(rings) },
+    }) / 1e6
   );
 }

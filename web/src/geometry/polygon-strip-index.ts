@@ -41,7 +41,8 @@ export function buildStripIndex(rings: FlatRings): PolygonStripIndex {
   const { coords, ringStart, ringPolygon } = rings;
   let m = 0;
   for (let r = 0; r < ringCount(rings); r++)
-    for (let i = ringStart[r]; i < ringStart[r + 1] - 1; i++) if (coords[2 * i + 1] !== coords[2 * i + 3]) m++;
+    for (let i = ringStart[r]; i < ringStart[r + 1] - 1; i++)
+      if (coords[2 * i + 1] !== coords[2 * i + 3]) m++;
   const x1 = new Float64Array(m);
   const y1 = new Float64Array(m);
   const x2 = new Float64Array(m);
@@ -119,7 +120,11 @@ export function pointInStripIndex(idx: PolygonStripIndex, x: number, y: number):
 }
 
 /** 1 where point i (lon[i], lat[i]) lies inside the polygons, else 0. */
-export function maskPointsInPolygons(idx: PolygonStripIndex, lon: ArrayLike<number>, lat: ArrayLike<number>): Uint8Array {
+export function maskPointsInPolygons(
+  idx: PolygonStripIndex,
+  lon: ArrayLike<number>,
+  lat: ArrayLike<number>,
+): Uint8Array {
   const n = lon.length;
   const mask = new Uint8Array(n);
   for (let i = 0; i < n; i++) if (pointInStripIndex(idx, lon[i], lat[i])) mask[i] = 1;

@@ -73,7 +73,8 @@ export function segmentContact(
   const d2 = orient(x3, y3, x4, y4, x2, y2);
   const d3 = orient(x1, y1, x2, y2, x3, y3);
   const d4 = orient(x1, y1, x2, y2, x4, y4);
-  if (((d1 > 0 && d2 < 0) || (d1 < 0 && d2 > 0)) && ((d3 > 0 && d4 < 0) || (d3 < 0 && d4 > 0))) return 'cross';
+  if (((d1 > 0 && d2 < 0) || (d1 < 0 && d2 > 0)) && ((d3 > 0 && d4 < 0) || (d3 < 0 && d4 > 0)))
+    return 'cross';
   if (d1 === 0 && d2 === 0) {
     // Collinear: overlap when the projections share more than a point, touch when exactly one.
     const useX = Math.abs(x2 - x1) >= Math.abs(y2 - y1);
@@ -102,7 +103,13 @@ function isSpike(p: ArrayLike<number>, i0: number, i1: number, i2: number): bool
   return ax * by - ay * bx === 0 && ax * bx + ay * by < 0;
 }
 
-function contactPoint(p: ArrayLike<number>, i1: number, i2: number, i3: number, i4: number): [number, number] {
+function contactPoint(
+  p: ArrayLike<number>,
+  i1: number,
+  i2: number,
+  i3: number,
+  i4: number,
+): [number, number] {
   const x1 = p[2 * i1];
   const y1 = p[2 * i1 + 1];
   const x2 = p[2 * i2];
@@ -112,13 +119,22 @@ function contactPoint(p: ArrayLike<number>, i1: number, i2: number, i3: number, 
   const x4 = p[2 * i4];
   const y4 = p[2 * i4 + 1];
   const den = (x1 - x2) * (y3 - y4) - (y1 - y2) * (x3 - x4);
-  if (den === 0) return [(Math.max(Math.min(x1, x2), Math.min(x3, x4)) + Math.min(Math.max(x1, x2), Math.max(x3, x4))) / 2, (Math.max(Math.min(y1, y2), Math.min(y3, y4)) + Math.min(Math.max(y1, y2), Math.max(y3, y4))) / 2];
+  if (den === 0)
+    return [
+      (Math.max(Math.min(x1, x2), Math.min(x3, x4)) + Math.min(Math.max(x1, x2), Math.max(x3, x4))) / 2,
+      (Math.max(Math.min(y1, y2), Math.min(y3, y4)) + Math.min(Math.max(y1, y2), Math.max(y3, y4))) / 2,
+    ];
   const t = ((x1 - x3) * (y3 - y4) - (y1 - y3) * (x3 - x4)) / den;
   return [x1 + t * (x2 - x1), y1 + t * (y2 - y1)];
 }
 
 /** Search the rings firstRing .. endRing - 1 (one polygon) for the first crossing or touch. */
-function searchPolygon(rings: FlatRings, firstRing: number, endRing: number, budget: { left: number }): CrossingSearch {
+function searchPolygon(
+  rings: FlatRings,
+  firstRing: number,
+  endRing: number,
+  budget: { left: number },
+): CrossingSearch {
   const { coords, ringStart } = rings;
   let m = 0;
   for (let r = firstRing; r < endRing; r++) m += ringStart[r + 1] - ringStart[r] - 1;
@@ -204,9 +220,18 @@ function testPair(
     const hi = Math.max(ia, ib) - raS;
     if (hi - lo === 1 || (lo === 0 && hi === raEdges - 1)) {
       // Neighbours share a vertex: only a fold-back is a fault. (A triangle's edges are all neighbours.)
-      const [p0, p1, p2] = hi - lo === 1 ? [raS + lo, raS + hi, raS + hi + 1] : [raS + hi, raS + hi + 1, raS + 1];
+      const [p0, p1, p2] =
+        hi - lo === 1 ? [raS + lo, raS + hi, raS + hi + 1] : [raS + hi, raS + hi + 1, raS + 1];
       if (!isSpike(coords, p0, p1, p2)) return null;
-      return { ringA: ra, edgeA: lo, ringB: rb, edgeB: hi, kind: 'overlap', lon: coords[2 * p1], lat: coords[2 * p1 + 1] };
+      return {
+        ringA: ra,
+        edgeA: lo,
+        ringB: rb,
+        edgeB: hi,
+        kind: 'overlap',
+        lon: coords[2 * p1],
+        lat: coords[2 * p1 + 1],
+      };
     }
   }
   const kind = segmentContact(coords, ia, ia + 1, ib, ib + 1);

@@ -208,7 +208,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       type: 'FeatureCollection',
       features: [...boundaryRings.map(line), ...(drawingPath.length > 1 ? [line(drawingPath)] : [])],
     };
-    const apply = () => (map.getSource(BOUNDARY_LAYER_ID) as maplibregl.GeoJSONSource | undefined)?.setData(data);
+    const apply = () =>
+      (map.getSource(BOUNDARY_LAYER_ID) as maplibregl.GeoJSONSource | undefined)?.setData(data);
     if (map.getSource(BOUNDARY_LAYER_ID)) {
       apply();
       return;

@@ -9,7 +9,12 @@
  */
 import { z } from 'zod';
 import { shortlistItemSchema } from './shortlist-item';
-import type { LoadedShortlist, SavedSite, ShortlistChanges, ShortlistPersistence } from './shortlist-persistence';
+import type {
+  LoadedShortlist,
+  SavedSite,
+  ShortlistChanges,
+  ShortlistPersistence,
+} from './shortlist-persistence';
 
 export const LEGACY_STORAGE_KEY = 'pile-atlas.shortlist.v1';
 export const DB_NAME = 'pile-atlas';
@@ -62,13 +67,18 @@ function issuesText(error: z.ZodError): string {
 }
 
 /** Write all changes in one readwrite transaction (a throw inside rolls the whole of it back). */
-async function writeChanges(db: IDBDatabase, changes: ShortlistChanges, meta?: [string, unknown]): Promise<void> {
+async function writeChanges(
+  db: IDBDatabase,
+  changes: ShortlistChanges,
+  meta?: [string, unknown],
+): Promise<void> {
   const tx = db.transaction(meta ? [SITES, META] : [SITES], 'readwrite');
   const finished = done(tx);
   try {
     const sites = tx.objectStore(SITES);
     for (const id of changes.remove) sites.delete(id);
-    for (const s of changes.put) sites.put({ id: s.item.id, order: s.order, item: s.item } satisfies SiteRecord);
+    for (const s of changes.put)
+      sites.put({ id: s.item.id, order: s.order, item: s.item } satisfies SiteRecord);
     if (meta) tx.objectStore(META).put(meta[1], meta[0]);
   } catch (e) {
     try {
@@ -96,11 +106,15 @@ async function migrate(db: IDBDatabase, storage: Storage | null, problems: strin
   try {
     parsed = z.array(shortlistItemSchema).safeParse(JSON.parse(raw));
   } catch (e) {
-    problems.push(`the shortlist saved by an earlier version could not be read and is left as it was: ${(e as Error).message}`);
+    problems.push(
+      `the shortlist saved by an earlier version could not be read and is left as it was: ${(e as Error).message}`,
+    );
     return;
   }
   if (!parsed.success) {
-    problems.push(`the shortlist saved by an earlier version is damaged and left as it was: ${issuesText(parsed.error)}`);
+    problems.push(
+      `the shortlist saved by an earlier version is damaged and left as it was: ${issuesText(parsed.error)}`,
+    );
     return;
   }
   const put: SavedSite[] = parsed.data.map((item, order) => ({ item, order }));
@@ -121,7 +135,9 @@ export function indexedDbPersistence(
       try {
         await migrate(d, storage, problems);
       } catch (e) {
-        problems.push(`the shortlist saved by an earlier version could not be moved over (it is kept): ${(e as Error).message}`);
+        problems.push(
+          `the shortlist saved by an earlier version could not be moved over (it is kept): ${(e as Error).message}`,
+        );
       }
       const tx = d.transaction(SITES, 'readonly');
       const records = (await request(tx.objectStore(SITES).getAll())) as SiteRecord[];
@@ -133,7 +149,9 @@ export function indexedDbPersistence(
         else damaged++;
       }
       if (damaged > 0)
-        problems.push(`${damaged} saved site(s) could not be read and are not shown (they stay saved, untouched)`);
+        problems.push(
+          `${damaged} saved site(s) could not be read and are not shown (they stay saved, untouched)`,
+        );
       sites.sort((a, b) => a.order - b.order);
       return { sites, problems };
     },

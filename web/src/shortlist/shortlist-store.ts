@@ -67,7 +67,11 @@ export function createShortlistStore(backend: ShortlistPersistence | null): Shor
   let persistence = backend;
   let items: readonly ShortlistItem[] = Object.freeze([]);
   let problem: string | null = null;
-  let status: SaveStatus = Object.freeze({ state: persistence ? 'loading' : 'saved', problem: null, savedCount: 0 });
+  let status: SaveStatus = Object.freeze({
+    state: persistence ? 'loading' : 'saved',
+    problem: null,
+    savedCount: 0,
+  });
   const listeners = new Set<() => void>();
   const notify = () => listeners.forEach((l) => l());
   const setStatus = (next: Partial<SaveStatus>) => {
