@@ -93,6 +93,12 @@ describe('boundary import', () => {
     await s.page.waitForTimeout(1500);
     expect(await outlinePixels(s.page)).toBeGreaterThan(500);
     await s.page.screenshot({ path: join(s.artifactsDir, 'boundary-imported-1280x720.png') });
+    // Another layer redraws the tiles; the outline stays above them.
+    const other = s.manifest.bands.find((b) => b.kind === 'continuous');
+    if (!other) throw new Error('no continuous band in the demo manifest');
+    await s.page.selectOption('[data-testid=layer-select]', other.id);
+    await s.page.waitForTimeout(1500);
+    expect(await outlinePixels(s.page)).toBeGreaterThan(500);
   });
 
   it('refuses faulty files with a reason and keeps the boundary it had', async () => {

@@ -6,7 +6,7 @@
  * loaded. The first full paint is reported once, after the GPU has finished the frame that drew
  * every tile of the opening view (onFirstPaint; the first-paint benchmark reads it).
  */
-import { memo, useEffect, useRef } from 'react';
+import { memo, useEffect, useRef, useState } from 'react';
 import * as maplibregl from 'maplibre-gl';
 import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
@@ -18,7 +18,7 @@ import type { Feature, FeatureCollection, LineString } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import { colourTile, type TileStyle } from './colour-tile';
-import { baseStyle, BOUNDARY_LAYER_ID } from './base-style';
+import { baseStyle, BOUNDARY_LAYER, BOUNDARY_LAYER_ID } from './base-style';
 import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
 
@@ -59,6 +59,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   const painted = useRef(new WeakMap<Float32Array[], Painted>());
   const screeningLayer = useRef<TileLayer<Float32Array[] | null> | null>(null);
   const firstPaintDone = useRef(false);
+  const styleLoaded = useRef(false);
+  const [boundaryLayerAdded, setBoundaryLayerAdded] = useState(false);
 
   useEffect(() => {
     if (!container.current) return;
@@ -112,6 +114,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       const name = String(f.properties?.name ?? 'Settlement');
       settlementMarker(map, { lon, lat, name }, (lngLat) => latest.current.onClick(lngLat));
     }
+    map.once('load', () => {
+      styleLoaded.current = true;
+    });
     map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
     map.on('mouseout', () => latest.current.onHover(null));
     map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
@@ -121,6 +126,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     });
     return () => {
       map.remove();
+      styleLoaded.current = false;
+      setBoundaryLayerAdded(false);
       mapRef.current = null;
       overlayRef.current = null;
     };
@@ -164,9 +171,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       minZoom: manifest.tiles.minZoom,
       maxZoom: manifest.tiles.maxZoom,
       extent: manifest.region.bounds,
-      // Read by @deck.gl/mapbox (interleaved): draw the tiles below the boundary line. Not in the
-      // layer's own prop types, hence the spread.
-      ...({ beforeId: BOUNDARY_LAYER_ID } as Record<string, unknown>),
+      // Read by @deck.gl/mapbox (interleaved): once there is a boundary line, draw the tiles below
+      // it. Not in the layer's own prop types, hence the spread.
+      ...((boundaryLayerAdded ? { beforeId: BOUNDARY_LAYER_ID } : {}) as Record<string, unknown>),
       maxRequests: 16,
       getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
       updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
@@ -192,8 +199,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     screeningLayer.current = tileLayer;
     const layers: Layer[] = [tileLayer];
     overlay.setProps({ layers });
-    // Only these three change the tiles: a new boundary, marker or selection must not redraw them.
-  }, [props.atlas, props.style, props.styleKey]);
+    // Only these change the tiles: a new boundary, marker or selection must not redraw them.
+  }, [props.atlas, props.style, props.styleKey, boundaryLayerAdded]);
 
   const { boundaryRings, drawingPath } = props;
   useEffect(() => {
@@ -208,9 +215,16 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       type: 'FeatureCollection',
       features: [...boundaryRings.map(line), ...(drawingPath.length > 1 ? [line(drawingPath)] : [])],
     };
-    const apply = () =>
-      (map.getSource(BOUNDARY_LAYER_ID) as maplibregl.GeoJSONSource | undefined)?.setData(data);
-    if (map.getSource(BOUNDARY_LAYER_ID)) {
+    const apply = () => {
+      const source = map.getSource(BOUNDARY_LAYER_ID) as maplibregl.GeoJSONSource | undefined;
+      if (source) source.setData(data);
+      else if (data.features.length > 0) {
+        map.addSource(BOUNDARY_LAYER_ID, { type: 'geojson', data });
+        map.addLayer(BOUNDARY_LAYER);
+        setBoundaryLayerAdded(true);
+      }
+    };
+    if (styleLoaded.current) {
       apply();
       return;
     }
