@@ -9,6 +9,7 @@ import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { serveDataDir } from './web/build/serve-data-dir.ts';
 import { serveBuiltAssets } from './web/build/serve-built-assets.ts';
+import { previewHardening } from './web/build/preview-hardening.ts';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
 const outDir = resolve(here, 'dist/web');
@@ -17,6 +18,7 @@ export default defineConfig({
   root: resolve(here, 'web'),
   base: './',
   plugins: [
+    previewHardening(),
     react(),
     serveDataDir(resolve(here, process.env.PILE_ATLAS_DATA ?? '.cache/demo-tiles')),
     serveBuiltAssets(outDir),

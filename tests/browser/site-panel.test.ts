@@ -102,8 +102,27 @@ describe('site panel', () => {
 
   it('adds the studied site to the shortlist with its simulated results', async () => {
     await s.page.click('[data-testid=site-add-shortlist]');
-    const stored = await s.page.evaluate(() => localStorage.getItem('pile-atlas.shortlist.v1'));
-    const items = JSON.parse(stored ?? '[]') as { origin: string; metrics: Record<string, unknown> }[];
+    // The shortlist is saved in IndexedDB (web/src/shortlist/indexeddb-persistence.ts): one record per site.
+    await s.page.waitForSelector('[data-testid=shortlist-save-state][data-state=saved]');
+    const items = await s.page.evaluate(
+      () =>
+        new Promise<{ origin: string; metrics: Record<string, unknown> }[]>((resolve, reject) => {
+          const open = indexedDB.open('pile-atlas');
+          open.onerror = () => reject(open.error);
+          open.onsuccess = () => {
+            const all = open.result.transaction('sites', 'readonly').objectStore('sites').getAll();
+            all.onerror = () => reject(all.error);
+            all.onsuccess = () => {
+              const records = all.result as {
+                order: number;
+                item: { origin: string; metrics: Record<string, unknown> };
+              }[];
+              resolve(records.sort((a, b) => a.order - b.order).map((r) => r.item));
+              open.result.close();
+            };
+          };
+        }),
+    );
     const fromSite = items.filter((i) => i.origin === 'site');
     expect(fromSite.length).toBeGreaterThan(0);
     expect(typeof fromSite[fromSite.length - 1].metrics.simulatedYears_yr).toBe('number');

@@ -1,12 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import type { CellTable } from '../../web/src/data/cell-table';
 import { compileFilter, EMPTY_FILTER } from '../../web/src/filters/cell-filter';
-import {
-  boundaryArea_km2,
-  boundaryMask,
-  summarise,
-  type Boundary,
-} from '../../web/src/filters/zonal-summary';
+import { boundaryArea_km2, boundaryMask, summarise } from '../../web/src/filters/zonal-summary';
+import { flattenPolygons } from '../../web/src/geometry/flat-rings';
 import { testManifest } from './web-test-manifest';
 
 /** A 4 x 3 table on a lon/lat lattice, each cell 2 km², groundTemp = col - 3, suitability = row. */
@@ -67,22 +63,17 @@ describe('zonal summary', () => {
 
   it('restricts to cells whose centre lies inside a boundary', () => {
     // Square lon 0..2, lat 0..2 holds centres (0.5|1.5, 0.5|1.5): 4 cells.
-    const square: Boundary = {
-      type: 'Feature',
-      properties: {},
-      geometry: {
-        type: 'Polygon',
-        coordinates: [
-          [
-            [0, 0],
-            [2, 0],
-            [2, 2],
-            [0, 2],
-            [0, 0],
-          ],
+    const square = flattenPolygons([
+      [
+        [
+          [0, 0],
+          [2, 0],
+          [2, 2],
+          [0, 2],
+          [0, 0],
         ],
-      },
-    };
+      ],
+    ]);
     const mask = boundaryMask(lattice(), square);
     expect(Array.from(mask).reduce((a, b) => a + b, 0)).toBe(4);
     const f = compileFilter({ ranges: [{ bandId: 'groundTemp', max: -3 }], excluded: [] }, bands);
@@ -97,12 +88,9 @@ describe('zonal summary', () => {
   it('measures the boundary geodesically, not in Web Mercator', () => {
     // 1° x 1° at the equator on the sphere R = 6371008.8 m: R² Δλ (sin φ2 - sin φ1) = 12 363.718 km²
     // (spherical zone formula, computed); at 70-71° N the same box is 4 127.25 km² (same formula).
-    const box = (s: number): Boundary => ({
-      type: 'Feature',
-      properties: {},
-      geometry: {
-        type: 'Polygon',
-        coordinates: [
+    const box = (s: number) =>
+      flattenPolygons([
+        [
           [
             [0, s],
             [1, s],
@@ -111,8 +99,7 @@ describe('zonal summary', () => {
             [0, s],
           ],
         ],
-      },
-    });
+      ]);
     expect(boundaryArea_km2(box(0))).toBeCloseTo(12363.718, 2);
     const R = 6371.0088;
     const zone = R * R * (Math.PI / 180) * (Math.sin((71 * Math.PI) / 180) - Math.sin((70 * Math.PI) / 180));

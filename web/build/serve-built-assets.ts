@@ -40,7 +40,13 @@ export function builtAssetsMiddleware(outDir: string): Connect.NextHandleFunctio
     const path = (req.url ?? '').split('?')[0];
     const at = path.lastIndexOf('/assets/');
     if (at < 0) return next();
-    const file = resolve(root, decodeURIComponent(path.slice(at + '/assets/'.length)));
+    let name: string;
+    try {
+      name = decodeURIComponent(path.slice(at + '/assets/'.length));
+    } catch {
+      return next();
+    }
+    const file = resolve(root, name);
     if (!file.startsWith(root + sep)) return next();
     let mtimeMs: number;
     try {

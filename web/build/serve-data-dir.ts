@@ -1,11 +1,17 @@
 /**
- * A small Vite plugin serving a pipeline build directory at `/data/` in dev and preview. Only files
- * inside the directory are served (no path escapes); a missing file is a plain 404 (a missing tile
- * means all-nodata, so the app treats 404 on a tile as empty).
+ * A small Vite plugin serving a pipeline build directory at `/data/` in dev and preview. Only a path
+ * that starts with `/data/` is routed here (a `/data/` in the query string or deeper in the path is
+ * not); only files inside the directory are served (no path escapes: 403); a missing file is a plain
+ * 404 (a missing tile means all-nodata, so the app treats 404 on a tile as empty); a malformed
+ * percent-escape is a 400. No answer carries a stack or a file path.
  */
 import type { Connect, Plugin } from 'vite';
-import { createReadStream, statSync } from 'node:fs';
+import { createReadStream, statSync, type ReadStream } from 'node:fs';
+import type { ServerResponse } from 'node:http';
 import { extname, resolve, sep } from 'node:path';
+import { requestPath } from './preview-hardening.ts';
+
+const PREFIX = '/data/';
 
 const CONTENT_TYPES: Record<string, string> = {
   '.json': 'application/json',
@@ -17,12 +23,18 @@ const CONTENT_TYPES: Record<string, string> = {
 export function dataDirMiddleware(dir: string): Connect.NextHandleFunction {
   const root = resolve(dir);
   return (req, res, next) => {
-    const url = req.url ?? '';
-    const at = url.indexOf('/data/');
-    if (at < 0) return next();
-    const rel = decodeURIComponent(url.slice(at + '/data/'.length).split('?')[0]);
-    const file = resolve(root, rel);
-    if (file !== root && !file.startsWith(root + sep)) {
+    const path = requestPath(req.url ?? '');
+    if (!path.startsWith(PREFIX)) return next();
+    let rel: string;
+    try {
+      rel = decodeURIComponent(path.slice(PREFIX.length));
+    } catch {
+      res.statusCode = 400;
+      res.end('bad request');
+      return;
+    }
+    const file = rel.includes('\0') ? '' : resolve(root, rel);
+    if (file === '' || (file !== root && !file.startsWith(root + sep))) {
       res.statusCode = 403;
       res.end('forbidden');
       return;
@@ -56,12 +68,18 @@ export function dataDirMiddleware(dir: string): Connect.NextHandleFunction {
       res.statusCode = 206;
       res.setHeader('Content-Range', `bytes ${start}-${end}/${size}`);
       res.setHeader('Content-Length', String(end - start + 1));
-      createReadStream(file, { start, end }).pipe(res);
+      send(createReadStream(file, { start, end }), res);
       return;
     }
     res.setHeader('Content-Length', String(size));
-    createReadStream(file).pipe(res);
+    send(createReadStream(file), res);
   };
+}
+
+/** Pipe a file to the response; a read error ends the response instead of crashing the server. */
+function send(stream: ReadStream, res: ServerResponse): void {
+  stream.on('error', () => res.destroy());
+  stream.pipe(res);
 }
 
 /** The plugin: same middleware for `vite` (dev) and `vite preview`. */

@@ -8,9 +8,10 @@ import { SCREENING_CAUTION } from '../../layers/cautions';
 import { AtlasLoadError, loadAtlas, loadCellTable, type Atlas } from './data/load-atlas';
 import { cellIndexAt, type CellTable } from './data/cell-table';
 import { compileFilter, EMPTY_FILTER, type FilterSpec } from './filters/cell-filter';
-import { boundaryArea_km2, boundaryMask, summarise, type Boundary } from './filters/zonal-summary';
-import { boundaryFromVertices, boundaryRings, parseBoundary } from './filters/boundary-import';
+import { summarise } from './filters/zonal-summary';
+import { useBoundary } from './filters/use-boundary';
 import { MapView } from './map/map-view';
+import { MAX_SHORTLIST_PINS } from './map/point-markers';
 import type { TileStyle } from './map/colour-tile';
 import { formatUrlState, parseUrlState, type ViewState } from './state/url-state';
 import type { UnitSystem } from './units/display-units';
@@ -29,6 +30,10 @@ import { HoverReadout, type HoverState } from './panels/hover-readout';
 import { SitePanel } from './site/site-panel';
 
 const DATA_BASE = new URL('data/', document.baseURI);
+const NO_RINGS: [number, number][][] = [];
+
+/** Metres per degree of latitude, rounded (WGS 84 meridian degree is 110.6-111.7 km): for a tolerance only. */
+const METRES_PER_DEGREE = 111_320;
 
 export function App() {
   const [atlas, setAtlas] = useState<Atlas | null>(null);
@@ -93,10 +98,10 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const [selection, setSelection] = useState<CellSelection | null>(null);
   const [drawing, setDrawing] = useState(false);
   const [vertices, setVertices] = useState<[number, number][]>([]);
-  const [boundary, setBoundary] = useState<Boundary | null>(null);
-  const [boundaryMessage, setBoundaryMessage] = useState<string | null>(null);
   const [flyTarget, setFlyTarget] = useState<{ lon: number; lat: number; seq: number } | null>(null);
   const shortlist = useShortlist();
+  const zone = useBoundary(table, manifest.analysisGrid.cellSize_m / METRES_PER_DEGREE / 4);
+  const setZoneMessage = zone.setMessage;
   const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
   const onFirstPaint = useCallback((time_ms: number) => setFirstPaint_ms(Math.round(time_ms)), []);
 
@@ -113,9 +118,9 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   useEffect(() => {
     if (!tableWanted) return;
     loadCellTable(atlas).then(setTable, (e: unknown) =>
-      setBoundaryMessage(`Cell table failed: ${(e as Error).message}`),
+      setZoneMessage(`Cell table failed: ${(e as Error).message}`),
     );
-  }, [atlas, tableWanted]);
+  }, [atlas, tableWanted, setZoneMessage]);
 
   const bandIndex = Math.max(
     0,
@@ -143,7 +148,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   useEffect(() => writeUrl(), [writeUrl]);
 
   const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
-  const mask = useMemo(() => (table && boundary ? boundaryMask(table, boundary) : null), [table, boundary]);
+  const mask = zone.mask;
   const zoneSummary = useMemo(
     () => (table && mask ? summarise(table, compiled, mask) : null),
     [table, mask, compiled],
@@ -185,13 +190,9 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   );
 
   const finishDrawing = () => {
-    const b = boundaryFromVertices(vertices);
     setDrawing(false);
     setVertices([]);
-    if (b) {
-      setBoundary(b);
-      setBoundaryMessage(null);
-    } else setBoundaryMessage('A boundary needs at least three corners.');
+    zone.finishDrawing(vertices);
   };
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
@@ -203,24 +204,15 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
     window.addEventListener('keydown', onKey);
     return () => window.removeEventListener('keydown', onKey);
   }, [drawing]);
-  const importBoundary = async (ev: ChangeEvent<HTMLInputElement>) => {
+  const importBoundary = (ev: ChangeEvent<HTMLInputElement>) => {
     const file = ev.target.files?.[0];
     ev.target.value = '';
-    if (!file) return;
-    try {
-      const { boundary: b, problems } = parseBoundary(JSON.parse(await file.text()));
-      if (b) {
-        setBoundary(b);
-        setBoundaryMessage(`Boundary from ${file.name}.`);
-      } else setBoundaryMessage(`${file.name}: ${problems.join('; ')}`);
-    } catch (e) {
-      setBoundaryMessage(`${file.name}: ${(e as Error).message}`);
-    }
+    if (file) zone.importFile(file);
   };
 
-  const rings = useMemo(() => (boundary ? boundaryRings(boundary) : []), [boundary]);
+  const rings = zone.boundary?.display ?? NO_RINGS;
   const shortlistPoints = useMemo(
-    () => shortlist.map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
+    () => shortlist.slice(0, MAX_SHORTLIST_PINS).map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
     [shortlist],
   );
   const selectedPoint = useMemo<[number, number] | null>(
@@ -278,17 +270,18 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         <SummaryPanel
           region={regionSummary}
           zone={zoneSummary}
-          zoneArea_km2={boundary ? boundaryArea_km2(boundary) : null}
+          zoneArea_km2={zone.boundary?.area_km2 ?? null}
           units={units}
           drawing={drawing}
-          hasBoundary={boundary !== null}
-          boundaryMessage={boundaryMessage}
+          hasBoundary={zone.boundary !== null}
+          boundaryMessage={zone.message}
+          boundaryBusy={zone.busy}
           onDraw={() => {
             setDrawing(true);
             setVertices([]);
           }}
           onFinish={finishDrawing}
-          onClear={() => setBoundary(null)}
+          onClear={zone.clear}
           onImport={importBoundary}
         />
         <SourcesPanel manifest={manifest} />

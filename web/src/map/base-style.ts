@@ -3,12 +3,23 @@
  * background, land is a fill of the build's own coastline polygons (land.geojson). Settlements (dots
  * and names in the browser's local fonts) are HTML markers above the screening tiles (point-markers.ts).
  */
-import type { StyleSpecification } from 'maplibre-gl';
+import type { LineLayerSpecification, StyleSpecification } from 'maplibre-gl';
 import type { FeatureCollection } from 'geojson';
 
 export const SEA_COLOUR = '#d5e1e8';
 export const LAND_COLOUR = '#f3efe6';
 export const COAST_COLOUR = '#7f8f99';
+export const BOUNDARY_COLOUR = '#be1e5a';
+/** The boundary outline layer and its source; the screening tiles are drawn below it (map-view.tsx). */
+export const BOUNDARY_LAYER_ID = 'boundary';
+
+/** The boundary outline, added to the map with its source when the first boundary is drawn. */
+export const BOUNDARY_LAYER: LineLayerSpecification = {
+  id: BOUNDARY_LAYER_ID,
+  type: 'line',
+  source: BOUNDARY_LAYER_ID,
+  paint: { 'line-color': BOUNDARY_COLOUR, 'line-width': 2 },
+};
 
 const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
 

@@ -1,23 +1,24 @@
 /**
  * The map: MapLibre for the offline base map, deck.gl drawn inside MapLibre's WebGL context
  * (interleaved) for the screening tiles (TileLayer + BitmapLayer coloured on the client by
- * colour-tile.ts) and the drawn boundary; settlements, shortlisted sites and the selected place are
- * HTML markers (point-markers.ts). Changing the band, opacity or filters recolours tiles already
+ * colour-tile.ts); the boundary is a MapLibre line layer above them (base-style.ts); settlements,
+ * shortlisted sites and the selected place are HTML markers (point-markers.ts). Changing the band, opacity or filters recolours tiles already
  * loaded. The first full paint is reported once, after the GPU has finished the frame that drew
  * every tile of the opening view (onFirstPaint; the first-paint benchmark reads it).
  */
-import { memo, useEffect, useRef } from 'react';
+import { memo, useEffect, useRef, useState } from 'react';
 import * as maplibregl from 'maplibre-gl';
 import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
 import { MapboxOverlay } from '@deck.gl/mapbox';
 import { TileLayer } from '@deck.gl/geo-layers';
-import { BitmapLayer, PathLayer } from '@deck.gl/layers';
+import { BitmapLayer } from '@deck.gl/layers';
 import type { Layer } from '@deck.gl/core';
+import type { Feature, FeatureCollection, LineString } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import { colourTile, type TileStyle } from './colour-tile';
-import { baseStyle } from './base-style';
+import { baseStyle, BOUNDARY_LAYER, BOUNDARY_LAYER_ID } from './base-style';
 import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
 
@@ -58,6 +59,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   const painted = useRef(new WeakMap<Float32Array[], Painted>());
   const screeningLayer = useRef<TileLayer<Float32Array[] | null> | null>(null);
   const firstPaintDone = useRef(false);
+  const styleLoaded = useRef(false);
+  const [boundaryLayerAdded, setBoundaryLayerAdded] = useState(false);
 
   useEffect(() => {
     if (!container.current) return;
@@ -111,6 +114,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       const name = String(f.properties?.name ?? 'Settlement');
       settlementMarker(map, { lon, lat, name }, (lngLat) => latest.current.onClick(lngLat));
     }
+    map.once('load', () => {
+      styleLoaded.current = true;
+    });
     map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
     map.on('mouseout', () => latest.current.onHover(null));
     map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
@@ -120,6 +126,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     });
     return () => {
       map.remove();
+      styleLoaded.current = false;
+      setBoundaryLayerAdded(false);
       mapRef.current = null;
       overlayRef.current = null;
     };
@@ -154,7 +162,7 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   useEffect(() => {
     const overlay = overlayRef.current;
     if (!overlay) return;
-    const { atlas, style, styleKey, boundaryRings, drawingPath } = props;
+    const { atlas, style, styleKey } = props;
     const { manifest, tiles } = atlas;
     const neededBands = bandsToDraw(style);
     const tileLayer = new TileLayer<Float32Array[] | null>({
@@ -163,6 +171,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       minZoom: manifest.tiles.minZoom,
       maxZoom: manifest.tiles.maxZoom,
       extent: manifest.region.bounds,
+      // Read by @deck.gl/mapbox (interleaved): once there is a boundary line, draw the tiles below
+      // it. Not in the layer's own prop types, hence the spread.
+      ...((boundaryLayerAdded ? { beforeId: BOUNDARY_LAYER_ID } : {}) as Record<string, unknown>),
       maxRequests: 16,
       getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
       updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
@@ -187,21 +198,41 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     });
     screeningLayer.current = tileLayer;
     const layers: Layer[] = [tileLayer];
-    const paths = drawingPath.length > 0 ? [...boundaryRings, drawingPath] : boundaryRings;
-    if (paths.length > 0) {
-      layers.push(
-        new PathLayer<[number, number][]>({
-          id: 'boundary',
-          data: paths,
-          getPath: (d) => d,
-          getColor: [190, 30, 90, 255],
-          getWidth: 2,
-          widthUnits: 'pixels',
-        }),
-      );
-    }
     overlay.setProps({ layers });
-  }, [props]);
+    // Only these change the tiles: a new boundary, marker or selection must not redraw them.
+  }, [props.atlas, props.style, props.styleKey, boundaryLayerAdded]);
+
+  const { boundaryRings, drawingPath } = props;
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!map) return;
+    const line = (coordinates: [number, number][]): Feature<LineString> => ({
+      type: 'Feature',
+      properties: {},
+      geometry: { type: 'LineString', coordinates },
+    });
+    const data: FeatureCollection<LineString> = {
+      type: 'FeatureCollection',
+      features: [...boundaryRings.map(line), ...(drawingPath.length > 1 ? [line(drawingPath)] : [])],
+    };
+    const apply = () => {
+      const source = map.getSource(BOUNDARY_LAYER_ID) as maplibregl.GeoJSONSource | undefined;
+      if (source) source.setData(data);
+      else if (data.features.length > 0) {
+        map.addSource(BOUNDARY_LAYER_ID, { type: 'geojson', data });
+        map.addLayer(BOUNDARY_LAYER);
+        setBoundaryLayerAdded(true);
+      }
+    };
+    if (styleLoaded.current) {
+      apply();
+      return;
+    }
+    map.once('load', apply);
+    return () => {
+      map.off('load', apply);
+    };
+  }, [boundaryRings, drawingPath]);
 
   return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
 });

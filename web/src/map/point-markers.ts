@@ -9,6 +9,12 @@
  */
 import * as maplibregl from 'maplibre-gl';
 
+/**
+ * Shortlisted sites pinned on the map (HTML markers, repositioned every frame): the first this many.
+ * Thousands of markers would stall the page; the shortlist panel says when pins are left out.
+ */
+export const MAX_SHORTLIST_PINS = 300;
+
 export interface PointMark {
   lon: number;
   lat: number;

@@ -5,7 +5,7 @@
 import { useMemo, useState, type ChangeEvent } from 'react';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
-import { useShortlist } from '../shortlist/use-shortlist';
+import { useShortlist, useShortlistSaveStatus } from '../shortlist/use-shortlist';
 import {
   shortlistFromGeoJSON,
   shortlistToCsv,
@@ -14,8 +14,12 @@ import {
   type ShortlistSortKey,
 } from '../shortlist/shortlist-export';
 import { downloadFile } from '../download-file';
+import { MAX_SHORTLIST_PINS } from '../map/point-markers';
 import { bandValueText, horizonFlagOf } from './cell-panel';
 import { displayTitle, formatLonLat, formatNumber, type UnitSystem } from '../units/display-units';
+
+/** Sites listed before "show all" (a list of thousands of editable rows would take seconds to draw). */
+const LISTED_AT_FIRST = 200;
 
 /** 'thawDelay_yr' -> 'thawDelay (yr)': metric keys carry their unit after the last underscore. */
 function metricLabel(key: string): string {
@@ -31,10 +35,13 @@ export function ShortlistPanel(props: {
 }) {
   const { manifest, units } = props;
   const items = useShortlist();
+  const save = useShortlistSaveStatus();
+  const [showAll, setShowAll] = useState(false);
   const [sortKey, setSortKey] = useState<ShortlistSortKey>('addedAt');
   const [direction, setDirection] = useState<'asc' | 'desc'>('asc');
   const [message, setMessage] = useState<string | null>(null);
   const sorted = useMemo(() => sortShortlist(items, sortKey, direction), [items, sortKey, direction]);
+  const listed = showAll ? sorted : sorted.slice(0, LISTED_AT_FIRST);
   const shownBand =
     manifest.bands.find((b) => `band:${b.id}` === sortKey) ??
     manifest.bands.find((b) => b.id === props.metricBandId);
@@ -57,8 +64,26 @@ export function ShortlistPanel(props: {
 
   return (
     <section className="panel shortlist" aria-label="Shortlist" data-testid="shortlist-panel">
-      <h2>Shortlist ({items.length})</h2>
-      {shortlistStore.loadProblem() ? <p className="notice warn">{shortlistStore.loadProblem()}</p> : null}
+      <h2>Shortlist ({items.length.toLocaleString('en-US')})</h2>
+      {shortlistStore.loadProblem() ? (
+        <p className="notice warn" data-testid="shortlist-load-problem">
+          {shortlistStore.loadProblem()}
+        </p>
+      ) : null}
+      {save.problem ? (
+        <p className="notice warn" role="alert" data-testid="shortlist-save-problem">
+          {save.problem}
+        </p>
+      ) : null}
+      <p className="muted small" data-testid="shortlist-save-state" data-state={save.state}>
+        {save.state === 'loading'
+          ? 'Reading the saved shortlist…'
+          : save.state === 'saving'
+            ? 'Saving…'
+            : save.state === 'saved'
+              ? `Saved in this browser (${save.savedCount.toLocaleString('en-US')} site(s)).`
+              : 'Not saved: see above.'}
+      </p>
       <div className="row wrap">
         <label className="sort">
           Sort by{' '}
@@ -90,7 +115,7 @@ export function ShortlistPanel(props: {
         <p className="muted">No sites yet: click the map, then “Add to shortlist”.</p>
       ) : null}
       <ol className="shortlist-items" data-testid="shortlist-items">
-        {sorted.map((it) => (
+        {listed.map((it) => (
           <li key={it.id} data-testid="shortlist-item">
             <input
               className="site-name"
@@ -138,6 +163,16 @@ export function ShortlistPanel(props: {
           </li>
         ))}
       </ol>
+      {items.length > MAX_SHORTLIST_PINS ? (
+        <p className="muted small">
+          The map pins the first {MAX_SHORTLIST_PINS} sites added; exports hold all of them.
+        </p>
+      ) : null}
+      {listed.length < sorted.length ? (
+        <button type="button" onClick={() => setShowAll(true)} data-testid="shortlist-show-all">
+          Show all {sorted.length.toLocaleString('en-US')} sites
+        </button>
+      ) : null}
       <div className="row wrap">
         <button
           type="button"

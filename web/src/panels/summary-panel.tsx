@@ -33,6 +33,8 @@ export function SummaryPanel(props: {
   drawing: boolean;
   hasBoundary: boolean;
   boundaryMessage: string | null;
+  /** What the boundary worker is doing, or null. */
+  boundaryBusy: string | null;
   onDraw: () => void;
   onFinish: () => void;
   onClear: () => void;
@@ -85,8 +87,13 @@ export function SummaryPanel(props: {
           Click the map to place corners; “Finish boundary” closes the shape (Esc cancels).
         </p>
       ) : null}
+      {props.boundaryBusy ? (
+        <p className="small busy" aria-live="polite" data-testid="boundary-busy">
+          {props.boundaryBusy}
+        </p>
+      ) : null}
       {props.boundaryMessage ? (
-        <p className="small" role="status">
+        <p className="small" role="status" data-testid="boundary-message">
           {props.boundaryMessage}
         </p>
       ) : null}

@@ -5,6 +5,7 @@
  * After the run the worker also sizes the pile field by design pulse (site-sizing.ts), which takes
  * seconds of its own; a failed sizing is reported with the result rather than failing the run.
  */
+import '../zod-jitless';
 import { simulateSite } from '../../../layers/site/simulate-site';
 import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import { sizeSiteByPulse, type SiteSizing } from './site-sizing';
