@@ -54,6 +54,13 @@ async function launch(profileDir: string): Promise<BrowserContext> {
   });
 }
 
+/** A second browser on a new, empty profile (no stored shortlist, no history): for shared links. */
+export async function launchFreshProfile(): Promise<{ context: BrowserContext; close(): Promise<void> }> {
+  const dir = mkdtempSync(join(tmpdir(), 'pile-atlas-fresh-profile-'));
+  const context = await launch(dir);
+  return { context, close: () => context.close() };
+}
+
 export async function startSession(): Promise<BrowserSession> {
   const dataDir = process.env.PILE_ATLAS_DATA ? resolve(process.env.PILE_ATLAS_DATA) : DEFAULT_DATA_DIR;
   await ensureDemoTiles({ dataDir, inputsDir: DEFAULT_INPUTS_DIR });

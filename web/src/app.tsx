@@ -14,7 +14,15 @@ import { useBoundary } from './filters/use-boundary';
 import { MapView } from './map/map-view';
 import { MAX_SHORTLIST_PINS } from './map/point-markers';
 import type { TileStyle } from './map/colour-tile';
-import { formatUrlState, parseUrlState, type ViewState } from './state/url-state';
+import {
+  DEFAULT_SORT,
+  formatUrlState,
+  parseUrlState,
+  type ShortlistSort,
+  type ViewState,
+} from './state/url-state';
+import { boundaryForLink } from './state/boundary-link';
+import { CopyLink } from './state/copy-link';
 import type { UnitSystem } from './units/display-units';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
@@ -75,14 +83,17 @@ function initialState(atlas: Atlas): { state: ViewState; problems: string[]; has
     units: 'SI',
     opacity: 0.85,
     filter: EMPTY_FILTER,
+    boundary: null,
+    selection: null,
+    sort: DEFAULT_SORT,
   };
-  const parsed = parseUrlState(
-    window.location.search,
-    defaults,
-    m.bands.map((b) => b.id),
-  );
-  const params = new URLSearchParams(window.location.search);
-  return { ...parsed, hasView: parsed.problems.length === 0 && params.has('c') && params.has('z') };
+  const parsed = parseUrlState(window.location.search, defaults, {
+    ids: m.bands.map((b) => b.id),
+    title: (id) => m.bands.find((b) => b.id === id)?.title ?? id,
+  });
+  const { state } = parsed;
+  // The link's view is used when both its centre and its zoom could be read.
+  return { ...parsed, hasView: state.center !== defaults.center && state.zoom !== defaults.zoom };
 }
 
 function Dashboard({ atlas }: { atlas: Atlas }) {
@@ -96,13 +107,24 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const view = useRef({ center: init.state.center, zoom: init.state.zoom });
   const [table, setTable] = useState<CellTable | null>(null);
   const [hover, setHover] = useState<HoverState | null>(null);
-  const [selection, setSelection] = useState<CellSelection | null>(null);
+  const [selection, setSelection] = useState<CellSelection | null>(() =>
+    init.state.selection ? { lon: init.state.selection[0], lat: init.state.selection[1], index: -1 } : null,
+  );
+  const [sort, setSort] = useState<ShortlistSort>(init.state.sort);
   const [drawing, setDrawing] = useState(false);
   const [vertices, setVertices] = useState<[number, number][]>([]);
   const [flyTarget, setFlyTarget] = useState<{ lon: number; lat: number; seq: number } | null>(null);
   const shortlist = useShortlist();
   const zone = useBoundary(table, manifest.analysisGrid.cellSize_m / METRES_PER_DEGREE / 4);
   const setZoneMessage = zone.setMessage;
+  const loadPolygons = zone.loadPolygons;
+  useEffect(() => {
+    if (init.state.boundary) loadPolygons(init.state.boundary.polygons, init.state.boundary.name);
+  }, [init, loadPolygons]);
+  const linkedBoundary = useMemo(
+    () => (zone.boundary ? boundaryForLink(zone.boundary) : null),
+    [zone.boundary],
+  );
   const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
   const onFirstPaint = useCallback((time_ms: number) => setFirstPaint_ms(Math.round(time_ms)), []);
 
@@ -143,9 +165,12 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
       units,
       opacity,
       filter,
+      boundary: linkedBoundary,
+      selection: selection ? [selection.lon, selection.lat] : null,
+      sort,
     });
     window.history.replaceState(null, '', `${window.location.pathname}?${q}`);
-  }, [bandId, units, opacity, filter]);
+  }, [bandId, units, opacity, filter, linkedBoundary, selection, sort]);
   useEffect(() => writeUrl(), [writeUrl]);
 
   const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
@@ -242,10 +267,24 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         <span className="caution-pill" title={SCREENING_CAUTION}>
           Screening estimate, not a design
         </span>
+        <CopyLink
+          note={
+            zone.boundary && !linkedBoundary
+              ? 'the boundary is too large to travel in a link and is left out'
+              : linkedBoundary?.simplified
+                ? `the boundary travels as its drawn copy (${linkedBoundary.polygons.flat().length} ring(s), simplified)`
+                : null
+          }
+        />
       </header>
       {urlProblems.length > 0 ? (
         <div className="notice warn url-notice" role="alert" data-testid="url-notice">
-          The link held settings this map cannot use, so the default view is shown: {urlProblems.join('; ')}.
+          Parts of the link could not be used and were left at their defaults:
+          <ul>
+            {urlProblems.map((p) => (
+              <li key={p}>{p}</li>
+            ))}
+          </ul>
           <button
             type="button"
             className="icon"
@@ -353,6 +392,8 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           manifest={manifest}
           units={units}
           metricBandId={bandId}
+          sort={sort}
+          onSort={setSort}
           onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}
         />
       </aside>

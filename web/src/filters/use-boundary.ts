@@ -20,6 +20,8 @@ export interface BoundaryState {
   setMessage: (m: string | null) => void;
   importFile: (file: File) => void;
   finishDrawing: (vertices: LonLat[]) => void;
+  /** Polygons from a shared link (checked in the worker like any boundary). */
+  loadPolygons: (polygons: LonLat[][][], name: string) => void;
   clear: () => void;
 }
 
@@ -110,6 +112,17 @@ export function useBoundary(table: CellTable | null, displayTolerance_deg: numbe
     [run, accept],
   );
 
+  const loadPolygons = useCallback(
+    (polygons: LonLat[][][], name: string) => {
+      run(
+        { kind: 'json', json: { type: 'MultiPolygon', coordinates: polygons }, name },
+        'Checking the boundary from the link…',
+        accept('The boundary from the link'),
+      );
+    },
+    [run, accept],
+  );
+
   // The cell table arrived (or changed) after the boundary: mark the cells in the worker.
   useEffect(() => {
     if (busy || !boundary || !table || (masked && masked.boundary === boundary && masked.table === table))
@@ -130,5 +143,5 @@ export function useBoundary(table: CellTable | null, displayTolerance_deg: numbe
   useEffect(() => () => cancelBoundaryJob(), []);
 
   const mask = masked && masked.boundary === boundary && masked.table === table ? masked.mask : null;
-  return { boundary, mask, busy, message, setMessage, importFile, finishDrawing, clear };
+  return { boundary, mask, busy, message, setMessage, importFile, finishDrawing, loadPolygons, clear };
 }

@@ -124,6 +124,10 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       const c = map.getCenter();
       latest.current.onViewChange([c.lng, c.lat], map.getZoom());
     });
+    // The opening view (fitted to the region, or the link's) fires no moveend: report it, so that the
+    // URL holds the view on screen and not the defaults it was computed from.
+    const c0 = map.getCenter();
+    latest.current.onViewChange([c0.lng, c0.lat], map.getZoom());
     return () => {
       map.remove();
       styleLoaded.current = false;

@@ -32,13 +32,24 @@ export function ShortlistPanel(props: {
   units: UnitSystem;
   metricBandId: string;
   onLocate: (lon: number, lat: number) => void;
+  /** The sort, when the page keeps it (in the URL); otherwise the panel keeps its own. */
+  sort?: { key: string; direction: 'asc' | 'desc' };
+  onSort?: (sort: { key: string; direction: 'asc' | 'desc' }) => void;
 }) {
   const { manifest, units } = props;
   const items = useShortlist();
   const save = useShortlistSaveStatus();
   const [showAll, setShowAll] = useState(false);
-  const [sortKey, setSortKey] = useState<ShortlistSortKey>('addedAt');
-  const [direction, setDirection] = useState<'asc' | 'desc'>('asc');
+  const [ownSort, setOwnSort] = useState<{ key: string; direction: 'asc' | 'desc' }>({
+    key: 'addedAt',
+    direction: 'asc',
+  });
+  const current = props.sort ?? ownSort;
+  const sortKey = current.key as ShortlistSortKey;
+  const direction = current.direction;
+  const putSort = props.onSort ?? setOwnSort;
+  const setSortKey = (key: ShortlistSortKey) => putSort({ key, direction });
+  const setDirection = (d: 'asc' | 'desc') => putSort({ key: sortKey, direction: d });
   const [message, setMessage] = useState<string | null>(null);
   const sorted = useMemo(() => sortShortlist(items, sortKey, direction), [items, sortKey, direction]);
   const listed = showAll ? sorted : sorted.slice(0, LISTED_AT_FIRST);
