@@ -115,6 +115,8 @@ export const inputsConfigSchema = z
     licence: z.string(),
     settlements: z.string().optional(),
     land: z.string().optional(),
+    /** Optional GeoJSON of roads or other access lines/points: the build adds their distance band. */
+    roads: z.string().optional(),
     grids: z.array(gridEntrySchema).min(1),
   })
   .superRefine((config, ctx) => {

@@ -41,6 +41,7 @@ import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
+import { addProximityBands } from './proximity-bands';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 
@@ -180,6 +181,14 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
       );
     }
+    await addProximityBands({
+      grid,
+      files: result.files,
+      layers: result.layers,
+      bandsDir,
+      maskBand: 0,
+      geojson,
+    });
     const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
     const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
     const margin = (2 * cellSize_m) / 111_000;
@@ -236,6 +245,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     if (geojson.settlements !== undefined)
       await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
     if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
+    if (geojson.roads !== undefined) await writeFile(join(output.dir, 'roads.geojson'), geojson.roads);
     const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
     const shares: Record<string, Record<string, number>> = {};
     result.layers.forEach((layer, i) => {

@@ -176,6 +176,7 @@ export async function loadInputs(
   if (config.settlements)
     geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
   if (config.land) geojson.land = await readGeoJsonLayer(inDir, 'land', config.land);
+  if (config.roads) geojson.roads = await readGeoJsonLayer(inDir, 'roads', config.roads);
   const inputs: LoadedInput[] = [];
   for (const [i, entry] of config.grids.entries()) {
     inputs.push(await scanInput(inDir, entry, i, budget));

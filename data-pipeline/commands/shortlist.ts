@@ -9,7 +9,8 @@ import { numberOption, parseOptions, requireOption } from './parse-options';
 export const shortlistCommand: Command = {
   name: 'shortlist',
   summary: 'filter built tiles with a --where expression; GeoJSON of matching cells or settlements',
-  help: `pile-atlas shortlist --tiles <dir> --where "<conditions>" [--settlements] [--out <file>] [--limit N]
+  help: `pile-atlas shortlist --tiles <dir> --where "<conditions>" [--near <settlement> --within <km>]
+                   [--settlements] [--out <file>] [--limit N]
 
 Reads a build (<dir>/manifest.json and <dir>/geotiff/*.tif) and writes the cells for which the
 conditions hold as RFC 7946 GeoJSON (WGS 84 lon/lat): each cell a polygon with every band's value
@@ -31,6 +32,9 @@ Examples:
 Options:
   --tiles <dir>      output directory of pile-atlas build
   --where "<expr>"   the conditions (quote them)
+  --near <name>      keep only places within --within km of this settlement (great-circle distance
+                     from the cell centre; the name as in the settlements layer, any letter case)
+  --within <km>      the radius for --near, km (0.1 to 5000)
   --settlements      filter settlements instead of cells
   --out <file>       write the GeoJSON here instead of stdout
   --limit N          at most N features (default 10000; the collection reports how many matched)
@@ -39,11 +43,18 @@ Options:
 Screening estimate, not a design.`,
   async run(argv) {
     const opts = parseOptions('shortlist', argv, {
-      values: ['tiles', 'where', 'out', 'limit'],
+      values: ['tiles', 'where', 'out', 'limit', 'near', 'within'],
       flags: ['settlements'],
     });
     const tilesDir = requireOption('shortlist', opts, 'tiles');
-    const where = requireOption('shortlist', opts, 'where');
+    const near = opts.values.near;
+    if (near !== undefined && opts.values.within === undefined)
+      throw new InputError('--near: give the radius too, as --within <km>');
+    if (near === undefined && opts.values.within !== undefined)
+      throw new InputError('--within: give the settlement too, as --near <name>');
+    const where = near === undefined ? requireOption('shortlist', opts, 'where') : opts.values.where;
+    const within_km =
+      near === undefined ? undefined : numberOption('shortlist', opts, 'within', 0, 0.1, 5000);
     const limit = numberOption('shortlist', opts, 'limit', 10_000, 1, 10_000_000, true);
     const out = opts.values.out;
     const rel = out === undefined ? '..' : relative(resolve(tilesDir), resolve(out));
@@ -55,6 +66,8 @@ Screening estimate, not a design.`,
       where,
       settlements: opts.flags.has('settlements'),
       limit,
+      near,
+      within_km,
     });
     const text = JSON.stringify(collection) + '\n';
     const summary = collection as unknown as { matched: number; returned: number };

@@ -6,11 +6,13 @@ import { InputError } from '../input-error';
 import type { Command } from './command';
 import { readJsonInput } from './read-json-input';
 import { parseOptions } from './parse-options';
+import { runSiteBatch } from '../site/site-batch';
 
 export const siteCommand: Command = {
   name: 'site',
   summary: 'simulate one site over the years, with and without the pile (JSON in, JSON out)',
   help: `pile-atlas site <input.json | -> [--compact] [--progress]
+pile-atlas site --batch <sites.geojson | sites.csv> --base <input.json> [--full]
 
 Runs the axisymmetric (r, z) transient ground simulation around one heat-exchanger pile, twice (with
 and without the pile), and prints the result as JSON: probe temperature histories, the year each probe
@@ -21,12 +23,32 @@ at the start, and the energy balance. Screening estimate, not a design.
 The input schema (years, ground.layers, ground.initial, climate, pile, operation, probes, domain,
 numerics) is documented in the README; examples/site-demo.json is a complete example.
 
+With --batch, every site of a GeoJSON FeatureCollection of Points (overrides in properties.site) or
+a CSV table (columns name, lon, lat and dotted input paths such as climate.meanAirTemp_C) runs on the
+--base input with its overrides; one JSON line per site is printed as it finishes (ok: false with
+the problems for a bad or repeated site; exit code 2 if any). --full prints each whole result.
+
 Options:
   --compact    one-line JSON
   --progress   report progress on stderr
   --help       this text`,
   async run(argv) {
-    const opts = parseOptions('site', argv, { values: [], flags: ['compact', 'progress'] });
+    const opts = parseOptions('site', argv, {
+      values: ['batch', 'base'],
+      flags: ['compact', 'progress', 'full'],
+    });
+    if (opts.values.batch !== undefined) {
+      if (opts.values.base === undefined)
+        throw new InputError('site --batch: give the base input as --base <input.json>');
+      const { bad } = await runSiteBatch({
+        sitesFile: opts.values.batch,
+        baseFile: opts.values.base,
+        full: opts.flags.has('full'),
+        emit: (line) => process.stdout.write(line + '\n'),
+        progress: (t) => process.stderr.write(`site: ${t}\n`),
+      });
+      return bad > 0 ? 2 : 0;
+    }
     if (opts.positional.length !== 1) {
       throw new InputError('site: expected exactly one input file (or - for stdin)');
     }

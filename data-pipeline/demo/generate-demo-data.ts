@@ -221,6 +221,21 @@ export async function generateDemoData({ outDir, seed = DEMO_SEED, resolutionSca
       properties: { name: i === 0 ? DEMO_REGION_NAME : `${DEMO_REGION_NAME} island ${i}`, fictional: true },
     })),
   );
+  // Invented winter roads: each settlement joined to its nearest neighbour already on the network
+  // (a Prim spanning tree from the most populous one), so every settlement is reachable.
+  const roads = featureCollection(
+    spanningTree(region.settlements).map(([a, b]) => ({
+      type: 'Feature',
+      geometry: {
+        type: 'LineString',
+        coordinates: [
+          [+a.lon.toFixed(5), +a.lat.toFixed(5)],
+          [+b.lon.toFixed(5), +b.lat.toFixed(5)],
+        ],
+      },
+      properties: { name: `winter road ${a.name} – ${b.name}`, fictional: true },
+    })),
+  );
   const config: InputsConfig = {
     formatVersion: 1,
     region: { name: DEMO_REGION_NAME, fictional: true },
@@ -228,12 +243,37 @@ export async function generateDemoData({ outDir, seed = DEMO_SEED, resolutionSca
     licence: LICENCE,
     settlements: 'settlements.geojson',
     land: 'land.geojson',
+    roads: 'roads.geojson',
     grids: DEMO_GRIDS.map((g) => ({ role: g.role, file: g.file, unit: g.unit, kind: g.kind })),
   };
   await writeFile(join(outDir, 'settlements.geojson'), JSON.stringify(settlements, null, 1) + '\n');
   await writeFile(join(outDir, 'land.geojson'), JSON.stringify(land) + '\n');
+  await writeFile(join(outDir, 'roads.geojson'), JSON.stringify(roads, null, 1) + '\n');
   await writeFile(join(outDir, INPUTS_CONFIG_FILE), JSON.stringify(config, null, 2) + '\n');
   await writeFile(join(outDir, 'README.md'), provenanceText(seed, resolutionScale));
+}
+
+function spanningTree<T extends { lon: number; lat: number; population: number }>(places: T[]): [T, T][] {
+  if (places.length < 2) return [];
+  const d2 = (a: T, b: T) =>
+    ((a.lon - b.lon) * Math.cos((a.lat * Math.PI) / 180)) ** 2 + (a.lat - b.lat) ** 2;
+  const start = places.reduce((best, p) => (p.population > best.population ? p : best), places[0]);
+  const inTree = [start];
+  const rest = places.filter((p) => p !== start);
+  const edges: [T, T][] = [];
+  while (rest.length > 0) {
+    let best: [number, number, number] = [Infinity, 0, 0];
+    rest.forEach((p, i) =>
+      inTree.forEach((q, j) => {
+        const d = d2(p, q);
+        if (d < best[0]) best = [d, i, j];
+      }),
+    );
+    const [p] = rest.splice(best[1], 1);
+    edges.push([inTree[best[2]], p]);
+    inTree.push(p);
+  }
+  return edges;
 }
 
 function provenanceText(seed: number, resolutionScale: number): string {

@@ -1,10 +1,11 @@
 /**
- * The GeoJSON layers an inputs config may list (settlements, land), validated as RFC 7946 before
+ * The GeoJSON layers an inputs config may list (settlements, land, roads), validated as RFC 7946 before
  * they are published with the build: a FeatureCollection (section 3.3) of Features (3.2) whose
  * geometries (3.1) have positions of two or three finite numbers (3.1.1) in WGS 84 longitude and
  * latitude (section 4: longitude -180..180, latitude -90..90), LineStrings of two or more positions
  * (3.1.4), and linear rings of four or more positions whose first and last are equal (3.1.6).
- * Settlements are Point features with a `name`; land is Polygon or MultiPolygon features.
+ * Settlements are Point features with a `name`; land is Polygon or MultiPolygon features; roads are
+ * Point, MultiPoint, LineString or MultiLineString features.
  * Every problem is a ValidationError naming the file and the path of the offending member.
  */
 import { z } from 'zod';
@@ -92,11 +93,23 @@ export const landSchema = featureCollectionOf(
   z.record(z.string(), z.unknown()).nullable(),
 );
 
-export type GeoJsonLayer = 'settlements' | 'land';
+/** A roads (or any access) layer: points and lines, e.g. roads, tracks, winter roads, airstrips. */
+export const roadsSchema = featureCollectionOf(
+  z.discriminatedUnion('type', [
+    pointGeometry,
+    z.strictObject({ type: z.literal('MultiPoint'), coordinates: z.array(position), bbox }),
+    z.strictObject({ type: z.literal('LineString'), coordinates: lineString, bbox }),
+    z.strictObject({ type: z.literal('MultiLineString'), coordinates: z.array(lineString), bbox }),
+  ]),
+  z.record(z.string(), z.unknown()).nullable(),
+);
+
+export type GeoJsonLayer = 'settlements' | 'land' | 'roads';
 
 /** Parse and validate a GeoJSON layer's text; throws a ValidationError naming `label` and the member. */
 export function validateGeoJsonLayer(layer: GeoJsonLayer, label: string, text: string): void {
   const json = parseJsonText(label, text);
-  const parsed = (layer === 'settlements' ? settlementsSchema : landSchema).safeParse(json);
+  const schema = layer === 'settlements' ? settlementsSchema : layer === 'roads' ? roadsSchema : landSchema;
+  const parsed = schema.safeParse(json);
   if (!parsed.success) throw ValidationError.fromZod(label, parsed.error);
 }

@@ -15,15 +15,20 @@ import { ValidationError } from '../../layers/validation-error';
 import { InputError } from '../input-error';
 import { parseJsonText } from '../read/read-json-file';
 import { readGeoTiffGrid } from '../read/read-geotiff-grid';
-import { compileWhere } from './where-expression';
+import { compileWhere, type CompiledWhere } from './where-expression';
+import { haversine_km } from '../../layers/screening/proximity';
 
 export interface ShortlistOptions {
   tilesDir: string;
-  where: string;
+  /** The conditions; every cell when absent (then --near should narrow the places). */
+  where?: string;
   /** Filter the settlements (their cells) instead of every cell. */
   settlements?: boolean;
   /** At most this many features (default 10 000); the collection says how many matched. */
   limit?: number;
+  /** Keep only places within `within_km` of this settlement (its name, any letter case). */
+  near?: string;
+  within_km?: number;
 }
 
 /** Property name of a band: its id with the unit appended (groundTemp -> groundTemp_C). */
@@ -52,11 +57,34 @@ async function readManifest(tilesDir: string): Promise<Manifest> {
   return parsed.data;
 }
 
+/** The settlement named `name` (letter case and surrounding spaces ignored) in the build's settlements. */
+async function findSettlement(
+  tilesDir: string,
+  manifest: Manifest,
+  name: string,
+): Promise<{ name: string; lonLat: [number, number] }> {
+  if (!manifest.settlements)
+    throw new InputError(`${join(tilesDir, 'manifest.json')}: build lists no settlements`);
+  const file = join(tilesDir, manifest.settlements);
+  const collection = JSON.parse(await readFile(file, 'utf8')) as FeatureCollection<Point>;
+  const names = collection.features.map((f) => String(f.properties?.name ?? ''));
+  const want = name.trim().toLowerCase();
+  const i = names.findIndex((n) => n.toLowerCase() === want);
+  if (i < 0)
+    throw new InputError(
+      `--near ${name}: no settlement of that name in ${file}; the settlements are ${names.join(', ')}`,
+    );
+  const [lon, lat] = collection.features[i].geometry.coordinates;
+  return { name: names[i], lonLat: [lon, lat] };
+}
+
 export async function shortlist(options: ShortlistOptions): Promise<FeatureCollection> {
   const { tilesDir } = options;
   const limit = options.limit ?? 10_000;
   const manifest = await readManifest(tilesDir);
-  const where = compileWhere(options.where, manifest.bands);
+  const where: CompiledWhere = options.where
+    ? compileWhere(options.where, manifest.bands)
+    : { bandsUsed: [], test: () => true };
   const files = manifest.parameters.geotiffs as Record<string, string> | undefined;
   if (!files) {
     throw new InputError(
@@ -104,10 +132,15 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
   const features: Feature[] = [];
   let matched = 0;
 
+  const near = options.near === undefined ? null : await findSettlement(tilesDir, manifest, options.near);
+  const within_km = options.within_km ?? Infinity;
   const testCell = (cell: number): boolean => {
     for (const b of where.bandsUsed) values[b] = planes[b][cell];
     return where.test(values);
   };
+  /** Within the radius of --near (the cell centre's or the point's great-circle distance). */
+  const inRadius = (lon: number, lat: number): boolean =>
+    near === null || haversine_km([lon, lat], near.lonLat) <= within_km;
 
   if (options.settlements) {
     if (!manifest.settlements)
@@ -122,7 +155,7 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
       const row = Math.floor((y - gt[3]) / gt[5]);
       if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
       const cell = row * grid.width + col;
-      if (!testCell(cell)) continue;
+      if (!inRadius(lon, lat) || !testCell(cell)) continue;
       matched++;
       if (features.length >= limit) continue;
       features.push({
@@ -140,6 +173,10 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
           planes[planes.length - 1][cell] !== planes[planes.length - 1][cell]
         ) {
           continue; // outside the screened area
+        }
+        if (near !== null) {
+          const [lon, lat] = toLonLat(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
+          if (!inRadius(lon, lat)) continue;
         }
         if (!testCell(cell)) continue;
         matched++;
@@ -175,7 +212,8 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
     ...{
       notice: manifest.notice,
       fictional: manifest.fictional,
-      where: options.where,
+      where: options.where ?? null,
+      near: near ? { settlement: near.name, lon: near.lonLat[0], lat: near.lonLat[1], within_km } : null,
       subject: options.settlements ? 'settlements' : 'cells',
       matched,
       returned: features.length,

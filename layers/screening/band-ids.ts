@@ -68,8 +68,8 @@ export const INPUT_ECHO_BAND_IDS = [
   'warming_C_per_yr',
 ] as const;
 
-/** Bands the pipeline itself adds. */
-export const PIPELINE_BAND_IDS = ['inputFlags'] as const;
+/** Bands the pipeline itself adds (input fallbacks; distances to the settlements and to the roads layer). */
+export const PIPELINE_BAND_IDS = ['inputFlags', 'settlementDistance_km', 'roadDistance_km'] as const;
 
 export type MetricBandId = (typeof METRIC_BAND_IDS)[number];
 export type BasicBandId = (typeof BASIC_BAND_IDS)[number];

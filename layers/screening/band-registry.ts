@@ -193,6 +193,24 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     ...echo('Air warming trend'),
   },
   inputFlags: { title: 'Input fallbacks', ...none, kind: 'class' },
+  settlementDistance_km: {
+    title: 'Distance to the nearest settlement',
+    unit: 'km',
+    unitNA: 'mi',
+    ...cont('cividis', 0, 150),
+    description:
+      'Great-circle distance from the cell centre to the nearest settlement of the settlements layer (haversine, mean Earth radius).',
+    source: 'pipeline: settlements layer (see sources); layers/screening/proximity.ts',
+  },
+  roadDistance_km: {
+    title: 'Distance to the nearest road or track',
+    unit: 'km',
+    unitNA: 'mi',
+    ...cont('cividis', 0, 100),
+    description:
+      'Distance from the cell centre to the nearest point or line of the imported roads layer (haversine to the nearest point of a segment).',
+    source: 'pipeline: roads layer (see sources); layers/screening/proximity.ts',
+  },
 };
 
 /** The registry entry of a band id, or undefined for an id no build writes. */

@@ -14,6 +14,7 @@ import {
   type BrowserSession,
 } from './browser-session';
 import { LAND_COLOUR, SEA_COLOUR } from '../../web/src/map/base-style';
+import { shortlist } from '../../data-pipeline/shortlist/shortlist-cells';
 
 let s: BrowserSession;
 
@@ -157,5 +158,37 @@ describe('shareable state', () => {
     expect(items.join('\n')).toMatch(/boundary in the link is damaged/);
     expect(items.join('\n')).not.toMatch(/Invalid|Expected|\(url\)/);
     expect(await s.page.isChecked('[data-testid=units-NA]')).toBe(true);
+  });
+
+  it('counts the cells within a radius of a chosen settlement, as the CLI does', async () => {
+    await s.page.goto(s.url);
+    await ready(s.page);
+    const options = await s.page.locator('[data-testid=layer-select] option').allTextContents();
+    expect(options).toContain('Distance to the nearest settlement');
+    expect(options).toContain('Distance to the nearest road or track');
+    const name = (await s.page.locator('[data-testid=radius-settlement] option').nth(1).textContent()) ?? '';
+    await s.page.selectOption('[data-testid=radius-settlement]', name);
+    await s.page.fill('[data-testid=radius-km]', '25');
+    await s.page.click('[data-testid=radius-apply]');
+    await s.page.waitForSelector('[data-testid=zone-count-cells]', { timeout: 60_000 });
+    const zone = (await s.page.locator('[data-testid=zone-count]').textContent()) ?? '';
+    expect(await s.page.locator('[data-testid=boundary-message]').textContent()).toContain(
+      `within 25 km of ${name}`,
+    );
+    // Area of the 72-gon inscribed in a 25 km circle: (n/2) r² sin(2π/n) = 1961.0 km² (plane geometry).
+    const area = Number(/\(([\d,.]+) km² geodesic\)/.exec(zone)?.[1].replace(/,/g, ''));
+    expect(Math.abs(area - 1961.0) / 1961.0).toBeLessThan(0.01);
+    const total = Number(/of ([\d,]+) cells match/.exec(zone)?.[1].replace(/,/g, ''));
+    const cli = (await shortlist({
+      tilesDir: s.dataDir,
+      near: name,
+      within_km: 25,
+      limit: 1,
+    })) as unknown as {
+      matched: number;
+    };
+    console.log(`within 25 km of ${name}: ${total} cells on the map, ${cli.matched} from the CLI`);
+    expect(Math.abs(total - cli.matched)).toBeLessThanOrEqual(Math.max(5, 0.01 * cli.matched));
+    expect(new URL(s.page.url()).searchParams.get('bn')).toBe(`within 25 km of ${name}`);
   });
 });

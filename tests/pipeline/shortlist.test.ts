@@ -5,6 +5,8 @@ import { buildTiles } from '../../data-pipeline/build/build-tiles';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
 import { compileWhere, type ExpressionBand } from '../../data-pipeline/shortlist/where-expression';
 import { SCREENING_CAUTION } from '../../layers/cautions';
+import { haversine_km } from '../../layers/screening/proximity';
+import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import { makeTempDir, runCli, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
 
 afterAll(removeTempDirs);
@@ -98,7 +100,7 @@ describe('pile-atlas shortlist on a built demo', () => {
     expect(fc.notice).toContain(SCREENING_CAUTION);
     expect(fc.fictional).toBe(true);
     expect(fc.where).toBe(where);
-    expect(fc.sources.length).toBe(6);
+    expect(fc.sources.length).toBeGreaterThanOrEqual(6);
 
     const temp = await readGeoTiffGrid(join(tilesDir, 'geotiff/groundTemp.tif'), { label: 'groundTemp' });
     const excl = await readGeoTiffGrid(join(tilesDir, 'geotiff/exclusion.tif'), { label: 'exclusion' });
@@ -151,5 +153,105 @@ describe('pile-atlas shortlist on a built demo', () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr.trim().split('\n')).toHaveLength(1);
     expect(bad.stderr).toMatch(/"cold" at position 14 is not a number/);
+  });
+});
+
+describe('proximity bands and shortlist --near', () => {
+  let tilesDir: string;
+  let settlements: { name: string; lonLat: [number, number] }[];
+
+  beforeAll(async () => {
+    const inDir = await smallDemo();
+    tilesDir = join(await makeTempDir('proximity'), 'tiles');
+    await buildTiles({ inDir, outDir: tilesDir, cellSize_m: SMALL_DEMO.cellSize_m });
+    const fc = JSON.parse(await readFile(join(tilesDir, 'settlements.geojson'), 'utf8'));
+    settlements = fc.features.map(
+      (f: { properties: { name: string }; geometry: { coordinates: [number, number] } }) => ({
+        name: f.properties.name,
+        lonLat: f.geometry.coordinates,
+      }),
+    );
+  }, 180_000);
+
+  it('writes the distance to the nearest settlement and road as bands, checked against brute force', async () => {
+    const manifest = JSON.parse(await readFile(join(tilesDir, 'manifest.json'), 'utf8'));
+    const ids = manifest.bands.map((b: { id: string }) => b.id);
+    expect(ids).toContain('settlementDistance_km');
+    expect(ids).toContain('roadDistance_km');
+    const dist = await readGeoTiffGrid(join(tilesDir, 'geotiff/settlementDistance_km.tif'), { label: 'd' });
+    const road = await readGeoTiffGrid(join(tilesDir, 'geotiff/roadDistance_km.tif'), { label: 'r' });
+    const grid = manifest.analysisGrid;
+    const toLonLat = createTransform(grid.crs, 'EPSG:4326');
+    const gt = grid.geoTransform;
+    let checked = 0;
+    for (let i = 0; i < dist.grid.values.length; i += 37) {
+      const v = dist.grid.values[i];
+      if (v !== v) continue;
+      const col = i % grid.width;
+      const row = Math.floor(i / grid.width);
+      const p = toLonLat(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
+      // Independent: the spherical law of cosines (a textbook alternative to haversine, same sphere).
+      const cosines = (q: [number, number]) => {
+        const r = Math.PI / 180;
+        const c =
+          Math.sin(p[1] * r) * Math.sin(q[1] * r) +
+          Math.cos(p[1] * r) * Math.cos(q[1] * r) * Math.cos((q[0] - p[0]) * r);
+        return 6371.0088 * Math.acos(Math.min(1, c));
+      };
+      const nearest = Math.min(...settlements.map((s) => cosines(s.lonLat)));
+      expect(v).toBeCloseTo(nearest, 1);
+      // Every settlement is on the road network, so a road is never farther than the nearest settlement
+      // (within the planar foot-of-perpendicular error, metres at 100 km: proximity.ts).
+      expect(road.grid.values[i]).toBeLessThanOrEqual(v + 0.05);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(20);
+  });
+
+  it('shortlist --near <settlement> --within <km> keeps exactly the cells within the radius', async () => {
+    const s = settlements[0];
+    const { code, stdout } = await runCli([
+      'shortlist',
+      '--tiles',
+      tilesDir,
+      '--near',
+      s.name.toUpperCase(),
+      '--within',
+      '30',
+      '--where',
+      'not excluded',
+    ]);
+    expect(code).toBe(0);
+    const fc = JSON.parse(stdout);
+    expect(fc.near.settlement).toBe(s.name);
+    expect(fc.features.length).toBeGreaterThan(0);
+    for (const f of fc.features) {
+      expect(haversine_km([f.properties.centreLon, f.properties.centreLat], s.lonLat)).toBeLessThanOrEqual(
+        30.01,
+      );
+      expect(f.properties.exclusion).toBe(0);
+    }
+    // Every cell whose centre is within 30 km and not excluded: counted from the GeoTIFFs.
+    const excl = await readGeoTiffGrid(join(tilesDir, 'geotiff/exclusion.tif'), { label: 'exclusion' });
+    const manifest = JSON.parse(await readFile(join(tilesDir, 'manifest.json'), 'utf8'));
+    const grid = manifest.analysisGrid;
+    const toLonLat = createTransform(grid.crs, 'EPSG:4326');
+    const gt = grid.geoTransform;
+    let expected = 0;
+    for (let i = 0; i < excl.grid.values.length; i++) {
+      if (excl.grid.values[i] !== 0) continue;
+      const col = i % grid.width;
+      const row = Math.floor(i / grid.width);
+      const p = toLonLat(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
+      if (haversine_km([p[0], p[1]], s.lonLat) <= 30) expected++;
+    }
+    expect(fc.matched).toBe(expected);
+
+    const unknown = await runCli(['shortlist', '--tiles', tilesDir, '--near', 'Nowhere', '--within', '5']);
+    expect(unknown.code).toBe(2);
+    expect(unknown.stderr).toMatch(/--near Nowhere: no settlement of that name/);
+    const noRadius = await runCli(['shortlist', '--tiles', tilesDir, '--near', s.name]);
+    expect(noRadius.code).toBe(2);
+    expect(noRadius.stderr).toMatch(/--within <km>/);
   });
 });

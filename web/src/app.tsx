@@ -23,6 +23,7 @@ import {
 } from './state/url-state';
 import { boundaryForLink } from './state/boundary-link';
 import { CopyLink } from './state/copy-link';
+import { RadiusFilter } from './filters/radius-filter';
 import type { UnitSystem } from './units/display-units';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
@@ -307,6 +308,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         />
         <LegendPanel band={band} units={units} filterActive={compiled.active} />
         <FilterPanel bands={manifest.bands} filter={filter} units={units} onChange={setFilter} />
+        <RadiusFilter settlements={atlas.settlements} units={units} onApply={loadPolygons} />
         <SummaryPanel
           region={regionSummary}
           zone={zoneSummary}
@@ -394,6 +396,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           metricBandId={bandId}
           sort={sort}
           onSort={setSort}
+          land={atlas.land}
           onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}
         />
       </aside>

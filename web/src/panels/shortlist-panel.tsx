@@ -3,6 +3,8 @@
  * re-import an earlier GeoJSON export. The list lives in the shortlist store (persisted).
  */
 import { useMemo, useState, type ChangeEvent } from 'react';
+import type { FeatureCollection } from 'geojson';
+import { ShortlistReport } from '../report/shortlist-report';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { useShortlist, useShortlistSaveStatus } from '../shortlist/use-shortlist';
@@ -35,6 +37,8 @@ export function ShortlistPanel(props: {
   /** The sort, when the page keeps it (in the URL); otherwise the panel keeps its own. */
   sort?: { key: string; direction: 'asc' | 'desc' };
   onSort?: (sort: { key: string; direction: 'asc' | 'desc' }) => void;
+  /** Land polygons for the report's map. */
+  land?: FeatureCollection | null;
 }) {
   const { manifest, units } = props;
   const items = useShortlist();
@@ -51,6 +55,7 @@ export function ShortlistPanel(props: {
   const setSortKey = (key: ShortlistSortKey) => putSort({ key, direction });
   const setDirection = (d: 'asc' | 'desc') => putSort({ key: sortKey, direction: d });
   const [message, setMessage] = useState<string | null>(null);
+  const [reportOpen, setReportOpen] = useState(false);
   const sorted = useMemo(() => sortShortlist(items, sortKey, direction), [items, sortKey, direction]);
   const listed = showAll ? sorted : sorted.slice(0, LISTED_AT_FIRST);
   const shownBand =
@@ -185,6 +190,23 @@ export function ShortlistPanel(props: {
         </button>
       ) : null}
       <div className="row wrap">
+        <button
+          type="button"
+          onClick={() => setReportOpen(true)}
+          disabled={sorted.length === 0}
+          data-testid="open-report"
+        >
+          Shortlist report
+        </button>
+        {reportOpen ? (
+          <ShortlistReport
+            manifest={manifest}
+            items={sorted}
+            land={props.land ?? null}
+            units={units}
+            onClose={() => setReportOpen(false)}
+          />
+        ) : null}
         <button
           type="button"
           disabled={items.length === 0}

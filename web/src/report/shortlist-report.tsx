@@ -1,0 +1,142 @@
+/**
+ * The shortlist report, to print or save as PDF: a cover page with the scenario, the cautions and a
+ * map of the sites (an SVG of the land and numbered pins: no WebGL, so it prints anywhere), a
+ * comparison table of the sites' headline figures, one sheet per site with every screening value and
+ * any study results, and the data sources. Rendered into document.body over the dashboard; the print
+ * style (report.css) prints it alone, one section per page.
+ */
+import { createPortal } from 'react-dom';
+import type { FeatureCollection } from 'geojson';
+import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
+import { HEADLINE_BAND_IDS } from '../../../layers/screening/band-registry';
+import type { Manifest } from '../../../layers/screening/manifest';
+import type { ShortlistItem } from '../shortlist/shortlist-item';
+import { bandValueText, horizonFlagOf } from '../panels/cell-panel';
+import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
+import { SiteMap } from './site-map';
+import './report.css';
+
+export function ShortlistReport(props: {
+  manifest: Manifest;
+  items: readonly ShortlistItem[];
+  land: FeatureCollection | null;
+  units: UnitSystem;
+  onClose: () => void;
+}) {
+  const { manifest, items, units } = props;
+  const bands = manifest.bands;
+  const headline = HEADLINE_BAND_IDS.flatMap((id) => bands.filter((b) => b.id === id));
+  const scenario = (manifest.scenario as { name?: string; description?: string } | undefined) ?? {};
+  const printed = new Date().toISOString().slice(0, 10);
+  const value = (item: ShortlistItem, b: (typeof bands)[number]) =>
+    bandValueText(b, item.values[b.id] ?? null, units, horizonFlagOf(b, item.values));
+  const overlay = (
+    <div
+      className="report-overlay"
+      role="dialog"
+      aria-label="Shortlist report"
+      data-testid="shortlist-report"
+    >
+      <div className="report-actions">
+        <button type="button" className="primary" onClick={() => window.print()} data-testid="report-print">
+          Print or save as PDF
+        </button>
+        <button type="button" onClick={props.onClose} data-testid="report-close">
+          Close report
+        </button>
+      </div>
+      <section className="report-page" data-testid="report-page">
+        <h1>Shortlist report · {manifest.region.name}</h1>
+        <p className="small">
+          {items.length} site(s) · scenario: {scenario.name ?? 'the build’s default scenario'} · units:{' '}
+          {units === 'SI' ? 'SI' : 'North American'} · printed {printed}
+        </p>
+        <div className="report-caution" data-testid="report-cautions">
+          <strong>{SCREENING_CAUTION}</strong>
+          <ul>
+            {GROUND_CAUTIONS.map((c) => (
+              <li key={c}>{c}</li>
+            ))}
+          </ul>
+          {manifest.fictional ? <p>{manifest.notice}</p> : null}
+        </div>
+        <SiteMap bounds={manifest.region.bounds} land={props.land} sites={items} />
+        <h2>Comparison</h2>
+        <table className="report-table" data-testid="report-comparison">
+          <thead>
+            <tr>
+              <th>#</th>
+              <th>Site</th>
+              <th>Position</th>
+              {headline.map((b) => (
+                <th key={b.id}>{displayTitle(b.title, b.unit, units)}</th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {items.map((item, i) => (
+              <tr key={item.id}>
+                <td>{i + 1}</td>
+                <td>{item.name}</td>
+                <td>{formatLonLat(item.lon, item.lat, 3)}</td>
+                {headline.map((b) => (
+                  <td key={b.id}>{value(item, b)}</td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </section>
+      {items.map((item, i) => (
+        <section className="report-page" key={item.id} data-testid="report-page">
+          <h2>
+            Site {i + 1}: {item.name}
+          </h2>
+          <p className="small">
+            {formatLonLat(item.lon, item.lat, 4)}
+            {item.note ? ` · ${item.note}` : ''}
+          </p>
+          <table className="report-table two-col" data-testid="report-site-sheet">
+            <tbody>
+              {bands.map((b) => (
+                <tr key={b.id}>
+                  <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
+                  <td>{value(item, b)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="small report-caution">{SCREENING_CAUTION}</p>
+        </section>
+      ))}
+      <section className="report-page" data-testid="report-page">
+        <h2>Sources</h2>
+        <table className="report-table" data-testid="report-sources">
+          <thead>
+            <tr>
+              <th>Input</th>
+              <th>Provenance</th>
+              <th>Licence</th>
+            </tr>
+          </thead>
+          <tbody>
+            {manifest.sources.map((s) => (
+              <tr key={s.file}>
+                <td>{s.file}</td>
+                <td>{s.provenance}</td>
+                <td>{s.licence}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <p className="small">
+          Built by {manifest.tool.name} {manifest.tool.version} on {manifest.createdAt.slice(0, 10)}.
+        </p>
+        <p className="report-caution small">
+          {SCREENING_CAUTION} {GROUND_CAUTIONS.join(' ')}
+        </p>
+      </section>
+    </div>
+  );
+  return createPortal(overlay, document.body);
+}
