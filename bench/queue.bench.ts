@@ -32,6 +32,28 @@ interface Row {
   wall_s: number;
   summary: BuildSummary;
   identical?: boolean;
+  /** Median idle time of a worker between finishing one job and starting the next, ms. */
+  dispatchGap_ms?: number;
+}
+
+/** Median gap between consecutive jobs of each worker, from the queue's own timestamps. */
+async function medianDispatchGap(queue: Queue): Promise<number> {
+  const jobs = await queue.getJobs(['completed']);
+  const byWorker = new Map<string, { start: number; end: number }[]>();
+  for (const j of jobs) {
+    const worker = (j.returnvalue as { worker?: string } | undefined)?.worker ?? '?';
+    if (!j.processedOn || !j.finishedOn) continue;
+    const list = byWorker.get(worker) ?? [];
+    list.push({ start: j.processedOn, end: j.finishedOn });
+    byWorker.set(worker, list);
+  }
+  const gaps: number[] = [];
+  for (const list of byWorker.values()) {
+    list.sort((a, b) => a.start - b.start);
+    for (let i = 1; i < list.length; i++) gaps.push(Math.max(0, list[i].start - list[i - 1].end));
+  }
+  gaps.sort((a, b) => a - b);
+  return gaps.length ? gaps[Math.floor(gaps.length / 2)] : NaN;
 }
 
 const load = () =>
@@ -102,7 +124,16 @@ export async function run(): Promise<void> {
         const summary = await buildTiles({ ...base, outDir, distributor });
         const wall_s = (Date.now() - t) / 1000;
         const identical = JSON.stringify(await treeWithoutManifest(outDir)) === JSON.stringify(reference);
-        rows.push({ label: `queue, ${n} worker process${n === 1 ? '' : 'es'}`, wall_s, summary, identical });
+        const q = new Queue(QUEUE_NAME, { connection: connection.options });
+        const dispatchGap_ms = await medianDispatchGap(q);
+        await q.close();
+        rows.push({
+          label: `queue, ${n} worker process${n === 1 ? '' : 'es'}`,
+          wall_s,
+          summary,
+          identical,
+          dispatchGap_ms,
+        });
         console.log(`${rows.at(-1)!.label}: ${wall_s.toFixed(1)} s`);
       } finally {
         await distributor.close();
@@ -132,9 +163,15 @@ export async function run(): Promise<void> {
     const P = q1.summary.queue!.processing_ms / 1000;
     const S = Math.max(0, q1.wall_s - P);
     console.log(
-      `\noverhead per job (queue with 1 worker - local 1 thread) / jobs: ` +
-        `${(((q1.wall_s - local1.wall_s) / jobs) * 1000).toFixed(0)} ms over ${jobs} jobs; ` +
-        `mean wait in the queue ${(q1.summary.queue!.queueWait_ms / jobs).toFixed(0)} ms per job`,
+      `\noverhead per job: median idle time of a worker between two jobs (queue dispatch) ` +
+        rows
+          .filter((r) => r.dispatchGap_ms !== undefined)
+          .map((r) => `${r.dispatchGap_ms!.toFixed(0)} ms (${r.label.replace('queue, ', '')})`)
+          .join(', ') +
+        `; all time of the 1-worker run outside its jobs, per job (dispatch + the coordinator's reading, ` +
+        `merging, top tiles and manifest): ${(((q1.wall_s - P) / jobs) * 1000).toFixed(0)} ms over ${jobs} jobs; ` +
+        `(queue with 1 worker - local 1 thread) / jobs: ${(((q1.wall_s - local1.wall_s) / jobs) * 1000).toFixed(0)} ms ` +
+        `(meaningful only when both ran at the same load)`,
     );
     console.log(
       `projected T(N) = S + P/N with S = ${S.toFixed(1)} s (coordinator: read, merge, top tiles, manifest, swap) ` +

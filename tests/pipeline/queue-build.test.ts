@@ -156,7 +156,7 @@ describe('queue-backed build on Redis with worker processes', () => {
       demoDir,
       '--out',
       out,
-      ...FLAGS,
+      ...FLAGS.filter((f) => f !== '--quiet'),
       '--queue',
       redis.url,
       '--shared',
@@ -166,6 +166,9 @@ describe('queue-backed build on Redis with worker processes', () => {
     const q = JSON.parse(r.stdout).queue;
     expect(q.ran).toBe(0);
     expect(q.reused).toBe(q.jobs);
+    // Progress with ETA counts the jobs the queue reports done; the run summary names the reuse.
+    expect(r.stderr).toMatch(/screen +\[#+\] 100% \d+\/\d+ elapsed \S+ eta 0s/);
+    expect(r.stderr).toContain(`queue: ${q.jobs} jobs, 0 run by 0 worker processes, ${q.jobs} reused`);
     expect(await treeWithoutManifest(out)).toEqual(await treeWithoutManifest(localDir));
   }, 60_000);
 
