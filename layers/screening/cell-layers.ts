@@ -7,6 +7,7 @@ import type { Scenario } from './scenario';
 import { EXCLUSION_LABELS, PERMAFROST_CLASS_LABELS, SUITABILITY_LABELS } from './suitability';
 import { BINDING_LABELS } from './operating-window';
 import { THAW_HORIZON, THAW_HORIZON_LABELS } from './climate-horizon';
+import { FOUNDATION_BAND_IDS, foundationBands } from './foundation-bands';
 
 const IDS = [
   'suitability',
@@ -44,6 +45,7 @@ const IDS = [
   'excessIce',
   'zeroCurtain',
   'thawBeyondHorizon',
+  ...FOUNDATION_BAND_IDS,
 ] as const;
 
 export type MetricId = (typeof IDS)[number];
@@ -401,6 +403,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       description: `Whether the thaw years fall after ${hy}, the scenario's climate horizon (thawYear, thawYearPiles, thawDelay and frozenMargin read "after ${hy}" or "≥" there).`,
       source: 'scenario climateHorizonYear (climate-horizon.ts)',
     },
+    ...foundationBands(s),
   };
   return IDS.map((id) => ({ id, ...L[id] }));
 }
