@@ -44,13 +44,34 @@ export function exclusionOf(m: ArrayLike<number>, textureClass: number, s: Scena
   return EXCLUSION.none;
 }
 
+interface SoftTable {
+  band: Int32Array;
+  good: Float64Array;
+  poor: Float64Array;
+}
+const softTables = new WeakMap<Scenario, SoftTable>();
+
+/** Band indices and scoring ranges of a scenario's soft criteria (cached per scenario object). */
+function softTable(s: Scenario): SoftTable {
+  let t = softTables.get(s);
+  if (!t) {
+    const r = softRanges(s);
+    t = {
+      band: Int32Array.from(SOFT_CRITERIA_BANDS, (b) => M[b]),
+      good: Float64Array.from(r, (x) => x[0]),
+      poor: Float64Array.from(r, (x) => x[1]),
+    };
+    softTables.set(s, t);
+  }
+  return t;
+}
+
 /** Weighted soft score with normalised `weights` (SOFT_CRITERIA_IDS order). */
 export function softScore(m: ArrayLike<number>, s: Scenario, weights: ArrayLike<number>): number {
-  const ranges = softRanges(s);
+  const t = softTable(s);
   let score = 0;
-  for (let i = 0; i < SOFT_CRITERIA_BANDS.length; i++) {
-    score += weights[i] * linearScore(m[M[SOFT_CRITERIA_BANDS[i]]], ranges[i][0], ranges[i][1]);
-  }
+  for (let i = 0; i < t.band.length; i++)
+    score += weights[i] * linearScore(m[t.band[i]], t.good[i], t.poor[i]);
   return score;
 }
 

@@ -274,7 +274,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       source: 'operating window (operating-window.ts)',
     },
     seasonalCop: {
-      title: 'Seasonal COP',
+      title: 'Seasonal COP of the heat pump unit',
       unit: '',
       kind: 'continuous',
       ramp: 'viridis',
@@ -345,9 +345,10 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       kind: 'class',
       classes: [
         { value: 0, label: 'no' },
-        { value: 1, label: 'yes: seasonal COP below the fuel break-even' },
+        { value: 1, label: 'yes: system COP below the fuel break-even' },
       ],
-      description: 'Flag where the seasonal COP is below the fuel break-even COP.',
+      description:
+        'Flag where the system seasonal COP (pump, backup and auxiliaries included) is below the fuel break-even COP.',
       source: ECON_SRC,
     },
     bedrockDepth: {

@@ -52,7 +52,8 @@ export interface ShaftProfile {
 
 /**
  * Long-term adfreeze capacity of the standard pile, kN, `time_yr` into the life with permafrost table
- * at `table_m` and the piles cooling the ground by `cooling_K` (0 without piles).
+ * at `table_m`, without piles and with the piles cooling the ground by `cooling_K` (both into
+ * `out[0]`, `out[1]`: one pass over the same depths).
  */
 export function shaftCapacityKernel_kN(
   k: CellConstants,
@@ -60,24 +61,37 @@ export function shaftCapacityKernel_kN(
   time_yr: number,
   table_m: number,
   cooling_K: number,
-): number {
+  out: Float64Array,
+): void {
   const s = k.scenario;
   const tip = s.pile.topDepth_m + s.pile.length_m;
-  if (!(tip > table_m)) return 0;
-  // Mean annual temperature at the table at this time (warming included), pinning the warm anomaly.
-  const meanAt = (z: number) =>
+  out[0] = 0;
+  out[1] = 0;
+  if (!(tip > table_m)) return;
+  const t = k.tables;
+  const b = p.warmingRate_K_yr;
+  const a = p.diffusivity_m2_yr;
+  // Mean annual temperature at the table at this time (warming included) pins the warm anomaly.
+  const meanTable =
     p.tableTemp_C +
-    p.gradient_K_m * Math.max(0, z - p.activeLayer_m) +
-    rampWarming_K(k.tables, z, time_yr, p.warmingRate_K_yr, p.diffusivity_m2_yr) -
-    cooling_K;
-  const anomaly = Math.max(0, -meanAt(table_m));
+    p.gradient_K_m * Math.max(0, table_m - p.activeLayer_m) +
+    rampWarming_K(t, table_m, time_yr, b, a);
+  const anomaly0 = Math.max(0, -meanTable);
+  const anomaly1 = Math.max(0, -(meanTable - cooling_K));
   const dz = (tip - table_m) / SEGMENTS;
-  let sum = 0;
+  let sum0 = 0;
+  let sum1 = 0;
   for (let i = 0; i < SEGMENTS; i++) {
     const z = table_m + (i + 0.5) * dz;
-    sum += adfreezeStrengthKernel_kPa(meanAt(z) + anomaly * Math.exp(-(z - table_m) / p.dampingDepth_m));
+    const mean =
+      p.tableTemp_C + p.gradient_K_m * Math.max(0, z - p.activeLayer_m) + rampWarming_K(t, z, time_yr, b, a);
+    const decay = Math.exp(-(z - table_m) / p.dampingDepth_m);
+    sum0 += adfreezeStrengthKernel_kPa(mean + anomaly0 * decay);
+    sum1 += adfreezeStrengthKernel_kPa(mean - cooling_K + anomaly1 * decay);
   }
-  return sum * 2 * Math.PI * s.pile.radius_m * dz;
+  const area = 2 * Math.PI * s.pile.radius_m * dz;
+  out[0] = sum0 * area;
+  out[1] = sum1 * area;
 }
 
 /** Structural results of one cell (kN, m). */
@@ -88,6 +102,8 @@ export interface FoundationResult {
   uplift_kN: number;
   jackingRatio: number;
   settlement_m: number;
+  /** Scratch for shaftCapacityKernel_kN. */
+  work: Float64Array;
 }
 
 /**
@@ -111,9 +127,12 @@ export function foundationKernel(
   const f = s.suitability.foundation;
   const life = s.designLife_yr;
   const altEnd = Math.max(p.activeLayer_m, q.activeLayerEnd_m);
-  out.capacityStart_kN = shaftCapacityKernel_kN(k, p, 0, p.activeLayer_m, 0);
-  out.capacityEnd_kN = shaftCapacityKernel_kN(k, p, life, altEnd, 0);
-  out.capacityEndPiles_kN = shaftCapacityKernel_kN(k, p, life, altEnd, q.coolingEnd_K);
+  const c = out.work;
+  shaftCapacityKernel_kN(k, p, 0, p.activeLayer_m, 0, c);
+  out.capacityStart_kN = c[0];
+  shaftCapacityKernel_kN(k, p, life, altEnd, q.coolingEnd_K, c);
+  out.capacityEnd_kN = c[0];
+  out.capacityEndPiles_kN = c[1];
   const heave = q.frostSusceptible ? f.heaveStressFrostSusceptible_kPa : f.heaveStressCoarse_kPa;
   out.uplift_kN = frostHeaveUpliftKernel_kN(heave, s.pile.radius_m, altEnd);
   out.jackingRatio = frostJackingRatioKernel(
@@ -134,5 +153,6 @@ export function createFoundationResult(): FoundationResult {
     uplift_kN: 0,
     jackingRatio: 0,
     settlement_m: 0,
+    work: new Float64Array(2),
   };
 }
