@@ -97,6 +97,8 @@ export interface KernelScratch {
   zeroCurtain: boolean;
   foundation: FoundationResult;
   system: SystemResult;
+  /** Annual-average ground load over the design peak, a (monthly-peak.ts; read by the calibration). */
+  annualFraction: number;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -118,6 +120,7 @@ export function createKernelScratch(): KernelScratch {
     zeroCurtain: false,
     foundation: createFoundationResult(),
     system: createSystemResult(),
+    annualFraction: 0,
   };
 }
 
@@ -312,6 +315,7 @@ export function evaluateCellMetrics(
   const rb = s.pile.radius_m;
   const gPeak = lookup(k.tables.cylinderWall, (alphaF * PEAK_S) / (rb * rb));
   const annualFraction = avg_W * toPeak;
+  x.annualFraction = annualFraction;
   pileWavePhasor(
     { diffusivity_m2_s: alphaF, top_m: s.pile.topDepth_m, bottom_m: s.pile.topDepth_m + H },
     x.phasor,
