@@ -107,7 +107,16 @@ describe('site summary', () => {
   });
 
   it('with a design load the study counts the system COP (pump, backup, controls): below the unit COP, fuel at the system COP', () => {
-    const years = [{ year: 1, delivered_kWh: 1000, unmet_kWh: 0, seasonalCop: 3.5, meanExtraction_W: 50 }];
+    const years = [
+      {
+        year: 1,
+        ground_kWh: 1000 * (1 - 1 / 3.5),
+        delivered_kWh: 1000,
+        unmet_kWh: 0,
+        seasonalCop: 3.5,
+        meanExtraction_W: 50,
+      },
+    ];
     const s = siteSavings(years, 16, DEFAULT_SCENARIO, 8000);
     const sys = s?.system;
     expect(sys).not.toBeNull();
