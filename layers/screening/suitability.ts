@@ -15,6 +15,7 @@
  * cold < −3 °C, cool −3 to −1.5 °C, warm > −1.5 °C, configurable.
  */
 import type { Scenario } from './scenario';
+import { BAND } from './band-ids';
 
 /** Exclusion reason codes (band `exclusion`), in the order the checks run (cell-class.ts). */
 export const EXCLUSION = {
@@ -133,14 +134,14 @@ export function passes(value: number, c: Comparison, threshold: number): boolean
  * (the structural margin of the cooled foundation, independent of the temperature criteria: it is set
  * by the active layer and the texture) and thaw stability (texture and ice).
  */
-export const SOFT_CRITERIA_IDS = ['coldness', 'energy', 'jackingMargin', 'thawStability'] as const;
+export const SOFT_CRITERIA_IDS = ['coldness', 'energy', 'jackingMargin', BAND.thawStability] as const;
 
 /** Band holding each soft criterion's raw value. */
 export const SOFT_CRITERIA_BANDS = [
-  'adfreezeTempEndPiles',
-  'fuelSaved',
-  'frostJackingRatio',
-  'thawStability',
+  BAND.adfreezeTempEndPiles,
+  BAND.fuelSaved,
+  BAND.frostJackingRatio,
+  BAND.thawStability,
 ] as const;
 
 /** The good (score 1) and poor (score 0) ends of each soft criterion, in SOFT_CRITERIA_IDS order. */
@@ -187,7 +188,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'data',
       title: 'Inside the data',
-      bandId: 'exclusion',
+      bandId: BAND.exclusion,
       unit: '',
       kind: 'exclusion',
       comparison: '!=',
@@ -198,7 +199,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'rock',
       title: 'Soil depth over bedrock (pile tip plus margin)',
-      bandId: 'bedrockDepth',
+      bandId: BAND.bedrockDepth,
       unit: 'm',
       kind: 'exclusion',
       comparison: '>=',
@@ -209,7 +210,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'permafrost',
       title: 'Permafrost at pile depth',
-      bandId: 'groundTemp',
+      bandId: BAND.groundTemp,
       unit: '°C',
       kind: 'exclusion',
       comparison: '<',
@@ -220,7 +221,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'thawed',
       title: 'Active layer above the reference depth',
-      bandId: 'activeLayer',
+      bandId: BAND.activeLayer,
       unit: 'm',
       kind: 'exclusion',
       comparison: '<',
@@ -231,7 +232,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'adfreezeTemp',
       title: 'Adfreeze-zone temperature at the end of life (piles operating)',
-      bandId: 'adfreezeTempEndPiles',
+      bandId: BAND.adfreezeTempEndPiles,
       unit: '°C',
       kind: 'exclusion',
       comparison: '<=',
@@ -242,7 +243,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'thawUnstable',
       title: 'Thaw year of thaw-unstable ground (piles operating)',
-      bandId: 'iceRichThawYear',
+      bandId: BAND.iceRichThawYear,
       unit: 'yr',
       kind: 'exclusion',
       comparison: '>',
@@ -253,7 +254,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'frostJacking',
       title: 'Frost-jacking demand over anchorage',
-      bandId: 'frostJackingRatio',
+      bandId: BAND.frostJackingRatio,
       unit: '',
       kind: 'exclusion',
       comparison: '<=',
@@ -264,7 +265,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'fluid',
       title: 'Fluid can extract heat',
-      bandId: 'windowUpperFluid',
+      bandId: BAND.windowUpperFluid,
       unit: 'W/m',
       kind: 'exclusion',
       comparison: '>',
