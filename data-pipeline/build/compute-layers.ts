@@ -46,11 +46,15 @@ function flagsLayer(): ScreeningLayer {
     const missing = names.filter((n) => v & INPUT_FLAG_BITS[n]);
     classes.push({
       value: v,
-      label: missing.length === 0 ? 'all optional grids given' : `default for ${missing.join(', ')}`,
+      // The roles' titles, never their ids: the label is shown on screens and exports.
+      label:
+        missing.length === 0
+          ? 'all optional grids given'
+          : `default for ${missing.map((n) => GRID_ROLES[n].title.toLowerCase()).join(', ')}`,
       description:
         missing.length === 0
           ? 'Every optional input came from a grid.'
-          : missing.map((n) => `${n}: ${GRID_ROLES[n].fallback}`).join('; '),
+          : missing.map((n) => `${GRID_ROLES[n].title}: ${GRID_ROLES[n].fallback}`).join('; '),
     });
   }
   const { title, unit, kind } = BAND_REGISTRY.inputFlags;

@@ -5,6 +5,7 @@
 import { useMemo, useState, type ChangeEvent } from 'react';
 import type { FeatureCollection } from 'geojson';
 import { ShortlistReport } from '../report/shortlist-report';
+import { StudyAll } from '../report/study-all';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { useShortlist, useShortlistSaveStatus } from '../shortlist/use-shortlist';
@@ -190,6 +191,7 @@ export function ShortlistPanel(props: {
         </button>
       ) : null}
       <div className="row wrap">
+        <StudyAll manifest={manifest} items={sorted} />
         <button
           type="button"
           onClick={() => setReportOpen(true)}

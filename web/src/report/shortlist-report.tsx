@@ -12,7 +12,7 @@ import { HEADLINE_BAND_IDS } from '../../../layers/screening/band-registry';
 import type { Manifest } from '../../../layers/screening/manifest';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { bandValueText, horizonFlagOf } from '../panels/cell-panel';
-import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
 import { SiteMap } from './site-map';
 import './report.css';
 
@@ -27,6 +27,7 @@ export function ShortlistReport(props: {
   const bands = manifest.bands;
   const headline = HEADLINE_BAND_IDS.flatMap((id) => bands.filter((b) => b.id === id));
   const scenario = (manifest.scenario as { name?: string; description?: string } | undefined) ?? {};
+  const studied = items.some((i) => i.metrics.studyThawDelay_yr !== undefined);
   const printed = new Date().toISOString().slice(0, 10);
   const value = (item: ShortlistItem, b: (typeof bands)[number]) =>
     bandValueText(b, item.values[b.id] ?? null, units, horizonFlagOf(b, item.values));
@@ -71,6 +72,8 @@ export function ShortlistReport(props: {
               {headline.map((b) => (
                 <th key={b.id}>{displayTitle(b.title, b.unit, units)}</th>
               ))}
+              {studied ? <th>Site study: thaw delay at the first probe</th> : null}
+              {studied ? <th>Site study: lowest fluid temperature</th> : null}
             </tr>
           </thead>
           <tbody>
@@ -82,6 +85,8 @@ export function ShortlistReport(props: {
                 {headline.map((b) => (
                   <td key={b.id}>{value(item, b)}</td>
                 ))}
+                {studied ? <td>{studyDelay(item, units)}</td> : null}
+                {studied ? <td>{studyNumber(item.metrics.studyLowestFluid_C, '°C', units)}</td> : null}
               </tr>
             ))}
           </tbody>
@@ -139,4 +144,16 @@ export function ShortlistReport(props: {
     </div>
   );
   return createPortal(overlay, document.body);
+}
+
+function studyNumber(v: number | string | null | undefined, unit: string, units: UnitSystem): string {
+  return typeof v === 'number' ? formatQuantity(v, unit, units) : 'not studied';
+}
+
+function studyDelay(item: ShortlistItem, units: UnitSystem): string {
+  const v = item.metrics.studyThawDelay_yr;
+  if (v === undefined) return 'not studied';
+  if (v === null) return 'no thaw in the simulated years';
+  const text = studyNumber(v, 'yr', units);
+  return item.metrics.studyThawDelayAtLeast === 'yes' ? `at least ${text}` : text;
 }
