@@ -1,6 +1,6 @@
 /**
  * Site panel prefill: the mapping from a clicked cell's tile bands to the site input (documented in
- * web/src/site/site-prefill.ts), and back to the quick estimate's cell inputs.
+ * layers/screening/site-prefill.ts), and back to the quick estimate's cell inputs.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -13,7 +13,7 @@ import {
   MAX_SITE_WATER_CONTENT_M3M3,
   sitePrefill,
   standardDesignLoad_W,
-} from '../../web/src/site/site-prefill';
+} from '../../layers/screening/site-prefill';
 
 const cell = { meanAirTemp_C: -6.2, textureClass: 3, waterContent_m3m3: 0.38, bedrockDepth: 22.4 };
 

@@ -7,15 +7,20 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { createPortal } from 'react-dom';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { siteInputSchema, type SiteInputDraft } from '../../../layers/site/site-input-schema';
-import { screenCell, type CellScreening } from '../../../layers/screening/cell-screening-model';
+import type { CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { formatLonLat, type UnitSystem } from '../units/display-units';
 import { SchemaField } from './site-form';
 import { fieldId, type FormContext } from './form-inputs';
 import { flattenInputs, issuesByPath } from './schema-form-model';
-import { cellInputsFromSite, scenarioFromManifest, type SitePrefill } from './site-prefill';
-import { withProfileProbes } from './site-profile';
+import {
+  cellInputsFromSite,
+  scenarioFromManifest,
+  type SitePrefill,
+} from '../../../layers/screening/site-prefill';
+import { screenCell } from '../../../layers/screening/cell-screening-model';
+import { studyRunInput } from '../../../layers/screening/run-site-study';
 import { runSiteInWorker, SiteRunCancelled, type SiteRunHandle } from './run-site-in-worker';
 import { SiteCharts, SiteSummaryTable, useSiteDerived, type SiteRunOutcome } from './site-results';
 import type { SitePlace } from './site-panel';
@@ -90,10 +95,7 @@ export function SiteStudy(props: {
       return;
     }
     setBlocked(false);
-    const inputParsed = parsed.data;
-    const pileR = inputParsed.pile ? inputParsed.pile.outerDiameter_m / 2 : 0;
-    const r = Math.min(Math.max(scenario.referenceRadius_m, pileR + 0.05), inputParsed.domain.radius_m);
-    const { input, column } = withProfileProbes(inputParsed, r);
+    const { input, column } = studyRunInput(parsed.data, scenario);
     setRun({ kind: 'running', progress: 0, phase: 'simulating' });
     let last = 0;
     const h = runSiteInWorker(input, { scenario, column }, (f, phase) => {
@@ -108,7 +110,7 @@ export function SiteStudy(props: {
         handle.current = null;
         setRun({
           kind: 'done',
-          outcome: { input: siteInputSchema.parse(input), result, column, sizing, elapsed_ms },
+          outcome: { input, result, column, sizing, elapsed_ms },
         });
       },
       (e: unknown) => {
@@ -367,13 +369,7 @@ function SiteOutcome(props: {
   const derived = useSiteDerived(props.outcome, props.scenario);
   return (
     <div className="site-outcome" data-testid="site-outcome">
-      <SiteSummaryTable
-        run={props.outcome}
-        derived={derived}
-        quick={props.quick}
-        scenario={props.scenario}
-        units={props.units}
-      />
+      <SiteSummaryTable derived={derived} units={props.units} />
       <button type="button" onClick={() => props.onAdd(derived)} data-testid="site-add-shortlist">
         Add to shortlist
       </button>
@@ -391,7 +387,7 @@ function SiteOutcome(props: {
           ))}
         </ul>
       ) : null}
-      <SiteCharts run={props.outcome} derived={derived} quick={props.quick} units={props.units} />
+      <SiteCharts run={props.outcome} derived={derived} units={props.units} />
     </div>
   );
 }

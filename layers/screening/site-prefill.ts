@@ -1,5 +1,5 @@
 /**
- * Prefill of the site form from a clicked map cell, and the reverse step that turns the form back into
+ * Prefill of the site study from a clicked map cell, and the reverse step that turns the form back into
  * the per-cell inputs of the quick estimate.
  *
  * Mapping from tile bands (manifest band ids, SI) to the site input (layers/site/site-input-schema.ts):
@@ -19,10 +19,11 @@
  * (referenceRadius_m, referenceDepth_m) as probe 0 so the simulated thaw delay matches the map's.
  * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
  */
-import type { SiteInputDraft } from '../../../layers/site/site-input-schema';
-import { BAND, type BandId } from '../../../layers/screening/band-ids';
-import { TEXTURE_CODES, type CellInputs, type TextureName } from '../../../layers/screening/screening-model';
-import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../../layers/screening/scenario';
+import type { SiteInputDraft } from '../site/site-input-schema';
+import { designHeatingLoad_W } from '../site/site-load-line';
+import { BAND, type BandId } from './band-ids';
+import { TEXTURE_CODES, type CellInputs, type TextureName } from './screening-model';
+import { DEFAULT_SCENARIO, parseScenario, type Scenario } from './scenario';
 
 /** The bands the prefill reads (each one a band every build writes: tests/pipeline/site-prefill-demo-build.test.ts). */
 export const PREFILL_BANDS: readonly BandId[] = [
@@ -83,11 +84,9 @@ const round = (x: number, digits: number): number => Number(x.toFixed(digits));
  */
 export const MAX_SITE_WATER_CONTENT_M3M3 = 0.95;
 
-/** Design heating load of the scenario's standard building at a site's climate, W. */
+/** Design heating load of the scenario's standard building at a site's climate, W (site-load-line.ts). */
 export function standardDesignLoad_W(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
-  const b = s.building;
-  const design_C = meanAirTemp_C - amplitude_C - b.designMargin_K;
-  return Math.max(0, b.heatLossCoefficient_W_K * (b.balanceTemp_C - design_C));
+  return designHeatingLoad_W({ ...s.building, meanAirTemp_C, amplitude_C });
 }
 
 /** Build the site form's starting input from a cell (see the module comment for the mapping). */
