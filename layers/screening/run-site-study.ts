@@ -2,7 +2,7 @@
  * One site study run, as the dashboard's study does it and `pile-atlas site --report` repeats it: the
  * planner's input plus a column of profile probes at the scenario's reference radius, the simulation
  * (with and without the pile), the pile sizing by design pulse for the map's foundation (the scenario's
- * pile spacing and design life) and the report (site-study-report.ts). The dashboard runs the two
+ * pile spacing, design life and design-day margin) and the report (site-study-report.ts). The dashboard runs the two
  * heavy steps in its Web Worker with the same functions (web/src/site/site-worker.ts).
  */
 import type { SiteInput } from '../site/site-input-schema';
@@ -15,8 +15,16 @@ import type { Scenario } from './scenario';
 import { siteStudyReport, type SiteStudyReport } from './site-study-report';
 
 /** The foundation the study sizes: the map's (scenario) pile spacing and design life. */
-export function studyFoundation(s: Scenario): { spacing_m: number; designLife_yr: number } {
-  return { spacing_m: s.building.pileSpacing_m, designLife_yr: s.designLife_yr };
+export function studyFoundation(s: Scenario): {
+  spacing_m: number;
+  designLife_yr: number;
+  designMargin_K: number;
+} {
+  return {
+    spacing_m: s.building.pileSpacing_m,
+    designLife_yr: s.designLife_yr,
+    designMargin_K: s.building.designMargin_K,
+  };
 }
 
 /** The run input: the planner's probes, then the profile column at the reference radius. */

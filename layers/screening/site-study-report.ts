@@ -19,6 +19,7 @@ import type { SiteSizing } from '../site/site-sizing';
 import { energyByYear, meanExtraction_W_m, type SiteYearEnergy } from '../site/site-energy';
 import { siteNotes, type SiteNote } from '../site/site-notes';
 import { DEFAULT_HEAT_PUMP_CURVE } from '../physics/heat-pump';
+import { designDayLoad_W } from '../site/site-load-line';
 import { freezingPoint_C as fluidFreezingPoint_C } from '../physics/fluids';
 import { SCREENING_CAUTION, GROUND_CAUTIONS } from '../cautions';
 import { dieselGridSavings, type DieselGridSavings } from './economics';
@@ -44,6 +45,7 @@ export interface SiteStudyReport {
   years: SiteYearEnergy[];
   /** No-pile annual-mean ground temperature at the pile's mid-depth in year 1, °C. */
   groundTemp_C: number;
+  /** Design-day peak load of the building (the load line's top plus the scenario's margin), W. */
   peakLoad_W: number | null;
   piles: number;
   sizing: SiteSizing | null;
@@ -57,6 +59,8 @@ export interface SiteStudyReport {
   /** Share of the building's heating the piles carried over the run (building mode). */
   loadShare: number | null;
   quick: CellScreening | null;
+  /** The map model's one-pile form (onePileScenario), the calibrated counterpart of the simulated pile. */
+  quickOnePile: CellScreening | null;
   comparison: StudyComparisonRow[];
   window: StudyWindow | null;
   notes: SiteNote[];
@@ -84,6 +88,24 @@ export function quickEstimate(input: SiteInput, scenario: Scenario): CellScreeni
   } catch {
     return null;
   }
+}
+
+/**
+ * The scenario of the map model's one-pile form: one pile carrying one pile's share of the standard
+ * building (heat-loss coefficient / foundation piles). This is the form the published calibration
+ * compares with the simulator's one pile (README, "Calibration against the site simulator"); the study
+ * simulates exactly that pile (each of the building's piles at designLoad / pileCount).
+ */
+export function onePileScenario(s: Scenario): Scenario {
+  const n = s.building.foundationPiles;
+  return {
+    ...s,
+    building: {
+      ...s.building,
+      foundationPiles: 1,
+      heatLossCoefficient_W_K: s.building.heatLossCoefficient_W_K / n,
+    },
+  };
 }
 
 /** The report of one run (module comment). */
@@ -119,6 +141,7 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
   const minEnteringFluid_C = pile ? curve.minEnteringFluid_C : null;
   const lowestFluid_C = result.fluid?.lowest_C ?? null;
   const quick = quickEstimate(input, scenario);
+  const quickOnePile = quickEstimate(input, onePileScenario(scenario));
   const window = quick
     ? studyWindow({ quick, extraction_W_m, lowestFluid_C, minEnteringFluid_C, scenario, loadShare })
     : null;
@@ -129,7 +152,14 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
     simulatedYears: input.years,
     years,
     groundTemp_C,
-    peakLoad_W: building ? building.designLoad_W : null,
+    peakLoad_W: building
+      ? designDayLoad_W(
+          building.designLoad_W,
+          input.climate,
+          building.balancePoint_C,
+          scenario.building.designMargin_K,
+        )
+      : null,
     piles,
     sizing: run.sizing,
     savings,
@@ -140,6 +170,7 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
     lowestFluid_C,
     loadShare,
     quick,
+    quickOnePile,
     window,
     notes,
   };

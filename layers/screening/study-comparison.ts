@@ -14,6 +14,7 @@ import type { SiteStudyReport, SiteStudyRun } from './site-study-report';
 
 export type StudyQuantity =
   | 'thawDelay'
+  | 'noPileThaw'
   | 'pileCount'
   | 'heatPerPile'
   | 'loadShare'
@@ -30,13 +31,19 @@ export interface StudyComparisonRow {
   title: string;
   /** SI unit ('' for counts, shares and COP; '%' is not used: shares are 0–1). */
   unit: string;
+  /** The map's value (the standard building on its foundation group). */
   quick: number | null;
+  /**
+   * The map model's one-pile form (one pile's share of the building): what the simulated pile is and
+   * what the calibration compares; equal to `quick` for quantities the group does not change.
+   */
+  quickOnePile: number | null;
   /** The map's reading where a plain number would mislead ("after 2100", "≥ 45 yr"). */
   quickText?: string;
   simulated: number | null;
   /** The simulation's reading where there is no plain number ("no thaw within 30 yr either way"). */
   simulatedText?: string;
-  /** quick − simulated, where both are numbers. */
+  /** quickOnePile − simulated, where both are numbers (the calibrated comparison). */
   difference: number | null;
   band: CalibrationBand | null;
   agreement: Agreement;
@@ -49,105 +56,103 @@ type ReportBase = Omit<SiteStudyReport, 'comparison'>;
 const f1 = (v: number) => v.toFixed(1);
 
 function row(
-  r: Omit<StudyComparisonRow, 'difference' | 'agreement'> & { comparable?: boolean },
+  r: Omit<StudyComparisonRow, 'difference' | 'agreement' | 'quickOnePile'> & {
+    quickOnePile?: number | null;
+    comparable?: boolean;
+  },
 ): StudyComparisonRow {
   const { comparable = true, ...rest } = r;
-  const both =
-    r.quick !== null && r.simulated !== null && Number.isFinite(r.quick) && Number.isFinite(r.simulated);
-  const difference = both ? (r.quick as number) - (r.simulated as number) : null;
+  const one = r.quickOnePile === undefined ? r.quick : r.quickOnePile;
+  const both = one !== null && r.simulated !== null && Number.isFinite(one) && Number.isFinite(r.simulated);
+  const difference = both ? (one as number) - (r.simulated as number) : null;
   let agreement: Agreement;
   if (!both || !comparable) agreement = 'not comparable';
   else if (!r.band) agreement = 'no published band';
-  else
-    agreement = withinBand(r.band, r.quick as number, r.simulated as number) ? 'within band' : 'outside band';
-  return { ...rest, difference, agreement };
+  else agreement = withinBand(r.band, one as number, r.simulated as number) ? 'within band' : 'outside band';
+  return { ...rest, quickOnePile: one, difference, agreement };
 }
 
-function thawDelayRow(run: SiteStudyRun, quick: CellScreening | null, s: Scenario): StudyComparisonRow {
+function thawRows(run: SiteStudyRun, d: ReportBase, s: Scenario): StudyComparisonRow[] {
   const res = run.result;
   const p0 = run.input.probes[0];
-  const m = quick?.metrics;
+  const m = d.quick?.metrics;
+  const m1 = d.quickOnePile?.metrics;
   const where = p0 ? `${p0.r_m} m from the pile axis, ${p0.z_m} m deep` : 'the reference point';
-  const title = p0 ? `Thaw delay at ${p0.r_m} m from the pile, ${p0.z_m} m deep` : 'Thaw delay';
+  const years = run.input.years;
+  const runEnd = s.startYear + years;
+  const noPileThaw = res.noPile.probes[0]?.thawYear ?? null;
+  // Thaw year without piles: the calibrated thaw figure (no pile on either side).
+  const mapThaw = m?.thawYear.value ?? null;
+  const mapAfter = m?.thawYear.qualifier !== undefined;
+  const simThaw = noPileThaw !== null ? s.startYear + noPileThaw : null;
+  const onset = row({
+    quantity: 'noPileThaw',
+    title: `Thaw without piles at ${where} (calendar year)`,
+    unit: '',
+    quick: mapAfter ? null : mapThaw,
+    quickText: m?.thawYear.qualifier,
+    simulated: simThaw,
+    simulatedText: simThaw === null ? `after ${runEnd} (end of the run)` : undefined,
+    band: CALIBRATION_BANDS.noPileThaw,
+    reason:
+      simThaw === null && mapAfter
+        ? `Neither thaws: the map puts the thaw after its climate horizon ${s.climateHorizonYear}, and the ground is still frozen when the run ends in ${runEnd}.`
+        : simThaw === null && mapThaw !== null
+          ? `The run ends in ${runEnd}, before the map's thaw year; run at least ${Math.ceil(mapThaw - s.startYear) + 5} years to compare.`
+          : 'The map: conduction of the surface warming to the reference depth plus the time to melt its ice (a Stefan delay); the study: the simulated ground column with freezing and thawing.',
+  });
   const delay = res.thawDelay_yr[0] ?? null;
   const lower = res.thawDelayIsLowerBound[0] ?? false;
   const upper = res.thawDelayIsUpperBound[0] ?? false;
-  const noPileThaw = res.noPile.probes[0]?.thawYear ?? null;
-  const years = run.input.years;
-  const qv = m?.thawDelay.value ?? null;
-  const group = `${s.building.foundationPiles}-pile foundation (${s.building.pileSpacing_m} m spacing)`;
   const models =
-    `The map superposes the whole ${group} on a conduction ramp with a latent-heat delay; ` +
-    'the study simulates one pile with freezing and thawing in the ground (no neighbouring piles), so its ground is cooled less.';
+    `The map superposes the whole ${s.building.foundationPiles}-pile foundation (${s.building.pileSpacing_m} m spacing) on the warming; ` +
+    'the study simulates one pile (no neighbours), which cools the ground less, so its delay is closer to the one-pile value. No calibration bound is published for the thaw delay.';
   const base = {
     quantity: BAND.thawDelay,
-    title,
+    title: p0 ? `Thaw delay at ${p0.r_m} m from the pile, ${p0.z_m} m deep` : 'Thaw delay',
     unit: 'yr',
-    quick: qv,
+    quick: m?.thawDelay.value ?? null,
+    quickOnePile: m1?.thawDelay.value ?? null,
     quickText: m?.thawDelay.qualifier,
+    band: null,
   };
+  let delayRow: StudyComparisonRow;
   if (noPileThaw === 0) {
-    return row({
+    delayRow = row({
       ...base,
       simulated: null,
       simulatedText: 'ground unfrozen at the start: nothing to delay',
-      band: CALIBRATION_BANDS.thawDelay,
       comparable: false,
-      reason: `The simulated ground at ${where} is unfrozen from the first year, so there is no thaw to delay; the map's TTOP ground temperature is colder here.`,
+      reason: `The simulated ground at ${where} is unfrozen from the first year, so there is no thaw to delay.`,
     });
-  }
-  if (delay === null) {
-    const mapThaw = m?.thawYear.value ?? null;
-    const needed = mapThaw !== null ? Math.ceil(mapThaw - s.startYear) : null;
-    return row({
+  } else if (delay === null) {
+    delayRow = row({
       ...base,
       simulated: null,
       simulatedText: res.withPile ? `no thaw within ${years} yr either way` : 'no pile in this run',
-      band: CALIBRATION_BANDS.thawDelay,
       comparable: false,
-      reason:
-        `The run ends after ${years} years, before the ground at ${where} thaws even without the pile` +
-        (needed !== null && m?.thawYear.qualifier === undefined
-          ? ` (the map's thaw without piles: about ${needed} years from ${s.startYear}); run at least ${needed + 5} years to compare.`
-          : m?.thawYear.qualifier
-            ? ` (the map: ${m.thawYear.qualifier}).`
-            : '.'),
+      reason: `The ground at ${where} does not thaw within the run even without the pile, so the run cannot measure a delay. ${onset.reason}`,
     });
-  }
-  if (upper) {
-    return row({
+  } else if (upper) {
+    delayRow = row({
       ...base,
       simulated: delay,
       simulatedText: `none: the pile brings the thaw forward by more than ${f1(-delay)} yr`,
-      band: CALIBRATION_BANDS.thawDelay,
       comparable: false,
-      reason: `In the run the pile thaws the ground at ${where} earlier than without it (the pile heats, or its ground warms with the trend first). ${models}`,
+      reason: `In the run the pile thaws the ground at ${where} earlier than without it. ${models}`,
     });
-  }
-  if (lower) {
-    const consistent = qv !== null && qv >= delay - CALIBRATION_BANDS.thawDelay.value;
-    return row({
+  } else if (lower) {
+    delayRow = row({
       ...base,
       simulated: delay,
       simulatedText: `more than ${f1(delay)} yr (the ground with the pile is still frozen when the run ends)`,
-      band: CALIBRATION_BANDS.thawDelay,
       comparable: false,
-      reason:
-        `The simulated delay is only a lower bound: the ground with the pile is still frozen after ${years} years. ` +
-        (qv === null
-          ? ''
-          : consistent
-            ? 'The map is consistent with it. '
-            : `The map's delay is shorter than the bound by more than the band: conservative. `) +
-        models,
+      reason: `The simulated delay is only a lower bound: the ground with the pile is still frozen in ${runEnd}. ${models}`,
     });
+  } else {
+    delayRow = row({ ...base, simulated: delay, reason: models });
   }
-  return row({
-    ...base,
-    simulated: delay,
-    band: CALIBRATION_BANDS.thawDelay,
-    reason: models,
-  });
+  return [onset, delayRow];
 }
 
 /** Every shared quantity (module comment). */
@@ -158,11 +163,15 @@ export function compareStudy(input: {
 }): StudyComparisonRow[] {
   const { run, report: d, scenario: s } = input;
   const m = d.quick?.metrics;
+  const m1 = d.quickOnePile?.metrics;
   const pile = run.input.pile;
   const length_m = pile?.length_m ?? s.pile.length_m;
   const peak_W = d.peakLoad_W;
   const group = `${s.building.foundationPiles}-pile foundation at ${s.building.pileSpacing_m} m spacing`;
-  const rows: StudyComparisonRow[] = [thawDelayRow(run, d.quick, s)];
+  const onePile =
+    "The simulated pile carries one pile's share of the building; the map's one-pile form (one pile, that share of the load) is its calibrated counterpart, " +
+    `while the map itself shows a pile of the ${group}, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).`;
+  const rows: StudyComparisonRow[] = thawRows(run, d, s);
 
   const quickPiles =
     m && peak_W && m.pilesPerTon.value !== null
@@ -172,38 +181,41 @@ export function compareStudy(input: {
   rows.push(
     row({
       quantity: 'pileCount',
-      title: peak_W ? `Piles for the peak load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
+      title: peak_W ? `Piles for the design-day load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
       unit: '',
       quick: quickPiles,
       simulated: sized?.ok ? sized.sizing.pileCount : null,
       simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
       band: CALIBRATION_BANDS.pileCount,
       reason:
-        'Both by the three-pulse method (annual, design month, 6-hour peak) for the same building load and design life. ' +
-        `The map takes the ground temperature of its TTOP model and the standard pile's resistance; the study sizes with the simulated ground temperature at mid-pile` +
+        `Both for the ${group} by the three-pulse method (annual, design month, 6-hour peak), same building load and design life (${s.designLife_yr} yr). ` +
+        'The map takes its TTOP ground temperature and the standard pile resistance; the study sizes with the simulated ground temperature at mid-pile' +
         (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C)` : '') +
-        ' and the resistance of the loop entered in the form.',
+        (run.result.fluid
+          ? `, the resistance of the loop in the form (${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)})`
+          : ', the resistance of the loop in the form') +
+        ' and the annual energy of its load line.',
     }),
   );
 
+  const atLimit = d.window?.fluidAtLimit ?? false;
   const carried = m?.extractionCarried.value ?? null;
-  const windowText = d.window
-    ? d.window.zone === 'too much' && !d.window.fluidAtLimit
-      ? ` Here the single pile takes more than the group's bound allows without reaching its fluid limit.`
-      : ''
-    : '';
+  const carried1 = m1?.extractionCarried.value ?? null;
   rows.push(
     row({
       quantity: 'heatPerPile',
       title: 'Heat from the ground per pile, annual mean',
       unit: 'W',
       quick: carried !== null ? carried * length_m : null,
+      quickOnePile: carried1 !== null ? carried1 * length_m : null,
       simulated: d.extraction_W,
-      band: null,
+      band: atLimit ? CALIBRATION_BANDS.heatPerPile : null,
       reason:
-        `The heat each of the building's ${d.piles} piles takes from the ground. The map caps it at the operating window of a pile in the ${group} ` +
-        `(neighbours cool each other's ground over the years); the study simulates one pile alone, whose ground stays warmer.` +
-        windowText,
+        onePile +
+        (atLimit
+          ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
+          : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
+        ' The map holds the fluid limit through a 6-hour design peak each month; the study steps a week at a time and cannot see that peak, so it lets the pile draw more heat in the cold weeks.',
     }),
   );
   rows.push(
@@ -212,11 +224,10 @@ export function compareStudy(input: {
       title: "Share of the building's heating the piles carry",
       unit: '',
       quick: m?.loadShare.value ?? null,
+      quickOnePile: m1?.loadShare.value ?? null,
       simulated: d.loadShare,
-      band: null,
-      reason:
-        'The map: the window-limited heat over the heat the whole load would need, for the group. ' +
-        'The study: heat the heat pump delivered over the heating demand of the run, with the fluid limit applied week by week to one pile.',
+      band: CALIBRATION_BANDS.loadShare,
+      reason: `${onePile} The study's share is the heat delivered over the heating demand of the run, with the fluid limit applied week by week (no 6-hour design peak, which the map includes), so it carries more.`,
     }),
   );
   rows.push(
@@ -226,10 +237,10 @@ export function compareStudy(input: {
       unit: '°C',
       quick: m?.groundTemp.value ?? null,
       simulated: Number.isFinite(d.groundTemp_C) ? d.groundTemp_C : null,
-      band: null,
+      band: CALIBRATION_BANDS.groundTemp,
       reason:
-        'The map: the TTOP model (thawing and freezing indices with n-factors, thermal offset of the soil) plus the geothermal gradient below. ' +
-        'The study: the simulated ground column without the pile, first-year mean, from the same air temperatures, n-factors and heat flux.',
+        'The map: the TTOP model (thawing and freezing indices with n-factors, thermal offset of the soil) plus the geothermal gradient; ' +
+        'the study: the simulated ground column without the pile, first-year mean, from the same air, n-factors and heat flux. The bound is for the mean along the pile.',
     }),
   );
   const alt = run.result.noPile.annualThawDepth_m[0] ?? null;
@@ -242,10 +253,10 @@ export function compareStudy(input: {
       quick: m?.activeLayer.value ?? null,
       simulated: noPermafrost ? null : alt,
       simulatedText: noPermafrost ? 'no permafrost in the column' : undefined,
-      band: null,
+      band: CALIBRATION_BANDS.activeLayer,
       reason:
-        'The map: the two-phase Neumann solution over the thaw season (thawing index as one step into ground at its TTOP temperature). ' +
-        "The study: the deepest thaw of the simulated first year, with the year's full temperature cycle.",
+        'The map: the two-phase Neumann solution over the thaw season (the thawing index as one step into ground at its TTOP temperature); ' +
+        "the study: the deepest thaw of the simulated first year, with the year's full temperature cycle.",
     }),
   );
   rows.push(
@@ -254,11 +265,12 @@ export function compareStudy(input: {
       title: 'Seasonal COP',
       unit: '',
       quick: m?.seasonalCop.value ?? null,
+      quickOnePile: m1?.seasonalCop.value ?? null,
       simulated: d.savings?.seasonalCop ?? null,
       band: null,
       reason:
         "The map: the heat pump's curve at the seasonal mean fluid temperature of undisturbed ground; " +
-        'the study: the heat pump step by step at the simulated fluid temperature, energy-weighted over the run.',
+        'the study: the heat pump step by step at the simulated fluid temperature, weighted by the heat delivered. No calibration bound is published.',
     }),
   );
   rows.push(
@@ -267,10 +279,12 @@ export function compareStudy(input: {
       title: 'Fuel saved on a diesel grid',
       unit: 'L/yr',
       quick: m?.fuelSaved.value ?? null,
+      quickOnePile:
+        m1?.fuelSaved.value !== null && m1 ? m1.fuelSaved.value * s.building.foundationPiles : null,
       simulated: d.savings?.fuelSaved_L ?? null,
       band: null,
       reason:
-        'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do.',
+        'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do (one-pile form: one pile × the building’s piles).',
     }),
   );
   rows.push(
@@ -279,6 +293,8 @@ export function compareStudy(input: {
       title: 'CO2 avoided',
       unit: 't/yr',
       quick: m?.co2Avoided.value ?? null,
+      quickOnePile:
+        m1?.co2Avoided.value !== null && m1 ? m1.co2Avoided.value * s.building.foundationPiles : null,
       simulated: d.savings?.co2Avoided_t ?? null,
       band: null,
       reason: 'Follows the fuel row (same balance, CO2 per litre of each fuel).',

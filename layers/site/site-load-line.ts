@@ -8,10 +8,14 @@
  * with T_air(t) = MAAT − A·cos(2π (t − t_coldest)/1 yr), so that Q = Q_design at the coldest air. The
  * 1 K floor keeps the line finite where the coldest air is at or above the balance point (no heating
  * season: the load is then zero at almost every hour anyway).
- * Design load of the standard building (the map's and the prefill's):
- *   Q_design = UA · max(1 K, T_b − (MAAT − A − margin)),
- * UA the heat-loss coefficient and margin the design-day depression below the coldest monthly mean
- * (scenario building settings, common practice). Same 1 K floor.
+ * Loads of the standard building (the map's and the study's): at the coldest air of the annual wave
+ *   Q_cold = UA · max(1 K, T_b − (MAAT − A))          (the site input's designLoad_W, the load line's top)
+ * and on the design day, the margin below the coldest monthly mean, which the peak pulse of the sizing
+ * carries:
+ *   Q_design = UA · max(1 K, T_b − (MAAT − A − margin)) = Q_cold · (span + margin)/span,
+ * UA the heat-loss coefficient and margin the design-day depression (scenario building settings, common
+ * practice). Same 1 K floor. The annual energy follows the load line to Q_cold, as the map's degree-day
+ * demand UA·HDD does; only the peak uses the margin.
  */
 
 /** Smallest balance-point-to-design-air difference, K (see the module comment). */
@@ -27,6 +31,17 @@ export function loadLineFraction(climate: LoadLineClimate, balancePoint_C: numbe
   const coldest = climate.meanAirTemp_C - climate.amplitude_C;
   const span = Math.max(LOAD_LINE_FLOOR_K, balancePoint_C - coldest);
   return Math.max(0, balancePoint_C - air_C) / span;
+}
+
+/** Peak (design-day) load from the load line's top: Q_cold · (span + margin)/span (module comment). */
+export function designDayLoad_W(
+  loadAtColdestAir_W: number,
+  climate: LoadLineClimate,
+  balancePoint_C: number,
+  designMargin_K: number,
+): number {
+  const span = Math.max(LOAD_LINE_FLOOR_K, balancePoint_C - (climate.meanAirTemp_C - climate.amplitude_C));
+  return (loadAtColdestAir_W * (span + designMargin_K)) / span;
 }
 
 /** Design heating load of a building of heat-loss coefficient UA at a site's climate, W. */

@@ -19,7 +19,7 @@ import type { SiteInput, SiteResult } from './site-input-schema';
 import { sizePileField, type PileFieldSizingResult } from './pile-sizing';
 import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
 import { annualMeanAt, profileAtYear, type ProfileColumn } from './site-profile';
-import { annualHeating } from './site-load-line';
+import { annualHeating, designDayLoad_W } from './site-load-line';
 import { groundPropertiesAt } from './site-setup';
 
 export interface SizingInputs {
@@ -119,7 +119,7 @@ export function sizeSiteByPulse(
   input: SiteInput,
   result: SiteResult,
   column: ProfileColumn,
-  foundation: { spacing_m: number; designLife_yr: number },
+  foundation: { spacing_m: number; designLife_yr: number; designMargin_K: number },
 ): SiteSizing | null {
   const pile = input.pile;
   if (!pile || !result.fluid || input.operation.mode !== 'building') return null;
@@ -129,8 +129,16 @@ export function sizeSiteByPulse(
   if (!Number.isFinite(groundTemp_C)) return { ok: false, reason: 'no ground temperature at the pile depth' };
   const props = groundPropertiesAt(input, mid, !(groundTemp_C > 0));
   if (!props) return { ok: false, reason: 'the layer at the pile depth cannot be resolved' };
+  // The input's load is the load line's top (coldest air of the wave); the peak pulse carries the
+  // design day, the margin colder (site-load-line.ts).
+  const peak_W = designDayLoad_W(
+    op.designLoad_W,
+    input.climate,
+    op.balancePoint_C,
+    foundation.designMargin_K,
+  );
   const base: SizingInputs = {
-    peakLoad_W: op.designLoad_W,
+    peakLoad_W: peak_W,
     designLoad_W: op.designLoad_W,
     balancePoint_C: op.balancePoint_C,
     conductivity_W_mK: props.conductivity_W_mK,
@@ -141,7 +149,7 @@ export function sizeSiteByPulse(
     designLife_yr: foundation.designLife_yr,
     flowPerKilowatt_m3_s: Math.min(
       1e-3,
-      Math.max(1e-6, ((result.fluid.flow_L_min / 60000) * op.pileCount) / (op.designLoad_W / 1000)),
+      Math.max(1e-6, ((result.fluid.flow_L_min / 60000) * op.pileCount) / (peak_W / 1000)),
     ),
   };
   const full = sizeSitePiles(input, base);

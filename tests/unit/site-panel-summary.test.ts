@@ -179,10 +179,8 @@ describe('pile sizing by design pulse after a run', () => {
     };
     const { input: withProfile, column } = withProfileProbes(siteInputSchema.parse(draft), 1.5);
     const parsed = siteInputSchema.parse(withProfile);
-    const sized = sizeSiteByPulse(parsed, simulateSite(parsed), column, {
-      spacing_m: DEFAULT_SCENARIO.building.pileSpacing_m,
-      designLife_yr: DEFAULT_SCENARIO.designLife_yr,
-    });
+    const { studyFoundation } = await import('../../layers/screening/run-site-study');
+    const sized = sizeSiteByPulse(parsed, simulateSite(parsed), column, studyFoundation(DEFAULT_SCENARIO));
     if (!sized || !sized.ok)
       throw new Error(`sizing failed: ${sized && !sized.ok ? sized.reason : 'no sizing'}`);
     expect(sized.byPulse.peak).toBe(sized.sizing.pileCount);

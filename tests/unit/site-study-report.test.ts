@@ -15,7 +15,10 @@ import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
 import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { sitePrefill } from '../../layers/screening/site-prefill';
-import { sizeStudy, studyRunInput } from '../../layers/screening/run-site-study';
+import { sizeStudy, studyFoundation, studyRunInput } from '../../layers/screening/run-site-study';
+import { sizeSiteByPulse } from '../../layers/site/site-sizing';
+import { studyRunYears } from '../../layers/screening/site-prefill';
+import { siteRunCost } from '../../layers/site/site-run-cost';
 import { studyWindow } from '../../layers/screening/study-window';
 import { screenCell } from '../../layers/screening/cell-screening-model';
 import { cellInputsFromSite } from '../../layers/screening/site-prefill';
@@ -112,5 +115,52 @@ describe('site study report', () => {
       ),
       { seed: 12, numRuns: 300 },
     );
+  });
+
+  it('sizes for every design life the scenario and the site input allow (1 to 200 yr), with no validator wording', () => {
+    const { input, column } = studyRunInput(siteInputSchema.parse({ ...draft, years: 1 }), DEFAULT_SCENARIO);
+    const result = simulateSite(input);
+    for (const life of [1, 30, 100, 120, 200]) {
+      const sized = sizeSiteByPulse(input, result, column, {
+        ...studyFoundation(DEFAULT_SCENARIO),
+        designLife_yr: life,
+      });
+      expect(sized?.ok, `${life} yr: ${sized && !sized.ok ? sized.reason : ''}`).toBe(true);
+    }
+    // A run of 120 or 200 years sizes for the map's design life, not the run length (the old bug
+    // printed "designLife_yr must be in [1, 100] yr; received 120" in the sizing row).
+    expect(studyFoundation({ ...DEFAULT_SCENARIO, designLife_yr: 100 }).designLife_yr).toBe(100);
+  }, 120_000);
+
+  it("defaults the run length to the map's thaw (or the climate horizon), within the design life and 200 yr, with its cost stated", () => {
+    const quick = screenCell(
+      cellInputsFromSite(siteInputSchema.parse(draft), DEFAULT_SCENARIO),
+      DEFAULT_SCENARIO,
+    );
+    const horizon = DEFAULT_SCENARIO.climateHorizonYear - DEFAULT_SCENARIO.startYear;
+    fc.assert(
+      fc.property(
+        fc.option(fc.double({ min: 2026, max: 2400, noNaN: true })),
+        fc.boolean(),
+        (year, after) => {
+          const q = structuredClone(quick);
+          q.metrics.thawYearPiles.value = year;
+          q.metrics.thawYearPiles.qualifier = after ? 'after 2100' : undefined;
+          const r = studyRunYears(q, DEFAULT_SCENARIO);
+          expect(r.years).toBeGreaterThanOrEqual(DEFAULT_SCENARIO.designLife_yr);
+          expect(r.years).toBeLessThanOrEqual(200);
+          if (year !== null && !after)
+            expect(r.years).toBe(Math.min(200, Math.max(30, Math.ceil(year - 2025 + 5))));
+          else expect(r.years).toBe(Math.max(30, horizon));
+          expect(r.reason).toMatch(/^\d+ years/);
+        },
+      ),
+      { seed: 3, numRuns: 200 },
+    );
+    // The cost before the run: cells × steps × the measured cost per cell-step.
+    const cost = siteRunCost(siteInputSchema.parse({ ...draft, years: 20 }));
+    expect(cost.timeSteps).toBe(Math.ceil((20 * 365.25) / 7));
+    expect(cost.cells).toBeGreaterThan(100);
+    expect(cost.estimate_s).toBeGreaterThan(0);
   });
 });

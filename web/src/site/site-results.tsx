@@ -94,7 +94,8 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
       <thead>
         <tr>
           <th scope="col">Result</th>
-          <th scope="col">Quick estimate (map model)</th>
+          <th scope="col">Quick estimate (map)</th>
+          <th scope="col">Map model, one pile&apos;s share</th>
           <th scope="col">Simulated (this run)</th>
           <th scope="col">Calibration band</th>
           <th scope="col">Agreement and why</th>
@@ -105,6 +106,9 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
           <tr key={r.quantity} data-testid={`summary-${r.quantity}`} data-agreement={r.agreement}>
             <th scope="row">{r.title}</th>
             <td>{comparisonValueText(r, r.quick, r.quickText, units)}</td>
+            <td>
+              {r.quickOnePile === r.quick ? 'same' : comparisonValueText(r, r.quickOnePile, undefined, units)}
+            </td>
             <td>{comparisonValueText(r, r.simulated, r.simulatedText, units)}</td>
             <td>{bandText(r, units)}</td>
             <td className="small">
@@ -114,6 +118,7 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
         ))}
         <tr data-testid="summary-lowestFluid">
           <th scope="row">Lowest fluid temperature</th>
+          <td>—</td>
           <td>—</td>
           <td>{q(d.lowestFluid_C, '°C', units)}</td>
           <td>—</td>

@@ -13,7 +13,9 @@ import { shortlistStore } from '../shortlist/shortlist-store';
 import { formatLonLat, type UnitSystem } from '../units/display-units';
 import { SchemaField } from './site-form';
 import { fieldId, type FormContext } from './form-inputs';
-import { flattenInputs, issuesByPath } from './schema-form-model';
+import { fieldLabel, flattenInputs, issuesByPath } from './schema-form-model';
+import { siteFieldMeta } from '../../../layers/site/site-input-schema';
+import { siteRunCost } from '../../../layers/site/site-run-cost';
 import {
   cellInputsFromSite,
   scenarioFromManifest,
@@ -47,6 +49,17 @@ export function SiteStudy(props: {
   const [draft, setDraft] = useState<unknown>(prefill.draft);
   const [formKey, setFormKey] = useState(0);
   const issues = useMemo(() => issuesByPath(siteInputSchema, draft), [draft]);
+  const fieldMeta = useMemo(() => siteFieldMeta(), []);
+  // The cost of the run as the form stands, stated before it starts.
+  const cost = useMemo(() => {
+    const parsed = siteInputSchema.safeParse(draft);
+    if (!parsed.success) return null;
+    try {
+      return { years: parsed.data.years, ...siteRunCost(parsed.data) };
+    } catch {
+      return null;
+    }
+  }, [draft]);
   const [run, setRun] = useState<RunState>({ kind: 'idle' });
   const [blocked, setBlocked] = useState(false);
   const [added, setAdded] = useState<string | null>(null);
@@ -223,6 +236,13 @@ export function SiteStudy(props: {
                       ? 'Run cancelled.'
                       : 'Edit the inputs, then run.'}
           </span>
+          {!running && cost ? (
+            <span className="small muted" data-testid="run-cost">
+              This run: {cost.years} simulated years, {cost.cells} cells × {cost.timeSteps} steps, about{' '}
+              {cost.estimate_s < 10 ? cost.estimate_s.toFixed(0) : Math.round(cost.estimate_s / 5) * 5} s.{' '}
+              {prefill.runLength.years === cost.years ? prefill.runLength.reason : ''}
+            </span>
+          ) : null}
         </div>
         <div className="site-body">
           <form
@@ -241,7 +261,7 @@ export function SiteStudy(props: {
                   {[...issues.entries()].flatMap(([path, ms]) =>
                     ms.map((msg) => (
                       <li key={`${path}:${msg}`}>
-                        <code>{path || 'input'}</code>: {msg}
+                        {fieldLabel(path, fieldMeta)}: {msg}
                       </li>
                     )),
                   )}
