@@ -6,7 +6,6 @@
  * map band carries the band's id (BAND).
  */
 import { WATTS_PER_TON } from '../physics/heat-pump';
-import type { CellScreening } from './cell-screening-model';
 import type { Scenario } from './scenario';
 import { BAND } from './band-ids';
 import { CALIBRATION_BANDS, withinBand, type CalibrationBand } from './calibration-bands';
