@@ -18,7 +18,8 @@ import { annualMeanAt, profileAtYear } from '../site/site-profile';
 import type { SiteSizing } from '../site/site-sizing';
 import { energyByYear, meanExtraction_W_m, type SiteYearEnergy } from '../site/site-energy';
 import { siteNotes, type SiteNote } from '../site/site-notes';
-import { DEFAULT_HEAT_PUMP_CURVE } from '../physics/heat-pump';
+import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
+import { createSystemResult, simplePayback_yr, systemConstants, systemKernel } from './system-cop';
 import { designDayLoad_W } from '../site/site-load-line';
 import { freezingPoint_C as fluidFreezingPoint_C } from '../physics/fluids';
 import { SCREENING_CAUTION, GROUND_CAUTIONS } from '../cautions';
@@ -36,7 +37,20 @@ export interface SiteStudyRun {
   sizing: SiteSizing | null;
 }
 
-export type SiteSavings = DieselGridSavings & { seasonalCop: number; delivered_kWh: number };
+/** System figures of a site run (system-cop.ts): null without a design load. */
+export interface SiteSystemFigures {
+  systemCop: number;
+  pumpPower_W: number;
+  capitalCost: number;
+  /** Simple payback against an oil furnace, yr (NaN: never). */
+  payback_yr: number;
+}
+
+export type SiteSavings = DieselGridSavings & {
+  seasonalCop: number;
+  delivered_kWh: number;
+  system: SiteSystemFigures | null;
+};
 
 export interface SiteStudyReport {
   cautions: string[];
@@ -66,18 +80,48 @@ export interface SiteStudyReport {
   notes: SiteNote[];
 }
 
-/** Fuel, CO2 and cost for the whole building over one typical year (mean over the run), or null. */
-export function siteSavings(years: SiteYearEnergy[], piles: number, scenario: Scenario): SiteSavings | null {
+/**
+ * Fuel, CO2 and cost for the whole building over one typical year (mean over the run), or null.
+ * With the building's design load (`peakLoad_W`) the figures are at the system COP (circulation pump,
+ * backup, auxiliaries: system-cop.ts, the heat pump sized to the design load) and `system` gives the
+ * system COP, pump power, capital cost and payback; without it, at the unit's seasonal COP.
+ */
+export function siteSavings(
+  years: SiteYearEnergy[],
+  piles: number,
+  scenario: Scenario,
+  peakLoad_W: number | null = null,
+): SiteSavings | null {
   const ok = years.filter((y) => Number.isFinite(y.seasonalCop) && y.seasonalCop > 0 && y.delivered_kWh > 0);
   if (ok.length === 0) return null;
   const delivered = (ok.reduce((s, y) => s + y.delivered_kWh, 0) / ok.length) * piles;
   const electric = ok.reduce((s, y) => s + y.delivered_kWh / y.seasonalCop, 0) / ok.length;
   const cop = ok.reduce((s, y) => s + y.delivered_kWh, 0) / ok.length / electric;
-  return {
-    ...dieselGridSavings({ heatDelivered_kWh: delivered, seasonalCop: cop, economics: scenario.economics }),
-    seasonalCop: cop,
-    delivered_kWh: delivered,
-  };
+  let system: SiteSystemFigures | null = null;
+  let economicCop = cop;
+  if (peakLoad_W !== null && peakLoad_W > 0 && piles >= 1) {
+    const site: Scenario = { ...scenario, building: { ...scenario.building, foundationPiles: piles } };
+    const r = createSystemResult();
+    const copLimit = heatPumpAt({
+      enteringFluid_C: scenario.heatPump.minEnteringFluid_C,
+      curve: scenario.heatPump.curve,
+    }).cop;
+    systemKernel(site, systemConstants(site), peakLoad_W, delivered, cop, copLimit, r);
+    if (Number.isFinite(r.systemCop) && r.systemCop > 0) economicCop = r.systemCop;
+    system = {
+      systemCop: r.systemCop,
+      pumpPower_W: r.pumpPower_W,
+      capitalCost: r.capitalCost,
+      payback_yr: NaN,
+    };
+  }
+  const savings = dieselGridSavings({
+    heatDelivered_kWh: delivered,
+    seasonalCop: economicCop,
+    economics: scenario.economics,
+  });
+  if (system) system.payback_yr = simplePayback_yr(system.capitalCost, savings.costSaved);
+  return { ...savings, seasonalCop: cop, delivered_kWh: delivered, system };
 }
 
 /** The quick estimate (map model) for a site input, or null for explicit layer properties. */
@@ -117,7 +161,15 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
   const groundTemp_C = annualMeanAt(profileAtYear(result.noPile, column, 1), mid);
   const building = input.operation.mode === 'building' ? input.operation : null;
   const piles = building ? building.pileCount : scenario.building.foundationPiles;
-  const savings = siteSavings(years, piles, scenario);
+  const peakLoad_W = building
+    ? designDayLoad_W(
+        building.designLoad_W,
+        input.climate,
+        building.balancePoint_C,
+        scenario.building.designMargin_K,
+      )
+    : null;
+  const savings = siteSavings(years, piles, scenario, peakLoad_W);
   const curve = building?.heatPump ?? DEFAULT_HEAT_PUMP_CURVE;
   let fluidFreezing_C: number | null = null;
   if (pile) {
@@ -152,14 +204,7 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
     simulatedYears: input.years,
     years,
     groundTemp_C,
-    peakLoad_W: building
-      ? designDayLoad_W(
-          building.designLoad_W,
-          input.climate,
-          building.balancePoint_C,
-          scenario.building.designMargin_K,
-        )
-      : null,
+    peakLoad_W,
     piles,
     sizing: run.sizing,
     savings,

@@ -20,6 +20,8 @@ export type StudyQuantity =
   | 'groundTemp'
   | 'activeLayer'
   | 'seasonalCop'
+  | 'systemCop'
+  | 'simplePayback'
   | 'fuelSaved'
   | 'co2Avoided';
 
@@ -270,6 +272,30 @@ export function compareStudy(input: {
       reason:
         "The map: the heat pump's curve at the seasonal mean fluid temperature of undisturbed ground; " +
         'the study: the heat pump step by step at the simulated fluid temperature, weighted by the heat delivered. No calibration bound is published.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.systemCop,
+      title: 'System seasonal COP (pump, backup, controls)',
+      unit: '',
+      quick: m?.systemCop.value ?? null,
+      simulated: d.savings?.system?.systemCop ?? null,
+      band: null,
+      reason:
+        'Both from the same system model (circulation pump, backup heat, controls) applied to each side’s heat-pump COP and carried heat. No calibration bound is published.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.simplePayback,
+      title: 'Simple payback against an oil furnace',
+      unit: 'yr',
+      quick: m?.simplePayback.value ?? null,
+      simulated: d.savings?.system?.payback_yr ?? null,
+      band: null,
+      reason:
+        'Capital cost over the yearly cost saved, both at the system COP: it follows the heat and COP rows.',
     }),
   );
   rows.push(
