@@ -110,9 +110,11 @@ describe('site panel', () => {
     expect(await s.page.locator('[data-testid=site-cautions]').textContent()).toContain('not a design');
     expect(await s.page.locator('[data-testid=run-status]').textContent()).toMatch(/Done in/);
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-run.png') });
-    await s.page
-      .locator('[data-testid=site-study]')
-      .screenshot({ path: join(s.artifactsDir, 'site-study-after-run.png') });
+    // The study after a run, tall enough for the comparison table and the notes (docs/site-study-after-run.png).
+    await s.page.setViewportSize({ width: 1400, height: 1800 });
+    await s.page.waitForTimeout(300);
+    await s.page.screenshot({ path: join(s.artifactsDir, 'site-study-after-run.png') });
+    await s.page.setViewportSize({ width: 1280, height: 720 });
     await s.page.locator('.site-output').evaluate((el) => el.scrollTo(0, 520));
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-charts.png') });
     expect(s.pageErrors).toEqual([]);

@@ -77,7 +77,7 @@ export function bandText(r: StudyComparisonRow, units: UnitSystem): string {
   if (!r.band) return 'none published';
   return r.band.kind === 'relative'
     ? `± ${(100 * r.band.value).toFixed(0)} %`
-    : `± ${formatQuantity(r.band.value, r.unit, units, 2)}`;
+    : `± ${formatQuantity(r.band.value, r.quantity === 'noPileThaw' ? 'yr' : r.unit, units, 2)}`;
 }
 
 const AGREEMENT_TEXT: Record<StudyComparisonRow['agreement'], string> = {
