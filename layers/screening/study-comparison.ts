@@ -67,8 +67,10 @@ function row(
   const both = one !== null && r.simulated !== null && Number.isFinite(one) && Number.isFinite(r.simulated);
   const difference = both ? (one as number) - (r.simulated as number) : null;
   let agreement: Agreement;
-  if (!both || !comparable) agreement = 'not comparable';
-  else if (!r.band) agreement = 'no published band';
+  const shown =
+    r.simulated !== null && Number.isFinite(r.simulated) && r.quick !== null && Number.isFinite(r.quick);
+  if (!r.band) agreement = shown && comparable ? 'no published band' : 'not comparable';
+  else if (!both || !comparable) agreement = 'not comparable';
   else agreement = withinBand(r.band, one as number, r.simulated as number) ? 'within band' : 'outside band';
   return { ...rest, quickOnePile: one, difference, agreement };
 }
@@ -304,12 +306,12 @@ export function compareStudy(input: {
       title: 'Fuel saved on a diesel grid',
       unit: 'L/yr',
       quick: m?.fuelSaved.value ?? null,
-      quickOnePile:
-        m1?.fuelSaved.value !== null && m1 ? m1.fuelSaved.value * s.building.foundationPiles : null,
+      // The one-pile form carries the building's system overheads on one pile: not a building figure.
+      quickOnePile: null,
       simulated: d.savings?.fuelSaved_L ?? null,
       band: null,
       reason:
-        'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do (one-pile form: one pile × the building’s piles).',
+        'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do.',
     }),
   );
   rows.push(
@@ -318,8 +320,7 @@ export function compareStudy(input: {
       title: 'CO2 avoided',
       unit: 't/yr',
       quick: m?.co2Avoided.value ?? null,
-      quickOnePile:
-        m1?.co2Avoided.value !== null && m1 ? m1.co2Avoided.value * s.building.foundationPiles : null,
+      quickOnePile: null,
       simulated: d.savings?.co2Avoided_t ?? null,
       band: null,
       reason: 'Follows the fuel row (same balance, CO2 per litre of each fuel).',
