@@ -12,8 +12,8 @@ import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { runSiteInWorker, SiteRunCancelled, type SiteRunHandle } from '../site/run-site-in-worker';
-import { scenarioFromManifest, sitePrefill } from '../site/site-prefill';
-import { withProfileProbes } from '../site/site-profile';
+import { scenarioFromManifest, sitePrefill } from '../../../layers/screening/site-prefill';
+import { withProfileProbes } from '../../../layers/site/site-profile';
 
 type State =
   | { kind: 'idle' }
