@@ -16,8 +16,11 @@ export async function ensureDemoTiles(options: {
 }): Promise<boolean> {
   const { dataDir, inputsDir } = options;
   const log = options.log ?? (() => undefined);
-  if (existsSync(resolve(dataDir, 'manifest.json'))) return false;
-  if (!existsSync(resolve(inputsDir, INPUTS_CONFIG_FILE))) {
+  // Demo inputs written before the generator added its roads layer are stale: write them again.
+  const staleInputs =
+    existsSync(resolve(inputsDir, INPUTS_CONFIG_FILE)) && !existsSync(resolve(inputsDir, 'roads.geojson'));
+  if (existsSync(resolve(dataDir, 'manifest.json')) && !staleInputs) return false;
+  if (staleInputs || !existsSync(resolve(inputsDir, INPUTS_CONFIG_FILE))) {
     log(`generating the fictional demo region into ${inputsDir} …`);
     await generateDemoData({ outDir: inputsDir });
   }
