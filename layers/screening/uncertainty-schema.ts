@@ -152,8 +152,9 @@ export const UNCERTAIN_PARAMETERS = Object.keys(parameterDistributionsSchema.sha
 export const scenarioUncertaintySchema = z.strictObject({
   /**
    * Ensemble members per cell. 32 was chosen by the convergence study (bench/ensemble-convergence.ts,
-   * table in the README): from 32 members on, the median change of P10/P50/P90 of the demo cells
-   * against a 512-member reference is below the spread the model's own tables carry.
+   * table in the README and bench/ensemble-convergence.md): the smallest N at which, on 300 demo cells
+   * against a 1024-member reference, the median error of P10 and of P90 is below a tenth of the cell's
+   * P10-P90 range and the robust class agrees with the reference's on at least 90 % of cells.
    */
   members: z.number().int().min(1).max(1024).default(32),
   /** Seed of the Latin hypercube: the same seed gives byte-identical builds. */
