@@ -17,6 +17,7 @@ import { flattenInputs, issuesByPath } from './schema-form-model';
 import { cellInputsFromSite, scenarioFromManifest, type SitePrefill } from './site-prefill';
 import { withProfileProbes } from './site-profile';
 import { runSiteInWorker, SiteRunCancelled, type SiteRunHandle } from './run-site-in-worker';
+import { SiteEnsemblePanel } from './site-ensemble-panel';
 import { SiteCharts, SiteSummaryTable, useSiteDerived, type SiteRunOutcome } from './site-results';
 import type { SitePlace } from './site-panel';
 
@@ -392,6 +393,12 @@ function SiteOutcome(props: {
         </ul>
       ) : null}
       <SiteCharts run={props.outcome} derived={derived} quick={props.quick} units={props.units} />
+      <SiteEnsemblePanel
+        outcome={props.outcome}
+        scenario={props.scenario}
+        units={props.units}
+        freezingPoint_C={derived.freezingAt(props.outcome.input.probes[0]?.z_m ?? 5)}
+      />
     </div>
   );
 }

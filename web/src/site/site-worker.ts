@@ -20,6 +20,10 @@ self.onmessage = (event: MessageEvent<SiteRunRequest>) => {
     const result = simulateSite(event.data.input, {
       onProgress: (fraction) => post({ type: 'progress', fraction }),
     });
+    if (event.data.sizing === false) {
+      post({ type: 'done', result, sizing: null, elapsed_ms: performance.now() - t0 });
+      return;
+    }
     post({ type: 'sizing' });
     let sizing: SiteSizing | null;
     try {
