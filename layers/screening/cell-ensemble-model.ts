@@ -43,16 +43,18 @@ import {
 } from './uncertainty-schema';
 import { fmix32, hashUniform, latinColumn, normalQuantile, sampleDistribution } from './latin-hypercube';
 import { modalClass, percentileOf } from './ensemble-statistics';
+import { BAND, type EnsembleBandId } from './band-ids';
+import { BAND_REGISTRY, UNCERTAIN_CLASS_VALUE } from './band-registry';
 
 /** Metrics reported as P10/P50/P90 bands (band id = metric id + P10/P50/P90). */
-export const RANGE_METRICS = ['pilesPerTon', 'thawDelay', 'groundTempEnd', 'fuelSaved'] as const;
+export const RANGE_METRICS = [BAND.pilesPerTon, BAND.thawDelay, BAND.groundTempEnd, BAND.fuelSaved] as const;
 export const PERCENTILES = [
   ['P10', 0.1],
   ['P50', 0.5],
   ['P90', 0.9],
 ] as const;
-/** Robust-class value for "uncertain" (after the suitability classes 0-3). */
-export const UNCERTAIN_CLASS = 4;
+/** Robust-class value for "uncertain" (after the suitability classes 0-3; band-registry.ts). */
+export const UNCERTAIN_CLASS = UNCERTAIN_CLASS_VALUE;
 
 /** Valid input range of the kernel per CellInputs field (cell-kernel.ts validInputs). */
 const INPUT_RANGE: Record<SpreadRole, [number, number]> = {
@@ -126,9 +128,10 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
   for (const id of RANGE_METRICS) {
     const b = byId.get(id) as ScreeningLayer;
     for (const [p, q] of PERCENTILES) {
+      const bandId = `${id}${p}` as EnsembleBandId;
       out.push({
-        id: `${id}${p}`,
-        title: `${b.title}, ${p}`,
+        id: bandId,
+        title: BAND_REGISTRY[bandId].title,
         unit: b.unit,
         kind: 'continuous',
         ramp: b.ramp,
@@ -142,8 +145,8 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
     }
   }
   out.push({
-    id: 'successProbability',
-    title: 'Probability of success',
+    id: BAND.successProbability,
+    title: BAND_REGISTRY.successProbability.title,
     unit: '',
     kind: 'continuous',
     ramp: 'viridis',
@@ -156,8 +159,8 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
     source: 'ensemble of the per-cell model (cell-ensemble-model.ts)',
   });
   out.push({
-    id: 'robustClass',
-    title: 'Robust suitability class',
+    id: BAND.robustClass,
+    title: BAND_REGISTRY.robustClass.title,
     unit: '',
     kind: 'class',
     classes: [
@@ -174,8 +177,8 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
     source: 'ensemble of the per-cell model (cell-ensemble-model.ts)',
   });
   out.push({
-    id: 'classAgreement',
-    title: 'Class agreement',
+    id: BAND.classAgreement,
+    title: BAND_REGISTRY.classAgreement.title,
     unit: '',
     kind: 'continuous',
     ramp: 'cividis',

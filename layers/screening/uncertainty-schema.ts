@@ -11,6 +11,8 @@
  * reference values describe.
  */
 import { z } from 'zod';
+// Grid roles that the build also echoes as bands share the band's id (band-ids.ts).
+import { BAND } from './band-ids';
 
 /**
  * A distribution of one scalar, sampled through its inverse CDF (latin-hypercube.ts):
@@ -56,11 +58,11 @@ export type GridSpread = z.infer<typeof gridSpreadSchema>;
 
 /** The CellInputs fields a grid spread may apply to (the inputs config's grid roles). */
 export const SPREAD_ROLES = [
-  'meanAirTemp_C',
-  'airAmplitude_C',
-  'warming_C_per_yr',
-  'textureClass',
-  'waterContent_m3m3',
+  BAND.meanAirTemp_C,
+  BAND.airAmplitude_C,
+  BAND.warming_C_per_yr,
+  BAND.textureClass,
+  BAND.waterContent_m3m3,
   'bedrockDepth_m',
   'groundTemp_C',
   'geothermalFlux_W_m2',
@@ -183,7 +185,7 @@ export function zeroSpread(u: ScenarioUncertainty): ScenarioUncertainty {
     ...u,
     parameters: Object.fromEntries(UNCERTAIN_PARAMETERS.map((p) => [p, fixed])) as ParameterDistributions,
     grids: Object.fromEntries(
-      SPREAD_ROLES.map((r) => [r, r === 'textureClass' ? { confusion: 0 } : { sd: 0 }]),
+      SPREAD_ROLES.map((r) => [r, r === BAND.textureClass ? { confusion: 0 } : { sd: 0 }]),
     ) as Record<SpreadRole, GridSpread>,
   };
 }

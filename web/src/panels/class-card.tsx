@@ -7,6 +7,7 @@ import type { Criterion, Manifest } from '../../../layers/screening/manifest';
 import { horizonText } from '../../../layers/screening/climate-horizon';
 import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 import { rangeText, SUCCESS_BAND, successText } from './ensemble-ranges';
+import { RANGE_METRICS } from '../../../layers/screening/cell-ensemble-model';
 
 /** Whether `value comparison threshold` holds (the criterion passes); null when the value is nodata. */
 export function criterionVerdict(c: Criterion, value: number | null): boolean | null {
@@ -71,7 +72,7 @@ export function ClassCard(props: {
             <strong>Probability of success:</strong> {successText(values[SUCCESS_BAND])}
           </p>
           <ul className="small">
-            {['pilesPerTon', 'thawDelay', 'groundTempEnd', 'fuelSaved'].map((id) => {
+            {RANGE_METRICS.map((id) => {
               const band = manifest.bands.find((b) => b.id === id);
               const r = band ? rangeText(manifest, (x) => values[x], id, units) : null;
               return band && r ? (

@@ -4,12 +4,13 @@
  * the robust class. Pure helpers for the hover readout and the class card.
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
+import { BAND } from '../../../layers/screening/band-ids';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
 
 /** Band id of the robust class and the value that means "uncertain" (cell-ensemble-model.ts). */
-export const ROBUST_CLASS_BAND = 'robustClass';
+export const ROBUST_CLASS_BAND = BAND.robustClass;
 export const UNCERTAIN_LABEL = 'uncertain';
-export const SUCCESS_BAND = 'successProbability';
+export const SUCCESS_BAND = BAND.successProbability;
 
 /** The robust-class band of an ensemble build and its "uncertain" value, or null. */
 export function uncertainClassOf(
