@@ -10,6 +10,8 @@
  *    on one thread, against the deterministic model on the same cells, and the projected screening
  *    time for 4.4 M and 70 M cells on this machine's cores. The tile and GeoTIFF stages scale with
  *    cells x bands and are projected from pipeline.bench.ts's measured stage times.
+ * 3. With PILE_ATLAS_BENCH_FULL=1: the whole 4.4 M-cell synthetic build with --ensemble (default N) on
+ *    every core, end to end (several minutes; peak memory from maxRSS of this process and its workers).
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtemp, rm } from 'node:fs/promises';
@@ -20,6 +22,9 @@ import { createScreeningModel } from '../layers/screening/cell-screening-model';
 import type { CellInputs } from '../layers/screening/screening-model';
 import { createTransform } from '../data-pipeline/crs/crs-definitions';
 import { scenarioUncertaintySchema } from '../layers/screening/uncertainty-schema';
+import { buildTiles } from '../data-pipeline/build/build-tiles';
+import { writeSyntheticInputs } from './pipeline.bench';
+import { mkdir } from 'node:fs/promises';
 
 interface Timed {
   wall_s: number;
@@ -136,7 +141,45 @@ function syntheticThroughput(): void {
   }
 }
 
+export async function syntheticFullBuild(): Promise<void> {
+  const root = await mkdtemp(join(tmpdir(), 'pile-atlas-ensemble-full-'));
+  try {
+    await mkdir(join(root, 'in'));
+    await writeSyntheticInputs(join(root, 'in'));
+    const stages: Record<string, [number, number]> = {};
+    const t0 = Date.now();
+    const cpu0 = process.cpuUsage();
+    const summary = await buildTiles({
+      inDir: join(root, 'in'),
+      outDir: join(root, 'out'),
+      cellSize_m: 1000,
+      workers: availableParallelism(),
+      ensemble: true,
+      onProgress: (p) => {
+        stages[p.stage] ??= [Date.now(), Date.now()];
+        stages[p.stage][1] = Date.now();
+      },
+    });
+    const wall = (Date.now() - t0) / 1000;
+    const cpu = process.cpuUsage(cpu0);
+    const n = scenarioUncertaintySchema.parse({}).members;
+    console.log(`synthetic region, whole ensemble build (N = ${n}, ${summary.workers} workers):`);
+    console.log(
+      `  cells ${summary.cellsTotal} (screened ${summary.cellsScreened}); bands ${summary.bands.length}`,
+    );
+    for (const [k, [a, b]] of Object.entries(stages))
+      console.log(`  stage ${k.padEnd(8)} ${((b - a) / 1000).toFixed(1)} s`);
+    console.log(
+      `  wall ${wall.toFixed(1)} s; ${Math.round((summary.cellsScreened * n) / wall)} cells x members per wall-second; ` +
+        `main-thread CPU ${((cpu.user + cpu.system) / 1e6).toFixed(1)} s; peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`,
+    );
+  } finally {
+    await rm(root, { recursive: true, force: true });
+  }
+}
+
 export async function run(): Promise<void> {
   await demoSideBySide();
   syntheticThroughput();
+  if (process.env.PILE_ATLAS_BENCH_FULL === '1') await syntheticFullBuild();
 }

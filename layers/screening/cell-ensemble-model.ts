@@ -247,7 +247,8 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
     let successes = 0;
     for (let j = 0; j < n; j++) {
       Object.assign(memberCell, cell);
-      memberCell.warming_C_per_yr = clip(cell.warming_C_per_yr * warmingFactor[j], -1, 1);
+      // Not clipped: a member outside the kernel's range is reported as outside the data, like the cell itself.
+      memberCell.warming_C_per_yr = cell.warming_C_per_yr * warmingFactor[j];
       for (let d = 0; d < spreadRoles.length; d++) {
         const r = spreadRoles[d];
         const v = cellRecord[r];

@@ -10,7 +10,7 @@
  *
  * Perturbed inputs: mean air temperature and amplitude (offsets, the grids' spreads), warming trend
  * (factor, `warmingScale`), thawing and freezing n-factors (offsets), water + ice content of every
- * soil layer (one factor, the grid's relative spread, clipped to 0.95) and geothermal flux (factor).
+ * soil layer (one factor, the grid’s relative spread, capped at 0.95) and geothermal flux (factor).
  */
 import type { SiteInput, SiteResult } from '../site/site-input-schema';
 import { latinColumn, normalQuantile, sampleDistribution } from './latin-hypercube';
@@ -101,7 +101,10 @@ export function planSiteEnsemble(
           'soil' in l && l.soil
             ? {
                 ...l,
-                soil: { ...l.soil, waterContent_m3m3: clip(l.soil.waterContent_m3m3 * v[5], 0.01, 0.95) },
+                soil: {
+                  ...l.soil,
+                  waterContent_m3m3: Math.min(0.95, l.soil.waterContent_m3m3 * Math.max(0, v[5])),
+                },
               }
             : l,
         ),

@@ -42,3 +42,33 @@ describe('ensemble ranges in the readout and the class card', () => {
     expect(successText(null)).toBe('no data');
   });
 });
+
+describe('shortlist exports carry the ensemble ranges', () => {
+  it('writes the percentile bands with their unit and the robust class with its label', async () => {
+    const { shortlistToGeoJSON, shortlistToCsv } = await import('../../web/src/shortlist/shortlist-export');
+    const m = ensembleManifest();
+    const item = {
+      id: 'a',
+      name: 'Lanternhook east',
+      note: '',
+      lon: -3.1,
+      lat: 75,
+      addedAt: '2026-12-01T10:00:00.000Z',
+      origin: 'map' as const,
+      values: {
+        groundTemp: -2,
+        groundTempP10: -3,
+        groundTempP90: -1,
+        pilesPerTon: 12,
+        suitability: 3,
+        robustClass: 4,
+      },
+      metrics: {},
+    };
+    const p = shortlistToGeoJSON([item], m).features[0].properties as Record<string, unknown>;
+    expect(p.groundTempP10_degC).toBe(-3);
+    expect(p.groundTempP90_degC).toBe(-1);
+    expect(p.robustClass_label).toBe('uncertain');
+    expect(shortlistToCsv([item], m).split('\n')[0]).toContain('groundTempP90_degC');
+  });
+});
