@@ -42,6 +42,7 @@ import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
+import type { BuildDistributor } from './build-distributor';
 import { computeLayers } from './compute-layers';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
@@ -74,6 +75,11 @@ export interface BuildOptions {
   geotiff?: boolean;
   /** Limits checked before reading and writing (default: defaultBudget()). */
   budget?: Partial<BuildBudget>;
+  /**
+   * Run the screening windows and tile subtrees elsewhere (e.g. as jobs on a queue,
+   * data-pipeline/queue/queue-distributor.ts) instead of this process's worker threads.
+   */
+  distributor?: BuildDistributor;
 }
 
 export interface BuildSummary {
@@ -94,6 +100,8 @@ export interface BuildSummary {
   workers: number;
   seconds: number;
   cellsPerSecond: number;
+  /** Queue-backed builds: jobs run, reused from earlier builds, retried (distributor.report()). */
+  queue?: Record<string, number>;
 }
 
 function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
@@ -226,6 +234,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         options.minCellsForWorkers ??
         (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
       onProgress: (d, t) => progress('screen', d, t),
+      windowRunner: options.distributor?.windows,
     });
     if (result.cellsScreened === 0) {
       throw new InputError(
@@ -256,6 +265,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       bounds,
       onTile: (d, t) => progress('tiles', d, t),
       workers: result.workers,
+      subtreeRunner: options.distributor?.subtrees,
     });
     let geotiffs: Record<string, string> | undefined;
     if (options.geotiff !== false) {
@@ -294,6 +304,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
     });
     await rm(bandsDir, { recursive: true, force: true });
+    await options.distributor?.cleanup();
     const seconds = (Date.now() - started) / 1000;
     const summary = {
       cellsTotal: result.cellsTotal,
@@ -349,9 +360,11 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       workers: result.workers,
       seconds: (Date.now() - started) / 1000,
       cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
+      ...(options.distributor ? { queue: options.distributor.report() } : {}),
     };
   } catch (err) {
     await output.discard();
+    await options.distributor?.cleanup().catch(() => undefined);
     const code = (err as NodeJS.ErrnoException)?.code;
     if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
     throw err;
