@@ -87,7 +87,7 @@ export const INPUT_ECHO_BAND_IDS = [
 
 /**
  * Bands of the per-cell ensemble (`pile-atlas build --ensemble`, cell-ensemble-model.ts), after the
- * model's layers: P10/P50/P90 of four metrics, then the probability of success, the robust class and
+ * model's layers: P10/P50/P90 of five metrics, then the probability of success, the robust class and
  * the class agreement.
  */
 export const ENSEMBLE_BAND_IDS = [
@@ -103,6 +103,9 @@ export const ENSEMBLE_BAND_IDS = [
   'fuelSavedP10',
   'fuelSavedP50',
   'fuelSavedP90',
+  'simplePaybackP10',
+  'simplePaybackP50',
+  'simplePaybackP90',
   'successProbability',
   'robustClass',
   'classAgreement',

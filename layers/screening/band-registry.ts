@@ -65,7 +65,7 @@ const echo = (title: string) => ({
 /** Robust-class value meaning "uncertain" (after the suitability classes 0-3; cell-ensemble-model.ts). */
 export const UNCERTAIN_CLASS_VALUE = 4;
 
-/** The four metrics the ensemble reports as percentiles (their entries are shared with the percentiles). */
+/** The five metrics the ensemble reports as percentiles (their entries are shared with the percentiles). */
 const METRIC_ENTRIES = {
   pilesPerTon: { title: 'Piles per ton of peak heating', ...same('piles/ton'), ...cont('cividis', 0, 40) },
   thawDelay: { title: 'Thaw delay', ...years, ...cont('viridis', 0, 50) },
@@ -75,6 +75,7 @@ const METRIC_ENTRIES = {
     ...cont('blueOrange', -10, 2),
   },
   fuelSaved: { title: 'Fuel saved', unit: 'L/yr', unitNA: 'US gal/yr', ...cont('blueOrange') },
+  simplePayback: { title: 'Simple payback against an oil furnace', ...years, ...cont('cividis', 0, 40) },
 } satisfies Record<string, BandEntry>;
 const kN = { unit: 'kN', unitNA: 'kip' };
 
@@ -170,7 +171,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   systemCop: { title: 'System seasonal COP', ...none, ...cont('viridis', 1.5, 4) },
   pumpPower: { title: 'Loop circulation pump power', unit: 'W', unitNA: 'Btu/h', ...cont('cividis') },
   capitalCost: { title: 'Capital cost of the heat-pump system', ...same('¤'), ...cont('cividis') },
-  simplePayback: { title: 'Simple payback against an oil furnace', ...years, ...cont('cividis', 0, 40) },
+  simplePayback: METRIC_ENTRIES.simplePayback,
   classRobust: {
     title: 'Class robust to the settings',
     ...cls([
@@ -258,6 +259,9 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   fuelSavedP10: pct('fuelSaved', 'P10'),
   fuelSavedP50: pct('fuelSaved', 'P50'),
   fuelSavedP90: pct('fuelSaved', 'P90'),
+  simplePaybackP10: pct('simplePayback', 'P10'),
+  simplePaybackP50: pct('simplePayback', 'P50'),
+  simplePaybackP90: pct('simplePayback', 'P90'),
   successProbability: { title: 'Probability of success', ...none, ...cont('viridis', 0, 1) },
   robustClass: {
     title: 'Robust suitability class',
@@ -267,7 +271,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
 };
 
 /** Registry entry of a percentile band: its metric's title with the percentile, unit, kind and ramp. */
-function pct(metric: 'pilesPerTon' | 'thawDelay' | 'groundTempEnd' | 'fuelSaved', p: string): BandEntry {
+function pct(metric: keyof typeof METRIC_ENTRIES, p: string): BandEntry {
   const m = METRIC_ENTRIES[metric];
   return { ...m, title: `${m.title}, ${p}` };
 }

@@ -16,19 +16,19 @@
  * Outputs, after the deterministic model's layers (unchanged, so zero spread reproduces the
  * deterministic build exactly): P10/P50/P90 (ensemble-statistics.ts, Hyndman & Fan definition 7) of
  * piles per ton, thaw delay, end-of-life ground temperature at the reference depth (the adfreeze
- * zone) and fuel saved, over the members where the value is defined (NaN when fewer than half are);
+ * zone), fuel saved and simple payback, over the members where the value is defined (NaN when fewer than half are);
  * the probability of success, the share of members in which the cell is not excluded, the foundation
  * piles carry at least `successLoadShare` of the standard building's heat and the carried extraction
  * is at least the operating window's lower bound (the reference point stays `frozenMargin_K` below
  * 0 °C through the design life, operating-window.ts); the robust class, the suitability class of the
  * kernel (suitability.ts) that at least `robustShare` of the members agree on, else "uncertain"; and
- * the share of members agreeing on the most common class. Payback is not in the model yet, so it has
- * no band here.
+ * the share of members agreeing on the most common class.
  */
 import type { CellInputs, ScreeningLayer, ScreeningModel } from './screening-model';
 import { parseScenario, type Scenario } from './scenario';
 import { buildCellConstants, type CellConstants, type SoilTable } from './cell-constants';
 import { createKernelScratch, evaluateCellMetrics } from './cell-kernel';
+import { buildRobustConstants, evaluateRobust } from './cell-screening-model';
 import { cellLayers, METRIC, METRIC_COUNT, type MetricId } from './cell-layers';
 import { SUITABILITY_LABELS } from './suitability';
 import { BINDING } from './operating-window';
@@ -47,7 +47,13 @@ import { BAND, type EnsembleBandId } from './band-ids';
 import { BAND_REGISTRY, UNCERTAIN_CLASS_VALUE } from './band-registry';
 
 /** Metrics reported as P10/P50/P90 bands (band id = metric id + P10/P50/P90). */
-export const RANGE_METRICS = [BAND.pilesPerTon, BAND.thawDelay, BAND.groundTempEnd, BAND.fuelSaved] as const;
+export const RANGE_METRICS = [
+  BAND.pilesPerTon,
+  BAND.thawDelay,
+  BAND.groundTempEnd,
+  BAND.fuelSaved,
+  BAND.simplePayback,
+] as const;
 export const PERCENTILES = [
   ['P10', 0.1],
   ['P50', 0.5],
@@ -196,7 +202,10 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const parsed = scenarioUncertaintySchema.parse(s.uncertainty ?? {});
   const u: ScenarioUncertainty = { ...parsed, grids: { ...parsed.grids, ...options.gridSpreads } };
   const n = u.members;
-  const baseK = buildCellConstants({ ...s, uncertainty: undefined });
+  // The deterministic model's own evaluation (with its class-robustness bands), so that the model bands
+  // are the deterministic build's bit for bit.
+  const baseRc = buildRobustConstants({ ...s, uncertainty: undefined });
+  const baseWork = new Float64Array(METRIC_COUNT);
   const baseLayers = cellLayers(s);
   const layers = [...baseLayers, ...ensembleLayers(baseLayers, u)];
   const nBase = METRIC_COUNT;
@@ -239,7 +248,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const memberRecord = memberCell as unknown as Record<string, number>;
 
   const evaluate = (cell: CellInputs, out: Float32Array, cellIndex = 0): void => {
-    evaluateCellMetrics(cell, baseK, scratch, baseOut);
+    evaluateRobust(cell, baseRc, scratch, baseOut, baseWork);
     for (let i = 0; i < nBase; i++) out[i] = baseOut[i];
     const cellSeed = fmix32((u.seed + Math.imul(cellIndex + 1, 0x9e3779b1)) >>> 0);
     for (let d = 0; d < spreadRoles.length; d++) latinColumn(cellSeed, d, cellCols[d], perm);

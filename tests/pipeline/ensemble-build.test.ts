@@ -4,6 +4,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles, type BuildSummary } from '../../data-pipeline/build/build-tiles';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import { ENSEMBLE_BAND_IDS } from '../../layers/screening/band-ids';
+import { RANGE_METRICS } from '../../layers/screening/cell-ensemble-model';
 import { scenarioUncertaintySchema, zeroSpread } from '../../layers/screening/uncertainty-schema';
 import { hashTree, makeTempDir, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
 
@@ -59,8 +61,8 @@ describe('ensemble build', () => {
     const a = await hashTree(join(root, 'det'));
     const b = await hashTree(join(root, 'zero'));
     for (const band of det.bands) expect(b[`geotiff/${band}.tif`]).toBe(a[`geotiff/${band}.tif`]);
-    expect(zero.bands.length).toBe(det.bands.length + 15);
-    for (const m of ['pilesPerTon', 'thawDelay', 'groundTempEnd', 'fuelSaved']) {
+    expect(zero.bands.length).toBe(det.bands.length + ENSEMBLE_BAND_IDS.length);
+    for (const m of RANGE_METRICS) {
       const base = Array.from(await values('det', m));
       for (const p of ['P10', 'P50', 'P90'])
         expect(Array.from(await values('zero', `${m}${p}`))).toEqual(base);
