@@ -55,12 +55,20 @@ export function evaluateRobust(
   m: Float64Array,
   work: Float64Array,
 ): void {
+  evaluateCellMetrics(cell, rc.base, x, m);
+  // Excluded by a rule no heat-pump or weight setting touches (outside the data, rock within the pile,
+  // no permafrost, thawed today): every perturbation leaves it excluded, so the class is robust as is.
+  const ex = m[METRIC.exclusion];
+  if (ex >= 1 && ex <= 4) {
+    m[METRIC.robustnessFlags] = 0;
+    m[METRIC.classRobust] = 1;
+    return;
+  }
   const perturbedClasses = [0, 0, 0, 0];
   for (let i = 0; i < rc.perturbed.length; i++) {
     evaluateCellMetrics(cell, rc.perturbed[i], x, work);
     perturbedClasses[i] = work[METRIC.suitability];
   }
-  evaluateCellMetrics(cell, rc.base, x, m);
   const flags = robustnessFlags(
     m[METRIC.suitability],
     perturbedClasses,
@@ -176,7 +184,7 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
   const metrics = Object.fromEntries(
     METRIC_IDS.map((id, i) => {
       const entry = { value: nul(m[i]), unit: layers[i].unit, title: layers[i].title };
-      const q = horizonText(layers[i].horizon, flag, `${+m[i].toPrecision(4)} ${layers[i].unit}`);
+      const q = horizonText(layers[i].horizon, flag, `${+m[i].toPrecision(3)} ${layers[i].unit}`);
       return [id, q === null ? entry : { ...entry, qualifier: q }];
     }),
   ) as CellScreening['metrics'];

@@ -5,7 +5,7 @@
  */
 import type { SiteInputDraft, SiteResult } from '../../../layers/site/site-input-schema';
 import type { Scenario } from '../../../layers/screening/scenario';
-import type { ProfileColumn } from './site-profile';
+import type { ProfileColumn } from '../../../layers/site/site-profile';
 import { SiteRunCancelled } from './run-site-in-worker';
 import type { SiteRunRequest, SiteWorkerMessage } from './site-worker-protocol';
 
