@@ -8,6 +8,7 @@
  * is a unit mistake or a corrupt file, reported with the file and role).
  */
 import { z } from 'zod';
+import { gridSpreadSchema } from '../layers/screening/uncertainty-schema';
 
 export interface GridRole {
   kind: 'continuous' | 'class';
@@ -105,6 +106,12 @@ export const gridEntrySchema = z.strictObject({
   nodata: z.number().optional(),
   provenance: z.string().optional(),
   licence: z.string().optional(),
+  /**
+   * Spread of this grid for the ensemble build (layers/screening/uncertainty-schema.ts): `{ "sd": x }`
+   * in the role's SI unit, `{ "relativeSd": f }`, or for a class grid `{ "confusion": p }`. Replaces the
+   * scenario's default spread for this role.
+   */
+  uncertainty: gridSpreadSchema.optional(),
 });
 
 export const inputsConfigSchema = z
@@ -132,6 +139,16 @@ export const inputsConfigSchema = z
           code: 'custom',
           path: ['grids', i, 'unit'],
           message: `unit "${g.unit}" not accepted for ${g.role} (allowed: ${Object.keys(role.units).join(', ')})`,
+        });
+      }
+      if (g.uncertainty && 'confusion' in g.uncertainty !== (role.kind === 'class')) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['grids', i, 'uncertainty'],
+          message:
+            role.kind === 'class'
+              ? `${g.role} is a class grid: expected { "confusion": p }`
+              : `${g.role} is a continuous grid: expected { "sd": x } or { "relativeSd": f }`,
         });
       }
       if (g.kind !== role.kind) {

@@ -28,6 +28,8 @@ import { scenarioSchema } from '../../layers/screening/scenario';
 import { ValidationError } from '../../layers/validation-error';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
+import type { GridSpread, SpreadRole } from '../../layers/screening/uncertainty-schema';
+import type { InputsConfig } from '../inputs-config';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
 import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-geotiff';
 import { InputError } from '../input-error';
@@ -58,6 +60,12 @@ export interface BuildOptions {
   scenario?: unknown;
   /** Name of the scenario file, for error messages and the manifest. */
   scenarioFile?: string;
+  /**
+   * Run the per-cell ensemble (layers/screening/cell-ensemble-model.ts): `true` for the scenario's
+   * uncertainty settings (defaults when it has none), or members/seed overriding them. Also on when
+   * the scenario has an `uncertainty` field.
+   */
+  ensemble?: boolean | { members?: number; seed?: number };
   /** A custom model object (runs on the main thread; overrides modelKind). */
   model?: ScreeningModel;
   /** Worker threads for screening (default: available cores, at most 8; 1 = main thread). */
@@ -99,11 +107,28 @@ export interface BuildSummary {
 
 function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
   if (options.model) return { model: options.model, name: 'custom' };
+  const base = (options.scenario ?? {}) as Record<string, unknown>;
+  const wantsEnsemble =
+    options.modelKind !== 'basic' &&
+    (options.ensemble !== undefined && options.ensemble !== false ? true : base.uncertainty !== undefined);
+  const overrides = typeof options.ensemble === 'object' ? options.ensemble : {};
+  const scenario = wantsEnsemble
+    ? {
+        ...base,
+        uncertainty: {
+          ...((base.uncertainty as Record<string, unknown> | undefined) ?? {}),
+          ...(overrides.members !== undefined ? { members: overrides.members } : {}),
+          ...(overrides.seed !== undefined ? { seed: overrides.seed } : {}),
+        },
+      }
+    : base;
   const spec: ModelSpec =
     options.modelKind === 'basic'
       ? { kind: 'basic' }
-      : { kind: 'screening', scenario: options.scenario ?? {} };
-  if (spec.kind === 'screening') {
+      : wantsEnsemble
+        ? { kind: 'ensemble', scenario }
+        : { kind: 'screening', scenario };
+  if (spec.kind !== 'basic') {
     // Validated here, so that an error the model throws afterwards is a bug (exit 1), not bad input.
     const parsed = scenarioSchema.safeParse(spec.scenario ?? {});
     if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario', parsed.error);
@@ -111,8 +136,24 @@ function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: Mo
   return {
     model: createModelFromSpec(spec),
     spec,
-    name: spec.kind === 'basic' ? 'basic (TTOP + Stefan)' : 'per-cell screening model',
+    name:
+      spec.kind === 'basic'
+        ? 'basic (TTOP + Stefan)'
+        : spec.kind === 'ensemble'
+          ? 'per-cell screening model, ensemble'
+          : 'per-cell screening model',
   };
+}
+
+function ensembleMembers(model: ScreeningModel): number {
+  return (model as ScreeningModel & { uncertainty?: { members: number } }).uncertainty?.members ?? 1;
+}
+
+/** The spreads the inputs config declares, per grid role. */
+function declaredSpreads(config: InputsConfig): Partial<Record<SpreadRole, GridSpread>> {
+  const out: Partial<Record<SpreadRole, GridSpread>> = {};
+  for (const g of config.grids) if (g.uncertainty) out[g.role] = g.uncertainty;
+  return out;
 }
 
 const DISK_FULL = new Set(['ENOSPC', 'EDQUOT']);
@@ -135,10 +176,18 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   // A build killed earlier may have left a swap half done: put the previous output back first.
   recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
-  const { model, spec, name: modelName } = resolveModel(options);
-  const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
+  const resolved = resolveModel(options);
+  const { name: modelName } = resolved;
+  let { model, spec } = resolved;
 
   const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
+  if (spec?.kind === 'ensemble') {
+    // The grids' own spreads (inputs config) replace the scenario's defaults.
+    spec = { ...spec, gridSpreads: declaredSpreads(config) };
+    model = createModelFromSpec(spec);
+  }
+  const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
+  const uncertainty = (model as ScreeningModel & { uncertainty?: unknown }).uncertainty;
   await faultPoint('read', inDir);
   const grid = analysisGridFor(
     inputs
@@ -181,7 +230,10 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       model,
       spec,
       workers: threads,
-      minCellsForWorkers: options.minCellsForWorkers,
+      // An ensemble costs its member count per cell: worth the workers on N times fewer cells.
+      minCellsForWorkers:
+        options.minCellsForWorkers ??
+        (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
       onProgress: (d, t) => progress('screen', d, t),
       windowRunner: options.distributor?.windows,
     });
@@ -289,6 +341,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         overviews: { class: 'mode', continuous: 'mean' },
         model: modelName,
         ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
+        // The ensemble's effective uncertainty: distributions, grid spreads, members and seed.
+        ...(uncertainty ? { uncertainty } : {}),
       },
       ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
       summary,

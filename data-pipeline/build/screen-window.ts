@@ -180,7 +180,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
       const lon = lonLat[2 * k];
       const lat = lonLat[2 * k + 1];
       cell.latitude_deg = lat;
-      model.evaluate(cell, out);
+      model.evaluate(cell, out, row0 * grid.width + k);
       const index = k;
       let anyFinite = false;
       for (let b = 0; b < nModel; b++) {

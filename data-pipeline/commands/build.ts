@@ -77,6 +77,11 @@ Options:
   --model <name>      screening (default) or basic (TTOP + Stefan only)
   --cell-size M       analysis cell size in metres (default 1000)
   --workers N         worker threads (default: cores, here ${availableParallelism()})
+  --ensemble          also run the per-cell ensemble over the declared uncertainties: P10/P50/P90
+                      bands, probability of success and robust class (on by itself when the
+                      scenario has an "uncertainty" field)
+  --members N         ensemble members per cell (default 32, from the convergence study; implies --ensemble)
+  --seed N            seed of the ensemble's Latin hypercube (default 1; implies --ensemble)
   --no-geotiff        skip the per-band GeoTIFFs
   --quiet             no progress bar
   --max-input-mb N    decoded size allowed per input grid (default ${defaultBudget().maxInputBytes / MB})
@@ -106,10 +111,12 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
         'max-cells',
         'max-memory-mb',
         'max-disk-mb',
+        'members',
+        'seed',
         'queue',
         'shared',
       ],
-      flags: ['quiet', 'no-geotiff'],
+      flags: ['quiet', 'no-geotiff', 'ensemble'],
     });
     const inDir = requireOption('build', opts, 'in');
     const outDir = requireOption('build', opts, 'out');
@@ -125,6 +132,21 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
     const scenarioFile = opts.values.scenario;
     const scenario = scenarioFile ? await readJsonFile(scenarioFile, scenarioFile) : undefined;
     const budget = budgetOptions(opts);
+    const members =
+      opts.values.members !== undefined
+        ? numberOption('build', opts, 'members', 32, 1, 1024, true)
+        : undefined;
+    const seed =
+      opts.values.seed !== undefined
+        ? numberOption('build', opts, 'seed', 1, 0, 0xffffffff, true)
+        : undefined;
+    const ensemble =
+      opts.flags.has('ensemble') || members !== undefined || seed !== undefined
+        ? { members, seed }
+        : undefined;
+    if (ensemble && modelKind === 'basic') {
+      throw new InputError('build: --ensemble, --members and --seed apply to --model screening only');
+    }
     const quiet = opts.flags.has('quiet');
     let distributor: QueueDistributor | undefined;
     if (opts.values.queue !== undefined) {
@@ -148,6 +170,7 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
         modelKind,
         scenario,
         scenarioFile,
+        ensemble,
         geotiff: !opts.flags.has('no-geotiff'),
         budget,
         onProgress: quiet ? undefined : createProgressBar(),

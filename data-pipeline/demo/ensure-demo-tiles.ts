@@ -1,6 +1,7 @@
 /**
  * Make sure a demo build exists (for `npm start` and the browser tests): generate the fictional demo
- * inputs into `inputsDir` and build their tiles into `dataDir` unless a manifest is already there.
+ * inputs into `inputsDir` and build their tiles into `dataDir` (with the per-cell ensemble) unless a
+ * manifest is already there.
  */
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
@@ -13,6 +14,11 @@ export async function ensureDemoTiles(options: {
   dataDir: string;
   inputsDir: string;
   log?: (line: string) => void;
+  /**
+   * Run the per-cell ensemble too (default true): the demo map then shows P10/P50/P90, the probability
+   * of success and the robust class (layers/screening/cell-ensemble-model.ts).
+   */
+  ensemble?: boolean;
 }): Promise<boolean> {
   const { dataDir, inputsDir } = options;
   const log = options.log ?? (() => undefined);
@@ -25,6 +31,6 @@ export async function ensureDemoTiles(options: {
     await generateDemoData({ outDir: inputsDir });
   }
   log(`building tiles into ${dataDir} …`);
-  await buildTiles({ inDir: inputsDir, outDir: dataDir });
+  await buildTiles({ inDir: inputsDir, outDir: dataDir, ensemble: options.ensemble ?? true });
   return true;
 }

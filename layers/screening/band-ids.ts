@@ -85,6 +85,32 @@ export const INPUT_ECHO_BAND_IDS = [
   'warming_C_per_yr',
 ] as const;
 
+/**
+ * Bands of the per-cell ensemble (`pile-atlas build --ensemble`, cell-ensemble-model.ts), after the
+ * model's layers: P10/P50/P90 of five metrics, then the probability of success, the robust class and
+ * the class agreement.
+ */
+export const ENSEMBLE_BAND_IDS = [
+  'pilesPerTonP10',
+  'pilesPerTonP50',
+  'pilesPerTonP90',
+  'thawDelayP10',
+  'thawDelayP50',
+  'thawDelayP90',
+  'groundTempEndP10',
+  'groundTempEndP50',
+  'groundTempEndP90',
+  'fuelSavedP10',
+  'fuelSavedP50',
+  'fuelSavedP90',
+  'simplePaybackP10',
+  'simplePaybackP50',
+  'simplePaybackP90',
+  'successProbability',
+  'robustClass',
+  'classAgreement',
+] as const;
+
 /** Bands the pipeline itself adds (input fallbacks; distances to the settlements and to the roads layer). */
 export const PIPELINE_BAND_IDS = ['inputFlags', 'settlementDistance_km', 'roadDistance_km'] as const;
 
@@ -92,12 +118,19 @@ export type MetricBandId = (typeof METRIC_BAND_IDS)[number];
 export type BasicBandId = (typeof BASIC_BAND_IDS)[number];
 export type InputEchoBandId = (typeof INPUT_ECHO_BAND_IDS)[number];
 export type PipelineBandId = (typeof PIPELINE_BAND_IDS)[number];
+export type EnsembleBandId = (typeof ENSEMBLE_BAND_IDS)[number];
 /** Any band id a build can write. */
-export type BandId = MetricBandId | BasicBandId | InputEchoBandId | PipelineBandId;
+export type BandId = MetricBandId | BasicBandId | InputEchoBandId | PipelineBandId | EnsembleBandId;
 
 /** All band ids, no duplicates (bedrockDepth is both a model band and an echo: listed once). */
 export const BAND_IDS: readonly BandId[] = [
-  ...new Set<BandId>([...METRIC_BAND_IDS, ...BASIC_BAND_IDS, ...INPUT_ECHO_BAND_IDS, ...PIPELINE_BAND_IDS]),
+  ...new Set<BandId>([
+    ...METRIC_BAND_IDS,
+    ...BASIC_BAND_IDS,
+    ...INPUT_ECHO_BAND_IDS,
+    ...PIPELINE_BAND_IDS,
+    ...ENSEMBLE_BAND_IDS,
+  ]),
 ];
 
 /** `BAND.x === 'x'` for every band id: name a band in code through this object. */

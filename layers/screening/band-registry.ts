@@ -62,6 +62,21 @@ const echo = (title: string) => ({
   source: INPUT,
 });
 
+/** Robust-class value meaning "uncertain" (after the suitability classes 0-3; cell-ensemble-model.ts). */
+export const UNCERTAIN_CLASS_VALUE = 4;
+
+/** The five metrics the ensemble reports as percentiles (their entries are shared with the percentiles). */
+const METRIC_ENTRIES = {
+  pilesPerTon: { title: 'Piles per ton of peak heating', ...same('piles/ton'), ...cont('cividis', 0, 40) },
+  thawDelay: { title: 'Thaw delay', ...years, ...cont('viridis', 0, 50) },
+  groundTempEnd: {
+    title: 'Ground temperature at pile depth, end of life',
+    ...degC,
+    ...cont('blueOrange', -10, 2),
+  },
+  fuelSaved: { title: 'Fuel saved', unit: 'L/yr', unitNA: 'US gal/yr', ...cont('blueOrange') },
+  simplePayback: { title: 'Simple payback against an oil furnace', ...years, ...cont('cividis', 0, 40) },
+} satisfies Record<string, BandEntry>;
 const kN = { unit: 'kN', unitNA: 'kip' };
 
 /** One entry per band. */
@@ -70,11 +85,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   suitabilityScore: { title: 'Suitability score', ...none, ...cont('viridis', 0, 1) },
   exclusion: { title: 'Exclusion reason', ...cls(classes(EXCLUSION_LABELS)) },
   groundTemp: { title: 'Ground temperature at pile depth', ...degC, ...cont('blueOrange', -10, 2) },
-  groundTempEnd: {
-    title: 'Ground temperature at pile depth, end of life',
-    ...degC,
-    ...cont('blueOrange', -10, 2),
-  },
+  groundTempEnd: METRIC_ENTRIES.groundTempEnd,
   permafrostClassToday: { title: 'Permafrost class today', ...cls(classes(PERMAFROST_CLASS_LABELS)) },
   permafrostClassEnd: {
     title: 'Permafrost class, end of design life',
@@ -83,7 +94,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   activeLayer: { title: 'Active layer thickness', ...metre, ...cont('cividis', 0, 4) },
   thawYear: { title: 'Thaw year without piles', ...years, ...cont('viridis') },
   thawYearPiles: { title: 'Thaw year with piles', ...years, ...cont('viridis') },
-  thawDelay: { title: 'Thaw delay', ...years, ...cont('viridis', 0, 50) },
+  thawDelay: METRIC_ENTRIES.thawDelay,
   frozenMargin: { title: 'Frozen-ground margin', ...years, ...cont('viridis', -20, 100) },
   extractionPerPile: {
     title: 'Sustainable extraction per pile',
@@ -91,7 +102,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     unitNA: 'Btu/h',
     ...cont('viridis'),
   },
-  pilesPerTon: { title: 'Piles per ton of peak heating', ...same('piles/ton'), ...cont('cividis', 0, 40) },
+  pilesPerTon: METRIC_ENTRIES.pilesPerTon,
   windowLower: { title: 'Operating window, lower bound', ...perMetre, ...cont('viridis') },
   windowUpper: { title: 'Operating window, upper bound', ...perMetre, ...cont('viridis') },
   windowUpperFluid: { title: 'Fluid-limited extraction', ...perMetre, ...cont('viridis') },
@@ -101,7 +112,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   bindingLimit: { title: 'Binding limit', ...cls(classes(BINDING_LABELS)) },
   seasonalCop: { title: 'Seasonal COP of the heat pump unit', ...none, ...cont('viridis', 1.5, 4) },
   heatingDemand: { title: 'Heating demand of the standard building', ...same('kWh/yr'), ...cont('cividis') },
-  fuelSaved: { title: 'Fuel saved', unit: 'L/yr', unitNA: 'US gal/yr', ...cont('blueOrange') },
+  fuelSaved: METRIC_ENTRIES.fuelSaved,
   co2Avoided: { title: 'CO2 avoided', unit: 't/yr', unitNA: 'short ton/yr', ...cont('blueOrange') },
   costSaved: { title: 'Cost saved', ...same('¤/yr'), ...cont('blueOrange') },
   breakEvenCopFuel: { title: 'Break-even COP, fuel', ...none, ...cont('cividis') },
@@ -160,7 +171,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   systemCop: { title: 'System seasonal COP', ...none, ...cont('viridis', 1.5, 4) },
   pumpPower: { title: 'Loop circulation pump power', unit: 'W', unitNA: 'Btu/h', ...cont('cividis') },
   capitalCost: { title: 'Capital cost of the heat-pump system', ...same('¤'), ...cont('cividis') },
-  simplePayback: { title: 'Simple payback against an oil furnace', ...years, ...cont('cividis', 0, 40) },
+  simplePayback: METRIC_ENTRIES.simplePayback,
   classRobust: {
     title: 'Class robust to the settings',
     ...cls([
@@ -252,7 +263,36 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
       'Distance from the cell centre to the nearest point or line of the imported roads layer (haversine to the nearest point of a segment).',
     source: 'pipeline: roads layer (see sources); layers/screening/proximity.ts',
   },
+
+  // The per-cell ensemble (cell-ensemble-model.ts): percentiles keep their metric's unit and ramp.
+  pilesPerTonP10: pct('pilesPerTon', 'P10'),
+  pilesPerTonP50: pct('pilesPerTon', 'P50'),
+  pilesPerTonP90: pct('pilesPerTon', 'P90'),
+  thawDelayP10: pct('thawDelay', 'P10'),
+  thawDelayP50: pct('thawDelay', 'P50'),
+  thawDelayP90: pct('thawDelay', 'P90'),
+  groundTempEndP10: pct('groundTempEnd', 'P10'),
+  groundTempEndP50: pct('groundTempEnd', 'P50'),
+  groundTempEndP90: pct('groundTempEnd', 'P90'),
+  fuelSavedP10: pct('fuelSaved', 'P10'),
+  fuelSavedP50: pct('fuelSaved', 'P50'),
+  fuelSavedP90: pct('fuelSaved', 'P90'),
+  simplePaybackP10: pct('simplePayback', 'P10'),
+  simplePaybackP50: pct('simplePayback', 'P50'),
+  simplePaybackP90: pct('simplePayback', 'P90'),
+  successProbability: { title: 'Probability of success', ...none, ...cont('viridis', 0, 1) },
+  robustClass: {
+    title: 'Robust suitability class',
+    ...cls([...classes(SUITABILITY_LABELS), { value: UNCERTAIN_CLASS_VALUE, label: 'uncertain' }]),
+  },
+  classAgreement: { title: 'Class agreement', ...none, ...cont('cividis', 0, 1) },
 };
+
+/** Registry entry of a percentile band: its metric's title with the percentile, unit, kind and ramp. */
+function pct(metric: keyof typeof METRIC_ENTRIES, p: string): BandEntry {
+  const m = METRIC_ENTRIES[metric];
+  return { ...m, title: `${m.title}, ${p}` };
+}
 
 /** The registry entry of a band id, or undefined for an id no build writes. */
 export function bandEntry(id: string): BandEntry | undefined {

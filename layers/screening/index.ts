@@ -11,3 +11,7 @@ export * from './basic-screening-model';
 export * from './manifest';
 export * from './tile-format';
 export * from './colour-ramps';
+export * from './uncertainty-schema';
+export * from './latin-hypercube';
+export * from './ensemble-statistics';
+export * from './cell-ensemble-model';

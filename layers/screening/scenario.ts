@@ -10,6 +10,7 @@
 import { z } from 'zod';
 import { DEFAULT_HEAT_PUMP_CURVE, HeatPumpCurveSchema } from '../physics/heat-pump';
 import { formatZodIssues } from '../validation-error';
+import { scenarioUncertaintySchema } from './uncertainty-schema';
 
 const pos = () => z.number().positive();
 const frac = () => z.number().gt(0).lte(1);
@@ -284,6 +285,11 @@ export const scenarioSchema = z
     ground: groundDefaultsSchema.default(groundDefaultsSchema.parse({})),
     permafrostClasses: permafrostClassesSchema.default(permafrostClassesSchema.parse({})),
     suitability: suitabilitySchema.default(suitabilitySchema.parse({})),
+    /**
+     * Uncertainty of the inputs and the ensemble settings (uncertainty-schema.ts). Absent: the build is
+     * deterministic; present (even `{}`): the build runs the per-cell ensemble (cell-ensemble-model.ts).
+     */
+    uncertainty: scenarioUncertaintySchema.optional(),
   })
   .superRefine((s, ctx) => {
     if (s.permafrostClasses.coldBelow_C > s.permafrostClasses.warmAbove_C) {

@@ -57,5 +57,9 @@ export interface HorizonQualifier {
 
 export interface ScreeningModel {
   layers: ScreeningLayer[];
-  evaluate(cell: CellInputs, out: Float32Array): void;
+  /**
+   * `cellIndex`, the cell's index on the analysis grid (row-major), lets a model seed per-cell random
+   * streams (cell-ensemble-model.ts) independently of how the grid is split into windows or workers.
+   */
+  evaluate(cell: CellInputs, out: Float32Array, cellIndex?: number): void;
 }

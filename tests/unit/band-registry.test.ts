@@ -101,6 +101,21 @@ describe('band registry', () => {
     expect(full.find((l) => l.id === BAND.capitalCost)?.unit).toMatch(/^[A-Z]{3}$/);
   });
 
+  it('is what the ensemble build writes after the model bands', async () => {
+    const { createEnsembleModel } = await import('../../layers/screening/cell-ensemble-model');
+    const { ENSEMBLE_BAND_IDS } = await import('../../layers/screening/band-ids');
+    const layers = createEnsembleModel({ scenario: { uncertainty: { members: 2 } } }).layers;
+    expect(layers.map((l) => l.id)).toEqual([...METRIC_BAND_IDS, ...ENSEMBLE_BAND_IDS]);
+    for (const l of layers.slice(METRIC_BAND_IDS.length)) {
+      const e = BAND_REGISTRY[l.id as keyof typeof BAND_REGISTRY];
+      expect(l.title, l.id).toBe(e.title);
+      expect(l.kind, l.id).toBe(e.kind);
+      expect(l.unit, l.id).toBe(e.unit);
+      if (e.classes)
+        expect(l.classes?.map((c) => [c.value, c.label])).toEqual(e.classes.map((c) => [c.value, c.label]));
+    }
+  });
+
   it('finds a stray band-id literal when there is one (the check can fail)', () => {
     const ids = new Set<string>(BAND_IDS);
     const src = [

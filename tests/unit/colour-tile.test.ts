@@ -62,3 +62,39 @@ describe('tile colouring', () => {
     expect(nominal.get(0)).toEqual(OKABE_ITO[0]);
   });
 });
+
+describe('hatching of places whose class is uncertain (ensemble builds)', () => {
+  it('draws dark stripes over uncertain cells and fades their colour between the stripes', async () => {
+    const { HATCH_RGB, HATCH_FILL_ALPHA, onHatchStripe } = await import('../../web/src/map/colour-tile');
+    const size = 8;
+    const n = size * size;
+    const values = plane(Array.from({ length: n }, () => -4));
+    // Robust class plane: 4 (uncertain) in the top half, 3 (good) in the bottom half.
+    const robust = plane(Array.from({ length: n }, (_, k) => (k < n / 2 ? 4 : 3)));
+    const planes = [values, plane(new Array(n).fill(0)), plane(new Array(n).fill(3)), robust];
+    const style = {
+      band: bands[0],
+      bandIndex: 0,
+      opacity: 1,
+      filter: compileFilter(EMPTY_FILTER, bands),
+      uncertainty: { bandIndex: 3, value: 4 },
+    };
+    const rgba = colourTile(planes, style);
+    const plain = colourTile(planes, { ...style, uncertainty: null });
+    let stripes = 0;
+    for (let k = 0; k < n; k++) {
+      const px = Array.from(rgba.slice(4 * k, 4 * k + 4));
+      if (k >= n / 2) expect(px).toEqual(Array.from(plain.slice(4 * k, 4 * k + 4)));
+      else if (onHatchStripe(k, size)) {
+        expect(px).toEqual([...HATCH_RGB, 255]);
+        stripes++;
+      } else {
+        expect(px.slice(0, 3)).toEqual(Array.from(plain.slice(4 * k, 4 * k + 3)));
+        expect(px[3]).toBe(Math.round(255 * HATCH_FILL_ALPHA));
+      }
+    }
+    // Stripes 2 of every 6 diagonals: about a third of the uncertain half.
+    expect(stripes).toBeGreaterThan(n / 2 / 4);
+    expect(stripes).toBeLessThan(n / 2 / 2);
+  });
+});

@@ -37,6 +37,7 @@ import { CellPanel, cellValues, type CellSelection } from './panels/cell-panel';
 import { ShortlistPanel } from './panels/shortlist-panel';
 import { FictionalNotice, ScreeningCaution } from './panels/caution-notes';
 import { HoverReadout, type HoverState } from './panels/hover-readout';
+import { uncertainClassOf } from './panels/ensemble-ranges';
 import { SitePanel } from './site/site-panel';
 
 const DATA_BASE = new URL('data/', document.baseURI);
@@ -105,6 +106,9 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const [units, setUnits] = useState<UnitSystem>(init.state.units);
   const [opacity, setOpacity] = useState(init.state.opacity);
   const [filter, setFilter] = useState<FilterSpec>(init.state.filter);
+  // Ensemble builds: hatch the cells whose robust class is "uncertain" over any layer (on by default).
+  const uncertainClass = useMemo(() => uncertainClassOf(manifest), [manifest]);
+  const [hatchUncertain, setHatchUncertain] = useState(true);
   const view = useRef({ center: init.state.center, zoom: init.state.zoom });
   const [table, setTable] = useState<CellTable | null>(null);
   const [hover, setHover] = useState<HoverState | null>(null);
@@ -153,10 +157,19 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
   const band = manifest.bands[bandIndex];
   const compiled = useMemo(() => compileFilter(filter, manifest.bands), [filter, manifest.bands]);
   const style: TileStyle = useMemo(
-    () => ({ band, bandIndex, opacity, filter: compiled }),
-    [band, bandIndex, opacity, compiled],
+    () => ({
+      band,
+      bandIndex,
+      opacity,
+      filter: compiled,
+      uncertainty: hatchUncertain && uncertainClass ? uncertainClass : null,
+    }),
+    [band, bandIndex, opacity, compiled, hatchUncertain, uncertainClass],
   );
-  const styleKey = useMemo(() => `${bandId}|${opacity}|${JSON.stringify(filter)}`, [bandId, opacity, filter]);
+  const styleKey = useMemo(
+    () => `${bandId}|${opacity}|${JSON.stringify(filter)}|${hatchUncertain}`,
+    [bandId, opacity, filter, hatchUncertain],
+  );
 
   const writeUrl = useCallback(() => {
     const q = formatUrlState({
@@ -305,8 +318,14 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
           onBand={setBandId}
           onUnits={setUnits}
           onOpacity={setOpacity}
+          hatch={uncertainClass ? { on: hatchUncertain, onChange: setHatchUncertain } : null}
         />
-        <LegendPanel band={band} units={units} filterActive={compiled.active} />
+        <LegendPanel
+          band={band}
+          units={units}
+          filterActive={compiled.active}
+          uncertain={hatchUncertain && uncertainClass ? uncertainClass.band : null}
+        />
         <FilterPanel bands={manifest.bands} filter={filter} units={units} onChange={setFilter} />
         <RadiusFilter settlements={atlas.settlements} units={units} onApply={loadPolygons} />
         <SummaryPanel

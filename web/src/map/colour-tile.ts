@@ -4,7 +4,8 @@
  * legend range; class bands use one colour per class (ordinal classes sampled from the band's ramp
  * when it names one, otherwise the Okabe & Ito (2008) palette, "Color Universal Design", which stays
  * distinguishable under the common colour-vision deficiencies). Nodata is transparent (the base map's
- * land or sea shows through); cells failing the live filter are drawn as a pale grey veil.
+ * land or sea shows through); cells failing the live filter are drawn as a pale grey veil; in an
+ * ensemble build, cells whose robust class is "uncertain" can be hatched over any layer.
  */
 import type { Band } from '../../../layers/screening/manifest';
 import { rampColour, type Rgb } from '../../../layers/screening/colour-ramps';
@@ -58,6 +59,26 @@ export interface TileStyle {
   /** Layer opacity, 0..1. */
   opacity: number;
   filter: CompiledFilter;
+  /**
+   * Hatch the cells whose robust class is "uncertain" (ensemble builds): the plane of the robust-class
+   * band and the class value that means uncertain.
+   */
+  uncertainty?: { bandIndex: number; value: number } | null;
+}
+
+/** Hatching of cells whose class is uncertain: dark diagonal stripes, the cell's colour faded between. */
+export const HATCH_RGB: Rgb = [40, 40, 40];
+/** Stripe period and width in tile pixels (diagonal: (x + y) mod period < width). */
+export const HATCH_PERIOD = 6;
+export const HATCH_WIDTH = 2;
+/** Alpha of the cell's own colour between the stripes, relative to the layer opacity. */
+export const HATCH_FILL_ALPHA = 0.45;
+
+/** Whether tile pixel k (row-major, TILE_SIZE wide) lies on a hatch stripe. */
+export function onHatchStripe(k: number, tileSize: number): boolean {
+  const x = k % tileSize;
+  const y = (k - x) / tileSize;
+  return (x + y) % HATCH_PERIOD < HATCH_WIDTH;
 }
 
 const LUT_SIZE = 256;
@@ -74,6 +95,10 @@ export function colourTile(
   const alpha = Math.round(255 * Math.max(0, Math.min(1, style.opacity)));
   const fadedAlpha = Math.round(alpha * FADED_ALPHA);
   const { band, filter } = style;
+  const hatch = style.uncertainty ? planes[style.uncertainty.bandIndex] : null;
+  const uncertainValue = style.uncertainty?.value ?? NaN;
+  const tileSize = Math.round(Math.sqrt(n));
+  const hatchFill = Math.round(alpha * HATCH_FILL_ALPHA);
   let lut: Uint8Array | null = null;
   let lo = 0;
   let span = 1;
@@ -104,13 +129,23 @@ export function colourTile(
       rgba[o + 3] = fadedAlpha;
       continue;
     }
+    if (hatch && hatch[k] === uncertainValue) {
+      if (onHatchStripe(k, tileSize)) {
+        rgba[o] = HATCH_RGB[0];
+        rgba[o + 1] = HATCH_RGB[1];
+        rgba[o + 2] = HATCH_RGB[2];
+        rgba[o + 3] = alpha;
+        continue;
+      }
+    }
+    const a = hatch && hatch[k] === uncertainValue ? hatchFill : alpha;
     if (lut) {
       const t = span > 0 ? (v - lo) / span : 0.5;
       const i = t <= 0 ? 0 : t >= 1 ? LUT_SIZE - 1 : Math.round(t * (LUT_SIZE - 1));
       rgba[o] = lut[i * 3];
       rgba[o + 1] = lut[i * 3 + 1];
       rgba[o + 2] = lut[i * 3 + 2];
-      rgba[o + 3] = alpha;
+      rgba[o + 3] = a;
     } else {
       const c = classes?.get(Math.round(v));
       if (!c) {
@@ -120,7 +155,7 @@ export function colourTile(
       rgba[o] = c[0];
       rgba[o + 1] = c[1];
       rgba[o + 2] = c[2];
-      rgba[o + 3] = alpha;
+      rgba[o + 3] = a;
     }
   }
   return rgba;

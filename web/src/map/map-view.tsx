@@ -246,6 +246,7 @@ function bandsToDraw(style: TileStyle): number[] {
   return [
     ...new Set([
       style.bandIndex,
+      ...(style.uncertainty ? [style.uncertainty.bandIndex] : []),
       ...(style.filter.active ? [...style.filter.rangeBands, ...style.filter.classBands] : []),
     ]),
   ].sort((a, b) => a - b);

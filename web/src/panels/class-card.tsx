@@ -6,6 +6,8 @@
 import type { Criterion, Manifest } from '../../../layers/screening/manifest';
 import { horizonText } from '../../../layers/screening/climate-horizon';
 import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
+import { rangeText, SUCCESS_BAND, successText } from './ensemble-ranges';
+import { RANGE_METRICS } from '../../../layers/screening/cell-ensemble-model';
 
 /** Whether `value comparison threshold` holds (the criterion passes); null when the value is nodata. */
 export function criterionVerdict(c: Criterion, value: number | null): boolean | null {
@@ -53,6 +55,28 @@ export function ClassCard(props: {
   return (
     <details className="class-card" open data-testid="class-card">
       <summary>Why this class</summary>
+      {SUCCESS_BAND in values ? (
+        <div className="ensemble-ranges" data-testid="class-card-ranges">
+          <p className="small">
+            <strong>Probability of success:</strong> {successText(values[SUCCESS_BAND])}
+          </p>
+          <ul className="small">
+            {RANGE_METRICS.map((id) => {
+              const band = manifest.bands.find((b) => b.id === id);
+              const r = band ? rangeText(manifest, (x) => values[x], id, units) : null;
+              return band && r ? (
+                <li key={id}>
+                  {displayTitle(band.title, band.unit, units)}: {r}
+                </li>
+              ) : null;
+            })}
+          </ul>
+          <p className="muted small">
+            P10–P90: in 8 of 10 ensemble members the value lies in this range (1 in 10 below, 1 in 10 above),
+            over the declared uncertainty of the inputs.
+          </p>
+        </div>
+      ) : null}
       {criteria.length > 0 ? (
         <table className="criteria" data-testid="criteria">
           <thead>

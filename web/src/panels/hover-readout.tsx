@@ -8,6 +8,7 @@ import { HEADLINE_BAND_IDS } from '../../../layers/screening/band-registry';
 import type { CellTable } from '../data/cell-table';
 import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
 import { bandValueText } from './cell-panel';
+import { rangeText } from './ensemble-ranges';
 
 export interface HoverState {
   lon: number;
@@ -33,6 +34,13 @@ export function HoverReadout(props: {
     const i = manifest.bands.findIndex((x) => x.id === b.horizon?.flagBand);
     return i < 0 ? undefined : table.planes[i][hover.index];
   };
+  const valueOf = (id: string): number | null | undefined => {
+    if (!table || hover.index < 0) return undefined;
+    const i = manifest.bands.findIndex((x) => x.id === id);
+    return i < 0 ? undefined : table.planes[i][hover.index];
+  };
+  // Ensemble builds: the P10–P90 range of the shown layer (or of the band it is a percentile of).
+  const range = table && hover.index >= 0 ? rangeText(manifest, valueOf, band.id, units) : null;
   let text: string;
   if (!table) text = 'loading cells…';
   else if (hover.index < 0) text = 'no data here';
@@ -46,6 +54,11 @@ export function HoverReadout(props: {
       <div>
         {displayTitle(band.title, band.unit, units)}: <strong data-testid="hover-value">{text}</strong>
       </div>
+      {range ? (
+        <div className="small" data-testid="hover-range">
+          {range}
+        </div>
+      ) : null}
       {table && hover.index >= 0
         ? manifest.bands.map((b, i) =>
             HEADLINE_BANDS.includes(b.id) && i !== bandIndex ? (

@@ -1,4 +1,7 @@
-/** Choice of the map layer (any band of the build), the display units and the layer's opacity. */
+/**
+ * Choice of the map layer (any band of the build), the display units, the layer's opacity and, in an
+ * ensemble build, the hatching of places whose class is uncertain.
+ */
 import type { Band } from '../../../layers/screening/manifest';
 import type { UnitSystem } from '../units/display-units';
 
@@ -10,6 +13,8 @@ export function LayerPanel(props: {
   onBand: (id: string) => void;
   onUnits: (u: UnitSystem) => void;
   onOpacity: (o: number) => void;
+  /** Ensemble builds: whether cells whose class is uncertain are hatched (null: not an ensemble build). */
+  hatch?: { on: boolean; onChange: (on: boolean) => void } | null;
 }) {
   return (
     <section className="panel" aria-label="Map layer">
@@ -56,6 +61,17 @@ export function LayerPanel(props: {
           data-testid="opacity"
         />
       </label>
+      {props.hatch ? (
+        <label className="block">
+          <input
+            type="checkbox"
+            checked={props.hatch.on}
+            onChange={(e) => props.hatch?.onChange(e.target.checked)}
+            data-testid="hatch-uncertain"
+          />{' '}
+          Hatch places whose class is uncertain
+        </label>
+      ) : null}
     </section>
   );
 }

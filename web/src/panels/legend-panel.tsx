@@ -1,7 +1,14 @@
 /** Legend of the selected band in the chosen display units, with nodata, sea and filtered-out keys. */
 import type { Band } from '../../../layers/screening/manifest';
 import { rampColour } from '../../../layers/screening/colour-ramps';
-import { classColours, FADED_ALPHA, FADED_RGB, legendRange } from '../map/colour-tile';
+import {
+  classColours,
+  FADED_ALPHA,
+  FADED_RGB,
+  HATCH_FILL_ALPHA,
+  HATCH_RGB,
+  legendRange,
+} from '../map/colour-tile';
 import { LAND_COLOUR, SEA_COLOUR } from '../map/base-style';
 import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 
@@ -9,8 +16,21 @@ function css([r, g, b]: [number, number, number], a = 1): string {
   return `rgba(${r}, ${g}, ${b}, ${a})`;
 }
 
-export function LegendPanel(props: { band: Band; units: UnitSystem; filterActive: boolean }) {
-  const { band, units, filterActive } = props;
+/** Swatch of the hatching of uncertain places (colour-tile.ts: dark diagonal stripes over the faded colour). */
+function hatchBackground(): string {
+  const stripe = css(HATCH_RGB);
+  return `repeating-linear-gradient(45deg, ${stripe} 0 2px, rgba(68, 1, 84, ${HATCH_FILL_ALPHA}) 2px 6px)`;
+}
+
+export function LegendPanel(props: {
+  band: Band;
+  units: UnitSystem;
+  filterActive: boolean;
+  /** The robust-class band when uncertain places are hatched (ensemble builds), else null. */
+  uncertain?: Band | null;
+}) {
+  const { band, units, filterActive, uncertain } = props;
+  const uncertainText = uncertain?.classes?.find((c) => c.label === 'uncertain')?.description;
   const conv = displayConversion(band.unit, units);
   const show = (v: number) => formatNumber(v * conv.factor + conv.offset);
   let body;
@@ -64,6 +84,13 @@ export function LegendPanel(props: { band: Band; units: UnitSystem; filterActive
         <li>
           <span className="swatch" style={{ background: SEA_COLOUR }} /> sea
         </li>
+        {uncertain ? (
+          <li data-testid="legend-uncertain">
+            <span className="swatch" style={{ background: hatchBackground() }} /> class uncertain:{' '}
+            {uncertainText ?? 'the ensemble members disagree on the class'} Screening estimate: check these
+            places on site first.
+          </li>
+        ) : null}
         {filterActive ? (
           <li>
             <span className="swatch" style={{ background: css(FADED_RGB, FADED_ALPHA + 0.2) }} /> outside the

@@ -24,6 +24,7 @@ import {
 import { screenCell } from '../../../layers/screening/cell-screening-model';
 import { studyRunInput } from '../../../layers/screening/run-site-study';
 import { runSiteInWorker, SiteRunCancelled, type SiteRunHandle } from './run-site-in-worker';
+import { SiteEnsemblePanel } from './site-ensemble-panel';
 import { SiteCharts, SiteSummaryTable, useSiteDerived, type SiteRunOutcome } from './site-results';
 import type { SitePlace } from './site-panel';
 
@@ -411,6 +412,12 @@ function SiteOutcome(props: {
         </ul>
       ) : null}
       <SiteCharts run={props.outcome} derived={derived} units={props.units} />
+      <SiteEnsemblePanel
+        outcome={props.outcome}
+        scenario={props.scenario}
+        units={props.units}
+        freezingPoint_C={derived.freezingAt(props.outcome.input.probes[0]?.z_m ?? 5)}
+      />
     </div>
   );
 }

@@ -10,6 +10,8 @@ export interface SiteRunRequest {
   /** For the pile sizing after the run. */
   scenario: Scenario;
   column: ProfileColumn;
+  /** Size the pile field after the run (default true; the ensemble's members skip it). */
+  sizing?: boolean;
 }
 
 export type SiteWorkerMessage =

@@ -21,6 +21,10 @@ self.onmessage = (event: MessageEvent<SiteRunRequest>) => {
     const result = simulateSite(event.data.input, {
       onProgress: (fraction) => post({ type: 'progress', fraction }),
     });
+    if (event.data.sizing === false) {
+      post({ type: 'done', result, sizing: null, elapsed_ms: performance.now() - t0 });
+      return;
+    }
     post({ type: 'sizing' });
     const sizing: SiteSizing | null = sizeStudy(
       siteInputSchema.parse(event.data.input),
