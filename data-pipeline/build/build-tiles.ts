@@ -24,9 +24,18 @@ import { availableParallelism } from 'node:os';
 import { mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { manifestCriteria } from '../../layers/screening/cell-screening-model';
-import { scenarioSchema } from '../../layers/screening/scenario';
+import { scenarioSchema, type Scenario } from '../../layers/screening/scenario';
+import {
+  differenceText,
+  isScenarioSetJson,
+  scenarioDifferences,
+  scenarioSetSchema,
+  scenarioSlug,
+} from '../../layers/screening/scenario-set';
+import { effectiveHorizonYear } from '../../layers/screening/climate-horizon';
+import { BAND } from '../../layers/screening/band-ids';
 import { ValidationError } from '../../layers/validation-error';
-import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import { manifestSchema, type Manifest, type ScenarioSetInfo } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
 import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-geotiff';
@@ -86,24 +95,49 @@ export interface BuildSummary {
   workers: number;
   seconds: number;
   cellsPerSecond: number;
+  /** A scenario-set build: each scenario's name and output directory (relative to outDir). */
+  scenarios?: { name: string; dir: string }[];
 }
 
-function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
+interface ResolvedModel {
+  model: ScreeningModel;
+  spec?: ModelSpec;
+  name: string;
+  /** The parsed scenario (screening model only). */
+  scenario?: Scenario;
+}
+
+function resolveModel(options: BuildOptions, scenarioJson: unknown): ResolvedModel {
   if (options.model) return { model: options.model, name: 'custom' };
   const spec: ModelSpec =
-    options.modelKind === 'basic'
-      ? { kind: 'basic' }
-      : { kind: 'screening', scenario: options.scenario ?? {} };
+    options.modelKind === 'basic' ? { kind: 'basic' } : { kind: 'screening', scenario: scenarioJson ?? {} };
+  let scenario: Scenario | undefined;
   if (spec.kind === 'screening') {
     // Validated here, so that an error the model throws afterwards is a bug (exit 1), not bad input.
     const parsed = scenarioSchema.safeParse(spec.scenario ?? {});
     if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario', parsed.error);
+    scenario = parsed.data;
   }
   return {
     model: createModelFromSpec(spec),
     spec,
     name: spec.kind === 'basic' ? 'basic (TTOP + Stefan)' : 'per-cell screening model',
+    scenario,
   };
+}
+
+/**
+ * The models of a build: one, or one per scenario of a scenario set (`{ scenarios: [...] }`,
+ * scenario-set.ts), validated all at once before any input is read.
+ */
+function resolveModels(options: BuildOptions): ResolvedModel[] {
+  if (options.model || options.modelKind === 'basic' || !isScenarioSetJson(options.scenario)) {
+    return [resolveModel(options, options.scenario)];
+  }
+  const parsed = scenarioSetSchema.safeParse(options.scenario);
+  if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario set', parsed.error);
+  const raw = (options.scenario as { scenarios: unknown[] }).scenarios;
+  return raw.map((json) => resolveModel(options, json));
 }
 
 const DISK_FULL = new Set(['ENOSPC', 'EDQUOT']);
@@ -116,7 +150,31 @@ function diskFullError(outDir: string, stage: string, err: NodeJS.ErrnoException
   );
 }
 
-/** Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). */
+/** One scenario's screened output, before its manifest is written. */
+interface ScenarioOutput {
+  resolved: ResolvedModel;
+  dir: string;
+  slug: string;
+  /** Directory from the build's root: '' for the first scenario, else scenarios/<slug>/. */
+  sub: string;
+  result: Awaited<ReturnType<typeof computeLayers>>;
+  bands: Manifest['bands'];
+  bounds: [number, number, number, number];
+  minZoom: number;
+  maxZoom: number;
+  tilesByZoom: Record<number, number>;
+  tiles: number;
+  shares: Record<string, Record<string, number>>;
+  geotiffs?: Record<string, string>;
+}
+
+/**
+ * Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). With a
+ * scenario set the inputs are read, validated and checksummed once and the analysis grid built once;
+ * each scenario is screened and written: the first at the root of `outDir` (as a one-scenario build),
+ * the others under scenarios/<slug>/ with their own tiles, GeoTIFFs and manifest, every manifest
+ * listing all scenarios (scenarioSet). The summary describes the first scenario.
+ */
 export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const started = Date.now();
   const { inDir, outDir, onProgress } = options;
@@ -126,8 +184,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   // A build killed earlier may have left a swap half done: put the previous output back first.
   recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
-  const { model, spec, name: modelName } = resolveModel(options);
-  const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
+  const models = resolveModels(options);
+  const modelName = models[0].name;
 
   const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
   await faultPoint('read', inDir);
@@ -147,7 +205,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       ...estimateBuild({
         width: grid.width,
         height: grid.height,
-        bands: model.layers.length + 8,
+        bands: models.reduce((n, m) => n + m.model.layers.length + 8, 0),
         inputs: inputs.length,
         threads,
         inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
@@ -163,138 +221,190 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     await faultPoint(next, target);
   };
   try {
-    await enter('screen', output.dir);
-    const bandsDir = join(output.dir, '.bands');
-    const result = await computeLayers({
-      grid,
-      bandsDir,
-      inputs,
-      model,
-      spec,
-      workers: threads,
-      minCellsForWorkers: options.minCellsForWorkers,
-      onProgress: (d, t) => progress('screen', d, t),
-    });
-    if (result.cellsScreened === 0) {
-      throw new InputError(
-        `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
-      );
-    }
-    const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
-    const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
-    const margin = (2 * cellSize_m) / 111_000;
-    const b = result.bounds;
-    const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
-    const bounds: [number, number, number, number] = [
-      Math.max(-180, b[0] - lonMargin),
-      Math.max(-85, b[1] - margin),
-      Math.min(180, b[2] + lonMargin),
-      Math.min(85, b[3] + margin),
-    ];
-    const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
-
-    await enter('tiles', join(output.dir, 'tiles'));
-    const tilesByZoom = await writeTilePyramid({
-      tilesDir: join(output.dir, 'tiles'),
-      grid,
-      files: result.files,
-      bands: bands.map((band) => ({ kind: band.kind, quant: band })),
-      minZoom,
-      maxZoom,
-      bounds,
-      onTile: (d, t) => progress('tiles', d, t),
-      workers: result.workers,
-    });
-    let geotiffs: Record<string, string> | undefined;
-    if (options.geotiff !== false) {
-      await enter('geotiff', join(output.dir, 'geotiff'));
-      geotiffs = {};
-      await mkdir(join(output.dir, 'geotiff'));
-      for (let i = 0; i < bands.length; i++) {
-        const file = `geotiff/${bands[i].id}.tif`;
-        const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
-        const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
-        try {
-          await writeBandGeoTiff({
-            path: join(output.dir, file),
-            readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
-            width: grid.width,
-            height: grid.height,
-            geoTransform: grid.geoTransform,
-            crs: grid.crs,
-            description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
-          });
-        } finally {
-          closeBandFds([fd]);
-        }
-        geotiffs[bands[i].id] = file;
-        progress('geotiff', i + 1, bands.length);
+    const outputs: ScenarioOutput[] = [];
+    const slugs = models.map((m, i) =>
+      models.length === 1 ? '' : scenarioSlug(m.scenario?.name ?? `s${i}`),
+    );
+    for (let si = 0; si < models.length; si++) {
+      const resolved = models[si];
+      const { model, spec } = resolved;
+      const dir = si === 0 ? output.dir : join(output.dir, 'scenarios', slugs[si]);
+      const tag = models.length > 1 ? ` ${resolved.scenario?.name ?? si}` : '';
+      await mkdir(dir, { recursive: true });
+      await enter('screen', dir);
+      const bandsDir = join(dir, '.bands');
+      const result = await computeLayers({
+        grid,
+        bandsDir,
+        inputs,
+        model,
+        spec,
+        workers: threads,
+        minCellsForWorkers: options.minCellsForWorkers,
+        onProgress: (d, t) => progress(`screen${tag}`, d, t),
+      });
+      if (result.cellsScreened === 0) {
+        throw new InputError(
+          `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
+        );
       }
+      const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
+      const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
+      const margin = (2 * cellSize_m) / 111_000;
+      const b = result.bounds;
+      const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
+      const bounds: [number, number, number, number] = [
+        Math.max(-180, b[0] - lonMargin),
+        Math.max(-85, b[1] - margin),
+        Math.min(180, b[2] + lonMargin),
+        Math.min(85, b[3] + margin),
+      ];
+      const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
+
+      await enter('tiles', join(dir, 'tiles'));
+      const tilesByZoom = await writeTilePyramid({
+        tilesDir: join(dir, 'tiles'),
+        grid,
+        files: result.files,
+        bands: bands.map((band) => ({ kind: band.kind, quant: band })),
+        minZoom,
+        maxZoom,
+        bounds,
+        onTile: (d, t) => progress(`tiles${tag}`, d, t),
+        workers: result.workers,
+      });
+      let geotiffs: Record<string, string> | undefined;
+      if (options.geotiff !== false) {
+        await enter('geotiff', join(dir, 'geotiff'));
+        geotiffs = {};
+        await mkdir(join(dir, 'geotiff'));
+        for (let i = 0; i < bands.length; i++) {
+          const file = `geotiff/${bands[i].id}.tif`;
+          const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
+          const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
+          try {
+            await writeBandGeoTiff({
+              path: join(dir, file),
+              readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
+              width: grid.width,
+              height: grid.height,
+              geoTransform: grid.geoTransform,
+              crs: grid.crs,
+              description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}.${resolved.scenario && models.length > 1 ? ` Scenario: ${resolved.scenario.name}.` : ''} Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+            });
+          } finally {
+            closeBandFds([fd]);
+          }
+          geotiffs[bands[i].id] = file;
+          progress(`geotiff${tag}`, i + 1, bands.length);
+        }
+      }
+      const shares: Record<string, Record<string, number>> = {};
+      result.layers.forEach((layer, i) => {
+        if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
+      });
+      await rm(bandsDir, { recursive: true, force: true });
+      const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
+      outputs.push({
+        resolved,
+        dir,
+        slug: slugs[si],
+        sub: si === 0 ? '' : `scenarios/${slugs[si]}/`,
+        result,
+        bands,
+        bounds,
+        minZoom,
+        maxZoom,
+        tilesByZoom,
+        tiles,
+        shares,
+        geotiffs,
+      });
     }
+
     await enter('manifest', join(output.dir, 'manifest.json'));
-    // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
-    if (geojson.settlements !== undefined)
-      await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
-    if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
-    const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
-    const shares: Record<string, Record<string, number>> = {};
-    result.layers.forEach((layer, i) => {
-      if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
-    });
-    await rm(bandsDir, { recursive: true, force: true });
+    const setInfo = models.length > 1 ? scenarioSetInfo(outputs) : undefined;
     const seconds = (Date.now() - started) / 1000;
-    const summary = {
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      screenedArea_km2: Math.round((result.cellsScreened * cellSize_m * cellSize_m) / 1e6),
-      classShares: shares,
-      tiles,
-      workers: result.workers,
-      seconds,
-    };
-    const manifest = await assembleManifest({
-      config,
-      inputs,
-      grid,
-      bands,
-      bounds,
-      minZoom,
-      maxZoom,
-      parameters: {
-        cellSize_m,
-        resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
-        overviews: { class: 'mode', continuous: 'mean' },
-        model: modelName,
-        ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
-      },
-      ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
-      summary,
-      geotiffs,
-    });
-    const checked = manifestSchema.parse(manifest);
-    await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
-    await validateOutput(output.dir, checked);
+    for (const o of outputs) {
+      // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
+      if (geojson.settlements !== undefined)
+        await writeFile(join(o.dir, 'settlements.geojson'), geojson.settlements);
+      if (geojson.land !== undefined) await writeFile(join(o.dir, 'land.geojson'), geojson.land);
+      const r = o.result;
+      const summary = {
+        cellsTotal: r.cellsTotal,
+        cellsScreened: r.cellsScreened,
+        cellsMissingInput: r.cellsMissingInput,
+        cellsModelNodata: r.cellsModelNodata,
+        screenedArea_km2: Math.round((r.cellsScreened * cellSize_m * cellSize_m) / 1e6),
+        classShares: o.shares,
+        tiles: o.tiles,
+        workers: r.workers,
+        seconds,
+      };
+      const scenario = o.resolved.scenario;
+      const manifest = await assembleManifest({
+        config,
+        inputs,
+        grid,
+        bands: o.bands,
+        bounds: o.bounds,
+        minZoom: o.minZoom,
+        maxZoom: o.maxZoom,
+        parameters: {
+          cellSize_m,
+          resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
+          overviews: { class: 'mode', continuous: 'mean' },
+          model: o.resolved.name,
+          ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
+        },
+        ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
+        summary,
+        geotiffs: o.geotiffs,
+      });
+      const withSet = setInfo
+        ? {
+            ...manifest,
+            scenarioSet: {
+              ...setInfo,
+              current: scenario?.name ?? '',
+              root: o.sub ? '../../' : '',
+            },
+          }
+        : manifest;
+      const checked = manifestSchema.parse(withSet);
+      await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
+      await validateOutput(o.dir, checked);
+    }
     stage = 'swap';
     await output.commit();
+    const first = outputs[0];
+    const r = first.result;
     return {
       outDir,
       manifest: join(outDir, 'manifest.json'),
       model: modelName,
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      tiles,
-      tilesByZoom,
-      minZoom,
-      maxZoom,
-      bands: bands.map((x) => x.id),
-      classShares: shares,
-      workers: result.workers,
+      cellsTotal: r.cellsTotal,
+      cellsScreened: r.cellsScreened,
+      cellsMissingInput: r.cellsMissingInput,
+      cellsModelNodata: r.cellsModelNodata,
+      tiles: first.tiles,
+      tilesByZoom: first.tilesByZoom,
+      minZoom: first.minZoom,
+      maxZoom: first.maxZoom,
+      bands: first.bands.map((x) => x.id),
+      classShares: first.shares,
+      workers: r.workers,
       seconds: (Date.now() - started) / 1000,
-      cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
+      cellsPerSecond: Math.round(r.cellsTotal / ((Date.now() - started) / 1000)),
+      ...(models.length > 1
+        ? {
+            scenarios: outputs.map((o) => ({
+              name: o.resolved.scenario?.name ?? '',
+              dir: o.sub ? o.sub.slice(0, -1) : '.',
+            })),
+          }
+        : {}),
     };
   } catch (err) {
     await output.discard();
@@ -302,6 +412,30 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
     throw err;
   }
+}
+
+/** The scenario list every manifest of a set carries (current and root filled in per manifest). */
+function scenarioSetInfo(outputs: ScenarioOutput[]): Omit<ScenarioSetInfo, 'current' | 'root'> {
+  const ref = outputs[0].resolved.scenario as Scenario;
+  return {
+    scenarios: outputs.map((o) => {
+      const s = o.resolved.scenario as Scenario;
+      const suit = o.shares[BAND.suitability] ?? {};
+      const keyFigures: Record<string, number> = {};
+      for (const [label, share] of Object.entries(suit)) keyFigures[`share ${label}`] = share;
+      keyFigures.cellsScreened = o.result.cellsScreened;
+      return {
+        name: s.name,
+        slug: o.slug,
+        manifest: `${o.sub}manifest.json`,
+        warming: s.warmingPathway ? s.warmingPathway.label : 'linear trend per cell',
+        designLife_yr: s.designLife_yr,
+        horizonYear: effectiveHorizonYear(s),
+        differences: scenarioDifferences(ref, s).map((d) => ({ path: d.path, text: differenceText(d) })),
+        keyFigures,
+      };
+    }),
+  };
 }
 
 /** Re-read the manifest and check one tile per zoom for size before swapping the output in. */
