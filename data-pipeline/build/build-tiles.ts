@@ -52,6 +52,7 @@ import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
+import type { BuildDistributor } from './build-distributor';
 
 export interface BuildOptions {
   inDir: string;
@@ -75,6 +76,11 @@ export interface BuildOptions {
   geotiff?: boolean;
   /** Limits checked before reading and writing (default: defaultBudget()). */
   budget?: Partial<BuildBudget>;
+  /**
+   * Run the screening windows and tile subtrees elsewhere (e.g. as jobs on a queue,
+   * data-pipeline/queue/queue-distributor.ts) instead of this process's worker threads.
+   */
+  distributor?: BuildDistributor;
 }
 
 export interface BuildSummary {
@@ -95,6 +101,8 @@ export interface BuildSummary {
   workers: number;
   seconds: number;
   cellsPerSecond: number;
+  /** Queue-backed builds: jobs run, reused from earlier builds, retried (distributor.report()). */
+  queue?: Record<string, number>;
   /** A scenario-set build: each scenario's name and output directory (relative to outDir). */
   scenarios?: { name: string; dir: string }[];
 }
@@ -242,6 +250,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         workers: threads,
         minCellsForWorkers: options.minCellsForWorkers,
         onProgress: (d, t) => progress(`screen${tag}`, d, t),
+        windowRunner: options.distributor?.windows,
       });
       if (result.cellsScreened === 0) {
         throw new InputError(
@@ -272,6 +281,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         bounds,
         onTile: (d, t) => progress(`tiles${tag}`, d, t),
         workers: result.workers,
+        subtreeRunner: options.distributor?.subtrees,
       });
       let geotiffs: Record<string, string> | undefined;
       if (options.geotiff !== false) {
@@ -376,6 +386,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
       await validateOutput(o.dir, checked);
     }
+    await options.distributor?.cleanup();
     stage = 'swap';
     await output.commit();
     const first = outputs[0];
@@ -397,6 +408,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       workers: r.workers,
       seconds: (Date.now() - started) / 1000,
       cellsPerSecond: Math.round(r.cellsTotal / ((Date.now() - started) / 1000)),
+      ...(options.distributor ? { queue: options.distributor.report() } : {}),
       ...(models.length > 1
         ? {
             scenarios: outputs.map((o) => ({
@@ -407,6 +419,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         : {}),
     };
   } catch (err) {
+    await options.distributor?.cleanup().catch(() => undefined);
     await output.discard();
     const code = (err as NodeJS.ErrnoException)?.code;
     if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);

@@ -28,6 +28,7 @@ import {
   type EconomicsCoefficients,
 } from './economics';
 import { softWeights } from './suitability';
+import { systemConstants, type SystemConstants } from './system-cop';
 
 export const SOIL_TABLE_POINTS = 65;
 /** Table points from the porosity to MAX_WATER_CONTENT_M3M3 (excess ice), the porosity included. */
@@ -66,6 +67,8 @@ export interface CellConstants {
   } | null;
   /** Years from the start year to the climate horizon (climate-horizon.ts, effectiveHorizonYear). */
   horizon_yr: number;
+  /** Loop-fluid properties of the system model (system-cop.ts). */
+  system: SystemConstants;
 }
 
 export const COP_EFT_MIN = -40;
@@ -170,6 +173,7 @@ export function buildCellConstants(scenario: Scenario): CellConstants {
       (_, i) =>
         heatPumpAt({ enteringFluid_C: COP_EFT_MIN + i * COP_EFT_STEP, curve: scenario.heatPump.curve }).cop,
     ),
+    system: systemConstants(scenario),
     pathway: pathwayConstants(scenario),
     horizon_yr: effectiveHorizonYear(scenario) - scenario.startYear,
   };
