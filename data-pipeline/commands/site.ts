@@ -1,6 +1,8 @@
 /** `pile-atlas site <input.json | ->`: the single-site transient simulation, JSON in, JSON out. */
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
+import { scenarioSchema } from '../../layers/screening/scenario';
+import { runSiteStudy } from '../../layers/screening/run-site-study';
 import { ValidationError } from '../../layers/validation-error';
 import { InputError } from '../input-error';
 import type { Command } from './command';
@@ -10,7 +12,7 @@ import { parseOptions } from './parse-options';
 export const siteCommand: Command = {
   name: 'site',
   summary: 'simulate one site over the years, with and without the pile (JSON in, JSON out)',
-  help: `pile-atlas site <input.json | -> [--compact] [--progress]
+  help: `pile-atlas site <input.json | -> [--report [--scenario <scenario.json>]] [--compact] [--progress]
 
 Runs the axisymmetric (r, z) transient ground simulation around one heat-exchanger pile, twice (with
 and without the pile), and prints the result as JSON: probe temperature histories, the year each probe
@@ -21,12 +23,23 @@ at the start, and the energy balance. Screening estimate, not a design.
 The input schema (years, ground.layers, ground.initial, climate, pile, operation, probes, domain,
 numerics) is documented in the README; examples/site-demo.json is a complete example.
 
+With --report it prints instead what the dashboard's site study shows after a run, from the same
+functions: the quick estimate (the map's model) beside the simulated value and the calibration band for
+each shared quantity with the reason they differ, the pile count by design pulse, fuel, CO2, COP, the
+operating window and the site notes (the study adds a column of profile probes at the reference radius
+and sizes the map's foundation: the scenario's pile spacing and design life).
+
 Options:
+  --report     the site study's figures and notes (JSON) instead of the raw simulation
+  --scenario <file>  scenario JSON for --report (default: the scenario defaults)
   --compact    one-line JSON
   --progress   report progress on stderr
   --help       this text`,
   async run(argv) {
-    const opts = parseOptions('site', argv, { values: [], flags: ['compact', 'progress'] });
+    const opts = parseOptions('site', argv, {
+      values: ['scenario'],
+      flags: ['compact', 'progress', 'report'],
+    });
     if (opts.positional.length !== 1) {
       throw new InputError('site: expected exactly one input file (or - for stdin)');
     }
@@ -35,20 +48,32 @@ Options:
     const parsed = siteInputSchema.safeParse(raw);
     if (!parsed.success) throw ValidationError.fromZod(file, parsed.error);
     let last = -1;
-    // The input passed its schema: an error the simulator throws now is a bug (exit 1), not bad input.
-    const result = simulateSite(parsed.data, {
-      onProgress: opts.flags.has('progress')
-        ? (f) => {
-            const pct = Math.floor(f * 10) * 10;
-            if (pct !== last) {
-              last = pct;
-              process.stderr.write(`site: ${pct} %\n`);
-            }
+    const onProgress = opts.flags.has('progress')
+      ? (f: number) => {
+          const pct = Math.floor(f * 10) * 10;
+          if (pct !== last) {
+            last = pct;
+            process.stderr.write(`site: ${pct} %\n`);
           }
-        : undefined,
-    });
+        }
+      : undefined;
+    const indent = opts.flags.has('compact') ? undefined : 2;
+    if (opts.flags.has('report')) {
+      const scenarioFile = opts.values.scenario ?? '(defaults)';
+      const scenarioJson =
+        opts.values.scenario !== undefined ? await readJsonInput(opts.values.scenario) : {};
+      const scenario = scenarioSchema.safeParse(scenarioJson ?? {});
+      if (!scenario.success) throw ValidationError.fromZod(scenarioFile, scenario.error);
+      const { report, result } = runSiteStudy(parsed.data, scenario.data, onProgress);
+      for (const w of result.warnings) process.stderr.write(`site: warning: ${w}\n`);
+      process.stdout.write(JSON.stringify(report, null, indent) + '\n');
+      return 0;
+    }
+    if (opts.values.scenario !== undefined) throw new InputError('site: --scenario needs --report');
+    // The input passed its schema: an error the simulator throws now is a bug (exit 1), not bad input.
+    const result = simulateSite(parsed.data, { onProgress });
     for (const w of result.warnings) process.stderr.write(`site: warning: ${w}\n`);
-    process.stdout.write(JSON.stringify(result, null, opts.flags.has('compact') ? undefined : 2) + '\n');
+    process.stdout.write(JSON.stringify(result, null, indent) + '\n');
     return 0;
   },
 };

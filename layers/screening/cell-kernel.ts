@@ -52,6 +52,7 @@
  *     the warmed climate), and the structural layers of foundation-checks.ts;
  *  9. hard foundation checks, soft scores and class: cell-class.ts, a pure function of these outputs.
  */
+import { designHeatingLoad_W } from '../site/site-load-line';
 import {
   degreeDays,
   SECONDS_PER_YEAR,
@@ -310,8 +311,13 @@ export function evaluateCellMetrics(
   }).freezingIndex_Cd;
   const demand_kWh = (ua * hdd * 24) / 1000;
   m[M.heatingDemand] = demand_kWh;
-  const coldMonth = cell.meanAirTemp_C - cell.airAmplitude_C;
-  const peak_W = ua * Math.max(1, bld.balanceTemp_C - (coldMonth - bld.designMargin_K));
+  const peak_W = designHeatingLoad_W({
+    heatLossCoefficient_W_K: ua,
+    balanceTemp_C: bld.balanceTemp_C,
+    designMargin_K: bld.designMargin_K,
+    meanAirTemp_C: cell.meanAirTemp_C,
+    amplitude_C: cell.airAmplitude_C,
+  });
   const avg_W = (demand_kWh * 1000) / HOURS_PER_YEAR;
   const hp = s.heatPump;
   // Ground loads as pile-sizing.ts: the peak at the COP of the lowest EFT, the annual and monthly loads

@@ -17,6 +17,7 @@
  *   the step (limiting modes of the loop's heat-pump command, pile-loop.ts); what it does not deliver is
  *   left to a backup heater and reported as unmet.
  */
+import { loadLineFraction } from './site-load-line';
 import { fluidProperties, freezingPoint_C } from '../physics/fluids';
 import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
 import { pileResistance } from '../physics/pile-resistance';
@@ -165,10 +166,9 @@ export function createSiteLoop(
       // New step: the load from the air temperature, COP at the last step's entering fluid temperature
       // (held for the step, so the step's heat-pump command is a fixed function of the ground).
       stepTime = time_s;
-      const coldest = input.climate.meanAirTemp_C - input.climate.amplitude_C;
-      const span = Math.max(1, op.balancePoint_C - coldest);
       const load =
-        (op.designLoad_W / op.pileCount) * Math.max(0, (op.balancePoint_C - airTemperature_C(time_s)) / span);
+        (op.designLoad_W / op.pileCount) *
+        loadLineFraction(input.climate, op.balancePoint_C, airTemperature_C(time_s));
       const eft = Number.isFinite(lastOutlet) ? lastOutlet : outlet_C;
       cop = heatPumpAt({ enteringFluid_C: Math.max(-60, Math.min(60, eft)), curve }).cop;
       demand = load;

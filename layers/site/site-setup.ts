@@ -71,46 +71,84 @@ export interface SiteGround {
   table: MaterialTable;
 }
 
-/** Resolves each layer to frozen/thawed properties (explicit values or the soil catalogue). */
-export function resolveGround(input: SiteInput): SiteGround {
-  const layers = input.ground.layers.map((layer, i): GroundMaterial => {
-    const w = layer.freezingInterval_K ?? SITE_DEFAULTS.freezingInterval_K.value;
-    if (layer.soil) {
-      let p;
-      try {
-        p = soilThermalProperties({
-          texture: layer.soil.texture,
-          waterContent_m3m3: layer.soil.waterContent_m3m3,
-          dryDensity_kg_m3: layer.soil.dryDensity_kg_m3,
-          quartzFraction: layer.soil.quartzFraction,
-          specificSurface_m2_g: layer.soil.specificSurface_m2_g,
-        });
-      } catch (e) {
-        throw new RangeError(`ground.layers.${i}.soil: ${(e as Error).message}`);
-      }
-      return {
-        kFrozen_W_mK: p.kFrozen_W_mK,
-        kThawed_W_mK: p.kThawed_W_mK,
-        cFrozen_J_m3K: p.cFrozen_J_m3K,
-        cThawed_J_m3K: p.cThawed_J_m3K,
-        latent_J_m3: p.latent_J_m3,
-        freezingPoint_C: p.freezingPoint_C,
-        freezingInterval_K: w,
-      };
+type SiteLayer = SiteInput['ground']['layers'][number];
+
+/**
+ * The one soil resolver of the site study: a ground layer's frozen/thawed properties, from its explicit
+ * values or from the soil catalogue (Johansen conductivity, de Vries heat capacity, soil-catalogue.ts).
+ * Throws a RangeError naming `ground.layers.<index>.soil` when the catalogue rejects the soil.
+ */
+export function resolveLayer(layer: SiteLayer, index: number): GroundMaterial {
+  const w = layer.freezingInterval_K ?? SITE_DEFAULTS.freezingInterval_K.value;
+  if (layer.soil) {
+    let p;
+    try {
+      p = soilThermalProperties({
+        texture: layer.soil.texture,
+        waterContent_m3m3: layer.soil.waterContent_m3m3,
+        dryDensity_kg_m3: layer.soil.dryDensity_kg_m3,
+        quartzFraction: layer.soil.quartzFraction,
+        specificSurface_m2_g: layer.soil.specificSurface_m2_g,
+      });
+    } catch (e) {
+      throw new RangeError(`ground.layers.${index}.soil: ${(e as Error).message}`);
     }
     return {
-      kFrozen_W_mK: layer.kFrozen_W_mK!,
-      kThawed_W_mK: layer.kThawed_W_mK!,
-      cFrozen_J_m3K: layer.cFrozen_J_m3K!,
-      cThawed_J_m3K: layer.cThawed_J_m3K!,
-      latent_J_m3: layer.latent_J_m3!,
-      freezingPoint_C: layer.freezingPoint_C!,
+      kFrozen_W_mK: p.kFrozen_W_mK,
+      kThawed_W_mK: p.kThawed_W_mK,
+      cFrozen_J_m3K: p.cFrozen_J_m3K,
+      cThawed_J_m3K: p.cThawed_J_m3K,
+      latent_J_m3: p.latent_J_m3,
+      freezingPoint_C: p.freezingPoint_C,
       freezingInterval_K: w,
     };
-  });
+  }
+  return {
+    kFrozen_W_mK: layer.kFrozen_W_mK!,
+    kThawed_W_mK: layer.kThawed_W_mK!,
+    cFrozen_J_m3K: layer.cFrozen_J_m3K!,
+    cThawed_J_m3K: layer.cThawed_J_m3K!,
+    latent_J_m3: layer.latent_J_m3!,
+    freezingPoint_C: layer.freezingPoint_C!,
+    freezingInterval_K: w,
+  };
+}
+
+/** Resolves each layer to frozen/thawed properties (resolveLayer). */
+export function resolveGround(input: SiteInput): SiteGround {
+  const layers = input.ground.layers.map(resolveLayer);
   const bottoms = input.ground.layers.map((l) => l.bottom_m);
   bottoms[bottoms.length - 1] = Math.max(bottoms[bottoms.length - 1], input.domain.depth_m);
   return { layers, bottoms_m: bottoms, table: materialTable(layers) };
+}
+
+/**
+ * Conductivity, heat capacity and freezing point of the layer holding depth `z_m` (the last layer below
+ * the deepest bottom), frozen or thawed, by resolveLayer; null when the layer cannot be resolved.
+ */
+export function groundPropertiesAt(
+  input: SiteInput,
+  z_m: number,
+  frozen: boolean,
+): { conductivity_W_mK: number; heatCapacity_J_m3K: number; freezingPoint_C: number } | null {
+  const layers = input.ground.layers;
+  let i = layers.findIndex((l) => l.top_m <= z_m && z_m < l.bottom_m);
+  if (i < 0) i = layers.length - 1;
+  let m: GroundMaterial;
+  try {
+    m = resolveLayer(layers[i], i);
+  } catch {
+    return null;
+  }
+  const k = frozen ? m.kFrozen_W_mK : m.kThawed_W_mK;
+  const c = frozen ? m.cFrozen_J_m3K : m.cThawed_J_m3K;
+  return Number.isFinite(k) && Number.isFinite(c)
+    ? {
+        conductivity_W_mK: k,
+        heatCapacity_J_m3K: c,
+        freezingPoint_C: Number.isFinite(m.freezingPoint_C) ? m.freezingPoint_C : 0,
+      }
+    : null;
 }
 
 /** Material index of each mesh row (by its centre depth). */

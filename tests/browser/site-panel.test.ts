@@ -51,15 +51,22 @@ describe('site panel', () => {
     const maat = Number(await s.page.inputValue('#site-climate-meanAirTemp_C'));
     expect(maat).toBeGreaterThan(-40);
     expect(maat).toBeLessThan(10);
-    // A 12-year run keeps the test short; the panel's default is the design life.
-    await setField(s.page, 'site-years', '12');
+    // The default run length comes from the map's thaw years (or the climate horizon) and its cost is
+    // stated before the run; the run below uses that default.
+    const years = Number(await s.page.inputValue('#site-years'));
+    expect(years).toBeGreaterThanOrEqual(s.manifest.scenario ? 30 : 1);
+    const cost = await s.page.locator('[data-testid=run-cost]').textContent();
+    expect(cost).toMatch(
+      new RegExp(`This run: ${years} simulated years, \\d+ cells × \\d+ steps, about \\d+ s\\.`),
+    );
+    expect(cost).toMatch(/years: the map has|to the climate horizon/);
     await s.page.click('[data-testid=run-site]');
     await s.page.waitForSelector('[data-testid=site-progress]', { timeout: 10_000 });
     // The page stays responsive while the worker runs: the form still takes input.
     const t0 = Date.now();
     await s.page.evaluate(() => new Promise((r) => requestAnimationFrame(() => r(null))));
     expect(Date.now() - t0).toBeLessThan(1000);
-    await s.page.waitForSelector('[data-testid=site-outcome]', { timeout: 180_000 });
+    await s.page.waitForSelector('[data-testid=site-outcome]', { timeout: 420_000 });
     for (const id of [
       'chart-probe',
       'chart-window',
@@ -79,10 +86,35 @@ describe('site panel', () => {
     const summary = await s.page.locator('[data-testid=site-summary]').textContent();
     expect(summary).toContain('Quick estimate');
     expect(summary).toContain('Simulated');
-    expect(await s.page.locator('[data-testid=summary-piles] td').nth(1).textContent()).toMatch(/\d/);
+    expect(summary).toContain('Calibration band');
+    // Columns: map, map one pile's share, simulated, band, agreement and why.
+    expect(await s.page.locator('[data-testid=summary-pileCount] td').nth(2).textContent()).toMatch(/^\d+$/);
+    expect(await s.page.locator('[data-testid=summary-groundTemp] td').nth(3).textContent()).toMatch(
+      /± 0\.12 °C/,
+    );
+    expect(await s.page.locator('[data-testid=summary-heatPerPile] td').nth(4).textContent()).toMatch(
+      /one pile|neighbours/,
+    );
+    // The window chart's marker sits in the zone the window note names.
+    const zone = await s.page.locator('[data-testid=chart-window]').getAttribute('data-marker-zone');
+    const notes = (await s.page.locator('[data-testid=site-notes]').textContent()) ?? '';
+    const named = {
+      'too little': "below the map's lower bound",
+      window: "inside the map's window",
+      'too much': "above the map's upper bound",
+    };
+    expect(notes).toContain(named[zone as keyof typeof named]);
+    // No internal field names or validator wording in the results.
+    const outcome = (await s.page.locator('[data-testid=site-outcome]').textContent()) ?? '';
+    expect(outcome).not.toMatch(/\b[a-z][A-Za-z0-9]*_[A-Za-z0-9]+\b|must be in \[/);
     expect(await s.page.locator('[data-testid=site-cautions]').textContent()).toContain('not a design');
     expect(await s.page.locator('[data-testid=run-status]').textContent()).toMatch(/Done in/);
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-run.png') });
+    // The study after a run, tall enough for the comparison table and the notes (docs/site-study-after-run.png).
+    await s.page.setViewportSize({ width: 1400, height: 1800 });
+    await s.page.waitForTimeout(300);
+    await s.page.screenshot({ path: join(s.artifactsDir, 'site-study-after-run.png') });
+    await s.page.setViewportSize({ width: 1280, height: 720 });
     await s.page.locator('.site-output').evaluate((el) => el.scrollTo(0, 520));
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-panel-charts.png') });
     expect(s.pageErrors).toEqual([]);

@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BAND } from '../../layers/screening/band-ids';
-import { PREFILL_BANDS, sitePrefill } from '../../web/src/site/site-prefill';
+import { PREFILL_BANDS, sitePrefill } from '../../layers/screening/site-prefill';
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { buildSmallDemo, type DemoBuild } from './demo-build-fixture';
 import { removeTempDirs } from './pipeline-fixtures';

@@ -12,7 +12,7 @@ import {
   setAt,
   unwrapSchema,
 } from '../../web/src/site/schema-form-model';
-import { sitePrefill } from '../../web/src/site/site-prefill';
+import { sitePrefill } from '../../layers/screening/site-prefill';
 
 const base = () =>
   sitePrefill({ meanAirTemp_C: -5, textureClass: 3, waterContent_m3m3: 0.35, bedrockDepth_m: 30 }).draft;

@@ -1,6 +1,6 @@
 /**
  * Site panel prefill: the mapping from a clicked cell's tile bands to the site input (documented in
- * web/src/site/site-prefill.ts), and back to the quick estimate's cell inputs.
+ * layers/screening/site-prefill.ts), and back to the quick estimate's cell inputs.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -13,7 +13,7 @@ import {
   MAX_SITE_WATER_CONTENT_M3M3,
   sitePrefill,
   standardDesignLoad_W,
-} from '../../web/src/site/site-prefill';
+} from '../../layers/screening/site-prefill';
 
 const cell = { meanAirTemp_C: -6.2, textureClass: 3, waterContent_m3m3: 0.38, bedrockDepth: 22.4 };
 
@@ -64,16 +64,19 @@ describe('sitePrefill', () => {
     }
   });
 
-  it('sizes the standard building load as UA·(balance − (MAAT − amplitude − margin))', () => {
+  it('gives the study the load at the coldest air, UA·(balance − (MAAT − amplitude)), and the map’s design-day load with the margin', () => {
     // Scenario defaults (layers/screening/scenario.ts): UA 150 W/K, balance 18 °C, margin 8 K (recalled from memory).
+    // The site input's designLoad_W is the load line's top (site-input-schema.ts: "at the coldest air");
+    // the design-day margin belongs to the peak pulse only (site-load-line.ts), as in the map's kernel.
     expect(standardDesignLoad_W(DEFAULT_SCENARIO, -6.2, 18)).toBeCloseTo(150 * (18 - (-6.2 - 18 - 8)), 9);
     const { draft } = sitePrefill(cell);
     expect(draft.operation).toMatchObject({
       mode: 'building',
-      designLoad_W: 7500,
+      designLoad_W: Math.round((150 * (18 - (-6.2 - 18))) / 100) * 100,
       pileCount: 16,
       balancePoint_C: 18,
     });
+    expect(draft.operation.mode === 'building' && draft.operation.designLoad_W).toBe(6300);
   });
 
   it('puts the scenario reference point first among the probes (same point as the map thaw delay)', () => {

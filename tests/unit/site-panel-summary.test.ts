@@ -1,5 +1,6 @@
 /**
- * Site panel summary (web/src/site/site-summary.ts, site-profile.ts, site-notes.ts, charts/chart-scale.ts):
+ * Site study summary (layers/site/site-energy.ts, site-load-line.ts, site-profile.ts, site-notes.ts,
+ * layers/screening/site-study-report.ts, web/src/site/charts/chart-scale.ts):
  * degree-day heating energy, seasonal COP from the heat-pump energy balance, diesel-grid savings at the
  * break-even COP, profile extraction and the site cautions, on small synthetic results.
  */
@@ -7,14 +8,16 @@ import { describe, expect, it } from 'vitest';
 import { siteInputSchema, type SiteResult } from '../../layers/site/site-input-schema';
 import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { breakEvenCops } from '../../layers/screening/economics';
-import { annualHeating, energyByYear, siteSavings } from '../../web/src/site/site-summary';
-import { MAX_PROBES, profileAtYear, withProfileProbes } from '../../web/src/site/site-profile';
-import { siteNotes } from '../../web/src/site/site-notes';
+import { energyByYear } from '../../layers/site/site-energy';
+import { annualHeating } from '../../layers/site/site-load-line';
+import { siteSavings } from '../../layers/screening/site-study-report';
+import { MAX_PROBES, profileAtYear, withProfileProbes } from '../../layers/site/site-profile';
+import { siteNotes } from '../../layers/site/site-notes';
 import { linePath, linearScale, niceTicks } from '../../web/src/site/charts/chart-scale';
-import { sitePrefill } from '../../web/src/site/site-prefill';
+import { sitePrefill } from '../../layers/screening/site-prefill';
 
 const input = siteInputSchema.parse({
-  ...sitePrefill({ meanAirTemp_C: -5, textureClass: 3, waterContent_m3m3: 0.35, bedrockDepth_m: 30 }).draft,
+  ...sitePrefill({ meanAirTemp_C: -5, textureClass: 3, waterContent_m3m3: 0.35, bedrockDepth: 30 }).draft,
   years: 2,
 });
 
@@ -195,15 +198,15 @@ describe('chart scales', () => {
 describe('pile sizing by design pulse after a run', () => {
   it('sizes the annual load alone below the full three-pulse design, which matches the sizing result', async () => {
     const { simulateSite } = await import('../../layers/site/simulate-site');
-    const { sizeSiteByPulse } = await import('../../web/src/site/site-sizing');
+    const { sizeSiteByPulse } = await import('../../layers/site/site-sizing');
     const draft = {
-      ...sitePrefill({ meanAirTemp_C: -5, textureClass: 2, waterContent_m3m3: 0.3, bedrockDepth_m: 30 })
-        .draft,
+      ...sitePrefill({ meanAirTemp_C: -5, textureClass: 2, waterContent_m3m3: 0.3, bedrockDepth: 30 }).draft,
       years: 3,
     };
     const { input: withProfile, column } = withProfileProbes(siteInputSchema.parse(draft), 1.5);
     const parsed = siteInputSchema.parse(withProfile);
-    const sized = sizeSiteByPulse(parsed, simulateSite(parsed), column, DEFAULT_SCENARIO);
+    const { studyFoundation } = await import('../../layers/screening/run-site-study');
+    const sized = sizeSiteByPulse(parsed, simulateSite(parsed), column, studyFoundation(DEFAULT_SCENARIO));
     if (!sized || !sized.ok)
       throw new Error(`sizing failed: ${sized && !sized.ok ? sized.reason : 'no sizing'}`);
     expect(sized.byPulse.peak).toBe(sized.sizing.pileCount);

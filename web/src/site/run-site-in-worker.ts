@@ -4,8 +4,8 @@
  */
 import type { SiteInputDraft, SiteResult } from '../../../layers/site/site-input-schema';
 import type { Scenario } from '../../../layers/screening/scenario';
-import type { ProfileColumn } from './site-profile';
-import type { SiteSizing } from './site-sizing';
+import type { ProfileColumn } from '../../../layers/site/site-profile';
+import type { SiteSizing } from '../../../layers/site/site-sizing';
 import type { SiteRunRequest, SiteWorkerMessage } from './site-worker-protocol';
 
 export class SiteRunCancelled extends Error {

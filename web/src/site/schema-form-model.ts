@@ -239,3 +239,25 @@ export function flattenInputs(schema: z.ZodType, value: unknown, trail: string[]
   const text = typeof value === 'number' ? String(Number(value.toPrecision(6))) : String(value);
   return [{ label: trail.join(' › ') || (title ?? ''), value: text, unit: u.meta.unit ?? '' }];
 }
+
+/**
+ * A field path in the trade's words for messages on screen and paper: the field's title from the site
+ * schema, with the item number of each list it sits in ("Ground layers 2 · Texture"); never the path.
+ */
+export function fieldLabel(path: string, meta: Record<string, { title?: string }>): string {
+  if (!path) return 'The input';
+  const parts = path.split('.');
+  const words: string[] = [];
+  let key = '';
+  for (const part of parts) {
+    if (/^\d+$/.test(part)) {
+      key = `${key}[]`;
+      if (words.length) words[words.length - 1] += ` ${Number(part) + 1}`;
+      continue;
+    }
+    key = key ? `${key}.${part}` : part;
+    const title = meta[key]?.title;
+    if (title) words.push(title);
+  }
+  return words.length ? words.join(' · ') : 'An input';
+}

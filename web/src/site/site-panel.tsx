@@ -1,6 +1,6 @@
 /**
  * The site panel: opened by a click on a cell or a settlement, prefilled from the cell's tile values
- * (site-prefill.ts). The small card in the side bar shows what was taken from the map; "Open site
+ * (layers/screening/site-prefill.ts). The small card in the side bar shows what was taken from the map; "Open site
  * study" opens the full study (site-study.tsx) with the form, the run and the results.
  */
 import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
@@ -10,7 +10,7 @@ import type { CellTable } from '../data/cell-table';
 import { greatCircle_m } from '../data/cell-table';
 import { cellValues, type CellSelection } from '../panels/cell-panel';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
-import { sitePrefill } from './site-prefill';
+import { sitePrefill } from '../../../layers/screening/site-prefill';
 import './site-panel.css';
 
 // The study (form, charts, simulator worker) loads on first use, not with the map.

@@ -7,15 +7,22 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { createPortal } from 'react-dom';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { siteInputSchema, type SiteInputDraft } from '../../../layers/site/site-input-schema';
-import { screenCell, type CellScreening } from '../../../layers/screening/cell-screening-model';
+import type { CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { formatLonLat, type UnitSystem } from '../units/display-units';
 import { SchemaField } from './site-form';
 import { fieldId, type FormContext } from './form-inputs';
-import { flattenInputs, issuesByPath } from './schema-form-model';
-import { cellInputsFromSite, scenarioFromManifest, type SitePrefill } from './site-prefill';
-import { withProfileProbes } from './site-profile';
+import { fieldLabel, flattenInputs, issuesByPath } from './schema-form-model';
+import { siteFieldMeta } from '../../../layers/site/site-input-schema';
+import { siteRunCost } from '../../../layers/site/site-run-cost';
+import {
+  cellInputsFromSite,
+  scenarioFromManifest,
+  type SitePrefill,
+} from '../../../layers/screening/site-prefill';
+import { screenCell } from '../../../layers/screening/cell-screening-model';
+import { studyRunInput } from '../../../layers/screening/run-site-study';
 import { runSiteInWorker, SiteRunCancelled, type SiteRunHandle } from './run-site-in-worker';
 import { SiteCharts, SiteSummaryTable, useSiteDerived, type SiteRunOutcome } from './site-results';
 import type { SitePlace } from './site-panel';
@@ -42,6 +49,17 @@ export function SiteStudy(props: {
   const [draft, setDraft] = useState<unknown>(prefill.draft);
   const [formKey, setFormKey] = useState(0);
   const issues = useMemo(() => issuesByPath(siteInputSchema, draft), [draft]);
+  const fieldMeta = useMemo(() => siteFieldMeta(), []);
+  // The cost of the run as the form stands, stated before it starts.
+  const cost = useMemo(() => {
+    const parsed = siteInputSchema.safeParse(draft);
+    if (!parsed.success) return null;
+    try {
+      return { years: parsed.data.years, ...siteRunCost(parsed.data) };
+    } catch {
+      return null;
+    }
+  }, [draft]);
   const [run, setRun] = useState<RunState>({ kind: 'idle' });
   const [blocked, setBlocked] = useState(false);
   const [added, setAdded] = useState<string | null>(null);
@@ -90,10 +108,7 @@ export function SiteStudy(props: {
       return;
     }
     setBlocked(false);
-    const inputParsed = parsed.data;
-    const pileR = inputParsed.pile ? inputParsed.pile.outerDiameter_m / 2 : 0;
-    const r = Math.min(Math.max(scenario.referenceRadius_m, pileR + 0.05), inputParsed.domain.radius_m);
-    const { input, column } = withProfileProbes(inputParsed, r);
+    const { input, column } = studyRunInput(parsed.data, scenario);
     setRun({ kind: 'running', progress: 0, phase: 'simulating' });
     let last = 0;
     const h = runSiteInWorker(input, { scenario, column }, (f, phase) => {
@@ -108,7 +123,7 @@ export function SiteStudy(props: {
         handle.current = null;
         setRun({
           kind: 'done',
-          outcome: { input: siteInputSchema.parse(input), result, column, sizing, elapsed_ms },
+          outcome: { input, result, column, sizing, elapsed_ms },
         });
       },
       (e: unknown) => {
@@ -224,6 +239,13 @@ export function SiteStudy(props: {
                       ? 'Run cancelled.'
                       : 'Edit the inputs, then run.'}
           </span>
+          {!running && cost ? (
+            <span className="small muted" data-testid="run-cost">
+              This run: {cost.years} simulated years, {cost.cells} cells × {cost.timeSteps} steps, about{' '}
+              {cost.estimate_s < 10 ? cost.estimate_s.toFixed(0) : Math.round(cost.estimate_s / 5) * 5} s.{' '}
+              {prefill.runLength.years === cost.years ? prefill.runLength.reason : ''}
+            </span>
+          ) : null}
         </div>
         <div className="site-body">
           <form
@@ -242,7 +264,7 @@ export function SiteStudy(props: {
                   {[...issues.entries()].flatMap(([path, ms]) =>
                     ms.map((msg) => (
                       <li key={`${path}:${msg}`}>
-                        <code>{path || 'input'}</code>: {msg}
+                        {fieldLabel(path, fieldMeta)}: {msg}
                       </li>
                     )),
                   )}
@@ -370,13 +392,7 @@ function SiteOutcome(props: {
   const derived = useSiteDerived(props.outcome, props.scenario);
   return (
     <div className="site-outcome" data-testid="site-outcome">
-      <SiteSummaryTable
-        run={props.outcome}
-        derived={derived}
-        quick={props.quick}
-        scenario={props.scenario}
-        units={props.units}
-      />
+      <SiteSummaryTable derived={derived} units={props.units} />
       <button type="button" onClick={() => props.onAdd(derived)} data-testid="site-add-shortlist">
         Add to shortlist
       </button>
@@ -394,7 +410,7 @@ function SiteOutcome(props: {
           ))}
         </ul>
       ) : null}
-      <SiteCharts run={props.outcome} derived={derived} quick={props.quick} units={props.units} />
+      <SiteCharts run={props.outcome} derived={derived} units={props.units} />
     </div>
   );
 }

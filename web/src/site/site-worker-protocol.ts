@@ -1,8 +1,8 @@
 /** Messages between the site panel and its Web Worker (site-worker.ts). Plain JSON-cloneable data. */
 import type { SiteInputDraft, SiteResult } from '../../../layers/site/site-input-schema';
 import type { Scenario } from '../../../layers/screening/scenario';
-import type { ProfileColumn } from './site-profile';
-import type { SiteSizing } from './site-sizing';
+import type { ProfileColumn } from '../../../layers/site/site-profile';
+import type { SiteSizing } from '../../../layers/site/site-sizing';
 
 export interface SiteRunRequest {
   type: 'run';

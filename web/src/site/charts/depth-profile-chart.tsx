@@ -3,7 +3,7 @@
  * with and without the pile, the freezing point marked (site-profile.ts).
  */
 import { displayConversion, type UnitSystem } from '../../units/display-units';
-import type { ProfilePoint } from '../site-profile';
+import type { ProfilePoint } from '../../../../layers/site/site-profile';
 import { ChartFrame, type LegendEntry } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { niceDomain } from './chart-scale';

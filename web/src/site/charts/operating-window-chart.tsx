@@ -5,67 +5,67 @@
  * layers/screening/operating-window.ts). The simulated run's mean extraction is marked on it.
  */
 import { displayConversion, type UnitSystem } from '../../units/display-units';
+import type { StudyWindow, WindowZone } from '../../../../layers/screening/study-window';
 import { CHART_COLOURS as C } from './chart-colours';
 import { linearScale, niceTicks } from './chart-scale';
 
-export interface WindowBounds {
-  lower_W_m: number;
-  upperFluid_W_m: number;
-  upperOvercool_W_m: number;
+const FILL: Record<WindowZone, string> = {
+  'too little': C.windowTooLittle,
+  window: C.windowOk,
+  'too much': C.windowTooMuch,
+};
+
+/**
+ * The chart's zones and marker, in W/m, straight from the study's window (study-window.ts): the zone the
+ * marker is drawn in is `window.zone`, the same one the window note names.
+ */
+export function windowChartData(w: StudyWindow) {
+  const hi = w.zones[w.zones.length - 1].to_W_m;
+  const v = w.simulated_W_m;
+  // The drawn bands as half-open intervals: [0, lower), [lower, upper], (upper, ∞).
+  const inZone = (z: StudyWindow['zones'][number], x: number) =>
+    z.zone === 'too little'
+      ? x < z.to_W_m
+      : z.zone === 'window'
+        ? x >= z.from_W_m && x <= z.to_W_m
+        : x > z.from_W_m;
+  const markerZone = v === null ? null : (w.zones.find((z) => inZone(z, v))?.zone ?? null);
+  return { zones: w.zones, hi, marker: w.simulated_W_m, markerZone, full: w.full_W_m };
 }
 
-export function OperatingWindowChart(props: {
-  window: WindowBounds;
-  simulated_W_m: number | null;
-  full_W_m?: number | null;
-  units: UnitSystem;
-}) {
+export function OperatingWindowChart(props: { window: StudyWindow; units: UnitSystem }) {
   const conv = displayConversion('W/m', props.units);
   const V = (v: number) => v * conv.factor;
   const w = props.window;
-  const upper = Math.max(0, Math.min(w.upperFluid_W_m, w.upperOvercool_W_m));
-  const lower = Math.max(0, w.lower_W_m);
-  const sim = props.simulated_W_m;
-  const hi = Math.max(upper, lower, sim ?? 0, props.full_W_m ?? 0) * 1.35 || 10;
+  const data = windowChartData(w);
+  const upper = w.upper_W_m;
+  const lower = w.lower_W_m;
+  const sim = data.marker;
+  const hi = data.hi;
   const width = 520;
   const height = 150;
   const x = linearScale([0, V(hi)], [20, width - 20]);
   const ticks = niceTicks(0, V(hi), 6);
-  const fluidBinds = w.upperFluid_W_m <= w.upperOvercool_W_m;
   const bandY = 38;
   const bandH = 34;
   return (
-    <figure className="site-chart" data-testid="chart-window">
+    <figure className="site-chart" data-testid="chart-window" data-marker-zone={data.markerZone ?? ''}>
       <figcaption id="window-title">Operating window: heat taken per metre of pile (annual mean)</figcaption>
       <svg viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="window-title">
         <desc>
           Too little below {V(lower).toFixed(1)} {conv.unit} (the ground at the foundation thaws within the
-          design life); too much above {V(upper).toFixed(1)} {conv.unit} (
-          {fluidBinds ? 'fluid limit' : 'over-cooling of the soil'}).
+          design life); too much above {V(upper).toFixed(1)} {conv.unit} ({w.upperLimit}).
         </desc>
-        <rect
-          x={x(0)}
-          y={bandY}
-          width={Math.max(0, x(V(lower)) - x(0))}
-          height={bandH}
-          fill={C.windowTooLittle}
-        />
-        {upper > lower ? (
+        {data.zones.map((z) => (
           <rect
-            x={x(V(lower))}
+            key={z.zone}
+            x={x(V(z.from_W_m))}
             y={bandY}
-            width={x(V(upper)) - x(V(lower))}
+            width={Math.max(0, x(V(z.to_W_m)) - x(V(z.from_W_m)))}
             height={bandH}
-            fill={C.windowOk}
+            fill={FILL[z.zone]}
           />
-        ) : null}
-        <rect
-          x={x(V(Math.max(upper, lower)))}
-          y={bandY}
-          width={Math.max(0, x(V(hi)) - x(V(Math.max(upper, lower))))}
-          height={bandH}
-          fill={C.windowTooMuch}
-        />
+        ))}
         <text x={x(V(lower / 2))} y={bandY - 6} textAnchor="middle" className="band-label">
           {lower > 0 ? 'too little: ground thaws' : ''}
         </text>
@@ -89,7 +89,7 @@ export function OperatingWindowChart(props: {
           textAnchor="middle"
           className="band-label"
         >
-          too much: {fluidBinds ? 'fluid limit' : 'soil over-cooled'}
+          too much: {w.upperLimit}
         </text>
         {sim !== null && Number.isFinite(sim) ? (
           <g data-testid="window-simulated">
@@ -106,24 +106,19 @@ export function OperatingWindowChart(props: {
             </text>
           </g>
         ) : null}
-        {props.full_W_m ? (
+        {data.full ? (
           <g>
             <line
-              x1={x(V(props.full_W_m))}
-              x2={x(V(props.full_W_m))}
+              x1={x(V(data.full))}
+              x2={x(V(data.full))}
               y1={bandY - 2}
               y2={bandY + bandH + 2}
               stroke={C.quick}
               strokeWidth="1.5"
               strokeDasharray="3 2"
             />
-            <text
-              x={x(V(props.full_W_m))}
-              y={bandY + bandH + 30}
-              textAnchor="middle"
-              className="marker-label"
-            >
-              full load {V(props.full_W_m).toFixed(1)}
+            <text x={x(V(data.full))} y={bandY + bandH + 30} textAnchor="middle" className="marker-label">
+              full load {V(data.full).toFixed(1)}
             </text>
           </g>
         ) : null}

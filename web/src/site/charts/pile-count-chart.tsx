@@ -5,7 +5,7 @@
  * step can also remove piles when its pulse is weaker than the previous one.
  */
 import type { PileFieldSizingResult } from '../../../../layers/site/pile-sizing';
-import type { PulseCounts } from '../site-sizing';
+import type { PulseCounts } from '../../../../layers/site/site-sizing';
 import { ChartFrame } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { niceDomain } from './chart-scale';

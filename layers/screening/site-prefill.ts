@@ -1,5 +1,5 @@
 /**
- * Prefill of the site form from a clicked map cell, and the reverse step that turns the form back into
+ * Prefill of the site study from a clicked map cell, and the reverse step that turns the form back into
  * the per-cell inputs of the quick estimate.
  *
  * Mapping from tile bands (manifest band ids, SI) to the site input (layers/site/site-input-schema.ts):
@@ -15,14 +15,16 @@
  *                              a cell of bedrock texture, or bedrock within 0.2 m, is bedrock throughout
  * From the scenario (manifest.scenario, defaults of layers/screening/scenario.ts): the standard pile
  * (length, top depth, diameter), the building (design load UA·(balance − (MAAT − amplitude − margin)),
- * foundation piles, balance point), the design life as the simulated years, and the reference probe
+ * foundation piles, balance point), the run length from the map's thaw years (studyRunYears), and the reference probe
  * (referenceRadius_m, referenceDepth_m) as probe 0 so the simulated thaw delay matches the map's.
  * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
  */
-import type { SiteInputDraft } from '../../../layers/site/site-input-schema';
-import { BAND, type BandId } from '../../../layers/screening/band-ids';
-import { TEXTURE_CODES, type CellInputs, type TextureName } from '../../../layers/screening/screening-model';
-import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../../layers/screening/scenario';
+import type { SiteInputDraft } from '../site/site-input-schema';
+import { designHeatingLoad_W } from '../site/site-load-line';
+import { BAND, type BandId } from './band-ids';
+import { TEXTURE_CODES, type CellInputs, type TextureName } from './screening-model';
+import { DEFAULT_SCENARIO, parseScenario, type Scenario } from './scenario';
+import { screenCell, type CellScreening } from './cell-screening-model';
 
 /** The bands the prefill reads (each one a band every build writes: tests/pipeline/site-prefill-demo-build.test.ts). */
 export const PREFILL_BANDS: readonly BandId[] = [
@@ -46,6 +48,41 @@ export interface PrefillNote {
 export interface SitePrefill {
   draft: SiteInputDraft;
   notes: PrefillNote[];
+  /** Why the run is as long as it is (studyRunYears). */
+  runLength: { years: number; reason: string };
+}
+
+/**
+ * Run length of the study for a cell: long enough to see the thaw the map predicts at the reference
+ * point with the piles (its thaw year + 5 years), else to the scenario's climate horizon; never shorter
+ * than the design life, never longer than the site input's 200 years.
+ */
+export function studyRunYears(quick: CellScreening | null, s: Scenario): { years: number; reason: string } {
+  const horizon = s.climateHorizonYear - s.startYear;
+  const life = Math.round(s.designLife_yr);
+  const clamp = (y: number) => Math.min(200, Math.max(life, Math.ceil(y)));
+  const m = quick?.metrics;
+  const piles = m?.thawYearPiles;
+  const noPiles = m?.thawYear;
+  if (piles && piles.value !== null && piles.qualifier === undefined) {
+    const years = clamp(piles.value - s.startYear + 5);
+    return {
+      years,
+      reason: `${years} years: the map has the ground at the reference point thaw with the piles in ${Math.round(piles.value)}${
+        noPiles?.value !== null && noPiles?.value !== undefined
+          ? ` (without piles in ${Math.round(noPiles.value)})`
+          : ''
+      }; the run goes 5 years past it so both thaws can be read.`,
+    };
+  }
+  const years = clamp(horizon);
+  return {
+    years,
+    reason:
+      noPiles && noPiles.value !== null && noPiles.qualifier === undefined
+        ? `${years} years, to the climate horizon ${s.climateHorizonYear}: the map has the ground thaw without piles in ${Math.round(noPiles.value)} and with them after ${s.climateHorizonYear}.`
+        : `${years} years, to the climate horizon ${s.climateHorizonYear}: the map has no thaw at the reference point before then.`,
+  };
 }
 
 /** Regional fallbacks where the tiles carry no band (common practice for the subarctic; editable). */
@@ -83,11 +120,18 @@ const round = (x: number, digits: number): number => Number(x.toFixed(digits));
  */
 export const MAX_SITE_WATER_CONTENT_M3M3 = 0.95;
 
-/** Design heating load of the scenario's standard building at a site's climate, W. */
+/** Design-day heating load of the scenario's standard building at a site's climate, W (site-load-line.ts). */
 export function standardDesignLoad_W(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
-  const b = s.building;
-  const design_C = meanAirTemp_C - amplitude_C - b.designMargin_K;
-  return Math.max(0, b.heatLossCoefficient_W_K * (b.balanceTemp_C - design_C));
+  return designHeatingLoad_W({ ...s.building, meanAirTemp_C, amplitude_C });
+}
+
+/**
+ * Load of the standard building at the coldest air of the annual wave, W: the site input's
+ * designLoad_W (the top of the load line; the design-day margin is added for the peak pulse of the
+ * sizing only, site-load-line.ts).
+ */
+export function standardLoadAtColdestAir_W(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
+  return designHeatingLoad_W({ ...s.building, designMargin_K: 0, meanAirTemp_C, amplitude_C });
 }
 
 /** Build the site form's starting input from a cell (see the module comment for the mapping). */
@@ -178,7 +222,7 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   }
 
   const p = s.pile;
-  const load = Math.round(standardDesignLoad_W(s, maat, amp) / 100) * 100;
+  const load = Math.round(standardLoadAtColdestAir_W(s, maat, amp) / 100) * 100;
   const draft: SiteInputDraft = {
     years: Math.round(s.designLife_yr),
     ground: { layers, geothermalFlux_W_m2: flux, initial: 'equilibrium' },
@@ -220,7 +264,17 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
     domain: { radius_m: 20, depth_m: DOMAIN_DEPTH_M },
     numerics: { fidelity: 'standard' },
   };
-  return { draft, notes };
+  const quick = (() => {
+    try {
+      const ci = cellInputsFromSite(draft, s);
+      return ci ? screenCell(ci, s) : null;
+    } catch {
+      return null;
+    }
+  })();
+  const runLength = studyRunYears(quick, s);
+  draft.years = runLength.years;
+  return { draft, notes, runLength };
 }
 
 /**

@@ -10,8 +10,8 @@
  * - Fluid: the lowest fluid temperature against the heat pump's lowest entering temperature.
  * - Backup heat: building mode with heat left unmet.
  */
-import type { SiteInput, SiteResult } from '../../../layers/site/site-input-schema';
-import type { SiteYearEnergy } from './site-summary';
+import type { SiteInput, SiteResult } from './site-input-schema';
+import type { SiteYearEnergy } from './site-energy';
 
 export interface SiteNote {
   kind: 'frost-heave' | 'adfreeze' | 'fluid' | 'backup' | 'model';

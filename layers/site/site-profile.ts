@@ -7,7 +7,7 @@
  * samples with time in (Y − 1, Y] years: the annual-mean curve and the seasonal envelope ("trumpet
  * curve", the usual way of plotting permafrost temperatures against depth, e.g. Lunardini 1981 ch. 1).
  */
-import type { SiteCaseResult, SiteInputDraft } from '../../../layers/site/site-input-schema';
+import type { SiteCaseResult, SiteInputDraft } from './site-input-schema';
 
 /** Depths of the profile column, m (trimmed to the domain). */
 export const PROFILE_DEPTHS_M = [0.25, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 8, 10, 12, 15, 20, 25, 30] as const;

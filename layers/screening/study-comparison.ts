@@ -1,0 +1,330 @@
+/**
+ * Quick estimate (the map's per-cell model) against the simulation, quantity by quantity, for the site
+ * study and `pile-atlas site --report`: both values, the published calibration band where one exists
+ * (calibration-bands.ts), whether they agree, and why they differ, in words, from the two models'
+ * assumptions. Values in SI (the unit of each row); the screen converts them. A quantity that is also a
+ * map band carries the band's id (BAND).
+ */
+import { WATTS_PER_TON } from '../physics/heat-pump';
+import type { Scenario } from './scenario';
+import { BAND } from './band-ids';
+import { CALIBRATION_BANDS, withinBand, type CalibrationBand } from './calibration-bands';
+import type { SiteStudyReport, SiteStudyRun } from './site-study-report';
+
+export type StudyQuantity =
+  | 'thawDelay'
+  | 'noPileThaw'
+  | 'pileCount'
+  | 'heatPerPile'
+  | 'loadShare'
+  | 'groundTemp'
+  | 'activeLayer'
+  | 'seasonalCop'
+  | 'systemCop'
+  | 'simplePayback'
+  | 'fuelSaved'
+  | 'co2Avoided';
+
+export type Agreement = 'within band' | 'outside band' | 'no published band' | 'not comparable';
+
+export interface StudyComparisonRow {
+  quantity: StudyQuantity;
+  title: string;
+  /** SI unit ('' for counts, shares and COP; '%' is not used: shares are 0–1). */
+  unit: string;
+  /** The map's value (the standard building on its foundation group). */
+  quick: number | null;
+  /**
+   * The map model's one-pile form (one pile's share of the building): what the simulated pile is and
+   * what the calibration compares; equal to `quick` for quantities the group does not change.
+   */
+  quickOnePile: number | null;
+  /** The map's reading where a plain number would mislead ("after 2100", "≥ 45 yr"). */
+  quickText?: string;
+  simulated: number | null;
+  /** The simulation's reading where there is no plain number ("no thaw within 30 yr either way"). */
+  simulatedText?: string;
+  /** quickOnePile − simulated, where both are numbers (the calibrated comparison). */
+  difference: number | null;
+  band: CalibrationBand | null;
+  agreement: Agreement;
+  /** Why the two differ (or agree), in words. */
+  reason: string;
+}
+
+type ReportBase = Omit<SiteStudyReport, 'comparison'>;
+
+const f1 = (v: number) => v.toFixed(1);
+
+function row(
+  r: Omit<StudyComparisonRow, 'difference' | 'agreement' | 'quickOnePile'> & {
+    quickOnePile?: number | null;
+    comparable?: boolean;
+  },
+): StudyComparisonRow {
+  const { comparable = true, ...rest } = r;
+  const one = r.quickOnePile === undefined ? r.quick : r.quickOnePile;
+  const both = one !== null && r.simulated !== null && Number.isFinite(one) && Number.isFinite(r.simulated);
+  const difference = both ? (one as number) - (r.simulated as number) : null;
+  let agreement: Agreement;
+  const shown =
+    r.simulated !== null && Number.isFinite(r.simulated) && r.quick !== null && Number.isFinite(r.quick);
+  if (!r.band) agreement = shown && comparable ? 'no published band' : 'not comparable';
+  else if (!both || !comparable) agreement = 'not comparable';
+  else agreement = withinBand(r.band, one as number, r.simulated as number) ? 'within band' : 'outside band';
+  return { ...rest, quickOnePile: one, difference, agreement };
+}
+
+function thawRows(run: SiteStudyRun, d: ReportBase, s: Scenario): StudyComparisonRow[] {
+  const res = run.result;
+  const p0 = run.input.probes[0];
+  const m = d.quick?.metrics;
+  const m1 = d.quickOnePile?.metrics;
+  const where = p0 ? `${p0.r_m} m from the pile axis, ${p0.z_m} m deep` : 'the reference point';
+  const years = run.input.years;
+  const runEnd = s.startYear + years;
+  const noPileThaw = res.noPile.probes[0]?.thawYear ?? null;
+  // Thaw year without piles: the calibrated thaw figure (no pile on either side).
+  const mapThaw = m?.thawYear.value ?? null;
+  const mapAfter = m?.thawYear.qualifier !== undefined;
+  const simThaw = noPileThaw !== null ? s.startYear + noPileThaw : null;
+  const onset = row({
+    quantity: 'noPileThaw',
+    title: `Thaw without piles at ${where} (calendar year)`,
+    unit: '',
+    quick: mapAfter ? null : mapThaw,
+    quickText: m?.thawYear.qualifier,
+    simulated: simThaw,
+    simulatedText: simThaw === null ? `after ${runEnd} (end of the run)` : undefined,
+    band: CALIBRATION_BANDS.noPileThaw,
+    reason:
+      simThaw === null && mapAfter
+        ? `Neither thaws: the map puts the thaw after its climate horizon ${s.climateHorizonYear}, and the ground is still frozen when the run ends in ${runEnd}.`
+        : simThaw === null && mapThaw !== null
+          ? `The run ends in ${runEnd}, before the map's thaw year; run at least ${Math.ceil(mapThaw - s.startYear) + 5} years to compare.`
+          : 'The map: conduction of the surface warming to the reference depth plus the time to melt its ice (a Stefan delay); the study: the simulated ground column with freezing and thawing.',
+  });
+  const delay = res.thawDelay_yr[0] ?? null;
+  const lower = res.thawDelayIsLowerBound[0] ?? false;
+  const upper = res.thawDelayIsUpperBound[0] ?? false;
+  const models =
+    `The map superposes the whole ${s.building.foundationPiles}-pile foundation (${s.building.pileSpacing_m} m spacing) on the warming; ` +
+    'the study simulates one pile (no neighbours), which cools the ground less, so its delay is closer to the one-pile value. No calibration bound is published for the thaw delay.';
+  const base = {
+    quantity: BAND.thawDelay,
+    title: p0 ? `Thaw delay at ${p0.r_m} m from the pile, ${p0.z_m} m deep` : 'Thaw delay',
+    unit: 'yr',
+    quick: m?.thawDelay.value ?? null,
+    quickOnePile: m1?.thawDelay.value ?? null,
+    quickText: m?.thawDelay.qualifier,
+    band: null,
+  };
+  let delayRow: StudyComparisonRow;
+  if (noPileThaw === 0) {
+    delayRow = row({
+      ...base,
+      simulated: null,
+      simulatedText: 'ground unfrozen at the start: nothing to delay',
+      comparable: false,
+      reason: `The simulated ground at ${where} is unfrozen from the first year, so there is no thaw to delay.`,
+    });
+  } else if (delay === null) {
+    delayRow = row({
+      ...base,
+      simulated: null,
+      simulatedText: res.withPile ? `no thaw within ${years} yr either way` : 'no pile in this run',
+      comparable: false,
+      reason: `The ground at ${where} does not thaw within the run even without the pile, so the run cannot measure a delay. ${onset.reason}`,
+    });
+  } else if (upper) {
+    delayRow = row({
+      ...base,
+      simulated: delay,
+      simulatedText: `none: the pile brings the thaw forward by more than ${f1(-delay)} yr`,
+      comparable: false,
+      reason: `In the run the pile thaws the ground at ${where} earlier than without it. ${models}`,
+    });
+  } else if (lower) {
+    delayRow = row({
+      ...base,
+      simulated: delay,
+      simulatedText: `more than ${f1(delay)} yr (the ground with the pile is still frozen when the run ends)`,
+      comparable: false,
+      reason: `The simulated delay is only a lower bound: the ground with the pile is still frozen in ${runEnd}. ${models}`,
+    });
+  } else {
+    delayRow = row({ ...base, simulated: delay, reason: models });
+  }
+  return [onset, delayRow];
+}
+
+/** Every shared quantity (module comment). */
+export function compareStudy(input: {
+  run: SiteStudyRun;
+  report: ReportBase;
+  scenario: Scenario;
+}): StudyComparisonRow[] {
+  const { run, report: d, scenario: s } = input;
+  const m = d.quick?.metrics;
+  const m1 = d.quickOnePile?.metrics;
+  const pile = run.input.pile;
+  const length_m = pile?.length_m ?? s.pile.length_m;
+  const peak_W = d.peakLoad_W;
+  const group = `${s.building.foundationPiles}-pile foundation at ${s.building.pileSpacing_m} m spacing`;
+  const onePile =
+    "The simulated pile carries one pile's share of the building; the map's one-pile form (one pile, that share of the load) is its calibrated counterpart, " +
+    `while the map itself shows a pile of the ${group}, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).`;
+  const rows: StudyComparisonRow[] = thawRows(run, d, s);
+
+  const quickPiles =
+    m && peak_W && m.pilesPerTon.value !== null
+      ? Math.ceil((m.pilesPerTon.value * peak_W) / WATTS_PER_TON)
+      : null;
+  const sized = d.sizing;
+  rows.push(
+    row({
+      quantity: 'pileCount',
+      title: peak_W ? `Piles for the design-day load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
+      unit: '',
+      quick: quickPiles,
+      simulated: sized?.ok ? sized.sizing.pileCount : null,
+      simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
+      band: CALIBRATION_BANDS.pileCount,
+      reason:
+        `Both for the ${group} by the three-pulse method (annual, design month, 6-hour peak), same building load and design life (${s.designLife_yr} yr). ` +
+        'The map takes its TTOP ground temperature and the standard pile resistance; the study sizes with the simulated ground temperature at mid-pile' +
+        (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C)` : '') +
+        (run.result.fluid
+          ? `, the resistance of the loop in the form (${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)})`
+          : ', the resistance of the loop in the form') +
+        ' and the annual energy of its load line.',
+    }),
+  );
+
+  const atLimit = d.window?.fluidAtLimit ?? false;
+  const carried = m?.extractionCarried.value ?? null;
+  const carried1 = m1?.extractionCarried.value ?? null;
+  rows.push(
+    row({
+      quantity: 'heatPerPile',
+      title: 'Heat from the ground per pile, annual mean',
+      unit: 'W',
+      quick: carried !== null ? carried * length_m : null,
+      quickOnePile: carried1 !== null ? carried1 * length_m : null,
+      simulated: d.extraction_W,
+      band: atLimit ? CALIBRATION_BANDS.heatPerPile : null,
+      reason:
+        onePile +
+        (atLimit
+          ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
+          : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
+        ' The map holds the fluid limit through a 6-hour design peak each month; the study steps a week at a time and cannot see that peak, so it lets the pile draw more heat in the cold weeks.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.loadShare,
+      title: "Share of the building's heating the piles carry",
+      unit: '',
+      quick: m?.loadShare.value ?? null,
+      quickOnePile: m1?.loadShare.value ?? null,
+      simulated: d.loadShare,
+      band: CALIBRATION_BANDS.loadShare,
+      reason: `${onePile} The study's share is the heat delivered over the heating demand of the run, with the fluid limit applied week by week (no 6-hour design peak, which the map includes), so it carries more.`,
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.groundTemp,
+      title: 'Ground temperature at pile mid-depth, today',
+      unit: '°C',
+      quick: m?.groundTemp.value ?? null,
+      simulated: Number.isFinite(d.groundTemp_C) ? d.groundTemp_C : null,
+      band: CALIBRATION_BANDS.groundTemp,
+      reason:
+        'The map: the TTOP model (thawing and freezing indices with n-factors, thermal offset of the soil) plus the geothermal gradient; ' +
+        'the study: the simulated ground column without the pile, first-year mean, from the same air, n-factors and heat flux. The bound is for the mean along the pile.',
+    }),
+  );
+  const alt = run.result.noPile.annualThawDepth_m[0] ?? null;
+  const noPermafrost = alt !== null && alt >= run.result.mesh.depth_m - 0.01;
+  rows.push(
+    row({
+      quantity: BAND.activeLayer,
+      title: 'Active layer (thaw depth), first year',
+      unit: 'm',
+      quick: m?.activeLayer.value ?? null,
+      simulated: noPermafrost ? null : alt,
+      simulatedText: noPermafrost ? 'no permafrost in the column' : undefined,
+      band: CALIBRATION_BANDS.activeLayer,
+      reason:
+        'The map: the two-phase Neumann solution over the thaw season (the thawing index as one step into ground at its TTOP temperature); ' +
+        "the study: the deepest thaw of the simulated first year, with the year's full temperature cycle.",
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.seasonalCop,
+      title: 'Seasonal COP',
+      unit: '',
+      quick: m?.seasonalCop.value ?? null,
+      quickOnePile: m1?.seasonalCop.value ?? null,
+      simulated: d.savings?.seasonalCop ?? null,
+      band: null,
+      reason:
+        "The map: the heat pump's curve at the seasonal mean fluid temperature of undisturbed ground; " +
+        'the study: the heat pump step by step at the simulated fluid temperature, weighted by the heat delivered. No calibration bound is published.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.systemCop,
+      title: 'System seasonal COP (pump, backup, controls)',
+      unit: '',
+      quick: m?.systemCop.value ?? null,
+      simulated: d.savings?.system?.systemCop ?? null,
+      band: null,
+      reason:
+        'Both from the same system model (circulation pump, backup heat, controls) applied to each side’s heat-pump COP and carried heat. No calibration bound is published.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.simplePayback,
+      title: 'Simple payback against an oil furnace',
+      unit: 'yr',
+      quick: m?.simplePayback.value ?? null,
+      simulated: d.savings?.system?.payback_yr ?? null,
+      band: null,
+      reason:
+        'Capital cost over the yearly cost saved, both at the system COP: it follows the heat and COP rows.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.fuelSaved,
+      title: 'Fuel saved on a diesel grid',
+      unit: 'L/yr',
+      quick: m?.fuelSaved.value ?? null,
+      // The one-pile form carries the building's system overheads on one pile: not a building figure.
+      quickOnePile: null,
+      simulated: d.savings?.fuelSaved_L ?? null,
+      band: null,
+      reason:
+        'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do.',
+    }),
+  );
+  rows.push(
+    row({
+      quantity: BAND.co2Avoided,
+      title: 'CO2 avoided',
+      unit: 't/yr',
+      quick: m?.co2Avoided.value ?? null,
+      quickOnePile: null,
+      simulated: d.savings?.co2Avoided_t ?? null,
+      band: null,
+      reason: 'Follows the fuel row (same balance, CO2 per litre of each fuel).',
+    }),
+  );
+  return rows;
+}
