@@ -50,6 +50,7 @@ import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
+import { compareWithFirst, type ScenarioComparison } from './compare-scenarios';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 import type { BuildDistributor } from './build-distributor';
@@ -174,6 +175,8 @@ interface ScenarioOutput {
   tiles: number;
   shares: Record<string, Record<string, number>>;
   geotiffs?: Record<string, string>;
+  /** Against the first scenario (null for the first). */
+  comparison: ScenarioComparison | null;
 }
 
 /**
@@ -313,7 +316,9 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       result.layers.forEach((layer, i) => {
         if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
       });
-      await rm(bandsDir, { recursive: true, force: true });
+      // The first scenario's bands stay until the others are compared with it (compare-scenarios.ts).
+      const comparison = si > 0 ? compareWithFirst(outputs[0].result, result) : null;
+      if (si > 0 || models.length === 1) await rm(bandsDir, { recursive: true, force: true });
       const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
       outputs.push({
         resolved,
@@ -329,8 +334,10 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         tiles,
         shares,
         geotiffs,
+        comparison,
       });
     }
+    if (models.length > 1) await rm(join(output.dir, '.bands'), { recursive: true, force: true });
 
     await enter('manifest', join(output.dir, 'manifest.json'));
     const setInfo = models.length > 1 ? scenarioSetInfo(outputs) : undefined;
@@ -437,6 +444,7 @@ function scenarioSetInfo(outputs: ScenarioOutput[]): Omit<ScenarioSetInfo, 'curr
       const keyFigures: Record<string, number> = {};
       for (const [label, share] of Object.entries(suit)) keyFigures[`share ${label}`] = share;
       keyFigures.cellsScreened = o.result.cellsScreened;
+      for (const [k, v] of Object.entries(o.comparison ?? {})) if (Number.isFinite(v)) keyFigures[k] = v;
       return {
         name: s.name,
         slug: o.slug,

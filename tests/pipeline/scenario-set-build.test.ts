@@ -20,7 +20,13 @@ import { makeTempDir, removeTempDirs, SMALL_DEMO, smallDemo } from './pipeline-f
 afterAll(removeTempDirs);
 
 const set = {
-  scenarios: [DEMO_SCENARIO_SET.scenarios[0], DEMO_SCENARIO_SET.scenarios[2], DEMO_SCENARIO_SET.scenarios[3]],
+  scenarios: [
+    DEMO_SCENARIO_SET.scenarios[0],
+    DEMO_SCENARIO_SET.scenarios[2],
+    DEMO_SCENARIO_SET.scenarios[3],
+    // the first scenario again under another name: its comparison with the first must be null change
+    { ...DEMO_SCENARIO_SET.scenarios[0], name: 'Present trend, again' },
+  ],
 };
 let outDir = '';
 let inDir = '';
@@ -50,13 +56,14 @@ async function bandPlane(m: Manifest, sub: string, id: string): Promise<Float32A
 }
 
 describe('scenario set build', () => {
-  it('writes one manifest per scenario, each listing all three with their differences from the first', () => {
+  it('writes one manifest per scenario, each listing all of them with their differences from the first', () => {
     expect(manifests.map((m) => m.scenarioSet?.current)).toEqual(set.scenarios.map((s) => s.name));
     const list = manifests[0].scenarioSet?.scenarios ?? [];
     expect(list.map((s) => s.manifest)).toEqual([
       'manifest.json',
       'scenarios/high-pathway-30-year-life/manifest.json',
       'scenarios/high-pathway-50-year-life/manifest.json',
+      'scenarios/present-trend-again/manifest.json',
     ]);
     expect(list[0].differences).toEqual([]);
     expect(list[1].differences.map((d) => d.path)).toEqual(['warmingPathway']);
@@ -64,7 +71,8 @@ describe('scenario set build', () => {
     expect(list[2].differences.find((d) => d.path === 'designLife_yr')?.text).toBe(
       'designLife_yr: 50 (first scenario: 30)',
     );
-    expect(list.map((s) => s.horizonYear)).toEqual([2100, 2100, 2100]);
+    expect(list.map((s) => s.horizonYear)).toEqual([2100, 2100, 2100, 2100]);
+    expect(list[3].differences).toEqual([]);
     expect(list[1].warming).toBe('high pathway (illustrative)');
     for (const s of list) expect(s.keyFigures.cellsScreened).toBeGreaterThan(100);
     expect(manifests[1].scenarioSet?.root).toBe('../../');
@@ -77,8 +85,10 @@ describe('scenario set build', () => {
   });
   it('design life leaves the thaw year without piles unchanged and moves the frozen margin; the pathway moves thaw years', async () => {
     const subs = ['', 'scenarios/high-pathway-30-year-life', 'scenarios/high-pathway-50-year-life'];
-    const thaw = await Promise.all(manifests.map((m, i) => bandPlane(m, subs[i], BAND.thawYear)));
-    const margin = await Promise.all(manifests.map((m, i) => bandPlane(m, subs[i], BAND.frozenMargin)));
+    const thaw = await Promise.all(manifests.slice(0, 3).map((m, i) => bandPlane(m, subs[i], BAND.thawYear)));
+    const margin = await Promise.all(
+      manifests.slice(0, 3).map((m, i) => bandPlane(m, subs[i], BAND.frozenMargin)),
+    );
     let finite = 0;
     let pathwayMoved = 0;
     let marginMoved = 0;
@@ -92,6 +102,29 @@ describe('scenario set build', () => {
     expect(finite).toBeGreaterThan(50);
     expect(pathwayMoved).toBeGreaterThan(finite / 10);
     expect(marginMoved).toBeGreaterThan(finite / 10);
+  });
+  it('compares each scenario with the first over the whole region (good under both, class changed, margin lost)', () => {
+    const list = manifests[0].scenarioSet?.scenarios ?? [];
+    const goodFirst = (list[0].keyFigures['share good'] ?? 0) * list[0].keyFigures.cellsScreened;
+    // identical scenario: no change, every good cell good under both, no margin lost
+    expect(list[3].keyFigures.classChanged_cells).toBe(0);
+    expect(list[3].keyFigures.frozenMarginLost_mean_yr).toBe(0);
+    expect(list[3].keyFigures.pilesPerTonAdded_mean).toBe(0);
+    expect(Math.abs(list[3].keyFigures.goodUnderBoth_cells - goodFirst)).toBeLessThan(
+      1e-3 * list[0].keyFigures.cellsScreened, // the shares are rounded
+    );
+    // a different scenario: good under both is at most either's good count; the 50-year life loses margin
+    for (const i of [1, 2]) {
+      const goodOther = (list[i].keyFigures['share good'] ?? 0) * list[i].keyFigures.cellsScreened;
+      expect(list[i].keyFigures.goodUnderBoth_cells).toBeLessThanOrEqual(
+        Math.min(goodFirst, goodOther) + 1e-3 * list[i].keyFigures.cellsScreened,
+      );
+    }
+    expect(list[2].keyFigures.classChanged_cells).toBeGreaterThan(0);
+    expect(list[2].keyFigures.frozenMarginLost_mean_yr).toBeGreaterThan(
+      list[1].keyFigures.frozenMarginLost_mean_yr,
+    );
+    expect(list[0].keyFigures.goodUnderBoth_cells).toBeUndefined();
   });
   it('rejects two scenarios with the same name, naming the field, before reading any input', async () => {
     const bad = { scenarios: [{ name: 'A' }, { name: 'a', designLife_yr: 50 }] };
