@@ -184,7 +184,7 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
   const metrics = Object.fromEntries(
     METRIC_IDS.map((id, i) => {
       const entry = { value: nul(m[i]), unit: layers[i].unit, title: layers[i].title };
-      const q = horizonText(layers[i].horizon, flag, `${+m[i].toPrecision(4)} ${layers[i].unit}`);
+      const q = horizonText(layers[i].horizon, flag, `${+m[i].toPrecision(3)} ${layers[i].unit}`);
       return [id, q === null ? entry : { ...entry, qualifier: q }];
     }),
   ) as CellScreening['metrics'];
