@@ -24,9 +24,18 @@ import { availableParallelism } from 'node:os';
 import { mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { manifestCriteria } from '../../layers/screening/cell-screening-model';
-import { scenarioSchema } from '../../layers/screening/scenario';
+import { scenarioSchema, type Scenario } from '../../layers/screening/scenario';
+import {
+  differenceText,
+  isScenarioSetJson,
+  scenarioDifferences,
+  scenarioSetSchema,
+  scenarioSlug,
+} from '../../layers/screening/scenario-set';
+import { effectiveHorizonYear } from '../../layers/screening/climate-horizon';
+import { BAND } from '../../layers/screening/band-ids';
 import { ValidationError } from '../../layers/validation-error';
-import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import { manifestSchema, type Manifest, type ScenarioSetInfo } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import type { GridSpread, SpreadRole } from '../../layers/screening/uncertainty-schema';
 import type { InputsConfig } from '../inputs-config';
@@ -42,11 +51,12 @@ import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
-import type { BuildDistributor } from './build-distributor';
 import { computeLayers } from './compute-layers';
 import { addProximityBands } from './proximity-bands';
+import { compareWithFirst, type ScenarioComparison } from './compare-scenarios';
 import { loadInputs } from './load-inputs';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
+import type { BuildDistributor } from './build-distributor';
 
 export interface BuildOptions {
   inDir: string;
@@ -103,11 +113,21 @@ export interface BuildSummary {
   cellsPerSecond: number;
   /** Queue-backed builds: jobs run, reused from earlier builds, retried (distributor.report()). */
   queue?: Record<string, number>;
+  /** A scenario-set build: each scenario's name and output directory (relative to outDir). */
+  scenarios?: { name: string; dir: string }[];
 }
 
-function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
+interface ResolvedModel {
+  model: ScreeningModel;
+  spec?: ModelSpec;
+  name: string;
+  /** The parsed scenario (screening model only). */
+  scenario?: Scenario;
+}
+
+function resolveModel(options: BuildOptions, scenarioJson: unknown): ResolvedModel {
   if (options.model) return { model: options.model, name: 'custom' };
-  const base = (options.scenario ?? {}) as Record<string, unknown>;
+  const base = (scenarioJson ?? {}) as Record<string, unknown>;
   const wantsEnsemble =
     options.modelKind !== 'basic' &&
     (options.ensemble !== undefined && options.ensemble !== false ? true : base.uncertainty !== undefined);
@@ -128,10 +148,12 @@ function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: Mo
       : wantsEnsemble
         ? { kind: 'ensemble', scenario }
         : { kind: 'screening', scenario };
+  let parsedScenario: Scenario | undefined;
   if (spec.kind !== 'basic') {
     // Validated here, so that an error the model throws afterwards is a bug (exit 1), not bad input.
     const parsed = scenarioSchema.safeParse(spec.scenario ?? {});
     if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario', parsed.error);
+    parsedScenario = parsed.data;
   }
   return {
     model: createModelFromSpec(spec),
@@ -142,6 +164,7 @@ function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: Mo
         : spec.kind === 'ensemble'
           ? 'per-cell screening model, ensemble'
           : 'per-cell screening model',
+    scenario: parsedScenario,
   };
 }
 
@@ -156,6 +179,20 @@ function declaredSpreads(config: InputsConfig): Partial<Record<SpreadRole, GridS
   return out;
 }
 
+/**
+ * The models of a build: one, or one per scenario of a scenario set (`{ scenarios: [...] }`,
+ * scenario-set.ts), validated all at once before any input is read.
+ */
+function resolveModels(options: BuildOptions): ResolvedModel[] {
+  if (options.model || options.modelKind === 'basic' || !isScenarioSetJson(options.scenario)) {
+    return [resolveModel(options, options.scenario)];
+  }
+  const parsed = scenarioSetSchema.safeParse(options.scenario);
+  if (!parsed.success) throw ValidationError.fromZod(options.scenarioFile ?? 'scenario set', parsed.error);
+  const raw = (options.scenario as { scenarios: unknown[] }).scenarios;
+  return raw.map((json) => resolveModel(options, json));
+}
+
 const DISK_FULL = new Set(['ENOSPC', 'EDQUOT']);
 
 /** A full disk while writing `outDir`: one line naming the output (the previous output is untouched). */
@@ -166,7 +203,33 @@ function diskFullError(outDir: string, stage: string, err: NodeJS.ErrnoException
   );
 }
 
-/** Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). */
+/** One scenario's screened output, before its manifest is written. */
+interface ScenarioOutput {
+  resolved: ResolvedModel;
+  dir: string;
+  slug: string;
+  /** Directory from the build's root: '' for the first scenario, else scenarios/<slug>/. */
+  sub: string;
+  result: Awaited<ReturnType<typeof computeLayers>>;
+  bands: Manifest['bands'];
+  bounds: [number, number, number, number];
+  minZoom: number;
+  maxZoom: number;
+  tilesByZoom: Record<number, number>;
+  tiles: number;
+  shares: Record<string, Record<string, number>>;
+  geotiffs?: Record<string, string>;
+  /** Against the first scenario (null for the first). */
+  comparison: ScenarioComparison | null;
+}
+
+/**
+ * Build tiles, GeoTIFFs and manifest from the inputs in `inDir` into `outDir` (atomically). With a
+ * scenario set the inputs are read, validated and checksummed once and the analysis grid built once;
+ * each scenario is screened and written: the first at the root of `outDir` (as a one-scenario build),
+ * the others under scenarios/<slug>/ with their own tiles, GeoTIFFs and manifest, every manifest
+ * listing all scenarios (scenarioSet). The summary describes the first scenario.
+ */
 export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const started = Date.now();
   const { inDir, outDir, onProgress } = options;
@@ -176,18 +239,17 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   // A build killed earlier may have left a swap half done: put the previous output back first.
   recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
-  const resolved = resolveModel(options);
-  const { name: modelName } = resolved;
-  let { model, spec } = resolved;
+  const models = resolveModels(options);
+  const modelName = models[0].name;
 
   const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
-  if (spec?.kind === 'ensemble') {
-    // The grids' own spreads (inputs config) replace the scenario's defaults.
-    spec = { ...spec, gridSpreads: declaredSpreads(config) };
-    model = createModelFromSpec(spec);
+  for (const m of models) {
+    if (m.spec?.kind === 'ensemble') {
+      // The grids' own spreads (inputs config) replace the scenario's defaults.
+      m.spec = { ...m.spec, gridSpreads: declaredSpreads(config) };
+      m.model = createModelFromSpec(m.spec);
+    }
   }
-  const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
-  const uncertainty = (model as ScreeningModel & { uncertainty?: unknown }).uncertainty;
   await faultPoint('read', inDir);
   const grid = analysisGridFor(
     inputs
@@ -205,7 +267,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       ...estimateBuild({
         width: grid.width,
         height: grid.height,
-        bands: model.layers.length + 8,
+        bands: models.reduce((n, m) => n + m.model.layers.length + 8, 0),
         inputs: inputs.length,
         threads,
         inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
@@ -221,164 +283,246 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     await faultPoint(next, target);
   };
   try {
-    await enter('screen', output.dir);
-    const bandsDir = join(output.dir, '.bands');
-    const result = await computeLayers({
-      grid,
-      bandsDir,
-      inputs,
-      model,
-      spec,
-      workers: threads,
-      // An ensemble costs its member count per cell: worth the workers on N times fewer cells.
-      minCellsForWorkers:
-        options.minCellsForWorkers ??
-        (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
-      onProgress: (d, t) => progress('screen', d, t),
-      windowRunner: options.distributor?.windows,
-    });
-    if (result.cellsScreened === 0) {
-      throw new InputError(
-        `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
-      );
-    }
-    await addProximityBands({
-      grid,
-      files: result.files,
-      layers: result.layers,
-      bandsDir,
-      maskBand: 0,
-      geojson,
-    });
-    const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
-    const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
-    const margin = (2 * cellSize_m) / 111_000;
-    const b = result.bounds;
-    const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
-    const bounds: [number, number, number, number] = [
-      Math.max(-180, b[0] - lonMargin),
-      Math.max(-85, b[1] - margin),
-      Math.min(180, b[2] + lonMargin),
-      Math.min(85, b[3] + margin),
-    ];
-    const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
-
-    await enter('tiles', join(output.dir, 'tiles'));
-    const tilesByZoom = await writeTilePyramid({
-      tilesDir: join(output.dir, 'tiles'),
-      grid,
-      files: result.files,
-      bands: bands.map((band) => ({ kind: band.kind, quant: band })),
-      minZoom,
-      maxZoom,
-      bounds,
-      onTile: (d, t) => progress('tiles', d, t),
-      workers: result.workers,
-      subtreeRunner: options.distributor?.subtrees,
-    });
-    let geotiffs: Record<string, string> | undefined;
-    if (options.geotiff !== false) {
-      await enter('geotiff', join(output.dir, 'geotiff'));
-      geotiffs = {};
-      await mkdir(join(output.dir, 'geotiff'));
-      for (let i = 0; i < bands.length; i++) {
-        const file = `geotiff/${bands[i].id}.tif`;
-        const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
-        const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
-        try {
-          await writeBandGeoTiff({
-            path: join(output.dir, file),
-            readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
-            width: grid.width,
-            height: grid.height,
-            geoTransform: grid.geoTransform,
-            crs: grid.crs,
-            description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
-          });
-        } finally {
-          closeBandFds([fd]);
-        }
-        geotiffs[bands[i].id] = file;
-        progress('geotiff', i + 1, bands.length);
+    const outputs: ScenarioOutput[] = [];
+    const slugs = models.map((m, i) =>
+      models.length === 1 ? '' : scenarioSlug(m.scenario?.name ?? `s${i}`),
+    );
+    for (let si = 0; si < models.length; si++) {
+      const resolved = models[si];
+      const { model, spec } = resolved;
+      const dir = si === 0 ? output.dir : join(output.dir, 'scenarios', slugs[si]);
+      const tag = models.length > 1 ? ` ${resolved.scenario?.name ?? si}` : '';
+      await mkdir(dir, { recursive: true });
+      await enter('screen', dir);
+      const bandsDir = join(dir, '.bands');
+      const result = await computeLayers({
+        grid,
+        bandsDir,
+        inputs,
+        model,
+        spec,
+        workers: threads,
+        // An ensemble costs its member count per cell: worth the workers on N times fewer cells.
+        minCellsForWorkers:
+          options.minCellsForWorkers ??
+          (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
+        onProgress: (d, t) => progress(`screen${tag}`, d, t),
+        windowRunner: options.distributor?.windows,
+      });
+      if (result.cellsScreened === 0) {
+        throw new InputError(
+          `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
+        );
       }
+      await addProximityBands({
+        grid,
+        files: result.files,
+        layers: result.layers,
+        bandsDir,
+        maskBand: 0,
+        geojson,
+      });
+      const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
+      const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
+      const margin = (2 * cellSize_m) / 111_000;
+      const b = result.bounds;
+      const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
+      const bounds: [number, number, number, number] = [
+        Math.max(-180, b[0] - lonMargin),
+        Math.max(-85, b[1] - margin),
+        Math.min(180, b[2] + lonMargin),
+        Math.min(85, b[3] + margin),
+      ];
+      const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
+
+      await enter('tiles', join(dir, 'tiles'));
+      const tilesByZoom = await writeTilePyramid({
+        tilesDir: join(dir, 'tiles'),
+        grid,
+        files: result.files,
+        bands: bands.map((band) => ({ kind: band.kind, quant: band })),
+        minZoom,
+        maxZoom,
+        bounds,
+        onTile: (d, t) => progress(`tiles${tag}`, d, t),
+        workers: result.workers,
+        subtreeRunner: options.distributor?.subtrees,
+      });
+      let geotiffs: Record<string, string> | undefined;
+      if (options.geotiff !== false) {
+        await enter('geotiff', join(dir, 'geotiff'));
+        geotiffs = {};
+        await mkdir(join(dir, 'geotiff'));
+        for (let i = 0; i < bands.length; i++) {
+          const file = `geotiff/${bands[i].id}.tif`;
+          const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
+          const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
+          try {
+            await writeBandGeoTiff({
+              path: join(dir, file),
+              readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
+              width: grid.width,
+              height: grid.height,
+              geoTransform: grid.geoTransform,
+              crs: grid.crs,
+              description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}.${resolved.scenario && models.length > 1 ? ` Scenario: ${resolved.scenario.name}.` : ''} Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+            });
+          } finally {
+            closeBandFds([fd]);
+          }
+          geotiffs[bands[i].id] = file;
+          progress(`geotiff${tag}`, i + 1, bands.length);
+        }
+      }
+      const shares: Record<string, Record<string, number>> = {};
+      result.layers.forEach((layer, i) => {
+        if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
+      });
+      // The first scenario's bands stay until the others are compared with it (compare-scenarios.ts).
+      const comparison = si > 0 ? compareWithFirst(outputs[0].result, result) : null;
+      if (si > 0 || models.length === 1) await rm(bandsDir, { recursive: true, force: true });
+      const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
+      outputs.push({
+        resolved,
+        dir,
+        slug: slugs[si],
+        sub: si === 0 ? '' : `scenarios/${slugs[si]}/`,
+        result,
+        bands,
+        bounds,
+        minZoom,
+        maxZoom,
+        tilesByZoom,
+        tiles,
+        shares,
+        geotiffs,
+        comparison,
+      });
     }
+    if (models.length > 1) await rm(join(output.dir, '.bands'), { recursive: true, force: true });
+
     await enter('manifest', join(output.dir, 'manifest.json'));
-    // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
-    if (geojson.settlements !== undefined)
-      await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
-    if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
-    if (geojson.roads !== undefined) await writeFile(join(output.dir, 'roads.geojson'), geojson.roads);
-    const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
-    const shares: Record<string, Record<string, number>> = {};
-    result.layers.forEach((layer, i) => {
-      if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
-    });
-    await rm(bandsDir, { recursive: true, force: true });
-    await options.distributor?.cleanup();
+    const setInfo = models.length > 1 ? scenarioSetInfo(outputs) : undefined;
     const seconds = (Date.now() - started) / 1000;
-    const summary = {
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      screenedArea_km2: Math.round((result.cellsScreened * cellSize_m * cellSize_m) / 1e6),
-      classShares: shares,
-      tiles,
-      workers: result.workers,
-      seconds,
-    };
-    const manifest = await assembleManifest({
-      config,
-      inputs,
-      grid,
-      bands,
-      bounds,
-      minZoom,
-      maxZoom,
-      parameters: {
-        cellSize_m,
-        resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
-        overviews: { class: 'mode', continuous: 'mean' },
-        model: modelName,
-        ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
-        // The ensemble's effective uncertainty: distributions, grid spreads, members and seed.
-        ...(uncertainty ? { uncertainty } : {}),
-      },
-      ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
-      summary,
-      geotiffs,
-    });
-    const checked = manifestSchema.parse(manifest);
-    await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
-    await validateOutput(output.dir, checked);
+    for (const o of outputs) {
+      // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
+      if (geojson.settlements !== undefined)
+        await writeFile(join(o.dir, 'settlements.geojson'), geojson.settlements);
+      if (geojson.land !== undefined) await writeFile(join(o.dir, 'land.geojson'), geojson.land);
+      if (geojson.roads !== undefined) await writeFile(join(o.dir, 'roads.geojson'), geojson.roads);
+      // The ensemble's effective uncertainty: distributions, grid spreads, members and seed.
+      const uncertainty = (o.resolved.model as ScreeningModel & { uncertainty?: unknown }).uncertainty;
+      const r = o.result;
+      const summary = {
+        cellsTotal: r.cellsTotal,
+        cellsScreened: r.cellsScreened,
+        cellsMissingInput: r.cellsMissingInput,
+        cellsModelNodata: r.cellsModelNodata,
+        screenedArea_km2: Math.round((r.cellsScreened * cellSize_m * cellSize_m) / 1e6),
+        classShares: o.shares,
+        tiles: o.tiles,
+        workers: r.workers,
+        seconds,
+      };
+      const scenario = o.resolved.scenario;
+      const manifest = await assembleManifest({
+        config,
+        inputs,
+        grid,
+        bands: o.bands,
+        bounds: o.bounds,
+        minZoom: o.minZoom,
+        maxZoom: o.maxZoom,
+        parameters: {
+          cellSize_m,
+          resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
+          overviews: { class: 'mode', continuous: 'mean' },
+          model: o.resolved.name,
+          ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
+          ...(uncertainty ? { uncertainty } : {}),
+        },
+        ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
+        summary,
+        geotiffs: o.geotiffs,
+      });
+      const withSet = setInfo
+        ? {
+            ...manifest,
+            scenarioSet: {
+              ...setInfo,
+              current: scenario?.name ?? '',
+              root: o.sub ? '../../' : '',
+            },
+          }
+        : manifest;
+      const checked = manifestSchema.parse(withSet);
+      await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
+      await validateOutput(o.dir, checked);
+    }
+    await options.distributor?.cleanup();
     stage = 'swap';
     await output.commit();
+    const first = outputs[0];
+    const r = first.result;
     return {
       outDir,
       manifest: join(outDir, 'manifest.json'),
       model: modelName,
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      tiles,
-      tilesByZoom,
-      minZoom,
-      maxZoom,
-      bands: bands.map((x) => x.id),
-      classShares: shares,
-      workers: result.workers,
+      cellsTotal: r.cellsTotal,
+      cellsScreened: r.cellsScreened,
+      cellsMissingInput: r.cellsMissingInput,
+      cellsModelNodata: r.cellsModelNodata,
+      tiles: first.tiles,
+      tilesByZoom: first.tilesByZoom,
+      minZoom: first.minZoom,
+      maxZoom: first.maxZoom,
+      bands: first.bands.map((x) => x.id),
+      classShares: first.shares,
+      workers: r.workers,
       seconds: (Date.now() - started) / 1000,
-      cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
+      cellsPerSecond: Math.round(r.cellsTotal / ((Date.now() - started) / 1000)),
       ...(options.distributor ? { queue: options.distributor.report() } : {}),
+      ...(models.length > 1
+        ? {
+            scenarios: outputs.map((o) => ({
+              name: o.resolved.scenario?.name ?? '',
+              dir: o.sub ? o.sub.slice(0, -1) : '.',
+            })),
+          }
+        : {}),
     };
   } catch (err) {
-    await output.discard();
     await options.distributor?.cleanup().catch(() => undefined);
+    await output.discard();
     const code = (err as NodeJS.ErrnoException)?.code;
     if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
     throw err;
   }
+}
+
+/** The scenario list every manifest of a set carries (current and root filled in per manifest). */
+function scenarioSetInfo(outputs: ScenarioOutput[]): Omit<ScenarioSetInfo, 'current' | 'root'> {
+  const ref = outputs[0].resolved.scenario as Scenario;
+  return {
+    scenarios: outputs.map((o) => {
+      const s = o.resolved.scenario as Scenario;
+      const suit = o.shares[BAND.suitability] ?? {};
+      const keyFigures: Record<string, number> = {};
+      for (const [label, share] of Object.entries(suit)) keyFigures[`share ${label}`] = share;
+      keyFigures.cellsScreened = o.result.cellsScreened;
+      for (const [k, v] of Object.entries(o.comparison ?? {})) if (Number.isFinite(v)) keyFigures[k] = v;
+      return {
+        name: s.name,
+        slug: o.slug,
+        manifest: `${o.sub}manifest.json`,
+        warming: s.warmingPathway ? s.warmingPathway.label : 'linear trend per cell',
+        designLife_yr: s.designLife_yr,
+        horizonYear: effectiveHorizonYear(s),
+        differences: scenarioDifferences(ref, s).map((d) => ({ path: d.path, text: differenceText(d) })),
+        keyFigures,
+      };
+    }),
+  };
 }
 
 /** Re-read the manifest and check one tile per zoom for size before swapping the output in. */

@@ -73,7 +73,10 @@ and the memory and disk it needs against a budget.
 Options:
   --in <dir>          inputs directory (holding ${INPUTS_CONFIG_FILE})
   --out <dir>         output directory
-  --scenario <file>   scenario JSON for the screening model (default: documented defaults)
+  --scenario <file>   scenario JSON for the screening model (default: documented defaults), or a
+                      scenario set { "scenarios": [ ... ] }: inputs read once, the first scenario
+                      written at <out>, each other one under <out>/scenarios/<slug>/, every
+                      manifest listing them all with their differences from the first
   --model <name>      screening (default) or basic (TTOP + Stefan only)
   --cell-size M       analysis cell size in metres (default 1000)
   --workers N         worker threads (default: cores, here ${availableParallelism()})

@@ -1,13 +1,14 @@
 /**
  * Make sure a demo build exists (for `npm start` and the browser tests): generate the fictional demo
  * inputs into `inputsDir` and build their tiles into `dataDir` (with the per-cell ensemble) unless a
- * manifest is already there.
+ * manifest is already there, for every scenario of the demo's scenario set (demo-scenarios.ts).
  */
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { buildTiles } from '../build/build-tiles';
 import { INPUTS_CONFIG_FILE } from '../inputs-config';
 import { generateDemoData } from './generate-demo-data';
+import { DEMO_SCENARIO_SET } from './demo-scenarios';
 
 /** Returns whether anything was built. */
 export async function ensureDemoTiles(options: {
@@ -31,6 +32,11 @@ export async function ensureDemoTiles(options: {
     await generateDemoData({ outDir: inputsDir });
   }
   log(`building tiles into ${dataDir} …`);
-  await buildTiles({ inDir: inputsDir, outDir: dataDir, ensemble: options.ensemble ?? true });
+  await buildTiles({
+    inDir: inputsDir,
+    outDir: dataDir,
+    scenario: DEMO_SCENARIO_SET,
+    ensemble: options.ensemble ?? true,
+  });
   return true;
 }

@@ -18,6 +18,8 @@ import { MAX_WATER_CONTENT_M3M3, soilThermalProperties } from '../physics/soil-c
 import { heatPumpAt } from '../physics/heat-pump';
 import { TEXTURE_CODES, type TextureCode } from './screening-model';
 import type { Scenario } from './scenario';
+import { pathwayKnots } from './warming-pathway';
+import { effectiveHorizonYear } from './climate-horizon';
 import { buildResponseTables, type ResponseTables } from './response-tables';
 import {
   breakEvenCops,
@@ -57,6 +59,14 @@ export interface CellConstants {
   pileMidDepth_m: number;
   /** COP of the scenario's heat-pump curve at EFT = COP_EFT_MIN + i·COP_EFT_STEP. */
   cop: Float64Array;
+  /** The scenario's warming pathway as knots since the start year (warming-pathway.ts), or null: linear trend per cell. */
+  pathway: {
+    time_yr: Float64Array;
+    airOffset_K: Float64Array;
+    patternReference_C_per_yr: number | null;
+  } | null;
+  /** Years from the start year to the climate horizon (climate-horizon.ts, effectiveHorizonYear). */
+  horizon_yr: number;
   /** Loop-fluid properties of the system model (system-cop.ts). */
   system: SystemConstants;
 }
@@ -164,5 +174,18 @@ export function buildCellConstants(scenario: Scenario): CellConstants {
         heatPumpAt({ enteringFluid_C: COP_EFT_MIN + i * COP_EFT_STEP, curve: scenario.heatPump.curve }).cop,
     ),
     system: systemConstants(scenario),
+    pathway: pathwayConstants(scenario),
+    horizon_yr: effectiveHorizonYear(scenario) - scenario.startYear,
+  };
+}
+
+function pathwayConstants(s: Scenario): CellConstants['pathway'] {
+  const p = s.warmingPathway;
+  if (!p) return null;
+  const knots = pathwayKnots(p, s.startYear);
+  return {
+    time_yr: Float64Array.from(knots.time_yr),
+    airOffset_K: Float64Array.from(knots.airOffset_K),
+    patternReference_C_per_yr: p.patternReference_C_per_yr ?? null,
   };
 }

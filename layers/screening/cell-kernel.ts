@@ -22,7 +22,9 @@
  *     (Carslaw & Jaeger §2.5, response-tables.ts); thaw without piles by the method of
  *     layers/physics/years-to-thaw.ts: the time the conduction rise brings the reference point to
  *     0 °C (tabulated here) plus the latent-heat delay z·√(L/(k_thawed·b)) of a Stefan front under a
- *     rising surface excess;
+ *     rising surface excess; with a warming pathway in the scenario (warming-pathway.ts) the surface
+ *     history is piecewise linear instead, one superposed ramp per change of slope, and the thaw time,
+ *     latent delay and c/b lengthening are their piecewise generalisations (surface-warming-history.ts);
  *  5. standard building: heating demand UA·HDD (HDD = freezing index of T_air − T_balance), peak load
  *     UA·(T_balance − T_design), and the 12 monthly loads UA·(T_balance − T_month)⁺ with their peaks
  *     the design margin colder; ground load = heat·(1 − 1/COP), the peak at the COP of the lowest EFT,
@@ -63,7 +65,18 @@ import { ttop_C } from '../physics/ttop';
 import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
-import { flsResponse, rampTimeToRise_yr, rampWarming_K } from './response-tables';
+import { flsResponse } from './response-tables';
+import {
+  createWarmingHistory,
+  historyLatentDelay_yr,
+  historySurfaceGain_yr,
+  historyTimeToRise_yr,
+  historyWarming_K,
+  meanSurfaceRate_K_yr,
+  setLinearHistory,
+  setPathwayHistory,
+  type WarmingHistory,
+} from './surface-warming-history';
 import { operatingWindow, type WindowResult } from './operating-window';
 import { MONTH_COS, MONTHS, monthlyPeakPerPile_W, pileWavePhasor } from './monthly-peak';
 import { lookup } from './log-table';
@@ -100,6 +113,8 @@ export interface KernelScratch {
   system: SystemResult;
   /** Annual-average ground load over the design peak, a (monthly-peak.ts; read by the calibration). */
   annualFraction: number;
+  /** The cell's surface-warming history: linear trend or pathway (surface-warming-history.ts). */
+  warming: WarmingHistory;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -122,6 +137,7 @@ export function createKernelScratch(): KernelScratch {
     foundation: createFoundationResult(),
     system: createSystemResult(),
     annualFraction: 0,
+    warming: createWarmingHistory(),
   };
 }
 
@@ -273,9 +289,11 @@ export function evaluateCellMetrics(
   const alphaF = kF / soil.cFrozen;
   const alphaYr = alphaF * SECONDS_PER_YEAR;
   const life = s.designLife_yr;
-  const b = surfaceWarmingRate_K_per_yr(cell, nF, nT, life);
+  const h = cellWarmingHistory(k, cell, nF, nT, x.warming);
+  // Air warming at the end of the life (the active layer then): the trend's or the pathway's.
+  const airLife_K = cellAirWarming_K(k, cell, life);
   const lifeS = life * SECONDS_PER_YEAR;
-  const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, b, alphaYr);
+  const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, alphaYr);
   m[M.groundTemp] = tPile;
   m[M.groundTempEnd] = tPileEnd;
   m[M.zeroCurtain] = x.zeroCurtain ? 1 : 0;
@@ -350,7 +368,7 @@ export function evaluateCellMetrics(
   const w = operatingWindow(
     {
       referenceTemp_C: tRef,
-      warmingAtLife_K: rampWarming_K(k.tables, zr, life, b, alphaYr),
+      warmingAtLife_K: historyWarming_K(k.tables, h, zr, life, alphaYr),
       frozenMargin_K: s.frozenMargin_K,
       overcooling_K: isFrostSusceptible(tex) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
       conductivity_W_mK: kF,
@@ -370,14 +388,14 @@ export function evaluateCellMetrics(
 
   // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
   const cPiles = w.carried_W_m / (2 * Math.PI * kF);
-  const warmRef = rampWarming_K(k.tables, zr, life, b, alphaYr);
+  const warmRef = historyWarming_K(k.tables, h, zr, life, alphaYr);
   let thawPilesYr = Infinity;
   if (tRef < 0) {
-    const horizon = s.climateHorizonYear - s.startYear;
-    const tL = latentDelay_yr(zr, soil, b);
-    const t0s = rampTimeToRise_yr(k.tables, zr, -tRef, b, alphaYr);
+    const horizon = k.horizon_yr;
+    const t0s = historyTimeToRise_yr(k.tables, h, zr, -tRef, alphaYr, Math.max(horizon, life));
+    const tL = historyLatentDelay_yr(h, t0s, zr, soil.latent, soil.kThawed);
     const cP = w.carried_W_m / (2 * Math.PI * kF);
-    const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, b, alphaYr, alphaF, zr, horizon });
+    const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, h, alphaYr, alphaF, zr, horizon });
     // The front also melts its way down against the pile's cooling: the quasi-steady Stefan front of
     // years-to-thaw.ts driven by b·(t − t0) − c needs c/b longer, c the cooling at the reference point.
     const cooling = Number.isFinite(tPs)
@@ -387,7 +405,7 @@ export function evaluateCellMetrics(
     // the horizon and flagged, the delay and margin become lower bounds (delay undetermined when
     // neither thaws within the horizon).
     const t0 = t0s + tL;
-    const tP = Math.max(t0, tPs + tL + cooling / b);
+    const tP = Math.max(t0, tPs + tL + historySurfaceGain_yr(h, tPs + tL, cooling));
     thawPilesYr = tP;
     const flag = !(t0 <= horizon)
       ? THAW_HORIZON.bothAfter
@@ -411,7 +429,7 @@ export function evaluateCellMetrics(
 
   // 3c. end-of-life active layer (air warmed by the trend; piles neglected above the insulated top)
   const airEnd = degreeDays({
-    meanAirTemp_C: cell.meanAirTemp_C + cell.warming_C_per_yr * life,
+    meanAirTemp_C: cell.meanAirTemp_C + airLife_K,
     amplitude_C: cell.airAmplitude_C,
   });
   const ttopEnd = ttop_C({
@@ -424,7 +442,7 @@ export function evaluateCellMetrics(
   });
   const altEnd = neumannActiveLayerKernel_m(
     nT * airEnd.thawingIndex_Cd,
-    thawSeasonFraction(cell.meanAirTemp_C + cell.warming_C_per_yr * life, cell.airAmplitude_C),
+    thawSeasonFraction(cell.meanAirTemp_C + airLife_K, cell.airAmplitude_C),
     ttopEnd,
     soil.kThawed,
     kF,
@@ -442,7 +460,7 @@ export function evaluateCellMetrics(
       tableTemp_C: Number.isNaN(cell.groundTemp_C) ? ttop : tPile - grad * Math.max(0, zp - alt),
       activeLayer_m: alt,
       gradient_K_m: grad,
-      warmingRate_K_yr: b,
+      warmingRate_K_yr: meanSurfaceRate_K_yr(h, life),
       diffusivity_m2_yr: alphaYr,
       dampingDepth_m: dampingDepth_m(alphaF),
     },
@@ -497,25 +515,63 @@ export function evaluateCellMetrics(
   m[M.suitability] = c.suitability;
 }
 
+/** Air warming of a cell `t_yr` after the start year, K: its linear trend, or the (pattern-scaled) pathway. */
+function cellAirWarming_K(k: CellConstants, cell: CellInputs, t_yr: number): number {
+  const p = k.pathway;
+  if (!p) return cell.warming_C_per_yr * t_yr;
+  const scale =
+    p.patternReference_C_per_yr === null ? 1 : cell.warming_C_per_yr / p.patternReference_C_per_yr;
+  const n = p.time_yr.length;
+  if (t_yr >= p.time_yr[n - 1]) return scale * p.airOffset_K[n - 1];
+  for (let j = 1; j < n; j++) {
+    if (t_yr <= p.time_yr[j]) {
+      const f = (t_yr - p.time_yr[j - 1]) / (p.time_yr[j] - p.time_yr[j - 1]);
+      return scale * (p.airOffset_K[j - 1] + f * (p.airOffset_K[j] - p.airOffset_K[j - 1]));
+    }
+  }
+  return 0;
+}
+
 /**
- * Latent-heat delay of thaw at depth z, yr: the quasi-steady Stefan front under a surface excess rising
- * at b reaches z a time z·√(L/(k_t·b)) after the conduction wave brings z to 0 °C
- * (layers/physics/years-to-thaw.ts). Infinity for b ≤ 0.
+ * The cell's surface-warming history (step 4): the scenario's pathway when it has one (its air offsets
+ * through the n-factor transfer at each knot, scaled by warming_C_per_yr / patternReference_C_per_yr
+ * under pattern scaling), else the linear surface trend surfaceWarmingRate_K_per_yr.
  */
-function latentDelay_yr(z_m: number, soil: SoilPoint, b: number): number {
-  return b > 0
-    ? (z_m * Math.sqrt(soil.latent / (soil.kThawed * (b / SECONDS_PER_YEAR)))) / SECONDS_PER_YEAR
-    : Infinity;
+function cellWarmingHistory(
+  k: CellConstants,
+  cell: CellInputs,
+  nF: number,
+  nT: number,
+  h: WarmingHistory,
+): WarmingHistory {
+  const p = k.pathway;
+  if (!p) return setLinearHistory(h, surfaceWarmingRate_K_per_yr(cell, nF, nT, k.scenario.designLife_yr));
+  const scale =
+    p.patternReference_C_per_yr === null ? 1 : cell.warming_C_per_yr / p.patternReference_C_per_yr;
+  const sensitivity = surfaceMeanSensitivity({
+    meanAirTemp_C: cell.meanAirTemp_C,
+    amplitude_C: cell.airAmplitude_C,
+    nFreeze: nF,
+    nThaw: nT,
+  });
+  return setPathwayHistory(h, p, scale, {
+    meanAirTemp_C: cell.meanAirTemp_C,
+    airAmplitude_C: cell.airAmplitude_C,
+    nFreeze: nF,
+    nThaw: nT,
+    sensitivity,
+  });
 }
 
 /**
  * Ground temperature at depth z at the end of the design life without piles, latent-aware (step 3):
- * the conduction ramp T + W(life) while it stays below 0 °C; once the ramp passes 0 °C (at t0) the
- * ground's ice must melt first, for the latent delay t_L of latentDelay_yr, the same split as the thaw
- * years: until t0 + t_L the ground sits at its freezing point, 0 °C (zero curtain, x.zeroCurtain set;
- * freezing-point depression of fine soils neglected, as in the thaw years); after it, the ramp
- * delayed by t_L, T + W(life − t_L) ≥ 0. Ground unfrozen today (T ≥ 0) keeps the conduction ramp.
- * So a cell ends its life above 0 °C exactly when its thaw year at that depth falls within the life.
+ * the conduction response T + W(life) while it stays below 0 °C; once it passes 0 °C (at t0) the
+ * ground's ice must melt first, for the latent delay t_L (surface-warming-history.ts), the same split
+ * as the thaw years: until t0 + t_L the ground sits at its freezing point, 0 °C (zero curtain,
+ * x.zeroCurtain set; freezing-point depression of fine soils neglected, as in the thaw years); after
+ * it, the response delayed by t_L, T + W(life − t_L) ≥ 0. Ground unfrozen today (T ≥ 0) keeps the
+ * conduction response. So a cell ends its life above 0 °C exactly when its thaw year at that depth
+ * falls within the life.
  */
 function groundTempEndOfLife_C(
   k: CellConstants,
@@ -523,26 +579,26 @@ function groundTempEndOfLife_C(
   t_C: number,
   z_m: number,
   life: number,
-  b: number,
   alphaYr: number,
 ): number {
   x.zeroCurtain = false;
-  const ramp = t_C + rampWarming_K(k.tables, z_m, life, b, alphaYr);
+  const h = x.warming;
+  const ramp = t_C + historyWarming_K(k.tables, h, z_m, life, alphaYr);
   if (!(t_C < 0) || ramp < 0) return ramp;
-  const t0 = rampTimeToRise_yr(k.tables, z_m, -t_C, b, alphaYr);
-  const tL = latentDelay_yr(z_m, x.soil, b);
+  const t0 = historyTimeToRise_yr(k.tables, h, z_m, -t_C, alphaYr, life);
+  const tL = historyLatentDelay_yr(h, t0, z_m, x.soil.latent, x.soil.kThawed);
   if (!(t0 + tL <= life)) {
     x.zeroCurtain = true;
     return 0;
   }
-  return t_C + rampWarming_K(k.tables, z_m, life - tL, b, alphaYr);
+  return t_C + historyWarming_K(k.tables, h, z_m, life - tL, alphaYr);
 }
 
 /** Temperature at the reference point minus 0 °C after t years with the piles operating. */
 function excessWithPiles(k: CellConstants, p: ThawSearch, t: number): number {
   return (
     p.tRef +
-    rampWarming_K(k.tables, p.zr, t, p.b, p.alphaYr) -
+    historyWarming_K(k.tables, p.h, p.zr, t, p.alphaYr) -
     p.cP * flsResponse(k.tables.referencePoint, p.alphaF, t * SECONDS_PER_YEAR)
   );
 }
@@ -551,7 +607,7 @@ interface ThawSearch {
   tRef: number;
   t0: number;
   cP: number;
-  b: number;
+  h: WarmingHistory;
   alphaYr: number;
   alphaF: number;
   zr: number;
@@ -569,7 +625,8 @@ function thawWithPiles(k: CellConstants, p: ThawSearch): number {
   let lo = p.t0;
   let fLo = excessWithPiles(k, p, lo);
   if (fLo >= 0) return lo;
-  let dt = Math.max(0.25, -fLo / p.b);
+  const rate = meanSurfaceRate_K_yr(p.h, Math.max(p.t0, 1));
+  let dt = rate > 0 ? Math.max(0.25, -fLo / rate) : 1;
   let hi = Math.min(p.horizon, lo + dt);
   let fHi = excessWithPiles(k, p, hi);
   while (fHi < 0) {

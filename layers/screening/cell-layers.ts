@@ -8,7 +8,7 @@ import type { ScreeningLayer } from './screening-model';
 import type { Scenario } from './scenario';
 import { BAND, METRIC_BAND_IDS, type MetricBandId } from './band-ids';
 import { BAND_REGISTRY } from './band-registry';
-import { THAW_HORIZON } from './climate-horizon';
+import { effectiveHorizonYear, THAW_HORIZON } from './climate-horizon';
 import { foundationDescriptions } from './foundation-bands';
 
 const IDS = METRIC_BAND_IDS;
@@ -35,7 +35,7 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
   const z = s.referenceDepth_m;
   const r = s.referenceRadius_m;
   const group = `${s.building.foundationPiles}-pile, ${s.building.pileSpacing_m} m spacing`;
-  const hy = s.climateHorizonYear;
+  const hy = effectiveHorizonYear(s);
   const horizon = (
     after: number[],
     atLeast: number[],

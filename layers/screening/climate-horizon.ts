@@ -14,6 +14,18 @@
  * value and the cell's flag into what every reader shows (map readouts, class card, exports).
  */
 import type { HorizonQualifier } from './screening-model';
+import type { Scenario } from './scenario';
+import { pathwayHorizonYear } from './warming-pathway';
+
+/**
+ * The climate horizon of a scenario, calendar year: climateHorizonYear, capped by the last year of the
+ * warming pathway when the scenario has one (there is no climate beyond the pathway's table).
+ */
+export function effectiveHorizonYear(s: Pick<Scenario, 'climateHorizonYear' | 'warmingPathway'>): number {
+  return s.warmingPathway
+    ? Math.min(s.climateHorizonYear, pathwayHorizonYear(s.warmingPathway))
+    : s.climateHorizonYear;
+}
 
 export const THAW_HORIZON = { within: 0, pilesAfter: 1, bothAfter: 2 } as const;
 

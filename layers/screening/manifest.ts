@@ -121,9 +121,40 @@ export const manifestSchema = z.object({
   summary: z.record(z.string(), z.unknown()).optional(),
   /** Suitability criteria behind the class band (see criterionSchema), if the model provides them. */
   criteria: z.array(criterionSchema).optional(),
+  /**
+   * A build of several scenarios (scenario-set.ts): every scenario with its manifest (path from the
+   * build's root directory; the first scenario's is the root manifest.json), its differences from the
+   * first scenario and its key figures; `current` names the scenario this manifest describes and
+   * `root` is the path from this manifest's directory back to the build's root ('' at the root).
+   */
+  scenarioSet: scenarioSetEntrySchemaList().optional(),
 });
+
+function scenarioSetEntrySchemaList() {
+  return z.object({
+    current: z.string(),
+    root: z.string(),
+    scenarios: z
+      .array(
+        z.object({
+          name: z.string(),
+          slug: z.string(),
+          manifest: z.string(),
+          /** Warming pathway label, or 'linear trend per cell'. */
+          warming: z.string(),
+          designLife_yr: z.number(),
+          horizonYear: z.number(),
+          differences: z.array(z.object({ path: z.string(), text: z.string() })),
+          /** Share of screened cells per suitability class label, and other whole-region figures. */
+          keyFigures: z.record(z.string(), z.number()),
+        }),
+      )
+      .min(1),
+  });
+}
 
 export type Manifest = z.infer<typeof manifestSchema>;
 export type Band = z.infer<typeof bandSchema>;
 export type InputSource = z.infer<typeof inputSourceSchema>;
 export type Criterion = z.infer<typeof criterionSchema>;
+export type ScenarioSetInfo = NonNullable<Manifest['scenarioSet']>;

@@ -11,6 +11,7 @@ import { z } from 'zod';
 import { DEFAULT_HEAT_PUMP_CURVE, HeatPumpCurveSchema } from '../physics/heat-pump';
 import { formatZodIssues } from '../validation-error';
 import { scenarioUncertaintySchema } from './uncertainty-schema';
+import { warmingPathwaySchema } from './warming-pathway';
 
 const pos = () => z.number().positive();
 const frac = () => z.number().gt(0).lte(1);
@@ -272,6 +273,12 @@ export const scenarioSchema = z
      * frost-susceptible soils (silt, clay, peat), K: more freezes unfrozen pockets and the active layer
      * harder and increases frost jacking (domain-notes "over-cooling"; judgement, common practice).
      */
+    /**
+     * Warming as a piecewise-linear pathway of air-temperature change against year (warming-pathway.ts),
+     * replacing the per-cell linear trend (or scaling the regional table by it, pattern scaling). Its
+     * last year caps the climate horizon. Omitted: each cell's linear trend (warming_C_per_yr grid).
+     */
+    warmingPathway: warmingPathwaySchema.optional(),
     maxOvercooling_K: z.number().min(0.1).max(30).default(2),
     /** The same for non-frost-susceptible soils (gravel, sand, bedrock), K (common practice). */
     maxOvercoolingCoarse_K: z.number().min(0.1).max(30).default(6),
@@ -318,6 +325,21 @@ export const scenarioSchema = z
         code: 'custom',
         path: ['climateHorizonYear'],
         message: `must be after startYear (${s.startYear}); received ${s.climateHorizonYear}`,
+      });
+    }
+    const wp = s.warmingPathway;
+    if (wp && !(wp.points[0].year <= s.startYear)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['warmingPathway', 'points', 0, 'year'],
+        message: `must be at or before startYear (${s.startYear}) so the change since the start is defined; received ${wp.points[0].year}`,
+      });
+    }
+    if (wp && !(wp.points[wp.points.length - 1].year > s.startYear)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['warmingPathway', 'points', wp.points.length - 1, 'year'],
+        message: `must be after startYear (${s.startYear}); received ${wp.points[wp.points.length - 1].year}`,
       });
     }
     if (s.referenceRadius_m <= s.pile.radius_m) {

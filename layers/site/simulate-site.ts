@@ -51,6 +51,7 @@ import {
   rowMaterials,
   surfaceForcing,
   type InitialState,
+  climateTrend,
 } from './site-setup';
 
 export interface SimulateSiteOptions {
@@ -163,7 +164,7 @@ export function simulateSite(
         nFreeze: 1,
         nThaw: 1,
         time_s,
-        trend: { kind: 'linear', rate_C_per_yr: c.warming_C_per_yr },
+        trend: climateTrend(c),
         coldestDay: c.coldestDay,
       });
     siteLoop = createSiteLoop(input, meshes.pile, pileRows, air);

@@ -154,14 +154,30 @@ interface ClimateIn {
   meanAirTemp_C: number;
   amplitude_C: number;
   warming_C_per_yr: number;
+  warmingPathway?: { time_yr: number; airWarming_K: number }[];
   nThaw: number;
   nFreeze: number;
 }
 
 export function climateRules(climate: ClimateIn, years: number, ctx: Ctx): void {
-  const drift = climate.warming_C_per_yr * years;
-  const coldAir = climate.meanAirTemp_C - climate.amplitude_C + Math.min(0, drift);
-  const warmAir = climate.meanAirTemp_C + climate.amplitude_C + Math.max(0, drift);
+  const path = climate.warmingPathway;
+  if (path) {
+    for (let i = 1; i < path.length; i++) {
+      if (!(path[i].time_yr > path[i - 1].time_yr)) {
+        add(
+          ctx,
+          ['climate', 'warmingPathway', i, 'time_yr'],
+          `must be after warmingPathway[${i - 1}].time_yr (${path[i - 1].time_yr}); received ${path[i].time_yr}`,
+        );
+      }
+    }
+  }
+  const offsets = path ? path.map((p) => p.airWarming_K) : [climate.warming_C_per_yr * years];
+  const low = Math.min(0, ...offsets);
+  const high = Math.max(0, ...offsets);
+  const drift = Math.abs(low) > Math.abs(high) ? low : high;
+  const coldAir = climate.meanAirTemp_C - climate.amplitude_C + low;
+  const warmAir = climate.meanAirTemp_C + climate.amplitude_C + high;
   const cold = coldAir < 0 ? climate.nFreeze * coldAir : climate.nThaw * coldAir;
   const warm = warmAir < 0 ? climate.nFreeze * warmAir : climate.nThaw * warmAir;
   const trend = drift !== 0 ? ` after ${f3(drift)} K of trend over ${years} years` : '';

@@ -248,6 +248,25 @@ export const siteInputSchema = z
         meanAirTemp_C: num({ title: 'Mean annual air temperature', unit: '°C', min: -40, max: 20 }),
         amplitude_C: num({ title: 'Annual air amplitude', unit: 'K', min: 0, max: 40 }),
         warming_C_per_yr: num({ title: 'Air warming trend', unit: 'K/yr', min: -0.5, max: 0.5 }),
+        /**
+         * Warming pathway: air-temperature change since the start against years since the start,
+         * linearly interpolated and held after the last point (surface-forcing.ts, piecewise trend);
+         * when given it replaces warming_C_per_yr. The map's scenario pathway converted to years since
+         * its start year (layers/screening/warming-pathway.ts, pathwayKnots).
+         */
+        warmingPathway: z
+          .array(
+            z
+              .object({
+                time_yr: num({ title: 'Years since the start', unit: 'yr', min: 0, max: 500 }),
+                airWarming_K: num({ title: 'Air warming since the start', unit: 'K', min: -15, max: 25 }),
+              })
+              .strict(),
+          )
+          .min(2)
+          .max(61)
+          .optional()
+          .meta({ title: 'Warming pathway', unit: '' }),
         nThaw: num({ title: 'Thawing n-factor', unit: '', min: 0.05, max: 3 }),
         nFreeze: num({ title: 'Freezing n-factor', unit: '', min: 0.05, max: 3 }),
         coldestDay: num({ title: 'Day of coldest air', unit: 'day', min: 0, max: 365 }).default(

@@ -10,7 +10,12 @@
  * tens of metres carry the periodic state. The deepest part keeps the steady gradient.
  */
 import { soilThermalProperties } from '../physics/soil-catalogue';
-import { degreeDays, surfaceTemperature_C, SECONDS_PER_DAY } from '../physics/surface-forcing';
+import {
+  degreeDays,
+  surfaceTemperature_C,
+  SECONDS_PER_DAY,
+  type WarmingTrend,
+} from '../physics/surface-forcing';
 import { ttop_C } from '../physics/ttop';
 import { createConductionSolver } from './conduction-solver';
 import { liquidFractionAt, materialTable, type GroundMaterial, type MaterialTable } from './ground-enthalpy';
@@ -192,6 +197,19 @@ export function buildMeshes(input: SiteInput, ground: SiteGround): SiteMeshes {
 }
 
 /**
+ * The air-warming trend of a site's climate: its warming pathway when given (piecewise, offsets since
+ * the start), else the linear trend warming_C_per_yr.
+ */
+export function climateTrend(c: SiteInput['climate']): WarmingTrend {
+  return c.warmingPathway
+    ? {
+        kind: 'piecewise',
+        points: c.warmingPathway.map((p) => ({ year: p.time_yr, offset_C: p.airWarming_K })),
+      }
+    : { kind: 'linear', rate_C_per_yr: c.warming_C_per_yr };
+}
+
+/**
  * Surface temperature function of the input's climate (with its warming trend), °C. The surface-warming
  * transfer shared with the per-cell model (surface-forcing.ts): the trend is added to the air, then the
  * n-factors act (nFactorTransfer_C), so the surface mean warms by surfaceMeanWarming_K, about
@@ -199,7 +217,7 @@ export function buildMeshes(input: SiteInput, ground: SiteGround): SiteMeshes {
  */
 export function surfaceForcing(input: SiteInput, withTrend: boolean): (time_s: number) => number {
   const c = input.climate;
-  const trend = withTrend ? { kind: 'linear' as const, rate_C_per_yr: c.warming_C_per_yr } : undefined;
+  const trend = withTrend ? climateTrend(c) : undefined;
   return (time_s: number) =>
     surfaceTemperature_C({
       meanAirTemp_C: c.meanAirTemp_C,

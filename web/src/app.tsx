@@ -39,6 +39,8 @@ import { FictionalNotice, ScreeningCaution } from './panels/caution-notes';
 import { HoverReadout, type HoverState } from './panels/hover-readout';
 import { uncertainClassOf } from './panels/ensemble-ranges';
 import { SitePanel } from './site/site-panel';
+import { ScenarioPicker } from './panels/scenario-picker';
+import { currentScenarioName, currentScenarioSlug, scenarioBase } from './data/scenario-urls';
 
 const DATA_BASE = new URL('data/', document.baseURI);
 const NO_RINGS: [number, number][][] = [];
@@ -49,11 +51,28 @@ const METRES_PER_DEGREE = 111_320;
 export function App() {
   const [atlas, setAtlas] = useState<Atlas | null>(null);
   const [error, setError] = useState<{ message: string; issues: string[] } | null>(null);
-  useEffect(() => {
-    loadAtlas(DATA_BASE).then(setAtlas, (e: unknown) =>
+  const fail = useCallback(
+    (e: unknown) =>
       setError({ message: (e as Error).message, issues: e instanceof AtlasLoadError ? e.issues : [] }),
-    );
-  }, []);
+    [],
+  );
+  useEffect(() => {
+    // A link may name a scenario of a scenario-set build (?scenario=<slug>): open that one.
+    const wanted = new URLSearchParams(window.location.search).get('scenario');
+    loadAtlas(DATA_BASE).then((root) => {
+      const base = wanted ? scenarioBase(root.manifest, DATA_BASE, wanted) : null;
+      if (!base || wanted === currentScenarioSlug(root.manifest)) setAtlas(root);
+      else loadAtlas(base).then(setAtlas, fail);
+    }, fail);
+  }, [fail]);
+  const pickScenario = useCallback(
+    (slug: string) => {
+      if (!atlas) return;
+      const base = scenarioBase(atlas.manifest, atlas.dataBase, slug);
+      if (base) loadAtlas(base).then(setAtlas, fail);
+    },
+    [atlas, fail],
+  );
   if (error) {
     return (
       <main className="load-error" role="alert">
@@ -71,7 +90,8 @@ export function App() {
     );
   }
   if (!atlas) return <main className="loading">Loading the map data…</main>;
-  return <Dashboard atlas={atlas} />;
+  // Keyed by scenario: switching remounts the dashboard, which takes the view, layer and filters from the URL.
+  return <Dashboard key={atlas.dataBase.href} atlas={atlas} onPickScenario={pickScenario} />;
 }
 
 function initialState(atlas: Atlas): { state: ViewState; problems: string[]; hasView: boolean } {
@@ -98,7 +118,7 @@ function initialState(atlas: Atlas): { state: ViewState; problems: string[]; has
   return { ...parsed, hasView: state.center !== defaults.center && state.zoom !== defaults.zoom };
 }
 
-function Dashboard({ atlas }: { atlas: Atlas }) {
+function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (slug: string) => void }) {
   const { manifest } = atlas;
   const init = useMemo(() => initialState(atlas), [atlas]);
   const [urlProblems, setUrlProblems] = useState<string[]>(init.problems);
@@ -183,8 +203,11 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
       selection: selection ? [selection.lon, selection.lat] : null,
       sort,
     });
-    window.history.replaceState(null, '', `${window.location.pathname}?${q}`);
-  }, [bandId, units, opacity, filter, linkedBoundary, selection, sort]);
+    const slug = currentScenarioSlug(manifest);
+    const sc =
+      slug && manifest.scenarioSet?.scenarios[0].slug !== slug ? `&scenario=${encodeURIComponent(slug)}` : '';
+    window.history.replaceState(null, '', `${window.location.pathname}?${q}${sc}`);
+  }, [bandId, units, opacity, filter, linkedBoundary, selection, sort, manifest]);
   useEffect(() => writeUrl(), [writeUrl]);
 
   const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
@@ -268,6 +291,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
       name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, shortlist.length + 1),
       origin: 'map',
       values: cellValues(table, manifest.bands, selection.index),
+      metrics: { scenario: currentScenarioName(manifest) },
     });
   };
 
@@ -277,6 +301,7 @@ function Dashboard({ atlas }: { atlas: Atlas }) {
         <h1>
           Pile Atlas <span className="muted">· {manifest.region.name}</span>
         </h1>
+        <ScenarioPicker manifest={manifest} onPick={onPickScenario} />
         <FictionalNotice fictional={manifest.fictional} notice={manifest.notice} />
         <span className="caution-pill" title={SCREENING_CAUTION}>
           Screening estimate, not a design

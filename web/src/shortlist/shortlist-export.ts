@@ -88,6 +88,16 @@ export function exportProperties(
     p.fictionalData = `${FICTIONAL_DATA_NOTICE}${extra}`;
   }
   p.scenario = manifest.scenario ?? null;
+  // A scenario-set build: the scenario these values come from and every scenario's region figures.
+  if (manifest.scenarioSet) {
+    p.scenarioName = manifest.scenarioSet.current;
+    p.scenarioSet = Object.fromEntries(
+      manifest.scenarioSet.scenarios.map((s) => [
+        s.name,
+        { differences: s.differences.map((d) => d.text), ...s.keyFigures },
+      ]),
+    );
+  }
   p.provenance = provenanceText(manifest);
   return p;
 }

@@ -1,0 +1,105 @@
+/**
+ * Scenario sets on the web side (issue 17 items 3 and 4): where each scenario's data lives relative to
+ * any scenario's base URL, the name the header shows, and the export properties of a site from a
+ * scenario-set build (the scenario it came from and every scenario's differences and figures); the
+ * scenario differences computed by the build (scenario-set.ts).
+ */
+import { describe, expect, it } from 'vitest';
+import { currentScenarioName, scenarioBase } from '../../web/src/data/scenario-urls';
+import { exportProperties } from '../../web/src/shortlist/shortlist-export';
+import { parseScenario } from '../../layers/screening/scenario';
+import { differenceText, scenarioDifferences, scenarioSlug } from '../../layers/screening/scenario-set';
+import type { Manifest } from '../../layers/screening/manifest';
+import { testManifest } from './web-test-manifest';
+
+const scenarios = [
+  {
+    name: 'Present trend',
+    slug: 'present-trend',
+    manifest: 'manifest.json',
+    warming: 'linear trend per cell',
+    designLife_yr: 30,
+    horizonYear: 2100,
+    differences: [],
+    keyFigures: { 'share good': 0.2, cellsScreened: 100 },
+  },
+  {
+    name: 'High, 50 yr',
+    slug: 'high-50-yr',
+    manifest: 'scenarios/high-50-yr/manifest.json',
+    warming: 'high pathway (illustrative)',
+    designLife_yr: 50,
+    horizonYear: 2100,
+    differences: [{ path: 'designLife_yr', text: 'designLife_yr: 50 (first scenario: 30)' }],
+    keyFigures: { 'share good': 0.1, cellsScreened: 100 },
+  },
+];
+const setManifest = (current: string, root: string): Manifest =>
+  testManifest({ scenarioSet: { current, root, scenarios } });
+
+describe('scenario URLs and names', () => {
+  it('resolves every scenario from the root and from a sub-scenario', () => {
+    const rootBase = new URL('http://x/data/');
+    const subBase = new URL('http://x/data/scenarios/high-50-yr/');
+    expect(scenarioBase(setManifest('Present trend', ''), rootBase, 'high-50-yr')?.href).toBe(subBase.href);
+    expect(scenarioBase(setManifest('High, 50 yr', '../../'), subBase, 'present-trend')?.href).toBe(
+      rootBase.href,
+    );
+    expect(scenarioBase(setManifest('Present trend', ''), rootBase, 'nope')).toBeNull();
+    expect(currentScenarioName(setManifest('High, 50 yr', '../../'))).toBe('High, 50 yr');
+    expect(currentScenarioName(testManifest({ scenario: { name: 'default' } }))).toBe('default');
+  });
+  it('exports name the scenario and carry every scenario’s differences and figures', () => {
+    const p = exportProperties(
+      {
+        id: 'a',
+        name: 'A',
+        note: '',
+        lon: 1,
+        lat: 70,
+        addedAt: '2026-12-01T00:00:00Z',
+        origin: 'map',
+        values: {},
+        metrics: { scenario: 'High, 50 yr' },
+      },
+      1,
+      setManifest('High, 50 yr', '../../'),
+    );
+    expect(p.scenarioName).toBe('High, 50 yr');
+    expect(p.metric_scenario).toBe('High, 50 yr');
+    expect(p.scenarioSet).toEqual({
+      'Present trend': { differences: [], 'share good': 0.2, cellsScreened: 100 },
+      'High, 50 yr': {
+        differences: ['designLife_yr: 50 (first scenario: 30)'],
+        'share good': 0.1,
+        cellsScreened: 100,
+      },
+    });
+    expect(String(p.cautions)).toMatch(/not a design/);
+  });
+});
+
+describe('scenario differences', () => {
+  it('lists changed fields by dotted path, pathways whole, names never', () => {
+    const a = parseScenario({ name: 'a' });
+    const b = parseScenario({
+      name: 'b',
+      designLife_yr: 50,
+      pile: { length_m: 12 },
+      warmingPathway: {
+        label: 'high',
+        points: [
+          { year: 2000, airWarming_K: 0 },
+          { year: 2100, airWarming_K: 6 },
+        ],
+      },
+    });
+    const d = scenarioDifferences(a, b);
+    expect(d.map((x) => x.path).sort()).toEqual(['designLife_yr', 'pile.length_m', 'warmingPathway']);
+    expect(differenceText(d.find((x) => x.path === 'warmingPathway')!)).toBe(
+      'warmingPathway: high (first scenario: none)',
+    );
+    expect(scenarioDifferences(a, a)).toEqual([]);
+    expect(scenarioSlug('High pathway, 50-year life')).toBe('high-pathway-50-year-life');
+  });
+});
