@@ -22,7 +22,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { mkdir, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { manifestCriteria } from '../../layers/screening/cell-screening-model';
 import { scenarioSchema, type Scenario } from '../../layers/screening/scenario';
 import {
@@ -318,7 +318,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         grid,
         files: result.files,
         layers: result.layers,
-        bandsDir,
+        // Beside the model's band files: on the shared storage when the build runs on a queue.
+        bandsDir: dirname(result.files.paths[0]),
         maskBand: 0,
         geojson,
       });
