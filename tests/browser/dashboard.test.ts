@@ -97,7 +97,8 @@ describe('dashboard', () => {
     );
     await s.page.mouse.click(c.x, c.y);
     const values = s.page.locator('[data-testid=cell-values] td');
-    await values.first().waitFor();
+    // Every band's value sits in the folded "All values" table, under the five key figures.
+    await values.first().waitFor({ state: 'attached' });
     const texts = await values.allTextContents();
     expect(texts.length).toBe(s.manifest.bands.length);
     expect(texts.filter((t) => /\d/.test(t)).length).toBeGreaterThan(s.manifest.bands.length / 2);

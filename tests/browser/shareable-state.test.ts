@@ -37,7 +37,7 @@ async function onScreen(page: Page) {
   const text = async (sel: string) =>
     (await page.locator(sel).count()) ? ((await page.locator(sel).first().textContent()) ?? '') : '';
   await page.waitForSelector('[data-testid=zone-count-cells]', { timeout: 60_000 });
-  await page.waitForSelector('[data-testid=cell-values]', { timeout: 60_000 });
+  await page.waitForSelector('[data-testid=cell-values]', { state: 'attached', timeout: 60_000 });
   const pixels = await countForegroundPixels(page, '[data-testid=map]', [
     hexRgb(SEA_COLOUR),
     hexRgb(LAND_COLOUR),
@@ -101,7 +101,7 @@ describe('shareable state', () => {
     await page.click('[data-testid=boundary-finish]');
     await page.waitForSelector('[data-testid=zone-count-cells]', { timeout: 60_000 });
     await page.mouse.click(cx + d / 3, cy - d / 4);
-    await page.waitForSelector('[data-testid=cell-values]');
+    await page.waitForSelector('[data-testid=cell-values]', { state: 'attached' });
     await page.selectOption('[data-testid=shortlist-sort]', `band:${band.id}`);
     await page.click('[aria-label="Reverse sort order"]');
     await page.waitForTimeout(300);

@@ -84,10 +84,11 @@ describe('uncertainty on the map', () => {
     );
     await s.page.mouse.click(c.x, c.y);
     const ranges = s.page.locator('[data-testid=class-card-ranges]');
-    await ranges.waitFor();
+    await ranges.waitFor({ state: 'attached' });
     const text = (await ranges.textContent()) ?? '';
     expect(text).toMatch(/Probability of success: \d+ % of the ensemble members succeed/);
     expect(text).toMatch(/P10–P90/);
+    await s.page.click('[data-testid=class-card] > summary');
     await s.page.screenshot({ path: join(s.artifactsDir, 'class-card-ranges-1280x720.png') });
   });
 

@@ -1,6 +1,6 @@
 /**
- * The clicked cell: every band's value with its unit, where it is, why it has its class, and the
- * button that puts it on the shortlist.
+ * The clicked cell: the five figures a planner decides on first (key-figures.ts), then, folded, every
+ * band's value with its unit and why it has its class, and the button that puts it on the shortlist.
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { horizonText } from '../../../layers/screening/climate-horizon';
@@ -8,6 +8,7 @@ import type { CellTable } from '../data/cell-table';
 import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
 import { ScreeningCaution } from './caution-notes';
 import { ClassCard } from './class-card';
+import { keyFigures } from './key-figures';
 
 export interface CellSelection {
   /** Row of the cell table, or -1 when the click was outside the screened cells. */
@@ -81,16 +82,30 @@ export function CellPanel(props: {
         <p>{table ? 'No screening data here (sea or outside the screened land).' : 'Loading cell data…'}</p>
       ) : (
         <>
-          <table className="values" data-testid="cell-values">
-            <tbody>
-              {manifest.bands.map((b) => (
-                <tr key={b.id}>
-                  <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
-                  <td>{bandValueText(b, values?.[b.id] ?? null, units, horizonFlagOf(b, values))}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <dl className="key-figures" data-testid="key-figures">
+            {keyFigures(manifest, values ?? {}, units).map((f) => (
+              <div key={f.key} data-testid={`key-${f.key}`}>
+                <dt>{f.label}</dt>
+                <dd>
+                  <strong>{f.value}</strong>
+                  {f.note ? <span className="muted small"> — {f.note}</span> : null}
+                </dd>
+              </div>
+            ))}
+          </dl>
+          <details className="all-values" data-testid="all-values">
+            <summary>All values ({manifest.bands.length})</summary>
+            <table className="values" data-testid="cell-values">
+              <tbody>
+                {manifest.bands.map((b) => (
+                  <tr key={b.id}>
+                    <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
+                    <td>{bandValueText(b, values?.[b.id] ?? null, units, horizonFlagOf(b, values))}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </details>
           <ClassCard manifest={manifest} values={values ?? {}} units={units} />
           <button type="button" className="primary" onClick={props.onAdd} data-testid="add-to-shortlist">
             Add to shortlist

@@ -53,7 +53,7 @@ export function ClassCard(props: {
     return v === null ? 'no data' : show(v, c.unit);
   };
   return (
-    <details className="class-card" open data-testid="class-card">
+    <details className="class-card" data-testid="class-card">
       <summary>Why this class</summary>
       {SUCCESS_BAND in values ? (
         <div className="ensemble-ranges" data-testid="class-card-ranges">

@@ -45,6 +45,7 @@ export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: 
         schema={b}
         label={label}
         unit={unit}
+        defaultValue={u.hasDefault && typeof u.defaultValue === 'number' ? u.defaultValue : undefined}
         placeholder={defaultText}
         hint={u.meta.description}
       />
@@ -64,7 +65,7 @@ export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: 
           {value === undefined ? <option value="">{defaultText ?? 'choose'}</option> : null}
           {b.options.map((o) => (
             <option key={String(o)} value={String(o)}>
-              {String(o)}
+              {humanise(String(o))}
             </option>
           ))}
         </select>

@@ -49,6 +49,12 @@ const NORTH_AMERICAN: Record<string, UnitConversion> = {
   'kW/pile': { unit: 'ton/pile', factor: 1000 / W_PER_TON, offset: 0 },
   'm/kW': { unit: 'ft/ton', factor: (FT_PER_M * W_PER_TON) / 1000, offset: 0 },
   L: { unit: 'US gal', factor: 1 / 3.785411784, offset: 0 },
+  'L/min': { unit: 'US gal/min', factor: 1 / 3.785411784, offset: 0 },
+  // Thermal resistance per length: 1 m·K/W = (1/0.3048) ft × 1.8 °F/K ÷ (3600/1055.05585262) Btu/h per W.
+  'm·K/W': { unit: 'h·ft·°F/Btu', factor: (FT_PER_M * 1.8) / BTU_H_PER_W, offset: 0 },
+  'kg/m³': { unit: 'lb/ft³', factor: 0.3048 ** 3 / 0.45359237, offset: 0 },
+  'J/m³·K': { unit: 'Btu/ft³·°F', factor: 0.3048 ** 3 / 1055.05585262 / 1.8, offset: 0 },
+  'J/m³': { unit: 'Btu/ft³', factor: 0.3048 ** 3 / 1055.05585262, offset: 0 },
   'L/yr': { unit: 'US gal/yr', factor: 1 / 3.785411784, offset: 0 },
   kg: { unit: 'lb', factor: 1 / 0.45359237, offset: 0 },
   't/yr': { unit: 'short ton/yr', factor: 1000 / 0.45359237 / 2000, offset: 0 },
