@@ -111,6 +111,8 @@ export function estimateBuild(o: {
   threads: number;
   inputWidthMax: number;
   geotiff: boolean;
+  /** Inputs warped onto the analysis grid as raw Float32 files (GDAL reader): 4 B x cells each. */
+  alignedInputs?: number;
 }): BuildEstimate {
   const cells = o.width * o.height;
   const perThread =
@@ -128,7 +130,8 @@ export function estimateBuild(o: {
     tileCount += across(o.width) * across(o.height);
   }
   const tiles = tileCount * o.bands * 256 * 256 * 2 + 16 * MB;
-  const diskBytes = bandFiles + (o.geotiff ? bandFiles : 0) + tiles;
+  const aligned = (o.alignedInputs ?? 0) * cells * 4;
+  const diskBytes = bandFiles + (o.geotiff ? bandFiles : 0) + tiles + aligned;
   return { memoryBytes, diskBytes };
 }
 

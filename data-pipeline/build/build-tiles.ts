@@ -41,7 +41,9 @@ import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
-import { loadInputs } from './load-inputs';
+import { loadInputs, type InputReader } from './load-inputs';
+import { alignInputs, gdalTransformTo } from './align-inputs';
+import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 
 export interface BuildOptions {
@@ -66,6 +68,11 @@ export interface BuildOptions {
   geotiff?: boolean;
   /** Limits checked before reading and writing (default: defaultBudget()). */
   budget?: Partial<BuildBudget>;
+  /**
+   * 'gdal' (default): inputs read and warped by GDAL. 'legacy': the earlier hand-written GeoTIFF reader
+   * and resampler, kept only so bench/pipeline.bench.ts can time both in one run.
+   */
+  reader?: InputReader;
 }
 
 export interface BuildSummary {
@@ -129,12 +136,24 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const { model, spec, name: modelName } = resolveModel(options);
   const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
 
-  const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
+  const reader = options.reader ?? 'gdal';
+  const { config, inputs, geojson } = await loadInputs(
+    inDir,
+    (d, t) => progress('read', d, t),
+    budget,
+    reader,
+  );
   await faultPoint('read', inDir);
+  const toAnalysis = reader === 'gdal' ? await gdalTransformTo(ANALYSIS_CRS) : undefined;
   const grid = analysisGridFor(
     inputs
       .filter((i) => i.role.required)
-      .map((i) => ({ label: i.entry.file, grid: i.source.grid, validBox: i.source.validBox })),
+      .map((i) => ({
+        label: i.entry.file,
+        grid: i.source.grid,
+        validBox: i.source.validBox,
+        ...(toAnalysis && i.source.gdal ? { toAnalysis: toAnalysis(i.source.gdal.srsWkt) } : {}),
+      })),
     cellSize_m,
   );
   const threads = options.workers ?? Math.min(8, availableParallelism());
@@ -152,6 +171,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         threads,
         inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
         geotiff: options.geotiff !== false,
+        alignedInputs: reader === 'gdal' ? inputs.length : 0,
       }),
     },
     budget,
@@ -163,6 +183,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     await faultPoint(next, target);
   };
   try {
+    const alignedDir = join(output.dir, '.inputs');
+    if (reader === 'gdal') await alignInputs(inputs, grid, alignedDir, (d, t) => progress('warp', d, t));
     await enter('screen', output.dir);
     const bandsDir = join(output.dir, '.bands');
     const result = await computeLayers({
@@ -242,6 +264,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
     });
     await rm(bandsDir, { recursive: true, force: true });
+    await rm(alignedDir, { recursive: true, force: true });
     const seconds = (Date.now() - started) / 1000;
     const summary = {
       cellsTotal: result.cellsTotal,
@@ -264,7 +287,14 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       maxZoom,
       parameters: {
         cellSize_m,
-        resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
+        resampling:
+          reader === 'gdal'
+            ? {
+                library: 'GDAL gdalwarp (WebAssembly)',
+                class: 'near',
+                continuous: 'bilinear over valid pixels',
+              }
+            : { class: 'nearest', continuous: 'bilinear over valid neighbours' },
         overviews: { class: 'mode', continuous: 'mean' },
         model: modelName,
         ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),

@@ -150,6 +150,9 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     label: i.source.label,
     nodata: i.source.nodata,
     unit: i.entry.unit,
+    scale: i.source.scale,
+    offset: i.source.offset,
+    ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
   }));
   const echoRoles = echoLayers.map((l) => l.id as GridRoleId);
   const windows: [number, number][] = [];

@@ -465,7 +465,8 @@ const CASES: Case[] = [
     culprit: [/bedrock-depth\.tif/, /CRS cannot be read/, /user-defined/],
   },
   {
-    name: 'a grid in an unsupported CRS',
+    // A code PROJ's database does not hold (EPSG:2154 and every other code GDAL knows is accepted).
+    name: 'a grid in a CRS unknown to the PROJ database',
     setup: (d) =>
       replaceFile(
         d,
@@ -474,10 +475,10 @@ const CASES: Case[] = [
           ModelPixelScale: [4000, 4000, 0],
           ModelTiepoint: [0, 0, 0, 600000, 6000000, 0],
           GTModelTypeGeoKey: 1,
-          ProjectedCSTypeGeoKey: 2154,
+          ProjectedCSTypeGeoKey: 29999,
         }),
       ),
-    culprit: [/bedrock-depth\.tif/, /unsupported CRS EPSG:2154/],
+    culprit: [/bedrock-depth\.tif/, /unsupported CRS EPSG:29999/, /PROJ database/],
   },
   {
     name: 'a grid with a zero pixel size',
