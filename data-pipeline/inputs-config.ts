@@ -115,6 +115,16 @@ export const inputsConfigSchema = z
     licence: z.string(),
     settlements: z.string().optional(),
     land: z.string().optional(),
+    /** Limits for this region's builds (command-line options override them). */
+    budget: z
+      .strictObject({
+        maxInputMb: z.number().positive().optional(),
+        maxCells: z.number().int().positive().optional(),
+        maxMemoryMb: z.number().positive().optional(),
+        maxDiskMb: z.number().positive().optional(),
+        minLatitude_deg: z.number().min(-90).max(90).optional(),
+      })
+      .optional(),
     grids: z.array(gridEntrySchema).min(1),
   })
   .superRefine((config, ctx) => {

@@ -111,3 +111,23 @@ export function analysisGridFor(
     geoTransform: [west, cellSize_m, 0, north, 0, -cellSize_m],
   };
 }
+
+/** Latitudes of 64 points along each side of the grid's outline (degrees; NaN where off the Earth). */
+export function outlineLatitudes(
+  grid: AnalysisGrid,
+  toLonLat: BatchTransform = legacyTransform(grid.crs, 'EPSG:4326'),
+): number[] {
+  const [x0, dx, , y0, , dy] = grid.geoTransform;
+  const pts: number[] = [];
+  const steps = 64;
+  for (let i = 0; i <= steps; i++) {
+    const t = i / steps;
+    const x = x0 + t * grid.width * dx;
+    const y = y0 + t * grid.height * dy;
+    pts.push(x, y0, x, y0 + grid.height * dy, x0, y, x0 + grid.width * dx, y);
+  }
+  const ll = toLonLat(Float64Array.from(pts));
+  const out: number[] = [];
+  for (let i = 1; i < ll.length; i += 2) out.push(Math.abs(ll[i]) <= 90 ? ll[i] : NaN);
+  return out;
+}

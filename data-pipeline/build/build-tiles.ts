@@ -33,10 +33,10 @@ import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-g
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
-import { analysisGridFor } from './analysis-grid';
+import { analysisGridFor, outlineLatitudes } from './analysis-grid';
 import { assembleManifest, bandFor, bandStatsOf, classShares } from './assemble-manifest';
 import { beginAtomicOutput, recoverOutput } from './atomic-output';
-import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from './build-budget';
+import { checkBuildBudget, checkLatitudeRange, estimateBuild, type BuildBudget } from './build-budget';
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { closeBandFds, openBandFds, readBandRows } from './band-files';
@@ -129,7 +129,6 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const { inDir, outDir, onProgress } = options;
   const cellSize_m = options.cellSize_m ?? 1000;
   const progress = (stage: string, done: number, total: number) => onProgress?.({ stage, done, total });
-  const budget: BuildBudget = { ...defaultBudget(), ...options.budget };
   // A build killed earlier may have left a swap half done: put the previous output back first.
   recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
@@ -137,10 +136,10 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
 
   const reader = options.reader ?? 'gdal';
-  const { config, inputs, geojson } = await loadInputs(
+  const { config, inputs, geojson, budget } = await loadInputs(
     inDir,
     (d, t) => progress('read', d, t),
-    budget,
+    options.budget,
     reader,
   );
   await faultPoint('read', inDir);
@@ -156,6 +155,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       })),
     cellSize_m,
   );
+  checkLatitudeRange({ ...grid, latitudes: outlineLatitudes(grid) }, budget);
   const threads = options.workers ?? Math.min(8, availableParallelism());
   checkBuildBudget(
     {

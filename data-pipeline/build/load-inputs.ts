@@ -31,7 +31,7 @@ import { openGeoTiffGrid, readGridWindow, type GridHeader } from '../read/read-g
 import { openRaster, type RasterInput } from '../read/open-raster';
 import { loadGdal } from '../gdal/gdal-wasm';
 import { readBandRows } from './band-files';
-import { defaultBudget, type BuildBudget } from './build-budget';
+import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
 
 /** Which reader opens the inputs: GDAL (default) or the earlier hand-written GeoTIFF reader. */
 export type InputReader = 'gdal' | 'legacy';
@@ -284,10 +284,12 @@ async function scanInputGdal(
 export async function loadInputs(
   inDir: string,
   onGrid?: (done: number, total: number) => void,
-  budget: BuildBudget = defaultBudget(),
+  overrides: Partial<BuildBudget> = {},
   reader: InputReader = 'gdal',
 ) {
   const config = await readInputsConfig(inDir);
+  // Defaults, then the inputs config's budget, then the caller's (command-line) options.
+  const budget: BuildBudget = { ...defaultBudget(), ...budgetFromConfig(config.budget), ...overrides };
   const geojson: LoadedInputs['geojson'] = {};
   if (config.settlements)
     geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
@@ -307,5 +309,7 @@ export async function loadInputs(
   } finally {
     if (scratch) await rm(scratch, { recursive: true, force: true });
   }
-  return { config, configFile: INPUTS_CONFIG_FILE, inputs, geojson } satisfies LoadedInputs;
+  return { config, configFile: INPUTS_CONFIG_FILE, inputs, geojson, budget } satisfies LoadedInputs & {
+    budget: BuildBudget;
+  };
 }

@@ -581,6 +581,20 @@ const CASES: Case[] = [
     culprit: [/analysis grid/, /over the budget of 100 cells/, /--max-cells/],
   },
   {
+    // The demo region spans about 73.6-76.4°N.
+    name: 'an analysis grid reaching south of the latitude limit (--min-latitude 76)',
+    setup: async (d) => ['--in', d, '--out', outDir, '--min-latitude', '76'],
+    culprit: [/analysis grid/, /reaches 7\d\.\d°N, south of the limit 76°N/, /--min-latitude/],
+  },
+  {
+    name: 'an analysis grid over the cell budget of the inputs config (budget.maxCells 100)',
+    setup: async (d) => {
+      await editConfig(d, (c) => ((c as { budget?: object }).budget = { maxCells: 100 }));
+      return ['--in', d, '--out', outDir];
+    },
+    culprit: [/analysis grid/, /over the budget of 100 cells/],
+  },
+  {
     name: 'a build over the memory budget (--max-memory-mb 1)',
     setup: async (d) => ['--in', d, '--out', outDir, '--max-memory-mb', '1'],
     culprit: [/memory/, /--max-memory-mb/],
