@@ -1,12 +1,15 @@
 /**
- * `npx tsx bench/calibration.ts [n] [seed] [--workers k]`: calibrate the per-cell screening model against
- * the site simulator on a seeded sample spanning the demo region's inputs (bench/cell-calibration.ts)
- * and write tests/fixtures/calibration.json (regenerated only on purpose; never edited by hand).
- * About 6 s per simulated cell on one core (196 years, 7-day steps, standard mesh; 167 of the 200
- * cells are simulated, 1046 CPU-s in all); `--workers k` splits the cells over k child processes
- * (default 2, 9 min wall; each cell is independent, so the result does not depend on k).
+ * `npx tsx bench/calibration.ts [n] [seed] [--workers k] [--bracket m]`: calibrate the per-cell screening
+ * model against the site simulator on a seeded sample spanning the demo region's inputs
+ * (bench/cell-calibration.ts: absolute values, the model's one-pile form against the simulator's pile,
+ * each carrying one pile's share of the standard building, from the start year to the climate horizon)
+ * and write tests/fixtures/calibration.json (regenerated only on purpose; never edited by hand). The
+ * first m cells (default 5, one per texture) also get the group bracket (isolated and endless-field
+ * simulated pile against the model's 4 × 4 group). About 8 s per simulated cell on one loaded core
+ * (75 years, 7-day steps, standard mesh); `--workers k` splits the cells over k child processes (default
+ * 2; each cell is independent, so the result does not depend on k).
  * tests/unit/screening-calibration.test.ts checks the committed distribution against the documented
- * bounds and re-runs a seeded subset live.
+ * bounds, recomputes the model side and re-runs a seeded subset live.
  */
 import { fork } from 'node:child_process';
 import { mkdirSync, writeFileSync } from 'node:fs';
@@ -15,9 +18,9 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import {
   calibrateCell,
+  calibrationSummary,
   DEFAULT_CALIBRATION_OPTIONS,
-  errorSummary,
-  lowerBoundSummary,
+  groupBracket,
   sampleCalibrationCells,
 } from './cell-calibration';
 import { DEFAULT_SCENARIO } from '../layers/screening/scenario';
@@ -35,6 +38,11 @@ const seed = Number(argv[1] ?? 2026);
 const cells = sampleCalibrationCells(n, seed);
 const r4 = (x: number | null) => (x === null || !Number.isFinite(x) ? null : Math.round(x * 1e4) / 1e4);
 
+const bracketCells = Number(flag('--bracket') ?? 5);
+
+const roundFigures = <T extends object>(f: T): T =>
+  Object.fromEntries(Object.entries(f).map(([k, v]) => [k, typeof v === 'number' ? r4(v) : v])) as T;
+
 function calibrationRow(i: number) {
   const c = cells[i];
   const r = calibrateCell(c, DEFAULT_SCENARIO, DEFAULT_CALIBRATION_OPTIONS);
@@ -48,24 +56,9 @@ function calibrationRow(i: number) {
       waterContent_m3m3: r4(c.waterContent_m3m3),
     },
     excluded: r.excluded,
-    model: {
-      noPileThaw_yr: r4(r.model.noPileThaw_yr),
-      thawDelay_yr: r4(r.model.thawDelay_yr),
-      pilesPerTon: r4(r.model.pilesPerTon),
-      fluidDrop_K: r4(r.model.fluidDrop_K),
-    },
-    sim: {
-      noPileThaw_yr: r4(r.sim.noPileThaw_yr),
-      pileThaw_yr: r4(r.sim.pileThaw_yr),
-      thawDelay_yr: r4(r.sim.thawDelay_yr),
-      lowerBound: r.sim.lowerBound,
-      fluidDrop_K: r4(r.sim.fluidDrop_K),
-      seconds: Math.round(r.sim.seconds * 10) / 10,
-    },
-    thawComparison: r.thawComparison,
-    thawDelayError_yr: r4(r.thawDelayError_yr),
-    thawDelayOverLowerBound_yr: r4(r.thawDelayOverLowerBound_yr),
-    pileCountError: r4(r.pileCountError),
+    model: roundFigures(r.model),
+    sim: { ...roundFigures(r.sim), seconds: Math.round(r.sim.seconds * 10) / 10 },
+    bracket: i < bracketCells ? roundFigures(groupBracket(c)) : null,
   };
 }
 type Row = ReturnType<typeof calibrationRow>;
@@ -101,25 +94,13 @@ if (shard !== undefined) {
   );
   const cases = parts.flat().sort((a, b) => a.index - b.index);
   const wall_s = (performance.now() - t0) / 1000;
-  const simulated = cases.filter((c) => c.sim.fluidDrop_K !== null);
-  const values = (pick: (c: Row) => number | null) =>
-    cases.flatMap((c) => (pick(c) === null ? [] : [pick(c)!]));
   const out = {
     generatedBy: 'bench/calibration.ts',
     seed,
     n,
     options: DEFAULT_CALIBRATION_OPTIONS,
     summary: {
-      thawDelayAbsError_yr: errorSummary(values((c) => c.thawDelayError_yr)),
-      thawDelayLowerBound: lowerBoundSummary(values((c) => c.thawDelayOverLowerBound_yr)),
-      thawCoverage: {
-        simulated: simulated.length,
-        noPileThawedInRun: simulated.filter((c) => c.sim.noPileThaw_yr !== null).length,
-        twoSided: cases.filter((c) => c.thawComparison === 'two-sided').length,
-        lowerBound: cases.filter((c) => c.thawComparison === 'lower-bound').length,
-        noThawInRun: simulated.filter((c) => c.sim.noPileThaw_yr === null).length,
-      },
-      pileCountAbsRelError: errorSummary(values((c) => c.pileCountError)),
+      ...calibrationSummary(cases.map((c) => ({ ...c, cell: cells[c.index] }))),
       excluded: cases.filter((c) => c.excluded).length,
       runTime: {
         workers,

@@ -1,40 +1,52 @@
 /**
- * Calibration of the per-cell screening model against the transient site simulator (layers/site).
+ * Calibration of the per-cell screening model against the transient site simulator (layers/site),
+ * absolute values, not differences.
  *
- * For each sampled cell the model's metrics are computed, then `simulateSite` runs the same ground,
- * climate and standard pile (coaxial steel pile, the scenario's R_b), the pile extracting the
- * model's carried annual-average load with a monthly heating profile (monthly factors ∝ heating
- * degree-hours of the month's mean air temperature, mean 1), probes at the reference point and along
- * the pile. Compared:
- *  - thaw delay at the reference point: model thawDelay vs the simulator's thawDelay_yr, two-sided
- *    where the simulator thaws within the run in both cases; one-sided where only the no-pile run
- *    thaws (the simulated delay is then a lower bound, and the model's delay is only checked against
- *    it: below = certainly conservative, at or above = consistent);
- *  - pile count: piles scale with the fluid temperature drop per unit load (linearity), so the ratio
- *    (simulated drop)/(modelled drop) for the same monthly load history is the ratio of the pile count
- *    the simulator implies to the model's. The modelled drop is the three-pulse ground part without
- *    the 6-hour pulse the monthly simulator cannot resolve, plus the winter anomaly of the ground:
- *    ΔT_w + q'_a·R_ga + q'_peak-month·(R_b + R_gm).
- *    The simulated drop is the no-pile mean ground temperature along the pile (that year) minus the
- *    lowest monthly mean fluid temperature over the design life.
+ * The group as the simulator allows: the simulator is axisymmetric, one pile in a cylinder of ground, so
+ * it cannot hold the standard 4 × 4 foundation. The group enters the per-cell model only through linear
+ * superposition of finite-line-source responses (foundation-group.ts, response-tables.ts), exact for
+ * conduction and checked against the analytical field response in its own tests. The calibration
+ * therefore compares the model's *one-pile* form with the simulator's pile, each pile carrying what one
+ * pile of the standard building carries: the model run with `building.foundationPiles` = 1 and the
+ * building's heat-loss coefficient divided by the standard pile count (16), the simulator's pile
+ * extracting that model's carried load with the model's own monthly load profile. Everything that is not
+ * superposition (ground temperature, active layer, n-factors, monthly lag, pile resistance, phase change,
+ * warming, thaw at the reference point) is compared like for like. A bracket
+ * (`groupBracket`) runs the simulator's pile inside an adiabatic cylinder of the group's plan area per
+ * pile (radius s/√π, the interior pile of an endless field, the most interference the group could have)
+ * and checks that the model's 4 × 4 figure lies between the isolated and the endless-field pile.
+ *
+ * Quantities, per cell (model | simulator):
+ *  - undisturbed ground along the pile, °C: model groundTemp | no-pile probes along the pile, year 1;
+ *  - active layer, m: model activeLayer | no-pile annual thaw depth, mean of years 2–3;
+ *  - end-of-life ground at the pile's mid-depth, °C (no piles): model groundTempEnd | no-pile probe,
+ *    mean over the design life's last year;
+ *  - lowest monthly mean fluid over the design life at the model's carried load, °C: model's monthly
+ *    response (monthly-peak.ts without the 6-hour pulse the monthly simulator cannot resolve) | the
+ *    simulator's mean of inlet and outlet;
+ *  - heat per pile at the fluid limit (annual mean, W, monthly resolution: the mean fluid of the limiting
+ *    month at the limit): model monthlyPeakPerPile_W with the peak equal to the month's mean | the
+ *    simulator's carried load scaled by (ground − limit)/(ground − fluid) in its coldest-fluid month, its
+ *    own ground that month (linear in the load about the run, which is at or near the limit when the fluid
+ *    binds); piles per ton and load share follow from it (same building, same COP);
+ *  - thaw at the reference point without and with the pile, and the delay, yr, up to the scenario's
+ *    climate horizon (the simulator runs from the start year to the horizon; a thaw after it is "after").
  */
 import { simulateSite } from '../layers/site/simulate-site';
 import { createRandom } from '../data-pipeline/demo/seeded-random';
 import type { SiteInputDraft } from '../layers/site/site-input-schema';
-import { cylinderSourceGBernier } from '../layers/physics/infinite-cylinder-source';
 import { SECONDS_PER_YEAR } from '../layers/physics/surface-forcing';
 import type { CellInputs } from '../layers/screening/screening-model';
 import { TEXTURE_CODES, type TextureCode } from '../layers/screening/screening-model';
 import { buildCellConstants, soilAt } from '../layers/screening/cell-constants';
-import {
-  createKernelScratch,
-  evaluateCellMetrics,
-  pileWinterAnomaly_K,
-} from '../layers/screening/cell-kernel';
+import { createKernelScratch, evaluateCellMetrics } from '../layers/screening/cell-kernel';
 import { METRIC, METRIC_COUNT } from '../layers/screening/cell-layers';
 import { flsResponse } from '../layers/screening/response-tables';
-import { DEFAULT_SCENARIO, type Scenario } from '../layers/screening/scenario';
-
+import { monthAnomaly_K, monthlyPeakPerPile_W, MONTHS } from '../layers/screening/monthly-peak';
+import { meanFluidFromEntering_C } from '../layers/physics/fluid-temperature-convention';
+import { THAW_HORIZON } from '../layers/screening/climate-horizon';
+import { BINDING } from '../layers/screening/operating-window';
+import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../layers/screening/scenario';
 /** Demo-region input ranges (data-pipeline/demo/demo-region.ts) the sample spans. */
 export const DEMO_RANGES = {
   meanAirTemp_C: [-12.5, -3.2],
@@ -78,136 +90,172 @@ export function sampleCalibrationCells(n: number, seed: number): CellInputs[] {
 }
 
 export interface CalibrationOptions {
-  /** Simulated years (thaw delay needs thaw within the run). */
-  years: number;
   timeStep_days: number;
   fidelity: 'coarse' | 'standard' | 'fine';
+  /** Outer radius of the simulator's ground cylinder, m (adiabatic side): 20 isolated, s/√π the field. */
+  domainRadius_m: number;
 }
 
-/**
- * The simulator at its own default numerics (7-day steps, standard mesh) over 196 years: 28 × 7 years,
- * so the step is exactly 7 days (the simulator rounds the step to fit the run) and a shorter run of a
- * multiple of 7 years marches the same steps, bit for bit (the live test's re-runs rely on this: the
- * simulated thaw time is so flat near 0 °C that a 1e-4 change of the step moved one delay by 0.8 yr).
- * 200 years is the schema's longest run. Pilot on the first 20 sample cells (bench/calibration-pilot.ts,
- * 14 simulated): two-sided thaw-delay comparisons 1 at 80 yr, 7 at 120, 8 at 160, 10 at 200 (3 cells
- * do not thaw even without the pile by 200 yr). Numerical resolution of the simulated delay on those
- * cells: 28-day → 7-day steps change it by up to 0.58 yr (so a 28-day step, let alone a coarser one, is
- * not within 0.2 yr), 7 → 3.5 days by ≤ 0.10 yr on 9 of 10 cells (0.58 on one), coarse → standard mesh
- * by up to 0.87 yr. Cost about 6 s a simulated cell.
- */
+/** The simulator's own defaults (7-day steps, standard mesh, 20 m radius). */
 export const DEFAULT_CALIBRATION_OPTIONS: CalibrationOptions = {
-  years: 196,
   timeStep_days: 7,
   fidelity: 'standard',
+  domainRadius_m: 20,
 };
+
+/** The standard building's pile count the one-pile calibration divides the building by. */
+export const STANDARD_PILES = DEFAULT_SCENARIO.building.foundationPiles;
+
+/** One pile carrying one pile's share of the standard building, no neighbours (module comment). */
+export function onePileScenario(s: Scenario = DEFAULT_SCENARIO): Scenario {
+  return parseScenario({
+    ...s,
+    building: {
+      ...s.building,
+      foundationPiles: 1,
+      pileColumns: 1,
+      heatLossCoefficient_W_K: s.building.heatLossCoefficient_W_K / s.building.foundationPiles,
+    },
+  });
+}
+
+export interface CalibrationFigures {
+  groundPile_C: number | null;
+  activeLayer_m: number | null;
+  groundEnd_C: number | null;
+  lowestMeanFluid_C: number | null;
+  heatAtLimit_W: number | null;
+  pilesPerTon: number | null;
+  loadShare: number | null;
+  /** Years from the start to thaw at the reference point (null: after the climate horizon). */
+  noPileThaw_yr: number | null;
+  pileThaw_yr: number | null;
+}
 
 export interface CalibrationCase {
   cell: CellInputs;
   excluded: boolean;
-  model: {
-    /** Thaw time at the reference point without piles, yr from the start (the model's horizon caps it). */
-    noPileThaw_yr: number;
-    thawDelay_yr: number;
-    pilesPerTon: number;
-    fluidDrop_K: number;
-    carried_W_m: number;
-  };
-  sim: {
-    /** Thaw time at the reference point without and with the pile, yr from the start (null: not by the end). */
-    noPileThaw_yr: number | null;
-    pileThaw_yr: number | null;
-    thawDelay_yr: number | null;
-    lowerBound: boolean;
-    fluidDrop_K: number | null;
-    seconds: number;
-  };
-  /**
-   * How the thaw delays compare: 'two-sided' when both simulator runs thaw within the run; 'lower-bound'
-   * when only the no-pile run thaws (the simulated delay is then at least years − noPileThaw_yr);
-   * 'none' otherwise (neither thaws, or the cell is excluded).
-   */
-  thawComparison: 'two-sided' | 'lower-bound' | 'none';
-  /** model − simulator, yr ('two-sided' cases only, else null). */
-  thawDelayError_yr: number | null;
-  /**
-   * model − the simulator's lower bound, yr ('lower-bound' cases only, else null). Negative: the model
-   * is certainly below the simulated delay (conservative by at least this much); ≥ 0: consistent.
-   */
-  thawDelayOverLowerBound_yr: number | null;
-  /** simulator-implied / model pile count − 1 (null when not comparable). */
-  pileCountError: number | null;
+  model: CalibrationFigures & { carried_W_m: number; fluidBinds: boolean };
+  sim: CalibrationFigures & { seconds: number };
 }
 
 const PILE_PROBES = [1.5, 2.5, 3.5, 4.5, 5.5, 6.5, 7.5, 8.5, 9.5, 10.5];
 
-/** Monthly heating profile of the standard building (mean 1), January first (coldest mid-January). */
-export function monthlyHeatingFactors(cell: CellInputs, s: Scenario): number[] {
-  const f = Array.from({ length: 12 }, (_, mth) => {
-    const T = cell.meanAirTemp_C - cell.airAmplitude_C * Math.cos((2 * Math.PI * (mth + 0.5 - 0.5)) / 12);
-    return Math.max(0, s.building.balanceTemp_C - T);
-  });
-  const mean = f.reduce((a, b) => a + b, 0) / 12;
-  return f.map((x) => (mean > 0 ? x / mean : 1));
+const MONTH_S = SECONDS_PER_YEAR / 12;
+const finite = (x: number) => (Number.isFinite(x) ? x : null);
+
+interface ModelSide {
+  excluded: boolean;
+  figures: CalibrationCase['model'];
+  /** Monthly ground loads as factors of the annual mean, January (the coldest month) first. */
+  monthlyFactors: number[];
+  /** Mean fluid at the fluid limit, °C, and the annual-average design-peak ratio a. */
+  limitMeanFluid_C: number;
 }
 
-/** Run one calibration case (model + simulator). */
+/** The model's side of one case (module comment), for scenario `s` (the one-pile form by default). */
+export function modelSide(cell: CellInputs, s: Scenario): ModelSide {
+  const k = buildCellConstants(s);
+  const x = createKernelScratch();
+  const m = new Float64Array(METRIC_COUNT);
+  evaluateCellMetrics(cell, k, x, m);
+  const excluded = m[METRIC.exclusion] !== 0;
+  const soil = soilAt(k.soil[cell.textureClass], cell.waterContent_m3m3, createKernelScratch().soil);
+  const kF = soil.kFrozen;
+  const alphaF = kF / soil.cFrozen;
+  const H = s.pile.length_m;
+  const hp = s.heatPump;
+  const limitMean = meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating');
+  const gLife = flsResponse(k.tables.fieldMean, alphaF, s.designLife_yr * SECONDS_PER_YEAR);
+  const gMonth = flsResponse(k.tables.fieldMean, alphaF, MONTH_S);
+  const tPile = m[METRIC.groundTemp];
+  // The kernel's annual fraction a: annual mean over the design peak (its loads are fractions of it).
+  const a = x.annualFraction;
+  const fMean = Array.from(x.monthlyFraction).reduce((p, q) => p + q, 0) / MONTHS;
+  const monthlyFactors = Array.from(x.monthlyFraction, (f) => (fMean > 0 ? f / fMean : 1));
+  const surfaceAmp = s.ground.nFreeze * cell.airAmplitude_C;
+  const twoPiK = 2 * Math.PI * kF;
+  // Monthly resolution: the month's peak is its mean (no 6-hour pulse), as the simulator's months are.
+  const monthlyOnly = monthlyPeakPerPile_W(
+    {
+      groundMean_C: tPile,
+      surfaceAmplitude_C: surfaceAmp,
+      phasor: x.phasor,
+      meanFluid_C: limitMean,
+      length_m: H,
+      resistance_mK_W: s.pile.resistance_mK_W,
+      conductivity_W_mK: kF,
+      gLife,
+      gMonth,
+      gPeak: 0,
+      annualFraction: a,
+      monthlyFraction: x.monthlyFraction,
+      peakFraction: x.monthlyFraction,
+    },
+    new Float64Array(1),
+  );
+  const carried = m[METRIC.extractionCarried];
+  // Lowest monthly mean fluid at the carried load: carried·H is the annual mean, so the design-peak scale
+  // is carried·H/a and month m extracts that times f_m.
+  const peakScale_W = (carried * H) / a;
+  let lowest = Infinity;
+  for (let mo = 0; mo < MONTHS; mo++) {
+    const f = x.monthlyFraction[mo];
+    const per = (a * (gLife - gMonth) + f * gMonth) / twoPiK + f * s.pile.resistance_mK_W;
+    const tf = tPile - monthAnomaly_K(surfaceAmp, x.phasor, mo) - (peakScale_W * per) / H;
+    lowest = Math.min(lowest, tf);
+  }
+  const heatAtLimit = a * monthlyOnly;
+  const flag = m[METRIC.thawBeyondHorizon];
+  const start = s.startYear;
+  return {
+    excluded,
+    monthlyFactors,
+    limitMeanFluid_C: limitMean,
+    figures: {
+      groundPile_C: finite(tPile),
+      activeLayer_m: finite(m[METRIC.activeLayer]),
+      groundEnd_C: finite(m[METRIC.groundTempEnd]),
+      lowestMeanFluid_C: carried > 0 ? finite(lowest) : null,
+      heatAtLimit_W: finite(heatAtLimit),
+      pilesPerTon: finite(m[METRIC.pilesPerTon]),
+      loadShare: finite(m[METRIC.loadShare]),
+      noPileThaw_yr: flag === THAW_HORIZON.bothAfter ? null : finite(m[METRIC.thawYear] - start),
+      pileThaw_yr: flag === THAW_HORIZON.within ? finite(m[METRIC.thawYearPiles] - start) : null,
+      carried_W_m: carried,
+      fluidBinds: m[METRIC.bindingLimit] === BINDING.fluid,
+    },
+  };
+}
+
+/** Run one calibration case: the model's one-pile form and the simulator (module comment). */
 export function calibrateCell(
   cell: CellInputs,
-  s: Scenario = DEFAULT_SCENARIO,
+  base: Scenario = DEFAULT_SCENARIO,
   o: CalibrationOptions = DEFAULT_CALIBRATION_OPTIONS,
 ): CalibrationCase {
-  const k = buildCellConstants(s);
-  const m = new Float64Array(METRIC_COUNT);
-  evaluateCellMetrics(cell, k, createKernelScratch(), m);
-  const carried = m[METRIC.extractionCarried];
-  const excluded = m[METRIC.exclusion] !== 0;
-  const factors = monthlyHeatingFactors(cell, s);
-  // Modelled fluid drop for this monthly load history (see module comment).
-  const soil = soilAt(k.soil[cell.textureClass], cell.waterContent_m3m3, createKernelScratch().soil);
-  const alpha = soil.kFrozen / soil.cFrozen;
-  const lifeS = s.designLife_yr * SECONDS_PER_YEAR;
-  const monthS = SECONDS_PER_YEAR / 12;
-  const rGa =
-    (flsResponse(k.tables.pileMean, alpha, lifeS) - flsResponse(k.tables.pileMean, alpha, monthS)) /
-    (2 * Math.PI * soil.kFrozen);
-  const rGm = cylinderSourceGBernier((alpha * monthS) / s.pile.radius_m ** 2) / soil.kFrozen;
-  const peakFactor = Math.max(...factors);
-  const winter = pileWinterAnomaly_K({
-    surfaceAmplitude_C: s.ground.nFreeze * cell.airAmplitude_C,
-    diffusivity_m2_s: alpha,
-    top_m: s.pile.topDepth_m,
-    bottom_m: s.pile.topDepth_m + s.pile.length_m,
-  });
-  const fluidDropModel = winter + carried * rGa + carried * peakFactor * (s.pile.resistance_mK_W + rGm);
-  const model = {
-    noPileThaw_yr: m[METRIC.thawYear] - s.startYear,
-    thawDelay_yr: m[METRIC.thawDelay],
-    pilesPerTon: m[METRIC.pilesPerTon],
-    fluidDrop_K: fluidDropModel,
-    carried_W_m: carried,
+  const s = onePileScenario(base);
+  const model = modelSide(cell, s);
+  const none: CalibrationFigures = {
+    groundPile_C: null,
+    activeLayer_m: null,
+    groundEnd_C: null,
+    lowestMeanFluid_C: null,
+    heatAtLimit_W: null,
+    pilesPerTon: null,
+    loadShare: null,
+    noPileThaw_yr: null,
+    pileThaw_yr: null,
   };
-  const empty: CalibrationCase = {
-    cell,
-    excluded,
-    model,
-    sim: {
-      noPileThaw_yr: null,
-      pileThaw_yr: null,
-      thawDelay_yr: null,
-      lowerBound: false,
-      fluidDrop_K: null,
-      seconds: 0,
-    },
-    thawComparison: 'none',
-    thawDelayError_yr: null,
-    thawDelayOverLowerBound_yr: null,
-    pileCountError: null,
-  };
-  if (excluded || !(carried > 0)) return empty;
-  const texture = TEXTURE_CODES[cell.textureClass as TextureCode];
+  const carried = model.figures.carried_W_m;
+  if (model.excluded || !(carried > 0)) {
+    return { cell, excluded: model.excluded, model: model.figures, sim: { ...none, seconds: 0 } };
+  }
+  const H = s.pile.length_m;
+  const years = s.climateHorizonYear - s.startYear;
+  const midDepth_m = s.pile.topDepth_m + H / 2;
   const input: SiteInputDraft = {
-    years: o.years,
+    years,
     timeStep_days: o.timeStep_days,
     outputStep_days: 365 / 12,
     ground: {
@@ -216,8 +264,8 @@ export function calibrateCell(
           top_m: 0,
           bottom_m: 50,
           soil: {
-            texture,
-            waterContent_m3m3: Math.min(cell.waterContent_m3m3, k.soil[cell.textureClass].thetaMax),
+            texture: TEXTURE_CODES[cell.textureClass as TextureCode],
+            waterContent_m3m3: cell.waterContent_m3m3,
           },
         },
       ],
@@ -232,7 +280,7 @@ export function calibrateCell(
       nFreeze: s.ground.nFreeze,
     },
     pile: {
-      length_m: s.pile.length_m,
+      length_m: H,
       topDepth_m: s.pile.topDepth_m,
       outerDiameter_m: 2 * s.pile.radius_m,
       loop: {
@@ -245,78 +293,93 @@ export function calibrateCell(
       fluid: { name: 'propyleneGlycol', massFraction: 0.4 },
       resistance: { Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 },
     },
-    operation: { mode: 'heatRate', extraction_W: carried * s.pile.length_m, monthlyFactors: factors },
+    // The model's monthly ground loads, January (its coldest month) first; the annual mean is carried·H.
+    operation: { mode: 'heatRate', extraction_W: carried * H, monthlyFactors: model.monthlyFactors },
     probes: [
       { r_m: s.referenceRadius_m, z_m: s.referenceDepth_m },
+      { r_m: 0.5, z_m: midDepth_m },
       ...PILE_PROBES.map((z) => ({ r_m: 0.5, z_m: z })),
     ],
+    domain: { radius_m: o.domainRadius_m, depth_m: 50 },
     numerics: { fidelity: o.fidelity },
   };
   const t0 = performance.now();
   const r = simulateSite(input);
   const seconds = (performance.now() - t0) / 1000;
-  // Simulated fluid drop: lowest monthly mean fluid over the design life vs that year's ground.
+  const alongPile = r.noPile.probes.slice(2);
+  const monthMean = (probes: typeof alongPile, i: number) =>
+    probes.reduce((acc, p) => acc + p.T_C[i], 0) / probes.length;
+  const yearMean = (T: number[], y: number) => T.slice(12 * y, 12 * y + 12).reduce((p, q) => p + q, 0) / 12;
+  const groundPile =
+    Array.from({ length: 12 }, (_, i) => monthMean(alongPile, i)).reduce((p, q) => p + q, 0) / 12;
+  const al = r.noPile.annualThawDepth_m;
+  const life = Math.round(s.designLife_yr);
+  // Lowest monthly mean fluid over the design life, and the no-pile ground along the pile that month.
+  let lowest = Infinity;
+  let at = -1;
   const fl = r.fluid;
-  let fluidDrop: number | null = null;
   if (fl) {
-    let worst = Infinity;
-    let worstMonth = -1;
-    const months = Math.min(fl.month_yr.length, s.designLife_yr * 12);
+    const months = Math.min(fl.month_yr.length, life * 12);
     for (let i = 0; i < months; i++) {
       const a = fl.inlet_C[i];
       const b = fl.outlet_C[i];
       if (a === null || b === null) continue;
-      const mean = 0.5 * (a + b);
-      if (mean < worst) {
-        worst = mean;
-        worstMonth = i;
+      if (0.5 * (a + b) < lowest) {
+        lowest = 0.5 * (a + b);
+        at = i;
       }
-    }
-    if (worstMonth >= 0) {
-      const y0 = Math.floor(worstMonth / 12) * 12;
-      const probes = r.noPile.probes.slice(1);
-      let sum = 0;
-      let n = 0;
-      for (const p of probes) {
-        for (let i = y0; i < y0 + 12 && i < p.T_C.length; i++) {
-          sum += p.T_C[i];
-          n++;
-        }
-      }
-      fluidDrop = sum / n - worst;
     }
   }
-  const simDelay = r.thawDelay_yr[0];
-  const lowerBound = r.thawDelayIsLowerBound[0];
-  const noPileThaw = r.noPile.probes[0].thawYear;
-  const pileThaw = r.withPile ? r.withPile.probes[0].thawYear : null;
-  const modelFinite = Number.isFinite(model.thawDelay_yr);
-  const thawComparison: CalibrationCase['thawComparison'] =
-    !modelFinite || simDelay === null || noPileThaw === null
-      ? 'none'
-      : lowerBound
-        ? 'lower-bound'
-        : pileThaw !== null
-          ? 'two-sided'
-          : 'none';
-  return {
-    cell,
-    excluded,
-    model,
-    sim: {
-      noPileThaw_yr: noPileThaw,
-      pileThaw_yr: pileThaw,
-      thawDelay_yr: simDelay,
-      lowerBound,
-      fluidDrop_K: fluidDrop,
-      seconds,
-    },
-    thawComparison,
-    thawDelayError_yr: thawComparison === 'two-sided' ? model.thawDelay_yr - (simDelay as number) : null,
-    thawDelayOverLowerBound_yr:
-      thawComparison === 'lower-bound' ? model.thawDelay_yr - (simDelay as number) : null,
-    pileCountError: fluidDrop !== null && fluidDropModel > 0 ? fluidDrop / fluidDropModel - 1 : null,
+  let heatAtLimit: number | null = null;
+  if (at >= 0) {
+    const ground = monthMean(alongPile, at);
+    // Linear in the load about this run: the load that brings this month's mean fluid to the limit.
+    heatAtLimit = (carried * H * (ground - model.limitMeanFluid_C)) / (ground - lowest);
+  }
+  const ratio =
+    heatAtLimit !== null && model.figures.heatAtLimit_W ? heatAtLimit / model.figures.heatAtLimit_W : null;
+  const ref = (c: typeof r.noPile | null) => (c ? c.probes[0].thawYear : null);
+  const horizonOnly = (t: number | null) => (t !== null && t <= years ? t : null);
+  const sim: CalibrationCase['sim'] = {
+    groundPile_C: groundPile,
+    activeLayer_m: al.length >= 3 ? 0.5 * (al[1] + al[2]) : null,
+    groundEnd_C:
+      r.noPile.probes[1].T_C.length >= 12 * life ? yearMean(r.noPile.probes[1].T_C, life - 1) : null,
+    lowestMeanFluid_C: at >= 0 ? lowest : null,
+    heatAtLimit_W: heatAtLimit,
+    // Same building and COP: piles scale inversely with the heat per pile at the limit.
+    pilesPerTon: ratio && model.figures.pilesPerTon !== null ? model.figures.pilesPerTon / ratio : null,
+    // The load share moves with the heat at the limit only where the fluid binds it.
+    loadShare:
+      ratio && model.figures.loadShare !== null
+        ? model.figures.fluidBinds
+          ? Math.min(1, model.figures.loadShare * ratio)
+          : model.figures.loadShare
+        : null,
+    noPileThaw_yr: horizonOnly(ref(r.noPile)),
+    pileThaw_yr: horizonOnly(ref(r.withPile)),
+    seconds,
   };
+  return { cell, excluded: false, model: model.figures, sim };
+}
+
+/**
+ * Group bracket for one cell: the model's 4 × 4 heat per pile at the fluid limit against the simulator's
+ * isolated pile (20 m cylinder) and the interior pile of an endless field (adiabatic cylinder of the
+ * group's plan area per pile, radius spacing/√π). Returns the three heats, W.
+ */
+export function groupBracket(
+  cell: CellInputs,
+  base: Scenario = DEFAULT_SCENARIO,
+  o: Omit<CalibrationOptions, 'domainRadius_m'> = DEFAULT_CALIBRATION_OPTIONS,
+): { modelGroup_W: number | null; simIsolated_W: number | null; simField_W: number | null } {
+  const group = modelSide(cell, base).figures.heatAtLimit_W;
+  const isolated = calibrateCell(cell, base, { ...o, domainRadius_m: 20 }).sim.heatAtLimit_W;
+  const field = calibrateCell(cell, base, {
+    ...o,
+    domainRadius_m: base.building.pileSpacing_m / Math.sqrt(Math.PI),
+  }).sim.heatAtLimit_W;
+  return { modelGroup_W: group, simIsolated_W: isolated, simField_W: field };
 }
 
 /**
@@ -343,28 +406,82 @@ export function errorSummary(xs: number[]): {
   };
 }
 
-/**
- * One-sided thaw-delay figures over the 'lower-bound' cases (the simulator's with-pile run had not thawed
- * by the end of the run), from model − bound: how many model delays fall below the bound (the model
- * is certainly conservative there) and how many at or above it (consistent with the simulator, not
- * checkable further), with the median and largest shortfall below the bound.
- */
-export function lowerBoundSummary(overBound_yr: number[]): {
-  n: number;
-  belowBound: number;
-  atOrAboveBound: number;
-  medianShortfall_yr: number;
-  maxShortfall_yr: number;
-} {
-  const short = overBound_yr
-    .filter((d) => d < 0)
-    .map((d) => -d)
-    .sort((p, q) => p - q);
+/** Signed model − simulator errors of one case, per quantity (null: not comparable). */
+export function caseErrors(c: CalibrationCase): Record<CalibrationQuantity, number | null> {
+  const m = c.model;
+  const r = c.sim;
+  const diff = (a: number | null, b: number | null) => (a === null || b === null ? null : a - b);
+  const rel = (a: number | null, b: number | null) =>
+    a === null || b === null || b === 0 ? null : a / b - 1;
+  const bothWithin =
+    m.noPileThaw_yr !== null && r.noPileThaw_yr !== null && m.pileThaw_yr !== null && r.pileThaw_yr !== null;
   return {
-    n: overBound_yr.length,
-    belowBound: short.length,
-    atOrAboveBound: overBound_yr.length - short.length,
-    medianShortfall_yr: short.length ? short[Math.ceil(0.5 * short.length) - 1] : NaN,
-    maxShortfall_yr: short.length ? short[short.length - 1] : NaN,
+    groundPile_K: diff(m.groundPile_C, r.groundPile_C),
+    activeLayer_rel: rel(m.activeLayer_m, r.activeLayer_m),
+    groundEnd_K: diff(m.groundEnd_C, r.groundEnd_C),
+    lowestMeanFluid_K: diff(m.lowestMeanFluid_C, r.lowestMeanFluid_C),
+    heatAtLimit_rel: rel(m.heatAtLimit_W, r.heatAtLimit_W),
+    pilesPerTon_rel: rel(m.pilesPerTon, r.pilesPerTon),
+    loadShare_abs: diff(m.loadShare, r.loadShare),
+    noPileThaw_yr:
+      m.noPileThaw_yr !== null && r.noPileThaw_yr !== null ? m.noPileThaw_yr - r.noPileThaw_yr : null,
+    thawDelay_yr: bothWithin
+      ? (m.pileThaw_yr as number) -
+        (m.noPileThaw_yr as number) -
+        ((r.pileThaw_yr as number) - (r.noPileThaw_yr as number))
+      : null,
+  };
+}
+
+export const CALIBRATION_QUANTITIES = [
+  'groundPile_K',
+  'activeLayer_rel',
+  'groundEnd_K',
+  'lowestMeanFluid_K',
+  'heatAtLimit_rel',
+  'pilesPerTon_rel',
+  'loadShare_abs',
+  'noPileThaw_yr',
+  'thawDelay_yr',
+] as const;
+export type CalibrationQuantity = (typeof CALIBRATION_QUANTITIES)[number];
+
+/** Thaw within the climate horizon: do model and simulator agree on "within" / "after", per run? */
+export function thawAgreement(cases: CalibrationCase[]): {
+  n: number;
+  noPileAgree: number;
+  pileAgree: number;
+} {
+  const sim = cases.filter((c) => !c.excluded && c.sim.seconds > 0);
+  const agree = (a: number | null, b: number | null) => (a === null) === (b === null);
+  return {
+    n: sim.length,
+    noPileAgree: sim.filter((c) => agree(c.model.noPileThaw_yr, c.sim.noPileThaw_yr)).length,
+    pileAgree: sim.filter((c) => agree(c.model.pileThaw_yr, c.sim.pileThaw_yr)).length,
+  };
+}
+
+/** errorSummary of every quantity, over all cases and per texture code. */
+export function calibrationSummary(cases: CalibrationCase[]) {
+  const pick = (cs: CalibrationCase[], q: CalibrationQuantity) =>
+    cs.flatMap((c) => {
+      const e = caseErrors(c)[q];
+      return e === null || !Number.isFinite(e) ? [] : [e];
+    });
+  const per = (cs: CalibrationCase[]) =>
+    Object.fromEntries(CALIBRATION_QUANTITIES.map((q) => [q, errorSummary(pick(cs, q))])) as Record<
+      CalibrationQuantity,
+      ReturnType<typeof errorSummary>
+    >;
+  const textures = [...new Set(cases.map((c) => c.cell.textureClass))].sort((a, b) => a - b);
+  return {
+    all: per(cases),
+    byTexture: Object.fromEntries(
+      textures.map((t) => [
+        TEXTURE_CODES[t as TextureCode],
+        per(cases.filter((c) => c.cell.textureClass === t)),
+      ]),
+    ),
+    thaw: thawAgreement(cases),
   };
 }

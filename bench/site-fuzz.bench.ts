@@ -2,7 +2,7 @@
  * Site simulator fuzz (issue 16 item 7, issue 20 items 5–6): seeded schema-valid short runs drawn from
  * the schema's own limits (tests/unit/site-input-arbitrary.ts), counted by outcome. The unit suite runs
  * the same property on fewer inputs (tests/unit/site-schema-simulator.property.test.ts); this is the
- * nightly size. `SITE_FUZZ_RUNS` (default 3000 schema-valid runs), `SITE_FUZZ_SEED` (default 20),
+ * nightly size. `SITE_FUZZ_RUNS` (default 10,000 schema-valid runs), `SITE_FUZZ_SEED` (default 20),
  * `SITE_FUZZ_YEARS` (default 1). Prints the counts and the first examples of every failing outcome.
  */
 import fc from 'fast-check';
@@ -48,7 +48,7 @@ export function classifySiteRun(draft: unknown): { outcome: FuzzOutcome; message
 }
 
 export async function run(): Promise<void> {
-  const runs = Number(process.env.SITE_FUZZ_RUNS ?? 3000);
+  const runs = Number(process.env.SITE_FUZZ_RUNS ?? 10_000);
   const seed = Number(process.env.SITE_FUZZ_SEED ?? 20);
   const years = Number(process.env.SITE_FUZZ_YEARS ?? 1);
   const drafts = fc.sample(siteDraftArbitrary({ years }), { numRuns: runs * 12, seed });

@@ -6,9 +6,16 @@
  * Wall time and process CPU time are both printed: on a shared machine the CPU time is the fairer one.
  * Also printed: the solver's work per time step (passes of forward and back substitution, where two
  * right-hand sides solved in one pass count once; right-hand sides; band rows re-factored).
+ * Side by side in the same run: the simulator as it was before the converged phase-change scheme (commit
+ * OLD_DEFAULT_COMMIT, taken from git into .cache/ and imported there; skipped with a note when git or the
+ * commit is missing), its own defaults (0.5 K freezing interval, one lagged pass at the phase change), on
+ * the same input, alternating old and new runs so load changes hit both.
  */
-import { readFileSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { siteInputSchema } from '../layers/site/site-input-schema';
 import { simulateSite } from '../layers/site/simulate-site';
 
@@ -24,6 +31,31 @@ function streamingBaseline(): number {
   }
   if (!(a[0] > 0)) throw new Error('baseline failed');
   return n / (best / 1000); // element updates per second
+}
+
+/** Last commit before the converged enthalpy iteration (issue 20): the old default scheme. */
+export const OLD_DEFAULT_COMMIT = 'a39c4c7';
+
+/** The old simulator's `simulateSite`, extracted from git into .cache/ (null when that is impossible). */
+async function oldSimulator(): Promise<null | ((input: unknown) => { mesh: { timeSteps: number } })> {
+  const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+  const dir = join(root, '.cache', `site-${OLD_DEFAULT_COMMIT}`);
+  try {
+    if (!existsSync(join(dir, 'layers', 'site', 'simulate-site.ts'))) {
+      mkdirSync(dir, { recursive: true });
+      const tar = execFileSync('git', ['-C', root, 'archive', OLD_DEFAULT_COMMIT, 'layers'], {
+        maxBuffer: 1 << 28,
+      });
+      execFileSync('tar', ['-x', '-C', dir], { input: tar });
+    }
+    const mod = (await import(pathToFileURL(join(dir, 'layers', 'site', 'simulate-site.ts')).href)) as {
+      simulateSite: (input: unknown) => { mesh: { timeSteps: number } };
+    };
+    return mod.simulateSite;
+  } catch (e) {
+    console.log(`old default not available (${e instanceof Error ? e.message.split('\n')[0] : e}); skipped`);
+    return null;
+  }
 }
 
 function timed<T>(f: () => T): { value: T; wall_ms: number; cpu_ms: number } {
@@ -85,6 +117,20 @@ export async function run(): Promise<void> {
   console.log(
     `ratio baseline / simulator:              ${(baseline / (cellUpdates / (warm.cpu_ms / 1000))).toFixed(0)}`,
   );
+  const old = await oldSimulator();
+  if (old) {
+    const oldRuns: number[] = [];
+    const newRuns: number[] = [];
+    for (let i = 0; i < 4; i++) {
+      oldRuns.push(timed(() => old(raw)).cpu_ms);
+      newRuns.push(timed(() => simulateSite(input)).cpu_ms);
+    }
+    const best = (xs: number[]) => Math.min(...xs.slice(1));
+    console.log(
+      `side by side, warm best of 3 (cpu): old default (${OLD_DEFAULT_COMMIT}) ${best(oldRuns).toFixed(0)} ms, ` +
+        `current ${best(newRuns).toFixed(0)} ms, ratio ${(best(newRuns) / best(oldRuns)).toFixed(2)}`,
+    );
+  }
   const coarseInput = siteInputSchema.parse({ ...raw, numerics: { fidelity: 'coarse' } });
   const coarse = timed(() => simulateSite(coarseInput));
   const cm = coarse.value.mesh;

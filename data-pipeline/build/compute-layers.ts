@@ -9,7 +9,8 @@
  * `inputFlags`, a bit mask of the optional inputs that fell back to a default.
  */
 import type { ScreeningLayer, ScreeningModel } from '../../layers/screening/screening-model';
-import { TEXTURE_CODES } from '../../layers/screening/screening-model';
+import { BAND, INPUT_ECHO_BAND_IDS } from '../../layers/screening/band-ids';
+import { BAND_REGISTRY } from '../../layers/screening/band-registry';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import type { AnalysisGrid } from './analysis-grid';
 import { createBandFiles, type BandFiles } from './band-files';
@@ -27,40 +28,15 @@ import {
 
 export { INPUT_FLAG_BITS };
 
-const continuousEcho = (
-  id: GridRoleId,
-  title: string,
-  unit: string,
-  ramp: string,
-  legend: [number, number],
-): ScreeningLayer => ({
-  id,
-  title,
-  unit,
-  kind: 'continuous',
-  ramp,
-  legendMin: legend[0],
-  legendMax: legend[1],
-  description: `${title} (input grid, bilinear resampling).`,
-  source: 'input grid (see sources)',
+/**
+ * The echo bands with the input grid behind each: the grid role of the same id, except depth to bedrock,
+ * echoed under the model's band id (band-ids.ts INPUT_ECHO_BAND_IDS).
+ */
+const ECHO_LAYERS: { layer: ScreeningLayer; role: GridRoleId }[] = INPUT_ECHO_BAND_IDS.map((id) => {
+  const { unitNA: _na, description = '', source = '', ...entry } = BAND_REGISTRY[id];
+  const role: GridRoleId = id === BAND.bedrockDepth ? 'bedrockDepth_m' : id;
+  return { layer: { id, ...entry, description, source }, role };
 });
-
-const ECHO_LAYERS: ScreeningLayer[] = [
-  {
-    id: 'textureClass',
-    title: 'Soil texture class',
-    unit: '',
-    kind: 'class',
-    classes: Object.entries(TEXTURE_CODES).map(([value, label]) => ({ value: Number(value), label })),
-    description: 'Dominant soil texture of the cell (input grid, nearest neighbour).',
-    source: 'input grid (see sources)',
-  },
-  continuousEcho('bedrockDepth_m', 'Depth to bedrock', 'm', 'cividis', [0, 40]),
-  continuousEcho('waterContent_m3m3', 'Volumetric water + ice content', 'm³/m³', 'viridis', [0, 1]),
-  continuousEcho('meanAirTemp_C', 'Mean annual air temperature', '°C', 'blueOrange', [-14, 2]),
-  continuousEcho('airAmplitude_C', 'Annual air temperature amplitude', 'K', 'viridis', [8, 26]),
-  continuousEcho('warming_C_per_yr', 'Air warming trend', 'K/yr', 'cividis', [0, 0.1]),
-];
 
 function flagsLayer(): ScreeningLayer {
   const names = Object.keys(INPUT_FLAG_BITS) as (keyof typeof INPUT_FLAG_BITS)[];
@@ -76,11 +52,12 @@ function flagsLayer(): ScreeningLayer {
           : missing.map((n) => `${n}: ${GRID_ROLES[n].fallback}`).join('; '),
     });
   }
+  const { title, unit, kind } = BAND_REGISTRY.inputFlags;
   return {
-    id: 'inputFlags',
-    title: 'Input fallbacks',
-    unit: '',
-    kind: 'class',
+    id: BAND.inputFlags,
+    title,
+    unit,
+    kind,
     classes,
     description: 'Which optional inputs were absent in the cell and fell back to a model or default.',
     source: 'pipeline',
@@ -134,11 +111,9 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const { grid, inputs, model, spec, bandsDir, windowRows = 32, onProgress } = options;
   const present = new Set(inputs.map((i) => i.entry.role));
   const modelIds = new Set(model.layers.map((l) => l.id));
-  // Echo an input only when the model has no layer of that name (with or without its unit suffix).
-  const echoLayers = ECHO_LAYERS.filter(
-    (l) =>
-      present.has(l.id as GridRoleId) && !modelIds.has(l.id) && !modelIds.has(l.id.replace(/_[^_]*$/, '')),
-  );
+  // Echo an input only when the model has no band of the same id (bedrockDepth: the full model's own).
+  const echoes = ECHO_LAYERS.filter((e) => present.has(e.role) && !modelIds.has(e.layer.id));
+  const echoLayers = echoes.map((e) => e.layer);
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
   const files = await createBandFiles(bandsDir, layers.length, grid.width, grid.height);
@@ -154,7 +129,7 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     offset: i.source.offset,
     ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
   }));
-  const echoRoles = echoLayers.map((l) => l.id as GridRoleId);
+  const echoRoles = echoes.map((e) => e.role);
   const windows: [number, number][] = [];
   for (let r = 0; r < grid.height; r += windowRows) windows.push([r, Math.min(grid.height, r + windowRows)]);
 

@@ -15,6 +15,7 @@
  * offending token and its position.
  */
 import { InputError } from '../input-error';
+import { BAND } from '../../layers/screening/band-ids';
 
 export interface ExpressionBand {
   id: string;
@@ -140,7 +141,7 @@ export function compileWhere(source: string, bands: ExpressionBand[]): CompiledW
       return fail(t, 'a band name, "not" or "("');
     i++;
     if (t.text === 'excluded' && !bands.some((b) => b.id === 'excluded')) {
-      const band = bands.findIndex((b) => b.id === 'exclusion');
+      const band = bands.findIndex((b) => b.id === BAND.exclusion);
       if (band < 0)
         throw new InputError(`--where: "excluded" at position ${t.pos + 1} needs an exclusion band`);
       used.add(band);

@@ -31,6 +31,8 @@ import {
   type ScreeningModel,
   type TextureCode,
 } from './screening-model';
+import { BASIC_BAND_IDS } from './band-ids';
+import { BAND_REGISTRY } from './band-registry';
 
 export interface BasicScreeningOptions {
   /** Freezing-season n-factor where no snow grid exists; default 0.5 (tundra/organic cover, reference notes §11). */
@@ -41,49 +43,11 @@ export interface BasicScreeningOptions {
   warmPermafrostBelow_C?: number;
 }
 
-export const BASIC_MODEL_LAYERS: ScreeningLayer[] = [
-  {
-    id: 'magt_C',
-    title: 'Mean annual ground temperature',
-    unit: '°C',
-    kind: 'continuous',
-    ramp: 'blueOrange',
-    legendMin: -10,
-    legendMax: 4,
-    description:
-      'Mean annual temperature at the top of permafrost (or of the ground where none), from climate and soil.',
-    source: 'TTOP model, Smith & Riseborough (1996, 2002); ground-temperature grid where given',
-  },
-  {
-    id: 'alt_m',
-    title: 'Active layer thickness',
-    unit: 'm',
-    kind: 'continuous',
-    ramp: 'viridis',
-    legendMin: 0,
-    legendMax: 4,
-    description: 'Depth of summer thaw below the surface.',
-    source:
-      'Stefan equation (e.g. Lunardini 1981, ch. 9) with Johansen conductivity and latent heat of the soil water',
-  },
-  {
-    id: 'permafrostClass',
-    title: 'Permafrost class',
-    unit: '',
-    kind: 'class',
-    classes: [
-      { value: 0, label: 'no permafrost', description: 'Mean annual ground temperature above 0 °C.' },
-      {
-        value: 1,
-        label: 'warm permafrost',
-        description: 'Between the warm threshold and 0 °C: low adfreeze strength, creep.',
-      },
-      { value: 2, label: 'cold permafrost', description: 'Below the warm threshold (default −2 °C).' },
-    ],
-    description: 'Permafrost class from the mean annual ground temperature.',
-    source: 'thresholds: common practice (warm permafrost above about −2 °C)',
-  },
-];
+/** The three layers of the basic model, from the band registry (band-registry.ts). */
+export const BASIC_MODEL_LAYERS: ScreeningLayer[] = BASIC_BAND_IDS.map((id) => {
+  const { unitNA: _na, description = '', source = '', ...entry } = BAND_REGISTRY[id];
+  return { id, ...entry, description, source };
+});
 
 interface SoilCacheEntry {
   kFrozen: number;

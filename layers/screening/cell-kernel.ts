@@ -93,6 +93,8 @@ export interface KernelScratch {
   peakMonth: Float64Array;
   /** Set by groundTempEndOfLife_C: latent heat holds the ground at 0 °C at the end of life. */
   zeroCurtain: boolean;
+  /** Annual-average ground load over the design peak, a (monthly-peak.ts; read by the calibration). */
+  annualFraction: number;
 }
 
 export function createKernelScratch(): KernelScratch {
@@ -112,6 +114,7 @@ export function createKernelScratch(): KernelScratch {
     phasor: new Float64Array(2),
     peakMonth: new Float64Array(1),
     zeroCurtain: false,
+    annualFraction: 0,
   };
 }
 
@@ -306,6 +309,7 @@ export function evaluateCellMetrics(
   const rb = s.pile.radius_m;
   const gPeak = lookup(k.tables.cylinderWall, (alphaF * PEAK_S) / (rb * rb));
   const annualFraction = avg_W * toPeak;
+  x.annualFraction = annualFraction;
   pileWavePhasor(
     { diffusivity_m2_s: alphaF, top_m: s.pile.topDepth_m, bottom_m: s.pile.topDepth_m + H },
     x.phasor,

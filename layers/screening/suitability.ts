@@ -15,6 +15,7 @@
  * cold < −3 °C, cool −3 to −1.5 °C, warm > −1.5 °C, configurable.
  */
 import type { Scenario } from './scenario';
+import { BAND } from './band-ids';
 
 /** Exclusion reason codes (band `exclusion`). */
 export const EXCLUSION = {
@@ -123,11 +124,11 @@ export function passes(value: number, c: Comparison, threshold: number): boolean
 /** The ids of the soft criteria, in score order (the hot path indexes by this order). */
 export const SOFT_CRITERIA_IDS = [
   'coldness',
-  'pilesPerTon',
-  'frozenMargin',
-  'loadShare',
-  'thawStability',
-  'fuelSaved',
+  BAND.pilesPerTon,
+  BAND.frozenMargin,
+  BAND.loadShare,
+  BAND.thawStability,
+  BAND.fuelSaved,
 ] as const;
 
 /** Hard exclusions then soft criteria of a scenario, with thresholds, units and normalised weights. */
@@ -137,7 +138,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     [
       'coldness',
       'Permafrost temperature at pile depth',
-      'groundTemp',
+      BAND.groundTemp,
       '°C',
       u.coldness.good_C,
       u.coldness.poor_C,
@@ -145,9 +146,9 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       'Colder permafrost keeps adfreeze strength and takes longer to thaw.',
     ],
     [
-      'pilesPerTon',
+      BAND.pilesPerTon,
       'Piles per ton of peak heating',
-      'pilesPerTon',
+      BAND.pilesPerTon,
       'piles/ton',
       u.pilesPerTon.good,
       u.pilesPerTon.poor,
@@ -155,9 +156,9 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       'Standard piles needed per ton (3.517 kW) of peak heating at the fluid limit.',
     ],
     [
-      'frozenMargin',
+      BAND.frozenMargin,
       'Frozen ground beyond the design life',
-      'frozenMargin',
+      BAND.frozenMargin,
       'yr',
       u.frozenMargin.good_yr,
       u.frozenMargin.poor_yr,
@@ -165,9 +166,9 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       'Years the reference ground stays frozen, with the piles operating, after the design life ends (natural margin plus thaw delay).',
     ],
     [
-      'loadShare',
+      BAND.loadShare,
       "Share of the building's heat the piles carry",
-      'loadShare',
+      BAND.loadShare,
       '',
       u.loadShare.good,
       u.loadShare.poor,
@@ -175,9 +176,9 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       'Fraction of annual heating the foundation piles supply within the operating window.',
     ],
     [
-      'thawStability',
+      BAND.thawStability,
       'Thaw stability of the ground',
-      'thawStability',
+      BAND.thawStability,
       '',
       1,
       0,
@@ -185,9 +186,9 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       'Texture and ice content: gravels and bedrock are stable, ice-rich silts and peat settle.',
     ],
     [
-      'fuelSaved',
+      BAND.fuelSaved,
       'Community fuel saved',
-      'fuelSaved',
+      BAND.fuelSaved,
       'L/yr',
       u.fuelSaved.good_L,
       u.fuelSaved.poor_L,
@@ -200,7 +201,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'data',
       title: 'Inside the data',
-      bandId: 'exclusion',
+      bandId: BAND.exclusion,
       unit: '',
       kind: 'exclusion',
       comparison: '!=',
@@ -211,7 +212,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'bedrock',
       title: 'Soil depth over bedrock',
-      bandId: 'bedrockDepth',
+      bandId: BAND.bedrockDepth,
       unit: 'm',
       kind: 'exclusion',
       comparison: '>=',
@@ -222,7 +223,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'permafrost',
       title: 'Permafrost at pile depth',
-      bandId: 'groundTemp',
+      bandId: BAND.groundTemp,
       unit: '°C',
       kind: 'exclusion',
       comparison: '<',
@@ -233,7 +234,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'thawed',
       title: 'Active layer above the reference depth',
-      bandId: 'activeLayer',
+      bandId: BAND.activeLayer,
       unit: 'm',
       kind: 'exclusion',
       comparison: '<',
@@ -244,7 +245,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
     {
       id: 'fluid',
       title: 'Fluid can extract heat',
-      bandId: 'windowUpperFluid',
+      bandId: BAND.windowUpperFluid,
       unit: 'W/m',
       kind: 'exclusion',
       comparison: '>',

@@ -201,10 +201,11 @@ describe('operating window and binding limit', () => {
     expect(m[METRIC.bindingLimit]).toBe(3);
     expect(m[METRIC.windowUpper]).toBeCloseTo(m[METRIC.windowUpperOvercool], 9);
   });
-  // Skipped (reported in the issue note): with the 4 × 4 group and the n-factored warming merged, this
-  // cell's load share is 0.55 where the test expects above 0.65; to be re-checked in the recalibration.
-  it.skip('warm permafrost with a small load: thaw binds', () => {
-    const s = parseScenario({ building: { foundationPiles: 400 } });
+  // A small load on the standard 16 piles (a 5 W/K building). Spreading a small load over many piles
+  // no longer shows it: 400 piles at 3 m cool the point between them together (group superposition),
+  // and their 0.6 W/m each clears the 0.56 W/m the ground needs; at 12 m spacing it needs 5.6 W/m again.
+  it('warm permafrost with a small load: thaw binds', () => {
+    const s = parseScenario({ building: { heatLossCoefficient_W_K: 5 } });
     const m = metrics({ groundTemp_C: -0.3, textureClass: 1, waterContent_m3m3: 0.15 }, s);
     expect(m[METRIC.windowLower]).toBeGreaterThan(m[METRIC.extractionCarried]);
     expect(m[METRIC.bindingLimit]).toBe(1);

@@ -15,7 +15,7 @@ import {
   standardDesignLoad_W,
 } from '../../web/src/site/site-prefill';
 
-const cell = { meanAirTemp_C: -6.2, textureClass: 3, waterContent_m3m3: 0.38, bedrockDepth_m: 22.4 };
+const cell = { meanAirTemp_C: -6.2, textureClass: 3, waterContent_m3m3: 0.38, bedrockDepth: 22.4 };
 
 describe('sitePrefill', () => {
   it('maps climate, soil and bedrock from the tile bands into a valid site input', () => {
@@ -56,7 +56,7 @@ describe('sitePrefill', () => {
   it('makes the whole column bedrock for a bedrock cell or bedrock at the surface', () => {
     for (const values of [
       { ...cell, textureClass: 6 },
-      { ...cell, bedrockDepth_m: 0.1 },
+      { ...cell, bedrockDepth: 0.1 },
     ]) {
       const { draft } = sitePrefill(values);
       expect(draft.ground.layers).toHaveLength(1);
@@ -134,7 +134,7 @@ describe('sitePrefill over the whole input range', () => {
             meanAirTemp_C: maat,
             textureClass: texture,
             waterContent_m3m3: water,
-            bedrockDepth_m: bedrock,
+            bedrockDepth: bedrock,
           });
           const parsed = siteInputSchema.safeParse(draft);
           expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);

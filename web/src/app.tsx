@@ -5,6 +5,7 @@
  */
 import { useCallback, useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
 import { SCREENING_CAUTION } from '../../layers/cautions';
+import { DEFAULT_MAP_BAND } from '../../layers/screening/band-registry';
 import { AtlasLoadError, loadAtlas, loadCellTable, type Atlas } from './data/load-atlas';
 import { cellIndexAt, type CellTable } from './data/cell-table';
 import { compileFilter, EMPTY_FILTER, type FilterSpec } from './filters/cell-filter';
@@ -66,7 +67,7 @@ export function App() {
 function initialState(atlas: Atlas): { state: ViewState; problems: string[]; hasView: boolean } {
   const m = atlas.manifest;
   const [w, s, e, n] = m.region.bounds;
-  const layer = m.bands.find((b) => b.id === 'suitability')?.id ?? m.bands[0].id;
+  const layer = m.bands.find((b) => b.id === DEFAULT_MAP_BAND)?.id ?? m.bands[0].id;
   const defaults: ViewState = {
     center: [(w + e) / 2, (s + n) / 2],
     zoom: m.tiles.minZoom + 1,

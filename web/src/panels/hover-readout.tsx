@@ -4,6 +4,7 @@
  * has them. Everything else is one click away in the cell panel.
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
+import { HEADLINE_BAND_IDS } from '../../../layers/screening/band-registry';
 import type { CellTable } from '../data/cell-table';
 import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
 import { bandValueText } from './cell-panel';
@@ -14,7 +15,7 @@ export interface HoverState {
   index: number;
 }
 
-const HEADLINE_BANDS = ['suitability', 'groundTemp', 'pilesPerTon', 'thawDelay'];
+const HEADLINE_BANDS: readonly string[] = HEADLINE_BAND_IDS;
 
 export function HoverReadout(props: {
   hover: HoverState | null;

@@ -11,7 +11,7 @@
  *   textureClass, waterContent_m3m3 -> ground.layers[0] = { texture, water + ice content } from the surface
  *                              down to the bedrock (water above the texture's porosity is excess ice, as
  *                              on the map; capped only at the site input's 0.95 m³/m³, with a note)
- *   bedrockDepth_m          -> ground.layers[1] = bedrock (water 0.02) from that depth to the domain bottom;
+ *   bedrockDepth            -> ground.layers[1] = bedrock (water 0.02) from that depth to the domain bottom;
  *                              a cell of bedrock texture, or bedrock within 0.2 m, is bedrock throughout
  * From the scenario (manifest.scenario, defaults of layers/screening/scenario.ts): the standard pile
  * (length, top depth, diameter), the building (design load UA·(balance − (MAAT − amplitude − margin)),
@@ -20,8 +20,19 @@
  * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
  */
 import type { SiteInputDraft } from '../../../layers/site/site-input-schema';
+import { BAND, type BandId } from '../../../layers/screening/band-ids';
 import { TEXTURE_CODES, type CellInputs, type TextureName } from '../../../layers/screening/screening-model';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../../layers/screening/scenario';
+
+/** The bands the prefill reads (each one a band every build writes: tests/pipeline/site-prefill-demo-build.test.ts). */
+export const PREFILL_BANDS: readonly BandId[] = [
+  BAND.meanAirTemp_C,
+  BAND.airAmplitude_C,
+  BAND.warming_C_per_yr,
+  BAND.textureClass,
+  BAND.waterContent_m3m3,
+  BAND.bedrockDepth,
+];
 
 /** Band values of the clicked cell (manifest band id -> SI value, null = nodata). */
 export type CellBandValues = Record<string, number | null | undefined>;
@@ -83,7 +94,7 @@ export function standardDesignLoad_W(s: Scenario, meanAirTemp_C: number, amplitu
 export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): SitePrefill {
   const s = scenarioFromManifest(scenarioRaw);
   const notes: PrefillNote[] = [];
-  const pick = (band: string, path: string, fallback: number, what: string): number => {
+  const pick = (band: BandId, path: string, fallback: number, what: string): number => {
     const v = values[band];
     if (finite(v)) return v;
     notes.push({
@@ -93,15 +104,30 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
     return fallback;
   };
   const maat = round(
-    pick('meanAirTemp_C', 'climate.meanAirTemp_C', PREFILL_FALLBACKS.meanAirTemp_C, 'Mean air temperature'),
+    pick(
+      BAND.meanAirTemp_C,
+      'climate.meanAirTemp_C',
+      PREFILL_FALLBACKS.meanAirTemp_C,
+      'Mean air temperature',
+    ),
     2,
   );
   const amp = round(
-    pick('airAmplitude_C', 'climate.amplitude_C', PREFILL_FALLBACKS.amplitude_C, 'Air temperature amplitude'),
+    pick(
+      BAND.airAmplitude_C,
+      'climate.amplitude_C',
+      PREFILL_FALLBACKS.amplitude_C,
+      'Air temperature amplitude',
+    ),
     2,
   );
   const warming = round(
-    pick('warming_C_per_yr', 'climate.warming_C_per_yr', PREFILL_FALLBACKS.warming_C_per_yr, 'Warming trend'),
+    pick(
+      BAND.warming_C_per_yr,
+      'climate.warming_C_per_yr',
+      PREFILL_FALLBACKS.warming_C_per_yr,
+      'Warming trend',
+    ),
     4,
   );
   const nFreeze = finite(values.nFreeze) ? round(values.nFreeze, 3) : s.ground.nFreeze;
@@ -110,20 +136,20 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
     : s.ground.geothermalFlux_W_m2;
 
   const code = pick(
-    'textureClass',
+    BAND.textureClass,
     'ground.layers.0.soil.texture',
     PREFILL_FALLBACKS.textureClass,
     'Soil texture',
   );
   const texture: TextureName = TEXTURE_CODES[Math.round(code) as keyof typeof TEXTURE_CODES] ?? 'silt';
   const rawWater = pick(
-    'waterContent_m3m3',
+    BAND.waterContent_m3m3,
     'ground.layers.0.soil.waterContent_m3m3',
     PREFILL_FALLBACKS.waterContent_m3m3,
     'Water + ice content',
   );
   const bedrock = pick(
-    'bedrockDepth_m',
+    BAND.bedrockDepth,
     'ground.layers.1.top_m',
     PREFILL_FALLBACKS.bedrockDepth_m,
     'Depth to bedrock',
@@ -139,7 +165,8 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   } else {
     const cap = MAX_SITE_WATER_CONTENT_M3M3;
     const water = round(Math.min(Math.max(rawWater, 0), cap), 3);
-    if (water < rawWater - 1e-9) {
+    // Compare before rounding: rounding to 3 digits is not a cap (a build's 0.1435 is not "capped").
+    if (rawWater > cap) {
       notes.push({
         path: 'ground.layers.0.soil.waterContent_m3m3',
         text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds the site input's largest water + ice content; capped at ${water}.`,

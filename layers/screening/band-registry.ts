@@ -1,0 +1,210 @@
+/**
+ * The band registry: for every band id (band-ids.ts) its title in the trade's words, its unit as stored
+ * (SI, or the North American unit the trade quotes, as piles per ton) with the unit shown in the North
+ * American display system, its kind, colour ramp, legend range and, for class bands, the classes.
+ * The pipeline writes these into the manifest (cell-layers.ts, compute-layers.ts), the web app reads
+ * titles and units from the manifest and headline bands from here, the shortlist and the CLI name
+ * bands through `BAND`. Scenario-dependent descriptions of the model bands live in cell-layers.ts.
+ *
+ * Unit `'¤/yr'`: ¤ is the scenario's currency code (cellLayers substitutes it).
+ * `unitNA` must equal what web/src/units/display-units.ts prints for `unit` in the North American
+ * system (tests/unit/band-registry.test.ts checks it).
+ */
+import { BAND_IDS, type BandId } from './band-ids';
+import { EXCLUSION_LABELS, PERMAFROST_CLASS_LABELS, SUITABILITY_LABELS } from './suitability';
+import { BINDING_LABELS } from './operating-window';
+import { THAW_HORIZON_LABELS } from './climate-horizon';
+import { TEXTURE_CODES } from '../physics/texture-codes';
+
+export interface BandClass {
+  value: number;
+  label: string;
+  description?: string;
+}
+
+export interface BandEntry {
+  /** Title in the trade's words (map legend, readout, exports). */
+  title: string;
+  /** Unit as stored in the tiles ('' for classes, scores and ratios). */
+  unit: string;
+  /** Unit shown in the North American display system. */
+  unitNA: string;
+  kind: 'continuous' | 'class';
+  ramp?: string;
+  legendMin?: number;
+  legendMax?: number;
+  classes?: BandClass[];
+  /** Description and source of bands whose text does not depend on the scenario (model bands: cell-layers.ts). */
+  description?: string;
+  source?: string;
+}
+
+const classes = (labels: Record<number, string>): BandClass[] =>
+  Object.entries(labels).map(([value, label]) => ({ value: Number(value), label }));
+
+const same = (unit: string) => ({ unit, unitNA: unit });
+const degC = { unit: '°C', unitNA: '°F' };
+const metre = { unit: 'm', unitNA: 'ft' };
+const perMetre = { unit: 'W/m', unitNA: 'Btu/h·ft' };
+const years = same('yr');
+const none = same('');
+const cont = (ramp: string, legendMin?: number, legendMax?: number) => ({
+  kind: 'continuous' as const,
+  ramp,
+  ...(legendMin !== undefined ? { legendMin } : {}),
+  ...(legendMax !== undefined ? { legendMax } : {}),
+});
+const cls = (c: BandClass[]) => ({ kind: 'class' as const, classes: c, ...none });
+const INPUT = 'input grid (see sources)';
+const echo = (title: string) => ({
+  description: `${title} (input grid, bilinear resampling).`,
+  source: INPUT,
+});
+
+/** One entry per band. */
+export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
+  suitability: { title: 'Suitability class', ...cls(classes(SUITABILITY_LABELS)) },
+  suitabilityScore: { title: 'Suitability score', ...none, ...cont('viridis', 0, 1) },
+  exclusion: { title: 'Exclusion reason', ...cls(classes(EXCLUSION_LABELS)) },
+  groundTemp: { title: 'Ground temperature at pile depth', ...degC, ...cont('blueOrange', -10, 2) },
+  groundTempEnd: {
+    title: 'Ground temperature at pile depth, end of life',
+    ...degC,
+    ...cont('blueOrange', -10, 2),
+  },
+  permafrostClassToday: { title: 'Permafrost class today', ...cls(classes(PERMAFROST_CLASS_LABELS)) },
+  permafrostClassEnd: {
+    title: 'Permafrost class, end of design life',
+    ...cls(classes(PERMAFROST_CLASS_LABELS)),
+  },
+  activeLayer: { title: 'Active layer thickness', ...metre, ...cont('cividis', 0, 4) },
+  thawYear: { title: 'Thaw year without piles', ...years, ...cont('viridis') },
+  thawYearPiles: { title: 'Thaw year with piles', ...years, ...cont('viridis') },
+  thawDelay: { title: 'Thaw delay', ...years, ...cont('viridis', 0, 50) },
+  frozenMargin: { title: 'Frozen-ground margin', ...years, ...cont('viridis', -20, 100) },
+  extractionPerPile: {
+    title: 'Sustainable extraction per pile',
+    unit: 'W',
+    unitNA: 'Btu/h',
+    ...cont('viridis'),
+  },
+  pilesPerTon: { title: 'Piles per ton of peak heating', ...same('piles/ton'), ...cont('cividis', 0, 40) },
+  windowLower: { title: 'Operating window, lower bound', ...perMetre, ...cont('viridis') },
+  windowUpper: { title: 'Operating window, upper bound', ...perMetre, ...cont('viridis') },
+  windowUpperFluid: { title: 'Fluid-limited extraction', ...perMetre, ...cont('viridis') },
+  windowUpperOvercool: { title: 'Over-cooling-limited extraction', ...perMetre, ...cont('viridis') },
+  loadShare: { title: 'Share of heating load carried', ...none, ...cont('viridis', 0, 1) },
+  extractionCarried: { title: 'Extraction carried', ...perMetre, ...cont('viridis') },
+  bindingLimit: { title: 'Binding limit', ...cls(classes(BINDING_LABELS)) },
+  seasonalCop: { title: 'Seasonal COP', ...none, ...cont('viridis', 1.5, 4) },
+  heatingDemand: { title: 'Heating demand of the standard building', ...same('kWh/yr'), ...cont('cividis') },
+  fuelSaved: { title: 'Fuel saved', unit: 'L/yr', unitNA: 'US gal/yr', ...cont('blueOrange') },
+  co2Avoided: { title: 'CO2 avoided', unit: 't/yr', unitNA: 'short ton/yr', ...cont('blueOrange') },
+  costSaved: { title: 'Cost saved', ...same('¤/yr'), ...cont('blueOrange') },
+  breakEvenCopFuel: { title: 'Break-even COP, fuel', ...none, ...cont('cividis') },
+  breakEvenCopCo2: { title: 'Break-even COP, CO2', ...none, ...cont('cividis') },
+  breakEvenCopCost: { title: 'Break-even COP, cost', ...none, ...cont('cividis') },
+  fuelIncrease: {
+    title: 'Heat pump increases fuel burn',
+    ...cls([
+      { value: 0, label: 'no' },
+      { value: 1, label: 'yes: seasonal COP below the fuel break-even' },
+    ]),
+  },
+  bedrockDepth: {
+    title: 'Depth to bedrock',
+    ...metre,
+    ...cont('cividis', 0, 40),
+    description: 'Depth to bedrock (input grid, bilinear resampling; criterion raw value).',
+    source: INPUT,
+  },
+  thawStability: { title: 'Thaw stability', ...none, ...cont('viridis', 0, 1) },
+  excessIce: { title: 'Excess ice', ...same('m³/m³'), ...cont('cividis', 0, 0.5) },
+  zeroCurtain: {
+    title: 'Zero curtain at the end of life',
+    ...cls([
+      { value: 0, label: 'no' },
+      { value: 1, label: 'yes: held at 0 °C while its ice melts' },
+    ]),
+  },
+  thawBeyondHorizon: { title: 'Thaw beyond the climate horizon', ...cls(classes(THAW_HORIZON_LABELS)) },
+
+  magt_C: {
+    title: 'Mean annual ground temperature',
+    ...degC,
+    ...cont('blueOrange', -10, 4),
+    description:
+      'Mean annual temperature at the top of permafrost (or of the ground where none), from climate and soil.',
+    source: 'TTOP model, Smith & Riseborough (1996, 2002); ground-temperature grid where given',
+  },
+  alt_m: {
+    title: 'Active layer thickness',
+    ...metre,
+    ...cont('viridis', 0, 4),
+    description: 'Depth of summer thaw below the surface.',
+    source:
+      'Stefan equation (e.g. Lunardini 1981, ch. 9) with Johansen conductivity and latent heat of the soil water',
+  },
+  permafrostClass: {
+    title: 'Permafrost class',
+    ...cls([
+      { value: 0, label: 'no permafrost', description: 'Mean annual ground temperature above 0 °C.' },
+      {
+        value: 1,
+        label: 'warm permafrost',
+        description: 'Between the warm threshold and 0 °C: low adfreeze strength, creep.',
+      },
+      { value: 2, label: 'cold permafrost', description: 'Below the warm threshold (default −2 °C).' },
+    ]),
+    description: 'Permafrost class from the mean annual ground temperature.',
+    source: 'thresholds: common practice (warm permafrost above about −2 °C)',
+  },
+
+  textureClass: {
+    title: 'Soil texture class',
+    ...cls(Object.entries(TEXTURE_CODES).map(([value, label]) => ({ value: Number(value), label }))),
+    description: 'Dominant soil texture of the cell (input grid, nearest neighbour).',
+    source: INPUT,
+  },
+  waterContent_m3m3: {
+    title: 'Volumetric water + ice content',
+    ...same('m³/m³'),
+    ...cont('viridis', 0, 1),
+    ...echo('Volumetric water + ice content'),
+  },
+  meanAirTemp_C: {
+    title: 'Mean annual air temperature',
+    ...degC,
+    ...cont('blueOrange', -14, 2),
+    ...echo('Mean annual air temperature'),
+  },
+  airAmplitude_C: {
+    title: 'Annual air temperature amplitude',
+    unit: 'K',
+    unitNA: '°F (difference)',
+    ...cont('viridis', 8, 26),
+    ...echo('Annual air temperature amplitude'),
+  },
+  warming_C_per_yr: {
+    title: 'Air warming trend',
+    unit: 'K/yr',
+    unitNA: '°F/yr',
+    ...cont('cividis', 0, 0.1),
+    ...echo('Air warming trend'),
+  },
+  inputFlags: { title: 'Input fallbacks', ...none, kind: 'class' },
+};
+
+/** The registry entry of a band id, or undefined for an id no build writes. */
+export function bandEntry(id: string): BandEntry | undefined {
+  return (BAND_IDS as readonly string[]).includes(id) ? BAND_REGISTRY[id as BandId] : undefined;
+}
+
+/**
+ * Bands the map's hover readout and the cell panel lead with, in this order (class, ground, sizing,
+ * thaw margin).
+ */
+export const HEADLINE_BAND_IDS: readonly BandId[] = ['suitability', 'groundTemp', 'pilesPerTon', 'thawDelay'];
+
+/** The band the map opens on when the manifest has it. */
+export const DEFAULT_MAP_BAND: BandId = 'suitability';
