@@ -3,8 +3,8 @@
  * read + validate inputs (load-inputs.ts) -> analysis grid in EPSG:3413 (analysis-grid.ts) -> screen
  * every cell with a ScreeningModel, in row windows across worker threads, each window's rows written to
  * one raw Float32 file per band in the temporary output (compute-layers.ts, band-files.ts) -> Web
- * Mercator tiles with overviews (write-tile-pyramid.ts) -> one GeoTIFF per band in EPSG:3413
- * (write-band-geotiff.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
+ * Mercator tiles with overviews (write-tile-pyramid.ts) -> one Cloud Optimized GeoTIFF per band in
+ * EPSG:3413 (write-band-cog.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
  * Everything is written into a temporary directory beside `outDir`, validated, then swapped in
  * (atomic-output.ts): on any error the previous output stays untouched.
  * Memory budget, independent of the region's height and of its cell count (W = analysis grid width,
@@ -29,7 +29,8 @@ import { ValidationError } from '../../layers/validation-error';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
-import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-geotiff';
+import { writeBandCog } from '../export/write-band-cog';
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
@@ -39,7 +40,6 @@ import { beginAtomicOutput, recoverOutput } from './atomic-output';
 import { checkBuildBudget, checkLatitudeRange, estimateBuild, type BuildBudget } from './build-budget';
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
-import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
 import { loadInputs, type InputReader } from './load-inputs';
 import { alignInputs, gdalTransformTo } from './align-inputs';
@@ -136,201 +136,218 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const scenario = (model as ScreeningModel & { scenario?: Record<string, unknown> }).scenario;
 
   const reader = options.reader ?? 'gdal';
-  const { config, inputs, geojson, budget } = await loadInputs(
+  const { config, inputs, geojson, budget, derivedDir } = await loadInputs(
     inDir,
     (d, t) => progress('read', d, t),
     options.budget,
     reader,
   );
-  await faultPoint('read', inDir);
-  const toAnalysis = reader === 'gdal' ? await gdalTransformTo(ANALYSIS_CRS) : undefined;
-  const grid = analysisGridFor(
-    inputs
-      .filter((i) => i.role.required)
-      .map((i) => ({
-        label: i.entry.file,
-        grid: i.source.grid,
-        validBox: i.source.validBox,
-        ...(toAnalysis && i.source.gdal ? { toAnalysis: toAnalysis(i.source.gdal.srsWkt) } : {}),
-      })),
-    cellSize_m,
-  );
-  checkLatitudeRange({ ...grid, latitudes: outlineLatitudes(grid) }, budget);
-  const threads = options.workers ?? Math.min(8, availableParallelism());
-  checkBuildBudget(
-    {
-      outDir,
-      width: grid.width,
-      height: grid.height,
+  try {
+    return await buildFromInputs();
+  } finally {
+    if (derivedDir) await rm(derivedDir, { recursive: true, force: true });
+  }
+
+  async function buildFromInputs(): Promise<BuildSummary> {
+    await faultPoint('read', inDir);
+    const toAnalysis = reader === 'gdal' ? await gdalTransformTo(ANALYSIS_CRS) : undefined;
+    const grid = analysisGridFor(
+      inputs
+        .filter((i) => i.role.required)
+        .map((i) => ({
+          label: i.entry.file,
+          grid: i.source.grid,
+          validBox: i.source.validBox,
+          ...(toAnalysis && i.source.gdal ? { toAnalysis: toAnalysis(i.source.gdal.srsWkt) } : {}),
+        })),
       cellSize_m,
-      ...estimateBuild({
+    );
+    checkLatitudeRange({ ...grid, latitudes: outlineLatitudes(grid) }, budget);
+    const threads = options.workers ?? Math.min(8, availableParallelism());
+    checkBuildBudget(
+      {
+        outDir,
         width: grid.width,
         height: grid.height,
-        bands: model.layers.length + 8,
-        inputs: inputs.length,
-        threads,
-        inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
-        geotiff: options.geotiff !== false,
-        alignedInputs: reader === 'gdal' ? inputs.length : 0,
-      }),
-    },
-    budget,
-  );
-  const output = await beginAtomicOutput(outDir);
-  let stage: FaultStage = 'screen';
-  const enter = async (next: FaultStage, target: string) => {
-    stage = next;
-    await faultPoint(next, target);
-  };
-  try {
-    const alignedDir = join(output.dir, '.inputs');
-    if (reader === 'gdal') await alignInputs(inputs, grid, alignedDir, (d, t) => progress('warp', d, t));
-    await enter('screen', output.dir);
-    const bandsDir = join(output.dir, '.bands');
-    const result = await computeLayers({
-      grid,
-      bandsDir,
-      inputs,
-      model,
-      spec,
-      workers: threads,
-      minCellsForWorkers: options.minCellsForWorkers,
-      onProgress: (d, t) => progress('screen', d, t),
-    });
-    if (result.cellsScreened === 0) {
-      throw new InputError(
-        `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
-      );
-    }
-    const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
-    const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
-    const margin = (2 * cellSize_m) / 111_000;
-    const b = result.bounds;
-    const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
-    const bounds: [number, number, number, number] = [
-      Math.max(-180, b[0] - lonMargin),
-      Math.max(-85, b[1] - margin),
-      Math.min(180, b[2] + lonMargin),
-      Math.min(85, b[3] + margin),
-    ];
-    const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
+        cellSize_m,
+        ...estimateBuild({
+          width: grid.width,
+          height: grid.height,
+          bands: model.layers.length + 8,
+          inputs: inputs.length,
+          threads,
+          inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
+          geotiff: options.geotiff !== false,
+          alignedInputs: reader === 'gdal' ? inputs.length : 0,
+        }),
+      },
+      budget,
+    );
+    const output = await beginAtomicOutput(outDir);
+    let stage: FaultStage = 'screen';
+    const enter = async (next: FaultStage, target: string) => {
+      stage = next;
+      await faultPoint(next, target);
+    };
+    try {
+      const alignedDir = join(output.dir, '.inputs');
+      if (reader === 'gdal') await alignInputs(inputs, grid, alignedDir, (d, t) => progress('warp', d, t));
+      await enter('screen', output.dir);
+      const bandsDir = join(output.dir, '.bands');
+      const result = await computeLayers({
+        grid,
+        bandsDir,
+        inputs,
+        model,
+        spec,
+        workers: threads,
+        minCellsForWorkers: options.minCellsForWorkers,
+        onProgress: (d, t) => progress('screen', d, t),
+      });
+      if (result.cellsScreened === 0) {
+        throw new InputError(
+          `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
+        );
+      }
+      const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
+      const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
+      const margin = (2 * cellSize_m) / 111_000;
+      const b = result.bounds;
+      const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
+      const bounds: [number, number, number, number] = [
+        Math.max(-180, b[0] - lonMargin),
+        Math.max(-85, b[1] - margin),
+        Math.min(180, b[2] + lonMargin),
+        Math.min(85, b[3] + margin),
+      ];
+      const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
 
-    await enter('tiles', join(output.dir, 'tiles'));
-    const tilesByZoom = await writeTilePyramid({
-      tilesDir: join(output.dir, 'tiles'),
-      grid,
-      files: result.files,
-      bands: bands.map((band) => ({ kind: band.kind, quant: band })),
-      minZoom,
-      maxZoom,
-      bounds,
-      onTile: (d, t) => progress('tiles', d, t),
-      workers: result.workers,
-    });
-    let geotiffs: Record<string, string> | undefined;
-    if (options.geotiff !== false) {
-      await enter('geotiff', join(output.dir, 'geotiff'));
-      geotiffs = {};
-      await mkdir(join(output.dir, 'geotiff'));
-      for (let i = 0; i < bands.length; i++) {
-        const file = `geotiff/${bands[i].id}.tif`;
-        const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
-        const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
-        try {
-          await writeBandGeoTiff({
+      await enter('tiles', join(output.dir, 'tiles'));
+      const tilesByZoom = await writeTilePyramid({
+        tilesDir: join(output.dir, 'tiles'),
+        grid,
+        files: result.files,
+        bands: bands.map((band) => ({ kind: band.kind, quant: band })),
+        minZoom,
+        maxZoom,
+        bounds,
+        onTile: (d, t) => progress('tiles', d, t),
+        workers: result.workers,
+      });
+      let geotiffs: Record<string, string> | undefined;
+      if (options.geotiff !== false) {
+        await enter('geotiff', join(output.dir, 'geotiff'));
+        geotiffs = {};
+        await mkdir(join(output.dir, 'geotiff'));
+        const cautions = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
+        for (let i = 0; i < bands.length; i++) {
+          const file = `geotiff/${bands[i].id}.tif`;
+          const band = bands[i];
+          await writeBandCog({
             path: join(output.dir, file),
-            readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
+            rawPath: result.files.paths[i],
             width: grid.width,
             height: grid.height,
             geoTransform: grid.geoTransform,
             crs: grid.crs,
-            description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}. Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+            band: {
+              id: band.id,
+              title: band.title,
+              unit: band.unit,
+              kind: band.kind,
+              ...(band.ramp ? { ramp: band.ramp } : {}),
+              ...(band.classes ? { classes: band.classes } : {}),
+            },
+            metadata: {
+              TITLE: `Pile Atlas: ${band.title}`,
+              CAUTION: cautions,
+              ...(config.region.fictional ? { NOTICE: FICTIONAL_DATA_NOTICE } : {}),
+              REGION: config.region.name,
+            },
           });
-        } finally {
-          closeBandFds([fd]);
+          geotiffs[band.id] = file;
+          progress('geotiff', i + 1, bands.length);
         }
-        geotiffs[bands[i].id] = file;
-        progress('geotiff', i + 1, bands.length);
       }
-    }
-    await enter('manifest', join(output.dir, 'manifest.json'));
-    // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
-    if (geojson.settlements !== undefined)
-      await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
-    if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
-    const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
-    const shares: Record<string, Record<string, number>> = {};
-    result.layers.forEach((layer, i) => {
-      if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
-    });
-    await rm(bandsDir, { recursive: true, force: true });
-    await rm(alignedDir, { recursive: true, force: true });
-    const seconds = (Date.now() - started) / 1000;
-    const summary = {
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      screenedArea_km2: Math.round((result.cellsScreened * cellSize_m * cellSize_m) / 1e6),
-      classShares: shares,
-      tiles,
-      workers: result.workers,
-      seconds,
-    };
-    const manifest = await assembleManifest({
-      config,
-      inputs,
-      grid,
-      bands,
-      bounds,
-      minZoom,
-      maxZoom,
-      parameters: {
-        cellSize_m,
-        resampling:
-          reader === 'gdal'
-            ? {
-                library: 'GDAL gdalwarp (WebAssembly)',
-                class: 'near',
-                continuous: 'bilinear over valid pixels',
-              }
-            : { class: 'nearest', continuous: 'bilinear over valid neighbours' },
-        overviews: { class: 'mode', continuous: 'mean' },
+      await enter('manifest', join(output.dir, 'manifest.json'));
+      // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
+      if (geojson.settlements !== undefined)
+        await writeFile(join(output.dir, 'settlements.geojson'), geojson.settlements);
+      if (geojson.land !== undefined) await writeFile(join(output.dir, 'land.geojson'), geojson.land);
+      const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
+      const shares: Record<string, Record<string, number>> = {};
+      result.layers.forEach((layer, i) => {
+        if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
+      });
+      await rm(bandsDir, { recursive: true, force: true });
+      await rm(alignedDir, { recursive: true, force: true });
+      const seconds = (Date.now() - started) / 1000;
+      const summary = {
+        cellsTotal: result.cellsTotal,
+        cellsScreened: result.cellsScreened,
+        cellsMissingInput: result.cellsMissingInput,
+        cellsModelNodata: result.cellsModelNodata,
+        screenedArea_km2: Math.round((result.cellsScreened * cellSize_m * cellSize_m) / 1e6),
+        classShares: shares,
+        tiles,
+        workers: result.workers,
+        seconds,
+      };
+      const manifest = await assembleManifest({
+        config,
+        inputs,
+        grid,
+        bands,
+        bounds,
+        minZoom,
+        maxZoom,
+        parameters: {
+          cellSize_m,
+          resampling:
+            reader === 'gdal'
+              ? {
+                  library: 'GDAL gdalwarp (WebAssembly)',
+                  class: 'near',
+                  continuous: 'bilinear over valid pixels',
+                }
+              : { class: 'nearest', continuous: 'bilinear over valid neighbours' },
+          overviews: { class: 'mode', continuous: 'mean' },
+          model: modelName,
+          ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
+        },
+        ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
+        summary,
+        geotiffs,
+      });
+      const checked = manifestSchema.parse(manifest);
+      await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
+      await validateOutput(output.dir, checked);
+      stage = 'swap';
+      await output.commit();
+      return {
+        outDir,
+        manifest: join(outDir, 'manifest.json'),
         model: modelName,
-        ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
-      },
-      ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
-      summary,
-      geotiffs,
-    });
-    const checked = manifestSchema.parse(manifest);
-    await writeFile(join(output.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
-    await validateOutput(output.dir, checked);
-    stage = 'swap';
-    await output.commit();
-    return {
-      outDir,
-      manifest: join(outDir, 'manifest.json'),
-      model: modelName,
-      cellsTotal: result.cellsTotal,
-      cellsScreened: result.cellsScreened,
-      cellsMissingInput: result.cellsMissingInput,
-      cellsModelNodata: result.cellsModelNodata,
-      tiles,
-      tilesByZoom,
-      minZoom,
-      maxZoom,
-      bands: bands.map((x) => x.id),
-      classShares: shares,
-      workers: result.workers,
-      seconds: (Date.now() - started) / 1000,
-      cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
-    };
-  } catch (err) {
-    await output.discard();
-    const code = (err as NodeJS.ErrnoException)?.code;
-    if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
-    throw err;
+        cellsTotal: result.cellsTotal,
+        cellsScreened: result.cellsScreened,
+        cellsMissingInput: result.cellsMissingInput,
+        cellsModelNodata: result.cellsModelNodata,
+        tiles,
+        tilesByZoom,
+        minZoom,
+        maxZoom,
+        bands: bands.map((x) => x.id),
+        classShares: shares,
+        workers: result.workers,
+        seconds: (Date.now() - started) / 1000,
+        cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
+      };
+    } catch (err) {
+      await output.discard();
+      const code = (err as NodeJS.ErrnoException)?.code;
+      if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
+      throw err;
+    }
   }
 }
 

@@ -29,6 +29,7 @@ import { resolveInputFile } from '../read/input-paths';
 import { MAX_JSON_BYTES, readJsonFile } from '../read/read-json-file';
 import { openGeoTiffGrid, readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import { openRaster, type RasterInput } from '../read/open-raster';
+import { isHdf5File, readNetcdf } from '../read/read-netcdf';
 import { loadGdal } from '../gdal/gdal-wasm';
 import { readBandRows } from './band-files';
 import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
@@ -213,13 +214,31 @@ async function scanInputGdal(
   scratch: string,
   index: number,
   inDir: string,
+  derivedDir: string,
 ): Promise<LoadedInput> {
+  const filePath = path;
+  let netcdf: Record<string, unknown> | undefined;
+  let derivedUnit: string | null | undefined;
+  if (await isHdf5File(path)) {
+    const nc = await readNetcdf(path, derivedDir, String(index), {
+      label: entry.file,
+      variable: entry.variable,
+      time: entry.time,
+      budget,
+    });
+    path = nc.vrtPath;
+    netcdf = nc.reading;
+    derivedUnit = nc.unit;
+  } else if (entry.variable || entry.time) {
+    throw new InputError(`${entry.file}: "variable" and "time" apply to NetCDF-4 files only`);
+  }
   const opened = await openRaster(path, {
     label: entry.file,
     nodataOverride: entry.nodata,
     budget,
-    insideDirs: [resolve(inDir), await realpath(inDir)],
+    insideDirs: [resolve(inDir), await realpath(inDir), resolve(derivedDir)],
   });
+  if (derivedUnit !== undefined) opened.fileUnit = derivedUnit;
   const role = GRID_ROLES[entry.role] as GridRole;
   if (opened.fileUnit && opened.fileUnit in role.units && opened.fileUnit !== entry.unit) {
     throw new InputError(
@@ -240,10 +259,11 @@ async function scanInputGdal(
     offset: opened.offset,
     gdal: {
       srsWkt: opened.srsWkt,
-      driver: opened.driver,
+      driver: netcdf ? 'netCDF' : opened.driver,
       fileUnit: opened.fileUnit,
       dataType: opened.dataType,
     },
+    ...(netcdf ? { netcdf } : {}),
   };
   const input: LoadedInput = { entry, role, source };
   const raw = join(scratch, `${index}.f32`);
@@ -276,7 +296,7 @@ async function scanInputGdal(
     await rm(raw, { force: true });
   }
   source.validBox = box[2] < 0 ? null : [box[0], box[1], box[2] + 1, box[3] + 1];
-  source.sha256 = await sha256Of(path);
+  source.sha256 = await sha256Of(filePath);
   return input;
 }
 
@@ -296,20 +316,33 @@ export async function loadInputs(
   if (config.land) geojson.land = await readGeoJsonLayer(inDir, 'land', config.land);
   const inputs: LoadedInput[] = [];
   const scratch = reader === 'gdal' ? await mkdtemp(join(tmpdir(), 'pile-atlas-scan-')) : '';
+  // Fields derived from NetCDF inputs live until the build has warped them (the caller removes it).
+  const derivedDir = reader === 'gdal' ? await mkdtemp(join(tmpdir(), 'pile-atlas-derived-')) : '';
   try {
     for (const [i, entry] of config.grids.entries()) {
       const path = await resolveInputFile(inDir, entry.file, `grids.${i}.file`, INPUTS_CONFIG_FILE);
       inputs.push(
         reader === 'gdal'
-          ? await scanInputGdal(path, entry, budget, scratch, i, inDir)
+          ? await scanInputGdal(path, entry, budget, scratch, i, inDir, derivedDir)
           : await scanInputLegacy(path, entry, budget),
       );
       onGrid?.(inputs.length, config.grids.length);
     }
+  } catch (err) {
+    if (derivedDir) await rm(derivedDir, { recursive: true, force: true });
+    throw err;
   } finally {
     if (scratch) await rm(scratch, { recursive: true, force: true });
   }
-  return { config, configFile: INPUTS_CONFIG_FILE, inputs, geojson, budget } satisfies LoadedInputs & {
+  return {
+    config,
+    configFile: INPUTS_CONFIG_FILE,
+    inputs,
+    geojson,
+    budget,
+    derivedDir,
+  } satisfies LoadedInputs & {
     budget: BuildBudget;
+    derivedDir: string;
   };
 }

@@ -208,7 +208,7 @@ describe('real-data-shaped inputs (Homolosine scaled Int16 COG, EASE-Grid 2.0, V
     // Tolerances: the storage step of each re-encoding (0.1 m for Int16 decimetres) plus a margin for
     // the second resampling at the re-encoded pixel size (2-5 km pixels against 4 km cells).
     const cases: [string, number][] = [
-      ['bedrockDepth_m', 0.06],
+      ['bedrockDepth', 0.06],
       ['waterContent_m3m3', 0.01],
       ['meanAirTemp_C', 1e-4],
       ['warming_C_per_yr', 0.001],
@@ -221,8 +221,8 @@ describe('real-data-shaped inputs (Homolosine scaled Int16 COG, EASE-Grid 2.0, V
   });
 
   it('applies the scale: mean bedrock depth within 3 % of the plain build (not 10 x too deep)', async () => {
-    const a = await band(plainDir, 'bedrockDepth_m');
-    const b = await band(realDir, 'bedrockDepth_m');
+    const a = await band(plainDir, 'bedrockDepth');
+    const b = await band(realDir, 'bedrockDepth');
     const meanOf = (v: Float32Array) => {
       let s = 0;
       let n = 0;
