@@ -149,7 +149,11 @@ export async function assembleManifest(p: ManifestParts): Promise<Manifest> {
         scale: i.source.scale,
         offset: i.source.offset,
         nodata: i.source.nodata,
-        ...(i.source.netcdf ? { netcdf: i.source.netcdf } : {}),
+        ...(i.source.netcdf
+          ? i.source.netcdf.polygons
+            ? i.source.netcdf
+            : { netcdf: i.source.netcdf }
+          : {}),
       },
     })),
     ...(p.config.settlements ? { settlements: 'settlements.geojson' } : {}),

@@ -30,6 +30,8 @@ import { MAX_JSON_BYTES, readJsonFile } from '../read/read-json-file';
 import { openGeoTiffGrid, readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import { openRaster, type RasterInput } from '../read/open-raster';
 import { isHdf5File, readNetcdf } from '../read/read-netcdf';
+import { rasterisePolygons } from '../read/rasterise-polygons';
+import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { loadGdal } from '../gdal/gdal-wasm';
 import { readBandRows } from './band-files';
 import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
@@ -219,7 +221,21 @@ async function scanInputGdal(
   const filePath = path;
   let netcdf: Record<string, unknown> | undefined;
   let derivedUnit: string | null | undefined;
-  if (await isHdf5File(path)) {
+  if (entry.attribute) {
+    const poly = await rasterisePolygons(path, derivedDir, String(index), {
+      label: entry.file,
+      attribute: entry.attribute,
+      values: entry.values,
+      layer: entry.layer,
+      srs: ANALYSIS_CRS,
+    });
+    path = poly.tif;
+    netcdf = poly.reading;
+  } else if (entry.values || entry.layer) {
+    throw new InputError(
+      `${entry.file}: "values" and "layer" apply to polygon inputs (with "attribute") only`,
+    );
+  } else if (await isHdf5File(path)) {
     const nc = await readNetcdf(path, derivedDir, String(index), {
       label: entry.file,
       variable: entry.variable,
@@ -259,7 +275,7 @@ async function scanInputGdal(
     offset: opened.offset,
     gdal: {
       srsWkt: opened.srsWkt,
-      driver: netcdf ? 'netCDF' : opened.driver,
+      driver: entry.attribute ? 'polygons' : netcdf ? 'netCDF' : opened.driver,
       fileUnit: opened.fileUnit,
       dataType: opened.dataType,
     },
