@@ -89,7 +89,8 @@ const GRIDS: SyntheticGrid[] = [
   },
 ];
 
-async function writeSyntheticInputs(dir: string): Promise<void> {
+/** Write the synthetic input grids and their inputs config into `dir` (also used by queue.bench.ts). */
+export async function writeSyntheticInputs(dir: string): Promise<void> {
   const [cx, cy] = createTransform('EPSG:4326', 'EPSG:3413')(-3, 73);
   for (const g of GRIDS) {
     const toGrid = createTransform('EPSG:3413', g.crs);

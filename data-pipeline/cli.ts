@@ -17,6 +17,7 @@ import type { Command } from './commands/command';
 import { demoDataCommand } from './commands/demo-data';
 import { siteCommand } from './commands/site';
 import { shortlistCommand } from './commands/shortlist';
+import { workerCommand } from './commands/worker';
 
 export const COMMANDS: Command[] = [
   demoDataCommand,
@@ -24,6 +25,7 @@ export const COMMANDS: Command[] = [
   cellCommand,
   siteCommand,
   shortlistCommand,
+  workerCommand,
 ];
 
 export const EXIT_OK = 0;

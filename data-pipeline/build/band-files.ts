@@ -14,6 +14,8 @@ export interface BandFiles {
   paths: string[];
   width: number;
   height: number;
+  /** First analysis-grid row the files hold (default 0: the whole grid; a queue job holds a slice). */
+  row0?: number;
 }
 
 /** Create `count` band files of `width x height` cells (sized; contents written by the screener). */

@@ -40,6 +40,7 @@ import { beginAtomicOutput, recoverOutput } from './atomic-output';
 import { checkBuildBudget, checkLatitudeRange, estimateBuild, type BuildBudget } from './build-budget';
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
+import type { BuildDistributor } from './build-distributor';
 import { computeLayers } from './compute-layers';
 import { loadInputs, type InputReader } from './load-inputs';
 import { alignInputs, gdalTransformTo } from './align-inputs';
@@ -73,6 +74,11 @@ export interface BuildOptions {
    * and resampler, kept only so bench/pipeline.bench.ts can time both in one run.
    */
   reader?: InputReader;
+  /**
+   * Run the screening windows and tile subtrees elsewhere (e.g. as jobs on a queue,
+   * data-pipeline/queue/queue-distributor.ts) instead of this process's worker threads.
+   */
+  distributor?: BuildDistributor;
 }
 
 export interface BuildSummary {
@@ -93,6 +99,8 @@ export interface BuildSummary {
   workers: number;
   seconds: number;
   cellsPerSecond: number;
+  /** Queue-backed builds: jobs run, reused from earlier builds, retried (distributor.report()). */
+  queue?: Record<string, number>;
 }
 
 function resolveModel(options: BuildOptions): { model: ScreeningModel; spec?: ModelSpec; name: string } {
@@ -203,6 +211,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         workers: threads,
         minCellsForWorkers: options.minCellsForWorkers,
         onProgress: (d, t) => progress('screen', d, t),
+        windowRunner: options.distributor?.windows,
       });
       if (result.cellsScreened === 0) {
         throw new InputError(
@@ -233,6 +242,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         bounds,
         onTile: (d, t) => progress('tiles', d, t),
         workers: result.workers,
+        subtreeRunner: options.distributor?.subtrees,
       });
       let geotiffs: Record<string, string> | undefined;
       if (options.geotiff !== false) {
@@ -281,6 +291,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
       });
       await rm(bandsDir, { recursive: true, force: true });
       await rm(alignedDir, { recursive: true, force: true });
+      await options.distributor?.cleanup();
       const seconds = (Date.now() - started) / 1000;
       const summary = {
         cellsTotal: result.cellsTotal,
@@ -341,9 +352,11 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
         workers: result.workers,
         seconds: (Date.now() - started) / 1000,
         cellsPerSecond: Math.round(result.cellsTotal / ((Date.now() - started) / 1000)),
+        ...(options.distributor ? { queue: options.distributor.report() } : {}),
       };
     } catch (err) {
       await output.discard();
+      await options.distributor?.cleanup().catch(() => undefined);
       const code = (err as NodeJS.ErrnoException)?.code;
       if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
       throw err;

@@ -17,6 +17,7 @@ import { createBandFiles, type BandFiles } from './band-files';
 import type { LoadedInput } from './load-inputs';
 import type { ModelSpec } from './model-spec';
 import { runWorkerPool } from '../worker-pool';
+import type { WindowRunner } from './build-distributor';
 import {
   createWindowScreener,
   emptyStats,
@@ -85,6 +86,8 @@ export interface ComputeOptions {
   minCellsForWorkers?: number;
   windowRows?: number;
   onProgress?: (done: number, total: number) => void;
+  /** Screens the windows elsewhere (e.g. as jobs on a queue, build/build-distributor.ts); needs `spec`. */
+  windowRunner?: WindowRunner;
 }
 
 function runPool(
@@ -116,7 +119,6 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const echoLayers = echoes.map((e) => e.layer);
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
-  const files = await createBandFiles(bandsDir, layers.length, grid.width, grid.height);
   const windowInputs: WindowInput[] = inputs.map((i) => ({
     role: i.entry.role,
     kind: i.role.kind,
@@ -130,6 +132,19 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
   }));
   const echoRoles = echoes.map((e) => e.role);
+  const runner = options.windowRunner;
+  if (runner && !spec) throw new Error('computeLayers: a window runner needs a model spec');
+  const files =
+    runner && spec
+      ? await runner.prepare({
+          spec,
+          grid,
+          inputs: windowInputs,
+          inputSha256: inputs.map((i) => i.source.sha256),
+          echoRoles,
+          bandCount: layers.length,
+        })
+      : await createBandFiles(bandsDir, layers.length, grid.width, grid.height);
   const windows: [number, number][] = [];
   for (let r = 0; r < grid.height; r += windowRows) windows.push([r, Math.min(grid.height, r + windowRows)]);
 
@@ -141,8 +156,11 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     onProgress?.(rowsDone, grid.height);
   };
   const parallel = spec && n >= (options.minCellsForWorkers ?? 400_000);
-  const workers = parallel ? Math.max(1, Math.min(options.workers ?? 1, windows.length)) : 1;
-  if (workers > 1 && spec) {
+  let workers = parallel ? Math.max(1, Math.min(options.workers ?? 1, windows.length)) : 1;
+  if (runner) {
+    await runner.run(windows, onWindow);
+    workers = runner.workers();
+  } else if (workers > 1 && spec) {
     await runPool(workers, { spec, grid, inputs: windowInputs, echoRoles, files }, windows, onWindow);
   } else {
     const screener = createWindowScreener({ grid, inputs: windowInputs, model, echoRoles, files });

@@ -4,15 +4,18 @@
  * (throw the error a full disk gives) or `error` (throw a plain Error, a stand-in for a bug). Without the
  * variable a fault point does nothing. The stages, in build order: read, screen, tiles, geotiff,
  * manifest, swap (between moving the previous output aside and renaming the new one in), swapped (after
- * both renames, before the previous output is removed).
+ * both renames, before the previous output is removed); in a queue worker: job (see WORKER_FAULT_STAGES).
  */
 export const FAULT_STAGES = ['read', 'screen', 'tiles', 'geotiff', 'manifest', 'swap', 'swapped'] as const;
 export type FaultStage = (typeof FAULT_STAGES)[number];
+/** Fault points of a queue worker (`pile-atlas worker`): `job` is inside a job, part of its output written. */
+export const WORKER_FAULT_STAGES = ['job'] as const;
+export type WorkerFaultStage = (typeof WORKER_FAULT_STAGES)[number];
 
 export const FAULT_ENV = 'PILE_ATLAS_FAULT';
 
 /** Synchronous part of a fault point: throws for `enospc` and `error`, true for `pause`. */
-function faultAt(stage: FaultStage, target: string): boolean {
+function faultAt(stage: FaultStage | WorkerFaultStage, target: string): boolean {
   const spec = process.env[FAULT_ENV];
   if (!spec) return false;
   const [at, kind] = spec.split(':');
@@ -34,6 +37,6 @@ function faultAt(stage: FaultStage, target: string): boolean {
 }
 
 /** A fault point for `stage` (`target`: the file or directory being written there). */
-export async function faultPoint(stage: FaultStage, target: string): Promise<void> {
+export async function faultPoint(stage: FaultStage | WorkerFaultStage, target: string): Promise<void> {
   if (faultAt(stage, target)) await new Promise(() => setInterval(() => undefined, 1 << 30));
 }

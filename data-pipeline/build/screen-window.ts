@@ -128,8 +128,11 @@ const ROLES = Object.keys(GRID_ROLES) as GridRoleId[];
 const REQUIRED = ROLES.filter((r) => GRID_ROLES[r].required);
 
 export interface WindowScreener {
-  /** Screen analysis rows [row0, row1) and write them into the band files. */
-  screen: (row0: number, row1: number) => Promise<WindowStats>;
+  /**
+   * Screen analysis rows [row0, row1) and write them into the band files (the context's, or `into`:
+   * files holding grid rows from `into.row0`, e.g. one queue job's output).
+   */
+  screen: (row0: number, row1: number, into?: BandFiles) => Promise<WindowStats>;
   /** Close the input files the screener opened. */
   close: () => Promise<void>;
 }
@@ -163,7 +166,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
   };
   const cellRecord = cell as unknown as Record<string, number>;
 
-  const screen = async (row0: number, row1: number) => {
+  const screen = async (row0: number, row1: number, into: BandFiles = files) => {
     const stats = emptyStats();
     const coordsByCrs = new Map<string, Float64Array>();
     const coordsFor = (crs: string) => {
@@ -177,7 +180,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
     const lonLat = coordsFor('EPSG:4326');
     const count = (row1 - row0) * grid.width;
     if (bands.length === 0 || bands[0].length !== count) {
-      bands = files.paths.map(() => new Float32Array(count));
+      bands = into.paths.map(() => new Float32Array(count));
     }
     for (const band of bands) band.fill(NaN);
     const flagsBand = bands[bands.length - 1];
@@ -231,9 +234,10 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
       if (lon > bounds[2]) bounds[2] = lon;
       if (lat > bounds[3]) bounds[3] = lat;
     }
-    const fds = openBandFds(files, 'r+');
+    const fds = openBandFds(into, 'r+');
     try {
-      for (let b = 0; b < bands.length; b++) writeBandRows(fds[b], grid.width, row0, bands[b]);
+      const at = row0 - (into.row0 ?? 0);
+      for (let b = 0; b < bands.length; b++) writeBandRows(fds[b], grid.width, at, bands[b]);
     } finally {
       closeBandFds(fds);
     }

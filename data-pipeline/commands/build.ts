@@ -7,6 +7,9 @@ import { INPUTS_CONFIG_FILE } from '../inputs-config';
 import { createProgressBar } from '../progress-bar';
 import type { Command } from './command';
 import { readJsonFile } from '../read/read-json-file';
+import { createQueueDistributor, type QueueDistributor } from '../queue/queue-distributor';
+import { parseQueueUrl } from '../queue/redis-url';
+import { sharedRoot } from '../queue/shared-storage';
 import { numberOption, parseOptions, requireOption, type ParsedOptions } from './parse-options';
 
 const MB = 1024 * 1024;
@@ -33,6 +36,13 @@ export function formatRunSummary(s: BuildSummary): string {
       `(${s.workers} worker${s.workers === 1 ? '' : 's'}, ${s.cellsPerSecond} cells/s); ` +
       `${s.tiles} tiles, zoom ${s.minZoom}-${s.maxZoom}; model: ${s.model}`,
   ];
+  if (s.queue) {
+    const q = s.queue;
+    lines.push(
+      `queue: ${q.jobs} jobs, ${q.ran} run by ${q.workers} worker process${q.workers === 1 ? '' : 'es'}, ` +
+        `${q.reused} reused from an earlier build, ${q.retried} retried`,
+    );
+  }
   if (s.cellsMissingInput > 0) lines.push(`warning: ${s.cellsMissingInput} land cells lack a required input`);
   if (s.cellsModelNodata > 0) lines.push(`warning: ${s.cellsModelNodata} cells outside the model's domain`);
   for (const [band, shares] of Object.entries(s.classShares)) {
@@ -76,6 +86,12 @@ Options:
   --max-memory-mb N   estimated memory allowed (default 3/4 of RAM, here ${Math.round(defaultBudget().maxMemoryBytes / MB)})
   --max-disk-mb N     disk the build may fill (default: the free space where --out is)
   --min-latitude D    southernmost latitude the analysis grid may reach (default ${DEFAULT_MIN_LATITUDE_DEG}°N)
+  --queue <url>       screen and tile on \`pile-atlas worker\` processes through the Redis server at
+                      redis://[:password@]host:port[/db]: windows and tile subtrees become queue jobs,
+                      a job is tried 3 times, jobs finished by an earlier build of the same inputs are
+                      reused; the output is the same, byte for byte, as a local build's
+  --shared <dir>      with --queue: shared storage every worker sees (inputs are copied there under
+                      their checksums; job outputs are written there)
   --verbose           every issue of a bad input, one per line, and stack traces of internal errors
   --help              this text
 
@@ -94,6 +110,8 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
         'max-memory-mb',
         'max-disk-mb',
         'min-latitude',
+        'queue',
+        'shared',
       ],
       flags: ['quiet', 'no-geotiff'],
     });
@@ -111,19 +129,38 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
     const scenarioFile = opts.values.scenario;
     const scenario = scenarioFile ? await readJsonFile(scenarioFile, scenarioFile) : undefined;
     const budget = budgetOptions(opts);
-    const summary = await buildTiles({
-      inDir,
-      outDir,
-      cellSize_m,
-      workers,
-      modelKind,
-      scenario,
-      scenarioFile,
-      geotiff: !opts.flags.has('no-geotiff'),
-      budget,
-      onProgress: opts.flags.has('quiet') ? undefined : createProgressBar(),
-    });
-    if (!opts.flags.has('quiet')) process.stderr.write(formatRunSummary(summary));
+    const quiet = opts.flags.has('quiet');
+    let distributor: QueueDistributor | undefined;
+    if (opts.values.queue !== undefined) {
+      const connection = parseQueueUrl(opts.values.queue);
+      const shared = sharedRoot(requireOption('build', opts, 'shared'));
+      distributor = await createQueueDistributor({
+        connection,
+        shared,
+        log: quiet ? undefined : (line) => process.stderr.write(`${line}\n`),
+      });
+    } else if (opts.values.shared !== undefined) {
+      throw new InputError('build: --shared applies to --queue builds only');
+    }
+    let summary: BuildSummary;
+    try {
+      summary = await buildTiles({
+        inDir,
+        outDir,
+        cellSize_m,
+        workers,
+        modelKind,
+        scenario,
+        scenarioFile,
+        geotiff: !opts.flags.has('no-geotiff'),
+        budget,
+        onProgress: quiet ? undefined : createProgressBar(),
+        distributor,
+      });
+    } finally {
+      await distributor?.close();
+    }
+    if (!quiet) process.stderr.write(formatRunSummary(summary));
     process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
     return 0;
   },

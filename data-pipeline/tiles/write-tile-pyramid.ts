@@ -17,6 +17,7 @@ import type { AnalysisGrid } from '../build/analysis-grid';
 import { closeBandFds, openBandFds, readBandBox, type BandFiles } from '../build/band-files';
 import { createTransform } from '../crs/crs-definitions';
 import { runWorkerPool } from '../worker-pool';
+import type { SubtreeResults, SubtreeRunner } from '../build/build-distributor';
 
 export interface PyramidBand {
   kind: 'continuous' | 'class';
@@ -37,6 +38,8 @@ export interface TilePyramidOptions {
   onTile?: (done: number, total: number) => void;
   /** Worker threads for the subtrees below the top levels (default 1: main thread only). */
   workers?: number;
+  /** Renders the subtrees elsewhere (e.g. as queue jobs) instead of worker threads. */
+  subtreeRunner?: SubtreeRunner;
 }
 
 const EARTH_CIRCUMFERENCE_M = 2 * Math.PI * 6378137;
@@ -291,21 +294,26 @@ export async function writeTilePyramid(options: TilePyramidOptions): Promise<Rec
   const workers = Math.max(1, options.workers ?? 1);
   let stopAt: { zoom: number; planes: Map<string, Float32Array[] | null> } | undefined;
   let fromWorkers: Record<number, number> = {};
-  if (workers > 1 && maxZoom > minZoom) {
+  const runner = options.subtreeRunner;
+  if ((workers > 1 || runner) && maxZoom > minZoom) {
     // Subtrees below a cut level go to worker threads; the cut is the first level with enough tiles.
     let cut = minZoom + 1;
     const count = (z: number) => {
       const r = tileRange(bounds, z);
       return (r.x1 - r.x0 + 1) * (r.y1 - r.y0 + 1);
     };
-    while (cut < maxZoom && count(cut) < 4 * workers) cut++;
+    while (cut < maxZoom && count(cut) < (runner ? runner.minJobs : 4 * workers)) cut++;
     const r = tileRange(bounds, cut);
     const jobs: [number, number][] = [];
     for (let x = r.x0; x <= r.x1; x++) for (let y = r.y0; y <= r.y1; y++) jobs.push([x, y]);
-    const result = await renderSubtreesInWorkers(options, cut, jobs, workers, (finestDone) => {
+    const onFinestDone = (finestDone: number) => {
       done += finestDone;
       onTile?.(done, total);
-    });
+    };
+    const { tilesDir, grid, files, bands } = options;
+    const result = runner
+      ? await runner.run({ tilesDir, grid, files, bands, maxZoom, bounds }, cut, jobs, onFinestDone)
+      : await renderSubtreesInWorkers(options, cut, jobs, workers, onFinestDone);
     stopAt = { zoom: cut, planes: result.planes };
     fromWorkers = result.written;
   }
@@ -332,7 +340,7 @@ async function renderSubtreesInWorkers(
   jobs: [number, number][],
   workers: number,
   onProgress: (finestDone: number) => void,
-): Promise<{ planes: Map<string, Float32Array[] | null>; written: Record<number, number> }> {
+): Promise<SubtreeResults> {
   const data = {
     tilesDir: options.tilesDir,
     grid: options.grid,

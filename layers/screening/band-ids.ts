@@ -49,6 +49,23 @@ export const METRIC_BAND_IDS = [
   'excessIce',
   'zeroCurtain',
   'thawBeyondHorizon',
+  // foundation checks, structure, system economics and class robustness (issue 13)
+  'adfreezeTempEndPiles',
+  'activeLayerEnd',
+  'capacityStart',
+  'capacityEnd',
+  'capacityEndPiles',
+  'capacityKept',
+  'frostJackingUplift',
+  'frostJackingRatio',
+  'thawSettlement',
+  'iceRichThawYear',
+  'systemCop',
+  'pumpPower',
+  'capitalCost',
+  'simplePayback',
+  'classRobust',
+  'robustnessFlags',
 ] as const;
 
 /** Output layers of the basic TTOP + Stefan model (`pile-atlas build --model basic`). */

@@ -15,6 +15,7 @@ import { EXCLUSION_LABELS, PERMAFROST_CLASS_LABELS, SUITABILITY_LABELS } from '.
 import { BINDING_LABELS } from './operating-window';
 import { THAW_HORIZON_LABELS } from './climate-horizon';
 import { TEXTURE_CODES } from '../physics/texture-codes';
+import { ROBUSTNESS_LABELS } from './robustness-labels';
 
 export interface BandClass {
   value: number;
@@ -61,6 +62,8 @@ const echo = (title: string) => ({
   source: INPUT,
 });
 
+const kN = { unit: 'kN', unitNA: 'kip' };
+
 /** One entry per band. */
 export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   suitability: { title: 'Suitability class', ...cls(classes(SUITABILITY_LABELS)) },
@@ -96,7 +99,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
   loadShare: { title: 'Share of heating load carried', ...none, ...cont('viridis', 0, 1) },
   extractionCarried: { title: 'Extraction carried', ...perMetre, ...cont('viridis') },
   bindingLimit: { title: 'Binding limit', ...cls(classes(BINDING_LABELS)) },
-  seasonalCop: { title: 'Seasonal COP', ...none, ...cont('viridis', 1.5, 4) },
+  seasonalCop: { title: 'Seasonal COP of the heat pump unit', ...none, ...cont('viridis', 1.5, 4) },
   heatingDemand: { title: 'Heating demand of the standard building', ...same('kWh/yr'), ...cont('cividis') },
   fuelSaved: { title: 'Fuel saved', unit: 'L/yr', unitNA: 'US gal/yr', ...cont('blueOrange') },
   co2Avoided: { title: 'CO2 avoided', unit: 't/yr', unitNA: 'short ton/yr', ...cont('blueOrange') },
@@ -108,7 +111,7 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     title: 'Heat pump increases fuel burn',
     ...cls([
       { value: 0, label: 'no' },
-      { value: 1, label: 'yes: seasonal COP below the fuel break-even' },
+      { value: 1, label: 'yes: system COP below the fuel break-even' },
     ]),
   },
   bedrockDepth: {
@@ -128,6 +131,44 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     ]),
   },
   thawBeyondHorizon: { title: 'Thaw beyond the climate horizon', ...cls(classes(THAW_HORIZON_LABELS)) },
+  adfreezeTempEndPiles: {
+    title: 'Adfreeze-zone ground temperature, end of life, piles operating',
+    ...degC,
+    ...cont('blueOrange', -6, 1),
+  },
+  activeLayerEnd: { title: 'Active layer thickness, end of life', ...metre, ...cont('cividis', 0, 4) },
+  capacityStart: { title: 'Pile adfreeze capacity, start of life', ...kN, ...cont('viridis', 0, 1500) },
+  capacityEnd: {
+    title: 'Pile adfreeze capacity, end of life, no heat extraction',
+    ...kN,
+    ...cont('viridis', 0, 1500),
+  },
+  capacityEndPiles: {
+    title: 'Pile adfreeze capacity, end of life, piles operating',
+    ...kN,
+    ...cont('viridis', 0, 1500),
+  },
+  capacityKept: { title: 'Pile capacity kept by the heat extraction', ...kN, ...cont('viridis', 0, 1000) },
+  frostJackingUplift: { title: 'Frost-jacking uplift', ...kN, ...cont('cividis', 0, 400) },
+  frostJackingRatio: { title: 'Frost-jacking demand over anchorage', ...none, ...cont('cividis', 0, 1.5) },
+  thawSettlement: { title: 'Thaw settlement within the design life', ...metre, ...cont('cividis', 0, 0.3) },
+  iceRichThawYear: {
+    title: 'Thaw year of thaw-unstable ground, piles operating',
+    ...years,
+    ...cont('viridis'),
+  },
+  systemCop: { title: 'System seasonal COP', ...none, ...cont('viridis', 1.5, 4) },
+  pumpPower: { title: 'Loop circulation pump power', unit: 'W', unitNA: 'Btu/h', ...cont('cividis') },
+  capitalCost: { title: 'Capital cost of the heat-pump system', ...same('¤'), ...cont('cividis') },
+  simplePayback: { title: 'Simple payback against an oil furnace', ...years, ...cont('cividis', 0, 40) },
+  classRobust: {
+    title: 'Class robust to the settings',
+    ...cls([
+      { value: 0, label: 'no: a nearby setting changes the class' },
+      { value: 1, label: 'yes: same class under every tested change' },
+    ]),
+  },
+  robustnessFlags: { title: 'Settings that change the class', ...cls(ROBUSTNESS_LABELS) },
 
   magt_C: {
     title: 'Mean annual ground temperature',

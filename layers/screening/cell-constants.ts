@@ -26,6 +26,7 @@ import {
   type EconomicsCoefficients,
 } from './economics';
 import { softWeights } from './suitability';
+import { systemConstants, type SystemConstants } from './system-cop';
 
 export const SOIL_TABLE_POINTS = 65;
 /** Table points from the porosity to MAX_WATER_CONTENT_M3M3 (excess ice), the porosity included. */
@@ -56,6 +57,8 @@ export interface CellConstants {
   pileMidDepth_m: number;
   /** COP of the scenario's heat-pump curve at EFT = COP_EFT_MIN + i·COP_EFT_STEP. */
   cop: Float64Array;
+  /** Loop-fluid properties of the system model (system-cop.ts). */
+  system: SystemConstants;
 }
 
 export const COP_EFT_MIN = -40;
@@ -160,5 +163,6 @@ export function buildCellConstants(scenario: Scenario): CellConstants {
       (_, i) =>
         heatPumpAt({ enteringFluid_C: COP_EFT_MIN + i * COP_EFT_STEP, curve: scenario.heatPump.curve }).cop,
     ),
+    system: systemConstants(scenario),
   };
 }

@@ -39,10 +39,16 @@
  *     the pile's cooling c at the reference point arrives c/b later (c evaluated at the sensible thaw
  *     time; an extension of years-to-thaw.ts checked against the site simulator, see the calibration);
  *     thaw after the scenario's climate horizon is capped there and flagged (climate-horizon.ts);
- *  8. economics at the seasonal COP: mean fluid T_pile − q'_carried·(R_b + g_N(t_L)/(2πk)) (annual-average
- *     extraction through the pile and the group's long-term response), EFT = mean + ΔT/2 (heating), COP
- *     from the scenario's heat-pump curve (layers/physics/heat-pump.ts);
- *  9. exclusions, soft scores, class (suitability.ts).
+ *  8. economics: the unit's seasonal COP at mean fluid T_pile − q'_carried·(R_b + g_N(t_L)/(2πk))
+ *     (annual-average extraction through the pile and the group's long-term response), EFT = mean +
+ *     ΔT/2 (heating), from the scenario's heat-pump curve (layers/physics/heat-pump.ts); the system
+ *     COP with circulation pump, backup and auxiliaries (system-cop.ts) drives fuel, CO2, cost, the
+ *     fuel-increase flag, capital cost and simple payback;
+ *  3b-3d (after 7, they need the carried load): the adfreeze-zone temperature at the end of the life
+ *     with the piles operating (the reference point: T_ref + W(life) − q'_carried·g_ref(life)/(2πk),
+ *     at least 0 °C where it thaws within the life), the end-of-life active layer (the Neumann step in
+ *     the warmed climate), and the structural layers of foundation-checks.ts;
+ *  9. hard foundation checks, soft scores and class: cell-class.ts, a pure function of these outputs.
  */
 import {
   degreeDays,
@@ -62,16 +68,12 @@ import { MONTH_COS, MONTHS, monthlyPeakPerPile_W, pileWavePhasor } from './month
 import { lookup } from './log-table';
 import { enteringFromMeanFluid_C, meanFluidFromEntering_C } from '../physics/fluid-temperature-convention';
 import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
-import {
-  EXCLUSION,
-  isFrostSusceptible,
-  linearScore,
-  permafrostClass,
-  suitabilityClass,
-  thawStabilityScore,
-} from './suitability';
+import { EXCLUSION, isFrostSusceptible, permafrostClass, thawStabilityScore } from './suitability';
 import { METRIC as M } from './cell-layers';
 import { THAW_HORIZON } from './climate-horizon';
+import { createFoundationResult, foundationKernel, type FoundationResult } from './foundation-checks';
+import { createSystemResult, simplePayback_yr, systemKernel, type SystemResult } from './system-cop';
+import { classifyCell } from './cell-class';
 
 /** One refrigeration ton, W: 12 000 Btu_IT/h (reference-values §12). */
 export const TON_W = 3516.853;
@@ -93,6 +95,8 @@ export interface KernelScratch {
   peakMonth: Float64Array;
   /** Set by groundTempEndOfLife_C: latent heat holds the ground at 0 °C at the end of life. */
   zeroCurtain: boolean;
+  foundation: FoundationResult;
+  system: SystemResult;
   /** Annual-average ground load over the design peak, a (monthly-peak.ts; read by the calibration). */
   annualFraction: number;
 }
@@ -114,6 +118,8 @@ export function createKernelScratch(): KernelScratch {
     phasor: new Float64Array(2),
     peakMonth: new Float64Array(1),
     zeroCurtain: false,
+    foundation: createFoundationResult(),
+    system: createSystemResult(),
     annualFraction: 0,
   };
 }
@@ -357,6 +363,9 @@ export function evaluateCellMetrics(
   m[M.bindingLimit] = w.binding;
 
   // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
+  const cPiles = w.carried_W_m / (2 * Math.PI * kF);
+  const warmRef = rampWarming_K(k.tables, zr, life, b, alphaYr);
+  let thawPilesYr = Infinity;
   if (tRef < 0) {
     const horizon = s.climateHorizonYear - s.startYear;
     const tL = latentDelay_yr(zr, soil, b);
@@ -373,6 +382,7 @@ export function evaluateCellMetrics(
     // neither thaws within the horizon).
     const t0 = t0s + tL;
     const tP = Math.max(t0, tPs + tL + cooling / b);
+    thawPilesYr = tP;
     const flag = !(t0 <= horizon)
       ? THAW_HORIZON.bothAfter
       : !(tP <= horizon)
@@ -387,6 +397,68 @@ export function evaluateCellMetrics(
     m[M.frozenMargin] = tPc - life;
   }
 
+  // 3b. end-of-life adfreeze zone with the piles operating (the reference point), latent-aware
+  const adfEnd = tRef + warmRef - cPiles * gRefLife;
+  // thawed within the life: at least 0 °C; not yet thawed: at most 0 °C (its ice still melting, the
+  // zero curtain, as groundTempEndOfLife_C)
+  m[M.adfreezeTempEndPiles] = thawPilesYr <= life ? Math.max(0, adfEnd) : Math.min(0, adfEnd);
+
+  // 3c. end-of-life active layer (air warmed by the trend; piles neglected above the insulated top)
+  const airEnd = degreeDays({
+    meanAirTemp_C: cell.meanAirTemp_C + cell.warming_C_per_yr * life,
+    amplitude_C: cell.airAmplitude_C,
+  });
+  const ttopEnd = ttop_C({
+    freezingIndex_Cd: airEnd.freezingIndex_Cd,
+    thawingIndex_Cd: airEnd.thawingIndex_Cd,
+    nFreeze: nF,
+    nThaw: nT,
+    kThawed_W_mK: soil.kThawed,
+    kFrozen_W_mK: kF,
+  });
+  const altEnd = neumannActiveLayerKernel_m(
+    nT * airEnd.thawingIndex_Cd,
+    thawSeasonFraction(cell.meanAirTemp_C + cell.warming_C_per_yr * life, cell.airAmplitude_C),
+    ttopEnd,
+    soil.kThawed,
+    kF,
+    soil.cThawed,
+    soil.cFrozen,
+    soil.latent,
+  );
+  m[M.activeLayerEnd] = altEnd;
+
+  // 3d. structure: adfreeze capacity, frost jacking, thaw settlement (foundation-checks.ts)
+  const fnd = x.foundation;
+  foundationKernel(
+    k,
+    {
+      tableTemp_C: Number.isNaN(cell.groundTemp_C) ? ttop : tPile - grad * Math.max(0, zp - alt),
+      activeLayer_m: alt,
+      gradient_K_m: grad,
+      warmingRate_K_yr: b,
+      diffusivity_m2_yr: alphaYr,
+      dampingDepth_m: dampingDepth_m(alphaF),
+    },
+    {
+      activeLayerEnd_m: altEnd,
+      coolingEnd_K: cPiles * gRefLife,
+      frostSusceptible: isFrostSusceptible(tex),
+      excessIce_m3m3: m[M.excessIce],
+      thawsInLife: thawPilesYr <= life,
+    },
+    fnd,
+  );
+  m[M.capacityStart] = fnd.capacityStart_kN;
+  m[M.capacityEnd] = fnd.capacityEnd_kN;
+  m[M.capacityEndPiles] = fnd.capacityEndPiles_kN;
+  m[M.capacityKept] = fnd.capacityEndPiles_kN - fnd.capacityEnd_kN;
+  m[M.frostJackingUplift] = fnd.uplift_kN;
+  m[M.frostJackingRatio] = fnd.jackingRatio;
+  m[M.thawSettlement] = fnd.settlement_m;
+  m[M.iceRichThawYear] =
+    m[M.excessIce] > s.suitability.foundation.thawUnstableExcessIce_m3m3 ? m[M.thawYearPiles] : NaN;
+
   // 8. economics
   const eft = enteringFromMeanFluid_C(
     tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)),
@@ -396,33 +468,27 @@ export function evaluateCellMetrics(
   const scop = copFromTable(k.cop, eft);
   const heat_kWh = w.loadShare * demand_kWh;
   m[M.seasonalCop] = scop;
-  m[M.fuelSaved] = fuelSavedKernel_L(k.econ, heat_kWh, scop);
-  m[M.co2Avoided] = co2AvoidedKernel_t(k.econ, heat_kWh, scop);
-  m[M.costSaved] = costSavedKernel(k.econ, heat_kWh, scop);
-  m[M.fuelIncrease] = scop < be.fuel ? 1 : 0;
+  // system COP (system-cop.ts): the heat pump sized to the piles' carried peak
+  const copLimit = copFromTable(k.cop, hp.minEnteringFluid_C);
+  const carriedShare = w.upperFluid_W_m > 0 ? Math.min(1, w.carried_W_m / w.upperFluid_W_m) : 0;
+  const capacity_W = Math.min(peak_W, (bld.foundationPiles * qPeak * carriedShare) / groundFactor);
+  const sys = x.system;
+  systemKernel(s, k.system, Math.max(0, capacity_W), heat_kWh, scop, copLimit, sys);
+  const cop = sys.systemCop;
+  m[M.systemCop] = cop;
+  m[M.pumpPower] = sys.pumpPower_W;
+  m[M.fuelSaved] = fuelSavedKernel_L(k.econ, heat_kWh, cop);
+  m[M.co2Avoided] = co2AvoidedKernel_t(k.econ, heat_kWh, cop);
+  m[M.costSaved] = costSavedKernel(k.econ, heat_kWh, cop);
+  m[M.fuelIncrease] = cop < be.fuel ? 1 : 0;
+  m[M.capitalCost] = sys.capitalCost;
+  m[M.simplePayback] = simplePayback_yr(sys.capitalCost, m[M.costSaved]);
 
-  // 9. exclusions and class
-  const u = s.suitability;
-  let excl: number = EXCLUSION.none;
-  if (tex === 6 || cell.bedrockDepth_m < u.minBedrockDepth_m) excl = EXCLUSION.bedrockShallow;
-  else if (!(tPile < 0)) excl = EXCLUSION.noPermafrost;
-  else if (alt >= zr) excl = EXCLUSION.alreadyThawed;
-  else if (!(w.upperFluid_W_m > 0)) excl = EXCLUSION.fluidLimit;
-  m[M.exclusion] = excl;
-  if (excl !== EXCLUSION.none) {
-    m[M.suitability] = 0;
-    return;
-  }
-  const wt = k.weights;
-  const score =
-    wt[0] * linearScore(tPile, u.coldness.good_C, u.coldness.poor_C) +
-    wt[1] * linearScore(m[M.pilesPerTon], u.pilesPerTon.good, u.pilesPerTon.poor) +
-    wt[2] * linearScore(m[M.frozenMargin], u.frozenMargin.good_yr, u.frozenMargin.poor_yr) +
-    wt[3] * linearScore(w.loadShare, u.loadShare.good, u.loadShare.poor) +
-    wt[4] * linearScore(m[M.thawStability], 1, 0) +
-    wt[5] * linearScore(m[M.fuelSaved], u.fuelSaved.good_L, u.fuelSaved.poor_L);
-  m[M.suitabilityScore] = score;
-  m[M.suitability] = suitabilityClass(score, u);
+  // 9. hard foundation checks, soft scores, class (cell-class.ts)
+  const c = classifyCell(m, tex, s, k.weights);
+  m[M.exclusion] = c.exclusion;
+  m[M.suitabilityScore] = c.score;
+  m[M.suitability] = c.suitability;
 }
 
 /**

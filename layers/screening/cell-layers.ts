@@ -9,6 +9,7 @@ import type { Scenario } from './scenario';
 import { BAND, METRIC_BAND_IDS, type MetricBandId } from './band-ids';
 import { BAND_REGISTRY } from './band-registry';
 import { THAW_HORIZON } from './climate-horizon';
+import { foundationDescriptions } from './foundation-bands';
 
 const IDS = METRIC_BAND_IDS;
 
@@ -198,11 +199,12 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       description: `Whether the thaw years fall after ${hy}, the scenario's climate horizon (thawYear, thawYearPiles, thawDelay and frozenMargin read "after ${hy}" or "≥" there).`,
       source: 'scenario climateHorizonYear (climate-horizon.ts)',
     },
+    ...foundationDescriptions(s),
   };
   return IDS.map((id) => {
     const { unitNA: _na, description: _d, source: _s, ...entry } = BAND_REGISTRY[id];
     const layer: ScreeningLayer = { id, ...entry, ...L[id] };
-    if (id === BAND.costSaved) layer.unit = entry.unit.replace('¤', cur);
+    if (id === BAND.costSaved || id === BAND.capitalCost) layer.unit = entry.unit.replace('¤', cur);
     if (id === BAND.zeroCurtain && layer.classes) {
       layer.classes = layer.classes.map((c) =>
         c.value === 1

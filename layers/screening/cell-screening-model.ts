@@ -11,8 +11,9 @@ import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../cautions';
 import type { CellInputs, ScreeningModel } from './screening-model';
 import { TEXTURE_CODES } from './screening-model';
 import { parseScenario, type Scenario } from './scenario';
-import { buildCellConstants } from './cell-constants';
-import { createKernelScratch, evaluateCellMetrics } from './cell-kernel';
+import { buildCellConstants, type CellConstants } from './cell-constants';
+import { createKernelScratch, evaluateCellMetrics, type KernelScratch } from './cell-kernel';
+import { perturbedScenarios, perturbedWeights, robustnessFlags, robustnessText } from './class-robustness';
 import { cellLayers, METRIC, METRIC_COUNT, METRIC_IDS, type MetricId } from './cell-layers';
 import {
   criteriaDefinitions,
@@ -27,18 +28,72 @@ import { BINDING_LABELS } from './operating-window';
 import { horizonText } from './climate-horizon';
 import { formatZodIssues } from '../validation-error';
 
+/** The constants of a scenario and of its robustness perturbations (class-robustness.ts). */
+export interface RobustConstants {
+  base: CellConstants;
+  perturbed: CellConstants[];
+  weightSets: Float64Array[];
+}
+
+export function buildRobustConstants(s: Scenario): RobustConstants {
+  return {
+    base: buildCellConstants(s),
+    perturbed: perturbedScenarios(s).map(buildCellConstants),
+    weightSets: perturbedWeights(s),
+  };
+}
+
+/**
+ * Every metric of one cell into `m`, with its class's robustness (bands classRobust and
+ * robustnessFlags): the kernel once per perturbed scenario into `work`, the weights by
+ * reclassification.
+ */
+export function evaluateRobust(
+  cell: CellInputs,
+  rc: RobustConstants,
+  x: KernelScratch,
+  m: Float64Array,
+  work: Float64Array,
+): void {
+  evaluateCellMetrics(cell, rc.base, x, m);
+  // Excluded by a rule no heat-pump or weight setting touches (outside the data, rock within the pile,
+  // no permafrost, thawed today): every perturbation leaves it excluded, so the class is robust as is.
+  const ex = m[METRIC.exclusion];
+  if (ex >= 1 && ex <= 4) {
+    m[METRIC.robustnessFlags] = 0;
+    m[METRIC.classRobust] = 1;
+    return;
+  }
+  const perturbedClasses = [0, 0, 0, 0];
+  for (let i = 0; i < rc.perturbed.length; i++) {
+    evaluateCellMetrics(cell, rc.perturbed[i], x, work);
+    perturbedClasses[i] = work[METRIC.suitability];
+  }
+  const flags = robustnessFlags(
+    m[METRIC.suitability],
+    perturbedClasses,
+    m,
+    cell.textureClass,
+    rc.base.scenario,
+    rc.weightSets,
+  );
+  m[METRIC.robustnessFlags] = flags;
+  m[METRIC.classRobust] = flags === 0 ? 1 : 0;
+}
+
 /** Build the per-cell model for a scenario (defaults filled in; throws TypeError naming bad fields). */
 export function createScreeningModel(scenario: unknown = {}): ScreeningModel & { scenario: Scenario } {
   const s = parseScenario(scenario);
-  const k = buildCellConstants(s);
+  const rc = buildRobustConstants(s);
   const scratch = createKernelScratch();
   const m = new Float64Array(METRIC_COUNT);
+  const work = new Float64Array(METRIC_COUNT);
   const layers = cellLayers(s);
   return {
     scenario: s,
     layers,
     evaluate(cell: CellInputs, out: Float32Array): void {
-      evaluateCellMetrics(cell, k, scratch, m);
+      evaluateRobust(cell, rc, scratch, m, work);
       for (let i = 0; i < METRIC_COUNT; i++) out[i] = m[i];
     },
   };
@@ -100,6 +155,8 @@ export interface CellScreening {
   exclusion: { code: number; reason: string };
   permafrost: { today: string; endOfLife: string };
   bindingLimit: string;
+  /** Whether the class survives the robustness changes, and which changes move it (class-robustness.ts). */
+  robustness: { robust: boolean; changedBy: string };
   flags: { fuelIncrease: boolean; fluidLimitReached: boolean; overcoolingBinds: boolean; thawBinds: boolean };
   /**
    * Every layer's value with its unit (null = not applicable). Thaw years and durations past the
@@ -121,7 +178,7 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
   const s = parseScenario(scenario);
   const m = new Float64Array(METRIC_COUNT);
   // The same kernel as `evaluate`, in full (Float64) precision for the card.
-  evaluateCellMetrics(inputs, buildCellConstants(s), createKernelScratch(), m);
+  evaluateRobust(inputs, buildRobustConstants(s), createKernelScratch(), m, new Float64Array(METRIC_COUNT));
   const layers = cellLayers(s);
   const flag = m[METRIC.thawBeyondHorizon];
   const metrics = Object.fromEntries(
@@ -134,6 +191,10 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
   const excl = m[METRIC.exclusion];
   const criteria = criteriaDefinitions(s).map((c): CriterionResult => {
     const v = m[METRIC[c.bandId as MetricId]];
+    // Thaw-unstable check: no value means the ground is not ice-rich, which passes.
+    if (Number.isNaN(v) && c.id === 'thawUnstable' && Number.isFinite(m[METRIC.excessIce])) {
+      return { ...c, value: null, verdict: 'pass' };
+    }
     if (Number.isNaN(v)) return { ...c, value: null, verdict: 'not evaluated' };
     const verdict = passes(v, c.comparison, c.threshold) ? 'pass' : 'fail';
     return c.kind === 'soft'
@@ -156,6 +217,10 @@ export function screenCell(cell: unknown, scenario: unknown = {}): CellScreening
       endOfLife: PERMAFROST_CLASS_LABELS[m[METRIC.permafrostClassEnd]] ?? 'not evaluated',
     },
     bindingLimit: BINDING_LABELS[binding] ?? 'not evaluated',
+    robustness: {
+      robust: m[METRIC.classRobust] === 1,
+      changedBy: robustnessText(m[METRIC.robustnessFlags]),
+    },
     flags: {
       fuelIncrease: m[METRIC.fuelIncrease] === 1,
       fluidLimitReached: excl === 5,

@@ -101,6 +101,40 @@ export const economicsSchema = z.strictObject({
   heatingOilPrice_per_L: pos().default(1.8),
   /** Currency label for the cost figures (display only). */
   currency: z.string().min(1).max(8).default('USD'),
+  /**
+   * Extra cost of making one foundation pile a heat exchanger (loop, fill, connection), currency per
+   * pile: 1500 (recalled from memory: remote northern construction; editable). The piles themselves
+   * are needed for the foundation anyway and are not counted.
+   */
+  loopCostPerPile: z.number().min(0).default(1500),
+  /** Ground-source heat pump, currency per kW of heating capacity: 2000 (recalled from memory). */
+  heatPumpCost_per_kW: z.number().min(0).default(2000),
+  /** Installation, header piping, controls and commissioning, currency: 10 000 (recalled from memory). */
+  installationCost: z.number().min(0).default(10000),
+});
+
+/** The heat-pump system around the unit: loop hydraulics, backup and auxiliaries (system-cop.ts). */
+export const systemSchema = z.strictObject({
+  /** Propylene glycol mass fraction of the loop fluid: 0.30, freezing at −12.7 °C [R, reference-values §9c]. */
+  glycolMassFraction: z.number().min(0).max(0.4).default(0.3),
+  /** Inner diameter of the loop pipe in each pile, m: PE 32 mm SDR 11, 26.2 mm (common practice). */
+  loopPipeInnerDiameter_m: z.number().min(0.005).max(0.3).default(0.0262),
+  /** Inner diameter of the supply and return header, m: PE 50 mm SDR 11, 40.8 mm (common practice). */
+  headerInnerDiameter_m: z.number().min(0.01).max(0.5).default(0.0408),
+  /** Length of header pipe, supply plus return, from the plant to the pile group, m (judgement). */
+  headerLength_m: z.number().min(0).max(2000).default(30),
+  /** Absolute roughness of polyethylene pipe, m: 1.5e-6 (drawn tubing; recalled from memory). */
+  pipeRoughness_m: z.number().min(0).max(0.01).default(1.5e-6),
+  /** Fittings, bends and the heat pump's evaporator as a share of the straight-pipe drop (common practice). */
+  fittingsAllowance: z.number().min(0).max(5).default(0.3),
+  /** Wire-to-water efficiency of the circulation pump: 0.30 (small circulators 0.2-0.5; recalled from memory). */
+  pumpEfficiency: frac().default(0.3),
+  /** Share of the piles-served heat from the electric backup element at COP 1 (peaks; judgement). */
+  backupElectricShare: z.number().min(0).max(1).default(0.03),
+  /** Electricity for defrost as a share of the compressor's: 0 (a ground-source unit has no defrost). */
+  defrostShare: z.number().min(0).max(1).default(0),
+  /** Controls and standby, W, all year: 15 (recalled from memory). */
+  auxiliaryPower_W: z.number().min(0).max(2000).default(15),
 });
 
 /** Surface and subsurface defaults used where no grid is given. */
@@ -119,32 +153,88 @@ export const permafrostClassesSchema = z.strictObject({
   warmAbove_C: z.number().max(0).default(-1.5),
 });
 
+/**
+ * Hard foundation checks: a cell failing any of them is excluded, whatever its heat and money
+ * (design.md "Safety before value"). Each default carries its reason.
+ */
+export const foundationChecksSchema = z.strictObject({
+  /**
+   * Warmest allowed end-of-life mean ground temperature in the adfreeze zone (the reference depth and
+   * radius, between piles) with the piles operating, °C. −1 °C: the standard's long-term adfreeze
+   * strength falls from 100 kPa at −1 °C to 40 kPa at −0.3 °C (SNiP 2.02.04-88 Table 3, recalled from
+   * memory; adfreeze-strength.ts) and creep accelerates as unfrozen water rises; it lies inside the
+   * "warm permafrost" band of domain-notes.md (above about −2 °C; Ran et al. 2022: above −1.5 °C).
+   */
+  maxAdfreezeTempEnd_C: z.number().min(-10).max(0).default(-1),
+  /**
+   * Soil needed below the pile tip over bedrock, m: bedrock shallower than tip + margin excludes (screw
+   * piles are installed in soil, not rock; domain-notes "Installability"). 1 m: regional bedrock-depth
+   * grids carry errors of metres (judgement, common practice).
+   */
+  rockMargin_m: z.number().min(0).max(20).default(1),
+  /**
+   * Excess ice above which the ground is thaw-unstable, m³/m³. 0: any excess ice settles on thaw
+   * (thaw strain = excess ice, thaw-settlement.ts); cautious (judgement).
+   */
+  thawUnstableExcessIce_m3m3: z.number().min(0).max(1).default(0),
+  /**
+   * Thaw-unstable ground that thaws at the reference depth, with the piles operating, before the end
+   * of the design life plus this margin, yr, is excluded. 10 yr: a third of the 30-year life, for the
+   * spread of warming trends and of the thaw model (judgement).
+   */
+  thawMargin_yr: z.number().min(0).max(100).default(10),
+  /**
+   * Tangential frost-heave stress on a steel shaft in frost-susceptible soil (silt, clay, peat), kPa:
+   * measured 150–350 kPa in freezing silt (domain-notes.md; e.g. Penner & Gold 1971); 200 kPa
+   * (judgement inside the published range).
+   */
+  heaveStressFrostSusceptible_kPa: z.number().min(0).max(2000).default(200),
+  /** The same in non-frost-susceptible gravel and sand, kPa: 50 (judgement, common practice: little heave). */
+  heaveStressCoarse_kPa: z.number().min(0).max(2000).default(50),
+  /** Dead load on each foundation pile resisting uplift, kN: 20 (a light building on 16 piles; judgement). */
+  deadLoadPerPile_kN: z.number().min(0).max(10000).default(20),
+  /** Factor of safety on frost-jacking uplift, 1.5 (common practice for uplift; recalled from memory). */
+  jackingSafetyFactor: z.number().min(1).max(10).default(1.5),
+});
+
 /** Hard exclusions and soft-criterion thresholds (the "why" of every class). */
 export const suitabilitySchema = z.strictObject({
-  /** Least soil depth over bedrock for a screw pile, m (recalled from memory: embedment 8-15 m; 6 m floor). */
-  minBedrockDepth_m: z.number().min(0).max(50).default(6),
+  /** Hard foundation checks (exclusions), each with its sourced default. */
+  foundation: foundationChecksSchema.default(foundationChecksSchema.parse({})),
   /**
-   * Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised. The
-   * scoring ranges are judgement (common practice) set to span the demo region's values: piles per ton
-   * 20 (good) to 80 (poor) with the default pile; frozen margin 30 yr to 0 yr; load share 0.5 to 0.05;
-   * fuel saved 300 L/yr to 0 per standard building; permafrost at pile depth −4 °C to −1 °C.
+   * Soft criteria: `good` scores 1, `poor` scores 0, linear between; weights are normalised.
+   * coldness: adfreeze-zone temperature at the end of the life with the piles operating, −5.5 °C
+   * (good: the standard's adfreeze strength is about 2.7 times its −1 °C value) to −2.5 °C (poor),
+   * weight 2 (foundation life); the range spans the demo region with the default settings (−6.0 to
+   * −2.5 °C), where the piles' cooling keeps every cell well below the −1 °C hard limit. energy:
+   * community fuel saved per standard building at the system COP, 200 L/yr (good; the demo region
+   * reaches about 230) to 0 (poor: no saving), weight 2 (the purpose of the system).
+   * jackingMargin: frost-jacking demand over anchorage, 0.2 (good: five times the demand) to 1 (poor:
+   * the hard limit), weight 1. thawStability: texture × ice factor, 1 to 0, weight 1. Ranges span the
+   * demo region's values (judgement).
    */
   coldness: z
-    .strictObject({ good_C: z.number().default(-4), poor_C: z.number().default(-1), weight: weight(2) })
-    .default({ good_C: -4, poor_C: -1, weight: 2 }),
-  pilesPerTon: z
-    .strictObject({ good: z.number().default(20), poor: z.number().default(80), weight: weight(2) })
-    .default({ good: 20, poor: 80, weight: 2 }),
-  frozenMargin: z
-    .strictObject({ good_yr: z.number().default(30), poor_yr: z.number().default(0), weight: weight(2) })
-    .default({ good_yr: 30, poor_yr: 0, weight: 2 }),
-  loadShare: z
-    .strictObject({ good: z.number().default(0.5), poor: z.number().default(0.05), weight: weight(1) })
-    .default({ good: 0.5, poor: 0.05, weight: 1 }),
+    .strictObject({ good_C: z.number().default(-5.5), poor_C: z.number().default(-2.5), weight: weight(2) })
+    .default({ good_C: -5.5, poor_C: -2.5, weight: 2 }),
+  energy: z
+    .strictObject({ good_L: z.number().default(200), poor_L: z.number().default(0), weight: weight(2) })
+    .default({ good_L: 200, poor_L: 0, weight: 2 }),
+  jackingMargin: z
+    .strictObject({ good: z.number().default(0.2), poor: z.number().default(1), weight: weight(1) })
+    .default({ good: 0.2, poor: 1, weight: 1 }),
   thawStability: z.strictObject({ weight: weight(1) }).default({ weight: 1 }),
-  fuelSaved: z
-    .strictObject({ good_L: z.number().default(300), poor_L: z.number().default(0), weight: weight(1) })
-    .default({ good_L: 300, poor_L: 0, weight: 1 }),
+  /** Class robustness tests (class-robustness.ts). */
+  robustness: z
+    .strictObject({
+      /**
+       * Step of the heat pump's lowest entering fluid temperature, K: 1.5, half the −5 to −8 °C
+       * range of common units (domain-notes).
+       */
+      fluidLimitStep_K: z.number().min(0).max(10).default(1.5),
+      /** Relative change of the COP curve, up and down: 0.2 (the spread between units; judgement). */
+      copScale: z.number().min(0).max(0.9).default(0.2),
+    })
+    .default({ fluidLimitStep_K: 1.5, copScale: 0.2 }),
   /**
    * Suitability score bounds: score >= good → class 'good', >= fair → 'fair', else 'poor'. Judgement:
    * about the upper and lower quartiles of the scores over the demo region's input ranges.
@@ -190,6 +280,7 @@ export const scenarioSchema = z
     building: standardBuildingSchema.default(standardBuildingSchema.parse({})),
     heatPump: heatPumpLimitsSchema.default(heatPumpLimitsSchema.parse({})),
     economics: economicsSchema.default(economicsSchema.parse({})),
+    system: systemSchema.default(systemSchema.parse({})),
     ground: groundDefaultsSchema.default(groundDefaultsSchema.parse({})),
     permafrostClasses: permafrostClassesSchema.default(permafrostClassesSchema.parse({})),
     suitability: suitabilitySchema.default(suitabilitySchema.parse({})),

@@ -17,7 +17,7 @@
 import type { Scenario } from './scenario';
 import { BAND } from './band-ids';
 
-/** Exclusion reason codes (band `exclusion`). */
+/** Exclusion reason codes (band `exclusion`), in the order the checks run (cell-class.ts). */
 export const EXCLUSION = {
   none: 0,
   outsideData: 1,
@@ -25,15 +25,21 @@ export const EXCLUSION = {
   noPermafrost: 3,
   alreadyThawed: 4,
   fluidLimit: 5,
+  adfreezeWarm: 6,
+  thawUnstable: 7,
+  frostJacking: 8,
 } as const;
 
 export const EXCLUSION_LABELS: Record<number, string> = {
   0: 'not excluded',
   1: 'outside the data',
-  2: 'bedrock too shallow for screw piles',
+  2: 'rock within the pile length (screw piles need soil to the tip and below)',
   3: 'no permafrost',
   4: 'ground already thawed at the reference depth',
   5: 'fluid limit reached (ground too cold to extract heat)',
+  6: 'adfreeze zone too warm at the end of the design life, piles operating',
+  7: 'thaw-unstable (ice-rich) ground thaws within the design life plus margin',
+  8: 'frost-jacking uplift exceeds the anchorage',
 };
 
 /** Suitability classes (band `suitability`). */
@@ -121,82 +127,63 @@ export function passes(value: number, c: Comparison, threshold: number): boolean
   }
 }
 
-/** The ids of the soft criteria, in score order (the hot path indexes by this order). */
-export const SOFT_CRITERIA_IDS = [
-  'coldness',
-  BAND.pilesPerTon,
-  BAND.frozenMargin,
-  BAND.loadShare,
-  BAND.thawStability,
+/**
+ * The ids of the soft criteria, in score order (the hot path indexes by this order). One energy
+ * criterion (community fuel saved at the system COP: it already holds the load share and the COP),
+ * coldness judged at the end of the design life with the piles operating, the frost-jacking margin
+ * (the structural margin of the cooled foundation, independent of the temperature criteria: it is set
+ * by the active layer and the texture) and thaw stability (texture and ice).
+ */
+export const SOFT_CRITERIA_IDS = ['coldness', 'energy', 'jackingMargin', BAND.thawStability] as const;
+
+/** Band holding each soft criterion's raw value. */
+export const SOFT_CRITERIA_BANDS = [
+  BAND.adfreezeTempEndPiles,
   BAND.fuelSaved,
+  BAND.frostJackingRatio,
+  BAND.thawStability,
 ] as const;
+
+/** The good (score 1) and poor (score 0) ends of each soft criterion, in SOFT_CRITERIA_IDS order. */
+export function softRanges(s: Scenario): [number, number][] {
+  const u = s.suitability;
+  return [
+    [u.coldness.good_C, u.coldness.poor_C],
+    [u.energy.good_L, u.energy.poor_L],
+    [u.jackingMargin.good, u.jackingMargin.poor],
+    [1, 0],
+  ];
+}
 
 /** Hard exclusions then soft criteria of a scenario, with thresholds, units and normalised weights. */
 export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
   const u = s.suitability;
-  const soft: [string, string, string, string, number, number, number, string][] = [
+  const f = u.foundation;
+  const tip = s.pile.topDepth_m + s.pile.length_m;
+  const texts: [string, string, string][] = [
     [
-      'coldness',
-      'Permafrost temperature at pile depth',
-      BAND.groundTemp,
+      'Adfreeze-zone temperature at the end of life (piles operating)',
       '°C',
-      u.coldness.good_C,
-      u.coldness.poor_C,
-      u.coldness.weight,
-      'Colder permafrost keeps adfreeze strength and takes longer to thaw.',
+      'Colder ground at the end of the design life keeps more adfreeze strength and creeps less.',
     ],
     [
-      BAND.pilesPerTon,
-      'Piles per ton of peak heating',
-      BAND.pilesPerTon,
-      'piles/ton',
-      u.pilesPerTon.good,
-      u.pilesPerTon.poor,
-      u.pilesPerTon.weight,
-      'Standard piles needed per ton (3.517 kW) of peak heating at the fluid limit.',
+      'Community fuel saved (system COP)',
+      'L/yr',
+      'Heating oil avoided minus generator diesel added per standard building, at the system seasonal COP: the one energy criterion (it holds the load share and the COP).',
     ],
     [
-      BAND.frozenMargin,
-      'Frozen ground beyond the design life',
-      BAND.frozenMargin,
-      'yr',
-      u.frozenMargin.good_yr,
-      u.frozenMargin.poor_yr,
-      u.frozenMargin.weight,
-      'Years the reference ground stays frozen, with the piles operating, after the design life ends (natural margin plus thaw delay).',
-    ],
-    [
-      BAND.loadShare,
-      "Share of the building's heat the piles carry",
-      BAND.loadShare,
+      'Frost-jacking demand over anchorage',
       '',
-      u.loadShare.good,
-      u.loadShare.poor,
-      u.loadShare.weight,
-      'Fraction of annual heating the foundation piles supply within the operating window.',
+      'Uplift of the freezing active layer (with the factor of safety) over the anchorage below it: lower is a larger structural margin.',
     ],
     [
-      BAND.thawStability,
       'Thaw stability of the ground',
-      BAND.thawStability,
       '',
-      1,
-      0,
-      u.thawStability.weight,
       'Texture and ice content: gravels and bedrock are stable, ice-rich silts and peat settle.',
     ],
-    [
-      BAND.fuelSaved,
-      'Community fuel saved',
-      BAND.fuelSaved,
-      'L/yr',
-      u.fuelSaved.good_L,
-      u.fuelSaved.poor_L,
-      u.fuelSaved.weight,
-      'Heating oil avoided minus generator diesel added, per standard building.',
-    ],
   ];
-  const wSum = soft.reduce((a, r) => a + r[6], 0) || 1;
+  const w = softWeights(s);
+  const ranges = softRanges(s);
   const exclusions: CriterionDefinition[] = [
     {
       id: 'data',
@@ -210,15 +197,15 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       description: 'All required input grids have a value at the cell (exclusion code is not 1).',
     },
     {
-      id: 'bedrock',
-      title: 'Soil depth over bedrock',
+      id: 'rock',
+      title: 'Soil depth over bedrock (pile tip plus margin)',
       bandId: BAND.bedrockDepth,
       unit: 'm',
       kind: 'exclusion',
       comparison: '>=',
-      threshold: u.minBedrockDepth_m,
+      threshold: tip + f.rockMargin_m,
       weight: 0,
-      description: 'Screw piles need soil, not rock, over their embedment.',
+      description: `Screw piles need soil, not rock, down to the ${tip} m tip plus ${f.rockMargin_m} m; bedrock texture always fails.`,
     },
     {
       id: 'permafrost',
@@ -229,7 +216,7 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       comparison: '<',
       threshold: 0,
       weight: 0,
-      description: 'Mean annual ground temperature at mid-pile depth below 0 °C.',
+      description: 'Mean annual ground temperature at mid-pile depth below 0 °C today.',
     },
     {
       id: 'thawed',
@@ -241,6 +228,39 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
       threshold: s.referenceDepth_m,
       weight: 0,
       description: 'Seasonal thaw must not already reach the foundation reference depth.',
+    },
+    {
+      id: 'adfreezeTemp',
+      title: 'Adfreeze-zone temperature at the end of life (piles operating)',
+      bandId: BAND.adfreezeTempEndPiles,
+      unit: '°C',
+      kind: 'exclusion',
+      comparison: '<=',
+      threshold: f.maxAdfreezeTempEnd_C,
+      weight: 0,
+      description: `Permafrost warmer than ${f.maxAdfreezeTempEnd_C} °C around the piles at the end of the design life loses most of its adfreeze bond and creeps.`,
+    },
+    {
+      id: 'thawUnstable',
+      title: 'Thaw year of thaw-unstable ground (piles operating)',
+      bandId: BAND.iceRichThawYear,
+      unit: 'yr',
+      kind: 'exclusion',
+      comparison: '>',
+      threshold: s.startYear + s.designLife_yr + f.thawMargin_yr,
+      weight: 0,
+      description: `Ice-rich ground (excess ice above ${f.thawUnstableExcessIce_m3m3} m³/m³) must stay frozen at the reference depth beyond the design life plus ${f.thawMargin_yr} yr. No value: the ground is not ice-rich (passes).`,
+    },
+    {
+      id: 'frostJacking',
+      title: 'Frost-jacking demand over anchorage',
+      bandId: BAND.frostJackingRatio,
+      unit: '',
+      kind: 'exclusion',
+      comparison: '<=',
+      threshold: 1,
+      weight: 0,
+      description: `Uplift of the freezing active layer times ${f.jackingSafetyFactor} must not exceed the adfreeze anchorage below it plus the dead load.`,
     },
     {
       id: 'fluid',
@@ -256,19 +276,22 @@ export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
   ];
   return [
     ...exclusions,
-    ...soft.map(([id, title, bandId, unit, good, poor, weight, description]) => ({
-      id,
-      title,
-      bandId,
-      unit,
-      kind: 'soft' as const,
-      comparison: (good >= poor ? '>=' : '<=') as Comparison,
-      threshold: (good + poor) / 2,
-      weight: weight / wSum,
-      good,
-      poor,
-      description,
-    })),
+    ...SOFT_CRITERIA_IDS.map((id, i): CriterionDefinition => {
+      const [good, poor] = ranges[i];
+      return {
+        id,
+        title: texts[i][0],
+        bandId: SOFT_CRITERIA_BANDS[i],
+        unit: texts[i][1],
+        kind: 'soft',
+        comparison: good >= poor ? '>=' : '<=',
+        threshold: (good + poor) / 2,
+        weight: w[i],
+        good,
+        poor,
+        description: texts[i][2],
+      };
+    }),
   ];
 }
 
@@ -281,14 +304,7 @@ export function suitabilityClass(score: number, u: Scenario['suitability']): num
 /** Normalised soft-criterion weights in SOFT_CRITERIA_IDS order (precompute once per scenario). */
 export function softWeights(s: Scenario): Float64Array {
   const u = s.suitability;
-  const w = [
-    u.coldness.weight,
-    u.pilesPerTon.weight,
-    u.frozenMargin.weight,
-    u.loadShare.weight,
-    u.thawStability.weight,
-    u.fuelSaved.weight,
-  ];
+  const w = [u.coldness.weight, u.energy.weight, u.jackingMargin.weight, u.thawStability.weight];
   const sum = w.reduce((a, b) => a + b, 0);
   if (!(sum > 0)) throw new RangeError(`suitability weights must sum to > 0; received ${sum}`);
   return Float64Array.from(w, (x) => x / sum);

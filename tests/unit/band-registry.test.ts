@@ -95,9 +95,10 @@ describe('band registry', () => {
       const e = BAND_REGISTRY[l.id as keyof typeof BAND_REGISTRY];
       expect(l.title, l.id).toBe(e.title);
       expect(l.kind, l.id).toBe(e.kind);
-      if (l.id !== BAND.costSaved) expect(l.unit, l.id).toBe(e.unit);
+      if (l.id !== BAND.costSaved && l.id !== BAND.capitalCost) expect(l.unit, l.id).toBe(e.unit);
     }
     expect(full.find((l) => l.id === BAND.costSaved)?.unit).toMatch(/^[A-Z]{3}\/yr$/);
+    expect(full.find((l) => l.id === BAND.capitalCost)?.unit).toMatch(/^[A-Z]{3}$/);
   });
 
   it('finds a stray band-id literal when there is one (the check can fail)', () => {

@@ -230,7 +230,13 @@ describe('operating window and binding limit', () => {
           if (flag >= 1) expect(m[METRIC.thawYearPiles]).toBe(DEFAULT_SCENARIO.climateHorizonYear);
           expect(m[METRIC.thawYearPiles]).toBeGreaterThanOrEqual(m[METRIC.thawYear]);
         }
-        expect(m[METRIC.fuelIncrease]).toBe(m[METRIC.seasonalCop] < m[METRIC.breakEvenCopFuel] ? 1 : 0);
+        // Issue 13: the fuel-increase flag follows the system COP (pumps, backup, auxiliaries), which
+        // never exceeds the unit's seasonal COP.
+        expect(m[METRIC.fuelIncrease]).toBe(m[METRIC.systemCop] < m[METRIC.breakEvenCopFuel] ? 1 : 0);
+        expect(m[METRIC.systemCop]).toBeLessThanOrEqual(m[METRIC.seasonalCop]);
+        // Issue 13: the piles' cooling never lowers the end-of-life capacity; the start has the most.
+        expect(m[METRIC.capacityKept]).toBeGreaterThanOrEqual(-1e-9);
+        expect(m[METRIC.capacityEnd]).toBeLessThanOrEqual(m[METRIC.capacityStart] + 1e-9);
         const score = m[METRIC.suitabilityScore];
         expect(score).toBeGreaterThanOrEqual(0);
         expect(score).toBeLessThanOrEqual(1);

@@ -112,14 +112,20 @@ describe('thaw stability', () => {
 
 describe('criteria definitions (manifest `criteria`)', () => {
   const defs = criteriaDefinitions(DEFAULT_SCENARIO);
-  it('lists five exclusions and the soft criteria, each valid against the manifest schema', () => {
+  it('lists the hard foundation checks in order, then the soft criteria, each valid against the manifest schema', () => {
     expect(defs.filter((c) => c.kind === 'exclusion').map((c) => c.id)).toEqual([
       'data',
-      'bedrock',
+      'rock',
       'permafrost',
       'thawed',
+      'adfreezeTemp',
+      'thawUnstable',
+      'frostJacking',
       'fluid',
     ]);
+    // Issue 13: one energy criterion, coldness at the end of life, the jacking margin, thaw stability.
+    expect([...SOFT_CRITERIA_IDS]).toEqual(['coldness', 'energy', 'jackingMargin', 'thawStability']);
+    expect(defs.findIndex((c) => c.kind === 'soft')).toBe(8);
     expect(defs.filter((c) => c.kind === 'soft').map((c) => c.id)).toEqual([...SOFT_CRITERIA_IDS]);
     for (const c of defs) expect(criterionSchema.safeParse(c).success).toBe(true);
   });
@@ -130,9 +136,15 @@ describe('criteria definitions (manifest `criteria`)', () => {
     for (const c of defs.filter((d) => d.kind === 'exclusion')) expect(c.weight).toBe(0);
   });
   it('thresholds follow the scenario', () => {
-    const s = parseScenario({ suitability: { minBedrockDepth_m: 9 }, referenceDepth_m: 4 });
+    const s = parseScenario({
+      suitability: { foundation: { rockMargin_m: 2, maxAdfreezeTempEnd_C: -1.5, thawMargin_yr: 5 } },
+      referenceDepth_m: 4,
+    });
     const d = criteriaDefinitions(s);
-    expect(d.find((c) => c.id === 'bedrock')?.threshold).toBe(9);
+    // rock: pile tip (1 m top + 10 m length) plus the margin
+    expect(d.find((c) => c.id === 'rock')?.threshold).toBe(13);
+    expect(d.find((c) => c.id === 'adfreezeTemp')?.threshold).toBe(-1.5);
+    expect(d.find((c) => c.id === 'thawUnstable')?.threshold).toBe(2025 + 30 + 5);
     expect(d.find((c) => c.id === 'thawed')?.threshold).toBe(4);
   });
   it('all-zero weights are refused', () => {
@@ -140,11 +152,9 @@ describe('criteria definitions (manifest `criteria`)', () => {
     const s = parseScenario({
       suitability: {
         coldness: z,
-        pilesPerTon: z,
-        frozenMargin: z,
-        loadShare: z,
+        energy: z,
+        jackingMargin: z,
         thawStability: z,
-        fuelSaved: z,
       },
     });
     expect(() => softWeights(s)).toThrow(/weights/);

@@ -103,6 +103,32 @@ describe('site summary', () => {
     expect(s?.delivered_kWh).toBeCloseTo(16000, 9);
     const better = siteSavings([{ ...years[0], seasonalCop: 3.5 }], 16, DEFAULT_SCENARIO);
     expect(better?.fuelSaved_L).toBeGreaterThan(0);
+    expect(better?.system).toBeNull();
+  });
+
+  it('with a design load the study counts the system COP (pump, backup, controls): below the unit COP, fuel at the system COP', () => {
+    const years = [
+      {
+        year: 1,
+        ground_kWh: 1000 * (1 - 1 / 3.5),
+        delivered_kWh: 1000,
+        unmet_kWh: 0,
+        seasonalCop: 3.5,
+        meanExtraction_W: 50,
+      },
+    ];
+    const s = siteSavings(years, 16, DEFAULT_SCENARIO, 8000);
+    const sys = s?.system;
+    expect(sys).not.toBeNull();
+    expect(sys!.systemCop).toBeLessThan(3.5);
+    expect(sys!.pumpPower_W).toBeGreaterThan(0);
+    // capital: 16 loops × 1500 + 8 kW × 2000 + 10 000 (scenario defaults)
+    expect(sys!.capitalCost).toBeCloseTo(16 * 1500 + 8 * 2000 + 10000, 6);
+    const unit = siteSavings(years, 16, DEFAULT_SCENARIO);
+    expect(s!.fuelSaved_L).toBeLessThan(unit!.fuelSaved_L);
+    expect(s!.seasonalCop).toBeCloseTo(3.5, 12);
+    if (s!.costSaved > 0) expect(sys!.payback_yr).toBeCloseTo(sys!.capitalCost / s!.costSaved, 9);
+    else expect(sys!.payback_yr).toBeNaN();
   });
 
   it('appends profile probes within the 50-probe limit and reads the annual mean and range of a year', () => {

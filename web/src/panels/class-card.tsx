@@ -1,6 +1,6 @@
 /**
- * Why a cell has its class: each criterion of the manifest (hard exclusions, then weighted soft
- * criteria) with the cell's raw value, unit, threshold and verdict. Without criteria in the manifest
+ * Why a cell has its class: each criterion of the manifest, the hard foundation checks first (value,
+ * limit, verdict), then the weighted soft criteria, then the class bands (robustness among them). Without criteria in the manifest
  * the card lists the class bands of the cell with their plain explanations.
  */
 import type { Criterion, Manifest } from '../../../layers/screening/manifest';
@@ -53,24 +53,13 @@ export function ClassCard(props: {
   return (
     <details className="class-card" open data-testid="class-card">
       <summary>Why this class</summary>
-      {classBands.map((b) => {
-        const v = values[b.id];
-        const cls =
-          v === null || v === undefined ? undefined : b.classes?.find((c) => c.value === Math.round(v));
-        return (
-          <p key={b.id} className="small">
-            <strong>{b.title}:</strong> {cls ? cls.label : 'no data'}
-            {cls?.description ? <span className="muted"> — {cls.description}</span> : null}
-          </p>
-        );
-      })}
       {criteria.length > 0 ? (
         <table className="criteria" data-testid="criteria">
           <thead>
             <tr>
               <th scope="col">Criterion</th>
               <th scope="col">Value</th>
-              <th scope="col">Threshold</th>
+              <th scope="col">Limit</th>
               <th scope="col">Verdict</th>
             </tr>
           </thead>
@@ -78,17 +67,21 @@ export function ClassCard(props: {
             {criteria.map((c) => {
               const raw = values[c.bandId];
               const v = raw === undefined ? null : raw;
-              const verdict = criterionVerdict(c, v);
+              // The thaw-unstable check has no value where the ground is not ice-rich: it passes.
+              const notIceRich = c.id === 'thawUnstable' && (v === null || !Number.isFinite(v));
+              const verdict = notIceRich ? true : criterionVerdict(c, v);
               const score = c.kind === 'soft' ? criterionScore(c, v) : null;
               return (
                 <tr key={c.id} title={c.description}>
                   <th scope="row">
                     {displayTitle(c.title, c.unit, units)}
                     <div className="muted">
-                      {c.kind === 'exclusion' ? 'must pass' : `weight ${formatNumber(c.weight, 2)}`}
+                      {c.kind === 'exclusion'
+                        ? 'foundation check: must pass'
+                        : `weight ${formatNumber(c.weight, 2)}`}
                     </div>
                   </th>
-                  <td>{valueText(c, v)}</td>
+                  <td>{notIceRich ? 'not ice-rich' : valueText(c, v)}</td>
                   <td>
                     {c.comparison} {show(c.threshold, c.unit)}
                   </td>
@@ -108,6 +101,17 @@ export function ClassCard(props: {
           </tbody>
         </table>
       ) : null}
+      {classBands.map((b) => {
+        const v = values[b.id];
+        const cls =
+          v === null || v === undefined ? undefined : b.classes?.find((c) => c.value === Math.round(v));
+        return (
+          <p key={b.id} className="small">
+            <strong>{b.title}:</strong> {cls ? cls.label : 'no data'}
+            {cls?.description ? <span className="muted"> — {cls.description}</span> : null}
+          </p>
+        );
+      })}
       {criteria.length > 0 ? (
         <p className="muted small">
           A failed “must pass” criterion excludes the place. The others add weight × score (0 at the poor end,

@@ -42,7 +42,7 @@ export function useSiteDerived(run: SiteRunOutcome, scenario: Scenario) {
     const piles =
       input.operation.mode === 'building' ? input.operation.pileCount : scenario.building.foundationPiles;
     const sizing = run.sizing;
-    const savings = siteSavings(years, piles, scenario);
+    const savings = siteSavings(years, piles, scenario, peakLoad_W);
     const curve =
       input.operation.mode === 'building' && input.operation.heatPump
         ? input.operation.heatPump
@@ -177,9 +177,19 @@ export function SiteSummaryTable(props: {
         />
         <Row label="Lowest fluid temperature" quick="—" sim={q(run.result.fluid?.lowest_C, '°C', units)} />
         <Row
-          label="Seasonal COP"
+          label="Seasonal COP of the heat pump unit"
           quick={m ? q(m.seasonalCop.value, '', units) : '—'}
           sim={q(d.savings?.seasonalCop, '', units)}
+        />
+        <Row
+          label="System seasonal COP (pump, backup, controls)"
+          quick={m ? q(m.systemCop.value, '', units) : '—'}
+          sim={q(d.savings?.system?.systemCop, '', units)}
+        />
+        <Row
+          label="Simple payback against an oil furnace"
+          quick={m ? q(m.simplePayback.value, 'yr', units) : '—'}
+          sim={d.savings?.system ? q(d.savings.system.payback_yr, 'yr', units) : '—'}
         />
         <Row
           testId="summary-fuel"

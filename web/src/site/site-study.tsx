@@ -141,6 +141,9 @@ export function SiteStudy(props: {
       metrics.lowestFluid_C = run.outcome.result.fluid?.lowest_C ?? null;
       metrics.fuelSaved_L_per_yr = derived.savings?.fuelSaved_L ?? null;
       metrics.co2Avoided_t_per_yr = derived.savings?.co2Avoided_t ?? null;
+      metrics.systemCop = derived.savings?.system?.systemCop ?? null;
+      metrics.capitalCost = derived.savings?.system?.capitalCost ?? null;
+      metrics.simplePayback_yr = derived.savings?.system?.payback_yr ?? null;
       metrics.simulatedYears_yr = run.outcome.input.years;
     }
     const item = shortlistStore.add({

@@ -19,6 +19,12 @@ import { sizePileField, type PileFieldSizingResult } from '../../../layers/site/
 import { heatPumpAt, DEFAULT_HEAT_PUMP_CURVE } from '../../../layers/physics/heat-pump';
 import { dieselGridSavings, type DieselGridSavings } from '../../../layers/screening/economics';
 import type { Scenario } from '../../../layers/screening/scenario';
+import {
+  createSystemResult,
+  simplePayback_yr,
+  systemConstants,
+  systemKernel,
+} from '../../../layers/screening/system-cop';
 import { soilThermalProperties } from '../../../layers/physics/soil-catalogue';
 
 export interface SiteYearEnergy {
@@ -85,22 +91,59 @@ export function energyByYear(input: SiteInput, result: SiteResult): SiteYearEner
   return out;
 }
 
-/** Fuel, CO2 and cost for the whole building over one typical year (mean over the run), or null. */
+/** System figures of a site run (system-cop.ts): null without a design load. */
+export interface SiteSystemFigures {
+  systemCop: number;
+  pumpPower_W: number;
+  capitalCost: number;
+  /** Simple payback against an oil furnace, yr (NaN: never). */
+  payback_yr: number;
+}
+
+/**
+ * Fuel, CO2 and cost for the whole building over one typical year (mean over the run), or null.
+ * With the building's design load (`peakLoad_W`) the figures are at the system COP (circulation pump,
+ * backup, auxiliaries: system-cop.ts, the heat pump sized to the design load) and `system` gives the
+ * system COP, pump power, capital cost and payback; without it, at the unit's seasonal COP.
+ */
 export function siteSavings(
   years: SiteYearEnergy[],
   piles: number,
   scenario: Scenario,
-): (DieselGridSavings & { seasonalCop: number; delivered_kWh: number }) | null {
+  peakLoad_W: number | null = null,
+):
+  | (DieselGridSavings & { seasonalCop: number; delivered_kWh: number; system: SiteSystemFigures | null })
+  | null {
   const ok = years.filter((y) => Number.isFinite(y.seasonalCop) && y.seasonalCop > 0 && y.delivered_kWh > 0);
   if (ok.length === 0) return null;
   const delivered = (ok.reduce((s, y) => s + y.delivered_kWh, 0) / ok.length) * piles;
   const electric = ok.reduce((s, y) => s + y.delivered_kWh / y.seasonalCop, 0) / ok.length;
   const cop = ok.reduce((s, y) => s + y.delivered_kWh, 0) / ok.length / electric;
-  return {
-    ...dieselGridSavings({ heatDelivered_kWh: delivered, seasonalCop: cop, economics: scenario.economics }),
-    seasonalCop: cop,
-    delivered_kWh: delivered,
-  };
+  let system: SiteSystemFigures | null = null;
+  let economicCop = cop;
+  if (peakLoad_W !== null && peakLoad_W > 0 && piles >= 1) {
+    const site: Scenario = { ...scenario, building: { ...scenario.building, foundationPiles: piles } };
+    const r = createSystemResult();
+    const copLimit = heatPumpAt({
+      enteringFluid_C: scenario.heatPump.minEnteringFluid_C,
+      curve: scenario.heatPump.curve,
+    }).cop;
+    systemKernel(site, systemConstants(site), peakLoad_W, delivered, cop, copLimit, r);
+    if (Number.isFinite(r.systemCop) && r.systemCop > 0) economicCop = r.systemCop;
+    system = {
+      systemCop: r.systemCop,
+      pumpPower_W: r.pumpPower_W,
+      capitalCost: r.capitalCost,
+      payback_yr: NaN,
+    };
+  }
+  const savings = dieselGridSavings({
+    heatDelivered_kWh: delivered,
+    seasonalCop: economicCop,
+    economics: scenario.economics,
+  });
+  if (system) system.payback_yr = simplePayback_yr(system.capitalCost, savings.costSaved);
+  return { ...savings, seasonalCop: cop, delivered_kWh: delivered, system };
 }
 
 /**

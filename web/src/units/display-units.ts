@@ -8,7 +8,8 @@
  *   1 ton of refrigeration = 12 000 Btu_IT/h = 3516.8528421 W (definition: 1 short ton of ice melted
  *   per 24 h, rounded by convention to 12 000 Btu/h),
  *   °F = °C * 9/5 + 32 (absolute temperatures); a temperature difference or rate: 1 K = 1.8 °F,
- *   1 US gal = 3.785411784 L, 1 mi = 1609.344 m, 1 lb = 0.45359237 kg (same 1959 agreement).
+ *   1 US gal = 3.785411784 L, 1 mi = 1609.344 m, 1 lb = 0.45359237 kg (same 1959 agreement),
+ *   1 lbf = 1 lb × 9.80665 m/s² (standard gravity) = 4.4482216152605 N, 1 kip = 1000 lbf, 1 psi = 1 lbf/in².
  * Units not in the table (yr, %, classes, counts, currency) are shown unchanged in both systems.
  * A band delivered in a North American unit (e.g. 'piles/ton') is shown in SI ('piles/kW') in the SI
  * system and unchanged in the North American one.
@@ -52,6 +53,10 @@ const NORTH_AMERICAN: Record<string, UnitConversion> = {
   kg: { unit: 'lb', factor: 1 / 0.45359237, offset: 0 },
   't/yr': { unit: 'short ton/yr', factor: 1000 / 0.45359237 / 2000, offset: 0 },
   't CO2/yr': { unit: 'short ton CO2/yr', factor: 1000 / 0.45359237 / 2000, offset: 0 },
+  // 1 lbf = 0.45359237 kg × 9.80665 m/s² = 4.4482216152605 N; 1 kip = 1000 lbf; 1 psi = 1 lbf/in².
+  kN: { unit: 'kip', factor: 1 / 4.4482216152605, offset: 0 },
+  kPa: { unit: 'psi', factor: 0.0254 ** 2 / 4.4482216152605e-3, offset: 0 },
+  Pa: { unit: 'psi', factor: 0.0254 ** 2 / 4.4482216152605, offset: 0 },
 };
 
 /** Non-SI unit label used by a band -> its SI display. */
