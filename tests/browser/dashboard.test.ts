@@ -153,6 +153,9 @@ describe('dashboard', () => {
     // Alignment of the drawn tiles with the cells: at opaque layer, the pixel under the cursor has
     // the colour of the class the cell table reports there (nearest-neighbour tiles, so cell edges
     // may differ by a pixel: allow one miss of nine).
+    // Uncertain places (ensemble build) are hatched over every layer by default: off for the colours.
+    const hatch = s.page.locator('[data-testid=hatch-uncertain]');
+    if ((await hatch.count()) > 0) await hatch.uncheck();
     const box = await s.page.locator('[data-testid=map]').boundingBox();
     if (!box) throw new Error('map not visible');
     const colours = classColours(band);
