@@ -9,7 +9,11 @@
  */
 import { closeSync, openSync } from 'node:fs';
 import { fromFile, type GeoTIFF, type GeoTIFFImage } from 'geotiff';
-import type { CellInputs, ScreeningModel } from '../../layers/screening/screening-model';
+import {
+  emptyCellInputs,
+  type CellInputs,
+  type ScreeningModel,
+} from '../../layers/screening/screening-model';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import { readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import type { AnalysisGrid } from './analysis-grid';
@@ -152,18 +156,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
   const nModel = model.layers.length;
   const out = new Float32Array(nModel);
   let bands: Float32Array[] = [];
-  const cell: CellInputs = {
-    meanAirTemp_C: NaN,
-    airAmplitude_C: NaN,
-    warming_C_per_yr: NaN,
-    textureClass: NaN,
-    waterContent_m3m3: NaN,
-    bedrockDepth_m: NaN,
-    groundTemp_C: NaN,
-    geothermalFlux_W_m2: NaN,
-    nFreeze: NaN,
-    latitude_deg: NaN,
-  };
+  const cell: CellInputs = emptyCellInputs();
   const cellRecord = cell as unknown as Record<string, number>;
 
   const screen = async (row0: number, row1: number, into: BandFiles = files) => {

@@ -24,7 +24,12 @@
  * kernel (suitability.ts) that at least `robustShare` of the members agree on, else "uncertain"; and
  * the share of members agreeing on the most common class.
  */
-import type { CellInputs, ScreeningLayer, ScreeningModel } from './screening-model';
+import {
+  emptyCellInputs,
+  type CellInputs,
+  type ScreeningLayer,
+  type ScreeningModel,
+} from './screening-model';
 import { parseScenario, type Scenario } from './scenario';
 import { buildCellConstants, type CellConstants, type SoilTable } from './cell-constants';
 import { createKernelScratch, evaluateCellMetrics } from './cell-kernel';
@@ -244,7 +249,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const sorted = new Float64Array(n);
   const counts = new Int32Array(4);
   const cellCols = spreadRoles.map(() => new Float64Array(n));
-  const memberCell: CellInputs = emptyCell();
+  const memberCell: CellInputs = emptyCellInputs();
   const memberRecord = memberCell as unknown as Record<string, number>;
 
   const evaluate = (cell: CellInputs, out: Float32Array, cellIndex = 0): void => {
@@ -301,20 +306,5 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
     uncertainty: u,
     layers,
     evaluate,
-  };
-}
-
-function emptyCell(): CellInputs {
-  return {
-    meanAirTemp_C: NaN,
-    airAmplitude_C: NaN,
-    warming_C_per_yr: NaN,
-    textureClass: NaN,
-    waterContent_m3m3: NaN,
-    bedrockDepth_m: NaN,
-    groundTemp_C: NaN,
-    geothermalFlux_W_m2: NaN,
-    nFreeze: NaN,
-    latitude_deg: NaN,
   };
 }

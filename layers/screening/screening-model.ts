@@ -29,6 +29,22 @@ export interface CellInputs {
   latitude_deg: number;
 }
 
+/** A cell with every input missing (NaN): the reusable record a hot loop fills field by field. */
+export function emptyCellInputs(): CellInputs {
+  return {
+    meanAirTemp_C: NaN,
+    airAmplitude_C: NaN,
+    warming_C_per_yr: NaN,
+    textureClass: NaN,
+    waterContent_m3m3: NaN,
+    bedrockDepth_m: NaN,
+    groundTemp_C: NaN,
+    geothermalFlux_W_m2: NaN,
+    nFreeze: NaN,
+    latitude_deg: NaN,
+  };
+}
+
 /** Texture class codes (layers/physics/texture-codes.ts). */
 export { TEXTURE_CODES, type TextureCode, type TextureName } from '../physics/texture-codes';
 
