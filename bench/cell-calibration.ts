@@ -44,6 +44,7 @@ import { METRIC, METRIC_COUNT } from '../layers/screening/cell-layers';
 import { flsResponse } from '../layers/screening/response-tables';
 import { monthAnomaly_K, monthlyPeakPerPile_W, MONTHS } from '../layers/screening/monthly-peak';
 import { meanFluidFromEntering_C } from '../layers/physics/fluid-temperature-convention';
+import { SiteFluidLimitError } from '../layers/site/site-bounds';
 import { THAW_HORIZON } from '../layers/screening/climate-horizon';
 import { BINDING } from '../layers/screening/operating-window';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../layers/screening/scenario';
@@ -375,10 +376,18 @@ export function groupBracket(
 ): { modelGroup_W: number | null; simIsolated_W: number | null; simField_W: number | null } {
   const group = modelSide(cell, base).figures.heatAtLimit_W;
   const isolated = calibrateCell(cell, base, { ...o, domainRadius_m: 20 }).sim.heatAtLimit_W;
-  const field = calibrateCell(cell, base, {
-    ...o,
-    domainRadius_m: base.building.pileSpacing_m / Math.sqrt(Math.PI),
-  }).sim.heatAtLimit_W;
+  // The endless field at the model's carried load can cool until the fluid would freeze (the simulator
+  // stops the run): its heat at the limit is then below the carried load but not measured, so null.
+  let field: number | null;
+  try {
+    field = calibrateCell(cell, base, {
+      ...o,
+      domainRadius_m: base.building.pileSpacing_m / Math.sqrt(Math.PI),
+    }).sim.heatAtLimit_W;
+  } catch (e) {
+    if (!(e instanceof SiteFluidLimitError)) throw e;
+    field = null;
+  }
   return { modelGroup_W: group, simIsolated_W: isolated, simField_W: field };
 }
 

@@ -3,14 +3,18 @@
  * analysis cells (2100 x 2100 km at 1 km in EPSG:3413) end to end — read + check the grids, resample,
  * screen every cell with the per-cell model on worker threads, write the tile pyramid, the per-band
  * GeoTIFFs and the manifest — and prints wall time per stage, cells per second and peak memory
- * (resident set, maxRSS from process.resourceUsage, which includes the worker threads).
+ * (resident set, maxRSS from process.resourceUsage, which includes the worker threads), for the
+ * earlier hand-written reader/resampler and for GDAL side by side, each build in its own process.
  * The input grids are smooth synthetic fields (not data; not the demo region), written to a temporary
  * directory in three CRSs and resolutions. Nothing is asserted (style.md habit 16).
  */
+import { execFileSync } from 'node:child_process';
 import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
-import { availableParallelism, tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { buildTiles } from '../data-pipeline/build/build-tiles';
+import type { InputReader } from '../data-pipeline/build/load-inputs';
 import { createTransform } from '../data-pipeline/crs/crs-definitions';
 import { writeBandGeoTiff } from '../data-pipeline/export/write-band-geotiff';
 import type { InputsConfig } from '../data-pipeline/inputs-config';
@@ -127,52 +131,110 @@ export async function writeSyntheticInputs(dir: string): Promise<void> {
   await writeFile(join(dir, 'pile-atlas-inputs.json'), JSON.stringify(config, null, 2));
 }
 
+interface ReaderRun {
+  reader: InputReader;
+  cellsTotal: number;
+  cellsScreened: number;
+  workers: number;
+  bands: number;
+  tiles: number;
+  stages: Record<string, number>;
+  wall_s: number;
+  maxRss_MB: number;
+  sampledRss_MB: number;
+}
+
+/** One build with `reader`, in this process (a child of run(), so each reader has its own peak RSS). */
+async function buildOnce(reader: InputReader, inDir: string, outDir: string): Promise<ReaderRun> {
+  let peakRss = process.memoryUsage().rss;
+  const sampler = setInterval(() => {
+    peakRss = Math.max(peakRss, process.memoryUsage().rss);
+  }, 200);
+  const stageStart: Record<string, number> = {};
+  const stageEnd: Record<string, number> = {};
+  const t = Date.now();
+  const summary = await buildTiles({
+    inDir,
+    outDir,
+    cellSize_m: CELL_M,
+    workers: availableParallelism(),
+    reader,
+    onProgress: (p) => {
+      stageStart[p.stage] ??= Date.now();
+      stageEnd[p.stage] = Date.now();
+    },
+  });
+  const wall_s = (Date.now() - t) / 1000;
+  clearInterval(sampler);
+  const stages: Record<string, number> = {};
+  for (const st of Object.keys(stageStart)) stages[st] = (stageEnd[st] - stageStart[st]) / 1000;
+  return {
+    reader,
+    cellsTotal: summary.cellsTotal,
+    cellsScreened: summary.cellsScreened,
+    workers: summary.workers,
+    bands: summary.bands.length,
+    tiles: summary.tiles,
+    stages,
+    wall_s,
+    maxRss_MB: process.resourceUsage().maxRSS / 1024,
+    sampledRss_MB: peakRss / 2 ** 20,
+  };
+}
+
+function runChild(reader: InputReader, inDir: string, outDir: string): ReaderRun {
+  const out = execFileSync(
+    process.execPath,
+    ['--import', 'tsx', fileURLToPath(import.meta.url), reader, inDir, outDir],
+    { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'], env: { ...process.env, [CHILD_ENV]: '1' } },
+  );
+  return JSON.parse(out.trim().split('\n').pop() as string) as ReaderRun;
+}
+
+const CHILD_ENV = 'PILE_ATLAS_PIPELINE_BENCH_CHILD';
+
+/**
+ * Both readers on the same inputs in one run, each build in its own process (its own peak memory):
+ * the earlier hand-written GeoTIFF reader and resampler ('legacy') and GDAL ('gdal', the default).
+ */
 export async function run(): Promise<void> {
   const root = await mkdtemp(join(tmpdir(), 'pile-atlas-bench-'));
   const inDir = join(root, 'in');
-  const outDir = join(root, 'out');
   await mkdir(inDir);
   try {
-    let t = Date.now();
+    const t = Date.now();
     await writeSyntheticInputs(inDir);
     console.log(`synthetic inputs written in ${((Date.now() - t) / 1000).toFixed(1)} s`);
-    let peakRss = process.memoryUsage().rss;
-    const sampler = setInterval(() => {
-      peakRss = Math.max(peakRss, process.memoryUsage().rss);
-    }, 200);
-    const stageStart: Record<string, number> = {};
-    const stageEnd: Record<string, number> = {};
-    const workers = availableParallelism();
-    t = Date.now();
-    const summary = await buildTiles({
-      inDir,
-      outDir,
-      cellSize_m: CELL_M,
-      workers,
-      onProgress: (p) => {
-        stageStart[p.stage] ??= Date.now();
-        stageEnd[p.stage] = Date.now();
-      },
-    });
-    const wall = (Date.now() - t) / 1000;
-    clearInterval(sampler);
-    const maxRss_MB = process.resourceUsage().maxRSS / 1024;
-    console.log(`cells in analysis grid: ${summary.cellsTotal} (screened ${summary.cellsScreened})`);
-    console.log(
-      `workers: ${summary.workers}; bands: ${summary.bands.length}; tiles: ${summary.tiles} (zoom ${summary.minZoom}-${summary.maxZoom})`,
-    );
-    for (const s of Object.keys(stageStart)) {
-      console.log(
-        `  stage ${s.padEnd(8)} ${((stageEnd[s] - stageStart[s]) / 1000).toFixed(1)} s (from first to last progress report)`,
-      );
+    const load = () =>
+      loadavg()
+        .map((l) => l.toFixed(1))
+        .join(', ');
+    console.log(`load average before: ${load()} (${availableParallelism()} cores)`);
+    const runs: ReaderRun[] = [];
+    for (const reader of ['legacy', 'gdal'] as const) {
+      runs.push(runChild(reader, inDir, join(root, `out-${reader}`)));
+      console.log(`load average after ${reader}: ${load()}`);
     }
-    console.log(
-      `wall time: ${wall.toFixed(1)} s; ${Math.round(summary.cellsTotal / wall)} cells/s end to end`,
-    );
-    console.log(
-      `peak memory: maxRSS ${maxRss_MB.toFixed(0)} MB; sampled rss peak ${(peakRss / 2 ** 20).toFixed(0)} MB`,
-    );
+    const r0 = runs[0];
+    console.log(`cells in analysis grid: ${r0.cellsTotal} (screened ${r0.cellsScreened})`);
+    console.log(`workers: ${r0.workers}; bands: ${r0.bands}; tiles: ${r0.tiles}`);
+    const stages = [...new Set(runs.flatMap((r) => Object.keys(r.stages)))];
+    const row = (label: string, f: (r: ReaderRun) => string) =>
+      console.log(`${label.padEnd(28)} ${runs.map((r) => f(r).padStart(12)).join(' ')}`);
+    row('', (r) => r.reader);
+    for (const st of stages) row(`  stage ${st} (s)`, (r) => (r.stages[st] ?? 0).toFixed(1));
+    row('wall time (s)', (r) => r.wall_s.toFixed(1));
+    row('cells/s end to end', (r) => String(Math.round(r.cellsTotal / r.wall_s)));
+    row('peak memory maxRSS (MB)', (r) => r.maxRss_MB.toFixed(0));
+    row('sampled rss peak (MB)', (r) => r.sampledRss_MB.toFixed(0));
+    console.log(`gdal / legacy wall time: ${(runs[1].wall_s / runs[0].wall_s).toFixed(2)}`);
   } finally {
     await rm(root, { recursive: true, force: true });
   }
+}
+
+if (process.env[CHILD_ENV]) {
+  const [reader, inDir, outDir] = process.argv.slice(2) as [InputReader, string, string];
+  const result = await buildOnce(reader, inDir, outDir);
+  process.stdout.write(JSON.stringify(result) + '\n');
 }

@@ -104,6 +104,28 @@ export const gridEntrySchema = z.strictObject({
   kind: z.enum(['continuous', 'class']),
   /** Overrides the file's own nodata value. */
   nodata: z.number().optional(),
+  /** NetCDF: the data variable (not needed when the file holds one). */
+  variable: z.string().min(1).optional(),
+  /** NetCDF with a time axis: how to reduce it to one field (read-netcdf.ts), over [from, to) months. */
+  time: z
+    .strictObject({
+      reduce: z.enum(['mean', 'annualMean', 'annualAmplitude', 'trend']),
+      from: z
+        .string()
+        .regex(/^\d{4}-\d{2}/, 'YYYY-MM')
+        .optional(),
+      to: z
+        .string()
+        .regex(/^\d{4}-\d{2}/, 'YYYY-MM')
+        .optional(),
+    })
+    .optional(),
+  /** Polygon input (GeoJSON, GeoPackage): the attribute that carries the role's value. */
+  attribute: z.string().min(1).optional(),
+  /** Polygon input: attribute value -> the role's value (in `unit`); without it the attribute is numeric. */
+  values: z.record(z.string(), z.number()).optional(),
+  /** Polygon input: the layer of a multi-layer GeoPackage. */
+  layer: z.string().min(1).optional(),
   provenance: z.string().optional(),
   licence: z.string().optional(),
   /**
@@ -124,6 +146,16 @@ export const inputsConfigSchema = z
     land: z.string().optional(),
     /** Optional GeoJSON of roads or other access lines/points: the build adds their distance band. */
     roads: z.string().optional(),
+    /** Limits for this region's builds (command-line options override them). */
+    budget: z
+      .strictObject({
+        maxInputMb: z.number().positive().optional(),
+        maxCells: z.number().int().positive().optional(),
+        maxMemoryMb: z.number().positive().optional(),
+        maxDiskMb: z.number().positive().optional(),
+        minLatitude_deg: z.number().min(-90).max(90).optional(),
+      })
+      .optional(),
     grids: z.array(gridEntrySchema).min(1),
   })
   .superRefine((config, ctx) => {

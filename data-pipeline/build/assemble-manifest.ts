@@ -137,6 +137,24 @@ export async function assembleManifest(p: ManifestParts): Promise<Manifest> {
       sha256: i.source.sha256,
       provenance: i.entry.provenance ?? p.config.provenance,
       licence: i.entry.licence ?? p.config.licence,
+      reading: {
+        reader: i.source.gdal ? 'GDAL (WebAssembly)' : 'GeoTIFF reader (legacy)',
+        ...(i.source.gdal
+          ? {
+              format: i.source.gdal.driver,
+              dataType: i.source.gdal.dataType,
+              fileUnit: i.source.gdal.fileUnit,
+            }
+          : {}),
+        scale: i.source.scale,
+        offset: i.source.offset,
+        nodata: i.source.nodata,
+        ...(i.source.netcdf
+          ? i.source.netcdf.polygons
+            ? i.source.netcdf
+            : { netcdf: i.source.netcdf }
+          : {}),
+      },
     })),
     ...(p.config.settlements ? { settlements: 'settlements.geojson' } : {}),
     ...(p.config.land ? { land: 'land.geojson' } : {}),

@@ -23,6 +23,8 @@ export interface BuildBudget {
   maxMemoryBytes: number;
   /** Disk the build may fill, bytes; default: the free space where the output goes. Option --max-disk-mb. */
   maxDiskBytes?: number;
+  /** Southernmost latitude the analysis grid may reach, degrees north. Option --min-latitude. */
+  minLatitude_deg: number;
 }
 
 /**
@@ -31,7 +33,61 @@ export interface BuildBudget {
  * of this machine's RAM.
  */
 export function defaultBudget(): BuildBudget {
-  return { maxInputBytes: 4096 * MB, maxCells: 200_000_000, maxMemoryBytes: Math.floor(totalmem() * 0.75) };
+  return {
+    maxInputBytes: 4096 * MB,
+    maxCells: 200_000_000,
+    maxMemoryBytes: Math.floor(totalmem() * 0.75),
+    minLatitude_deg: DEFAULT_MIN_LATITUDE_DEG,
+  };
+}
+
+/**
+ * 30°N: south of the lowest mountain permafrost of the northern hemisphere (about 28°N on the Tibetan
+ * Plateau excepted; recalled from memory), and where the polar stereographic analysis grid's scale
+ * error reaches about 30 % (k = (1 + sin 70°) / (1 + sin φ) = 1.29 at 30°N).
+ */
+export const DEFAULT_MIN_LATITUDE_DEG = 30;
+
+/** The budget as the inputs config may state it (`budget`), in the config's units. */
+export interface ConfigBudget {
+  maxInputMb?: number;
+  maxCells?: number;
+  maxMemoryMb?: number;
+  maxDiskMb?: number;
+  minLatitude_deg?: number;
+}
+
+/** The config's budget in BuildBudget terms (only the fields it states). */
+export function budgetFromConfig(b: ConfigBudget | undefined): Partial<BuildBudget> {
+  if (!b) return {};
+  return {
+    ...(b.maxInputMb !== undefined ? { maxInputBytes: Math.round(b.maxInputMb * MB) } : {}),
+    ...(b.maxCells !== undefined ? { maxCells: b.maxCells } : {}),
+    ...(b.maxMemoryMb !== undefined ? { maxMemoryBytes: Math.round(b.maxMemoryMb * MB) } : {}),
+    ...(b.maxDiskMb !== undefined ? { maxDiskBytes: Math.round(b.maxDiskMb * MB) } : {}),
+    ...(b.minLatitude_deg !== undefined ? { minLatitude_deg: b.minLatitude_deg } : {}),
+  };
+}
+
+/**
+ * Refuse an analysis grid that reaches south of the budget's latitude limit, or whose outline does not
+ * map onto the Earth (a CRS or extent read wrongly), before anything is allocated.
+ */
+export function checkLatitudeRange(
+  o: { width: number; height: number; cellSize_m: number; latitudes: number[] },
+  budget: BuildBudget,
+): void {
+  const bad = o.latitudes.filter((v) => !Number.isFinite(v)).length;
+  const south = Math.min(...o.latitudes.filter(Number.isFinite));
+  if (bad > 0 || !(south >= budget.minLatitude_deg)) {
+    throw new InputError(
+      `analysis grid: ${o.width} x ${o.height} cells of ${o.cellSize_m} m ` +
+        (bad > 0
+          ? `has ${bad} outline points off the Earth`
+          : `reaches ${south.toFixed(1)}°N, south of the limit ${budget.minLatitude_deg}°N`) +
+        ' (a CRS or extent read wrongly?); set --min-latitude or budget.minLatitude_deg in the inputs config if intended',
+    );
+  }
 }
 
 /** Largest single strip or tile the decoder may hold at once, bytes (common practice). */
@@ -111,6 +167,8 @@ export function estimateBuild(o: {
   threads: number;
   inputWidthMax: number;
   geotiff: boolean;
+  /** Inputs warped onto the analysis grid as raw Float32 files (GDAL reader): 4 B x cells each. */
+  alignedInputs?: number;
 }): BuildEstimate {
   const cells = o.width * o.height;
   const perThread =
@@ -128,7 +186,8 @@ export function estimateBuild(o: {
     tileCount += across(o.width) * across(o.height);
   }
   const tiles = tileCount * o.bands * 256 * 256 * 2 + 16 * MB;
-  const diskBytes = bandFiles + (o.geotiff ? bandFiles : 0) + tiles;
+  const aligned = (o.alignedInputs ?? 0) * cells * 4;
+  const diskBytes = bandFiles + (o.geotiff ? bandFiles : 0) + tiles + aligned;
   return { memoryBytes, diskBytes };
 }
 

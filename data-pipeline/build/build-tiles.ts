@@ -40,21 +40,23 @@ import type { ScreeningModel } from '../../layers/screening/screening-model';
 import type { GridSpread, SpreadRole } from '../../layers/screening/uncertainty-schema';
 import type { InputsConfig } from '../inputs-config';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
-import { GEOTIFF_ROWS_PER_STRIP, writeBandGeoTiff } from '../export/write-band-geotiff';
+import { writeBandCog } from '../export/write-band-cog';
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
 import { writeTilePyramid, zoomRangeFor } from '../tiles/write-tile-pyramid';
-import { analysisGridFor } from './analysis-grid';
+import { analysisGridFor, outlineLatitudes } from './analysis-grid';
 import { assembleManifest, bandFor, bandStatsOf, classShares } from './assemble-manifest';
 import { beginAtomicOutput, recoverOutput } from './atomic-output';
-import { checkBuildBudget, defaultBudget, estimateBuild, type BuildBudget } from './build-budget';
+import { checkBuildBudget, checkLatitudeRange, estimateBuild, type BuildBudget } from './build-budget';
 import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
-import { closeBandFds, openBandFds, readBandRows } from './band-files';
 import { computeLayers } from './compute-layers';
 import { addProximityBands } from './proximity-bands';
 import { compareWithFirst, type ScenarioComparison } from './compare-scenarios';
-import { loadInputs } from './load-inputs';
+import { loadInputs, type InputReader } from './load-inputs';
+import { alignInputs, gdalTransformTo } from './align-inputs';
+import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 import type { BuildDistributor } from './build-distributor';
 
@@ -86,6 +88,11 @@ export interface BuildOptions {
   geotiff?: boolean;
   /** Limits checked before reading and writing (default: defaultBudget()). */
   budget?: Partial<BuildBudget>;
+  /**
+   * 'gdal' (default): inputs read and warped by GDAL. 'legacy': the earlier hand-written GeoTIFF reader
+   * and resampler, kept only so bench/pipeline.bench.ts can time both in one run.
+   */
+  reader?: InputReader;
   /**
    * Run the screening windows and tile subtrees elsewhere (e.g. as jobs on a queue,
    * data-pipeline/queue/queue-distributor.ts) instead of this process's worker threads.
@@ -235,269 +242,310 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
   const { inDir, outDir, onProgress } = options;
   const cellSize_m = options.cellSize_m ?? 1000;
   const progress = (stage: string, done: number, total: number) => onProgress?.({ stage, done, total });
-  const budget: BuildBudget = { ...defaultBudget(), ...options.budget };
   // A build killed earlier may have left a swap half done: put the previous output back first.
   recoverOutput(outDir);
   checkOutputTarget(inDir, outDir);
   const models = resolveModels(options);
   const modelName = models[0].name;
 
-  const { config, inputs, geojson } = await loadInputs(inDir, (d, t) => progress('read', d, t), budget);
-  for (const m of models) {
-    if (m.spec?.kind === 'ensemble') {
-      // The grids' own spreads (inputs config) replace the scenario's defaults.
-      m.spec = { ...m.spec, gridSpreads: declaredSpreads(config) };
-      m.model = createModelFromSpec(m.spec);
-    }
-  }
-  await faultPoint('read', inDir);
-  const grid = analysisGridFor(
-    inputs
-      .filter((i) => i.role.required)
-      .map((i) => ({ label: i.entry.file, grid: i.source.grid, validBox: i.source.validBox })),
-    cellSize_m,
+  const reader = options.reader ?? 'gdal';
+  const { config, inputs, geojson, budget, derivedDir } = await loadInputs(
+    inDir,
+    (d, t) => progress('read', d, t),
+    options.budget,
+    reader,
   );
-  const threads = options.workers ?? Math.min(8, availableParallelism());
-  checkBuildBudget(
-    {
-      outDir,
-      width: grid.width,
-      height: grid.height,
+  try {
+    return await buildFromInputs();
+  } finally {
+    if (derivedDir) await rm(derivedDir, { recursive: true, force: true });
+  }
+
+  async function buildFromInputs(): Promise<BuildSummary> {
+    for (const m of models) {
+      if (m.spec?.kind === 'ensemble') {
+        // The grids' own spreads (inputs config) replace the scenario's defaults.
+        m.spec = { ...m.spec, gridSpreads: declaredSpreads(config) };
+        m.model = createModelFromSpec(m.spec);
+      }
+    }
+    await faultPoint('read', inDir);
+    const toAnalysis = reader === 'gdal' ? await gdalTransformTo(ANALYSIS_CRS) : undefined;
+    const grid = analysisGridFor(
+      inputs
+        .filter((i) => i.role.required)
+        .map((i) => ({
+          label: i.entry.file,
+          grid: i.source.grid,
+          validBox: i.source.validBox,
+          ...(toAnalysis && i.source.gdal ? { toAnalysis: toAnalysis(i.source.gdal.srsWkt) } : {}),
+        })),
       cellSize_m,
-      ...estimateBuild({
+    );
+    checkLatitudeRange({ ...grid, latitudes: outlineLatitudes(grid) }, budget);
+    const threads = options.workers ?? Math.min(8, availableParallelism());
+    checkBuildBudget(
+      {
+        outDir,
         width: grid.width,
         height: grid.height,
-        bands: models.reduce((n, m) => n + m.model.layers.length + 8, 0),
-        inputs: inputs.length,
-        threads,
-        inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
-        geotiff: options.geotiff !== false,
-      }),
-    },
-    budget,
-  );
-  const output = await beginAtomicOutput(outDir);
-  let stage: FaultStage = 'screen';
-  const enter = async (next: FaultStage, target: string) => {
-    stage = next;
-    await faultPoint(next, target);
-  };
-  try {
-    const outputs: ScenarioOutput[] = [];
-    const slugs = models.map((m, i) =>
-      models.length === 1 ? '' : scenarioSlug(m.scenario?.name ?? `s${i}`),
+        cellSize_m,
+        ...estimateBuild({
+          width: grid.width,
+          height: grid.height,
+          bands: models.reduce((n, m) => n + m.model.layers.length + 8, 0),
+          inputs: inputs.length,
+          threads,
+          inputWidthMax: Math.max(...inputs.map((i) => i.source.grid.width)),
+          geotiff: options.geotiff !== false,
+          alignedInputs: reader === 'gdal' ? inputs.length : 0,
+        }),
+      },
+      budget,
     );
-    for (let si = 0; si < models.length; si++) {
-      const resolved = models[si];
-      const { model, spec } = resolved;
-      const dir = si === 0 ? output.dir : join(output.dir, 'scenarios', slugs[si]);
-      const tag = models.length > 1 ? ` ${resolved.scenario?.name ?? si}` : '';
-      await mkdir(dir, { recursive: true });
-      await enter('screen', dir);
-      const bandsDir = join(dir, '.bands');
-      const result = await computeLayers({
-        grid,
-        bandsDir,
-        inputs,
-        model,
-        spec,
-        workers: threads,
-        // An ensemble costs its member count per cell: worth the workers on N times fewer cells.
-        minCellsForWorkers:
-          options.minCellsForWorkers ??
-          (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
-        onProgress: (d, t) => progress(`screen${tag}`, d, t),
-        windowRunner: options.distributor?.windows,
-      });
-      if (result.cellsScreened === 0) {
-        throw new InputError(
-          `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
-        );
-      }
-      await addProximityBands({
-        grid,
-        files: result.files,
-        layers: result.layers,
-        // Beside the model's band files: on the shared storage when the build runs on a queue.
-        bandsDir: dirname(result.files.paths[0]),
-        maskBand: 0,
-        geojson,
-      });
-      const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
-      const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
-      const margin = (2 * cellSize_m) / 111_000;
-      const b = result.bounds;
-      const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
-      const bounds: [number, number, number, number] = [
-        Math.max(-180, b[0] - lonMargin),
-        Math.max(-85, b[1] - margin),
-        Math.min(180, b[2] + lonMargin),
-        Math.min(85, b[3] + margin),
-      ];
-      const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
+    const output = await beginAtomicOutput(outDir);
+    let stage: FaultStage = 'screen';
+    const enter = async (next: FaultStage, target: string) => {
+      stage = next;
+      await faultPoint(next, target);
+    };
+    try {
+      const alignedDir = join(output.dir, '.inputs');
+      if (reader === 'gdal') await alignInputs(inputs, grid, alignedDir, (d, t) => progress('warp', d, t));
+      const outputs: ScenarioOutput[] = [];
+      const slugs = models.map((m, i) =>
+        models.length === 1 ? '' : scenarioSlug(m.scenario?.name ?? `s${i}`),
+      );
+      for (let si = 0; si < models.length; si++) {
+        const resolved = models[si];
+        const { model, spec } = resolved;
+        const dir = si === 0 ? output.dir : join(output.dir, 'scenarios', slugs[si]);
+        const tag = models.length > 1 ? ` ${resolved.scenario?.name ?? si}` : '';
+        await mkdir(dir, { recursive: true });
+        await enter('screen', dir);
+        const bandsDir = join(dir, '.bands');
+        const result = await computeLayers({
+          grid,
+          bandsDir,
+          inputs,
+          model,
+          spec,
+          workers: threads,
+          // An ensemble costs its member count per cell: worth the workers on N times fewer cells.
+          minCellsForWorkers:
+            options.minCellsForWorkers ??
+            (spec?.kind === 'ensemble' ? Math.ceil(400_000 / ensembleMembers(model)) : undefined),
+          onProgress: (d, t) => progress(`screen${tag}`, d, t),
+          windowRunner: options.distributor?.windows,
+        });
+        if (result.cellsScreened === 0) {
+          throw new InputError(
+            `${inputs.map((i) => i.entry.file).join(', ')}: no cell has every required input (grids share no land)`,
+          );
+        }
+        await addProximityBands({
+          grid,
+          files: result.files,
+          layers: result.layers,
+          // Beside the model's band files: on the shared storage when the build runs on a queue.
+          bandsDir: dirname(result.files.paths[0]),
+          maskBand: 0,
+          geojson,
+        });
+        const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
+        const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
+        const margin = (2 * cellSize_m) / 111_000;
+        const b = result.bounds;
+        const lonMargin = margin / Math.cos((Math.min(85, b[3]) * Math.PI) / 180);
+        const bounds: [number, number, number, number] = [
+          Math.max(-180, b[0] - lonMargin),
+          Math.max(-85, b[1] - margin),
+          Math.min(180, b[2] + lonMargin),
+          Math.min(85, b[3] + margin),
+        ];
+        const { minZoom, maxZoom } = zoomRangeFor(cellSize_m, (bounds[1] + bounds[3]) / 2);
 
-      await enter('tiles', join(dir, 'tiles'));
-      const tilesByZoom = await writeTilePyramid({
-        tilesDir: join(dir, 'tiles'),
-        grid,
-        files: result.files,
-        bands: bands.map((band) => ({ kind: band.kind, quant: band })),
-        minZoom,
-        maxZoom,
-        bounds,
-        onTile: (d, t) => progress(`tiles${tag}`, d, t),
-        workers: result.workers,
-        subtreeRunner: options.distributor?.subtrees,
-      });
-      let geotiffs: Record<string, string> | undefined;
-      if (options.geotiff !== false) {
-        await enter('geotiff', join(dir, 'geotiff'));
-        geotiffs = {};
-        await mkdir(join(dir, 'geotiff'));
-        for (let i = 0; i < bands.length; i++) {
-          const file = `geotiff/${bands[i].id}.tif`;
-          const [fd] = openBandFds({ ...result.files, paths: [result.files.paths[i]] }, 'r');
-          const strip = new Float32Array(GEOTIFF_ROWS_PER_STRIP * grid.width);
-          try {
-            await writeBandGeoTiff({
+        await enter('tiles', join(dir, 'tiles'));
+        const tilesByZoom = await writeTilePyramid({
+          tilesDir: join(dir, 'tiles'),
+          grid,
+          files: result.files,
+          bands: bands.map((band) => ({ kind: band.kind, quant: band })),
+          minZoom,
+          maxZoom,
+          bounds,
+          onTile: (d, t) => progress(`tiles${tag}`, d, t),
+          workers: result.workers,
+          subtreeRunner: options.distributor?.subtrees,
+        });
+        let geotiffs: Record<string, string> | undefined;
+        if (options.geotiff !== false) {
+          await enter('geotiff', join(dir, 'geotiff'));
+          geotiffs = {};
+          await mkdir(join(dir, 'geotiff'));
+          const cautions = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
+          for (let i = 0; i < bands.length; i++) {
+            const file = `geotiff/${bands[i].id}.tif`;
+            const band = bands[i];
+            await writeBandCog({
               path: join(dir, file),
-              readRows: (row0, row1) => readBandRows(fd, grid.width, row0, row1, strip),
+              rawPath: result.files.paths[i],
               width: grid.width,
               height: grid.height,
               geoTransform: grid.geoTransform,
               crs: grid.crs,
-              description: `pile-atlas ${bands[i].id} [${bands[i].unit || 'class'}] ${bands[i].title}.${resolved.scenario && models.length > 1 ? ` Scenario: ${resolved.scenario.name}.` : ''} Screening estimate, not a design.${config.region.fictional ? ' INVENTED DEMO DATA.' : ''}`,
+              band: {
+                id: band.id,
+                title: band.title,
+                unit: band.unit,
+                kind: band.kind,
+                ...(band.ramp ? { ramp: band.ramp } : {}),
+                ...(band.classes ? { classes: band.classes } : {}),
+              },
+              metadata: {
+                TITLE: `Pile Atlas: ${band.title}`,
+                CAUTION: cautions,
+                ...(config.region.fictional ? { NOTICE: FICTIONAL_DATA_NOTICE } : {}),
+                REGION: config.region.name,
+                ...(resolved.scenario && models.length > 1 ? { SCENARIO: resolved.scenario.name } : {}),
+              },
             });
-          } finally {
-            closeBandFds([fd]);
+            geotiffs[band.id] = file;
+            progress(`geotiff${tag}`, i + 1, bands.length);
           }
-          geotiffs[bands[i].id] = file;
-          progress(`geotiff${tag}`, i + 1, bands.length);
         }
+        const shares: Record<string, Record<string, number>> = {};
+        result.layers.forEach((layer, i) => {
+          if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
+        });
+        // The first scenario's bands stay until the others are compared with it (compare-scenarios.ts).
+        const comparison = si > 0 ? compareWithFirst(outputs[0].result, result) : null;
+        if (si > 0 || models.length === 1) await rm(bandsDir, { recursive: true, force: true });
+        const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
+        outputs.push({
+          resolved,
+          dir,
+          slug: slugs[si],
+          sub: si === 0 ? '' : `scenarios/${slugs[si]}/`,
+          result,
+          bands,
+          bounds,
+          minZoom,
+          maxZoom,
+          tilesByZoom,
+          tiles,
+          shares,
+          geotiffs,
+          comparison,
+        });
       }
-      const shares: Record<string, Record<string, number>> = {};
-      result.layers.forEach((layer, i) => {
-        if (layer.classes) shares[layer.id] = classShares(stats[i], layer.classes);
-      });
-      // The first scenario's bands stay until the others are compared with it (compare-scenarios.ts).
-      const comparison = si > 0 ? compareWithFirst(outputs[0].result, result) : null;
-      if (si > 0 || models.length === 1) await rm(bandsDir, { recursive: true, force: true });
-      const tiles = Object.values(tilesByZoom).reduce((a, c) => a + c, 0);
-      outputs.push({
-        resolved,
-        dir,
-        slug: slugs[si],
-        sub: si === 0 ? '' : `scenarios/${slugs[si]}/`,
-        result,
-        bands,
-        bounds,
-        minZoom,
-        maxZoom,
-        tilesByZoom,
-        tiles,
-        shares,
-        geotiffs,
-        comparison,
-      });
-    }
-    if (models.length > 1) await rm(join(output.dir, '.bands'), { recursive: true, force: true });
+      if (models.length > 1) await rm(join(output.dir, '.bands'), { recursive: true, force: true });
+      await rm(alignedDir, { recursive: true, force: true });
 
-    await enter('manifest', join(output.dir, 'manifest.json'));
-    const setInfo = models.length > 1 ? scenarioSetInfo(outputs) : undefined;
-    const seconds = (Date.now() - started) / 1000;
-    for (const o of outputs) {
-      // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
-      if (geojson.settlements !== undefined)
-        await writeFile(join(o.dir, 'settlements.geojson'), geojson.settlements);
-      if (geojson.land !== undefined) await writeFile(join(o.dir, 'land.geojson'), geojson.land);
-      if (geojson.roads !== undefined) await writeFile(join(o.dir, 'roads.geojson'), geojson.roads);
-      // The ensemble's effective uncertainty: distributions, grid spreads, members and seed.
-      const uncertainty = (o.resolved.model as ScreeningModel & { uncertainty?: unknown }).uncertainty;
-      const r = o.result;
-      const summary = {
+      await enter('manifest', join(output.dir, 'manifest.json'));
+      const setInfo = models.length > 1 ? scenarioSetInfo(outputs) : undefined;
+      const seconds = (Date.now() - started) / 1000;
+      for (const o of outputs) {
+        // The GeoJSON layers as read and validated at load time (never re-read from the inputs).
+        if (geojson.settlements !== undefined)
+          await writeFile(join(o.dir, 'settlements.geojson'), geojson.settlements);
+        if (geojson.land !== undefined) await writeFile(join(o.dir, 'land.geojson'), geojson.land);
+        if (geojson.roads !== undefined) await writeFile(join(o.dir, 'roads.geojson'), geojson.roads);
+        // The ensemble's effective uncertainty: distributions, grid spreads, members and seed.
+        const uncertainty = (o.resolved.model as ScreeningModel & { uncertainty?: unknown }).uncertainty;
+        const r = o.result;
+        const summary = {
+          cellsTotal: r.cellsTotal,
+          cellsScreened: r.cellsScreened,
+          cellsMissingInput: r.cellsMissingInput,
+          cellsModelNodata: r.cellsModelNodata,
+          screenedArea_km2: Math.round((r.cellsScreened * cellSize_m * cellSize_m) / 1e6),
+          classShares: o.shares,
+          tiles: o.tiles,
+          workers: r.workers,
+          seconds,
+        };
+        const scenario = o.resolved.scenario;
+        const manifest = await assembleManifest({
+          config,
+          inputs,
+          grid,
+          bands: o.bands,
+          bounds: o.bounds,
+          minZoom: o.minZoom,
+          maxZoom: o.maxZoom,
+          parameters: {
+            cellSize_m,
+            resampling:
+              reader === 'gdal'
+                ? {
+                    library: 'GDAL gdalwarp (WebAssembly)',
+                    class: 'near',
+                    continuous: 'bilinear over valid pixels',
+                  }
+                : { class: 'nearest', continuous: 'bilinear over valid neighbours' },
+            overviews: { class: 'mode', continuous: 'mean' },
+            model: o.resolved.name,
+            ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
+            ...(uncertainty ? { uncertainty } : {}),
+          },
+          ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
+          summary,
+          geotiffs: o.geotiffs,
+        });
+        const withSet = setInfo
+          ? {
+              ...manifest,
+              scenarioSet: {
+                ...setInfo,
+                current: scenario?.name ?? '',
+                root: o.sub ? '../../' : '',
+              },
+            }
+          : manifest;
+        const checked = manifestSchema.parse(withSet);
+        await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
+        await validateOutput(o.dir, checked);
+      }
+      await options.distributor?.cleanup();
+      stage = 'swap';
+      await output.commit();
+      const first = outputs[0];
+      const r = first.result;
+      return {
+        outDir,
+        manifest: join(outDir, 'manifest.json'),
+        model: modelName,
         cellsTotal: r.cellsTotal,
         cellsScreened: r.cellsScreened,
         cellsMissingInput: r.cellsMissingInput,
         cellsModelNodata: r.cellsModelNodata,
-        screenedArea_km2: Math.round((r.cellsScreened * cellSize_m * cellSize_m) / 1e6),
-        classShares: o.shares,
-        tiles: o.tiles,
+        tiles: first.tiles,
+        tilesByZoom: first.tilesByZoom,
+        minZoom: first.minZoom,
+        maxZoom: first.maxZoom,
+        bands: first.bands.map((x) => x.id),
+        classShares: first.shares,
         workers: r.workers,
-        seconds,
+        seconds: (Date.now() - started) / 1000,
+        cellsPerSecond: Math.round(r.cellsTotal / ((Date.now() - started) / 1000)),
+        ...(options.distributor ? { queue: options.distributor.report() } : {}),
+        ...(models.length > 1
+          ? {
+              scenarios: outputs.map((o) => ({
+                name: o.resolved.scenario?.name ?? '',
+                dir: o.sub ? o.sub.slice(0, -1) : '.',
+              })),
+            }
+          : {}),
       };
-      const scenario = o.resolved.scenario;
-      const manifest = await assembleManifest({
-        config,
-        inputs,
-        grid,
-        bands: o.bands,
-        bounds: o.bounds,
-        minZoom: o.minZoom,
-        maxZoom: o.maxZoom,
-        parameters: {
-          cellSize_m,
-          resampling: { class: 'nearest', continuous: 'bilinear over valid neighbours' },
-          overviews: { class: 'mode', continuous: 'mean' },
-          model: o.resolved.name,
-          ...(options.scenarioFile ? { scenarioFile: options.scenarioFile } : {}),
-          ...(uncertainty ? { uncertainty } : {}),
-        },
-        ...(scenario ? { scenario, criteria: manifestCriteria(scenario) } : {}),
-        summary,
-        geotiffs: o.geotiffs,
-      });
-      const withSet = setInfo
-        ? {
-            ...manifest,
-            scenarioSet: {
-              ...setInfo,
-              current: scenario?.name ?? '',
-              root: o.sub ? '../../' : '',
-            },
-          }
-        : manifest;
-      const checked = manifestSchema.parse(withSet);
-      await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
-      await validateOutput(o.dir, checked);
+    } catch (err) {
+      await options.distributor?.cleanup().catch(() => undefined);
+      await output.discard();
+      const code = (err as NodeJS.ErrnoException)?.code;
+      if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
+      throw err;
     }
-    await options.distributor?.cleanup();
-    stage = 'swap';
-    await output.commit();
-    const first = outputs[0];
-    const r = first.result;
-    return {
-      outDir,
-      manifest: join(outDir, 'manifest.json'),
-      model: modelName,
-      cellsTotal: r.cellsTotal,
-      cellsScreened: r.cellsScreened,
-      cellsMissingInput: r.cellsMissingInput,
-      cellsModelNodata: r.cellsModelNodata,
-      tiles: first.tiles,
-      tilesByZoom: first.tilesByZoom,
-      minZoom: first.minZoom,
-      maxZoom: first.maxZoom,
-      bands: first.bands.map((x) => x.id),
-      classShares: first.shares,
-      workers: r.workers,
-      seconds: (Date.now() - started) / 1000,
-      cellsPerSecond: Math.round(r.cellsTotal / ((Date.now() - started) / 1000)),
-      ...(options.distributor ? { queue: options.distributor.report() } : {}),
-      ...(models.length > 1
-        ? {
-            scenarios: outputs.map((o) => ({
-              name: o.resolved.scenario?.name ?? '',
-              dir: o.sub ? o.sub.slice(0, -1) : '.',
-            })),
-          }
-        : {}),
-    };
-  } catch (err) {
-    await options.distributor?.cleanup().catch(() => undefined);
-    await output.discard();
-    const code = (err as NodeJS.ErrnoException)?.code;
-    if (code && DISK_FULL.has(code)) throw diskFullError(outDir, stage, err as NodeJS.ErrnoException);
-    throw err;
   }
 }
 

@@ -131,6 +131,9 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     label: i.source.label,
     nodata: i.source.nodata,
     unit: i.entry.unit,
+    scale: i.source.scale,
+    offset: i.source.offset,
+    ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
   }));
   const echoRoles = echoes.map((e) => e.role);
   const runner = options.windowRunner;

@@ -1,13 +1,19 @@
 /**
- * Loads a build's inputs: the inputs config (zod-validated), then opens every grid it lists
- * (read-geotiff-grid.ts) and scans it block by block of rows: values converted to the role's SI unit and
- * checked against the role's plausible range, valid-pixel box found. No grid is held whole. Every problem is an
- * InputError naming the file and the field, role or pixel.
+ * Loads a build's inputs: the inputs config (zod-validated), then opens every grid it lists through
+ * GDAL (open-raster.ts) and scans it block by block of rows: the file's scale and offset applied, values
+ * converted to the role's SI unit and checked against the role's plausible range, valid-pixel box found.
+ * GDAL first writes band 1 as a raw Float32 copy into a scratch directory (removed afterwards), which
+ * the scan reads; no grid is held whole. Every problem is an InputError naming the file and the field,
+ * role or pixel, and for a scaled file the scale applied.
+ *
+ * `reader: 'legacy'` keeps the earlier hand-written GeoTIFF reader (read-geotiff-grid.ts, EPSG codes of
+ * crs-definitions.ts only) for the side-by-side benchmark (bench/pipeline.bench.ts); builds use GDAL.
  */
 import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
-import { readFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { closeSync, createReadStream, openSync } from 'node:fs';
+import { mkdtemp, readFile, realpath, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
 import { ValidationError } from '../../layers/validation-error';
 import {
   GRID_ROLES,
@@ -22,7 +28,16 @@ import { validateGeoJsonLayer, type GeoJsonLayer } from '../read/geojson-input';
 import { resolveInputFile } from '../read/input-paths';
 import { MAX_JSON_BYTES, readJsonFile } from '../read/read-json-file';
 import { openGeoTiffGrid, readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
-import { defaultBudget, type BuildBudget } from './build-budget';
+import { openRaster, type RasterInput } from '../read/open-raster';
+import { isHdf5File, readNetcdf } from '../read/read-netcdf';
+import { rasterisePolygons } from '../read/rasterise-polygons';
+import { ANALYSIS_CRS } from '../crs/crs-definitions';
+import { loadGdal } from '../gdal/gdal-wasm';
+import { readBandRows } from './band-files';
+import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
+
+/** Which reader opens the inputs: GDAL (default) or the earlier hand-written GeoTIFF reader. */
+export type InputReader = 'gdal' | 'legacy';
 
 /** An input grid as screening needs it: where to read it and how (its values stay in the file). */
 export interface InputSource {
@@ -37,6 +52,15 @@ export interface InputSource {
   integerSamples: boolean;
   /** Bounding box of the valid pixels [col0, row0, col1, row1) exclusive, or null if all nodata. */
   validBox: [number, number, number, number] | null;
+  /** physical = stored x scale + offset (from the file's metadata; 1 and 0 when it declares none). */
+  scale: number;
+  offset: number;
+  /** Present when GDAL opened the file: its CRS as WKT, driver, declared unit and data type. */
+  gdal?: Pick<RasterInput, 'srsWkt' | 'driver' | 'fileUnit' | 'dataType'>;
+  /** For a NetCDF input: variable, grid mapping and time selection (read-netcdf.ts). */
+  netcdf?: Record<string, unknown>;
+  /** Raw Float32 grid on the analysis grid, written by alignInputs (align-inputs.ts). */
+  aligned?: string;
 }
 
 export interface LoadedInput {
@@ -91,16 +115,23 @@ export function convertAndCheck(input: LoadedInput, values: Float32Array, row0: 
   const convert = role.units[entry.unit];
   const [lo, hi] = role.range;
   const width = source.grid.width;
+  const scale = source.scale ?? 1;
+  const offset = source.offset ?? 0;
+  const scaled = scale !== 1 || offset !== 0;
   for (let i = 0; i < values.length; i++) {
-    const raw = values[i];
-    if (raw !== raw) continue;
+    const stored = values[i];
+    if (stored !== stored) continue;
+    const raw = scaled ? stored * scale + offset : stored;
     const v = convert(raw);
     const bad = v < lo || v > hi || (role.kind === 'class' && !Number.isInteger(v));
     if (bad) {
+      const how = scaled
+        ? `stored ${stored} x scale ${scale} + offset ${offset} from the file's metadata`
+        : 'no scale or offset in the file';
       throw new InputError(
-        `${entry.file}: ${entry.role} value ${raw} ${entry.unit} at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}) ` +
+        `${entry.file}: ${entry.role} value ${Number(raw.toPrecision(7))} ${entry.unit} (${how}) at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}) ` +
           `outside the plausible range ${lo}..${hi}${role.kind === 'class' ? ' (integer class codes)' : ''} ` +
-          `after conversion from "${entry.unit}" (wrong unit declared, or corrupt data?)`,
+          `after conversion from "${entry.unit}" (wrong unit or scale declared, or corrupt data?)`,
       );
     }
     values[i] = v;
@@ -120,13 +151,7 @@ const SCAN_CELLS = 1 << 20;
  * Open one input and scan it block by block of rows: unit conversion + range check and the bounding
  * box of its valid pixels. Nothing of the grid is kept: screening reads windows again from the file.
  */
-async function scanInput(
-  inDir: string,
-  entry: GridEntry,
-  index: number,
-  budget: BuildBudget,
-): Promise<LoadedInput> {
-  const path = await resolveInputFile(inDir, entry.file, `grids.${index}.file`, INPUTS_CONFIG_FILE);
+async function scanInputLegacy(path: string, entry: GridEntry, budget: BuildBudget): Promise<LoadedInput> {
   const opened = await openGeoTiffGrid(path, { label: entry.file, nodataOverride: entry.nodata, budget });
   try {
     const { width, height } = opened.header;
@@ -139,6 +164,8 @@ async function scanInput(
       sha256: '',
       integerSamples: opened.integerSamples,
       validBox: null,
+      scale: 1,
+      offset: 0,
     };
     const input: LoadedInput = { entry, role: GRID_ROLES[entry.role] as GridRole, source };
     const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
@@ -165,22 +192,174 @@ async function scanInput(
   }
 }
 
+/** Running valid-pixel box of a scan, [c0, r0, c1, r1] (c1 < 0 while empty). */
+function extendBox(box: number[], values: Float32Array, width: number, row0: number): void {
+  for (let i = 0; i < values.length; i++) {
+    if (values[i] !== values[i]) continue;
+    const c = i % width;
+    const r = row0 + (i - c) / width;
+    if (c < box[0]) box[0] = c;
+    if (c > box[2]) box[2] = c;
+    if (r < box[1]) box[1] = r;
+    box[3] = r;
+  }
+}
+
+/**
+ * Open one input through GDAL and scan it: band 1 is copied as raw Float32 into `scratch` by GDAL,
+ * then read block by block of rows (nodata and non-finite values -> NaN, scale/offset, unit, range).
+ */
+async function scanInputGdal(
+  path: string,
+  entry: GridEntry,
+  budget: BuildBudget,
+  scratch: string,
+  index: number,
+  inDir: string,
+  derivedDir: string,
+): Promise<LoadedInput> {
+  const filePath = path;
+  let netcdf: Record<string, unknown> | undefined;
+  let derivedUnit: string | null | undefined;
+  if (entry.attribute) {
+    const poly = await rasterisePolygons(path, derivedDir, String(index), {
+      label: entry.file,
+      attribute: entry.attribute,
+      values: entry.values,
+      layer: entry.layer,
+      srs: ANALYSIS_CRS,
+    });
+    path = poly.tif;
+    netcdf = poly.reading;
+  } else if (entry.values || entry.layer) {
+    throw new InputError(
+      `${entry.file}: "values" and "layer" apply to polygon inputs (with "attribute") only`,
+    );
+  } else if (await isHdf5File(path)) {
+    const nc = await readNetcdf(path, derivedDir, String(index), {
+      label: entry.file,
+      variable: entry.variable,
+      time: entry.time,
+      budget,
+    });
+    path = nc.vrtPath;
+    netcdf = nc.reading;
+    derivedUnit = nc.unit;
+  } else if (entry.variable || entry.time) {
+    throw new InputError(`${entry.file}: "variable" and "time" apply to NetCDF-4 files only`);
+  }
+  const opened = await openRaster(path, {
+    label: entry.file,
+    nodataOverride: entry.nodata,
+    budget,
+    insideDirs: [resolve(inDir), await realpath(inDir), resolve(derivedDir)],
+  });
+  if (derivedUnit !== undefined) opened.fileUnit = derivedUnit;
+  const role = GRID_ROLES[entry.role] as GridRole;
+  if (opened.fileUnit && opened.fileUnit in role.units && opened.fileUnit !== entry.unit) {
+    throw new InputError(
+      `${entry.file}: the file declares unit "${opened.fileUnit}" but the inputs config says "${entry.unit}" for ${entry.role}`,
+    );
+  }
+  const { width, height } = opened.header;
+  const source: InputSource = {
+    grid: opened.header,
+    path,
+    label: entry.file,
+    nodata: opened.nodata,
+    description: opened.description,
+    sha256: '',
+    integerSamples: opened.integerSamples,
+    validBox: null,
+    scale: opened.scale,
+    offset: opened.offset,
+    gdal: {
+      srsWkt: opened.srsWkt,
+      driver: entry.attribute ? 'polygons' : netcdf ? 'netCDF' : opened.driver,
+      fileUnit: opened.fileUnit,
+      dataType: opened.dataType,
+    },
+    ...(netcdf ? { netcdf } : {}),
+  };
+  const input: LoadedInput = { entry, role, source };
+  const raw = join(scratch, `${index}.f32`);
+  const gdal = await loadGdal();
+  try {
+    gdal.translate(path, raw, ['-of', 'ENVI', '-ot', 'Float32', '-b', '1']);
+  } catch (err) {
+    throw new InputError(`${entry.file}: unreadable image data (${(err as Error).message})`);
+  }
+  const nodata = opened.nodata;
+  const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
+  const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
+  const block = new Float32Array(rows * width);
+  const box = [Infinity, Infinity, -Infinity, -Infinity];
+  const fd = openSync(raw, 'r');
+  try {
+    for (let y0 = 0; y0 < height; y0 += rows) {
+      const y1 = Math.min(height, y0 + rows);
+      const values = block.subarray(0, (y1 - y0) * width);
+      readBandRows(fd, width, y0, y1, values);
+      for (let i = 0; i < values.length; i++) {
+        const v = values[i];
+        if (v === nodata || v === nodataSingle || !Number.isFinite(v)) values[i] = NaN;
+      }
+      convertAndCheck(input, values, y0);
+      extendBox(box, values, width, y0);
+    }
+  } finally {
+    closeSync(fd);
+    await rm(raw, { force: true });
+  }
+  source.validBox = box[2] < 0 ? null : [box[0], box[1], box[2] + 1, box[3] + 1];
+  source.sha256 = await sha256Of(filePath);
+  return input;
+}
+
 /** Read the config and scan every grid in it (converted and range-checked; values not kept). */
 export async function loadInputs(
   inDir: string,
   onGrid?: (done: number, total: number) => void,
-  budget: BuildBudget = defaultBudget(),
+  overrides: Partial<BuildBudget> = {},
+  reader: InputReader = 'gdal',
 ) {
   const config = await readInputsConfig(inDir);
+  // Defaults, then the inputs config's budget, then the caller's (command-line) options.
+  const budget: BuildBudget = { ...defaultBudget(), ...budgetFromConfig(config.budget), ...overrides };
   const geojson: LoadedInputs['geojson'] = {};
   if (config.settlements)
     geojson.settlements = await readGeoJsonLayer(inDir, 'settlements', config.settlements);
   if (config.land) geojson.land = await readGeoJsonLayer(inDir, 'land', config.land);
   if (config.roads) geojson.roads = await readGeoJsonLayer(inDir, 'roads', config.roads);
   const inputs: LoadedInput[] = [];
-  for (const [i, entry] of config.grids.entries()) {
-    inputs.push(await scanInput(inDir, entry, i, budget));
-    onGrid?.(inputs.length, config.grids.length);
+  const scratch = reader === 'gdal' ? await mkdtemp(join(tmpdir(), 'pile-atlas-scan-')) : '';
+  // Fields derived from NetCDF inputs live until the build has warped them (the caller removes it).
+  const derivedDir = reader === 'gdal' ? await mkdtemp(join(tmpdir(), 'pile-atlas-derived-')) : '';
+  try {
+    for (const [i, entry] of config.grids.entries()) {
+      const path = await resolveInputFile(inDir, entry.file, `grids.${i}.file`, INPUTS_CONFIG_FILE);
+      inputs.push(
+        reader === 'gdal'
+          ? await scanInputGdal(path, entry, budget, scratch, i, inDir, derivedDir)
+          : await scanInputLegacy(path, entry, budget),
+      );
+      onGrid?.(inputs.length, config.grids.length);
+    }
+  } catch (err) {
+    if (derivedDir) await rm(derivedDir, { recursive: true, force: true });
+    throw err;
+  } finally {
+    if (scratch) await rm(scratch, { recursive: true, force: true });
   }
-  return { config, configFile: INPUTS_CONFIG_FILE, inputs, geojson } satisfies LoadedInputs;
+  return {
+    config,
+    configFile: INPUTS_CONFIG_FILE,
+    inputs,
+    geojson,
+    budget,
+    derivedDir,
+  } satisfies LoadedInputs & {
+    budget: BuildBudget;
+    derivedDir: string;
+  };
 }

@@ -7,6 +7,7 @@
  * input's pixel box at a time (the window's footprint in that grid, whatever the region's height). Used identically
  * by the main thread and the worker threads, so a build gives the same numbers whatever the worker count.
  */
+import { closeSync, openSync } from 'node:fs';
 import { fromFile, type GeoTIFF, type GeoTIFFImage } from 'geotiff';
 import {
   emptyCellInputs,
@@ -16,7 +17,7 @@ import {
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import { readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import type { AnalysisGrid } from './analysis-grid';
-import { closeBandFds, openBandFds, writeBandRows, type BandFiles } from './band-files';
+import { closeBandFds, openBandFds, readBandRows, writeBandRows, type BandFiles } from './band-files';
 import { cellCentresIn, footprintBox, resampleAt } from './resample-to-grid';
 
 /** Flag bits of the inputFlags band: which optional input was absent in the cell. */
@@ -33,10 +34,38 @@ export interface WindowInput {
   nodata: number | null;
   /** The unit declared in the inputs config (converted to the role's SI unit on read). */
   unit: string;
+  /** physical = stored x scale + offset, before the unit conversion. */
+  scale: number;
+  offset: number;
+  /** Raw Float32 file already on the analysis grid (align-inputs.ts); else `path` is resampled here. */
+  aligned?: string;
 }
 
 /** Images opened by a screener, one per input file, kept open across its windows (closed by `close`). */
 type ImageCache = Map<string, { tiff: GeoTIFF; image: GeoTIFFImage }>;
+
+/** Rows [row0, row1) of an aligned input, in SI; file descriptors cached across windows. */
+function readAligned(
+  input: WindowInput & { aligned: string },
+  width: number,
+  row0: number,
+  row1: number,
+  fds: Map<string, number>,
+): Float32Array {
+  let fd = fds.get(input.aligned);
+  if (fd === undefined) {
+    fd = openSync(input.aligned, 'r');
+    fds.set(input.aligned, fd);
+  }
+  const values = readBandRows(fd, width, row0, row1);
+  const convert = (GRID_ROLES[input.role].units as Record<string, (v: number) => number>)[input.unit];
+  const { scale, offset } = input;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v === v) values[i] = convert(v * scale + offset);
+  }
+  return values;
+}
 
 /**
  * Read the part of `input` that resampling at `coords` touches (footprintBox), converted to SI, and
@@ -115,10 +144,13 @@ export interface WindowScreener {
 /** Create a screener for the context; call `screen` for each window, then `close`. */
 export function createWindowScreener(ctx: WindowContext): WindowScreener {
   const cache: ImageCache = new Map();
+  const inputFds = new Map<string, number>();
   const close = async () => {
     const open = [...cache.values()];
     cache.clear();
     for (const { tiff } of open) await tiff.close();
+    for (const fd of inputFds.values()) closeSync(fd);
+    inputFds.clear();
   };
   const { grid, inputs, model, echoRoles, files } = ctx;
   const nModel = model.layers.length;
@@ -148,8 +180,14 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
     const empty = new Float32Array(count).fill(NaN);
     const sampled = new Map<GridRoleId, Float32Array>();
     for (const r of ROLES) sampled.set(r, empty);
-    for (const input of inputs)
-      sampled.set(input.role, await sampleInput(input, coordsFor(input.grid.crs), cache));
+    for (const input of inputs) {
+      sampled.set(
+        input.role,
+        input.aligned
+          ? readAligned({ ...input, aligned: input.aligned }, grid.width, row0, row1, inputFds)
+          : await sampleInput(input, coordsFor(input.grid.crs), cache),
+      );
+    }
     const required = REQUIRED.map((r) => sampled.get(r) as Float32Array);
     const all = ROLES.map((r) => sampled.get(r) as Float32Array);
     const texture = sampled.get('textureClass') as Float32Array;

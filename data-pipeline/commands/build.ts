@@ -1,6 +1,6 @@
 /** `pile-atlas build`: screen a region and write the tile pyramid, GeoTIFFs and manifest. */
 import { availableParallelism } from 'node:os';
-import { defaultBudget, type BuildBudget } from '../build/build-budget';
+import { DEFAULT_MIN_LATITUDE_DEG, defaultBudget, type BuildBudget } from '../build/build-budget';
 import { buildTiles, type BuildSummary } from '../build/build-tiles';
 import { InputError } from '../input-error';
 import { INPUTS_CONFIG_FILE } from '../inputs-config';
@@ -14,16 +14,18 @@ import { numberOption, parseOptions, requireOption, type ParsedOptions } from '.
 
 const MB = 1024 * 1024;
 
-/** The budget options (--max-*), over the defaults. */
-function budgetOptions(opts: ParsedOptions): BuildBudget {
-  const d = defaultBudget();
-  const mb = (name: string, fallback: number) =>
-    Math.round(numberOption('build', opts, name, fallback / MB, 0.001, 1e9) * MB);
+/** The budget options given (--max-*, --min-latitude); they override the inputs config's budget. */
+function budgetOptions(opts: ParsedOptions): Partial<BuildBudget> {
+  const given = (name: string) => opts.values[name] !== undefined;
+  const mb = (name: string) => Math.round(numberOption('build', opts, name, 0, 0.001, 1e9) * MB);
   return {
-    maxInputBytes: mb('max-input-mb', d.maxInputBytes),
-    maxCells: numberOption('build', opts, 'max-cells', d.maxCells, 1, 1e12, true),
-    maxMemoryBytes: mb('max-memory-mb', d.maxMemoryBytes),
-    ...(opts.values['max-disk-mb'] !== undefined ? { maxDiskBytes: mb('max-disk-mb', 0) } : {}),
+    ...(given('max-input-mb') ? { maxInputBytes: mb('max-input-mb') } : {}),
+    ...(given('max-cells') ? { maxCells: numberOption('build', opts, 'max-cells', 0, 1, 1e12, true) } : {}),
+    ...(given('max-memory-mb') ? { maxMemoryBytes: mb('max-memory-mb') } : {}),
+    ...(given('max-disk-mb') ? { maxDiskBytes: mb('max-disk-mb') } : {}),
+    ...(given('min-latitude')
+      ? { minLatitude_deg: numberOption('build', opts, 'min-latitude', 0, -90, 90) }
+      : {}),
   };
 }
 
@@ -91,6 +93,7 @@ Options:
   --max-cells N       analysis grid cells allowed (default ${defaultBudget().maxCells})
   --max-memory-mb N   estimated memory allowed (default 3/4 of RAM, here ${Math.round(defaultBudget().maxMemoryBytes / MB)})
   --max-disk-mb N     disk the build may fill (default: the free space where --out is)
+  --min-latitude D    southernmost latitude the analysis grid may reach (default ${DEFAULT_MIN_LATITUDE_DEG}°N)
   --queue <url>       screen and tile on \`pile-atlas worker\` processes through the Redis server at
                       redis://[:password@]host:port[/db]: windows and tile subtrees become queue jobs,
                       a job is tried 3 times, jobs finished by an earlier build of the same inputs are
@@ -116,6 +119,7 @@ Prints a JSON summary on stdout; progress with ETA and the run summary on stderr
         'max-disk-mb',
         'members',
         'seed',
+        'min-latitude',
         'queue',
         'shared',
       ],

@@ -50,6 +50,14 @@ import {
 } from './queue-jobs';
 import { checkQueueServer, type QueueConnection } from './redis-url';
 import { canonicalJson, jobDir, putInput, putObject, sha256Text } from './shared-storage';
+import { createReadStream } from 'node:fs';
+import { createHash } from 'node:crypto';
+
+async function sha256OfFile(path: string): Promise<string> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);
+  return hash.digest('hex');
+}
 import { TILE_SIZE } from '../../layers/screening/tile-format';
 
 export interface QueueDistributorOptions {
@@ -216,7 +224,14 @@ export async function createQueueDistributor(o: QueueDistributorOptions): Promis
     async prepare(c: ScreenJobContext): Promise<BandFiles> {
       const inputs: ScreenContext['inputs'] = [];
       for (const [i, input] of c.inputs.entries()) {
-        const { path, ...rest } = input;
+        const { path, aligned, ...rest } = input;
+        if (aligned) {
+          // Inputs GDAL warped onto the analysis grid travel as that raw grid, under its own checksum.
+          const sha256 = await sha256OfFile(aligned);
+          const rel = await putInput(o.shared, aligned, sha256, input.label);
+          inputs.push({ ...rest, sha256, rel, alignedInShared: true });
+          continue;
+        }
         const sha256 = c.inputSha256[i];
         inputs.push({ ...rest, sha256, rel: await putInput(o.shared, path, sha256, input.label) });
       }

@@ -26,7 +26,12 @@ export interface ScreenContext {
   tool: string;
   grid: AnalysisGrid;
   /** The inputs as a screener reads them, each with its file in shared storage and its checksum. */
-  inputs: (Omit<WindowInput, 'path'> & { rel: string; sha256: string })[];
+  /** `alignedInShared`: the shared file is the input already warped onto the analysis grid. */
+  inputs: (Omit<WindowInput, 'path' | 'aligned'> & {
+    rel: string;
+    sha256: string;
+    alignedInShared?: boolean;
+  })[];
   echoRoles: GridRoleId[];
   bandCount: number;
   /** sha256 of the canonical list of the inputs' sha256 (with their roles). */

@@ -72,8 +72,9 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
         const spec = await getObject<ModelSpec>(o.shared, ctx.scenarioChecksum);
         const inputs = [];
         for (const i of ctx.inputs) {
-          const { rel, sha256, ...input } = i;
-          inputs.push({ ...input, path: await verifiedInput(o.shared, rel, sha256) });
+          const { rel, sha256, alignedInShared, ...input } = i;
+          const path = await verifiedInput(o.shared, rel, sha256);
+          inputs.push({ ...input, path, ...(alignedInShared ? { aligned: path } : {}) });
         }
         const unused: BandFiles = { paths: [], width: ctx.grid.width, height: 0 };
         const screener = createWindowScreener({

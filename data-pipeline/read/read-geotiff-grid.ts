@@ -322,3 +322,56 @@ export async function readGeoTiffGrid(path: string, options: ReadGridOptions): P
     integerSamples: formats.length === 0 || formats[0] !== 3,
   };
 }
+
+/** What the TIFF structure check learns besides "the file is sound": the CRS code its GeoKeys name. */
+export interface TiffStructure {
+  /** The EPSG code of the GeoKeyDirectory (projected, else geographic), if any; 32767 = user-defined. */
+  crsCode?: number;
+}
+
+/**
+ * Guards run on a TIFF before GDAL reads it: every strip or tile inside the file (a truncated download)
+ * and the declared size within the budget (a decompression bomb), from the header and directory only.
+ */
+export async function checkTiffStructure(
+  path: string,
+  label: string,
+  size: number,
+  budget: BuildBudget,
+): Promise<TiffStructure> {
+  let tiff: Awaited<ReturnType<typeof fromFile>>;
+  try {
+    tiff = await fromFile(path);
+  } catch (err) {
+    throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+  }
+  try {
+    let image: GeoTIFFImage;
+    try {
+      image = await tiff.getImage();
+    } catch (err) {
+      throw new InputError(`${label}: unreadable TIFF (${(err as Error).message.split('\n')[0]})`);
+    }
+    await checkDataInFile(image, label, size, budget);
+    try {
+      await geoTransformOf(image, label);
+    } catch (err) {
+      // GDAL drops a zero pixel size silently (as "no georeferencing"): name it here.
+      if (err instanceof InputError && /degenerate/.test(err.message)) throw err;
+    }
+    const keys = image.getGeoKeys();
+    const model = keys?.GTModelTypeGeoKey as number | undefined;
+    const projected = keys?.ProjectedCSTypeGeoKey as number | undefined;
+    const geographic = keys?.GeographicTypeGeoKey as number | undefined;
+    return { crsCode: model === 2 ? geographic : (projected ?? geographic) };
+  } finally {
+    await tiff.close();
+  }
+}
+
+/** True when the first bytes are a (Big)TIFF header. */
+export function hasTiffHeader(bytes: Uint8Array): boolean {
+  return isTiffHeader(bytes);
+}
+
+export { fileError as inputFileError };

@@ -18,7 +18,7 @@ export interface CalibrationBand {
 }
 
 const ON =
-  'P95 bound, map model (one pile) against the site simulator on 50 demo cells (README, Calibration)';
+  'P95 bound, map model (one pile) against the site simulator on 200 demo cells (README, Calibration)';
 
 export const CALIBRATION_BANDS = {
   /** Ground along the pile, K (bounds groundPile_K). */
@@ -32,7 +32,7 @@ export const CALIBRATION_BANDS = {
   /** Share of the load carried, absolute (loadShare_abs). */
   loadShare: { kind: 'absolute', value: 0.05, source: ON },
   /** Thaw year without piles at the reference point, yr (noPileThaw_yr). */
-  noPileThaw: { kind: 'absolute', value: 7, source: ON },
+  noPileThaw: { kind: 'absolute', value: 9.5, source: ON },
 } as const satisfies Record<string, CalibrationBand>;
 
 /** Whether a quick estimate is within a band of the simulated value. */

@@ -65,7 +65,7 @@ import { ttop_C } from '../physics/ttop';
 import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
-import { flsResponse } from './response-tables';
+import { fieldResponseAtCount, flsResponse } from './response-tables';
 import {
   createWarmingHistory,
   historyLatentDelay_yr,
@@ -78,7 +78,13 @@ import {
   type WarmingHistory,
 } from './surface-warming-history';
 import { operatingWindow, type WindowResult } from './operating-window';
-import { MONTH_COS, MONTHS, monthlyPeakPerPile_W, pileWavePhasor } from './monthly-peak';
+import {
+  MONTH_COS,
+  MONTHS,
+  monthlyPeakPerPile_W,
+  pileWavePhasor,
+  type MonthlyPeakInput,
+} from './monthly-peak';
 import { lookup } from './log-table';
 import { enteringFromMeanFluid_C, meanFluidFromEntering_C } from '../physics/fluid-temperature-convention';
 import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
@@ -344,26 +350,30 @@ export function evaluateCellMetrics(
     { diffusivity_m2_s: alphaF, top_m: s.pile.topDepth_m, bottom_m: s.pile.topDepth_m + H },
     x.phasor,
   );
-  const qPeak = monthlyPeakPerPile_W(
-    {
-      groundMean_C: tPile,
-      surfaceAmplitude_C: nF * cell.airAmplitude_C,
-      phasor: x.phasor,
-      meanFluid_C: meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating'),
-      length_m: H,
-      resistance_mK_W: s.pile.resistance_mK_W,
-      conductivity_W_mK: kF,
-      gLife,
-      gMonth,
-      gPeak,
-      annualFraction,
-      monthlyFraction: x.monthlyFraction,
-      peakFraction: x.peakFraction,
-    },
-    x.peakMonth,
-  );
+  const peakInput = {
+    groundMean_C: tPile,
+    surfaceAmplitude_C: nF * cell.airAmplitude_C,
+    phasor: x.phasor,
+    meanFluid_C: meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating'),
+    length_m: H,
+    resistance_mK_W: s.pile.resistance_mK_W,
+    conductivity_W_mK: kF,
+    gLife,
+    gMonth,
+    gPeak,
+    annualFraction,
+    monthlyFraction: x.monthlyFraction,
+    peakFraction: x.peakFraction,
+  };
+  const qPeak = monthlyPeakPerPile_W(peakInput, x.peakMonth);
   m[M.extractionPerPile] = annualFraction * qPeak;
-  m[M.pilesPerTon] = qPeak > 0 ? (TON_W * groundFactor) / qPeak : NaN;
+  // Piles per ton: the piles the standard building needs, as a field of that many piles. Where that is
+  // more than the foundation, the larger field cools its ground more (a 4 × 4 group's 30-year response
+  // is 9.5, a 7 × 8 field's 13.8), so the count is found by fixed-point iteration on the field size
+  // (near-square at the foundation spacing, as the site study's three-pulse sizing lays it out).
+  const qField =
+    qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peak_W * groundFactor, alphaF, lifeS) : qPeak;
+  m[M.pilesPerTon] = qField > 0 ? (TON_W * groundFactor) / qField : NaN;
   const gRefLife = flsResponse(k.tables.referencePoint, alphaF, lifeS);
   const w = operatingWindow(
     {
@@ -655,4 +665,41 @@ function thawWithPiles(k: CellConstants, p: ThawSearch): number {
     if (Math.abs(ft) < 1e-6) return t;
   }
   return hi;
+}
+
+const FIELD_MONTH = new Float64Array(1);
+
+/**
+ * Design-peak capacity per pile (W) of a field of as many piles as the peak ground load needs: from
+ * the foundation pile's capacity `q0`, the count and the field response are iterated to a fixed point
+ * (the field response grows about as ln N, so 2–4 passes reach 0.5 %). Returns q0 when the foundation
+ * suffices.
+ */
+function fieldPeakPerPile_W(
+  k: CellConstants,
+  base: MonthlyPeakInput,
+  q0: number,
+  peakGround_W: number,
+  alphaF: number,
+  lifeS: number,
+): number {
+  const t = k.tables;
+  let q = q0;
+  let n = peakGround_W / q0;
+  for (let pass = 0; pass < 8 && n > t.fieldBySize.counts[0]; pass++) {
+    q = monthlyPeakPerPile_W(
+      {
+        ...base,
+        gLife: fieldResponseAtCount(t, n, alphaF * lifeS),
+        gMonth: fieldResponseAtCount(t, n, alphaF * (MONTH_S + PEAK_S)),
+      },
+      FIELD_MONTH,
+    );
+    if (!(q > 0)) return q;
+    const next = peakGround_W / q;
+    const done = Math.abs(next - n) <= 0.005 * n;
+    n = next;
+    if (done) break;
+  }
+  return q;
 }

@@ -80,6 +80,12 @@ export const inputSourceSchema = z.object({
   sha256: z.string().regex(/^[0-9a-f]{64}$/),
   provenance: z.string(),
   licence: z.string(),
+  /**
+   * How the file was read: format (GDAL driver or NetCDF-4), the scale and offset applied (physical =
+   * stored x scale + offset), the unit the file declares, nodata, and for NetCDF the variable, grid
+   * mapping and time selection.
+   */
+  reading: z.record(z.string(), z.unknown()).optional(),
 });
 
 export const manifestSchema = z.object({

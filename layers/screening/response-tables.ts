@@ -30,6 +30,7 @@ import { finiteLineSourceG, pileFieldGFunction } from '../physics/finite-line-so
 import { flsPointGUnchecked } from '../physics/finite-line-source-point';
 import { cylinderSourceG } from '../physics/infinite-cylinder-source';
 import { foundationGroup } from './foundation-group';
+import { layoutPositions } from '../site/sizing-layout';
 import { buildLogTable, lookup, type LogTable } from './log-table';
 import type { Scenario } from './scenario';
 
@@ -50,6 +51,13 @@ export interface ResponseTables {
   pileMean: LogTable;
   /** FLS field response of the foundation group, mean over its piles at their radius, vs αt (m²). */
   fieldMean: LogTable;
+  /**
+   * FLS field responses of larger near-square fields at the foundation spacing (the layout the site
+   * sizing uses, layers/site/sizing-layout.ts), mean over their piles, vs αt (m²): for the pile count
+   * when the building needs more piles than its foundation has. counts[0] is the foundation itself
+   * (tables[0] = fieldMean); the others are 2.25, 4, 9 and 16 times it.
+   */
+  fieldBySize: { counts: number[]; tables: LogTable[] };
   /** FLS response of the whole group at the reference point (reference depth and radius), vs αt (m²). */
   referencePoint: LogTable;
   /** 2π × cylinder source G at the pile wall, vs Fo = αt/r_b². */
@@ -124,17 +132,11 @@ function build(s: Scenario): ResponseTables {
     }
     return Math.exp(0.5 * (lo + hi));
   };
-  return {
-    rampForward,
-    rampInverse: buildLogTable(solveTau, { xMin: F_MIN, xMax: 2e6, perDecade: 40, logY: true }),
-    pileMean: buildLogTable(
-      (x) => finiteLineSourceG({ ...geometry, radius_m: s.pile.radius_m, time_s: x, point: 'mean' }),
-      fls,
-    ),
-    fieldMean: tabulateAll(
+  const fieldTable = (positions: { x_m: number; y_m: number }[]) =>
+    tabulateAll(
       (xs) =>
         pileFieldGFunction({
-          positions: group.positions,
+          positions,
           pileRadius_m: s.pile.radius_m,
           length_m: H,
           buriedDepth_m: D,
@@ -142,7 +144,34 @@ function build(s: Scenario): ResponseTables {
           times_s: xs,
         }),
       field,
+    );
+  const fieldMean = fieldTable(group.positions);
+  const nF = group.positions.length;
+  const larger = [2.25, 4, 9, 16].map((f) => Math.round(f * nF));
+  const fieldBySize = {
+    counts: [nF, ...larger],
+    tables: [
+      fieldMean,
+      ...larger.map((count) =>
+        fieldTable(
+          layoutPositions({
+            count,
+            layout: { spacing_m: s.building.pileSpacing_m },
+            pileRadius_m: s.pile.radius_m,
+          }),
+        ),
+      ),
+    ],
+  };
+  return {
+    rampForward,
+    rampInverse: buildLogTable(solveTau, { xMin: F_MIN, xMax: 2e6, perDecade: 40, logY: true }),
+    pileMean: buildLogTable(
+      (x) => finiteLineSourceG({ ...geometry, radius_m: s.pile.radius_m, time_s: x, point: 'mean' }),
+      fls,
     ),
+    fieldMean,
+    fieldBySize,
     referencePoint: buildLogTable((x) => {
       let g = 0;
       for (const [d, c] of refCounts) g += c * flsPointGUnchecked(d, zr, H, D, x);
@@ -208,4 +237,19 @@ export function rampTimeToRise_yr(
 /** FLS response g (dimensionless) from a table at αt = diffusivity·time (m²). */
 export function flsResponse(table: LogTable, diffusivity_m2_s: number, time_s: number): number {
   return time_s > 0 ? lookup(table, diffusivity_m2_s * time_s) : 0;
+}
+
+/**
+ * Field response of `count` piles (near-square field at the foundation spacing), mean over the piles,
+ * at αt = x (m²): linear in ln(count) between the tabulated field sizes, extrapolated along the last
+ * segment beyond the largest (the field g grows about as ln N there), the foundation's table below it.
+ */
+export function fieldResponseAtCount(t: ResponseTables, count: number, x: number): number {
+  const { counts, tables } = t.fieldBySize;
+  if (!(count > counts[0])) return lookup(tables[0], x);
+  let i = 0;
+  while (i < counts.length - 2 && count > counts[i + 1]) i++;
+  const w = Math.log(count / counts[i]) / Math.log(counts[i + 1] / counts[i]);
+  const a = lookup(tables[i], x);
+  return a + w * (lookup(tables[i + 1], x) - a);
 }

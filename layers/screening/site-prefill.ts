@@ -17,10 +17,19 @@
  * (length, top depth, diameter), the building (design load UA·(balance − (MAAT − amplitude − margin)),
  * foundation piles, balance point), the run length from the map's thaw years (studyRunYears), and the reference probe
  * (referenceRadius_m, referenceDepth_m) as probe 0 so the simulated thaw delay matches the map's.
- * The U-tube, fluid (30 % propylene glycol) and flow follow examples/site-demo.json (common practice).
+ * The pile is the map's standard pile, the one the calibration compares with the simulator
+ * (bench/cell-calibration.ts), so the published agreement bounds apply to the study as prefilled:
+ *   - a coaxial loop in the steel casing (centre pipe 50 × 3 mm PE, down the annulus) with the scenario's
+ *     pile resistance as the given resistance (pile.resistance: Rb = scenario.pile.resistance_mK_W,
+ *     Ra 1 m·K/W, as the calibration), with a note saying so: the user replaces it with the loop's own;
+ *   - 40 % propylene glycol (PREFILL_GLYCOL);
+ *   - the flow per pile that gives the map's loop temperature difference (2 × heatPump.fluidHalfDelta_K)
+ *     at the design-day peak, shared by the foundation's piles (prefillFlowPerPile_L_min).
  */
 import type { SiteInputDraft } from '../site/site-input-schema';
 import { designHeatingLoad_W } from '../site/site-load-line';
+import { heatPumpAt } from '../physics/heat-pump';
+import { fluidProperties } from '../physics/fluids';
 import { BAND, type BandId } from './band-ids';
 import { TEXTURE_CODES, type CellInputs, type TextureName } from './screening-model';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from './scenario';
@@ -97,6 +106,29 @@ export const PREFILL_FALLBACKS = {
 } as const;
 
 const DOMAIN_DEPTH_M = 50;
+/** Propylene glycol mass fraction of the prefilled loop, as the calibration (freezes near −21 °C, so the map's lowest leaving fluid keeps the 3 K freeze margin of the sizing; common practice). */
+const PREFILL_GLYCOL = 0.4;
+
+/**
+ * Loop flow per pile, L/min, that gives the map's loop temperature difference 2·fluidHalfDelta_K at the
+ * design-day peak: the peak ground load Q·(1 − 1/COP at the lowest entering fluid) shared by the
+ * foundation's piles, over ρc_p of the glycol at that fluid temperature. Rounded to 0.1 L/min, at least
+ * the form's 0.5 L/min.
+ */
+export function prefillFlowPerPile_L_min(s: Scenario, meanAirTemp_C: number, amplitude_C: number): number {
+  const hp = s.heatPump;
+  const peak_W = standardDesignLoad_W(s, meanAirTemp_C, amplitude_C);
+  const cop = heatPumpAt({ enteringFluid_C: hp.minEnteringFluid_C }).cop;
+  const ground_W = (peak_W * (1 - 1 / cop)) / s.building.foundationPiles;
+  const fl = fluidProperties({
+    fluid: 'propyleneGlycol',
+    massFraction: PREFILL_GLYCOL,
+    temperature_C: hp.minEnteringFluid_C,
+  });
+  const dT = Math.max(2 * hp.fluidHalfDelta_K, 0.5);
+  const flow = (ground_W / (fl.density_kg_m3 * fl.specificHeat_J_kgK * dT)) * 60000;
+  return Math.max(0.5, Math.round(flow * 10) / 10);
+}
 
 /** Scenario recorded in the manifest, or the defaults when absent or unreadable. */
 export function scenarioFromManifest(raw: unknown): Scenario {
@@ -222,6 +254,12 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   }
 
   const p = s.pile;
+  notes.push({
+    path: 'pile.resistance',
+    text:
+      `Pile resistance set to the map's standard pile, ${s.pile.resistance_mK_W} m·K/W, so the study and the map compare like with like; ` +
+      "enter your loop's measured resistances, or remove them to compute them from the loop and the flow.",
+  });
   const load = Math.round(standardLoadAtColdestAir_W(s, maat, amp) / 100) * 100;
   const draft: SiteInputDraft = {
     years: Math.round(s.designLife_yr),
@@ -239,15 +277,15 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
       outerDiameter_m: round(2 * p.radius_m, 4),
       wallThickness_m: 0.0071,
       loop: {
-        type: 'uTube',
-        pipeOuterDiameter_m: 0.032,
-        pipeInnerDiameter_m: 0.026,
-        pipeConductivity_W_mK: 0.4,
-        shankSpacing_m: 0.075,
-        fillConductivity_W_mK: 1.5,
+        type: 'coaxial',
+        centreOuterDiameter_m: 0.05,
+        centreInnerDiameter_m: 0.044,
+        centreConductivity_W_mK: 0.4,
+        downFlow: 'annulus',
       },
-      fluid: { name: 'propyleneGlycol', massFraction: 0.3 },
-      flow_L_min: 12,
+      fluid: { name: 'propyleneGlycol', massFraction: PREFILL_GLYCOL },
+      flow_L_min: prefillFlowPerPile_L_min(s, maat, amp),
+      resistance: { Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 },
     },
     operation: {
       mode: 'building',

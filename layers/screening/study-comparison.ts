@@ -191,13 +191,15 @@ export function compareStudy(input: {
       simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
       band: CALIBRATION_BANDS.pileCount,
       reason:
-        `Both for the ${group} by the three-pulse method (annual, design month, 6-hour peak), same building load and design life (${s.designLife_yr} yr). ` +
-        'The map takes its TTOP ground temperature and the standard pile resistance; the study sizes with the simulated ground temperature at mid-pile' +
-        (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C)` : '') +
+        `Both count a field of as many piles as the load needs (near-square at the foundation spacing, ${s.building.pileSpacing_m} m), for the same building, pile and fluid limit over the design life (${s.designLife_yr} yr), with the design-day peak. ` +
+        'The map checks every month against the seasonal ground wave along the pile computed by conduction alone (TTOP ground' +
+        (m && m.groundTemp.value !== null ? ` ${f1(m.groundTemp.value)} °C` : '') +
+        '); the study checks every month against the simulated ground along the pile' +
+        (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C at mid-pile)` : '') +
+        ', whose winter dip is smaller because the freezing active layer releases latent heat, so it needs fewer piles' +
         (run.result.fluid
-          ? `, the resistance of the loop in the form (${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)})`
-          : ', the resistance of the loop in the form') +
-        ' and the annual energy of its load line.',
+          ? `; pile resistance ${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)}.`
+          : '.'),
     }),
   );
 
@@ -218,7 +220,8 @@ export function compareStudy(input: {
         (atLimit
           ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
           : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
-        ' The map holds the fluid limit through a 6-hour design peak each month; the study steps a week at a time and cannot see that peak, so it lets the pile draw more heat in the cold weeks.',
+        ' Two differences in operation, not in the ground: the map holds the fluid limit through a 6-hour design peak each month and scales the whole year down until the limiting month just reaches the limit (a heat pump no larger than the piles can carry at peak); ' +
+        'the study steps a week at a time, cannot see the 6-hour peak, and cuts only the weeks that reach the limit (backup heat covers the rest), so its pile draws more heat.',
     }),
   );
   rows.push(
@@ -230,7 +233,7 @@ export function compareStudy(input: {
       quickOnePile: m1?.loadShare.value ?? null,
       simulated: d.loadShare,
       band: CALIBRATION_BANDS.loadShare,
-      reason: `${onePile} The study's share is the heat delivered over the heating demand of the run, with the fluid limit applied week by week (no 6-hour design peak, which the map includes), so it carries more.`,
+      reason: `${onePile} The map's share is the whole year scaled down until the limiting month's 6-hour peak just reaches the fluid limit; the study's is the heat delivered over the heating demand of the run with only the weeks at the limit cut (backup heat covers them) and no 6-hour peak, so it carries more. The calibration bound is for the map's operation and does not cover this difference.`,
     }),
   );
   rows.push(

@@ -59,7 +59,20 @@ export interface PileFieldSizingInput {
   monthlyFractions?: readonly number[];
   pile: { length_m: number; radius_m: number; buriedDepth_m: number; Rb_mK_W: number };
   layout: PileLayout;
-  ground: { conductivity_W_mK: number; diffusivity_m2_s: number; undisturbedTemperature_C: number };
+  ground: {
+    conductivity_W_mK: number;
+    diffusivity_m2_s: number;
+    undisturbedTemperature_C: number;
+    /**
+     * Undisturbed ground averaged along the pile, month by month (12 values, the months of
+     * monthlyFractions), °C. When given, the design is checked in every month against that month's
+     * ground, with its own monthly load and the design-day peak above it (the short piles of a
+     * foundation sit in the seasonal wave, whose pile-averaged minimum lags the air by one to three
+     * months: the coldest-load month need not be the limiting one). Absent: every month at
+     * undisturbedTemperature_C and only the design month is checked (the classical three pulses).
+     */
+    monthlyTemperature_C?: readonly number[];
+  };
   minEnteringFluid_C?: number;
   heatPumpCurve?: HeatPumpCurve;
   fluid?: { fluid: FluidName; massFraction: number };
@@ -99,6 +112,8 @@ interface Prepared {
   k: number;
   a: number;
   Tg: number;
+  /** Month-by-month pile-averaged ground (12), or null for the annual mean in the design month only. */
+  TgMonths: number[] | null;
   Rb: number;
   layout: PileLayout;
   q: Record<Pulse, number>;
@@ -139,6 +154,12 @@ function prepare(input: PileFieldSizingInput): Prepared {
     30,
     '°C',
   );
+  const tm = input.ground.monthlyTemperature_C;
+  if (tm !== undefined && tm.length !== 12)
+    throw new RangeError(`ground.monthlyTemperature_C must hold 12 values; received ${tm.length}`);
+  const TgMonths = tm
+    ? tm.map((t, i) => requireRange(`ground.monthlyTemperature_C[${i}]`, t, -30, 30, '°C'))
+    : null;
   const curve = input.heatPumpCurve ?? DEFAULT_HEAT_PUMP_CURVE;
   const minEft = requireRange(
     'minEnteringFluid_C',
@@ -189,6 +210,7 @@ function prepare(input: PileFieldSizingInput): Prepared {
     k,
     a,
     Tg,
+    TgMonths,
     Rb,
     layout: input.layout,
     q: { annual: (annual_J / YEAR_S) * fracGround, monthly: qMonths[designMonth], peak: qPeak },
@@ -229,20 +251,55 @@ function peakG(p: Prepared): number {
   return g;
 }
 
-function drops(p: Prepared, n: number): Record<Pulse, number> {
+/**
+ * Drops of the mean fluid below the ground by pulse in month `m` (default the design month): the annual
+ * pulse over the life, the month's load above the annual mean, the design-day peak above the design
+ * month's mean (the same UA·margin above every month's mean) with the resistance at the month's peak.
+ */
+function drops(p: Prepared, n: number, m = p.designMonth): Record<Pulse, number> {
   const L = n * p.H;
   const [gLife, gMonth] = fieldG(p, n, [p.life_s, MONTH_S + p.peak_s]);
   const c = 1 / (2 * Math.PI * p.k * L);
+  const above = p.q.peak - p.q.monthly;
+  const month = p.qMonths[m];
   return {
     annual: p.q.annual * gLife * c,
-    monthly: (p.q.monthly - p.q.annual) * gMonth * c,
-    peak: (p.q.peak - p.q.monthly) * peakG(p) * c + (p.q.peak / L) * p.Rb,
+    monthly: (month - p.q.annual) * gMonth * c,
+    peak: above * peakG(p) * c + ((month + above) / L) * p.Rb,
   };
 }
 
+/** Ground in month m: the month's pile-averaged ground when given, else the annual mean. */
+function groundIn(p: Prepared, m: number): number {
+  return p.TgMonths ? p.TgMonths[m] : p.Tg;
+}
+
+function eftIn(p: Prepared, n: number, m: number): number {
+  const d = drops(p, n, m);
+  return enteringFromMeanFluid_C(
+    groundIn(p, m) - d.annual - d.monthly - d.peak,
+    2 * p.halfLoopDrop_K,
+    'heating',
+  );
+}
+
+/** The limiting month: the design month, or with monthly ground the month of the lowest entering fluid. */
+function limitingMonth(p: Prepared, n: number): number {
+  if (!p.TgMonths) return p.designMonth;
+  let best = p.designMonth;
+  let low = eftIn(p, n, best);
+  for (let m = 0; m < 12; m++) {
+    const e = eftIn(p, n, m);
+    if (e < low - 1e-12) {
+      low = e;
+      best = m;
+    }
+  }
+  return best;
+}
+
 function eft(p: Prepared, n: number): number {
-  const d = drops(p, n);
-  return enteringFromMeanFluid_C(p.Tg - d.annual - d.monthly - d.peak, 2 * p.halfLoopDrop_K, 'heating');
+  return eftIn(p, n, limitingMonth(p, n));
 }
 
 /** Entering fluid temperature at the design condition for a given pile count (same method). */
@@ -334,13 +391,14 @@ export function sizePileField(input: PileFieldSizingInput): PileFieldSizingResul
 }
 
 function result(p: Prepared, n: number, withSeries: boolean): PileFieldSizingResult {
-  const d = drops(p, n);
+  const month = limitingMonth(p, n);
+  const d = drops(p, n, month);
   const controlling = (Object.keys(d) as Pulse[]).reduce(
     (best, k) => (d[k] > d[best] ? k : best),
     'annual' as Pulse,
   );
   const design = enteringFromMeanFluid_C(
-    p.Tg - d.annual - d.monthly - d.peak,
+    groundIn(p, month) - d.annual - d.monthly - d.peak,
     2 * p.halfLoopDrop_K,
     'heating',
   );

@@ -83,3 +83,47 @@ export function annualMeanAt(profile: ProfilePoint[], z_m: number): number {
 export function ownProbes<T extends { probes: unknown[] }>(run: T, column: ProfileColumn): T {
   return { ...run, probes: run.probes.slice(0, column.firstProbe) };
 }
+
+/**
+ * Undisturbed ground averaged along a pile (top_m to bottom_m), month by month in year `year` (12
+ * values, at mid-month (Y − 1) + (i + ½)/12, linear in time between the output samples, which come
+ * about monthly on the run's weekly steps), then over the pile by the trapezoid rule on the column's
+ * depths (linear between depths). Null when the run does not cover the year or the column does not
+ * reach the pile's depths.
+ */
+export function pileMonthlyGround_C(
+  run: SiteCaseResult,
+  column: ProfileColumn,
+  year: number,
+  top_m: number,
+  bottom_m: number,
+): number[] | null {
+  const z = column.depths_m;
+  const t = run.time_yr;
+  if (z.length < 2 || !(top_m >= z[0] - 1e-9) || !(bottom_m <= z[z.length - 1] + 1e-9)) return null;
+  if (t.length < 2 || !(t[0] <= year - 1 + 1 / 24) || !(t[t.length - 1] >= year - 1 / 24)) return null;
+  const out: number[] = [];
+  let j = 0;
+  for (let m = 0; m < 12; m++) {
+    const tm = year - 1 + (m + 0.5) / 12;
+    while (j < t.length - 2 && t[j + 1] < tm) j++;
+    const wt = Math.min(Math.max((tm - t[j]) / (t[j + 1] - t[j]), 0), 1);
+    const at = z.map((_, k) => {
+      const T = run.probes[column.firstProbe + k].T_C;
+      return T[j] + wt * (T[j + 1] - T[j]);
+    });
+    const value = (d: number) => {
+      let k = 0;
+      while (k < z.length - 2 && d > z[k + 1]) k++;
+      const w = (d - z[k]) / (z[k + 1] - z[k]);
+      return at[k] + w * (at[k + 1] - at[k]);
+    };
+    // Trapezoid over the pile: its ends and every column depth between them.
+    const pts = [top_m, ...z.filter((d) => d > top_m && d < bottom_m), bottom_m];
+    let sum = 0;
+    for (let i = 0; i + 1 < pts.length; i++)
+      sum += 0.5 * (value(pts[i]) + value(pts[i + 1])) * (pts[i + 1] - pts[i]);
+    out.push(sum / (bottom_m - top_m));
+  }
+  return out;
+}

@@ -18,7 +18,7 @@
 import type { SiteInput, SiteResult } from './site-input-schema';
 import { sizePileField, type PileFieldSizingResult } from './pile-sizing';
 import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
-import { annualMeanAt, profileAtYear, type ProfileColumn } from './site-profile';
+import { annualMeanAt, pileMonthlyGround_C, profileAtYear, type ProfileColumn } from './site-profile';
 import { annualHeating, designDayLoad_W } from './site-load-line';
 import { groundPropertiesAt } from './site-setup';
 
@@ -33,6 +33,8 @@ export interface SizingInputs {
   heatCapacity_J_m3K: number;
   /** Undisturbed ground temperature at the pile's mid-depth (no-pile run, year 1 mean), °C. */
   groundTemp_C: number;
+  /** Undisturbed ground along the pile, month by month (no-pile run, year 1), °C (pile-sizing.ts). */
+  monthlyGround_C?: number[];
   Rb_mK_W: number;
   spacing_m: number;
   designLife_yr: number;
@@ -74,6 +76,7 @@ export function sizeSitePiles(
         conductivity_W_mK: s.conductivity_W_mK,
         diffusivity_m2_s: s.conductivity_W_mK / s.heatCapacity_J_m3K,
         undisturbedTemperature_C: s.groundTemp_C,
+        monthlyTemperature_C: s.monthlyGround_C,
       },
       heatPumpCurve: curve,
       fluid: {
@@ -144,6 +147,9 @@ export function sizeSiteByPulse(
     conductivity_W_mK: props.conductivity_W_mK,
     heatCapacity_J_m3K: props.heatCapacity_J_m3K,
     groundTemp_C,
+    monthlyGround_C:
+      pileMonthlyGround_C(result.noPile, column, 1, pile.topDepth_m, pile.topDepth_m + pile.length_m) ??
+      undefined,
     Rb_mK_W: result.fluid.Rb_mK_W,
     spacing_m: foundation.spacing_m,
     designLife_yr: foundation.designLife_yr,

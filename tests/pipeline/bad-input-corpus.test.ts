@@ -465,7 +465,8 @@ const CASES: Case[] = [
     culprit: [/bedrock-depth\.tif/, /CRS cannot be read/, /user-defined/],
   },
   {
-    name: 'a grid in an unsupported CRS',
+    // A code PROJ's database does not hold (EPSG:2154 and every other code GDAL knows is accepted).
+    name: 'a grid in a CRS unknown to the PROJ database',
     setup: (d) =>
       replaceFile(
         d,
@@ -474,10 +475,10 @@ const CASES: Case[] = [
           ModelPixelScale: [4000, 4000, 0],
           ModelTiepoint: [0, 0, 0, 600000, 6000000, 0],
           GTModelTypeGeoKey: 1,
-          ProjectedCSTypeGeoKey: 2154,
+          ProjectedCSTypeGeoKey: 29999,
         }),
       ),
-    culprit: [/bedrock-depth\.tif/, /unsupported CRS EPSG:2154/],
+    culprit: [/bedrock-depth\.tif/, /unsupported CRS EPSG:29999/, /PROJ database/],
   },
   {
     name: 'a grid with a zero pixel size',
@@ -578,6 +579,20 @@ const CASES: Case[] = [
     name: 'an analysis grid over the cell budget (--max-cells 100)',
     setup: async (d) => ['--in', d, '--out', outDir, '--max-cells', '100'],
     culprit: [/analysis grid/, /over the budget of 100 cells/, /--max-cells/],
+  },
+  {
+    // The demo region spans about 73.6-76.4°N.
+    name: 'an analysis grid reaching south of the latitude limit (--min-latitude 76)',
+    setup: async (d) => ['--in', d, '--out', outDir, '--min-latitude', '76'],
+    culprit: [/analysis grid/, /reaches 7\d\.\d°N, south of the limit 76°N/, /--min-latitude/],
+  },
+  {
+    name: 'an analysis grid over the cell budget of the inputs config (budget.maxCells 100)',
+    setup: async (d) => {
+      await editConfig(d, (c) => ((c as { budget?: object }).budget = { maxCells: 100 }));
+      return ['--in', d, '--out', outDir];
+    },
+    culprit: [/analysis grid/, /over the budget of 100 cells/],
   },
   {
     name: 'a build over the memory budget (--max-memory-mb 1)',

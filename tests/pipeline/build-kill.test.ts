@@ -122,25 +122,30 @@ describe('kill -9 at every stage: the previous output is whole at that instant a
     expect([...FAULT_STAGES]).toEqual(['read', 'screen', 'tiles', 'geotiff', 'manifest', 'swap', 'swapped']);
   });
 
-  // Concurrent: each run waits mostly on its own process start-up.
-  it.concurrent.each(FAULT_STAGES.map((s) => [s]))('at %s', async (stage) => {
-    const out = await outWithPrevious();
-    const child = await startHeld(
-      process.execPath,
-      [BIN, 'build', '--in', demoDir, '--out', out, ...FLAGS],
-      stage,
-    );
-    const family = descendants(child.pid!);
-    child.kill('SIGKILL');
-    await exited(child);
-    // At the instant of the kill: whole, at --out or at the journal's aside path.
-    expect(await hashTree(await previousOutputNow(out))).toEqual(previousTree);
-    expect(await survivorsOf(family)).toEqual([]);
-    // The next build (here: its first step, the recovery) puts it back and removes the rest.
-    recoverOutput(out);
-    expect(await hashTree(out)).toEqual(previousTree);
-    expect(await leftovers(out)).toEqual([]);
-  });
+  // Concurrent: each run waits mostly on its own process start-up, which now includes compiling GDAL's
+  // WebAssembly (about 1 s of CPU each, seven at once on a shared machine): hence the longer timeout.
+  it.concurrent.each(FAULT_STAGES.map((s) => [s]))(
+    'at %s',
+    async (stage) => {
+      const out = await outWithPrevious();
+      const child = await startHeld(
+        process.execPath,
+        [BIN, 'build', '--in', demoDir, '--out', out, ...FLAGS],
+        stage,
+      );
+      const family = descendants(child.pid!);
+      child.kill('SIGKILL');
+      await exited(child);
+      // At the instant of the kill: whole, at --out or at the journal's aside path.
+      expect(await hashTree(await previousOutputNow(out))).toEqual(previousTree);
+      expect(await survivorsOf(family)).toEqual([]);
+      // The next build (here: its first step, the recovery) puts it back and removes the rest.
+      recoverOutput(out);
+      expect(await hashTree(out)).toEqual(previousTree);
+      expect(await leftovers(out)).toEqual([]);
+    },
+    180_000,
+  );
 });
 
 describe('signals to the wrappers stop the whole build: no process left, output untouched', () => {

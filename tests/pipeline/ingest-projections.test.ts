@@ -2,16 +2,19 @@ import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildTiles, type BuildSummary } from '../../data-pipeline/build/build-tiles';
-import { resampleAt } from '../../data-pipeline/build/resample-to-grid';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import { writeBandGeoTiff } from '../../data-pipeline/export/write-band-geotiff';
 import { inputsConfigSchema } from '../../data-pipeline/inputs-config';
 import { readGeoTiffGrid } from '../../data-pipeline/read/read-geotiff-grid';
-import { makeTempDir, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
+import { gdalReproject, makeTempDir, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
 
 afterAll(removeTempDirs);
 
-/** Reproject a demo grid into `crs` at `pixel_m`, over the data footprint (the region ±250 km). */
+/**
+ * Reproject a demo grid into `crs` at `pixel_m` with GDAL (as a GIS team re-encodes a product), point
+ * bilinear at each pixel centre (XSCALE = YSCALE = 1, as the build samples), so the check below measures
+ * double resampling and not GDAL's area averaging on downsampling.
+ */
 async function reproject(
   dir: string,
   file: string,
@@ -20,39 +23,16 @@ async function reproject(
   pixel_m: number,
   kind: string,
 ) {
-  const src = await readGeoTiffGrid(join(dir, file), { label: file });
-  const toTarget = createTransform('EPSG:4326', crs);
-  const toSource = createTransform(crs, src.grid.crs);
-  const pts = [
-    [-10, 73.6],
-    [4, 73.6],
-    [-10, 76.4],
-    [4, 76.4],
-    [-3, 73.6],
-    [-3, 76.4],
-  ].map(([lon, lat]) => toTarget(lon, lat));
-  const west = Math.floor(Math.min(...pts.map((p) => p[0])) / pixel_m) * pixel_m;
-  const north = Math.ceil(Math.max(...pts.map((p) => p[1])) / pixel_m) * pixel_m;
-  const width = Math.ceil((Math.max(...pts.map((p) => p[0])) - west) / pixel_m);
-  const height = Math.ceil((north - Math.min(...pts.map((p) => p[1]))) / pixel_m);
-  const coords = new Float64Array(width * height * 2);
-  for (let r = 0; r < height; r++) {
-    for (let c = 0; c < width; c++) {
-      const [x, y] = toSource(west + (c + 0.5) * pixel_m, north - (r + 0.5) * pixel_m);
-      coords[2 * (r * width + c)] = x;
-      coords[2 * (r * width + c) + 1] = y;
-    }
-  }
-  const values = resampleAt(src.grid, coords, kind === 'class' ? 'nearest' : 'bilinear');
-  await writeBandGeoTiff({
-    path: join(dir, outFile),
-    values,
-    width,
-    height,
-    geoTransform: [west, pixel_m, 0, north, 0, -pixel_m],
-    crs,
-    description: `INVENTED DEMO DATA reprojected to ${crs}`,
-  });
+  await gdalReproject(join(dir, file), join(dir, outFile), crs, pixel_m, kind, [
+    '-of',
+    'GTiff',
+    '-co',
+    'COMPRESS=DEFLATE',
+    '-wo',
+    'XSCALE=1',
+    '-wo',
+    'YSCALE=1',
+  ]);
 }
 
 let original: BuildSummary;

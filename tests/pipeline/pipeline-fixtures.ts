@@ -7,6 +7,7 @@ import { deflateSync } from 'node:zlib';
 import { vi } from 'vitest';
 import { main } from '../../data-pipeline/cli';
 import { generateDemoData } from '../../data-pipeline/demo/generate-demo-data';
+import { loadGdal } from '../../data-pipeline/gdal/gdal-wasm';
 
 /** Coarse settings so a whole demo build takes a second or two. */
 export const SMALL_DEMO = { resolutionScale: 4, cellSize_m: 4000 } as const;
@@ -166,4 +167,33 @@ export function tiffBomb(width: number, height: number): Uint8Array {
   }
   payload.copy(buf, payloadAt);
   return buf;
+}
+
+/**
+ * Re-encode a grid as a GIS team would, with GDAL's gdalwarp: into `srs` (any CRS GDAL takes) at
+ * `pixel` units, nearest neighbour for classes and bilinear otherwise, nodata -9999, written in
+ * `format` (GTiff by default) with the creation options given.
+ */
+export async function gdalReproject(
+  src: string,
+  dst: string,
+  srs: string,
+  pixel: number,
+  kind: string,
+  extra: string[] = ['-of', 'GTiff', '-co', 'COMPRESS=DEFLATE'],
+): Promise<void> {
+  const gdal = await loadGdal();
+  gdal.warp(src, dst, [
+    '-t_srs',
+    srs,
+    '-tr',
+    String(pixel),
+    String(pixel),
+    '-r',
+    kind === 'class' ? 'near' : 'bilinear',
+    '-dstnodata',
+    '-9999',
+    '-overwrite',
+    ...extra,
+  ]);
 }

@@ -30,10 +30,12 @@ describe('site prefill on a real demo build', () => {
       expect(values, s.name).not.toBeNull();
       if (!values) continue;
       const { draft, notes } = sitePrefill(values, demo.manifest.scenario);
+      // No fallback notes; the one note is the standard pile's resistance (an assumption, not missing data).
       expect(
-        notes.map((n) => n.text),
+        notes.filter((n) => n.path !== 'pile.resistance').map((n) => n.text),
         s.name,
       ).toEqual([]);
+      expect(notes.map((n) => n.path)).toEqual(['pile.resistance']);
       const rock = values[BAND.bedrockDepth];
       expect(rock, s.name).not.toBeNull();
       const layers = draft.ground.layers;

@@ -95,15 +95,19 @@ describe('map and site study on a dozen demo cells', () => {
       const heat = r.rows.heatPerPile;
       const share = r.rows[BAND.loadShare];
       const piles = r.rows.pileCount;
-      // Measured: the simulated pile takes 8–30 % more heat than the map's one-pile form (no 6-hour
-      // design peak in a weekly-step simulation), carries 0.13–0.18 more of the load, and the study's
-      // sizing counts 1.4–1.8 × the map's piles.
+      // Measured with the map's standard pile prefilled (same resistance, fluid and loop temperature
+      // difference): the simulated pile takes 26–49 % more heat than the map's one-pile form and carries
+      // 0.19–0.30 more of the load (operation: no 6-hour peak in weekly steps, only the weeks at the limit
+      // cut, against the map's year scaled to its limiting peak); the study's sizing counts 0.86–0.91 ×
+      // the map's piles (both an N-pile field; the simulated winter dip along the pile is smaller).
+      // Before the N-pile field and the standard-pile prefill the count ratio was 1.4–1.8.
       const heatRatio = (heat.simulated as number) / (heat.quickOnePile as number);
       expect(heatRatio).toBeGreaterThan(1);
-      expect(heatRatio).toBeLessThan(1.35);
-      expect((share.simulated as number) - (share.quickOnePile as number)).toBeLessThan(0.2);
+      expect(heatRatio).toBeLessThan(1.55);
+      expect((share.simulated as number) - (share.quickOnePile as number)).toBeLessThan(0.32);
       const pileRatio = (piles.simulated as number) / (piles.quick as number);
-      expect(pileRatio).toBeLessThan(1.9);
+      expect(pileRatio).toBeGreaterThan(0.8);
+      expect(pileRatio).toBeLessThanOrEqual(1);
       // Where the gap exceeds the published bound, the study must not call it agreement.
       for (const row of [share, piles]) {
         const inside = withinBand(

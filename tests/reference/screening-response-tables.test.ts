@@ -2,6 +2,7 @@ import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import {
   buildResponseTables,
+  fieldResponseAtCount,
   flsResponse,
   rampShape,
   rampTimeToRise_yr,
@@ -12,6 +13,7 @@ import { finiteLineSourceG, pileFieldGFunction } from '../../layers/physics/fini
 import { finiteLineSourcePointG } from '../../layers/physics/finite-line-source-point';
 import { cylinderSourceG } from '../../layers/physics/infinite-cylinder-source';
 import { foundationGroup } from '../../layers/screening/foundation-group';
+import { layoutPositions } from '../../layers/site/sizing-layout';
 import { DEFAULT_SCENARIO, parseScenario } from '../../layers/screening/scenario';
 
 const T = buildResponseTables(DEFAULT_SCENARIO);
@@ -88,6 +90,27 @@ describe('tabulated finite line source (layers/physics/finite-line-source.ts, Es
     const ratio = flsResponse(T.fieldMean, 1e-6, 30 * year) / flsResponse(T.pileMean, 1e-6, 30 * year);
     expect(ratio).toBeGreaterThan(2.2);
     expect(ratio).toBeLessThan(2.9);
+  });
+  it('fields larger than the foundation: within 2 % of the direct field g-function between and beyond the tabulated sizes', () => {
+    // Interpolated in ln N between 16, 36, 64, 144 and 256 piles; 400 is extrapolated along the last segment.
+    for (const count of [16, 25, 49, 100, 200, 400]) {
+      const positions = layoutPositions({
+        count,
+        layout: { spacing_m: s.building.pileSpacing_m },
+        pileRadius_m: s.pile.radius_m,
+      });
+      const times = [30 * 86400 + 6 * 3600, 30 * year];
+      const direct = pileFieldGFunction({
+        ...geometry,
+        positions,
+        pileRadius_m: s.pile.radius_m,
+        times_s: times,
+      });
+      times.forEach((t, i) => {
+        const got = fieldResponseAtCount(T, count, 1e-6 * t);
+        expect(Math.abs(got / direct[i] - 1), `${count} piles at ${t} s`).toBeLessThan(0.02);
+      });
+    }
   });
   it('one pile alone at the default reference point (mid-depth, 1.5 m) equals the mid-depth FLS of the core', () => {
     const one = parseScenario({ building: { foundationPiles: 1 } });

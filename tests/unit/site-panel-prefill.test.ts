@@ -5,12 +5,15 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
+import { heatPumpAt } from '../../layers/physics/heat-pump';
+import { fluidProperties } from '../../layers/physics/fluids';
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { screenCell } from '../../layers/screening/cell-screening-model';
 import {
   cellInputsFromSite,
   MAX_SITE_WATER_CONTENT_M3M3,
+  PREFILL_FALLBACKS,
   sitePrefill,
   standardDesignLoad_W,
 } from '../../layers/screening/site-prefill';
@@ -31,14 +34,38 @@ describe('sitePrefill', () => {
     const parsed = siteInputSchema.safeParse(draft);
     expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);
     // Amplitude and warming are not tile bands in this build: the regional defaults apply, with a note.
-    expect(notes.map((n) => n.path)).toEqual(['climate.amplitude_C', 'climate.warming_C_per_yr']);
+    // The pile resistance is the map's standard pile's, said in a note beside the field.
+    expect(notes.map((n) => n.path)).toEqual([
+      'climate.amplitude_C',
+      'climate.warming_C_per_yr',
+      'pile.resistance',
+    ]);
   });
 
-  it('takes amplitude and warming from the tiles when they are there (no notes)', () => {
+  it("prefills the map's standard pile: its resistance, 40 % glycol and the flow of the map's 3 K loop difference", () => {
+    const s = DEFAULT_SCENARIO;
+    const { draft, notes } = sitePrefill(cell);
+    const pile = draft.pile!;
+    expect(pile.resistance).toEqual({ Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 });
+    expect(pile.fluid).toEqual({ name: 'propyleneGlycol', massFraction: 0.4 });
+    expect(notes.find((n) => n.path === 'pile.resistance')?.text).toContain(
+      `${s.pile.resistance_mK_W} m·K/W`,
+    );
+    // Hand check of the flow: ground share of the design-day peak over the 16 piles, over ρc_p·ΔT.
+    const peak_W = standardDesignLoad_W(s, -6.2, PREFILL_FALLBACKS.amplitude_C);
+    const cop = heatPumpAt({ enteringFluid_C: s.heatPump.minEnteringFluid_C }).cop;
+    const fl = fluidProperties({ fluid: 'propyleneGlycol', massFraction: 0.4, temperature_C: -8 });
+    const perPile_W = (peak_W * (1 - 1 / cop)) / s.building.foundationPiles;
+    const dT = perPile_W / (((pile.flow_L_min as number) / 60000) * fl.density_kg_m3 * fl.specificHeat_J_kgK);
+    expect(dT).toBeGreaterThan(2 * s.heatPump.fluidHalfDelta_K - 0.1);
+    expect(dT).toBeLessThan(2 * s.heatPump.fluidHalfDelta_K + 0.1);
+  });
+
+  it('takes amplitude and warming from the tiles when they are there (no fallback notes)', () => {
     const { draft, notes } = sitePrefill({ ...cell, airAmplitude_C: 21.5, warming_C_per_yr: 0.06 });
     expect(draft.climate.amplitude_C).toBe(21.5);
     expect(draft.climate.warming_C_per_yr).toBe(0.06);
-    expect(notes).toEqual([]);
+    expect(notes.map((n) => n.path)).toEqual(['pile.resistance']);
   });
 
   it('passes water above the porosity through as excess ice (issue 11 item 7), capping only at the site input limit', () => {

@@ -9,18 +9,11 @@
  */
 import type { Band } from '../../../layers/screening/manifest';
 import { rampColour, type Rgb } from '../../../layers/screening/colour-ramps';
-import { passesAt, type CompiledFilter } from '../filters/cell-filter';
+import { classColours } from '../../../layers/screening/class-colours';
 
-export const OKABE_ITO: Rgb[] = [
-  [230, 159, 0],
-  [86, 180, 233],
-  [0, 158, 115],
-  [240, 228, 66],
-  [0, 114, 178],
-  [213, 94, 0],
-  [204, 121, 167],
-  [0, 0, 0],
-];
+// The class colours are shared with the pipeline's GeoTIFF colour tables (layers/screening/class-colours.ts).
+export { classColours, NONE_CLASS_RGB, OKABE_ITO } from '../../../layers/screening/class-colours';
+import { passesAt, type CompiledFilter } from '../filters/cell-filter';
 
 export const FADED_RGB: Rgb = [150, 156, 162];
 export const FADED_ALPHA = 0.35;
@@ -28,29 +21,6 @@ export const FADED_ALPHA = 0.35;
 /** Legend range of a band (legendMin/legendMax when set, else the build's min/max). */
 export function legendRange(band: Band): [number, number] {
   return [band.legendMin ?? band.min, band.legendMax ?? band.max];
-}
-
-/** Neutral grey for a "none / excluded" class, so that it reads as absence rather than a category. */
-export const NONE_CLASS_RGB: Rgb = [120, 120, 120];
-const NONE_LABEL = /^(excluded|none|no|not? .*|unsuitable)\b/i;
-
-/**
- * Colour of each class of a class band, in the band's class order. A class with value 0 whose label
- * says none/excluded/no is drawn neutral grey; the others take the band's ramp (ordinal classes) or
- * the Okabe-Ito palette (nominal classes).
- */
-export function classColours(band: Band): Map<number, Rgb> {
-  const classes = band.classes ?? [];
-  const m = new Map<number, Rgb>();
-  const rest = classes.filter((c) => !(c.value === 0 && NONE_LABEL.test(c.label)));
-  if (rest.length < classes.length) m.set(0, NONE_CLASS_RGB);
-  rest.forEach((c, i) => {
-    const colour = band.ramp
-      ? rampColour(band.ramp, i, 0, Math.max(1, rest.length - 1))
-      : OKABE_ITO[i % OKABE_ITO.length];
-    m.set(c.value, colour);
-  });
-  return m;
 }
 
 export interface TileStyle {
