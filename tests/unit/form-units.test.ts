@@ -6,12 +6,7 @@
  * from memory to 4 figures).
  */
 import { describe, expect, it } from 'vitest';
-import {
-  formFieldUnit,
-  formMessages,
-  formStoredValue,
-  formValueText,
-} from '../../web/src/site/form-units';
+import { formFieldUnit, formMessages, formStoredValue, formValueText } from '../../web/src/site/form-units';
 
 describe('site form units', () => {
   it('shows SI fields in the North American unit and leaves unit-less ones alone', () => {
