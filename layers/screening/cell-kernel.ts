@@ -686,7 +686,7 @@ function fieldPeakPerPile_W(
   const t = k.tables;
   let q = q0;
   let n = peakGround_W / q0;
-  for (let pass = 0; pass < 8 && n > t.fieldBySize.counts[0]; pass++) {
+  for (let pass = 0; pass < 30 && n > t.fieldBySize.counts[0]; pass++) {
     q = monthlyPeakPerPile_W(
       {
         ...base,

@@ -55,7 +55,8 @@ export interface ResponseTables {
    * FLS field responses of larger near-square fields at the foundation spacing (the layout the site
    * sizing uses, layers/site/sizing-layout.ts), mean over their piles, vs αt (m²): for the pile count
    * when the building needs more piles than its foundation has. counts[0] is the foundation itself
-   * (tables[0] = fieldMean); the others are 2.25, 4, 9 and 16 times it.
+   * (tables[0] = fieldMean); the others are those of 4, 9, 16, 36, 64, 144 and 256 piles above it
+   * (and 2.25 and 4 times the foundation).
    */
   fieldBySize: { counts: number[]; tables: LogTable[] };
   /** FLS response of the whole group at the reference point (reference depth and radius), vs αt (m²). */
@@ -147,7 +148,11 @@ function build(s: Scenario): ResponseTables {
     );
   const fieldMean = fieldTable(group.positions);
   const nF = group.positions.length;
-  const larger = [2.25, 4, 9, 16].map((f) => Math.round(f * nF));
+  // Field sizes above the foundation's: 4 to 256 piles (as many as the standard building needs in the
+  // demo region), and 2.25× and 4× the foundation beyond that for large foundations.
+  const larger = [...new Set([4, 9, 16, 36, 64, 144, 256, Math.round(2.25 * nF), 4 * nF])]
+    .filter((c) => c > nF)
+    .sort((a, b) => a - b);
   const fieldBySize = {
     counts: [nF, ...larger],
     tables: [
