@@ -45,7 +45,7 @@ describe('planner workflow', () => {
     const figures = s.page.locator('[data-testid=key-figures] > div');
     await expect(figures.count()).resolves.toBe(5);
     const keys = await figures.evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
-    expect(keys).toEqual(['key-class', 'key-thawDelay', 'key-piles', 'key-loadShare', 'key-governs']);
+    expect(keys).toEqual(['key-class', 'key-delay', 'key-piles', 'key-share', 'key-governs']);
     for (let i = 0; i < 5; i++) expect(await figures.nth(i).isVisible()).toBe(true);
     // The rest is folded: the full table and the class card are closed until opened.
     expect(await s.page.locator('[data-testid=cell-values]').isVisible()).toBe(false);

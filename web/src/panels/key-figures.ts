@@ -19,7 +19,7 @@ import { ROBUST_CLASS_BAND, SUCCESS_BAND, successText } from './ensemble-ranges'
 
 export interface KeyFigure {
   /** Stable key for tests and React (not shown). */
-  key: 'class' | 'thawDelay' | 'piles' | 'loadShare' | 'governs';
+  key: 'class' | 'delay' | 'piles' | 'share' | 'governs';
   label: string;
   value: string;
   /** A second line in plain words (robustness, bound, what the number means). */
@@ -68,7 +68,7 @@ export function keyFigures(manifest: Manifest, values: Values, units: UnitSystem
         ) ?? formatQuantity(delay, delayBand.unit, units))
       : 'no data';
   out.push({
-    key: 'thawDelay',
+    key: 'delay',
     label: 'Thaw delay bought by the piles',
     value: delayText,
     note: 'extra years of frozen ground at the foundation with the heat extraction running',
@@ -89,7 +89,7 @@ export function keyFigures(manifest: Manifest, values: Values, units: UnitSystem
 
   const share = values[BAND.loadShare];
   out.push({
-    key: 'loadShare',
+    key: 'share',
     label: 'Share of the heating load the piles carry',
     value:
       share !== null && share !== undefined && Number.isFinite(share)
