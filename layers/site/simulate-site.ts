@@ -51,6 +51,8 @@ import {
   rowMaterials,
   surfaceForcing,
   type InitialState,
+  type SiteGround,
+  type SiteMeshes,
   climateTrend,
 } from './site-setup';
 
@@ -80,11 +82,149 @@ interface CaseRun {
   stored0: number;
 }
 
+/** The run's fixed ingredients, resolved once from the validated input (site-setup.ts). */
+interface RunContext {
+  input: SiteInput;
+  ground: SiteGround;
+  meshes: SiteMeshes;
+  rowMat: Int32Array;
+  init: InitialState;
+  surface: (time_s: number) => number;
+}
+
+/** The time grid: `steps` equal steps of `dt` seconds over the run, and the output interval. */
+interface TimeGrid {
+  steps: number;
+  dt: number;
+  outputEvery: number;
+}
+
+/** The events still to come in a run (times in s), advanced as the steps pass them. */
+interface RunSchedule {
+  nextOutput: number;
+  nextYearEnd: number;
+  nextWinter: number;
+  nextWinterStart: number;
+  winterYear: number;
+}
+
+/** Winter timing of a climate: the day winter ends (day of year, unwrapped) and its length, s. */
+interface WinterTiming {
+  endOfWinterDay: number;
+  winterLength_s: number;
+}
+
+/**
+ * Over-cooling bookkeeping of the pile case: which cells were unfrozen at the start of the current
+ * winter, and per winter the volume the pile has frozen by its end that stays unfrozen without the pile.
+ */
+interface OverCooling {
+  pileCase: CaseRun;
+  noPileT: Float64Array;
+  unfrozenAtWinterStart: Uint8Array;
+  year: number[];
+  frozenByPile_m3: number[];
+}
+
+/** Monthly fluid integrals (time-weighted sums, s·°C, J) and the lowest fluid temperature. */
+interface FluidLedger {
+  runTime: Float64Array;
+  inletInt: Float64Array;
+  outletInt: Float64Array;
+  extracted: Float64Array;
+  delivered: Float64Array;
+  demanded: Float64Array;
+  lowest: number;
+  lowestAt: number;
+}
+
+/** Thaw delay per probe and whether it is only a lower or upper bound (see SiteResult). */
+interface ThawDelays {
+  thawDelay_yr: (number | null)[];
+  lowerBound: boolean[];
+  upperBound: boolean[];
+}
+
 /** Validates `draft` (throws RangeError listing every issue with its path) and runs the simulation. */
 export function simulateSite(
   draft: SiteInputDraft | SiteInput,
   options: SimulateSiteOptions = {},
 ): SiteResult {
+  const ctx = prepareRun(draft);
+  const { input, meshes, ground } = ctx;
+  const q = input.ground.geothermalFlux_W_m2;
+  const warnings: string[] = [];
+  const { cases, siteLoop } = createCases(ctx);
+  const pileCase = cases.length > 1 ? cases[1] : null;
+  const winter = winterTiming(input.climate);
+  const overCooling = pileCase ? createOverCooling(pileCase, cases[0].solver.T) : null;
+  if (overCooling) markUnfrozen(ctx, overCooling);
+  const months = input.years * 12;
+  const ledger = createFluidLedger(months);
+  const grid = timeGrid(input);
+  const schedule = createSchedule(winter, grid);
+  for (const run of cases) {
+    run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, 0);
+    record(run, 0);
+  }
+  const extremes = startExtremes(cases, ctx.init);
+  const fields = cases.map((run) => run.solver.T);
+
+  let lastProgress = -1;
+  for (let s = 1; s <= grid.steps; s++) {
+    if (options.shouldCancel && (s & 15) === 0 && options.shouldCancel()) throw new SiteCancelledError();
+    const t = s * grid.dt;
+    stepCases(ctx, cases, t, grid.dt);
+    observeSiteStep(extremes, fields, siteLoop ? siteLoop.loop : null, ctx.surface(t), t / SECONDS_PER_YEAR);
+    if (siteLoop) accumulateFluid(ledger, siteLoop, months, t, grid.dt);
+    advanceSchedule(ctx, cases, overCooling, schedule, t, grid);
+    const progress = Math.floor((100 * s) / grid.steps);
+    if (options.onProgress && progress !== lastProgress) {
+      lastProgress = progress;
+      options.onProgress(s / grid.steps);
+    }
+  }
+
+  const worst = finishCases(cases);
+  if (worst > 0.005) warnings.push(energyBalanceWarning(worst));
+  const noPile = cases[0].out;
+  const withPile = pileCase ? pileCase.out : null;
+  const delays = thawDelays(input, noPile, withPile);
+  const result: SiteResult = {
+    noPile,
+    withPile,
+    thawDelay_yr: delays.thawDelay_yr,
+    thawDelayIsLowerBound: delays.lowerBound,
+    thawDelayIsUpperBound: delays.upperBound,
+    energyBalance: { relativeError: worst },
+    fluid: siteLoop && input.pile ? fluidResult(input, siteLoop, ledger, months) : null,
+    overCooling: overCooling
+      ? {
+          year: overCooling.year,
+          frozenByPile_m3: overCooling.frozenByPile_m3,
+          endOfWinterDay: round4(winter.endOfWinterDay % 365),
+        }
+      : null,
+    mesh: {
+      nr: meshes.pile.nr,
+      nz: meshes.pile.nz,
+      timeSteps: grid.steps,
+      radius_m: input.domain.radius_m,
+      depth_m: input.domain.depth_m,
+    },
+    warnings,
+    cautions: [SCREENING_CAUTION, ...GROUND_CAUTIONS],
+  };
+  checkPhysicalBounds(result, {
+    fluid: input.pile ? input.pile.fluid : null,
+    extremes,
+    fluxRise_K: fluxRise_K(q, ground.bottoms_m, ground.layers),
+  });
+  return result;
+}
+
+/** Validates the draft (RangeError listing every issue) and resolves ground, meshes and initial state. */
+function prepareRun(draft: SiteInputDraft | SiteInput): RunContext {
   const parsed = siteInputSchema.safeParse(draft);
   if (!parsed.success) {
     throw new RangeError(`invalid site input: ${formatSiteInputIssues(parsed.error).join('; ')}`);
@@ -94,54 +234,17 @@ export function simulateSite(
   const meshes = buildMeshes(input, ground);
   const rowMat = rowMaterials(meshes.pile, ground.bottoms_m);
   const init = initialState(input, ground, meshes.column, rowMat);
-  const surface = surfaceForcing(input, true);
+  return { input, ground, meshes, rowMat, init, surface: surfaceForcing(input, true) };
+}
+
+/**
+ * The cases of a run: the no-pile column always, and with a pile the (r, z) mesh coupled to its loop
+ * (the loop's air temperature has no n-factors: the building sees the air, not the ground surface).
+ */
+function createCases(ctx: RunContext): { cases: CaseRun[]; siteLoop: SiteLoop | null } {
+  const { input, ground, meshes, rowMat, init, surface } = ctx;
   const tol = input.numerics.tolerance_K ?? 1e-2;
   const q = input.ground.geothermalFlux_W_m2;
-  const warnings: string[] = [];
-  const year = SECONDS_PER_YEAR;
-
-  const makeCase = (solver: ConductionSolver, stride: number, offset: number): CaseRun => {
-    const mesh = solver.mesh;
-    const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
-    // Last thaw measure per probe (probeThawMeasure: ≥ 0 once the front has passed the probe).
-    const lastProbeT = Float64Array.from(
-      stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)),
-    );
-    return {
-      solver,
-      stencils,
-      lastProbeT,
-      thawTime_s: stencils.map((_, i) => (lastProbeT[i] >= 0 ? 0 : null)),
-      tracker: createPermafrostTableTracker(mesh, ground.table, rowMat, year, init.lastThawed_s),
-      trackerStride: stride,
-      trackerOffset: offset,
-      stored0: solver.storedEnergy_J(),
-      out: {
-        time_yr: [],
-        thawDepth_m: [],
-        annualThawDepth_m: [],
-        probes: input.probes.map((p) => ({ r_m: p.r_m, z_m: p.z_m, T_C: [], thawYear: null })),
-        // Filled at the end; created with their final shape so that no object changes shape mid-run.
-        energyBalance: {
-          stored_J: 0,
-          boundaries_J: 0,
-          surface_J: 0,
-          bottom_J: 0,
-          pile_J: 0,
-          relativeError: 0,
-        },
-        unconvergedSteps: 0,
-        solverWork: {
-          substitutions: 0,
-          rightHandSides: 0,
-          refactoredRows: 0,
-          phasePasses: 0,
-          halvedSteps: 0,
-        },
-      },
-    };
-  };
-
   const noPileSolver = createConductionSolver({
     mesh: meshes.column,
     materials: ground.table,
@@ -152,168 +255,262 @@ export function simulateSite(
     inner: null,
     tolerance_K: tol,
   });
-  const cases: CaseRun[] = [makeCase(noPileSolver, 1, 0)];
-  let siteLoop: SiteLoop | null = null;
-  if (input.pile) {
-    const pileRows = rowsAbove(meshes.pile, input.pile.topDepth_m + input.pile.length_m);
-    const c = input.climate;
-    const air = (time_s: number) =>
-      surfaceTemperature_C({
-        meanAirTemp_C: c.meanAirTemp_C,
-        amplitude_C: c.amplitude_C,
-        nFreeze: 1,
-        nThaw: 1,
-        time_s,
-        trend: climateTrend(c),
-        coldestDay: c.coldestDay,
-      });
-    siteLoop = createSiteLoop(input, meshes.pile, pileRows, air);
-    const solver = createConductionSolver({
-      mesh: meshes.pile,
-      materials: ground.table,
-      rowMaterial: rowMat,
-      surfaceTemperature_C: surface,
-      bottomFlux_W_m2: q,
-      initialT_C: init.rowT_C,
-      inner: siteLoop.loop,
-      tolerance_K: tol,
-    });
-    cases.push(makeCase(solver, meshes.pile.nr, meshes.pile.nr - 1));
-  }
-
-  // Over-cooling bookkeeping: winter = the part of the year with the air (and surface) below 0 °C,
-  // phase angle |φ| < θ = acos(T̄/A) about the coldest day; the first winter starts before t = 0.
+  const cases: CaseRun[] = [makeCase(ctx, noPileSolver, 1, 0)];
+  if (!input.pile) return { cases, siteLoop: null };
+  const pileRows = rowsAbove(meshes.pile, input.pile.topDepth_m + input.pile.length_m);
   const c = input.climate;
+  const air = (time_s: number) =>
+    surfaceTemperature_C({
+      meanAirTemp_C: c.meanAirTemp_C,
+      amplitude_C: c.amplitude_C,
+      nFreeze: 1,
+      nThaw: 1,
+      time_s,
+      trend: climateTrend(c),
+      coldestDay: c.coldestDay,
+    });
+  const siteLoop = createSiteLoop(input, meshes.pile, pileRows, air);
+  const solver = createConductionSolver({
+    mesh: meshes.pile,
+    materials: ground.table,
+    rowMaterial: rowMat,
+    surfaceTemperature_C: surface,
+    bottomFlux_W_m2: q,
+    initialT_C: init.rowT_C,
+    inner: siteLoop.loop,
+    tolerance_K: tol,
+  });
+  cases.push(makeCase(ctx, solver, meshes.pile.nr, meshes.pile.nr - 1));
+  return { cases, siteLoop };
+}
+
+/** One case's probes, thaw bookkeeping, permafrost-table tracker and (empty) result. */
+function makeCase(ctx: RunContext, solver: ConductionSolver, stride: number, offset: number): CaseRun {
+  const { input, ground, rowMat, init } = ctx;
+  const mesh = solver.mesh;
+  const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
+  // Last thaw measure per probe (probeThawMeasure: ≥ 0 once the front has passed the probe).
+  const lastProbeT = Float64Array.from(
+    stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)),
+  );
+  return {
+    solver,
+    stencils,
+    lastProbeT,
+    thawTime_s: stencils.map((_, i) => (lastProbeT[i] >= 0 ? 0 : null)),
+    tracker: createPermafrostTableTracker(mesh, ground.table, rowMat, SECONDS_PER_YEAR, init.lastThawed_s),
+    trackerStride: stride,
+    trackerOffset: offset,
+    stored0: solver.storedEnergy_J(),
+    out: emptyCaseResult(input),
+  };
+}
+
+/** A case result with its final shape (filled during and after the run, so no object changes shape). */
+function emptyCaseResult(input: SiteInput): SiteCaseResult {
+  return {
+    time_yr: [],
+    thawDepth_m: [],
+    annualThawDepth_m: [],
+    probes: input.probes.map((p) => ({ r_m: p.r_m, z_m: p.z_m, T_C: [], thawYear: null })),
+    energyBalance: {
+      stored_J: 0,
+      boundaries_J: 0,
+      surface_J: 0,
+      bottom_J: 0,
+      pile_J: 0,
+      relativeError: 0,
+    },
+    unconvergedSteps: 0,
+    solverWork: {
+      substitutions: 0,
+      rightHandSides: 0,
+      refactoredRows: 0,
+      phasePasses: 0,
+      halvedSteps: 0,
+    },
+  };
+}
+
+/**
+ * Winter = the part of the year with the air (and surface) below 0 °C, phase angle |φ| < θ = acos(T̄/A)
+ * about the coldest day; the first winter starts before t = 0.
+ */
+function winterTiming(c: SiteInput['climate']): WinterTiming {
   const ratio = c.meanAirTemp_C / Math.max(c.amplitude_C, 1e-9);
   const theta = ratio <= -1 ? Math.PI : ratio >= 1 ? 0 : Math.acos(ratio);
-  const endOfWinterDay = c.coldestDay + (365 * theta) / (2 * Math.PI);
-  const winterLength_s = ((365 * theta) / Math.PI) * SECONDS_PER_DAY;
-  const pileCase = cases[1];
-  const unfrozenAtWinterStart = pileCase ? new Uint8Array(pileCase.solver.T.length) : null;
-  const markUnfrozen = () => {
-    if (!pileCase || !unfrozenAtWinterStart) return;
-    pileCase.solver.T.forEach((T, cell) => {
-      const m = rowMat[(cell / meshes.pile.nr) | 0];
-      unfrozenAtWinterStart[cell] = liquidFractionAt(ground.table, m, T) > 0.5 ? 1 : 0;
-    });
+  return {
+    endOfWinterDay: c.coldestDay + (365 * theta) / (2 * Math.PI),
+    winterLength_s: ((365 * theta) / Math.PI) * SECONDS_PER_DAY,
   };
-  markUnfrozen();
-  const overCooling = { year: [] as number[], frozenByPile_m3: [] as number[] };
+}
 
-  // Fluid bookkeeping by month.
-  const months = input.years * 12;
-  const runTime = new Float64Array(months);
-  const inletInt = new Float64Array(months);
-  const outletInt = new Float64Array(months);
-  const extracted = new Float64Array(months);
-  const delivered = new Float64Array(months);
-  const demanded = new Float64Array(months);
-  let lowest = Infinity;
-  let lowestAt = NaN;
-
-  const total = input.years * year;
+/** The time grid of the input: whole steps close to `timeStep_days` that fill the run exactly. */
+function timeGrid(input: SiteInput): TimeGrid {
+  const total = input.years * SECONDS_PER_YEAR;
   const steps = Math.ceil(total / (input.timeStep_days * SECONDS_PER_DAY) - 1e-9);
-  const dt = total / steps;
-  const outputEvery = input.outputStep_days * SECONDS_PER_DAY;
-  let nextOutput = 0;
-  let nextYearEnd = year;
-  let nextWinter = endOfWinterDay * SECONDS_PER_DAY;
-  let nextWinterStart = nextWinter + year - winterLength_s;
-  let winterYear = 1;
+  return { steps, dt: total / steps, outputEvery: input.outputStep_days * SECONDS_PER_DAY };
+}
 
-  const record = (run: CaseRun, t: number) => {
-    run.out.time_yr.push(round4(t / year));
-    run.out.thawDepth_m.push(round4(run.tracker.depth_m(t)));
-    run.stencils.forEach((s, i) => run.out.probes[i].T_C.push(round4(probeTemperature(s, run.solver.T))));
+/** The events of a run from t = 0: the first output, year end, winter end and winter start. */
+function createSchedule(winter: WinterTiming, grid: TimeGrid): RunSchedule {
+  const nextWinter = winter.endOfWinterDay * SECONDS_PER_DAY;
+  return {
+    nextOutput: grid.outputEvery,
+    nextYearEnd: SECONDS_PER_YEAR,
+    nextWinter,
+    nextWinterStart: nextWinter + SECONDS_PER_YEAR - winter.winterLength_s,
+    winterYear: 1,
   };
+}
+
+/** Empty over-cooling bookkeeping for the pile case, against the no-pile column `noPileT`. */
+function createOverCooling(pileCase: CaseRun, noPileT: Float64Array): OverCooling {
+  return {
+    pileCase,
+    noPileT,
+    unfrozenAtWinterStart: new Uint8Array(pileCase.solver.T.length),
+    year: [],
+    frozenByPile_m3: [],
+  };
+}
+
+/** Marks the pile case's cells that are unfrozen (liquid fraction > 1/2) at the start of a winter. */
+function markUnfrozen(ctx: RunContext, oc: OverCooling): void {
+  const { ground, rowMat, meshes } = ctx;
+  oc.pileCase.solver.T.forEach((T, cell) => {
+    const m = rowMat[(cell / meshes.pile.nr) | 0];
+    oc.unfrozenAtWinterStart[cell] = liquidFractionAt(ground.table, m, T) > 0.5 ? 1 : 0;
+  });
+}
+
+/**
+ * The volume at the end of a winter that the pile has frozen: unfrozen at the winter's start, frozen now,
+ * and unfrozen in the same row of the no-pile column, m³.
+ */
+function frozenByPile_m3(ctx: RunContext, oc: OverCooling): number {
+  const { ground, rowMat } = ctx;
+  const pm = ctx.meshes.pile;
+  const T = oc.pileCase.solver.T;
+  let vol = 0;
+  for (let j = 0; j < pm.nz; j++) {
+    const mj = rowMat[j];
+    if (liquidFractionAt(ground.table, mj, oc.noPileT[j]) <= 0.5) continue;
+    for (let i = 0; i < pm.nr; i++) {
+      const cell = j * pm.nr + i;
+      if (oc.unfrozenAtWinterStart[cell] && liquidFractionAt(ground.table, mj, T[cell]) <= 0.5) {
+        vol += oc.pileCase.solver.volume_m3[cell];
+      }
+    }
+  }
+  return vol;
+}
+
+/** Zeroed monthly fluid integrals, no lowest temperature yet. */
+function createFluidLedger(months: number): FluidLedger {
+  return {
+    runTime: new Float64Array(months),
+    inletInt: new Float64Array(months),
+    outletInt: new Float64Array(months),
+    extracted: new Float64Array(months),
+    delivered: new Float64Array(months),
+    demanded: new Float64Array(months),
+    lowest: Infinity,
+    lowestAt: NaN,
+  };
+}
+
+/** Appends the output-time values of a case: time, thaw depth and probe temperatures. */
+function record(run: CaseRun, t: number): void {
+  run.out.time_yr.push(round4(t / SECONDS_PER_YEAR));
+  run.out.thawDepth_m.push(round4(run.tracker.depth_m(t)));
+  run.stencils.forEach((s, i) => run.out.probes[i].T_C.push(round4(probeTemperature(s, run.solver.T))));
+}
+
+/**
+ * Advances every case by one step to time `t` and records the thaw at each probe: the front (liquid
+ * fraction of the probe's cell) passing the probe's depth, interpolated linearly within the step.
+ */
+function stepCases(ctx: RunContext, cases: readonly CaseRun[], t: number, dt: number): void {
+  const { ground, rowMat } = ctx;
   for (const run of cases) {
-    run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, 0);
-    record(run, 0);
+    run.solver.step(dt);
+    run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, t);
+    run.stencils.forEach((st, i) => {
+      const m = probeThawMeasure(st, ground.table, rowMat, run.solver.T, run.solver.mesh.nr);
+      if (run.thawTime_s[i] === null && m >= 0) {
+        const prev = run.lastProbeT[i];
+        const frac = m > prev ? -prev / (m - prev) : 1;
+        run.thawTime_s[i] = t - dt + Math.min(1, Math.max(0, frac)) * dt;
+      }
+      run.lastProbeT[i] = m;
+    });
   }
-  nextOutput = outputEvery;
-  const extremes = startExtremes(cases, init);
-  const fields = cases.map((run) => run.solver.T);
+}
 
-  let lastProgress = -1;
-  for (let s = 1; s <= steps; s++) {
-    if (options.shouldCancel && (s & 15) === 0 && options.shouldCancel()) throw new SiteCancelledError();
-    const t = s * dt;
-    for (const run of cases) {
-      run.solver.step(dt);
-      run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, t);
-      run.stencils.forEach((st, i) => {
-        // Thaw at a probe: the front (liquid fraction of the probe's cell) passes the probe's depth,
-        // interpolated linearly within the step.
-        const m = probeThawMeasure(st, ground.table, rowMat, run.solver.T, run.solver.mesh.nr);
-        if (run.thawTime_s[i] === null && m >= 0) {
-          const prev = run.lastProbeT[i];
-          const frac = m > prev ? -prev / (m - prev) : 1;
-          run.thawTime_s[i] = t - dt + Math.min(1, Math.max(0, frac)) * dt;
-        }
-        run.lastProbeT[i] = m;
-      });
-    }
-    observeSiteStep(extremes, fields, siteLoop ? siteLoop.loop : null, surface(t), t / year);
-    if (siteLoop) {
-      const loop = siteLoop.loop;
-      const m = Math.min(months - 1, Math.floor((t - dt / 2) / (year / 12)));
-      if (loop.running) {
-        runTime[m] += dt;
-        inletInt[m] += loop.inlet_C * dt;
-        outletInt[m] += loop.outlet_C * dt;
-        extracted[m] += loop.extraction_W * dt;
-        const low = Math.min(loop.inlet_C, loop.outlet_C);
-        if (low < lowest) {
-          lowest = low;
-          lowestAt = t / year;
-        }
-      }
-      const dem = siteLoop.demand_W();
-      if (Number.isFinite(dem)) {
-        demanded[m] += dem * dt;
-        delivered[m] += siteLoop.delivered_W() * dt;
-      }
-    }
-    if (t >= nextWinterStart - dt / 2) {
-      markUnfrozen();
-      nextWinterStart += year;
-    }
-    if (pileCase && unfrozenAtWinterStart && t >= nextWinter - dt / 2) {
-      const pm = meshes.pile;
-      let vol = 0;
-      for (let j = 0; j < pm.nz; j++) {
-        const mj = rowMat[j];
-        if (liquidFractionAt(ground.table, mj, noPileSolver.T[j]) <= 0.5) continue;
-        for (let i = 0; i < pm.nr; i++) {
-          const cell = j * pm.nr + i;
-          if (
-            unfrozenAtWinterStart[cell] &&
-            liquidFractionAt(ground.table, mj, pileCase.solver.T[cell]) <= 0.5
-          ) {
-            vol += pileCase.solver.volume_m3[cell];
-          }
-        }
-      }
-      overCooling.year.push(winterYear);
-      overCooling.frozenByPile_m3.push(round4(vol));
-      winterYear++;
-      nextWinter += year;
-    }
-    if (t >= nextYearEnd - dt / 2) {
-      for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.periodMaxDepth_m()));
-      nextYearEnd += year;
-    }
-    if (t >= nextOutput - dt / 2) {
-      for (const run of cases) record(run, t);
-      nextOutput += outputEvery;
-    }
-    const progress = Math.floor((100 * s) / steps);
-    if (options.onProgress && progress !== lastProgress) {
-      lastProgress = progress;
-      options.onProgress(s / steps);
+/** Adds one step of the loop's fluid temperatures, extraction and building demand to its month. */
+function accumulateFluid(
+  ledger: FluidLedger,
+  siteLoop: SiteLoop,
+  months: number,
+  t: number,
+  dt: number,
+): void {
+  const year = SECONDS_PER_YEAR;
+  const loop = siteLoop.loop;
+  const m = Math.min(months - 1, Math.floor((t - dt / 2) / (year / 12)));
+  if (loop.running) {
+    ledger.runTime[m] += dt;
+    ledger.inletInt[m] += loop.inlet_C * dt;
+    ledger.outletInt[m] += loop.outlet_C * dt;
+    ledger.extracted[m] += loop.extraction_W * dt;
+    const low = Math.min(loop.inlet_C, loop.outlet_C);
+    if (low < ledger.lowest) {
+      ledger.lowest = low;
+      ledger.lowestAt = t / year;
     }
   }
+  const dem = siteLoop.demand_W();
+  if (Number.isFinite(dem)) {
+    ledger.demanded[m] += dem * dt;
+    ledger.delivered[m] += siteLoop.delivered_W() * dt;
+  }
+}
 
+/** Handles the events the step at time `t` reaches: winter start and end, year end, output time. */
+function advanceSchedule(
+  ctx: RunContext,
+  cases: readonly CaseRun[],
+  oc: OverCooling | null,
+  sc: RunSchedule,
+  t: number,
+  grid: TimeGrid,
+): void {
+  const year = SECONDS_PER_YEAR;
+  const dt = grid.dt;
+  if (t >= sc.nextWinterStart - dt / 2) {
+    if (oc) markUnfrozen(ctx, oc);
+    sc.nextWinterStart += year;
+  }
+  if (oc && t >= sc.nextWinter - dt / 2) {
+    const vol = frozenByPile_m3(ctx, oc);
+    oc.year.push(sc.winterYear);
+    oc.frozenByPile_m3.push(round4(vol));
+    sc.winterYear++;
+    sc.nextWinter += year;
+  }
+  if (t >= sc.nextYearEnd - dt / 2) {
+    for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.periodMaxDepth_m()));
+    sc.nextYearEnd += year;
+  }
+  if (t >= sc.nextOutput - dt / 2) {
+    for (const run of cases) record(run, t);
+    sc.nextOutput += grid.outputEvery;
+  }
+}
+
+/** Fills each case's energy balance, solver work and probe thaw years; returns the worst balance error. */
+function finishCases(cases: readonly CaseRun[]): number {
   let worst = 0;
   for (const run of cases) {
     const eb = energyBalance(run.stored0, run.solver);
@@ -336,90 +533,71 @@ export function simulateSite(
     };
     run.out.probes.forEach((p, i) => {
       const tt = run.thawTime_s[i];
-      p.thawYear = tt === null ? null : round4(tt / year);
+      p.thawYear = tt === null ? null : round4(tt / SECONDS_PER_YEAR);
     });
     worst = Math.max(worst, eb.relativeError);
   }
-  if (worst > 0.005) {
-    warnings.push(
-      `energy balance error ${(worst * 100).toFixed(2)} % exceeds 0.5 %: refine the time step or mesh`,
-    );
-  }
+  return worst;
+}
 
-  const noPile = cases[0].out;
-  const withPile = pileCase ? pileCase.out : null;
-  const thawDelay_yr: (number | null)[] = [];
-  const lowerBound: boolean[] = [];
-  const upperBound: boolean[] = [];
+/** The warning for an energy balance error above 0.5 %. */
+function energyBalanceWarning(worst: number): string {
+  return `energy balance error ${(worst * 100).toFixed(2)} % exceeds 0.5 %: refine the time step or mesh`;
+}
+
+/** The delay the pile buys at each probe, yr, with the cases where one of the two never thawed. */
+function thawDelays(input: SiteInput, noPile: SiteCaseResult, withPile: SiteCaseResult | null): ThawDelays {
+  const d: ThawDelays = { thawDelay_yr: [], lowerBound: [], upperBound: [] };
   input.probes.forEach((_, i) => {
     const a = noPile.probes[i].thawYear;
     const b = withPile ? withPile.probes[i].thawYear : null;
     if (!withPile || (a === null && b === null)) {
-      thawDelay_yr.push(null);
-      lowerBound.push(false);
-      upperBound.push(false);
+      d.thawDelay_yr.push(null);
+      d.lowerBound.push(false);
+      d.upperBound.push(false);
     } else if (a !== null && b === null) {
       // The pile case has not thawed by the end of the run: the delay is at least years − a.
-      thawDelay_yr.push(round4(input.years - a));
-      lowerBound.push(true);
-      upperBound.push(false);
+      d.thawDelay_yr.push(round4(input.years - a));
+      d.lowerBound.push(true);
+      d.upperBound.push(false);
     } else if (a === null && b !== null) {
       // Only the pile case thawed (heat injected into the ground): the ground without the pile thaws
       // after the run, so the delay is at most b − years (negative: the pile brings the thaw forward).
-      thawDelay_yr.push(round4(b - input.years));
-      lowerBound.push(false);
-      upperBound.push(true);
+      d.thawDelay_yr.push(round4(b - input.years));
+      d.lowerBound.push(false);
+      d.upperBound.push(true);
     } else {
-      thawDelay_yr.push(round4((b as number) - (a as number)));
-      lowerBound.push(false);
-      upperBound.push(false);
+      d.thawDelay_yr.push(round4((b as number) - (a as number)));
+      d.lowerBound.push(false);
+      d.upperBound.push(false);
     }
   });
+  return d;
+}
 
-  let fluid: SiteFluidResult | null = null;
-  if (siteLoop && input.pile) {
-    const kWh = (j: number) => round4(j / 3.6e6);
-    const building = input.operation.mode === 'building';
-    fluid = {
-      month_yr: Array.from({ length: months }, (_, m) => round4(m / 12)),
-      inlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(inletInt[m] / r) : null)),
-      outlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(outletInt[m] / r) : null)),
-      extracted_kWh: Array.from(extracted, kWh),
-      delivered_kWh: building ? Array.from(delivered, kWh) : null,
-      unmet_kWh: building ? Array.from(demanded, (d, m) => kWh(Math.max(0, d - delivered[m]))) : null,
-      lowest_C: Number.isFinite(lowest) ? round4(lowest) : null,
-      lowestAt_yr: Number.isFinite(lowest) ? round4(lowestAt) : null,
-      Rb_mK_W: round4(siteLoop.Rb_mK_W),
-      Ra_mK_W: round4(siteLoop.Ra_mK_W),
-      flow_L_min: siteLoop.flow_L_min,
-    };
-  }
-
-  const result: SiteResult = {
-    noPile,
-    withPile,
-    thawDelay_yr,
-    thawDelayIsLowerBound: lowerBound,
-    thawDelayIsUpperBound: upperBound,
-    energyBalance: { relativeError: worst },
-    fluid,
-    overCooling: pileCase ? { ...overCooling, endOfWinterDay: round4(endOfWinterDay % 365) } : null,
-    mesh: {
-      nr: meshes.pile.nr,
-      nz: meshes.pile.nz,
-      timeSteps: steps,
-      radius_m: input.domain.radius_m,
-      depth_m: input.domain.depth_m,
-    },
-    warnings,
-    cautions: [SCREENING_CAUTION, ...GROUND_CAUTIONS],
+/** The monthly fluid result: mean running inlet/outlet temperatures, energies in kWh, loop figures. */
+function fluidResult(
+  input: SiteInput,
+  siteLoop: SiteLoop,
+  ledger: FluidLedger,
+  months: number,
+): SiteFluidResult {
+  const kWh = (j: number) => round4(j / 3.6e6);
+  const building = input.operation.mode === 'building';
+  const { runTime, inletInt, outletInt, extracted, delivered, demanded, lowest, lowestAt } = ledger;
+  return {
+    month_yr: Array.from({ length: months }, (_, m) => round4(m / 12)),
+    inlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(inletInt[m] / r) : null)),
+    outlet_C: Array.from(runTime, (r, m) => (r > 0 ? round4(outletInt[m] / r) : null)),
+    extracted_kWh: Array.from(extracted, kWh),
+    delivered_kWh: building ? Array.from(delivered, kWh) : null,
+    unmet_kWh: building ? Array.from(demanded, (d, m) => kWh(Math.max(0, d - delivered[m]))) : null,
+    lowest_C: Number.isFinite(lowest) ? round4(lowest) : null,
+    lowestAt_yr: Number.isFinite(lowest) ? round4(lowestAt) : null,
+    Rb_mK_W: round4(siteLoop.Rb_mK_W),
+    Ra_mK_W: round4(siteLoop.Ra_mK_W),
+    flow_L_min: siteLoop.flow_L_min,
   };
-  checkPhysicalBounds(result, {
-    fluid: input.pile ? input.pile.fluid : null,
-    extremes,
-    fluxRise_K: fluxRise_K(q, ground.bottoms_m, ground.layers),
-  });
-  return result;
 }
 
 /**
