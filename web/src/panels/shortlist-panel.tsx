@@ -6,7 +6,8 @@ import { useMemo, useState, type ChangeEvent } from 'react';
 import type { FeatureCollection } from 'geojson';
 import { ShortlistReport } from '../report/shortlist-report';
 import { StudyAll } from '../report/study-all';
-import type { Manifest } from '../../../layers/screening/manifest';
+import type { Band, Manifest } from '../../../layers/screening/manifest';
+import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import { useShortlist, useShortlistSaveStatus } from '../shortlist/use-shortlist';
 import {
@@ -30,58 +31,79 @@ function metricLabel(key: string): string {
   return i > 0 ? `${key.slice(0, i)} (${key.slice(i + 1)})` : key;
 }
 
+type SortDirection = 'asc' | 'desc';
+interface PanelSort {
+  key: string;
+  direction: SortDirection;
+}
+
+/** The sort the page keeps (in the URL) when it passes one, otherwise the panel's own. */
+function usePanelSort(sort: PanelSort | undefined, onSort: ((s: PanelSort) => void) | undefined) {
+  const [ownSort, setOwnSort] = useState<PanelSort>({ key: 'addedAt', direction: 'asc' });
+  const current = sort ?? ownSort;
+  const sortKey = current.key as ShortlistSortKey;
+  const direction = current.direction;
+  const putSort = onSort ?? setOwnSort;
+  const setSortKey = (key: ShortlistSortKey) => putSort({ key, direction });
+  const setDirection = (d: SortDirection) => putSort({ key: sortKey, direction: d });
+  return { sortKey, direction, setSortKey, setDirection };
+}
+
 export function ShortlistPanel(props: {
   manifest: Manifest;
   units: UnitSystem;
   metricBandId: string;
   onLocate: (lon: number, lat: number) => void;
   /** The sort, when the page keeps it (in the URL); otherwise the panel keeps its own. */
-  sort?: { key: string; direction: 'asc' | 'desc' };
-  onSort?: (sort: { key: string; direction: 'asc' | 'desc' }) => void;
+  sort?: PanelSort;
+  onSort?: (sort: PanelSort) => void;
   /** Land polygons for the report's map. */
   land?: FeatureCollection | null;
 }) {
   const { manifest, units } = props;
   const items = useShortlist();
-  const save = useShortlistSaveStatus();
   const [showAll, setShowAll] = useState(false);
-  const [ownSort, setOwnSort] = useState<{ key: string; direction: 'asc' | 'desc' }>({
-    key: 'addedAt',
-    direction: 'asc',
-  });
-  const current = props.sort ?? ownSort;
-  const sortKey = current.key as ShortlistSortKey;
-  const direction = current.direction;
-  const putSort = props.onSort ?? setOwnSort;
-  const setSortKey = (key: ShortlistSortKey) => putSort({ key, direction });
-  const setDirection = (d: 'asc' | 'desc') => putSort({ key: sortKey, direction: d });
-  const [message, setMessage] = useState<string | null>(null);
-  const [reportOpen, setReportOpen] = useState(false);
+  const sort = usePanelSort(props.sort, props.onSort);
+  const { sortKey, direction } = sort;
   const sorted = useMemo(() => sortShortlist(items, sortKey, direction), [items, sortKey, direction]);
   const listed = showAll ? sorted : sorted.slice(0, LISTED_AT_FIRST);
   const shownBand =
     manifest.bands.find((b) => `band:${b.id}` === sortKey) ??
     manifest.bands.find((b) => b.id === props.metricBandId);
-  const stamp = new Date().toISOString().slice(0, 10);
-
-  const onImport = async (ev: ChangeEvent<HTMLInputElement>) => {
-    const file = ev.target.files?.[0];
-    ev.target.value = '';
-    if (!file) return;
-    try {
-      const { items: imported, issues } = shortlistFromGeoJSON(JSON.parse(await file.text()), manifest.bands);
-      shortlistStore.importItems(imported);
-      setMessage(
-        `Imported ${imported.length} site(s)${issues.length ? `; skipped: ${issues.join('; ')}` : ''}.`,
-      );
-    } catch (e) {
-      setMessage(`Could not read ${file.name}: ${(e as Error).message}`);
-    }
-  };
 
   return (
     <section className="panel shortlist" aria-label="Shortlist" data-testid="shortlist-panel">
       <h2>Shortlist ({items.length.toLocaleString('en-US')})</h2>
+      <ShortlistSaveState />
+      <ShortlistSortControls bands={manifest.bands} {...sort} />
+      {sorted.length === 0 ? (
+        <p className="muted">No sites yet: click the map, then “Add to shortlist”.</p>
+      ) : null}
+      <ol className="shortlist-items" data-testid="shortlist-items">
+        {listed.map((it) => (
+          <ShortlistRow key={it.id} item={it} shownBand={shownBand} units={units} onLocate={props.onLocate} />
+        ))}
+      </ol>
+      {items.length > MAX_SHORTLIST_PINS ? (
+        <p className="muted small">
+          The map pins the first {MAX_SHORTLIST_PINS} sites added; exports hold all of them.
+        </p>
+      ) : null}
+      {listed.length < sorted.length ? (
+        <button type="button" onClick={() => setShowAll(true)} data-testid="shortlist-show-all">
+          Show all {sorted.length.toLocaleString('en-US')} sites
+        </button>
+      ) : null}
+      <ShortlistActions manifest={manifest} sorted={sorted} land={props.land ?? null} units={units} />
+    </section>
+  );
+}
+
+/** Whether the list could be read and is saved in this browser. */
+function ShortlistSaveState() {
+  const save = useShortlistSaveStatus();
+  return (
+    <>
       {shortlistStore.loadProblem() ? (
         <p className="notice warn" data-testid="shortlist-load-problem">
           {shortlistStore.loadProblem()}
@@ -101,117 +123,152 @@ export function ShortlistPanel(props: {
               ? `Saved in this browser (${save.savedCount.toLocaleString('en-US')} site(s)).`
               : 'Not saved: see above.'}
       </p>
-      <div className="row wrap">
-        <label className="sort">
-          Sort by{' '}
-          <select
-            value={sortKey}
-            onChange={(e) => setSortKey(e.target.value as ShortlistSortKey)}
-            data-testid="shortlist-sort"
-          >
-            <option value="addedAt">date added</option>
-            <option value="name">name</option>
-            {manifest.bands
-              .filter((b) => b.kind === 'continuous')
-              .map((b) => (
-                <option key={b.id} value={`band:${b.id}`}>
-                  {b.title}
-                </option>
-              ))}
-          </select>
-        </label>
+    </>
+  );
+}
+
+function ShortlistSortControls(props: {
+  bands: Band[];
+  sortKey: ShortlistSortKey;
+  direction: SortDirection;
+  setSortKey: (key: ShortlistSortKey) => void;
+  setDirection: (d: SortDirection) => void;
+}) {
+  const { sortKey, direction } = props;
+  return (
+    <div className="row wrap">
+      <label className="sort">
+        Sort by{' '}
+        <select
+          value={sortKey}
+          onChange={(e) => props.setSortKey(e.target.value as ShortlistSortKey)}
+          data-testid="shortlist-sort"
+        >
+          <option value="addedAt">date added</option>
+          <option value="name">name</option>
+          {props.bands
+            .filter((b) => b.kind === 'continuous')
+            .map((b) => (
+              <option key={b.id} value={`band:${b.id}`}>
+                {b.title}
+              </option>
+            ))}
+        </select>
+      </label>
+      <button
+        type="button"
+        onClick={() => props.setDirection(direction === 'asc' ? 'desc' : 'asc')}
+        aria-label="Reverse sort order"
+      >
+        {direction === 'asc' ? '↑ ascending' : '↓ descending'}
+      </button>
+    </div>
+  );
+}
+
+/** One site: editable name and note, where it is, the shown band and its first metrics, show / remove. */
+function ShortlistRow(props: {
+  item: ShortlistItem;
+  shownBand: Band | undefined;
+  units: UnitSystem;
+  onLocate: (lon: number, lat: number) => void;
+}) {
+  const { item: it, shownBand, units } = props;
+  return (
+    <li data-testid="shortlist-item">
+      <input
+        className="site-name"
+        aria-label="Site name"
+        value={it.name}
+        onChange={(e) => shortlistStore.update(it.id, { name: e.target.value })}
+      />
+      <textarea
+        aria-label="Note"
+        placeholder="note"
+        rows={1}
+        value={it.note}
+        onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
+      />
+      <div className="muted small">
+        {formatLonLat(it.lon, it.lat, 3)}
+        {shownBand
+          ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units, horizonFlagOf(shownBand, it.values))}`
+          : ''}
+        {it.origin === 'site' ? ' · site study' : ''}
+        {Object.entries(it.metrics)
+          .slice(0, 4)
+          .map(
+            ([k, v]) => ` · ${metricLabel(k)}: ${typeof v === 'number' ? formatNumber(v) : (v ?? 'no data')}`,
+          )
+          .join('')}
+      </div>
+      <div className="row item-actions">
         <button
           type="button"
-          onClick={() => setDirection(direction === 'asc' ? 'desc' : 'asc')}
-          aria-label="Reverse sort order"
+          onClick={() => props.onLocate(it.lon, it.lat)}
+          aria-label={`Show ${it.name} on the map`}
         >
-          {direction === 'asc' ? '↑ ascending' : '↓ descending'}
+          show
+        </button>
+        <button type="button" onClick={() => shortlistStore.remove(it.id)} aria-label={`Remove ${it.name}`}>
+          remove
         </button>
       </div>
-      {sorted.length === 0 ? (
-        <p className="muted">No sites yet: click the map, then “Add to shortlist”.</p>
-      ) : null}
-      <ol className="shortlist-items" data-testid="shortlist-items">
-        {listed.map((it) => (
-          <li key={it.id} data-testid="shortlist-item">
-            <input
-              className="site-name"
-              aria-label="Site name"
-              value={it.name}
-              onChange={(e) => shortlistStore.update(it.id, { name: e.target.value })}
-            />
-            <textarea
-              aria-label="Note"
-              placeholder="note"
-              rows={1}
-              value={it.note}
-              onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
-            />
-            <div className="muted small">
-              {formatLonLat(it.lon, it.lat, 3)}
-              {shownBand
-                ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units, horizonFlagOf(shownBand, it.values))}`
-                : ''}
-              {it.origin === 'site' ? ' · site study' : ''}
-              {Object.entries(it.metrics)
-                .slice(0, 4)
-                .map(
-                  ([k, v]) =>
-                    ` · ${metricLabel(k)}: ${typeof v === 'number' ? formatNumber(v) : (v ?? 'no data')}`,
-                )
-                .join('')}
-            </div>
-            <div className="row item-actions">
-              <button
-                type="button"
-                onClick={() => props.onLocate(it.lon, it.lat)}
-                aria-label={`Show ${it.name} on the map`}
-              >
-                show
-              </button>
-              <button
-                type="button"
-                onClick={() => shortlistStore.remove(it.id)}
-                aria-label={`Remove ${it.name}`}
-              >
-                remove
-              </button>
-            </div>
-          </li>
-        ))}
-      </ol>
-      {items.length > MAX_SHORTLIST_PINS ? (
-        <p className="muted small">
-          The map pins the first {MAX_SHORTLIST_PINS} sites added; exports hold all of them.
-        </p>
-      ) : null}
-      {listed.length < sorted.length ? (
-        <button type="button" onClick={() => setShowAll(true)} data-testid="shortlist-show-all">
-          Show all {sorted.length.toLocaleString('en-US')} sites
-        </button>
-      ) : null}
+    </li>
+  );
+}
+
+/** Re-import of an earlier GeoJSON export, and what it did (or why it could not). */
+function useShortlistImport(bands: Band[]) {
+  const [message, setMessage] = useState<string | null>(null);
+  const onImport = async (ev: ChangeEvent<HTMLInputElement>) => {
+    const file = ev.target.files?.[0];
+    ev.target.value = '';
+    if (!file) return;
+    try {
+      const { items: imported, issues } = shortlistFromGeoJSON(JSON.parse(await file.text()), bands);
+      shortlistStore.importItems(imported);
+      setMessage(
+        `Imported ${imported.length} site(s)${issues.length ? `; skipped: ${issues.join('; ')}` : ''}.`,
+      );
+    } catch (e) {
+      setMessage(`Could not read ${file.name}: ${(e as Error).message}`);
+    }
+  };
+  return { message, onImport };
+}
+
+/** Study all, the report, the exports and the re-import of an earlier GeoJSON export. */
+function ShortlistActions(props: {
+  manifest: Manifest;
+  sorted: ShortlistItem[];
+  land: FeatureCollection | null;
+  units: UnitSystem;
+}) {
+  const { manifest, sorted } = props;
+  const { message, onImport } = useShortlistImport(manifest.bands);
+  const [reportOpen, setReportOpen] = useState(false);
+  const stamp = new Date().toISOString().slice(0, 10);
+  const none = sorted.length === 0;
+  return (
+    <>
       <div className="row wrap">
         <StudyAll manifest={manifest} items={sorted} />
-        <button
-          type="button"
-          onClick={() => setReportOpen(true)}
-          disabled={sorted.length === 0}
-          data-testid="open-report"
-        >
+        <button type="button" onClick={() => setReportOpen(true)} disabled={none} data-testid="open-report">
           Shortlist report
         </button>
         {reportOpen ? (
           <ShortlistReport
             manifest={manifest}
             items={sorted}
-            land={props.land ?? null}
-            units={units}
+            land={props.land}
+            units={props.units}
             onClose={() => setReportOpen(false)}
           />
         ) : null}
         <button
           type="button"
-          disabled={items.length === 0}
+          disabled={none}
           data-testid="export-geojson"
           onClick={() =>
             downloadFile(
@@ -225,7 +282,7 @@ export function ShortlistPanel(props: {
         </button>
         <button
           type="button"
-          disabled={items.length === 0}
+          disabled={none}
           data-testid="export-csv"
           onClick={() =>
             downloadFile(`pile-atlas-shortlist-${stamp}.csv`, shortlistToCsv(sorted, manifest), 'text/csv')
@@ -248,6 +305,6 @@ export function ShortlistPanel(props: {
           {message}
         </p>
       ) : null}
-    </section>
+    </>
   );
 }

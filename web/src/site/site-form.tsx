@@ -7,7 +7,15 @@
  */
 import { useId, useState } from 'react';
 import { z } from 'zod';
-import { emptyValue, getAt, pathKey, setAt, unwrapSchema, type Path } from './schema-form-model';
+import {
+  emptyValue,
+  getAt,
+  pathKey,
+  setAt,
+  unwrapSchema,
+  type Path,
+  type Unwrapped,
+} from './schema-form-model';
 import { fieldId, Messages, NumberField, NumberListField, Toggle, type FormContext } from './form-inputs';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
@@ -21,22 +29,45 @@ export function humanise(key: string): string {
   return base.charAt(0).toUpperCase() + base.slice(1);
 }
 
-/** One schema node at `path` (recursive). */
-export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: Path; name: string }) {
+/** What every kind of field reads from its schema node: where it is, its value, label and default. */
+interface FieldNode {
+  ctx: FormContext;
+  path: Path;
+  name: string;
+  u: Unwrapped;
+  value: unknown;
+  label: string;
+  unit: string;
+  /** The placeholder: the default that applies when the field is left empty, or "optional". */
+  defaultText: string | undefined;
+}
+
+function fieldNode(props: { ctx: FormContext; schema: z.ZodType; path: Path; name: string }): FieldNode {
   const { ctx, path, name } = props;
   const u = unwrapSchema(props.schema);
-  const b = u.base;
-  const value = getAt(ctx.root, path);
-  const label = u.meta.title ?? humanise(name);
-  const unit = u.meta.unit ?? '';
-  const idBase = useId();
   const defaultText =
     u.hasDefault && (typeof u.defaultValue === 'number' || typeof u.defaultValue === 'string')
       ? `default ${typeof u.defaultValue === 'number' ? Number(u.defaultValue.toPrecision(4)) : u.defaultValue}`
       : u.optional
         ? 'optional'
         : undefined;
+  return {
+    ctx,
+    path,
+    name,
+    u,
+    value: getAt(ctx.root, path),
+    label: u.meta.title ?? humanise(name),
+    unit: u.meta.unit ?? '',
+    defaultText,
+  };
+}
 
+/** One schema node at `path` (recursive). */
+export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: Path; name: string }) {
+  const node = fieldNode(props);
+  const { ctx, path, u, label } = node;
+  const b = u.base;
   if (b instanceof z.ZodNumber) {
     return (
       <NumberField
@@ -44,185 +75,212 @@ export function SchemaField(props: { ctx: FormContext; schema: z.ZodType; path: 
         path={path}
         schema={b}
         label={label}
-        unit={unit}
+        unit={node.unit}
         defaultValue={u.hasDefault && typeof u.defaultValue === 'number' ? u.defaultValue : undefined}
-        placeholder={defaultText}
+        placeholder={node.defaultText}
         hint={u.meta.description}
       />
     );
   }
-  if (b instanceof z.ZodEnum) {
-    const id = fieldId(path);
-    const messages = ctx.issues.get(pathKey(path));
-    return (
-      <div className={`field${messages ? ' invalid' : ''}`}>
-        <label htmlFor={id}>{label}</label>
-        <select
-          id={id}
-          value={typeof value === 'string' ? value : ''}
-          onChange={(e) => ctx.onChange(setAt(ctx.root, path, e.target.value || undefined))}
-        >
-          {value === undefined ? <option value="">{defaultText ?? 'choose'}</option> : null}
-          {b.options.map((o) => (
-            <option key={String(o)} value={String(o)}>
-              {humanise(String(o))}
-            </option>
-          ))}
-        </select>
-        <Messages id={`${id}-err`} messages={messages} />
-      </div>
-    );
-  }
+  if (b instanceof z.ZodEnum) return <EnumField node={node} options={b.options} />;
   if (b instanceof z.ZodLiteral) return null;
   if (b instanceof z.ZodBoolean) {
     return (
       <Toggle
         id={fieldId(path)}
         label={label}
-        checked={value === true}
+        checked={node.value === true}
         onChange={(v) => ctx.onChange(setAt(ctx.root, path, v))}
       />
     );
   }
-  if (b instanceof z.ZodArray) {
-    const el = unwrapSchema(b.element as z.ZodType);
-    if (el.base instanceof z.ZodNumber) {
-      return <NumberListField ctx={ctx} path={path} label={label} unit={el.meta.unit ?? unit} />;
-    }
-    if (el.base instanceof z.ZodBoolean) {
-      const list = Array.isArray(value) ? (value as boolean[]) : null;
-      return (
-        <fieldset className="group">
-          <legend>
-            <Toggle
-              id={`${fieldId(path)}-on`}
-              label={label}
-              checked={list !== null}
-              onChange={(v) => ctx.onChange(setAt(ctx.root, path, v ? new Array(12).fill(true) : undefined))}
-            />
-          </legend>
-          {list ? (
-            <div className="months">
-              {list.map((on, i) => (
-                <Toggle
-                  key={i}
-                  id={`${fieldId(path)}-${i}`}
-                  label={MONTHS[i] ?? String(i + 1)}
-                  checked={on}
-                  onChange={(v) => ctx.onChange(setAt(ctx.root, [...path, i], v))}
-                />
-              ))}
-            </div>
-          ) : null}
-        </fieldset>
-      );
-    }
-    const list = Array.isArray(value) ? value : [];
-    const messages = ctx.issues.get(pathKey(path));
-    return (
-      <fieldset className="group list">
-        <legend>{label}</legend>
-        {list.map((_, i) => (
-          <div className="list-item" key={i}>
-            <div className="list-item-head">
-              <strong>
-                {humanise(name).replace(/s$/, '')} {i + 1}
-              </strong>
-              <button
-                type="button"
-                className="small"
-                onClick={() =>
-                  ctx.onChange(
-                    setAt(
-                      ctx.root,
-                      path,
-                      list.filter((__, j) => j !== i),
-                    ),
-                  )
-                }
-                aria-label={`Remove ${humanise(name).replace(/s$/, '').toLowerCase()} ${i + 1}`}
-              >
-                Remove
-              </button>
-            </div>
-            {el.base instanceof z.ZodObject ? (
-              <ObjectFields ctx={ctx} schema={el.base} path={[...path, i]} />
-            ) : (
-              <SchemaField ctx={ctx} schema={b.element as z.ZodType} path={[...path, i]} name={String(i)} />
-            )}
-          </div>
-        ))}
-        <button
-          type="button"
-          className="small"
-          onClick={() =>
-            ctx.onChange(setAt(ctx.root, path, [...list, newItem(b.element as z.ZodType, list)]))
-          }
-        >
-          Add {humanise(name).replace(/s$/, '').toLowerCase()}
-        </button>
-        <Messages id={`${fieldId(path)}-err`} messages={messages} />
-      </fieldset>
-    );
-  }
-  if (b instanceof z.ZodDiscriminatedUnion || b instanceof z.ZodUnion) {
-    const options = b.options as z.ZodType[];
-    const labels = options.map((o) => optionLabel(o));
-    const active = options.findIndex((o) => o.safeParse(value).success || matchesDiscriminator(o, value));
-    const index = active < 0 ? 0 : active;
-    const id = fieldId([...path, 'kind']);
-    const messages = ctx.issues.get(pathKey(path));
-    const chosen = options[index];
-    const cu = unwrapSchema(chosen);
-    return (
-      <fieldset className="group">
-        <legend>{label}</legend>
-        <div className="field">
-          <label htmlFor={id}>{u.meta.title ? 'Kind' : label}</label>
-          <select
-            id={id}
-            value={index}
-            onChange={(e) => ctx.onChange(setAt(ctx.root, path, emptyValue(options[Number(e.target.value)])))}
-          >
-            {labels.map((l, i) => (
-              <option key={l} value={i}>
-                {l}
-              </option>
-            ))}
-          </select>
-        </div>
-        {cu.base instanceof z.ZodObject ? <ObjectFields ctx={ctx} schema={cu.base} path={path} /> : null}
-        <Messages id={`${id}-err`} messages={messages} />
-      </fieldset>
-    );
-  }
-  if (b instanceof z.ZodObject) {
-    const present = value !== undefined && value !== null;
-    const switchable = u.optional || u.nullable;
-    const messages = ctx.issues.get(pathKey(path));
-    return (
-      <fieldset className="group" data-path={pathKey(path)}>
-        <legend>
-          {switchable ? (
-            <Toggle
-              id={`${fieldId(path)}-on${idBase}`}
-              label={label}
-              checked={present}
-              onChange={(v) =>
-                ctx.onChange(setAt(ctx.root, path, v ? emptyValue(b) : u.nullable ? null : undefined))
-              }
-            />
-          ) : (
-            label
-          )}
-        </legend>
-        {u.meta.description && present ? <p className="hint">{u.meta.description}</p> : null}
-        {present || !switchable ? <ObjectFields ctx={ctx} schema={b} path={path} /> : null}
-        <Messages id={`${fieldId(path)}-err`} messages={messages} />
-      </fieldset>
-    );
-  }
+  if (b instanceof z.ZodArray) return <ArrayField node={node} element={b.element as z.ZodType} />;
+  if (b instanceof z.ZodDiscriminatedUnion || b instanceof z.ZodUnion)
+    return <UnionField node={node} options={b.options as z.ZodType[]} />;
+  if (b instanceof z.ZodObject) return <ObjectGroup node={node} schema={b} />;
   return null;
+}
+
+function EnumField({ node, options }: { node: FieldNode; options: readonly (string | number)[] }) {
+  const { ctx, path, value } = node;
+  const id = fieldId(path);
+  const messages = ctx.issues.get(pathKey(path));
+  return (
+    <div className={`field${messages ? ' invalid' : ''}`}>
+      <label htmlFor={id}>{node.label}</label>
+      <select
+        id={id}
+        value={typeof value === 'string' ? value : ''}
+        onChange={(e) => ctx.onChange(setAt(ctx.root, path, e.target.value || undefined))}
+      >
+        {value === undefined ? <option value="">{node.defaultText ?? 'choose'}</option> : null}
+        {options.map((o) => (
+          <option key={String(o)} value={String(o)}>
+            {humanise(String(o))}
+          </option>
+        ))}
+      </select>
+      <Messages id={`${id}-err`} messages={messages} />
+    </div>
+  );
+}
+
+/** A list: numbers in one comma-separated box, month switches, or items with add / remove buttons. */
+function ArrayField({ node, element }: { node: FieldNode; element: z.ZodType }) {
+  const el = unwrapSchema(element);
+  if (el.base instanceof z.ZodNumber) {
+    return (
+      <NumberListField ctx={node.ctx} path={node.path} label={node.label} unit={el.meta.unit ?? node.unit} />
+    );
+  }
+  if (el.base instanceof z.ZodBoolean) return <MonthSwitches node={node} />;
+  return (
+    <ItemList node={node} element={element} itemObject={el.base instanceof z.ZodObject ? el.base : null} />
+  );
+}
+
+/** Twelve monthly switches behind one switch (off: the field is left out). */
+function MonthSwitches({ node }: { node: FieldNode }) {
+  const { ctx, path } = node;
+  const list = Array.isArray(node.value) ? (node.value as boolean[]) : null;
+  return (
+    <fieldset className="group">
+      <legend>
+        <Toggle
+          id={`${fieldId(path)}-on`}
+          label={node.label}
+          checked={list !== null}
+          onChange={(v) => ctx.onChange(setAt(ctx.root, path, v ? new Array(12).fill(true) : undefined))}
+        />
+      </legend>
+      {list ? (
+        <div className="months">
+          {list.map((on, i) => (
+            <Toggle
+              key={i}
+              id={`${fieldId(path)}-${i}`}
+              label={MONTHS[i] ?? String(i + 1)}
+              checked={on}
+              onChange={(v) => ctx.onChange(setAt(ctx.root, [...path, i], v))}
+            />
+          ))}
+        </div>
+      ) : null}
+    </fieldset>
+  );
+}
+
+function ItemList(props: { node: FieldNode; element: z.ZodType; itemObject: z.ZodObject | null }) {
+  const { ctx, path, name, label } = props.node;
+  const { element, itemObject } = props;
+  const list = Array.isArray(props.node.value) ? props.node.value : [];
+  const messages = ctx.issues.get(pathKey(path));
+  const itemName = humanise(name).replace(/s$/, '');
+  return (
+    <fieldset className="group list">
+      <legend>{label}</legend>
+      {list.map((_, i) => (
+        <div className="list-item" key={i}>
+          <div className="list-item-head">
+            <strong>
+              {itemName} {i + 1}
+            </strong>
+            <button
+              type="button"
+              className="small"
+              onClick={() =>
+                ctx.onChange(
+                  setAt(
+                    ctx.root,
+                    path,
+                    list.filter((__, j) => j !== i),
+                  ),
+                )
+              }
+              aria-label={`Remove ${itemName.toLowerCase()} ${i + 1}`}
+            >
+              Remove
+            </button>
+          </div>
+          {itemObject ? (
+            <ObjectFields ctx={ctx} schema={itemObject} path={[...path, i]} />
+          ) : (
+            <SchemaField ctx={ctx} schema={element} path={[...path, i]} name={String(i)} />
+          )}
+        </div>
+      ))}
+      <button
+        type="button"
+        className="small"
+        onClick={() => ctx.onChange(setAt(ctx.root, path, [...list, newItem(element, list)]))}
+      >
+        Add {itemName.toLowerCase()}
+      </button>
+      <Messages id={`${fieldId(path)}-err`} messages={messages} />
+    </fieldset>
+  );
+}
+
+/** A choice between shapes (a union): a "Kind" selector and the chosen shape's fields. */
+function UnionField({ node, options }: { node: FieldNode; options: z.ZodType[] }) {
+  const { ctx, path, value, label, u } = node;
+  const labels = options.map((o) => optionLabel(o));
+  const active = options.findIndex((o) => o.safeParse(value).success || matchesDiscriminator(o, value));
+  const index = active < 0 ? 0 : active;
+  const id = fieldId([...path, 'kind']);
+  const messages = ctx.issues.get(pathKey(path));
+  const cu = unwrapSchema(options[index]);
+  return (
+    <fieldset className="group">
+      <legend>{label}</legend>
+      <div className="field">
+        <label htmlFor={id}>{u.meta.title ? 'Kind' : label}</label>
+        <select
+          id={id}
+          value={index}
+          onChange={(e) => ctx.onChange(setAt(ctx.root, path, emptyValue(options[Number(e.target.value)])))}
+        >
+          {labels.map((l, i) => (
+            <option key={l} value={i}>
+              {l}
+            </option>
+          ))}
+        </select>
+      </div>
+      {cu.base instanceof z.ZodObject ? <ObjectFields ctx={ctx} schema={cu.base} path={path} /> : null}
+      <Messages id={`${id}-err`} messages={messages} />
+    </fieldset>
+  );
+}
+
+/** A group of fields; an optional or nullable group has a switch that adds or removes it. */
+function ObjectGroup({ node, schema }: { node: FieldNode; schema: z.ZodObject }) {
+  const { ctx, path, value, label, u } = node;
+  const idBase = useId();
+  const present = value !== undefined && value !== null;
+  const switchable = u.optional || u.nullable;
+  const messages = ctx.issues.get(pathKey(path));
+  return (
+    <fieldset className="group" data-path={pathKey(path)}>
+      <legend>
+        {switchable ? (
+          <Toggle
+            id={`${fieldId(path)}-on${idBase}`}
+            label={label}
+            checked={present}
+            onChange={(v) =>
+              ctx.onChange(setAt(ctx.root, path, v ? emptyValue(schema) : u.nullable ? null : undefined))
+            }
+          />
+        ) : (
+          label
+        )}
+      </legend>
+      {u.meta.description && present ? <p className="hint">{u.meta.description}</p> : null}
+      {present || !switchable ? <ObjectFields ctx={ctx} schema={schema} path={path} /> : null}
+      <Messages id={`${fieldId(path)}-err`} messages={messages} />
+    </fieldset>
+  );
 }
 
 function optionLabel(o: z.ZodType): string {
