@@ -6,7 +6,7 @@
  * loaded. The first full paint is reported once, after the GPU has finished the frame that drew
  * every tile of the opening view (onFirstPaint; the first-paint benchmark reads it).
  */
-import { memo, useEffect, useRef, useState } from 'react';
+import { memo, useEffect, useRef, useState, type MutableRefObject } from 'react';
 import * as maplibregl from 'maplibre-gl';
 import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
@@ -52,44 +52,54 @@ interface Painted {
 
 export const MapView = memo(function MapView(props: MapViewProps) {
   const container = useRef<HTMLDivElement | null>(null);
-  const mapRef = useRef<maplibregl.Map | null>(null);
-  const overlayRef = useRef<MapboxOverlay | null>(null);
   const latest = useRef(props);
   latest.current = props;
-  const painted = useRef(new WeakMap<Float32Array[], Painted>());
-  const screeningLayer = useRef<TileLayer<Float32Array[] | null> | null>(null);
-  const firstPaintDone = useRef(false);
-  const styleLoaded = useRef(false);
+  const screeningLayer = useRef<ScreeningLayer | null>(null);
   const [boundaryLayerAdded, setBoundaryLayerAdded] = useState(false);
+  const { mapRef, overlayRef, styleLoaded } = useMapAndOverlay(
+    container,
+    latest,
+    screeningLayer,
+    setBoundaryLayerAdded,
+  );
 
   useEffect(() => {
+    const map = mapRef.current;
+    if (map) map.getCanvas().style.cursor = props.drawing ? 'crosshair' : '';
+  }, [mapRef, props.drawing]);
+  useMarkers(mapRef, props.shortlist, props.selected);
+  const fly = props.flyTarget;
+  useEffect(() => {
+    if (fly && mapRef.current) mapRef.current.easeTo({ center: [fly.lon, fly.lat], duration: 300 });
+  }, [mapRef, fly]);
+  useScreeningTiles(overlayRef, screeningLayer, props, boundaryLayerAdded);
+  useBoundaryLines(mapRef, styleLoaded, props.boundaryRings, props.drawingPath, setBoundaryLayerAdded);
+
+  return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
+});
+
+type ScreeningLayer = TileLayer<Float32Array[] | null>;
+type Ref<T> = MutableRefObject<T>;
+
+/**
+ * The MapLibre map and the deck.gl overlay inside it, made once per mount: base style, controls,
+ * settlement markers, pointer and view events (read through `latest`, so new handlers need no new
+ * map), and the first-paint report.
+ */
+function useMapAndOverlay(
+  container: Ref<HTMLDivElement | null>,
+  latest: Ref<MapViewProps>,
+  screeningLayer: Ref<ScreeningLayer | null>,
+  setBoundaryLayerAdded: (added: boolean) => void,
+) {
+  const mapRef = useRef<maplibregl.Map | null>(null);
+  const overlayRef = useRef<MapboxOverlay | null>(null);
+  const styleLoaded = useRef(false);
+  const firstPaintDone = useRef(false);
+  useEffect(() => {
     if (!container.current) return;
-    const { atlas, initialView } = latest.current;
     firstPaintDone.current = false;
-    const [w, s, e, n] = atlas.manifest.region.bounds;
-    const map = new maplibregl.Map({
-      container: container.current,
-      style: baseStyle(atlas.land, atlas.settlements),
-      ...(initialView
-        ? { center: initialView.center, zoom: initialView.zoom }
-        : { bounds: [w, s, e, n] as [number, number, number, number], fitBoundsOptions: { padding: 20 } }),
-      minZoom: Math.max(0, atlas.manifest.tiles.minZoom - 1),
-      maxZoom: atlas.manifest.tiles.maxZoom + 4,
-      attributionControl: false,
-      dragRotate: false,
-      pitchWithRotate: false,
-      doubleClickZoom: false,
-      canvasContextAttributes: { preserveDrawingBuffer: true },
-    });
-    exposeTransformForDeck(map);
-    // Start the opening view's tile reads now, while deck.gl sets itself up; its TileLayer then finds
-    // them in flight in the tile store (same tiles, same bands) instead of asking only later.
-    for (const t of openingTiles(map, atlas.manifest)) {
-      atlas.tiles.getBands(t.z, t.x, t.y, bandsToDraw(latest.current.style)).catch(() => undefined);
-    }
-    map.touchZoomRotate.disableRotation();
-    map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
-    map.addControl(new maplibregl.ScaleControl({ unit: 'metric' }), 'bottom-right');
+    const map = createBaseMap(container.current, latest.current);
     // Interleaved: deck.gl draws into MapLibre's own WebGL context (one context, one canvas to
     // composite; with software WebGL a second context roughly doubles the start-up cost).
     const overlay = new MapboxOverlay({
@@ -108,26 +118,10 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     map.addControl(overlay);
     mapRef.current = map;
     overlayRef.current = overlay;
-    for (const f of atlas.settlements?.features ?? []) {
-      if (f.geometry?.type !== 'Point') continue;
-      const [lon, lat] = f.geometry.coordinates;
-      const name = String(f.properties?.name ?? 'Settlement');
-      settlementMarker(map, { lon, lat, name }, (lngLat) => latest.current.onClick(lngLat));
-    }
     map.once('load', () => {
       styleLoaded.current = true;
     });
-    map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
-    map.on('mouseout', () => latest.current.onHover(null));
-    map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
-    map.on('moveend', () => {
-      const c = map.getCenter();
-      latest.current.onViewChange([c.lng, c.lat], map.getZoom());
-    });
-    // The opening view (fitted to the region, or the link's) fires no moveend: report it, so that the
-    // URL holds the view on screen and not the defaults it was computed from.
-    const c0 = map.getCenter();
-    latest.current.onViewChange([c0.lng, c0.lat], map.getZoom());
+    wireMapEvents(map, latest);
     return () => {
       map.remove();
       styleLoaded.current = false;
@@ -135,20 +129,73 @@ export const MapView = memo(function MapView(props: MapViewProps) {
       mapRef.current = null;
       overlayRef.current = null;
     };
-  }, []);
+  }, [container, latest, screeningLayer, setBoundaryLayerAdded]);
+  return { mapRef, overlayRef, styleLoaded };
+}
 
-  useEffect(() => {
-    const map = mapRef.current;
-    if (map) map.getCanvas().style.cursor = props.drawing ? 'crosshair' : '';
-  }, [props.drawing]);
+/** The map with the offline base style, its opening view and controls; the opening tiles are asked for at once. */
+function createBaseMap(container: HTMLDivElement, props: MapViewProps): maplibregl.Map {
+  const { atlas, initialView } = props;
+  const [w, s, e, n] = atlas.manifest.region.bounds;
+  const map = new maplibregl.Map({
+    container,
+    style: baseStyle(atlas.land, atlas.settlements),
+    ...(initialView
+      ? { center: initialView.center, zoom: initialView.zoom }
+      : { bounds: [w, s, e, n] as [number, number, number, number], fitBoundsOptions: { padding: 20 } }),
+    minZoom: Math.max(0, atlas.manifest.tiles.minZoom - 1),
+    maxZoom: atlas.manifest.tiles.maxZoom + 4,
+    attributionControl: false,
+    dragRotate: false,
+    pitchWithRotate: false,
+    doubleClickZoom: false,
+    canvasContextAttributes: { preserveDrawingBuffer: true },
+  });
+  exposeTransformForDeck(map);
+  // Start the opening view's tile reads now, while deck.gl sets itself up; its TileLayer then finds
+  // them in flight in the tile store (same tiles, same bands) instead of asking only later.
+  for (const t of openingTiles(map, atlas.manifest)) {
+    atlas.tiles.getBands(t.z, t.x, t.y, bandsToDraw(props.style)).catch(() => undefined);
+  }
+  map.touchZoomRotate.disableRotation();
+  map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
+  map.addControl(new maplibregl.ScaleControl({ unit: 'metric' }), 'bottom-right');
+  return map;
+}
 
-  const { shortlist, selected } = props;
+/** Settlement markers, hover / click / view-change events, and the opening view reported once. */
+function wireMapEvents(map: maplibregl.Map, latest: Ref<MapViewProps>): void {
+  for (const f of latest.current.atlas.settlements?.features ?? []) {
+    if (f.geometry?.type !== 'Point') continue;
+    const [lon, lat] = f.geometry.coordinates;
+    const name = String(f.properties?.name ?? 'Settlement');
+    settlementMarker(map, { lon, lat, name }, (lngLat) => latest.current.onClick(lngLat));
+  }
+  map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
+  map.on('mouseout', () => latest.current.onHover(null));
+  map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
+  map.on('moveend', () => {
+    const c = map.getCenter();
+    latest.current.onViewChange([c.lng, c.lat], map.getZoom());
+  });
+  // The opening view (fitted to the region, or the link's) fires no moveend: report it, so that the
+  // URL holds the view on screen and not the defaults it was computed from.
+  const c0 = map.getCenter();
+  latest.current.onViewChange([c0.lng, c0.lat], map.getZoom());
+}
+
+/** Pins of the shortlisted sites and the ring round the selected place. */
+function useMarkers(
+  mapRef: Ref<maplibregl.Map | null>,
+  shortlist: MapViewProps['shortlist'],
+  selected: MapViewProps['selected'],
+): void {
   useEffect(() => {
     const map = mapRef.current;
     if (!map) return;
     const pins = shortlist.map((p) => passiveMarker(map, p, 'shortlist-pin', `Shortlisted: ${p.name}`));
     return () => pins.forEach((m) => m.remove());
-  }, [shortlist]);
+  }, [mapRef, shortlist]);
   useEffect(() => {
     const map = mapRef.current;
     if (!map || !selected) return;
@@ -156,57 +203,80 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     return () => {
       ring.remove();
     };
-  }, [selected]);
+  }, [mapRef, selected]);
+}
 
-  const fly = props.flyTarget;
-  useEffect(() => {
-    if (fly && mapRef.current) mapRef.current.easeTo({ center: [fly.lon, fly.lat], duration: 300 });
-  }, [fly]);
-
+/** The screening tile layer, rebuilt only when the data, the style or the boundary's layer order change. */
+function useScreeningTiles(
+  overlayRef: Ref<MapboxOverlay | null>,
+  screeningLayer: Ref<ScreeningLayer | null>,
+  props: MapViewProps,
+  boundaryLayerAdded: boolean,
+): void {
+  const painted = useRef(new WeakMap<Float32Array[], Painted>());
+  const { atlas, style, styleKey } = props;
   useEffect(() => {
     const overlay = overlayRef.current;
     if (!overlay) return;
-    const { atlas, style, styleKey } = props;
-    const { manifest, tiles } = atlas;
-    const neededBands = bandsToDraw(style);
-    const tileLayer = new TileLayer<Float32Array[] | null>({
-      id: 'screening',
-      tileSize: manifest.tiles.tileSize,
-      minZoom: manifest.tiles.minZoom,
-      maxZoom: manifest.tiles.maxZoom,
-      extent: manifest.region.bounds,
-      // Read by @deck.gl/mapbox (interleaved): once there is a boundary line, draw the tiles below
-      // it. Not in the layer's own prop types, hence the spread.
-      ...((boundaryLayerAdded ? { beforeId: BOUNDARY_LAYER_ID } : {}) as Record<string, unknown>),
-      maxRequests: 16,
-      getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
-      updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
-      renderSubLayers: (sub) => {
-        const planes = sub.data;
-        if (!planes) return null;
-        let p = painted.current.get(planes);
-        if (!p || p.key !== styleKey) {
-          const image = new ImageData(TILE_SIZE, TILE_SIZE);
-          colourTile(planes, style, image.data);
-          p = { key: styleKey, image };
-          painted.current.set(planes, p);
-        }
-        const [min, max] = sub.tile.boundingBox;
-        return new BitmapLayer({
-          id: `${sub.id}-bitmap`,
-          image: p.image,
-          bounds: [min[0], min[1], max[0], max[1]],
-          textureParameters: { minFilter: 'nearest', magFilter: 'nearest' },
-        });
-      },
-    });
+    const tileLayer = screeningTileLayer(atlas, style, styleKey, painted.current, boundaryLayerAdded);
     screeningLayer.current = tileLayer;
     const layers: Layer[] = [tileLayer];
     overlay.setProps({ layers });
     // Only these change the tiles: a new boundary, marker or selection must not redraw them.
-  }, [props.atlas, props.style, props.styleKey, boundaryLayerAdded]);
+  }, [overlayRef, screeningLayer, atlas, style, styleKey, boundaryLayerAdded]);
+}
 
-  const { boundaryRings, drawingPath } = props;
+/** deck.gl TileLayer of the screening bands, each tile coloured once per style key (colour-tile.ts). */
+function screeningTileLayer(
+  atlas: Atlas,
+  style: TileStyle,
+  styleKey: string,
+  painted: WeakMap<Float32Array[], Painted>,
+  belowBoundary: boolean,
+): ScreeningLayer {
+  const { manifest, tiles } = atlas;
+  const neededBands = bandsToDraw(style);
+  return new TileLayer<Float32Array[] | null>({
+    id: 'screening',
+    tileSize: manifest.tiles.tileSize,
+    minZoom: manifest.tiles.minZoom,
+    maxZoom: manifest.tiles.maxZoom,
+    extent: manifest.region.bounds,
+    // Read by @deck.gl/mapbox (interleaved): once there is a boundary line, draw the tiles below
+    // it. Not in the layer's own prop types, hence the spread.
+    ...((belowBoundary ? { beforeId: BOUNDARY_LAYER_ID } : {}) as Record<string, unknown>),
+    maxRequests: 16,
+    getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
+    updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
+    renderSubLayers: (sub) => {
+      const planes = sub.data;
+      if (!planes) return null;
+      let p = painted.get(planes);
+      if (!p || p.key !== styleKey) {
+        const image = new ImageData(TILE_SIZE, TILE_SIZE);
+        colourTile(planes, style, image.data);
+        p = { key: styleKey, image };
+        painted.set(planes, p);
+      }
+      const [min, max] = sub.tile.boundingBox;
+      return new BitmapLayer({
+        id: `${sub.id}-bitmap`,
+        image: p.image,
+        bounds: [min[0], min[1], max[0], max[1]],
+        textureParameters: { minFilter: 'nearest', magFilter: 'nearest' },
+      });
+    },
+  });
+}
+
+/** The boundary rings and the path being drawn, as a MapLibre line layer (added with the first line). */
+function useBoundaryLines(
+  mapRef: Ref<maplibregl.Map | null>,
+  styleLoaded: Ref<boolean>,
+  boundaryRings: [number, number][][],
+  drawingPath: [number, number][],
+  setBoundaryLayerAdded: (added: boolean) => void,
+): void {
   useEffect(() => {
     const map = mapRef.current;
     if (!map) return;
@@ -236,10 +306,8 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     return () => {
       map.off('load', apply);
     };
-  }, [boundaryRings, drawingPath]);
-
-  return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
-});
+  }, [mapRef, styleLoaded, boundaryRings, drawingPath, setBoundaryLayerAdded]);
+}
 
 /** The bands drawn for a style: the shown band and those the live filter tests (Range reads per band). */
 function bandsToDraw(style: TileStyle): number[] {

@@ -63,184 +63,220 @@ function newId(): string {
 
 type Op = (items: readonly ShortlistItem[]) => ShortlistItem[];
 
-/** Create a store over `persistence` (null = in memory only, nothing saved). */
-export function createShortlistStore(backend: ShortlistPersistence | null): ShortlistStore {
-  let persistence = backend;
-  let items: readonly ShortlistItem[] = Object.freeze([]);
-  let problem: string | null = null;
-  let status: SaveStatus = Object.freeze({
-    state: persistence ? 'loading' : 'saved',
-    problem: null,
-    savedCount: 0,
-  });
-  const listeners = new Set<() => void>();
-  const notify = () => listeners.forEach((l) => l());
-  const setStatus = (next: Partial<SaveStatus>) => {
-    status = Object.freeze({ ...status, ...next });
-  };
-
+/** Everything one store keeps between calls. */
+interface StoreState {
+  /** null: in memory only (none given, or storage could not be opened). */
+  persistence: ShortlistPersistence | null;
+  items: readonly ShortlistItem[];
+  problem: string | null;
+  status: SaveStatus;
+  listeners: Set<() => void>;
   // What storage holds: the item objects last written (items are immutable, so identity = content)
   // and their order; and the order of every item in the tab.
-  const saved = new Map<string, { item: ShortlistItem; order: number }>();
-  const order = new Map<string, number>();
-  let nextOrder = 0;
-  let loaded = !persistence;
-  const pending: Op[] = [];
-  let writing: Promise<void> | null = null;
-  let again = false;
-  let loading: Promise<void> = Promise.resolve();
+  saved: Map<string, { item: ShortlistItem; order: number }>;
+  order: Map<string, number>;
+  nextOrder: number;
+  loaded: boolean;
+  /** Changes made before the saved list loaded, replayed on top of it. */
+  pending: Op[];
+  writing: Promise<void> | null;
+  /** A change arrived during a write: write again after it. */
+  again: boolean;
+  loading: Promise<void>;
+  scheduled: boolean;
+}
 
-  const orderOf = (id: string) => {
-    let o = order.get(id);
-    if (o === undefined) {
-      o = nextOrder++;
-      order.set(id, o);
-    }
-    return o;
-  };
+const notify = (st: StoreState) => st.listeners.forEach((l) => l());
+const setStatus = (st: StoreState, next: Partial<SaveStatus>) => {
+  st.status = Object.freeze({ ...st.status, ...next });
+};
 
-  const flush = async (): Promise<void> => {
-    const target = persistence;
-    if (!target || !loaded) return;
-    if (writing) {
-      again = true;
-      return writing;
-    }
-    const run = async () => {
-      do {
-        again = false;
-        const snapshot = items;
-        const put: SavedSite[] = [];
-        const keep = new Set<string>();
-        for (const item of snapshot) {
-          keep.add(item.id);
-          const o = orderOf(item.id);
-          const s = saved.get(item.id);
-          if (!s || s.item !== item || s.order !== o) put.push({ item, order: o });
-        }
-        const remove = [...saved.keys()].filter((id) => !keep.has(id));
-        if (put.length === 0 && remove.length === 0) {
-          if (status.state !== 'saved' || status.problem) setStatus({ state: 'saved', problem: null });
-          break;
-        }
-        setStatus({ state: 'saving' });
-        try {
-          await target.write({ put, remove });
-          for (const s of put) saved.set(s.item.id, s);
-          for (const id of remove) saved.delete(id);
-          setStatus({ state: 'saved', problem: null, savedCount: saved.size });
-        } catch (e) {
-          setStatus({ state: 'unsaved', problem: saveFailureMessage(e, snapshot.length, saved.size) });
-          notify();
-          break; // the next change tries again
-        }
-        notify();
-      } while (again);
-    };
-    writing = run().finally(() => {
-      writing = null;
-    });
-    return writing;
-  };
-
-  let scheduled = false;
-  const scheduleFlush = () => {
-    if (scheduled) return;
-    scheduled = true;
-    setTimeout(() => {
-      scheduled = false;
-      void flush();
-    }, 0);
-  };
-
-  const commit = (op: Op) => {
-    if (!loaded) pending.push(op);
-    items = Object.freeze(op(items));
-    for (const it of items) orderOf(it.id);
-    if (persistence) {
-      if (loaded && status.state !== 'saving') setStatus({ state: 'saving' });
-      scheduleFlush();
-    }
-    notify();
-  };
-
-  if (persistence) {
-    loading = persistence.load().then(
-      ({ sites, problems }) => {
-        for (const s of sites) {
-          saved.set(s.item.id, s);
-          order.set(s.item.id, s.order);
-          nextOrder = Math.max(nextOrder, s.order + 1);
-        }
-        // Changes made while loading go on top of the saved list; their items get orders after it.
-        let next: readonly ShortlistItem[] = sites.map((s) => s.item);
-        const early = new Set(items.map((i) => i.id));
-        for (const id of early) if (!saved.has(id)) order.delete(id);
-        for (const op of pending.splice(0)) next = op(next);
-        items = Object.freeze([...next]);
-        for (const it of items) orderOf(it.id);
-        loaded = true;
-        problem = problems.length ? problems.join('; ') : null;
-        setStatus({ state: 'saved', savedCount: saved.size });
-        notify();
-        return flush();
-      },
-      (e: unknown) => {
-        // Storage cannot be opened at all: keep working in memory and say so.
-        problem = `the shortlist cannot be saved in this browser (${(e as Error)?.message ?? e}); it lives only in this tab`;
-        loaded = true;
-        pending.length = 0;
-        setStatus({ state: 'unsaved', problem });
-        persistence = null;
-        notify();
-      },
-    );
+function orderOf(st: StoreState, id: string): number {
+  let o = st.order.get(id);
+  if (o === undefined) {
+    o = st.nextOrder++;
+    st.order.set(id, o);
   }
+  return o;
+}
+
+/** What a write must do to make storage hold `snapshot`: the sites new or changed, the ids gone. */
+function changesSinceSaved(st: StoreState, snapshot: readonly ShortlistItem[]) {
+  const put: SavedSite[] = [];
+  const keep = new Set<string>();
+  for (const item of snapshot) {
+    keep.add(item.id);
+    const o = orderOf(st, item.id);
+    const s = st.saved.get(item.id);
+    if (!s || s.item !== item || s.order !== o) put.push({ item, order: o });
+  }
+  const remove = [...st.saved.keys()].filter((id) => !keep.has(id));
+  return { put, remove };
+}
+
+/** Write until storage holds the tab's list; a failure stops (the next change tries again). */
+async function writeUntilSaved(st: StoreState, target: ShortlistPersistence): Promise<void> {
+  do {
+    st.again = false;
+    const snapshot = st.items;
+    const { put, remove } = changesSinceSaved(st, snapshot);
+    if (put.length === 0 && remove.length === 0) {
+      if (st.status.state !== 'saved' || st.status.problem) setStatus(st, { state: 'saved', problem: null });
+      break;
+    }
+    setStatus(st, { state: 'saving' });
+    try {
+      await target.write({ put, remove });
+      for (const s of put) st.saved.set(s.item.id, s);
+      for (const id of remove) st.saved.delete(id);
+      setStatus(st, { state: 'saved', problem: null, savedCount: st.saved.size });
+    } catch (e) {
+      setStatus(st, { state: 'unsaved', problem: saveFailureMessage(e, snapshot.length, st.saved.size) });
+      notify(st);
+      break; // the next change tries again
+    }
+    notify(st);
+  } while (st.again);
+}
+
+async function flush(st: StoreState): Promise<void> {
+  const target = st.persistence;
+  if (!target || !st.loaded) return;
+  if (st.writing) {
+    st.again = true;
+    return st.writing;
+  }
+  st.writing = writeUntilSaved(st, target).finally(() => {
+    st.writing = null;
+  });
+  return st.writing;
+}
+
+/** One write for a burst of edits: flush on the next turn of the event loop. */
+function scheduleFlush(st: StoreState): void {
+  if (st.scheduled) return;
+  st.scheduled = true;
+  setTimeout(() => {
+    st.scheduled = false;
+    void flush(st);
+  }, 0);
+}
+
+function commit(st: StoreState, op: Op): void {
+  if (!st.loaded) st.pending.push(op);
+  st.items = Object.freeze(op(st.items));
+  for (const it of st.items) orderOf(st, it.id);
+  if (st.persistence) {
+    if (st.loaded && st.status.state !== 'saving') setStatus(st, { state: 'saving' });
+    scheduleFlush(st);
+  }
+  notify(st);
+}
+
+/** Read the saved list and replay the changes made meanwhile on top of it; without storage, say so. */
+function loadSaved(st: StoreState, persistence: ShortlistPersistence): Promise<void> {
+  return persistence.load().then(
+    ({ sites, problems }) => {
+      for (const s of sites) {
+        st.saved.set(s.item.id, s);
+        st.order.set(s.item.id, s.order);
+        st.nextOrder = Math.max(st.nextOrder, s.order + 1);
+      }
+      // Changes made while loading go on top of the saved list; their items get orders after it.
+      let next: readonly ShortlistItem[] = sites.map((s) => s.item);
+      const early = new Set(st.items.map((i) => i.id));
+      for (const id of early) if (!st.saved.has(id)) st.order.delete(id);
+      for (const op of st.pending.splice(0)) next = op(next);
+      st.items = Object.freeze([...next]);
+      for (const it of st.items) orderOf(st, it.id);
+      st.loaded = true;
+      st.problem = problems.length ? problems.join('; ') : null;
+      setStatus(st, { state: 'saved', savedCount: st.saved.size });
+      notify(st);
+      return flush(st);
+    },
+    (e: unknown) => {
+      // Storage cannot be opened at all: keep working in memory and say so.
+      st.problem = `the shortlist cannot be saved in this browser (${(e as Error)?.message ?? e}); it lives only in this tab`;
+      st.loaded = true;
+      st.pending.length = 0;
+      setStatus(st, { state: 'unsaved', problem: st.problem });
+      st.persistence = null;
+      notify(st);
+    },
+  );
+}
+
+/** A new item from `add`'s input, checked against the item schema (TypeError naming the bad field). */
+function newItem(input: NewShortlistItem, count: number): ShortlistItem {
+  const candidate = {
+    id: newId(),
+    name: input.name ?? `Site ${count + 1}`,
+    note: input.note ?? '',
+    lon: input.lon,
+    lat: input.lat,
+    addedAt: new Date().toISOString(),
+    origin: input.origin ?? 'map',
+    values: input.values ?? {},
+    metrics: input.metrics ?? {},
+  };
+  const parsed = shortlistItemSchema.safeParse(candidate);
+  if (!parsed.success) throw new TypeError(`shortlist add: ${issuesText(parsed.error)}`);
+  return parsed.data;
+}
+
+/** Create a store over `persistence` (null = in memory only, nothing saved). */
+export function createShortlistStore(backend: ShortlistPersistence | null): ShortlistStore {
+  const st: StoreState = {
+    persistence: backend,
+    items: Object.freeze([]),
+    problem: null,
+    status: Object.freeze({ state: backend ? 'loading' : 'saved', problem: null, savedCount: 0 }),
+    listeners: new Set(),
+    saved: new Map(),
+    order: new Map(),
+    nextOrder: 0,
+    loaded: !backend,
+    pending: [],
+    writing: null,
+    again: false,
+    loading: Promise.resolve(),
+    scheduled: false,
+  };
+  if (backend) st.loading = loadSaved(st, backend);
 
   return {
-    list: () => items,
+    list: () => st.items,
     add(input) {
-      const candidate = {
-        id: newId(),
-        name: input.name ?? `Site ${items.length + 1}`,
-        note: input.note ?? '',
-        lon: input.lon,
-        lat: input.lat,
-        addedAt: new Date().toISOString(),
-        origin: input.origin ?? 'map',
-        values: input.values ?? {},
-        metrics: input.metrics ?? {},
-      };
-      const parsed = shortlistItemSchema.safeParse(candidate);
-      if (!parsed.success) throw new TypeError(`shortlist add: ${issuesText(parsed.error)}`);
-      commit((list) => [...list, parsed.data]);
-      return parsed.data;
+      const item = newItem(input, st.items.length);
+      commit(st, (list) => [...list, item]);
+      return item;
     },
     update(id, patch) {
-      commit((list) => list.map((it) => (it.id === id ? { ...it, ...patch } : it)));
+      commit(st, (list) => list.map((it) => (it.id === id ? { ...it, ...patch } : it)));
     },
     remove(id) {
-      commit((list) => list.filter((it) => it.id !== id));
+      commit(st, (list) => list.filter((it) => it.id !== id));
     },
     clear() {
-      commit(() => []);
+      commit(st, () => []);
     },
     importItems(incoming) {
       const ids = new Set(incoming.map((i) => i.id));
       // A re-imported site goes to the end, as a new one would.
-      for (const id of ids) order.delete(id);
-      commit((list) => [...list.filter((i) => !ids.has(i.id)), ...incoming]);
+      for (const id of ids) st.order.delete(id);
+      commit(st, (list) => [...list.filter((i) => !ids.has(i.id)), ...incoming]);
     },
     subscribe(listener) {
-      listeners.add(listener);
-      return () => listeners.delete(listener);
+      st.listeners.add(listener);
+      return () => st.listeners.delete(listener);
     },
-    loadProblem: () => problem,
-    saveStatus: () => status,
+    loadProblem: () => st.problem,
+    saveStatus: () => st.status,
     async settled() {
-      await loading;
-      while (scheduled || writing) {
-        if (writing) await writing;
+      await st.loading;
+      while (st.scheduled || st.writing) {
+        if (st.writing) await st.writing;
         else await new Promise((r) => setTimeout(r, 0));
       }
     },
