@@ -16,6 +16,13 @@ import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../
 import { SiteMap } from './site-map';
 import './report.css';
 
+type Band = Manifest['bands'][number];
+
+/** A band's value at a site as the report prints it (units, horizon flag). */
+function siteValue(item: ShortlistItem, b: Band, units: UnitSystem): string {
+  return bandValueText(b, item.values[b.id] ?? null, units, horizonFlagOf(b, item.values));
+}
+
 export function ShortlistReport(props: {
   manifest: Manifest;
   items: readonly ShortlistItem[];
@@ -24,13 +31,6 @@ export function ShortlistReport(props: {
   onClose: () => void;
 }) {
   const { manifest, items, units } = props;
-  const bands = manifest.bands;
-  const headline = HEADLINE_BAND_IDS.flatMap((id) => bands.filter((b) => b.id === id));
-  const scenario = (manifest.scenario as { name?: string; description?: string } | undefined) ?? {};
-  const studied = items.some((i) => i.metrics.studyThawDelay_yr !== undefined);
-  const printed = new Date().toISOString().slice(0, 10);
-  const value = (item: ShortlistItem, b: (typeof bands)[number]) =>
-    bandValueText(b, item.values[b.id] ?? null, units, horizonFlagOf(b, item.values));
   const overlay = (
     <div
       className="report-overlay"
@@ -46,104 +46,143 @@ export function ShortlistReport(props: {
           Close report
         </button>
       </div>
-      <section className="report-page" data-testid="report-page">
-        <h1>Shortlist report · {manifest.region.name}</h1>
-        <p className="small">
-          {items.length} site(s) · scenario: {scenario.name ?? 'the build’s default scenario'} · units:{' '}
-          {units === 'SI' ? 'SI' : 'North American'} · printed {printed}
-        </p>
-        <div className="report-caution" data-testid="report-cautions">
-          <strong>{SCREENING_CAUTION}</strong>
-          <ul>
-            {GROUND_CAUTIONS.map((c) => (
-              <li key={c}>{c}</li>
-            ))}
-          </ul>
-          {manifest.fictional ? <p>{manifest.notice}</p> : null}
-        </div>
-        <SiteMap bounds={manifest.region.bounds} land={props.land} sites={items} />
-        <h2>Comparison</h2>
-        <table className="report-table" data-testid="report-comparison">
-          <thead>
-            <tr>
-              <th>#</th>
-              <th>Site</th>
-              <th>Position</th>
-              {headline.map((b) => (
-                <th key={b.id}>{displayTitle(b.title, b.unit, units)}</th>
-              ))}
-              {studied ? <th>Site study: thaw delay at the first probe</th> : null}
-              {studied ? <th>Site study: lowest fluid temperature</th> : null}
-            </tr>
-          </thead>
-          <tbody>
-            {items.map((item, i) => (
-              <tr key={item.id}>
-                <td>{i + 1}</td>
-                <td>{item.name}</td>
-                <td>{formatLonLat(item.lon, item.lat, 3)}</td>
-                {headline.map((b) => (
-                  <td key={b.id}>{value(item, b)}</td>
-                ))}
-                {studied ? <td>{studyDelay(item, units)}</td> : null}
-                {studied ? <td>{studyNumber(item.metrics.studyLowestFluid_C, '°C', units)}</td> : null}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </section>
+      <CoverPage manifest={manifest} items={items} land={props.land} units={units} />
       {items.map((item, i) => (
-        <section className="report-page" key={item.id} data-testid="report-page">
-          <h2>
-            Site {i + 1}: {item.name}
-          </h2>
-          <p className="small">
-            {formatLonLat(item.lon, item.lat, 4)}
-            {item.note ? ` · ${item.note}` : ''}
-          </p>
-          <table className="report-table two-col" data-testid="report-site-sheet">
-            <tbody>
-              {bands.map((b) => (
-                <tr key={b.id}>
-                  <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
-                  <td>{value(item, b)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          <p className="small report-caution">{SCREENING_CAUTION}</p>
-        </section>
+        <SiteSheet key={item.id} item={item} number={i + 1} bands={manifest.bands} units={units} />
       ))}
-      <section className="report-page" data-testid="report-page">
-        <h2>Sources</h2>
-        <table className="report-table" data-testid="report-sources">
-          <thead>
-            <tr>
-              <th>Input</th>
-              <th>Provenance</th>
-              <th>Licence</th>
-            </tr>
-          </thead>
-          <tbody>
-            {manifest.sources.map((s) => (
-              <tr key={s.file}>
-                <td>{s.file}</td>
-                <td>{s.provenance}</td>
-                <td>{s.licence}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-        <p className="small">
-          Built by {manifest.tool.name} {manifest.tool.version} on {manifest.createdAt.slice(0, 10)}.
-        </p>
-        <p className="report-caution small">
-          {SCREENING_CAUTION} {GROUND_CAUTIONS.join(' ')}
-        </p>
-      </section>
+      <SourcesPage manifest={manifest} />
     </div>
   );
   return createPortal(overlay, document.body);
+}
+
+/** The cover: scenario, units, cautions, the map of the sites and the comparison table. */
+function CoverPage(props: {
+  manifest: Manifest;
+  items: readonly ShortlistItem[];
+  land: FeatureCollection | null;
+  units: UnitSystem;
+}) {
+  const { manifest, items, units } = props;
+  const scenario = (manifest.scenario as { name?: string; description?: string } | undefined) ?? {};
+  const printed = new Date().toISOString().slice(0, 10);
+  return (
+    <section className="report-page" data-testid="report-page">
+      <h1>Shortlist report · {manifest.region.name}</h1>
+      <p className="small">
+        {items.length} site(s) · scenario: {scenario.name ?? 'the build’s default scenario'} · units:{' '}
+        {units === 'SI' ? 'SI' : 'North American'} · printed {printed}
+      </p>
+      <div className="report-caution" data-testid="report-cautions">
+        <strong>{SCREENING_CAUTION}</strong>
+        <ul>
+          {GROUND_CAUTIONS.map((c) => (
+            <li key={c}>{c}</li>
+          ))}
+        </ul>
+        {manifest.fictional ? <p>{manifest.notice}</p> : null}
+      </div>
+      <SiteMap bounds={manifest.region.bounds} land={props.land} sites={items} />
+      <h2>Comparison</h2>
+      <ComparisonTable bands={manifest.bands} items={items} units={units} />
+    </section>
+  );
+}
+
+/** The sites side by side: headline figures, and the study's where any site was studied. */
+function ComparisonTable(props: { bands: Band[]; items: readonly ShortlistItem[]; units: UnitSystem }) {
+  const { bands, items, units } = props;
+  const headline = HEADLINE_BAND_IDS.flatMap((id) => bands.filter((b) => b.id === id));
+  const studied = items.some((i) => i.metrics.studyThawDelay_yr !== undefined);
+  return (
+    <table className="report-table" data-testid="report-comparison">
+      <thead>
+        <tr>
+          <th>#</th>
+          <th>Site</th>
+          <th>Position</th>
+          {headline.map((b) => (
+            <th key={b.id}>{displayTitle(b.title, b.unit, units)}</th>
+          ))}
+          {studied ? <th>Site study: thaw delay at the first probe</th> : null}
+          {studied ? <th>Site study: lowest fluid temperature</th> : null}
+        </tr>
+      </thead>
+      <tbody>
+        {items.map((item, i) => (
+          <tr key={item.id}>
+            <td>{i + 1}</td>
+            <td>{item.name}</td>
+            <td>{formatLonLat(item.lon, item.lat, 3)}</td>
+            {headline.map((b) => (
+              <td key={b.id}>{siteValue(item, b, units)}</td>
+            ))}
+            {studied ? <td>{studyDelay(item, units)}</td> : null}
+            {studied ? <td>{studyNumber(item.metrics.studyLowestFluid_C, '°C', units)}</td> : null}
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** One page per site: every screening value. */
+function SiteSheet(props: { item: ShortlistItem; number: number; bands: Band[]; units: UnitSystem }) {
+  const { item, units } = props;
+  return (
+    <section className="report-page" data-testid="report-page">
+      <h2>
+        Site {props.number}: {item.name}
+      </h2>
+      <p className="small">
+        {formatLonLat(item.lon, item.lat, 4)}
+        {item.note ? ` · ${item.note}` : ''}
+      </p>
+      <table className="report-table two-col" data-testid="report-site-sheet">
+        <tbody>
+          {props.bands.map((b) => (
+            <tr key={b.id}>
+              <th scope="row">{displayTitle(b.title, b.unit, units)}</th>
+              <td>{siteValue(item, b, units)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="small report-caution">{SCREENING_CAUTION}</p>
+    </section>
+  );
+}
+
+function SourcesPage({ manifest }: { manifest: Manifest }) {
+  return (
+    <section className="report-page" data-testid="report-page">
+      <h2>Sources</h2>
+      <table className="report-table" data-testid="report-sources">
+        <thead>
+          <tr>
+            <th>Input</th>
+            <th>Provenance</th>
+            <th>Licence</th>
+          </tr>
+        </thead>
+        <tbody>
+          {manifest.sources.map((s) => (
+            <tr key={s.file}>
+              <td>{s.file}</td>
+              <td>{s.provenance}</td>
+              <td>{s.licence}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="small">
+        Built by {manifest.tool.name} {manifest.tool.version} on {manifest.createdAt.slice(0, 10)}.
+      </p>
+      <p className="report-caution small">
+        {SCREENING_CAUTION} {GROUND_CAUTIONS.join(' ')}
+      </p>
+    </section>
+  );
 }
 
 function studyNumber(v: number | string | null | undefined, unit: string, units: UnitSystem): string {

@@ -28,22 +28,11 @@ type EnsembleState =
   | { kind: 'done'; summary: SiteEnsembleSummary; seconds: number; workers: number }
   | { kind: 'error'; message: string };
 
-export function SiteEnsemblePanel(props: {
-  outcome: SiteRunOutcome;
-  scenario: Scenario;
-  units: UnitSystem;
-  freezingPoint_C: number;
-}) {
-  const { outcome, scenario, units } = props;
+/** The ensemble run of one site run's inputs: start, progress, cancel (also when the panel closes). */
+function useSiteEnsemble(outcome: SiteRunOutcome, scenario: Scenario) {
   const [state, setState] = useState<EnsembleState>({ kind: 'idle' });
   const handle = useRef<SiteEnsembleHandle | null>(null);
   useEffect(() => () => handle.current?.cancel(), []);
-  const depth = displayConversion('m', units);
-  const probe = outcome.input.probes[0];
-  const where = probe
-    ? `${(probe.r_m * depth.factor).toFixed(1)} ${depth.unit} from the pile axis, ${(probe.z_m * depth.factor).toFixed(1)} ${depth.unit} deep`
-    : 'the first probe';
-
   const start = () => {
     const u = scenarioUncertaintySchema.parse(scenario.uncertainty ?? {});
     const keep = Math.max(1, outcome.column.firstProbe);
@@ -75,8 +64,22 @@ export function SiteEnsemblePanel(props: {
       },
     );
   };
+  return { state, start, cancel: () => handle.current?.cancel() };
+}
 
-  const yr = (v: number) => (Number.isFinite(v) ? `${formatNumber(v, 3)} yr` : 'not defined');
+export function SiteEnsemblePanel(props: {
+  outcome: SiteRunOutcome;
+  scenario: Scenario;
+  units: UnitSystem;
+  freezingPoint_C: number;
+}) {
+  const { outcome, scenario, units } = props;
+  const { state, start, cancel } = useSiteEnsemble(outcome, scenario);
+  const depth = displayConversion('m', units);
+  const probe = outcome.input.probes[0];
+  const where = probe
+    ? `${(probe.r_m * depth.factor).toFixed(1)} ${depth.unit} from the pile axis, ${(probe.z_m * depth.factor).toFixed(1)} ${depth.unit} deep`
+    : 'the first probe';
   return (
     <section
       className="site-ensemble"
@@ -92,7 +95,7 @@ export function SiteEnsemblePanel(props: {
       {state.kind === 'running' ? (
         <div role="status" data-testid="ensemble-progress">
           <progress value={state.done} max={state.total} /> {state.done} of {state.total} members{' '}
-          <button type="button" onClick={() => handle.current?.cancel()} data-testid="ensemble-cancel">
+          <button type="button" onClick={cancel} data-testid="ensemble-cancel">
             Cancel
           </button>
         </div>
@@ -107,46 +110,62 @@ export function SiteEnsemblePanel(props: {
         </p>
       ) : null}
       {state.kind === 'done' ? (
-        <div data-testid="ensemble-result">
-          <p className="small" data-testid="ensemble-timing">
-            {state.summary.members} members in {state.seconds.toFixed(1)} s on {state.workers} worker
-            {state.workers === 1 ? '' : 's'}.
-          </p>
-          <ProbeFanChart
-            summary={state.summary}
-            where={where}
-            freezingPoint_C={props.freezingPoint_C}
-            units={units}
-          />
-          <p data-testid="ensemble-thaw-delay">
-            <strong>Thaw delay at the probe:</strong>{' '}
-            {state.summary.thawDelay.defined > 0
-              ? `P10 ${yr(state.summary.thawDelay.p10)}, P50 ${yr(state.summary.thawDelay.p50)}, P90 ${yr(state.summary.thawDelay.p90)} (defined in ${state.summary.thawDelay.defined} of ${state.summary.members} members; elsewhere the probe does not thaw within the run)`
-              : `the probe does not thaw within the run in any of the ${state.summary.members} members`}
-          </p>
-          <table className="values" data-testid="ensemble-sensitivity">
-            <caption className="small">
-              What drives the spread of the probe temperature at the end of the run: first-order indices
-              (squared standardised regression coefficients, Saltelli et al. 2008); the linear fit explains{' '}
-              {formatNumber(100 * state.summary.rSquared, 2)} % of the spread.
-            </caption>
-            <thead>
-              <tr>
-                <th scope="col">Input</th>
-                <th scope="col">Share of the spread</th>
-              </tr>
-            </thead>
-            <tbody>
-              {state.summary.sensitivity.map((s) => (
-                <tr key={s.id}>
-                  <th scope="row">{s.title}</th>
-                  <td>{Math.round(100 * s.index)} %</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <EnsembleResult {...state} where={where} freezingPoint_C={props.freezingPoint_C} units={units} />
       ) : null}
     </section>
+  );
+}
+
+/** The ensemble's fan chart, thaw-delay range and sensitivity table. */
+function EnsembleResult(props: {
+  summary: SiteEnsembleSummary;
+  seconds: number;
+  workers: number;
+  where: string;
+  freezingPoint_C: number;
+  units: UnitSystem;
+}) {
+  const { summary, workers } = props;
+  const yr = (v: number) => (Number.isFinite(v) ? `${formatNumber(v, 3)} yr` : 'not defined');
+  return (
+    <div data-testid="ensemble-result">
+      <p className="small" data-testid="ensemble-timing">
+        {summary.members} members in {props.seconds.toFixed(1)} s on {workers} worker
+        {workers === 1 ? '' : 's'}.
+      </p>
+      <ProbeFanChart
+        summary={summary}
+        where={props.where}
+        freezingPoint_C={props.freezingPoint_C}
+        units={props.units}
+      />
+      <p data-testid="ensemble-thaw-delay">
+        <strong>Thaw delay at the probe:</strong>{' '}
+        {summary.thawDelay.defined > 0
+          ? `P10 ${yr(summary.thawDelay.p10)}, P50 ${yr(summary.thawDelay.p50)}, P90 ${yr(summary.thawDelay.p90)} (defined in ${summary.thawDelay.defined} of ${summary.members} members; elsewhere the probe does not thaw within the run)`
+          : `the probe does not thaw within the run in any of the ${summary.members} members`}
+      </p>
+      <table className="values" data-testid="ensemble-sensitivity">
+        <caption className="small">
+          What drives the spread of the probe temperature at the end of the run: first-order indices (squared
+          standardised regression coefficients, Saltelli et al. 2008); the linear fit explains{' '}
+          {formatNumber(100 * summary.rSquared, 2)} % of the spread.
+        </caption>
+        <thead>
+          <tr>
+            <th scope="col">Input</th>
+            <th scope="col">Share of the spread</th>
+          </tr>
+        </thead>
+        <tbody>
+          {summary.sensitivity.map((s) => (
+            <tr key={s.id}>
+              <th scope="row">{s.title}</th>
+              <td>{Math.round(100 * s.index)} %</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
   );
 }
