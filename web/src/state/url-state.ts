@@ -72,6 +72,15 @@ export interface UrlBands {
   title?: (id: string) => string;
 }
 
+/** One read of a query string: the parameters, the state being filled, the problems met so far. */
+interface UrlRead {
+  get(key: string): string | null;
+  state: ViewState;
+  problems: string[];
+  known: ReadonlySet<string>;
+  title(id: string): string;
+}
+
 /**
  * Parse a query string against the defaults and the known band ids. Returns the state (every part
  * that could be read, defaults for the rest) and one plain-words problem per part that could not.
@@ -82,13 +91,27 @@ export function parseUrlState(
   bandIds: readonly string[] | UrlBands,
 ): { state: ViewState; problems: string[] } {
   const bands: UrlBands = Array.isArray(bandIds) ? { ids: bandIds } : (bandIds as UrlBands);
-  const known = new Set(bands.ids);
-  const title = (id: string) => bands.title?.(id) ?? id;
   const params = new URLSearchParams(search);
-  const problems: string[] = [];
-  const state: ViewState = { ...defaults, filter: { ranges: [], excluded: [] } };
-  const get = (k: string) => params.get(k);
+  const read: UrlRead = {
+    get: (k) => params.get(k),
+    state: { ...defaults, filter: { ranges: [], excluded: [] } },
+    problems: [],
+    known: new Set(bands.ids),
+    title: (id) => bands.title?.(id) ?? id,
+  };
+  // In the order of the format above, so that the problems are listed in it too.
+  readView(read);
+  readDisplay(read);
+  readRangeFilters(read);
+  readClassFilters(read);
+  readBoundary(read);
+  readSelection(read);
+  readSort(read);
+  return { state: read.state, problems: read.problems };
+}
 
+/** c (centre) and z (zoom). */
+function readView({ get, state, problems }: UrlRead): void {
   const c = get('c');
   if (c !== null) {
     const p = parseLonLat(c);
@@ -104,6 +127,10 @@ export function parseUrlState(
     if (v !== null && v >= 0 && v <= 22) state.zoom = v;
     else problems.push(`the zoom ${quote(z)} should be a number from 0 to 22`);
   }
+}
+
+/** layer, units and opacity. */
+function readDisplay({ get, state, problems, known }: UrlRead): void {
   const layer = get('layer');
   if (layer !== null) {
     if (known.has(layer)) state.layer = layer;
@@ -120,65 +147,74 @@ export function parseUrlState(
     if (v !== null && v >= 0 && v <= 1) state.opacity = v;
     else problems.push(`the opacity ${quote(opacity)} should be a number from 0 to 1`);
   }
+}
+
+/** f: range filters, each read on its own. */
+function readRangeFilters({ get, state, problems, known, title }: UrlRead): void {
   const f = get('f');
-  if (f) {
-    for (const part of f.split(';')) {
-      const [id, lo, hi, ...rest] = part.split(':');
-      const min = lo === '' || lo === undefined ? undefined : parseNumber(lo);
-      const max = hi === '' || hi === undefined ? undefined : parseNumber(hi);
-      if (!BAND_ID.test(id ?? '') || rest.length > 0 || min === null || max === null)
-        problems.push(`the filter ${quote(part)} should read layer:minimum:maximum with numbers`);
-      else if (!known.has(id))
-        problems.push(`the filter on ${quote(id)} names a layer not in this map's data`);
-      else if (min !== undefined && max !== undefined && min > max)
-        problems.push(`the filter on ${title(id)} has its minimum ${min} above its maximum ${max}`);
-      else state.filter.ranges.push({ bandId: id, min, max });
-    }
+  if (!f) return;
+  for (const part of f.split(';')) {
+    const [id, lo, hi, ...rest] = part.split(':');
+    const min = lo === '' || lo === undefined ? undefined : parseNumber(lo);
+    const max = hi === '' || hi === undefined ? undefined : parseNumber(hi);
+    if (!BAND_ID.test(id ?? '') || rest.length > 0 || min === null || max === null)
+      problems.push(`the filter ${quote(part)} should read layer:minimum:maximum with numbers`);
+    else if (!known.has(id)) problems.push(`the filter on ${quote(id)} names a layer not in this map's data`);
+    else if (min !== undefined && max !== undefined && min > max)
+      problems.push(`the filter on ${title(id)} has its minimum ${min} above its maximum ${max}`);
+    else state.filter.ranges.push({ bandId: id, min, max });
   }
+}
+
+/** x: excluded classes, each band read on its own. */
+function readClassFilters({ get, state, problems, known }: UrlRead): void {
   const x = get('x');
-  if (x) {
-    for (const part of x.split(';')) {
-      const [id, list, ...rest] = part.split(':');
-      const values = (list ?? '').split(',').map(parseNumber);
-      if (
-        !BAND_ID.test(id ?? '') ||
-        rest.length > 0 ||
-        values.some((v) => v === null || !Number.isInteger(v))
-      )
-        problems.push(`the class filter ${quote(part)} should read layer:class,class with whole numbers`);
-      else if (!known.has(id))
-        problems.push(`the class filter on ${quote(id)} names a layer not in this map's data`);
-      else state.filter.excluded.push({ bandId: id, values: values as number[] });
-    }
+  if (!x) return;
+  for (const part of x.split(';')) {
+    const [id, list, ...rest] = part.split(':');
+    const values = (list ?? '').split(',').map(parseNumber);
+    if (!BAND_ID.test(id ?? '') || rest.length > 0 || values.some((v) => v === null || !Number.isInteger(v)))
+      problems.push(`the class filter ${quote(part)} should read layer:class,class with whole numbers`);
+    else if (!known.has(id))
+      problems.push(`the class filter on ${quote(id)} names a layer not in this map's data`);
+    else state.filter.excluded.push({ bandId: id, values: values as number[] });
   }
+}
+
+/** b and bn: the boundary and its name. */
+function readBoundary({ get, state, problems }: UrlRead): void {
   const b = get('b');
-  if (b) {
-    const polygons = decodeBoundary(b);
-    if (polygons) state.boundary = { name: get('bn') || 'the linked boundary', polygons };
-    else
-      problems.push(
-        'the boundary in the link is damaged (it may have been cut short when the link was copied)',
-      );
-  }
+  if (!b) return;
+  const polygons = decodeBoundary(b);
+  if (polygons) state.boundary = { name: get('bn') || 'the linked boundary', polygons };
+  else
+    problems.push(
+      'the boundary in the link is damaged (it may have been cut short when the link was copied)',
+    );
+}
+
+/** sel: the selected place. */
+function readSelection({ get, state, problems }: UrlRead): void {
   const sel = get('sel');
-  if (sel !== null) {
-    const p = parseLonLat(sel);
-    if (p) state.selection = p;
-    else problems.push(`the selected place ${quote(sel)} should be longitude,latitude in degrees`);
-  }
+  if (sel === null) return;
+  const p = parseLonLat(sel);
+  if (p) state.selection = p;
+  else problems.push(`the selected place ${quote(sel)} should be longitude,latitude in degrees`);
+}
+
+/** sort: the shortlist's sort key and direction. */
+function readSort({ get, state, problems, known }: UrlRead): void {
   const sort = get('sort');
-  if (sort !== null) {
-    const i = sort.lastIndexOf(':');
-    const key = i < 0 ? sort : sort.slice(0, i);
-    const dir = i < 0 ? 'asc' : sort.slice(i + 1);
-    const keyOk = key === 'addedAt' || key === 'name' || (key.startsWith('band:') && known.has(key.slice(5)));
-    if (keyOk && (dir === 'asc' || dir === 'desc')) state.sort = { key, direction: dir };
-    else
-      problems.push(
-        `the shortlist sort ${quote(sort)} should be date added, name or a layer of this map's data, then ascending or descending`,
-      );
-  }
-  return { state, problems };
+  if (sort === null) return;
+  const i = sort.lastIndexOf(':');
+  const key = i < 0 ? sort : sort.slice(0, i);
+  const dir = i < 0 ? 'asc' : sort.slice(i + 1);
+  const keyOk = key === 'addedAt' || key === 'name' || (key.startsWith('band:') && known.has(key.slice(5)));
+  if (keyOk && (dir === 'asc' || dir === 'desc')) state.sort = { key, direction: dir };
+  else
+    problems.push(
+      `the shortlist sort ${quote(sort)} should be date added, name or a layer of this map's data, then ascending or descending`,
+    );
 }
 
 function decodeBoundary(b: string): LonLat[][][] | null {

@@ -46,10 +46,9 @@ export function ChartFrame(props: ChartFrameProps) {
   const y = linearScale(props.yDomain, props.yDown ? [m.top, height - m.bottom] : [height - m.bottom, m.top]);
   const xt = props.xTicks ?? niceTicks(props.xDomain[0], props.xDomain[1], 6);
   const yt = niceTicks(props.yDomain[0], props.yDomain[1], 5);
-  const xl = props.xTickLabel ?? fmt;
-  const yl = props.yTickLabel ?? fmt;
   const titleId = `${props.testId ?? props.title}-title`.replace(/\W+/g, '-');
   const clipId = `clip${useId().replace(/\W+/g, '')}`;
+  const plot: PlotArea = { width, height, x, y, xt, yt };
   return (
     <figure className="site-chart" data-testid={props.testId}>
       <figcaption id={titleId}>{props.title}</figcaption>
@@ -79,54 +78,90 @@ export function ChartFrame(props: ChartFrameProps) {
         <g className="plot" clipPath={`url(#${clipId})`}>
           {props.children(x, y)}
         </g>
-        <g className="axis">
-          <line x1={m.left} x2={m.left} y1={m.top} y2={height - m.bottom} />
-          <line x1={m.left} x2={width - m.right} y1={height - m.bottom} y2={height - m.bottom} />
-          {yt.map((v) => (
-            <text key={`ty${v}`} x={m.left - 5} y={y(v) + 4} textAnchor="end">
-              {yl(v)}
-            </text>
-          ))}
-          {xt.map((v) => (
-            <text key={`tx${v}`} x={x(v)} y={height - m.bottom + 15} textAnchor="middle">
-              {xl(v)}
-            </text>
-          ))}
-          <text className="axis-label" x={(m.left + width - m.right) / 2} y={height - 6} textAnchor="middle">
-            {props.xLabel}
-          </text>
-          <text
-            className="axis-label"
-            transform={`translate(13 ${(m.top + height - m.bottom) / 2}) rotate(-90)`}
-            textAnchor="middle"
-          >
-            {props.yLabel}
-          </text>
-        </g>
+        <ChartAxes
+          plot={plot}
+          xLabel={props.xLabel}
+          yLabel={props.yLabel}
+          xTickLabel={props.xTickLabel ?? fmt}
+          yTickLabel={props.yTickLabel ?? fmt}
+        />
       </svg>
-      <ul className="chart-legend">
-        {props.legend.map((e) => (
-          <li key={e.label}>
-            <svg width="22" height="10" aria-hidden="true">
-              {e.kind === 'box' ? (
-                <rect x="2" y="1" width="18" height="8" fill={e.colour} />
-              ) : (
-                <line
-                  x1="1"
-                  x2="21"
-                  y1="5"
-                  y2="5"
-                  stroke={e.colour}
-                  strokeWidth="2.5"
-                  strokeDasharray={e.dash}
-                />
-              )}
-            </svg>
-            {e.label}
-          </li>
-        ))}
-      </ul>
+      <ChartLegend entries={props.legend} />
     </figure>
+  );
+}
+
+/** The frame's size, scales and ticks, as the axes draw them. */
+interface PlotArea {
+  width: number;
+  height: number;
+  x: LinearScale;
+  y: LinearScale;
+  xt: number[];
+  yt: number[];
+}
+
+function ChartAxes(props: {
+  plot: PlotArea;
+  xLabel: string;
+  yLabel: string;
+  xTickLabel: (v: number) => string;
+  yTickLabel: (v: number) => string;
+}) {
+  const { width, height, x, y, xt, yt } = props.plot;
+  const m = CHART_MARGIN;
+  return (
+    <g className="axis">
+      <line x1={m.left} x2={m.left} y1={m.top} y2={height - m.bottom} />
+      <line x1={m.left} x2={width - m.right} y1={height - m.bottom} y2={height - m.bottom} />
+      {yt.map((v) => (
+        <text key={`ty${v}`} x={m.left - 5} y={y(v) + 4} textAnchor="end">
+          {props.yTickLabel(v)}
+        </text>
+      ))}
+      {xt.map((v) => (
+        <text key={`tx${v}`} x={x(v)} y={height - m.bottom + 15} textAnchor="middle">
+          {props.xTickLabel(v)}
+        </text>
+      ))}
+      <text className="axis-label" x={(m.left + width - m.right) / 2} y={height - 6} textAnchor="middle">
+        {props.xLabel}
+      </text>
+      <text
+        className="axis-label"
+        transform={`translate(13 ${(m.top + height - m.bottom) / 2}) rotate(-90)`}
+        textAnchor="middle"
+      >
+        {props.yLabel}
+      </text>
+    </g>
+  );
+}
+
+function ChartLegend({ entries }: { entries: LegendEntry[] }) {
+  return (
+    <ul className="chart-legend">
+      {entries.map((e) => (
+        <li key={e.label}>
+          <svg width="22" height="10" aria-hidden="true">
+            {e.kind === 'box' ? (
+              <rect x="2" y="1" width="18" height="8" fill={e.colour} />
+            ) : (
+              <line
+                x1="1"
+                x2="21"
+                y1="5"
+                y2="5"
+                stroke={e.colour}
+                strokeWidth="2.5"
+                strokeDasharray={e.dash}
+              />
+            )}
+          </svg>
+          {e.label}
+        </li>
+      ))}
+    </ul>
   );
 }
 

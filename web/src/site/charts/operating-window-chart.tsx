@@ -4,6 +4,7 @@
  * upper bound the fluid reaches the heat pump's limit or the soil is over-cooled (quick estimate,
  * layers/screening/operating-window.ts). The simulated run's mean extraction is marked on it.
  */
+import type { ReactNode } from 'react';
 import { displayConversion, type UnitSystem } from '../../units/display-units';
 import type { StudyWindow, WindowZone } from '../../../../layers/screening/study-window';
 import { CHART_COLOURS as C } from './chart-colours';
@@ -33,6 +34,12 @@ export function windowChartData(w: StudyWindow) {
   return { zones: w.zones, hi, marker: w.simulated_W_m, markerZone, full: w.full_W_m };
 }
 
+const WIDTH = 520;
+const HEIGHT = 150;
+/** Top and height of the band of zones. */
+const BAND_Y = 38;
+const BAND_H = 34;
+
 export function OperatingWindowChart(props: { window: StudyWindow; units: UnitSystem }) {
   const conv = displayConversion('W/m', props.units);
   const V = (v: number) => v * conv.factor;
@@ -42,16 +49,12 @@ export function OperatingWindowChart(props: { window: StudyWindow; units: UnitSy
   const lower = w.lower_W_m;
   const sim = data.marker;
   const hi = data.hi;
-  const width = 520;
-  const height = 150;
-  const x = linearScale([0, V(hi)], [20, width - 20]);
+  const x = linearScale([0, V(hi)], [20, WIDTH - 20]);
   const ticks = niceTicks(0, V(hi), 6);
-  const bandY = 38;
-  const bandH = 34;
   return (
     <figure className="site-chart" data-testid="chart-window" data-marker-zone={data.markerZone ?? ''}>
       <figcaption id="window-title">Operating window: heat taken per metre of pile (annual mean)</figcaption>
-      <svg viewBox={`0 0 ${width} ${height}`} role="img" aria-labelledby="window-title">
+      <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} role="img" aria-labelledby="window-title">
         <desc>
           Too little below {V(lower).toFixed(1)} {conv.unit} (the ground at the foundation thaws within the
           design life); too much above {V(upper).toFixed(1)} {conv.unit} ({w.upperLimit}).
@@ -60,80 +63,117 @@ export function OperatingWindowChart(props: { window: StudyWindow; units: UnitSy
           <rect
             key={z.zone}
             x={x(V(z.from_W_m))}
-            y={bandY}
+            y={BAND_Y}
             width={Math.max(0, x(V(z.to_W_m)) - x(V(z.from_W_m)))}
-            height={bandH}
+            height={BAND_H}
             fill={FILL[z.zone]}
           />
         ))}
-        <text x={x(V(lower / 2))} y={bandY - 6} textAnchor="middle" className="band-label">
-          {lower > 0 ? 'too little: ground thaws' : ''}
-        </text>
-        {upper > lower ? (
-          <text
-            x={x(V((lower + upper) / 2))}
-            y={bandY + bandH / 2 + 4}
-            textAnchor="middle"
-            className="band-label"
-          >
-            window
-          </text>
-        ) : (
-          <text x={x(V(lower))} y={bandY + bandH / 2 + 4} textAnchor="middle" className="band-label">
-            no window
-          </text>
-        )}
-        <text
-          x={x(V((Math.max(upper, lower) + hi) / 2))}
-          y={bandY - 6}
-          textAnchor="middle"
-          className="band-label"
-        >
-          too much: {w.upperLimit}
-        </text>
+        <ZoneLabels at={(v) => x(V(v))} lower={lower} upper={upper} hi={hi} upperLimit={w.upperLimit} />
         {sim !== null && Number.isFinite(sim) ? (
           <g data-testid="window-simulated">
-            <line
-              x1={x(V(sim))}
-              x2={x(V(sim))}
-              y1={bandY - 2}
-              y2={bandY + bandH + 2}
-              stroke={C.withPile}
+            <ExtractionMarker
+              at={x(V(sim))}
+              colour={C.withPile}
               strokeWidth="3"
-            />
-            <text x={x(V(sim))} y={bandY + bandH + 16} textAnchor="middle" className="marker-label">
+              labelY={BAND_Y + BAND_H + 16}
+            >
               this run {V(sim).toFixed(1)}
-            </text>
+            </ExtractionMarker>
           </g>
         ) : null}
         {data.full ? (
           <g>
-            <line
-              x1={x(V(data.full))}
-              x2={x(V(data.full))}
-              y1={bandY - 2}
-              y2={bandY + bandH + 2}
-              stroke={C.quick}
+            <ExtractionMarker
+              at={x(V(data.full))}
+              colour={C.quick}
               strokeWidth="1.5"
-              strokeDasharray="3 2"
-            />
-            <text x={x(V(data.full))} y={bandY + bandH + 30} textAnchor="middle" className="marker-label">
+              dash="3 2"
+              labelY={BAND_Y + BAND_H + 30}
+            >
               full load {V(data.full).toFixed(1)}
-            </text>
+            </ExtractionMarker>
           </g>
         ) : null}
         <g className="axis">
-          <line x1={x(0)} x2={x(V(hi))} y1={height - 32} y2={height - 32} />
+          <line x1={x(0)} x2={x(V(hi))} y1={HEIGHT - 32} y2={HEIGHT - 32} />
           {ticks.map((t) => (
-            <text key={t} x={x(t)} y={height - 18} textAnchor="middle">
+            <text key={t} x={x(t)} y={HEIGHT - 18} textAnchor="middle">
               {t}
             </text>
           ))}
-          <text className="axis-label" x={width / 2} y={height - 3} textAnchor="middle">
+          <text className="axis-label" x={WIDTH / 2} y={HEIGHT - 3} textAnchor="middle">
             heat taken from the ground ({conv.unit} of active pile, annual mean)
           </text>
         </g>
       </svg>
     </figure>
+  );
+}
+
+/** The zones' names over (or in) the band; `at` maps W/m (SI) to the chart's x. */
+function ZoneLabels(props: {
+  at: (v_W_m: number) => number;
+  lower: number;
+  upper: number;
+  hi: number;
+  upperLimit: string;
+}) {
+  const { at, lower, upper, hi } = props;
+  return (
+    <>
+      <text x={at(lower / 2)} y={BAND_Y - 6} textAnchor="middle" className="band-label">
+        {lower > 0 ? 'too little: ground thaws' : ''}
+      </text>
+      {upper > lower ? (
+        <text
+          x={at((lower + upper) / 2)}
+          y={BAND_Y + BAND_H / 2 + 4}
+          textAnchor="middle"
+          className="band-label"
+        >
+          window
+        </text>
+      ) : (
+        <text x={at(lower)} y={BAND_Y + BAND_H / 2 + 4} textAnchor="middle" className="band-label">
+          no window
+        </text>
+      )}
+      <text
+        x={at((Math.max(upper, lower) + hi) / 2)}
+        y={BAND_Y - 6}
+        textAnchor="middle"
+        className="band-label"
+      >
+        too much: {props.upperLimit}
+      </text>
+    </>
+  );
+}
+
+/** A vertical mark across the band at one extraction, labelled below it. */
+function ExtractionMarker(props: {
+  at: number;
+  colour: string;
+  strokeWidth: string;
+  dash?: string;
+  labelY: number;
+  children: ReactNode;
+}) {
+  return (
+    <>
+      <line
+        x1={props.at}
+        x2={props.at}
+        y1={BAND_Y - 2}
+        y2={BAND_Y + BAND_H + 2}
+        stroke={props.colour}
+        strokeWidth={props.strokeWidth}
+        strokeDasharray={props.dash}
+      />
+      <text x={props.at} y={props.labelY} textAnchor="middle" className="marker-label">
+        {props.children}
+      </text>
+    </>
   );
 }
