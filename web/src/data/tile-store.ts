@@ -24,6 +24,49 @@ export interface TileStore {
 
 const PLANE_BYTES = TILE_SIZE * TILE_SIZE * 2;
 
+function tileUrl(manifest: Manifest, dataBase: URL, z: number, x: number, y: number): string {
+  return new URL(
+    manifest.tiles.urlTemplate.replace('{z}', String(z)).replace('{x}', String(x)).replace('{y}', String(y)),
+    dataBase,
+  ).href;
+}
+
+/** A whole tile, every band decoded (null: absent). */
+async function fetchTile(
+  href: string,
+  key: string,
+  quant: BandQuantisation[],
+): Promise<Float32Array[] | null> {
+  const res = await fetch(href);
+  if (res.status === 404) return null;
+  if (!res.ok) throw new Error(`tile ${key}: HTTP ${res.status}`);
+  return unpackTile(await res.arrayBuffer(), quant);
+}
+
+/**
+ * One band of a tile, read with an HTTP Range request of its byte slice (null: absent). A server that
+ * ignores Range sends the whole tile (200): it is handed to `keepWhole` and its band returned.
+ */
+async function fetchBand(
+  href: string,
+  key: string,
+  b: number,
+  quant: BandQuantisation[],
+  keepWhole: (planes: Float32Array[]) => void,
+): Promise<Float32Array | null> {
+  const start = b * PLANE_BYTES;
+  const res = await fetch(href, { headers: { Range: `bytes=${start}-${start + PLANE_BYTES - 1}` } });
+  if (res.status === 404) return null;
+  if (res.status === 200) {
+    // The server sent the whole tile: keep it whole.
+    const planes = unpackTile(await res.arrayBuffer(), quant);
+    keepWhole(planes);
+    return planes[b];
+  }
+  if (res.status !== 206) throw new Error(`tile ${key} band ${b}: HTTP ${res.status}`);
+  return unpackTile(await res.arrayBuffer(), [quant[b]])[0];
+}
+
 export function createTileStore(manifest: Manifest, dataBase: URL): TileStore {
   const quant: BandQuantisation[] = manifest.bands.map((b) => ({ scale: b.scale, offset: b.offset }));
   const emptyPlane = new Float32Array(TILE_SIZE * TILE_SIZE).fill(NaN);
@@ -32,26 +75,14 @@ export function createTileStore(manifest: Manifest, dataBase: URL): TileStore {
   /** Per tile key: band index -> decoded plane (or null: tile absent). */
   const bandDone = new Map<string, Map<number, Float32Array | null>>();
   const bandPending = new Map<string, Promise<Float32Array | null>>();
-  const url = (z: number, x: number, y: number) =>
-    new URL(
-      manifest.tiles.urlTemplate
-        .replace('{z}', String(z))
-        .replace('{x}', String(x))
-        .replace('{y}', String(y)),
-      dataBase,
-    ).href;
+  const url = (z: number, x: number, y: number) => tileUrl(manifest, dataBase, z, x, y);
 
   function get(z: number, x: number, y: number): Promise<Float32Array[] | null> {
     const key = `${z}/${x}/${y}`;
     if (done.has(key)) return Promise.resolve(done.get(key) ?? null);
     const inflight = pending.get(key);
     if (inflight) return inflight;
-    const p = fetch(url(z, x, y))
-      .then(async (res) => {
-        if (res.status === 404) return null;
-        if (!res.ok) throw new Error(`tile ${key}: HTTP ${res.status}`);
-        return unpackTile(await res.arrayBuffer(), quant);
-      })
+    const p = fetchTile(url(z, x, y), key, quant)
       .then((planes) => {
         done.set(key, planes);
         pending.delete(key);
@@ -72,19 +103,7 @@ export function createTileStore(manifest: Manifest, dataBase: URL): TileStore {
     const pkey = `${key}#${b}`;
     const inflight = bandPending.get(pkey);
     if (inflight) return inflight;
-    const start = b * PLANE_BYTES;
-    const p = fetch(url(z, x, y), { headers: { Range: `bytes=${start}-${start + PLANE_BYTES - 1}` } })
-      .then(async (res): Promise<Float32Array | null> => {
-        if (res.status === 404) return null;
-        if (res.status === 200) {
-          // The server sent the whole tile: keep it whole.
-          const planes = unpackTile(await res.arrayBuffer(), quant);
-          done.set(key, planes);
-          return planes[b];
-        }
-        if (res.status !== 206) throw new Error(`tile ${key} band ${b}: HTTP ${res.status}`);
-        return unpackTile(await res.arrayBuffer(), [quant[b]])[0];
-      })
+    const p = fetchBand(url(z, x, y), key, b, quant, (planes) => done.set(key, planes))
       .then((plane) => {
         const m = bandDone.get(key) ?? new Map<number, Float32Array | null>();
         m.set(b, plane);

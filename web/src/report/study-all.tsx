@@ -20,28 +20,37 @@ type State =
   | { kind: 'running'; index: number; fraction: number }
   | { kind: 'finished'; done: number; failed: string[]; cancelled: boolean };
 
-export function StudyAll(props: { manifest: Manifest; items: readonly ShortlistItem[] }) {
+type StudyScenario = ReturnType<typeof scenarioFromManifest>;
+
+/** A site's study input, prefilled from its screening values with the profile probes, or null when incomplete. */
+function studyInputOf(item: ShortlistItem, manifest: Manifest, scenario: StudyScenario) {
+  const parsed = siteInputSchema.safeParse(sitePrefill(item.values, manifest.scenario).draft);
+  if (!parsed.success) return null;
+  const pileR = parsed.data.pile ? parsed.data.pile.outerDiameter_m / 2 : 0;
+  const r = Math.min(Math.max(scenario.referenceRadius_m, pileR + 0.05), parsed.data.domain.radius_m);
+  return withProfileProbes(parsed.data, r);
+}
+
+/** Studies the sites one after the other; `cancel` stops the running worker and keeps the sites done. */
+function useStudyAll(manifest: Manifest, items: readonly ShortlistItem[]) {
   const [state, setState] = useState<State>({ kind: 'idle' });
   const handle = useRef<SiteRunHandle | null>(null);
   const stop = useRef(false);
-  const items = props.items;
 
   const run = async () => {
     stop.current = false;
-    const scenario = scenarioFromManifest(props.manifest.scenario);
+    const scenario = scenarioFromManifest(manifest.scenario);
     const failed: string[] = [];
     let done = 0;
     for (const [index, item] of items.entries()) {
       if (stop.current) break;
       setState({ kind: 'running', index, fraction: 0 });
-      const parsed = siteInputSchema.safeParse(sitePrefill(item.values, props.manifest.scenario).draft);
-      if (!parsed.success) {
+      const study = studyInputOf(item, manifest, scenario);
+      if (!study) {
         failed.push(`${item.name}: the screening values here do not make a complete site input`);
         continue;
       }
-      const pileR = parsed.data.pile ? parsed.data.pile.outerDiameter_m / 2 : 0;
-      const r = Math.min(Math.max(scenario.referenceRadius_m, pileR + 0.05), parsed.data.domain.radius_m);
-      const { input, column } = withProfileProbes(parsed.data, r);
+      const { input, column } = study;
       let last = 0;
       const h = runSiteInWorker(input, { scenario, column }, (f) => {
         if (f - last >= 0.02) {
@@ -75,7 +84,12 @@ export function StudyAll(props: { manifest: Manifest; items: readonly ShortlistI
     stop.current = true;
     handle.current?.cancel();
   };
+  return { state, run, cancel };
+}
 
+export function StudyAll(props: { manifest: Manifest; items: readonly ShortlistItem[] }) {
+  const items = props.items;
+  const { state, run, cancel } = useStudyAll(props.manifest, items);
   if (items.length === 0) return null;
   return (
     <div className="study-all" data-testid="study-all">

@@ -131,43 +131,16 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
 
 export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; units: UnitSystem }) {
   const { run, derived: d, units } = props;
-  const [probe, setProbe] = useState(0);
   const last = run.input.years;
-  const [heatYear, setHeatYear] = useState(1);
   const profileYears = [...new Set([1, Math.max(1, Math.round(last / 2)), last])];
   const series = profileYears.map((year) => ({
     year,
     noPile: profileAtYear(run.result.noPile, run.column, year),
     withPile: run.result.withPile ? profileAtYear(run.result.withPile, run.column, year) : null,
   }));
-  const probes = d.noPile.probes;
-  const simResult = { ...run.result, noPile: d.noPile, withPile: d.withPile };
   return (
     <div className="site-charts">
-      {probes.length ? (
-        <div className="chart-block">
-          <label className="chart-control">
-            Probe{' '}
-            <select
-              value={probe}
-              onChange={(e) => setProbe(Number(e.target.value))}
-              aria-label="Probe shown in the temperature chart"
-            >
-              {probes.map((p, i) => (
-                <option key={i} value={i}>
-                  {i + 1}: r {p.r_m} m, z {p.z_m} m
-                </option>
-              ))}
-            </select>
-          </label>
-          <ProbeTemperatureChart
-            result={simResult}
-            probe={Math.min(probe, probes.length - 1)}
-            freezingPoint_C={d.freezingAt(probes[Math.min(probe, probes.length - 1)].z_m)}
-            units={units}
-          />
-        </div>
-      ) : null}
+      {d.noPile.probes.length ? <ProbeChartBlock run={run} derived={d} units={units} /> : null}
       {d.window && run.input.pile ? (
         <div className="chart-block">
           <OperatingWindowChart window={d.window} units={units} />
@@ -197,23 +170,7 @@ export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; u
               units={units}
             />
           </div>
-          <div className="chart-block">
-            <label className="chart-control">
-              Year{' '}
-              <select
-                value={heatYear}
-                onChange={(e) => setHeatYear(Number(e.target.value))}
-                aria-label="Year shown in the monthly heat chart"
-              >
-                {Array.from({ length: last }, (_, i) => (
-                  <option key={i} value={i + 1}>
-                    {i + 1}
-                  </option>
-                ))}
-              </select>
-            </label>
-            <MonthlyHeatChart fluid={run.result.fluid} year={Math.min(heatYear, last)} />
-          </div>
+          <MonthlyHeatBlock fluid={run.result.fluid} years={last} />
         </>
       ) : null}
       {d.sizing?.ok ? (
@@ -221,6 +178,64 @@ export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; u
           <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} />
         </div>
       ) : null}
+    </div>
+  );
+}
+
+/** The temperature at one of the planner's probes, chosen in a selector. */
+function ProbeChartBlock(props: { run: SiteRunOutcome; derived: SiteDerived; units: UnitSystem }) {
+  const { run, derived: d } = props;
+  const [probe, setProbe] = useState(0);
+  const probes = d.noPile.probes;
+  const shown = Math.min(probe, probes.length - 1);
+  const simResult = { ...run.result, noPile: d.noPile, withPile: d.withPile };
+  return (
+    <div className="chart-block">
+      <label className="chart-control">
+        Probe{' '}
+        <select
+          value={probe}
+          onChange={(e) => setProbe(Number(e.target.value))}
+          aria-label="Probe shown in the temperature chart"
+        >
+          {probes.map((p, i) => (
+            <option key={i} value={i}>
+              {i + 1}: r {p.r_m} m, z {p.z_m} m
+            </option>
+          ))}
+        </select>
+      </label>
+      <ProbeTemperatureChart
+        result={simResult}
+        probe={shown}
+        freezingPoint_C={d.freezingAt(probes[shown].z_m)}
+        units={props.units}
+      />
+    </div>
+  );
+}
+
+/** Heat by month for one simulated year, chosen in a selector. */
+function MonthlyHeatBlock(props: { fluid: NonNullable<SiteResult['fluid']>; years: number }) {
+  const { fluid, years } = props;
+  const [heatYear, setHeatYear] = useState(1);
+  return (
+    <div className="chart-block">
+      <label className="chart-control">
+        Year{' '}
+        <select
+          value={heatYear}
+          onChange={(e) => setHeatYear(Number(e.target.value))}
+          aria-label="Year shown in the monthly heat chart"
+        >
+          {Array.from({ length: years }, (_, i) => (
+            <option key={i} value={i + 1}>
+              {i + 1}
+            </option>
+          ))}
+        </select>
+      </label>
+      <MonthlyHeatChart fluid={fluid} year={Math.min(heatYear, years)} />
     </div>
   );
 }

@@ -16,6 +16,37 @@ export interface ProfileSeries {
 
 const DASHES = ['', '6 3', '2 3'];
 
+/** A profile point's temperature (°C, SI) at its depth, as chart coordinates. */
+type ToChart = (temperature_C: number, z_m: number) => string;
+
+/** The seasonal range as a closed band: down the minima, back up the maxima. */
+function seasonalBandPath(pts: ProfilePoint[], at: ToChart): string {
+  if (!pts.length) return '';
+  const down = pts.map((p) => at(p.min_C, p.z_m)).join('L');
+  const up = pts
+    .slice()
+    .reverse()
+    .map((p) => at(p.max_C, p.z_m))
+    .join('L');
+  return `M${down}L${up}Z`;
+}
+
+function meanLinePath(pts: ProfilePoint[], at: ToChart): string {
+  return pts.length ? `M${pts.map((p) => at(p.mean_C, p.z_m)).join('L')}` : '';
+}
+
+/** One entry per year and case (without / with the pile, dashed by year), then the freezing point. */
+function profileLegend(series: ProfileSeries[]): LegendEntry[] {
+  const legend: LegendEntry[] = [];
+  series.forEach((s, i) => {
+    legend.push({ label: `year ${s.year}, without pile`, colour: C.noPile, dash: DASHES[i % 3] });
+    if (s.withPile)
+      legend.push({ label: `year ${s.year}, with pile`, colour: C.withPile, dash: DASHES[i % 3] });
+  });
+  legend.push({ label: 'freezing point', colour: C.freezing, dash: '5 3' });
+  return legend;
+}
+
 export function DepthProfileChart(props: {
   series: ProfileSeries[];
   r_m: number;
@@ -37,13 +68,6 @@ export function DepthProfileChart(props: {
   const zMax = Math.max(...all.map((p) => Z(p.z_m)), 1);
   const yDomain: [number, number] = [0, zMax];
   const fp = T(props.freezingPoint_C);
-  const legend: LegendEntry[] = [];
-  props.series.forEach((s, i) => {
-    legend.push({ label: `year ${s.year}, without pile`, colour: C.noPile, dash: DASHES[i % 3] });
-    if (s.withPile)
-      legend.push({ label: `year ${s.year}, with pile`, colour: C.withPile, dash: DASHES[i % 3] });
-  });
-  legend.push({ label: 'freezing point', colour: C.freezing, dash: '5 3' });
   const last = props.series[props.series.length - 1];
   return (
     <ChartFrame
@@ -55,26 +79,17 @@ export function DepthProfileChart(props: {
       yDown
       xLabel={`temperature (${conv.unit}); line = annual mean, band = seasonal range of year ${last?.year ?? ''}`}
       yLabel={`depth (${len.unit})`}
-      legend={legend}
+      legend={profileLegend(props.series)}
       height={300}
     >
       {(x, y) => {
-        const band = (pts: ProfilePoint[]) =>
-          pts.length
-            ? `M${pts.map((p) => `${x(T(p.min_C)).toFixed(1)},${y(Z(p.z_m)).toFixed(1)}`).join('L')}L${pts
-                .slice()
-                .reverse()
-                .map((p) => `${x(T(p.max_C)).toFixed(1)},${y(Z(p.z_m)).toFixed(1)}`)
-                .join('L')}Z`
-            : '';
-        const line = (pts: ProfilePoint[]) =>
-          pts.length
-            ? `M${pts.map((p) => `${x(T(p.mean_C)).toFixed(1)},${y(Z(p.z_m)).toFixed(1)}`).join('L')}`
-            : '';
+        const at: ToChart = (t, z) => `${x(T(t)).toFixed(1)},${y(Z(z)).toFixed(1)}`;
         return (
           <>
-            {last ? <path d={band(last.noPile)} fill={C.noPile} opacity="0.15" /> : null}
-            {last?.withPile ? <path d={band(last.withPile)} fill={C.withPile} opacity="0.15" /> : null}
+            {last ? <path d={seasonalBandPath(last.noPile, at)} fill={C.noPile} opacity="0.15" /> : null}
+            {last?.withPile ? (
+              <path d={seasonalBandPath(last.withPile, at)} fill={C.withPile} opacity="0.15" />
+            ) : null}
             <line
               x1={x(fp)}
               x2={x(fp)}
@@ -87,7 +102,7 @@ export function DepthProfileChart(props: {
             {props.series.map((s, i) => (
               <g key={s.year}>
                 <path
-                  d={line(s.noPile)}
+                  d={meanLinePath(s.noPile, at)}
                   fill="none"
                   stroke={C.noPile}
                   strokeWidth="1.8"
@@ -95,7 +110,7 @@ export function DepthProfileChart(props: {
                 />
                 {s.withPile ? (
                   <path
-                    d={line(s.withPile)}
+                    d={meanLinePath(s.withPile, at)}
                     fill="none"
                     stroke={C.withPile}
                     strokeWidth="1.8"
