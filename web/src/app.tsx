@@ -14,7 +14,7 @@ import { boundaryForLink } from './state/boundary-link';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
 import { defaultSiteName } from './shortlist/site-name';
-import { cellValues } from './panels/cell-panel';
+import { cellValues, type CellSelection } from './panels/cell-panel';
 import { ScreeningCaution } from './panels/caution-notes';
 import { uncertainClassOf } from './panels/ensemble-ranges';
 import { currentScenarioName, currentScenarioSlug, scenarioBase } from './data/scenario-urls';
@@ -106,6 +106,24 @@ function initialState(atlas: Atlas): { state: ViewState; problems: string[]; has
   return { ...parsed, hasView: state.center !== defaults.center && state.zoom !== defaults.zoom };
 }
 
+/** Shortlist the selected place with its cell's values (nothing while its cell is not known). */
+function addToShortlist(
+  atlas: Atlas,
+  table: CellTable | null,
+  selection: CellSelection | null,
+  count: number,
+) {
+  if (!selection || !table || selection.index < 0) return;
+  shortlistStore.add({
+    lon: selection.lon,
+    lat: selection.lat,
+    name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, count + 1),
+    origin: 'map',
+    values: cellValues(table, atlas.manifest.bands, selection.index),
+    metrics: { scenario: currentScenarioName(atlas.manifest) },
+  });
+}
+
 function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (slug: string) => void }) {
   const { manifest } = atlas;
   const init = useMemo(() => initialState(atlas), [atlas]);
@@ -133,18 +151,6 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
   const sketch = useBoundarySketch(zone.finishDrawing);
   const pick = usePointPicker(sketch, setSelection, cellAt);
 
-  const addSelection = () => {
-    if (!selection || !table || selection.index < 0) return;
-    shortlistStore.add({
-      lon: selection.lon,
-      lat: selection.lat,
-      name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, shortlist.length + 1),
-      origin: 'map',
-      values: cellValues(table, manifest.bands, selection.index),
-      metrics: { scenario: currentScenarioName(manifest) },
-    });
-  };
-
   return (
     <div className="app">
       <TopBar
@@ -166,7 +172,7 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
       />
       <PlaceSide
         {...{ atlas, table, selection, choices }}
-        onAdd={addSelection}
+        onAdd={() => addToShortlist(atlas, table, selection, shortlist.length)}
         onClose={() => setSelection(null)}
         onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}
       />
