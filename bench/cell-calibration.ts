@@ -294,7 +294,7 @@ function calibrationInput(
   };
 }
 
-/** Lowest monthly mean fluid (mean of inlet and outlet) over the first `life` years, and its month (−1: none). */
+/** Lowest monthly mean fluid (inlet and outlet mean) in the first `life` years, and its month (−1: none). */
 function lowestFluidMonth(r: ReturnType<typeof simulateSite>, life: number): { lowest: number; at: number } {
   let lowest = Infinity;
   let at = -1;
