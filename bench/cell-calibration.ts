@@ -229,33 +229,21 @@ export function modelSide(cell: CellInputs, s: Scenario): ModelSide {
   };
 }
 
-/** Run one calibration case: the model's one-pile form and the simulator (module comment). */
-export function calibrateCell(
+/**
+ * The simulator's input for one case: the cell's soil and climate, the model's standard pile (coaxial,
+ * the model's resistance) extracting the model's carried load with its monthly profile (module comment).
+ */
+function calibrationInput(
   cell: CellInputs,
-  base: Scenario = DEFAULT_SCENARIO,
-  o: CalibrationOptions = DEFAULT_CALIBRATION_OPTIONS,
-): CalibrationCase {
-  const s = onePileScenario(base);
-  const model = modelSide(cell, s);
-  const none: CalibrationFigures = {
-    groundPile_C: null,
-    activeLayer_m: null,
-    groundEnd_C: null,
-    lowestMeanFluid_C: null,
-    heatAtLimit_W: null,
-    pilesPerTon: null,
-    loadShare: null,
-    noPileThaw_yr: null,
-    pileThaw_yr: null,
-  };
+  s: Scenario,
+  o: CalibrationOptions,
+  model: ModelSide,
+): SiteInputDraft {
   const carried = model.figures.carried_W_m;
-  if (model.excluded || !(carried > 0)) {
-    return { cell, excluded: model.excluded, model: model.figures, sim: { ...none, seconds: 0 } };
-  }
   const H = s.pile.length_m;
   const years = s.climateHorizonYear - s.startYear;
   const midDepth_m = s.pile.topDepth_m + H / 2;
-  const input: SiteInputDraft = {
+  return {
     years,
     timeStep_days: o.timeStep_days,
     outputStep_days: 365 / 12,
@@ -304,18 +292,10 @@ export function calibrateCell(
     domain: { radius_m: o.domainRadius_m, depth_m: 50 },
     numerics: { fidelity: o.fidelity },
   };
-  const t0 = performance.now();
-  const r = simulateSite(input);
-  const seconds = (performance.now() - t0) / 1000;
-  const alongPile = r.noPile.probes.slice(2);
-  const monthMean = (probes: typeof alongPile, i: number) =>
-    probes.reduce((acc, p) => acc + p.T_C[i], 0) / probes.length;
-  const yearMean = (T: number[], y: number) => T.slice(12 * y, 12 * y + 12).reduce((p, q) => p + q, 0) / 12;
-  const groundPile =
-    Array.from({ length: 12 }, (_, i) => monthMean(alongPile, i)).reduce((p, q) => p + q, 0) / 12;
-  const al = r.noPile.annualThawDepth_m;
-  const life = Math.round(s.designLife_yr);
-  // Lowest monthly mean fluid over the design life, and the no-pile ground along the pile that month.
+}
+
+/** Lowest monthly mean fluid (inlet and outlet mean) in the first `life` years, and its month (−1: none). */
+function lowestFluidMonth(r: ReturnType<typeof simulateSite>, life: number): { lowest: number; at: number } {
   let lowest = Infinity;
   let at = -1;
   const fl = r.fluid;
@@ -331,6 +311,29 @@ export function calibrateCell(
       }
     }
   }
+  return { lowest, at };
+}
+
+/** The simulator's side of one case from its run `r` (module comment). */
+function simulatorSide(
+  r: ReturnType<typeof simulateSite>,
+  s: Scenario,
+  model: ModelSide,
+  seconds: number,
+): CalibrationCase['sim'] {
+  const carried = model.figures.carried_W_m;
+  const H = s.pile.length_m;
+  const years = s.climateHorizonYear - s.startYear;
+  const alongPile = r.noPile.probes.slice(2);
+  const monthMean = (probes: typeof alongPile, i: number) =>
+    probes.reduce((acc, p) => acc + p.T_C[i], 0) / probes.length;
+  const yearMean = (T: number[], y: number) => T.slice(12 * y, 12 * y + 12).reduce((p, q) => p + q, 0) / 12;
+  const groundPile =
+    Array.from({ length: 12 }, (_, i) => monthMean(alongPile, i)).reduce((p, q) => p + q, 0) / 12;
+  const al = r.noPile.annualThawDepth_m;
+  const life = Math.round(s.designLife_yr);
+  // Lowest monthly mean fluid over the design life, and the no-pile ground along the pile that month.
+  const { lowest, at } = lowestFluidMonth(r, life);
   let heatAtLimit: number | null = null;
   if (at >= 0) {
     const ground = monthMean(alongPile, at);
@@ -341,7 +344,7 @@ export function calibrateCell(
     heatAtLimit !== null && model.figures.heatAtLimit_W ? heatAtLimit / model.figures.heatAtLimit_W : null;
   const ref = (c: typeof r.noPile | null) => (c ? c.probes[0].thawYear : null);
   const horizonOnly = (t: number | null) => (t !== null && t <= years ? t : null);
-  const sim: CalibrationCase['sim'] = {
+  return {
     groundPile_C: groundPile,
     activeLayer_m: al.length >= 3 ? 0.5 * (al[1] + al[2]) : null,
     groundEnd_C:
@@ -361,7 +364,36 @@ export function calibrateCell(
     pileThaw_yr: horizonOnly(ref(r.withPile)),
     seconds,
   };
-  return { cell, excluded: false, model: model.figures, sim };
+}
+
+/** Run one calibration case: the model's one-pile form and the simulator (module comment). */
+export function calibrateCell(
+  cell: CellInputs,
+  base: Scenario = DEFAULT_SCENARIO,
+  o: CalibrationOptions = DEFAULT_CALIBRATION_OPTIONS,
+): CalibrationCase {
+  const s = onePileScenario(base);
+  const model = modelSide(cell, s);
+  const none: CalibrationFigures = {
+    groundPile_C: null,
+    activeLayer_m: null,
+    groundEnd_C: null,
+    lowestMeanFluid_C: null,
+    heatAtLimit_W: null,
+    pilesPerTon: null,
+    loadShare: null,
+    noPileThaw_yr: null,
+    pileThaw_yr: null,
+  };
+  const carried = model.figures.carried_W_m;
+  if (model.excluded || !(carried > 0)) {
+    return { cell, excluded: model.excluded, model: model.figures, sim: { ...none, seconds: 0 } };
+  }
+  const input = calibrationInput(cell, s, o, model);
+  const t0 = performance.now();
+  const r = simulateSite(input);
+  const seconds = (performance.now() - t0) / 1000;
+  return { cell, excluded: false, model: model.figures, sim: simulatorSide(r, s, model, seconds) };
 }
 
 /**

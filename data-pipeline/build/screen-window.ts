@@ -141,6 +141,41 @@ export interface WindowScreener {
   close: () => Promise<void>;
 }
 
+/** Every grid role's values over rows [row0, row1) (all NaN for a role without an input). */
+async function sampleWindow(
+  ctx: WindowContext,
+  row0: number,
+  row1: number,
+  coordsFor: (crs: string) => Float64Array,
+  cache: ImageCache,
+  inputFds: Map<string, number>,
+): Promise<Map<GridRoleId, Float32Array>> {
+  const count = (row1 - row0) * ctx.grid.width;
+  const empty = new Float32Array(count).fill(NaN);
+  const sampled = new Map<GridRoleId, Float32Array>();
+  for (const r of ROLES) sampled.set(r, empty);
+  for (const input of ctx.inputs) {
+    sampled.set(
+      input.role,
+      input.aligned
+        ? readAligned({ ...input, aligned: input.aligned }, ctx.grid.width, row0, row1, inputFds)
+        : await sampleInput(input, coordsFor(input.grid.crs), cache),
+    );
+  }
+  return sampled;
+}
+
+/** Writes the window's bands into `into` (files holding grid rows from `into.row0`). */
+function writeWindow(into: BandFiles, width: number, row0: number, bands: Float32Array[]): void {
+  const fds = openBandFds(into, 'r+');
+  try {
+    const at = row0 - (into.row0 ?? 0);
+    for (let b = 0; b < bands.length; b++) writeBandRows(fds[b], width, at, bands[b]);
+  } finally {
+    closeBandFds(fds);
+  }
+}
+
 /** Create a screener for the context; call `screen` for each window, then `close`. */
 export function createWindowScreener(ctx: WindowContext): WindowScreener {
   const cache: ImageCache = new Map();
@@ -152,7 +187,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
     for (const fd of inputFds.values()) closeSync(fd);
     inputFds.clear();
   };
-  const { grid, inputs, model, echoRoles, files } = ctx;
+  const { grid, model, echoRoles, files } = ctx;
   const nModel = model.layers.length;
   const out = new Float32Array(nModel);
   let bands: Float32Array[] = [];
@@ -177,17 +212,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
     }
     for (const band of bands) band.fill(NaN);
     const flagsBand = bands[bands.length - 1];
-    const empty = new Float32Array(count).fill(NaN);
-    const sampled = new Map<GridRoleId, Float32Array>();
-    for (const r of ROLES) sampled.set(r, empty);
-    for (const input of inputs) {
-      sampled.set(
-        input.role,
-        input.aligned
-          ? readAligned({ ...input, aligned: input.aligned }, grid.width, row0, row1, inputFds)
-          : await sampleInput(input, coordsFor(input.grid.crs), cache),
-      );
-    }
+    const sampled = await sampleWindow(ctx, row0, row1, coordsFor, cache, inputFds);
     const required = REQUIRED.map((r) => sampled.get(r) as Float32Array);
     const all = ROLES.map((r) => sampled.get(r) as Float32Array);
     const texture = sampled.get('textureClass') as Float32Array;
@@ -227,13 +252,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
       if (lon > bounds[2]) bounds[2] = lon;
       if (lat > bounds[3]) bounds[3] = lat;
     }
-    const fds = openBandFds(into, 'r+');
-    try {
-      const at = row0 - (into.row0 ?? 0);
-      for (let b = 0; b < bands.length; b++) writeBandRows(fds[b], grid.width, at, bands[b]);
-    } finally {
-      closeBandFds(fds);
-    }
+    writeWindow(into, grid.width, row0, bands);
     return stats;
   };
   return { screen, close };

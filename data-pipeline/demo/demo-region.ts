@@ -107,6 +107,79 @@ const smoothstep = (e0: number, e1: number, v: number): number => {
   return t * t * (3 - 2 * t);
 };
 
+/** Texture code of a demo cell: rock on the uplands, gravel in valleys and on shores, then silts and peat. */
+function demoTexture(elevation_m: number, s: number, valley: boolean, soilNoise: number): number {
+  if (elevation_m > 520) return valley ? 1 : 6;
+  if (s < 0.05) return soilNoise > 0.25 ? 1 : 2;
+  if (valley) return elevation_m > 180 ? 1 : 2;
+  if (elevation_m > 300) return soilNoise > 0.1 ? 1 : 3;
+  return soilNoise < -0.12 ? 5 : soilNoise < 0.22 ? 3 : 4;
+}
+
+/** The demo fields at (lon, lat) for the region's landmasses and seed. */
+function sampleDemoCell(shapes: StarShape[], seed: number, lon: number, lat: number): DemoCell {
+  const [dx, dy] = toLocal(lon, lat);
+  let inland = -Infinity;
+  for (const shape of shapes) inland = Math.max(inland, inlandOf(shape, dx, dy));
+  const land = inland >= 0;
+  const s = clamp(inland, 0, 1);
+  const north = clamp((lat - DEMO_BOUNDS_DEG[1]) / (DEMO_BOUNDS_DEG[3] - DEMO_BOUNDS_DEG[1]), 0, 1);
+  const upland = smoothstep(0.22, 0.85, s + 0.3 * fractalNoise(dx / 45, dy / 45, seed + 1, 4));
+  const elevation_m = Math.max(
+    0,
+    1150 * upland * (0.65 + 0.35 * fractalNoise(dx / 14, dy / 14, seed + 2, 3)) + 60 * s,
+  );
+  const valley = Math.abs(fractalNoise(dx / 32, dy / 32, seed + 3, 3)) < 0.07;
+  const soilNoise = fractalNoise(dx / 18, dy / 18, seed + 4, 4);
+  const texture = demoTexture(elevation_m, s, valley, soilNoise);
+  const baseWater = [0, 0.15, 0.24, 0.5, 0.45, 0.8, 0.025][texture];
+  const lowland = 1 - clamp(elevation_m / 300, 0, 1);
+  const waterContent_m3m3 = clamp(
+    baseWater * (0.9 + 0.15 * lowland) + 0.04 * fractalNoise(dx / 9, dy / 9, seed + 5, 2),
+    0.02,
+    0.92,
+  );
+  const bedrockDepth_m =
+    texture === 6
+      ? 0.3 + 1.2 * Math.abs(fractalNoise(dx / 7, dy / 7, seed + 6, 2))
+      : clamp(
+          35 * (1 - elevation_m / 650) + 12 * fractalNoise(dx / 20, dy / 20, seed + 6, 3) + 4 * (1 - s),
+          1,
+          80,
+        );
+  const meanAirTemp_C =
+    -3.2 - 2.6 * north - 0.005 * elevation_m - 1.0 * s + 0.3 * fractalNoise(dx / 60, dy / 60, seed + 7, 2);
+  const airAmplitude_C = 12.5 + 8 * s + 0.8 * north + 0.5 * fractalNoise(dx / 50, dy / 50, seed + 8, 2);
+  const warming_C_per_yr = clamp(
+    0.035 + 0.03 * north + 0.008 * fractalNoise(dx / 80, dy / 80, seed + 9, 2) + 0.006 * s,
+    0.03,
+    0.08,
+  );
+  return {
+    land,
+    inland,
+    elevation_m,
+    textureClass: land ? texture : 0,
+    waterContent_m3m3,
+    bedrockDepth_m,
+    meanAirTemp_C,
+    airAmplitude_C,
+    warming_C_per_yr,
+  };
+}
+
+/** Closed coastline ring of a landmass, `n` vertices, lon/lat. */
+function coastlineRing(shape: StarShape, n: number): [number, number][] {
+  const ring: [number, number][] = [];
+  for (let i = 0; i < n; i++) {
+    const theta = (2 * Math.PI * i) / n;
+    const r = shapeRadius(shape, theta);
+    ring.push(toLonLat(shape.cx_km + r * Math.cos(theta), shape.cy_km + r * Math.sin(theta)));
+  }
+  ring.push(ring[0]);
+  return ring;
+}
+
 /** Build the demo region for a seed (deterministic). */
 export function createDemoRegion(seed: number): DemoRegion {
   const random = createRandom(seed);
@@ -117,74 +190,9 @@ export function createDemoRegion(seed: number): DemoRegion {
   ];
   const shapes = [main, ...islands];
 
-  const sample = (lon: number, lat: number): DemoCell => {
-    const [dx, dy] = toLocal(lon, lat);
-    let inland = -Infinity;
-    for (const shape of shapes) inland = Math.max(inland, inlandOf(shape, dx, dy));
-    const land = inland >= 0;
-    const s = clamp(inland, 0, 1);
-    const north = clamp((lat - DEMO_BOUNDS_DEG[1]) / (DEMO_BOUNDS_DEG[3] - DEMO_BOUNDS_DEG[1]), 0, 1);
-    const upland = smoothstep(0.22, 0.85, s + 0.3 * fractalNoise(dx / 45, dy / 45, seed + 1, 4));
-    const elevation_m = Math.max(
-      0,
-      1150 * upland * (0.65 + 0.35 * fractalNoise(dx / 14, dy / 14, seed + 2, 3)) + 60 * s,
-    );
-    const valley = Math.abs(fractalNoise(dx / 32, dy / 32, seed + 3, 3)) < 0.07;
-    const soilNoise = fractalNoise(dx / 18, dy / 18, seed + 4, 4);
-    let texture: number;
-    if (elevation_m > 520) texture = valley ? 1 : 6;
-    else if (s < 0.05) texture = soilNoise > 0.25 ? 1 : 2;
-    else if (valley) texture = elevation_m > 180 ? 1 : 2;
-    else if (elevation_m > 300) texture = soilNoise > 0.1 ? 1 : 3;
-    else texture = soilNoise < -0.12 ? 5 : soilNoise < 0.22 ? 3 : 4;
-    const baseWater = [0, 0.15, 0.24, 0.5, 0.45, 0.8, 0.025][texture];
-    const lowland = 1 - clamp(elevation_m / 300, 0, 1);
-    const waterContent_m3m3 = clamp(
-      baseWater * (0.9 + 0.15 * lowland) + 0.04 * fractalNoise(dx / 9, dy / 9, seed + 5, 2),
-      0.02,
-      0.92,
-    );
-    const bedrockDepth_m =
-      texture === 6
-        ? 0.3 + 1.2 * Math.abs(fractalNoise(dx / 7, dy / 7, seed + 6, 2))
-        : clamp(
-            35 * (1 - elevation_m / 650) + 12 * fractalNoise(dx / 20, dy / 20, seed + 6, 3) + 4 * (1 - s),
-            1,
-            80,
-          );
-    const meanAirTemp_C =
-      -3.2 - 2.6 * north - 0.005 * elevation_m - 1.0 * s + 0.3 * fractalNoise(dx / 60, dy / 60, seed + 7, 2);
-    const airAmplitude_C = 12.5 + 8 * s + 0.8 * north + 0.5 * fractalNoise(dx / 50, dy / 50, seed + 8, 2);
-    const warming_C_per_yr = clamp(
-      0.035 + 0.03 * north + 0.008 * fractalNoise(dx / 80, dy / 80, seed + 9, 2) + 0.006 * s,
-      0.03,
-      0.08,
-    );
-    return {
-      land,
-      inland,
-      elevation_m,
-      textureClass: land ? texture : 0,
-      waterContent_m3m3,
-      bedrockDepth_m,
-      meanAirTemp_C,
-      airAmplitude_C,
-      warming_C_per_yr,
-    };
-  };
-
+  const sample = (lon: number, lat: number): DemoCell => sampleDemoCell(shapes, seed, lon, lat);
   const coastlines = (): [number, number][][] =>
-    shapes.map((shape) => {
-      const n = shape === main ? 720 : 120;
-      const ring: [number, number][] = [];
-      for (let i = 0; i < n; i++) {
-        const theta = (2 * Math.PI * i) / n;
-        const r = shapeRadius(shape, theta);
-        ring.push(toLonLat(shape.cx_km + r * Math.cos(theta), shape.cy_km + r * Math.sin(theta)));
-      }
-      ring.push(ring[0]);
-      return ring;
-    });
+    shapes.map((shape) => coastlineRing(shape, shape === main ? 720 : 120));
 
   // Settlements: four on the coast of the main landmass (just inside the shore), one inland lowland.
   const settlements: DemoSettlement[] = SETTLEMENT_NAMES.map((name, i) => {

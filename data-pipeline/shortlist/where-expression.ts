@@ -78,40 +78,100 @@ const normaliseUnit = (u: string) =>
     .toLowerCase();
 const normaliseLabel = (s: string) => s.toLowerCase().replace(/[_-]+/g, ' ').trim();
 
-/** Parse and compile `source` against the bands of a build. Throws InputError naming the token. */
-export function compileWhere(source: string, bands: ExpressionBand[]): CompiledWhere {
-  const tokens = tokenize(source);
-  let i = 0;
-  const used = new Set<number>();
-  const peek = () => tokens[i];
-  const fail = (t: Token, expected: string): never => {
-    throw new InputError(
-      `--where: ${t.type === 'end' ? 'unexpected end of expression' : `unexpected token "${t.text}" at position ${t.pos + 1}`} (expected ${expected})`,
-    );
-  };
-  const isKeyword = (t: Token, k: string) => t.type === 'word' && t.text.toLowerCase() === k;
+const fail = (t: Token, expected: string): never => {
+  throw new InputError(
+    `--where: ${t.type === 'end' ? 'unexpected end of expression' : `unexpected token "${t.text}" at position ${t.pos + 1}`} (expected ${expected})`,
+  );
+};
+const isKeyword = (t: Token, k: string) => t.type === 'word' && t.text.toLowerCase() === k;
 
-  const resolveBand = (t: Token): number => {
-    const exact = bands.findIndex((b) => b.id === t.text);
-    if (exact >= 0) return exact;
-    const cut = t.text.lastIndexOf('_');
-    if (cut > 0) {
-      const base = bands.findIndex((b) => b.id === t.text.slice(0, cut));
-      if (base >= 0) {
-        const suffix = t.text.slice(cut + 1);
-        if (normaliseUnit(suffix) === normaliseUnit(bands[base].unit)) return base;
-        throw new InputError(
-          `--where: "${t.text}" at position ${t.pos + 1}: band ${bands[base].id} is in "${bands[base].unit || 'class codes'}", not "${suffix}"`,
-        );
-      }
+/** The band a word names: its id, or its id with a unit suffix matching the band's unit. */
+function resolveBand(bands: ExpressionBand[], t: Token): number {
+  const exact = bands.findIndex((b) => b.id === t.text);
+  if (exact >= 0) return exact;
+  const cut = t.text.lastIndexOf('_');
+  if (cut > 0) {
+    const base = bands.findIndex((b) => b.id === t.text.slice(0, cut));
+    if (base >= 0) {
+      const suffix = t.text.slice(cut + 1);
+      if (normaliseUnit(suffix) === normaliseUnit(bands[base].unit)) return base;
+      throw new InputError(
+        `--where: "${t.text}" at position ${t.pos + 1}: band ${bands[base].id} is in "${bands[base].unit || 'class codes'}", not "${suffix}"`,
+      );
     }
-    throw new InputError(
-      `--where: unknown band "${t.text}" at position ${t.pos + 1} (bands: ${bands.map((b) => b.id).join(', ')})`,
-    );
-  };
+  }
+  throw new InputError(
+    `--where: unknown band "${t.text}" at position ${t.pos + 1} (bands: ${bands.map((b) => b.id).join(', ')})`,
+  );
+}
 
-  const parseValue = (band: ExpressionBand): number => {
-    const t = tokens[i++];
+/** Recursive-descent parser over the tokens (grammar in the module comment). */
+class WhereParser {
+  private i = 0;
+  readonly used = new Set<number>();
+
+  constructor(
+    private readonly tokens: Token[],
+    private readonly bands: ExpressionBand[],
+  ) {}
+
+  peek(): Token {
+    return this.tokens[this.i];
+  }
+
+  parseOr(): Node {
+    let node = this.parseAnd();
+    while (isKeyword(this.peek(), 'or')) {
+      this.i++;
+      node = { kind: 'or', left: node, right: this.parseAnd() };
+    }
+    return node;
+  }
+
+  private parseAnd(): Node {
+    let node = this.parseFactor();
+    while (isKeyword(this.peek(), 'and')) {
+      this.i++;
+      node = { kind: 'and', left: node, right: this.parseFactor() };
+    }
+    return node;
+  }
+
+  private parseFactor(): Node {
+    const t = this.peek();
+    if (isKeyword(t, 'not')) {
+      this.i++;
+      return { kind: 'not', operand: this.parseFactor() };
+    }
+    if (t.type === 'paren' && t.text === '(') {
+      this.i++;
+      const inner = this.parseOr();
+      const close = this.tokens[this.i++];
+      if (!(close.type === 'paren' && close.text === ')')) fail(close, '")"');
+      return inner;
+    }
+    if (t.type !== 'word' || isKeyword(t, 'and') || isKeyword(t, 'or'))
+      return fail(t, 'a band name, "not" or "("');
+    this.i++;
+    const bands = this.bands;
+    if (t.text === 'excluded' && !bands.some((b) => b.id === 'excluded')) {
+      const band = bands.findIndex((b) => b.id === BAND.exclusion);
+      if (band < 0)
+        throw new InputError(`--where: "excluded" at position ${t.pos + 1} needs an exclusion band`);
+      this.used.add(band);
+      return { kind: 'truthy', band };
+    }
+    const band = resolveBand(bands, t);
+    this.used.add(band);
+    const opToken = this.peek();
+    if (opToken.type !== 'op') return { kind: 'truthy', band };
+    this.i++;
+    const op = (opToken.text === '==' ? '=' : opToken.text) as Op;
+    return { kind: 'compare', band, op, value: this.parseValue(bands[band]) };
+  }
+
+  private parseValue(band: ExpressionBand): number {
+    const t = this.tokens[this.i++];
     if (t.type === 'number') return Number(t.text);
     if (t.type === 'word' || t.type === 'string') {
       const match = band.classes?.find((c) => normaliseLabel(c.label) === normaliseLabel(t.text));
@@ -122,93 +182,52 @@ export function compileWhere(source: string, bands: ExpressionBand[]): CompiledW
       );
     }
     return fail(t, `a number or class label after the operator`);
-  };
-
-  const parseFactor = (): Node => {
-    const t = peek();
-    if (isKeyword(t, 'not')) {
-      i++;
-      return { kind: 'not', operand: parseFactor() };
-    }
-    if (t.type === 'paren' && t.text === '(') {
-      i++;
-      const inner = parseOr();
-      const close = tokens[i++];
-      if (!(close.type === 'paren' && close.text === ')')) fail(close, '")"');
-      return inner;
-    }
-    if (t.type !== 'word' || isKeyword(t, 'and') || isKeyword(t, 'or'))
-      return fail(t, 'a band name, "not" or "("');
-    i++;
-    if (t.text === 'excluded' && !bands.some((b) => b.id === 'excluded')) {
-      const band = bands.findIndex((b) => b.id === BAND.exclusion);
-      if (band < 0)
-        throw new InputError(`--where: "excluded" at position ${t.pos + 1} needs an exclusion band`);
-      used.add(band);
-      return { kind: 'truthy', band };
-    }
-    const band = resolveBand(t);
-    used.add(band);
-    const opToken = peek();
-    if (opToken.type !== 'op') return { kind: 'truthy', band };
-    i++;
-    const op = (opToken.text === '==' ? '=' : opToken.text) as Op;
-    return { kind: 'compare', band, op, value: parseValue(bands[band]) };
-  };
-
-  const parseAnd = (): Node => {
-    let node = parseFactor();
-    while (isKeyword(peek(), 'and')) {
-      i++;
-      node = { kind: 'and', left: node, right: parseFactor() };
-    }
-    return node;
-  };
-
-  function parseOr(): Node {
-    let node = parseAnd();
-    while (isKeyword(peek(), 'or')) {
-      i++;
-      node = { kind: 'or', left: node, right: parseAnd() };
-    }
-    return node;
   }
+}
 
-  if (tokens.length === 1) throw new InputError('--where: empty expression');
-  const root = parseOr();
-  if (peek().type !== 'end') fail(peek(), '"and", "or" or the end of the expression');
+function compare(v: number, op: Op, value: number): boolean {
+  switch (op) {
+    case '<':
+      return v < value;
+    case '<=':
+      return v <= value;
+    case '>':
+      return v > value;
+    case '>=':
+      return v >= value;
+    case '=':
+      return v === value;
+    case '!=':
+      return v !== value;
+  }
+}
 
-  const evaluate = (node: Node, values: ArrayLike<number>): boolean => {
-    switch (node.kind) {
-      case 'or':
-        return evaluate(node.left, values) || evaluate(node.right, values);
-      case 'and':
-        return evaluate(node.left, values) && evaluate(node.right, values);
-      case 'not':
-        return !evaluate(node.operand, values);
-      case 'truthy': {
-        const v = values[node.band];
-        return v === v && v !== 0;
-      }
-      case 'compare': {
-        const v = values[node.band];
-        if (v !== v) return false;
-        switch (node.op) {
-          case '<':
-            return v < node.value;
-          case '<=':
-            return v <= node.value;
-          case '>':
-            return v > node.value;
-          case '>=':
-            return v >= node.value;
-          case '=':
-            return v === node.value;
-          case '!=':
-            return v !== node.value;
-        }
-      }
+function evaluate(node: Node, values: ArrayLike<number>): boolean {
+  switch (node.kind) {
+    case 'or':
+      return evaluate(node.left, values) || evaluate(node.right, values);
+    case 'and':
+      return evaluate(node.left, values) && evaluate(node.right, values);
+    case 'not':
+      return !evaluate(node.operand, values);
+    case 'truthy': {
+      const v = values[node.band];
+      return v === v && v !== 0;
     }
-  };
-  return { bandsUsed: [...used].sort((a, b) => a - b), test: (values) => evaluate(root, values) };
+    case 'compare': {
+      const v = values[node.band];
+      if (v !== v) return false;
+      return compare(v, node.op, node.value);
+    }
+  }
+}
+
+/** Parse and compile `source` against the bands of a build. Throws InputError naming the token. */
+export function compileWhere(source: string, bands: ExpressionBand[]): CompiledWhere {
+  const tokens = tokenize(source);
+  if (tokens.length === 1) throw new InputError('--where: empty expression');
+  const parser = new WhereParser(tokens, bands);
+  const root = parser.parseOr();
+  if (parser.peek().type !== 'end') fail(parser.peek(), '"and", "or" or the end of the expression');
+  return { bandsUsed: [...parser.used].sort((a, b) => a - b), test: (values) => evaluate(root, values) };
 }

@@ -167,11 +167,118 @@ export interface TileRenderer {
 
 export type TileRendererOptions = Omit<TilePyramidOptions, 'minZoom' | 'onTile'> & { onFinest?: () => void };
 
+/** Inclusive rows and columns of the grid cells under a tile. */
+interface CellBox {
+  row0: number;
+  row1: number;
+  col0: number;
+  col1: number;
+}
+
+/**
+ * The grid cell (row·width + column) under every pixel centre of tile (z, x, y) into `index` (−1
+ * outside the grid); returns the box of the cells touched, or null when the tile misses the grid.
+ */
+function indexTilePixels(
+  z: number,
+  x: number,
+  y: number,
+  grid: AnalysisGrid,
+  toGrid: ReturnType<typeof createTransform>,
+  index: Int32Array,
+): CellBox | null {
+  const gt = grid.geoTransform;
+  let anyCell = false;
+  let row0 = grid.height;
+  let row1 = -1;
+  let col0 = grid.width;
+  let col1 = -1;
+  for (let py = 0; py < TILE_SIZE; py++) {
+    const lat = latOfTileY(y + (py + 0.5) / TILE_SIZE, z);
+    // Exact transforms every 8 pixels along the row, linear in between (error of metres at most).
+    let prevPx = -1;
+    let prevX = 0;
+    let prevY = 0;
+    for (
+      let px = 0;
+      px < TILE_SIZE;
+      px = px === TILE_SIZE - 1 ? TILE_SIZE : Math.min(px + 8, TILE_SIZE - 1)
+    ) {
+      const [gx, gy] = toGrid(lonOfTileX(x + (px + 0.5) / TILE_SIZE, z), lat);
+      for (let k = prevPx + 1; k <= px; k++) {
+        const t = prevPx < 0 ? 1 : (k - prevPx) / (px - prevPx);
+        const cx = prevX + t * (gx - prevX);
+        const cy = prevY + t * (gy - prevY);
+        const col = Math.floor((cx - gt[0]) / gt[1]);
+        const row = Math.floor((cy - gt[3]) / gt[5]);
+        const inside = col >= 0 && row >= 0 && col < grid.width && row < grid.height;
+        if (inside) {
+          anyCell = true;
+          if (row < row0) row0 = row;
+          if (row > row1) row1 = row;
+          if (col < col0) col0 = col;
+          if (col > col1) col1 = col;
+          index[py * TILE_SIZE + k] = row * grid.width + col;
+        } else index[py * TILE_SIZE + k] = -1;
+      }
+      prevPx = px;
+      prevX = gx;
+      prevY = gy;
+    }
+  }
+  return anyCell ? { row0, row1, col0, col1 } : null;
+}
+
+/** Re-indexes `index` from grid cells into the box `cells` (row-major); returns the box size in cells. */
+function indexIntoBox(index: Int32Array, cells: CellBox, gridWidth: number): number {
+  const { row0, row1, col0, col1 } = cells;
+  const boxWidth = col1 - col0 + 1;
+  const boxCells = (row1 - row0 + 1) * boxWidth;
+  for (let i = 0; i < index.length; i++) {
+    const cell = index[i];
+    if (cell >= 0) {
+      const row = Math.floor(cell / gridWidth);
+      index[i] = (row - row0) * boxWidth + (cell - row * gridWidth - col0);
+    }
+  }
+  return boxCells;
+}
+
+/** Each band's tile plane: its box read into `box`, then picked pixel by pixel (null: all nodata). */
+function readTilePlanes(
+  files: BandFiles,
+  bandCount: number,
+  gridWidth: number,
+  cells: CellBox,
+  index: Int32Array,
+  box: Float32Array,
+): Float32Array[] | null {
+  const n = index.length;
+  const { row0, row1, col0, col1 } = cells;
+  let any = false;
+  const fds = openBandFds(files, 'r');
+  try {
+    const planes = Array.from({ length: bandCount }, (_, b) => {
+      readBandBox(fds[b], gridWidth, { row0, row1: row1 + 1, col0, col1: col1 + 1 }, box);
+      const plane = new Float32Array(n);
+      for (let i = 0; i < n; i++) {
+        const cell = index[i];
+        const v = cell >= 0 ? box[cell] : NaN;
+        plane[i] = v;
+        if (v === v) any = true;
+      }
+      return plane;
+    });
+    return any ? planes : null;
+  } finally {
+    closeBandFds(fds);
+  }
+}
+
 /** The depth-first tile renderer used by writeTilePyramid and its worker threads. */
 export function createTileRenderer(options: TileRendererOptions): TileRenderer {
   const { tilesDir, grid, files, bands, maxZoom, bounds, onFinest } = options;
   const toGrid = createTransform('EPSG:4326', grid.crs);
-  const gt = grid.geoTransform;
   const quant = bands.map((b) => b.quant);
   const written: Record<number, number> = {};
   const n = TILE_SIZE * TILE_SIZE;
@@ -179,75 +286,12 @@ export function createTileRenderer(options: TileRendererOptions): TileRenderer {
   const index = new Int32Array(n);
   let box = new Float32Array(0);
   const sampleFinest = (x: number, y: number): Float32Array[] | null => {
-    const z = maxZoom;
-    let anyCell = false;
-    let row0 = grid.height;
-    let row1 = -1;
-    let col0 = grid.width;
-    let col1 = -1;
-    for (let py = 0; py < TILE_SIZE; py++) {
-      const lat = latOfTileY(y + (py + 0.5) / TILE_SIZE, z);
-      // Exact transforms every 8 pixels along the row, linear in between (error of metres at most).
-      let prevPx = -1;
-      let prevX = 0;
-      let prevY = 0;
-      for (
-        let px = 0;
-        px < TILE_SIZE;
-        px = px === TILE_SIZE - 1 ? TILE_SIZE : Math.min(px + 8, TILE_SIZE - 1)
-      ) {
-        const [gx, gy] = toGrid(lonOfTileX(x + (px + 0.5) / TILE_SIZE, z), lat);
-        for (let k = prevPx + 1; k <= px; k++) {
-          const t = prevPx < 0 ? 1 : (k - prevPx) / (px - prevPx);
-          const cx = prevX + t * (gx - prevX);
-          const cy = prevY + t * (gy - prevY);
-          const col = Math.floor((cx - gt[0]) / gt[1]);
-          const row = Math.floor((cy - gt[3]) / gt[5]);
-          const inside = col >= 0 && row >= 0 && col < grid.width && row < grid.height;
-          if (inside) {
-            anyCell = true;
-            if (row < row0) row0 = row;
-            if (row > row1) row1 = row;
-            if (col < col0) col0 = col;
-            if (col > col1) col1 = col;
-            index[py * TILE_SIZE + k] = row * grid.width + col;
-          } else index[py * TILE_SIZE + k] = -1;
-        }
-        prevPx = px;
-        prevX = gx;
-        prevY = gy;
-      }
-    }
-    if (!anyCell) return null;
+    const cells = indexTilePixels(maxZoom, x, y, grid, toGrid, index);
+    if (!cells) return null;
     // Re-index into the box of rows [row0, row1] x columns [col0, col1] read from each band file.
-    const boxWidth = col1 - col0 + 1;
-    const boxCells = (row1 - row0 + 1) * boxWidth;
-    for (let i = 0; i < n; i++) {
-      const cell = index[i];
-      if (cell >= 0) {
-        const row = Math.floor(cell / grid.width);
-        index[i] = (row - row0) * boxWidth + (cell - row * grid.width - col0);
-      }
-    }
+    const boxCells = indexIntoBox(index, cells, grid.width);
     if (box.length < boxCells) box = new Float32Array(boxCells);
-    let any = false;
-    const fds = openBandFds(files, 'r');
-    try {
-      const planes = bands.map((_, b) => {
-        readBandBox(fds[b], grid.width, { row0, row1: row1 + 1, col0, col1: col1 + 1 }, box);
-        const plane = new Float32Array(n);
-        for (let i = 0; i < n; i++) {
-          const cell = index[i];
-          const v = cell >= 0 ? box[cell] : NaN;
-          plane[i] = v;
-          if (v === v) any = true;
-        }
-        return plane;
-      });
-      return any ? planes : null;
-    } finally {
-      closeBandFds(fds);
-    }
+    return readTilePlanes(files, bands.length, grid.width, cells, index, box);
   };
 
   const emit = async (z: number, x: number, y: number, planes: Float32Array[]) => {

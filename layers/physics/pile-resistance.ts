@@ -133,64 +133,66 @@ function effective(Rb: number, R12: number, length_m: number, mcp: number): numb
   return Rb + (length_m * length_m) / (3 * R12 * mcp * mcp);
 }
 
-/** Pile resistances for a U-tube or coaxial loop (see the module comment for the method). */
-export function pileResistance(input: PileResistanceInput): PileResistanceResult {
-  const loop = requireOneOf('loop', input.loop, ['uTube', 'coaxial'] as const);
-  const casing = checkCasing(input.casing);
-  const flow = requirePositive('flowRate_m3_s', input.flowRate_m3_s, 'm3/s');
-  const length = requirePositive('length_m', input.length_m, 'm');
-  const Rs = cylinderWallResistance({
-    innerRadius_m: casing.innerRadius_m,
-    outerRadius_m: casing.outerRadius_m,
-    conductivity_W_mK: casing.conductivity_W_mK,
+/** What every loop shares: checked flow and length, the casing's inner radius and wall resistance. */
+interface PileCommon {
+  flow: number;
+  length: number;
+  rc: number;
+  Rs: number;
+}
+
+/** U-tube in the casing: Hellström's line-source fill resistances plus the pipes' wall and convection. */
+function uTubeResistance(input: UTubeInput, p: PileCommon, casing: CasingGeometry): PileResistanceResult {
+  const { flow, length, rc, Rs } = p;
+  const u = input;
+  const rpo = requireRange(
+    'pipeOuterRadius_m',
+    u.pipeOuterRadius_m,
+    1e-4,
+    rc / 2,
+    'm (half the casing inner radius)',
+  );
+  const rpi = requireRange('pipeInnerRadius_m', u.pipeInnerRadius_m, 1e-4, rpo * (1 - 1e-9), 'm');
+  const xc = requireRange('shankHalfSpacing_m', u.shankHalfSpacing_m, rpo, rc - rpo, 'm');
+  const kp = requirePositive('pipeConductivity_W_mK', u.pipeConductivity_W_mK);
+  const kf = requirePositive('fillConductivity_W_mK', u.fillConductivity_W_mK);
+  const conv = tubeConvection({ fluid: input.fluid, flowRate_m3_s: flow, innerRadius_m: rpi });
+  const RpWall = cylinderWallResistance({ innerRadius_m: rpi, outerRadius_m: rpo, conductivity_W_mK: kp });
+  const RpConv = 1 / (2 * Math.PI * rpi * conv.h_W_m2K);
+  const Rp = RpWall + RpConv;
+  const hs = hellstromLineSource({
+    boreRadius_m: rc,
+    pipeOuterRadius_m: rpo,
+    shankHalfSpacing_m: xc,
+    fillConductivity_W_mK: kf,
+    surroundingConductivity_W_mK: casing.conductivity_W_mK,
   });
-  const rc = casing.innerRadius_m;
-  if (loop === 'uTube') {
-    const u = input as UTubeInput;
-    const rpo = requireRange(
-      'pipeOuterRadius_m',
-      u.pipeOuterRadius_m,
-      1e-4,
-      rc / 2,
-      'm (half the casing inner radius)',
-    );
-    const rpi = requireRange('pipeInnerRadius_m', u.pipeInnerRadius_m, 1e-4, rpo * (1 - 1e-9), 'm');
-    const xc = requireRange('shankHalfSpacing_m', u.shankHalfSpacing_m, rpo, rc - rpo, 'm');
-    const kp = requirePositive('pipeConductivity_W_mK', u.pipeConductivity_W_mK);
-    const kf = requirePositive('fillConductivity_W_mK', u.fillConductivity_W_mK);
-    const conv = tubeConvection({ fluid: input.fluid, flowRate_m3_s: flow, innerRadius_m: rpi });
-    const RpWall = cylinderWallResistance({ innerRadius_m: rpi, outerRadius_m: rpo, conductivity_W_mK: kp });
-    const RpConv = 1 / (2 * Math.PI * rpi * conv.h_W_m2K);
-    const Rp = RpWall + RpConv;
-    const hs = hellstromLineSource({
-      boreRadius_m: rc,
-      pipeOuterRadius_m: rpo,
-      shankHalfSpacing_m: xc,
-      fillConductivity_W_mK: kf,
-      surroundingConductivity_W_mK: casing.conductivity_W_mK,
-    });
-    const RbInner = hs.Rg_mK_W + Rp / 2;
-    const Ra = hs.RaFill_mK_W + 2 * Rp;
-    const Rb = RbInner + Rs;
-    const R12 = (4 * RbInner * Ra) / (4 * RbInner - Ra);
-    const mcp = flow * input.fluid.density_kg_m3 * input.fluid.specificHeat_J_kgK;
-    return {
-      Rb_mK_W: Rb,
-      Ra_mK_W: Ra,
-      R12_mK_W: R12 > 0 ? R12 : Infinity,
-      RbEffective_mK_W: effective(Rb, Ra, length, mcp),
-      parts: {
-        pipeConvection: RpConv,
-        pipeWall: RpWall,
-        fill: hs.Rg_mK_W,
-        steelCasing: Rs,
-        raFill: hs.RaFill_mK_W,
-      },
-      flow: conv,
-      neglected: NEGLECTED,
-    };
-  }
-  const c = input as CoaxialInput;
+  const RbInner = hs.Rg_mK_W + Rp / 2;
+  const Ra = hs.RaFill_mK_W + 2 * Rp;
+  const Rb = RbInner + Rs;
+  const R12 = (4 * RbInner * Ra) / (4 * RbInner - Ra);
+  const mcp = flow * input.fluid.density_kg_m3 * input.fluid.specificHeat_J_kgK;
+  return {
+    Rb_mK_W: Rb,
+    Ra_mK_W: Ra,
+    R12_mK_W: R12 > 0 ? R12 : Infinity,
+    RbEffective_mK_W: effective(Rb, Ra, length, mcp),
+    parts: {
+      pipeConvection: RpConv,
+      pipeWall: RpWall,
+      fill: hs.Rg_mK_W,
+      steelCasing: Rs,
+      raFill: hs.RaFill_mK_W,
+    },
+    flow: conv,
+    neglected: NEGLECTED,
+  };
+}
+
+/** Coaxial loop: the annulus' convection to the casing, and the centre pipe between the channels. */
+function coaxialResistance(input: CoaxialInput, p: PileCommon): PileResistanceResult {
+  const { flow, length, rc, Rs } = p;
+  const c = input;
   const rco = requireRange(
     'centreOuterRadius_m',
     c.centreOuterRadius_m,
@@ -242,4 +244,21 @@ export function pileResistance(input: PileResistanceInput): PileResistanceResult
     flow: outer,
     neglected: NEGLECTED,
   };
+}
+
+/** Pile resistances for a U-tube or coaxial loop (see the module comment for the method). */
+export function pileResistance(input: PileResistanceInput): PileResistanceResult {
+  const loop = requireOneOf('loop', input.loop, ['uTube', 'coaxial'] as const);
+  const casing = checkCasing(input.casing);
+  const flow = requirePositive('flowRate_m3_s', input.flowRate_m3_s, 'm3/s');
+  const length = requirePositive('length_m', input.length_m, 'm');
+  const Rs = cylinderWallResistance({
+    innerRadius_m: casing.innerRadius_m,
+    outerRadius_m: casing.outerRadius_m,
+    conductivity_W_mK: casing.conductivity_W_mK,
+  });
+  const common: PileCommon = { flow, length, rc: casing.innerRadius_m, Rs };
+  return loop === 'uTube'
+    ? uTubeResistance(input as UTubeInput, common, casing)
+    : coaxialResistance(input as CoaxialInput, common);
 }

@@ -161,21 +161,25 @@ export interface SoilThermalProperties {
 
 const TEXTURE_NAMES = Object.values(TEXTURE_CODES) as TextureName[];
 
-/**
- * Resolves a soil layer description to thermal properties. Porosity n = 1 − ρd/ρs; water content in
- * [0, MAX_WATER_CONTENT_M3M3]. Water above the porosity is excess ice (segregated or disseminated ice
- * of ice-rich permafrost), never clipped: the ground is taken as the soil expanded by that ice, solids
- * fraction (1 − e)(1 − n) = 1 − θ, i.e. porosity raised to the water content and dry density lowered
- * to ρ_s(1 − θ), saturated. Then the latent heat counts all of θ; the de Vries heat capacity the ice
- * and the reduced solids; and the conductivity is the Johansen (1975) saturated value, the geometric
- * mean k_s^(1−θ)·k_ice^(θ−θu)·k_w^θu (Côté & Konrad 2005 likewise with n → θ for peat), which lies
- * between the series (vertical flow across horizontal ice lenses) and parallel (radial flow into a pile
- * along them) bounds of segregated ice (layered-medium bounds, e.g. Farouki 1981 ch. 5, recalled from
- * memory). Frozen properties count the Anderson–Tice unfrozen water at frozenTemperature_C (fine
- * soils only) as liquid. Bedrock: k = k_sat (geometric mean with the rock matrix, pores taken as filled:
- * < 2 % error for n ≤ 0.05). Peat: Côté & Konrad (2005) organic parameters.
- */
-export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalProperties {
+/** A soil layer description checked and resolved against its texture's defaults (excess ice included). */
+interface ResolvedSoil {
+  texture: TextureName;
+  d: TextureDefaults;
+  /** Porosity of the soil itself, and of the ground with its excess ice (n → θ). */
+  n0: number;
+  n: number;
+  theta: number;
+  excess: number;
+  /** Dry density of the ground, kg/m³ (ρ_s(1 − θ) with excess ice). */
+  rhoDGround: number;
+  q: number;
+  sArea: number;
+  tFrozen: number;
+  model: 'johansen' | 'cote-konrad';
+}
+
+/** Checks every field of `layer` (RangeError naming it) and resolves the defaults and excess ice. */
+function resolveSoil(layer: SoilLayerDescription): ResolvedSoil {
   const texture = requireOneOf('texture', layer.texture, TEXTURE_NAMES);
   const d = TEXTURE_CATALOGUE[texture];
   const rhoD = requireRange(
@@ -211,34 +215,27 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
     'cote-konrad',
   ] as const);
 
-  const fine = sArea > 0;
-  const thetaU = fine
-    ? unfrozenWaterContent_m3m3({
-        temperature_C: tFrozen,
-        specificSurface_m2_g: sArea,
-        dryDensity_kg_m3: rhoDGround,
-        waterContent_m3m3: theta,
-      })
-    : 0;
-  const fp = fine
-    ? freezingPoint_C({ specificSurface_m2_g: sArea, dryDensity_kg_m3: rhoDGround, waterContent_m3m3: theta })
-    : 0;
+  return { texture, d, n0, n, theta, excess, rhoDGround, q, sArea, tFrozen, model };
+}
 
-  let kThawed: number;
-  let kFrozen: number;
+/** Thawed and frozen conductivities, W/m·K: rock saturated, Côté & Konrad (peat or chosen), Johansen. */
+function soilConductivities(r: ResolvedSoil, thetaU: number): { kThawed: number; kFrozen: number } {
+  const { texture, d, n, theta, rhoDGround, q, model } = r;
   if (d.kind === 'rock') {
     const ks = d.solidsConductivity_W_mK;
-    kThawed = johansenSaturatedConductivity_W_mK({
+    const kThawed = johansenSaturatedConductivity_W_mK({
       porosity: n,
       solidsConductivity_W_mK: ks,
       state: 'thawed',
     });
-    kFrozen = johansenSaturatedConductivity_W_mK({
+    const kFrozen = johansenSaturatedConductivity_W_mK({
       porosity: n,
       solidsConductivity_W_mK: ks,
       state: 'frozen',
     });
-  } else if (d.kind === 'organic' || model === 'cote-konrad') {
+    return { kThawed, kFrozen };
+  }
+  if (d.kind === 'organic' || model === 'cote-konrad') {
     const organic = d.kind === 'organic';
     const ks = organic ? d.solidsConductivity_W_mK : johansenSolidsConductivity_W_mK(q, d.grading);
     const group = organic
@@ -255,20 +252,25 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
       group,
       dryClass: organic ? 'organicFibrous' : 'naturalMineral',
     } as const;
-    kThawed = coteKonradConductivity_W_mK({ ...base, state: 'thawed' });
-    kFrozen = coteKonradConductivity_W_mK({ ...base, state: 'frozen' });
-  } else {
-    const base = {
-      porosity: n,
-      waterContent_m3m3: theta,
-      solidsConductivity_W_mK: johansenSolidsConductivity_W_mK(q, d.grading),
-      dryConductivity_W_mK: johansenDryConductivity_W_mK(rhoDGround),
-      grading: d.grading,
-    };
-    kThawed = johansenConductivity_W_mK({ ...base, state: 'thawed' });
-    kFrozen = johansenConductivity_W_mK({ ...base, state: 'frozen', unfrozenWater_m3m3: thetaU });
+    const kThawed = coteKonradConductivity_W_mK({ ...base, state: 'thawed' });
+    const kFrozen = coteKonradConductivity_W_mK({ ...base, state: 'frozen' });
+    return { kThawed, kFrozen };
   }
+  const base = {
+    porosity: n,
+    waterContent_m3m3: theta,
+    solidsConductivity_W_mK: johansenSolidsConductivity_W_mK(q, d.grading),
+    dryConductivity_W_mK: johansenDryConductivity_W_mK(rhoDGround),
+    grading: d.grading,
+  };
+  const kThawed = johansenConductivity_W_mK({ ...base, state: 'thawed' });
+  const kFrozen = johansenConductivity_W_mK({ ...base, state: 'frozen', unfrozenWater_m3m3: thetaU });
+  return { kThawed, kFrozen };
+}
 
+/** Thawed and frozen heat capacities, J/m³·K (de Vries; the ice as frozen water mass × c_ice). */
+function soilHeatCapacities(r: ResolvedSoil, thetaU: number): { cThawed: number; cFrozen: number } {
+  const { d, n, theta } = r;
   const solidsFraction = 1 - n;
   const solidsC = d.solidsDensity_kg_m3 * d.solidsSpecificHeat_J_kgK;
   const capacity = (liquid: number, ice: number): number =>
@@ -290,6 +292,40 @@ export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalP
   // the volume budget of a saturated soil).
   const cThawed = capacity(theta, 0);
   const cFrozen = capacity(thetaU, 0) + (theta - thetaU) * S.waterDensity_kg_m3 * S.iceSpecificHeat_J_kgK;
+  return { cThawed, cFrozen };
+}
+
+/**
+ * Resolves a soil layer description to thermal properties. Porosity n = 1 − ρd/ρs; water content in
+ * [0, MAX_WATER_CONTENT_M3M3]. Water above the porosity is excess ice (segregated or disseminated ice
+ * of ice-rich permafrost), never clipped: the ground is taken as the soil expanded by that ice, solids
+ * fraction (1 − e)(1 − n) = 1 − θ, i.e. porosity raised to the water content and dry density lowered
+ * to ρ_s(1 − θ), saturated. Then the latent heat counts all of θ; the de Vries heat capacity the ice
+ * and the reduced solids; and the conductivity is the Johansen (1975) saturated value, the geometric
+ * mean k_s^(1−θ)·k_ice^(θ−θu)·k_w^θu (Côté & Konrad 2005 likewise with n → θ for peat), which lies
+ * between the series (vertical flow across horizontal ice lenses) and parallel (radial flow into a pile
+ * along them) bounds of segregated ice (layered-medium bounds, e.g. Farouki 1981 ch. 5, recalled from
+ * memory). Frozen properties count the Anderson–Tice unfrozen water at frozenTemperature_C (fine
+ * soils only) as liquid. Bedrock: k = k_sat (geometric mean with the rock matrix, pores taken as filled:
+ * < 2 % error for n ≤ 0.05). Peat: Côté & Konrad (2005) organic parameters.
+ */
+export function soilThermalProperties(layer: SoilLayerDescription): SoilThermalProperties {
+  const r = resolveSoil(layer);
+  const { n0, theta, excess, rhoDGround, sArea, tFrozen } = r;
+  const fine = sArea > 0;
+  const thetaU = fine
+    ? unfrozenWaterContent_m3m3({
+        temperature_C: tFrozen,
+        specificSurface_m2_g: sArea,
+        dryDensity_kg_m3: rhoDGround,
+        waterContent_m3m3: theta,
+      })
+    : 0;
+  const fp = fine
+    ? freezingPoint_C({ specificSurface_m2_g: sArea, dryDensity_kg_m3: rhoDGround, waterContent_m3m3: theta })
+    : 0;
+  const { kThawed, kFrozen } = soilConductivities(r, thetaU);
+  const { cThawed, cFrozen } = soilHeatCapacities(r, thetaU);
 
   return {
     kFrozen_W_mK: requireFinite('kFrozen_W_mK', kFrozen),

@@ -201,21 +201,15 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
   return out;
 }
 
-/** Build the ensemble model (scenario validated; throws TypeError naming bad fields). */
-export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleModel {
-  const s = parseScenario(options.scenario ?? {});
-  const parsed = scenarioUncertaintySchema.parse(s.uncertainty ?? {});
-  const u: ScenarioUncertainty = { ...parsed, grids: { ...parsed.grids, ...options.gridSpreads } };
+/**
+ * The members' scenario constants from the scenario-parameter hypercube, shared by all cells (column p
+ * from hash stream p of the seed), and each member's warming factor.
+ */
+function memberSet(
+  s: Scenario,
+  u: ScenarioUncertainty,
+): { members: CellConstants[]; warmingFactor: Float64Array } {
   const n = u.members;
-  // The deterministic model's own evaluation (with its class-robustness bands), so that the model bands
-  // are the deterministic build's bit for bit.
-  const baseRc = buildRobustConstants({ ...s, uncertainty: undefined });
-  const baseWork = new Float64Array(METRIC_COUNT);
-  const baseLayers = cellLayers(s);
-  const layers = [...baseLayers, ...ensembleLayers(baseLayers, u)];
-  const nBase = METRIC_COUNT;
-
-  // Scenario-parameter hypercube, shared by all cells: column p from hash stream p of the seed.
   const col = new Float64Array(n);
   const perm = new Int32Array(n);
   const paramValues = new Float64Array(n * UNCERTAIN_PARAMETERS.length);
@@ -234,6 +228,59 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
     members.push(memberConstants(s, v));
     warmingFactor[j] = v.warmingScale;
   }
+
+  return { members, warmingFactor };
+}
+
+/**
+ * Member j's draw of the gridded inputs with a spread into `memberRecord` (already a copy of the cell):
+ * a normal draw clipped to the input range, or for texture another class with the confusion probability.
+ */
+function drawMemberInputs(
+  memberRecord: Record<string, number>,
+  cellRecord: Record<string, number>,
+  spreadRoles: readonly SpreadRole[],
+  u: ScenarioUncertainty,
+  cellCols: Float64Array[],
+  cellSeed: number,
+  j: number,
+): void {
+  for (let d = 0; d < spreadRoles.length; d++) {
+    const r = spreadRoles[d];
+    const v = cellRecord[r];
+    if (v !== v) continue; // optional grid absent: the scenario default (and its distribution) applies
+    const g = u.grids[r];
+    const uj = cellCols[d][j];
+    if ('confusion' in g) {
+      if (uj < g.confusion) {
+        // Another class, each equally likely (a second hash draw).
+        const other = 1 + Math.floor(hashUniform(cellSeed, 64 + d, j) * (TEXTURE_CLASSES - 1));
+        memberRecord[r] = other >= v ? other + 1 : other;
+      }
+    } else {
+      const sd = 'sd' in g ? g.sd : g.relativeSd * Math.abs(v);
+      const [lo, hi] = INPUT_RANGE[r];
+      memberRecord[r] = clip(v + sd * normalQuantile(uj), lo, hi);
+    }
+  }
+}
+
+/** Build the ensemble model (scenario validated; throws TypeError naming bad fields). */
+export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleModel {
+  const s = parseScenario(options.scenario ?? {});
+  const parsed = scenarioUncertaintySchema.parse(s.uncertainty ?? {});
+  const u: ScenarioUncertainty = { ...parsed, grids: { ...parsed.grids, ...options.gridSpreads } };
+  const n = u.members;
+  // The deterministic model's own evaluation (with its class-robustness bands), so that the model bands
+  // are the deterministic build's bit for bit.
+  const baseRc = buildRobustConstants({ ...s, uncertainty: undefined });
+  const baseWork = new Float64Array(METRIC_COUNT);
+  const baseLayers = cellLayers(s);
+  const layers = [...baseLayers, ...ensembleLayers(baseLayers, u)];
+  const nBase = METRIC_COUNT;
+
+  const { members, warmingFactor } = memberSet(s, u);
+  const perm = new Int32Array(n);
 
   // Grid dimensions with a spread.
   const spreadRoles = SPREAD_ROLES.filter((r) => {
@@ -263,24 +310,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
       Object.assign(memberCell, cell);
       // Not clipped: a member outside the kernel's range is reported as outside the data, like the cell itself.
       memberCell.warming_C_per_yr = cell.warming_C_per_yr * warmingFactor[j];
-      for (let d = 0; d < spreadRoles.length; d++) {
-        const r = spreadRoles[d];
-        const v = cellRecord[r];
-        if (v !== v) continue; // optional grid absent: the scenario default (and its distribution) applies
-        const g = u.grids[r];
-        const uj = cellCols[d][j];
-        if ('confusion' in g) {
-          if (uj < g.confusion) {
-            // Another class, each equally likely (a second hash draw).
-            const other = 1 + Math.floor(hashUniform(cellSeed, 64 + d, j) * (TEXTURE_CLASSES - 1));
-            memberRecord[r] = other >= v ? other + 1 : other;
-          }
-        } else {
-          const sd = 'sd' in g ? g.sd : g.relativeSd * Math.abs(v);
-          const [lo, hi] = INPUT_RANGE[r];
-          memberRecord[r] = clip(v + sd * normalQuantile(uj), lo, hi);
-        }
-      }
+      drawMemberInputs(memberRecord, cellRecord, spreadRoles, u, cellCols, cellSeed, j);
       evaluateCellMetrics(memberCell, members[j], scratch, m);
       for (let q = 0; q < rangeIdx.length; q++) ranges[q][j] = m[rangeIdx[q]];
       classes[j] = m[METRIC.suitability];

@@ -55,6 +55,7 @@
 import { designHeatingLoad_W } from '../site/site-load-line';
 import {
   degreeDays,
+  type DegreeDays,
   SECONDS_PER_YEAR,
   nFactorSurfaceMeanKernel_C,
   surfaceMeanSensitivity,
@@ -121,9 +122,72 @@ export interface KernelScratch {
   annualFraction: number;
   /** The cell's surface-warming history: linear trend or pathway (surface-warming-history.ts). */
   warming: WarmingHistory;
+  /** The figures one stage of evaluateCellMetrics hands to the next. */
+  state: CellState;
+}
+
+/** Intermediate figures of one cell, written by the stages of evaluateCellMetrics in step order. */
+export interface CellState {
+  /** Steps 1-3: n-factors, TTOP (°C), active layer (m), geothermal gradient (K/m). */
+  nF: number;
+  nT: number;
+  ttop: number;
+  alt: number;
+  grad: number;
+  /** Ground temperature at the pile's mid-depth and at the reference point today, °C. */
+  tPile: number;
+  tRef: number;
+  /** Frozen-ground diffusivity, m²/s and m²/yr; the design life, s. */
+  alphaF: number;
+  alphaYr: number;
+  lifeS: number;
+  /** Air warming at the end of the life, K, and the surface-warming history. */
+  airLife_K: number;
+  h: WarmingHistory;
+  /** Step 5: heating demand (kWh), design peak and annual average (W), ground-load factors. */
+  demand_kWh: number;
+  peak_W: number;
+  avg_W: number;
+  groundFactor: number;
+  seasonFactor: number;
+  toPeak: number;
+  /** Step 6: field responses over the life (pile field, reference point) and the peak per pile, W. */
+  gLife: number;
+  gRefLife: number;
+  qPeak: number;
+  /** Step 7: years to thaw at the reference point with the piles (Infinity: does not thaw). */
+  thawPilesYr: number;
+}
+
+function createCellState(warming: WarmingHistory): CellState {
+  return {
+    nF: 0,
+    nT: 0,
+    ttop: 0,
+    alt: 0,
+    grad: 0,
+    tPile: 0,
+    tRef: 0,
+    alphaF: 0,
+    alphaYr: 0,
+    lifeS: 0,
+    airLife_K: 0,
+    h: warming,
+    demand_kWh: 0,
+    peak_W: 0,
+    avg_W: 0,
+    groundFactor: 0,
+    seasonFactor: 0,
+    toPeak: 0,
+    gLife: 0,
+    gRefLife: 0,
+    qPeak: 0,
+    thawPilesYr: Infinity,
+  };
 }
 
 export function createKernelScratch(): KernelScratch {
+  const warming = createWarmingHistory();
   return {
     soil: { kFrozen: 0, kThawed: 0, cFrozen: 0, cThawed: 0, latent: 0 },
     window: {
@@ -143,7 +207,8 @@ export function createKernelScratch(): KernelScratch {
     foundation: createFoundationResult(),
     system: createSystemResult(),
     annualFraction: 0,
-    warming: createWarmingHistory(),
+    warming,
+    state: createCellState(warming),
   };
 }
 
@@ -245,7 +310,6 @@ export function evaluateCellMetrics(
     m[M.suitability] = 0;
     return;
   }
-  const s = k.scenario;
   const be = k.breakEven;
   m[M.breakEvenCopFuel] = be.fuel;
   m[M.breakEvenCopCo2] = be.co2;
@@ -257,30 +321,65 @@ export function evaluateCellMetrics(
   m[M.excessIce] =
     cell.waterContent_m3m3 > porosity ? (cell.waterContent_m3m3 - porosity) / (1 - porosity) : 0;
 
-  // 1-2. soil, forcing, TTOP, active layer
-  const soil = soilAt(k.soil[tex], cell.waterContent_m3m3, x.soil);
-  const kF = soil.kFrozen;
-  const air = degreeDays({ meanAirTemp_C: cell.meanAirTemp_C, amplitude_C: cell.airAmplitude_C });
-  const nF = Number.isNaN(cell.nFreeze) ? s.ground.nFreeze : cell.nFreeze;
-  const nT = s.ground.nThaw;
-  const ttop = ttop_C({
+  groundStage(cell, k, x, m);
+  buildingStage(cell, k, x, m);
+  windowStage(cell, k, x, m);
+  thawStage(k, x, m);
+  endOfLifeStage(cell, k, x, m);
+  economicsStage(k, x, m);
+
+  // 9. hard foundation checks, soft scores, class (cell-class.ts)
+  const c = classifyCell(m, tex, k.scenario, k.weights);
+  m[M.exclusion] = c.exclusion;
+  m[M.suitabilityScore] = c.score;
+  m[M.suitability] = c.suitability;
+}
+
+/** TTOP of a climate's degree-days (Smith & Riseborough 1996, 2002), °C (steps 2 and 3c). */
+function cellTtop_C(air: DegreeDays, nF: number, nT: number, soil: SoilPoint): number {
+  return ttop_C({
     freezingIndex_Cd: air.freezingIndex_Cd,
     thawingIndex_Cd: air.thawingIndex_Cd,
     nFreeze: nF,
     nThaw: nT,
     kThawed_W_mK: soil.kThawed,
-    kFrozen_W_mK: kF,
+    kFrozen_W_mK: soil.kFrozen,
   });
-  const alt = neumannActiveLayerKernel_m(
+}
+
+/** The two-phase Neumann active layer of a climate of mean `meanAir_C`, m (steps 2 and 3c). */
+function cellActiveLayer_m(
+  air: DegreeDays,
+  meanAir_C: number,
+  amplitude_C: number,
+  ttop: number,
+  nT: number,
+  soil: SoilPoint,
+): number {
+  return neumannActiveLayerKernel_m(
     nT * air.thawingIndex_Cd,
-    thawSeasonFraction(cell.meanAirTemp_C, cell.airAmplitude_C),
+    thawSeasonFraction(meanAir_C, amplitude_C),
     ttop,
     soil.kThawed,
-    kF,
+    soil.kFrozen,
     soil.cThawed,
     soil.cFrozen,
     soil.latent,
   );
+}
+
+/** Steps 1-3: soil, forcing, TTOP, active layer, ground temperatures today and at the end of the life. */
+function groundStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
+  // 1-2. soil, forcing, TTOP, active layer
+  const soil = soilAt(k.soil[cell.textureClass], cell.waterContent_m3m3, x.soil);
+  const kF = soil.kFrozen;
+  const air = degreeDays({ meanAirTemp_C: cell.meanAirTemp_C, amplitude_C: cell.airAmplitude_C });
+  const nF = Number.isNaN(cell.nFreeze) ? s.ground.nFreeze : cell.nFreeze;
+  const nT = s.ground.nThaw;
+  const ttop = cellTtop_C(air, nF, nT, soil);
+  const alt = cellActiveLayer_m(air, cell.meanAirTemp_C, cell.airAmplitude_C, ttop, nT, soil);
   m[M.activeLayer] = alt;
 
   // 3. ground temperatures
@@ -295,10 +394,9 @@ export function evaluateCellMetrics(
   const alphaF = kF / soil.cFrozen;
   const alphaYr = alphaF * SECONDS_PER_YEAR;
   const life = s.designLife_yr;
-  const h = cellWarmingHistory(k, cell, nF, nT, x.warming);
+  st.h = cellWarmingHistory(k, cell, nF, nT, x.warming);
   // Air warming at the end of the life (the active layer then): the trend's or the pathway's.
-  const airLife_K = cellAirWarming_K(k, cell, life);
-  const lifeS = life * SECONDS_PER_YEAR;
+  st.airLife_K = cellAirWarming_K(k, cell, life);
   const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, alphaYr);
   m[M.groundTemp] = tPile;
   m[M.groundTempEnd] = tPileEnd;
@@ -306,9 +404,25 @@ export function evaluateCellMetrics(
   m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
   // Held at 0 °C by its ice: still frozen ground, warm permafrost.
   m[M.permafrostClassEnd] = x.zeroCurtain ? 1 : permafrostClass(tPileEnd, s.permafrostClasses);
+  st.nF = nF;
+  st.nT = nT;
+  st.ttop = ttop;
+  st.alt = alt;
+  st.grad = grad;
+  st.tPile = tPile;
+  st.tRef = tRef;
+  st.alphaF = alphaF;
+  st.alphaYr = alphaYr;
+  st.lifeS = life * SECONDS_PER_YEAR;
+}
 
-  // 5. standard building: design peak, annual average and the 12 monthly loads (month centres of the
-  // sinusoidal year, m = 0 the coldest), each month's peak the design margin below its mean
+/**
+ * Step 5. standard building: design peak, annual average and the 12 monthly loads (month centres of the
+ * sinusoidal year, m = 0 the coldest), each month's peak the design margin below its mean.
+ */
+function buildingStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
   const bld = s.building;
   const ua = bld.heatLossCoefficient_W_K;
   const hdd = degreeDays({
@@ -329,30 +443,45 @@ export function evaluateCellMetrics(
   // Ground loads as pile-sizing.ts: the peak at the COP of the lowest EFT, the annual and monthly loads
   // at the COP of the undisturbed ground (more heat from the ground: conservative).
   const groundFactor = 1 - 1 / copFromTable(k.cop, hp.minEnteringFluid_C);
-  const seasonFactor = 1 - 1 / copFromTable(k.cop, tPile);
+  const seasonFactor = 1 - 1 / copFromTable(k.cop, st.tPile);
   const toPeak = seasonFactor / (peak_W * groundFactor);
   for (let i = 0; i < MONTHS; i++) {
     const tAir = cell.meanAirTemp_C - cell.airAmplitude_C * MONTH_COS[i];
     x.monthlyFraction[i] = ua * Math.max(0, bld.balanceTemp_C - tAir) * toPeak;
     x.peakFraction[i] = (ua * Math.max(0, bld.balanceTemp_C - tAir + bld.designMargin_K)) / peak_W;
   }
+  st.demand_kWh = demand_kWh;
+  st.peak_W = peak_W;
+  st.avg_W = avg_W;
+  st.groundFactor = groundFactor;
+  st.seasonFactor = seasonFactor;
+  st.toPeak = toPeak;
+}
 
-  // 6. fluid bound, pile count, window: one pile of the foundation group, month by month against the
-  // lagged pile-averaged wave (monthly-peak.ts)
+/**
+ * Step 6. fluid bound, pile count, window: one pile of the foundation group, month by month against the
+ * lagged pile-averaged wave (monthly-peak.ts).
+ */
+function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
+  const kF = x.soil.kFrozen;
+  const alphaF = st.alphaF;
+  const hp = s.heatPump;
   const H = s.pile.length_m;
-  const gLife = flsResponse(k.tables.fieldMean, alphaF, lifeS);
+  const gLife = flsResponse(k.tables.fieldMean, alphaF, st.lifeS);
   const gMonth = flsResponse(k.tables.fieldMean, alphaF, MONTH_S + PEAK_S);
   const rb = s.pile.radius_m;
   const gPeak = lookup(k.tables.cylinderWall, (alphaF * PEAK_S) / (rb * rb));
-  const annualFraction = avg_W * toPeak;
+  const annualFraction = st.avg_W * st.toPeak;
   x.annualFraction = annualFraction;
   pileWavePhasor(
     { diffusivity_m2_s: alphaF, top_m: s.pile.topDepth_m, bottom_m: s.pile.topDepth_m + H },
     x.phasor,
   );
   const peakInput = {
-    groundMean_C: tPile,
-    surfaceAmplitude_C: nF * cell.airAmplitude_C,
+    groundMean_C: st.tPile,
+    surfaceAmplitude_C: st.nF * cell.airAmplitude_C,
     phasor: x.phasor,
     meanFluid_C: meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating'),
     length_m: H,
@@ -371,20 +500,20 @@ export function evaluateCellMetrics(
   // more than the foundation, the larger field cools its ground more (a 4 × 4 group's 30-year response
   // is 9.5, a 7 × 8 field's 13.8), so the count is found by fixed-point iteration on the field size
   // (near-square at the foundation spacing, as the site study's three-pulse sizing lays it out).
-  const qField =
-    qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peak_W * groundFactor, alphaF, lifeS) : qPeak;
-  m[M.pilesPerTon] = qField > 0 ? (TON_W * groundFactor) / qField : NaN;
-  const gRefLife = flsResponse(k.tables.referencePoint, alphaF, lifeS);
+  const peakGround_W = st.peak_W * st.groundFactor;
+  const qField = qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peakGround_W, alphaF, st.lifeS) : qPeak;
+  m[M.pilesPerTon] = qField > 0 ? (TON_W * st.groundFactor) / qField : NaN;
+  const gRefLife = flsResponse(k.tables.referencePoint, alphaF, st.lifeS);
   const w = operatingWindow(
     {
-      referenceTemp_C: tRef,
-      warmingAtLife_K: historyWarming_K(k.tables, h, zr, life, alphaYr),
+      referenceTemp_C: st.tRef,
+      warmingAtLife_K: historyWarming_K(k.tables, st.h, s.referenceDepth_m, s.designLife_yr, st.alphaYr),
       frozenMargin_K: s.frozenMargin_K,
-      overcooling_K: isFrostSusceptible(tex) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
+      overcooling_K: isFrostSusceptible(cell.textureClass) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
       conductivity_W_mK: kF,
       gReferenceLife: gRefLife,
       upperFluid_W_m: (annualFraction * qPeak) / H,
-      full_W_m: (avg_W * seasonFactor) / (bld.foundationPiles * H),
+      full_W_m: (st.avg_W * st.seasonFactor) / (s.building.foundationPiles * H),
     },
     x.window,
   );
@@ -395,71 +524,77 @@ export function evaluateCellMetrics(
   m[M.loadShare] = w.loadShare;
   m[M.extractionCarried] = w.carried_W_m;
   m[M.bindingLimit] = w.binding;
+  st.gLife = gLife;
+  st.gRefLife = gRefLife;
+  st.qPeak = qPeak;
+}
 
-  // 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts
-  const cPiles = w.carried_W_m / (2 * Math.PI * kF);
-  const warmRef = historyWarming_K(k.tables, h, zr, life, alphaYr);
-  let thawPilesYr = Infinity;
-  if (tRef < 0) {
-    const horizon = k.horizon_yr;
-    const t0s = historyTimeToRise_yr(k.tables, h, zr, -tRef, alphaYr, Math.max(horizon, life));
-    const tL = historyLatentDelay_yr(h, t0s, zr, soil.latent, soil.kThawed);
-    const cP = w.carried_W_m / (2 * Math.PI * kF);
-    const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, h, alphaYr, alphaF, zr, horizon });
-    // The front also melts its way down against the pile's cooling: the quasi-steady Stefan front of
-    // years-to-thaw.ts driven by b·(t − t0) − c needs c/b longer, c the cooling at the reference point.
-    const cooling = Number.isFinite(tPs)
-      ? cP * flsResponse(k.tables.referencePoint, alphaF, tPs * SECONDS_PER_YEAR)
-      : 0;
-    // Beyond the climate horizon a thaw is "after <year>" (climate-horizon.ts): the years are capped at
-    // the horizon and flagged, the delay and margin become lower bounds (delay undetermined when
-    // neither thaws within the horizon).
-    const t0 = t0s + tL;
-    const tP = Math.max(t0, tPs + tL + historySurfaceGain_yr(h, tPs + tL, cooling));
-    thawPilesYr = tP;
-    const flag = !(t0 <= horizon)
-      ? THAW_HORIZON.bothAfter
-      : !(tP <= horizon)
-        ? THAW_HORIZON.pilesAfter
-        : THAW_HORIZON.within;
-    const t0c = Math.min(t0, horizon);
-    const tPc = Math.min(tP, horizon);
-    m[M.thawBeyondHorizon] = flag;
-    m[M.thawYear] = s.startYear + t0c;
-    m[M.thawYearPiles] = s.startYear + tPc;
-    m[M.thawDelay] = flag === THAW_HORIZON.bothAfter ? NaN : tPc - t0c;
-    m[M.frozenMargin] = tPc - life;
-  }
+/** Steps 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts. */
+function thawStage(k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
+  const tRef = st.tRef;
+  const life = s.designLife_yr;
+  st.thawPilesYr = Infinity;
+  if (!(tRef < 0)) return;
+  const { h, alphaYr, alphaF } = st;
+  const zr = s.referenceDepth_m;
+  const w = x.window;
+  const horizon = k.horizon_yr;
+  const t0s = historyTimeToRise_yr(k.tables, h, zr, -tRef, alphaYr, Math.max(horizon, life));
+  const tL = historyLatentDelay_yr(h, t0s, zr, x.soil.latent, x.soil.kThawed);
+  const cP = w.carried_W_m / (2 * Math.PI * x.soil.kFrozen);
+  const tPs = thawWithPiles(k, { tRef, t0: t0s, cP, h, alphaYr, alphaF, zr, horizon });
+  // The front also melts its way down against the pile's cooling: the quasi-steady Stefan front of
+  // years-to-thaw.ts driven by b·(t − t0) − c needs c/b longer, c the cooling at the reference point.
+  const cooling = Number.isFinite(tPs)
+    ? cP * flsResponse(k.tables.referencePoint, alphaF, tPs * SECONDS_PER_YEAR)
+    : 0;
+  // Beyond the climate horizon a thaw is "after <year>" (climate-horizon.ts): the years are capped at
+  // the horizon and flagged, the delay and margin become lower bounds (delay undetermined when
+  // neither thaws within the horizon).
+  const t0 = t0s + tL;
+  const tP = Math.max(t0, tPs + tL + historySurfaceGain_yr(h, tPs + tL, cooling));
+  st.thawPilesYr = tP;
+  const flag = !(t0 <= horizon)
+    ? THAW_HORIZON.bothAfter
+    : !(tP <= horizon)
+      ? THAW_HORIZON.pilesAfter
+      : THAW_HORIZON.within;
+  const t0c = Math.min(t0, horizon);
+  const tPc = Math.min(tP, horizon);
+  m[M.thawBeyondHorizon] = flag;
+  m[M.thawYear] = s.startYear + t0c;
+  m[M.thawYearPiles] = s.startYear + tPc;
+  m[M.thawDelay] = flag === THAW_HORIZON.bothAfter ? NaN : tPc - t0c;
+  m[M.frozenMargin] = tPc - life;
+}
 
+/**
+ * Steps 3b-3d (they need the carried load): the adfreeze zone at the end of the life with the piles
+ * operating, the end-of-life active layer, and the structure (foundation-checks.ts).
+ */
+function endOfLifeStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
+  const soil = x.soil;
+  const kF = soil.kFrozen;
+  const life = s.designLife_yr;
+  const zp = k.pileMidDepth_m;
+  const thawsInLife = st.thawPilesYr <= life;
   // 3b. end-of-life adfreeze zone with the piles operating (the reference point), latent-aware
-  const adfEnd = tRef + warmRef - cPiles * gRefLife;
+  const cPiles = x.window.carried_W_m / (2 * Math.PI * kF);
+  const warmRef = historyWarming_K(k.tables, st.h, s.referenceDepth_m, life, st.alphaYr);
+  const adfEnd = st.tRef + warmRef - cPiles * st.gRefLife;
   // thawed within the life: at least 0 °C; not yet thawed: at most 0 °C (its ice still melting, the
   // zero curtain, as groundTempEndOfLife_C)
-  m[M.adfreezeTempEndPiles] = thawPilesYr <= life ? Math.max(0, adfEnd) : Math.min(0, adfEnd);
+  m[M.adfreezeTempEndPiles] = thawsInLife ? Math.max(0, adfEnd) : Math.min(0, adfEnd);
 
   // 3c. end-of-life active layer (air warmed by the trend; piles neglected above the insulated top)
-  const airEnd = degreeDays({
-    meanAirTemp_C: cell.meanAirTemp_C + airLife_K,
-    amplitude_C: cell.airAmplitude_C,
-  });
-  const ttopEnd = ttop_C({
-    freezingIndex_Cd: airEnd.freezingIndex_Cd,
-    thawingIndex_Cd: airEnd.thawingIndex_Cd,
-    nFreeze: nF,
-    nThaw: nT,
-    kThawed_W_mK: soil.kThawed,
-    kFrozen_W_mK: kF,
-  });
-  const altEnd = neumannActiveLayerKernel_m(
-    nT * airEnd.thawingIndex_Cd,
-    thawSeasonFraction(cell.meanAirTemp_C + airLife_K, cell.airAmplitude_C),
-    ttopEnd,
-    soil.kThawed,
-    kF,
-    soil.cThawed,
-    soil.cFrozen,
-    soil.latent,
-  );
+  const meanAirEnd_C = cell.meanAirTemp_C + st.airLife_K;
+  const airEnd = degreeDays({ meanAirTemp_C: meanAirEnd_C, amplitude_C: cell.airAmplitude_C });
+  const ttopEnd = cellTtop_C(airEnd, st.nF, st.nT, soil);
+  const altEnd = cellActiveLayer_m(airEnd, meanAirEnd_C, cell.airAmplitude_C, ttopEnd, st.nT, soil);
   m[M.activeLayerEnd] = altEnd;
 
   // 3d. structure: adfreeze capacity, frost jacking, thaw settlement (foundation-checks.ts)
@@ -467,19 +602,19 @@ export function evaluateCellMetrics(
   foundationKernel(
     k,
     {
-      tableTemp_C: Number.isNaN(cell.groundTemp_C) ? ttop : tPile - grad * Math.max(0, zp - alt),
-      activeLayer_m: alt,
-      gradient_K_m: grad,
-      warmingRate_K_yr: meanSurfaceRate_K_yr(h, life),
-      diffusivity_m2_yr: alphaYr,
-      dampingDepth_m: dampingDepth_m(alphaF),
+      tableTemp_C: Number.isNaN(cell.groundTemp_C) ? st.ttop : st.tPile - st.grad * Math.max(0, zp - st.alt),
+      activeLayer_m: st.alt,
+      gradient_K_m: st.grad,
+      warmingRate_K_yr: meanSurfaceRate_K_yr(st.h, life),
+      diffusivity_m2_yr: st.alphaYr,
+      dampingDepth_m: dampingDepth_m(st.alphaF),
     },
     {
       activeLayerEnd_m: altEnd,
-      coolingEnd_K: cPiles * gRefLife,
-      frostSusceptible: isFrostSusceptible(tex),
+      coolingEnd_K: cPiles * st.gRefLife,
+      frostSusceptible: isFrostSusceptible(cell.textureClass),
       excessIce_m3m3: m[M.excessIce],
-      thawsInLife: thawPilesYr <= life,
+      thawsInLife,
     },
     fnd,
   );
@@ -492,20 +627,29 @@ export function evaluateCellMetrics(
   m[M.thawSettlement] = fnd.settlement_m;
   m[M.iceRichThawYear] =
     m[M.excessIce] > s.suitability.foundation.thawUnstableExcessIce_m3m3 ? m[M.thawYearPiles] : NaN;
+}
 
-  // 8. economics
+/** Step 8. economics: seasonal and system COP, fuel, CO2, cost, capital cost and payback. */
+function economicsStage(k: CellConstants, x: KernelScratch, m: Float64Array): void {
+  const s = k.scenario;
+  const st = x.state;
+  const w = x.window;
+  const hp = s.heatPump;
   const eft = enteringFromMeanFluid_C(
-    tPile - w.carried_W_m * (s.pile.resistance_mK_W + gLife / (2 * Math.PI * kF)),
+    st.tPile - w.carried_W_m * (s.pile.resistance_mK_W + st.gLife / (2 * Math.PI * x.soil.kFrozen)),
     2 * hp.fluidHalfDelta_K,
     'heating',
   );
   const scop = copFromTable(k.cop, eft);
-  const heat_kWh = w.loadShare * demand_kWh;
+  const heat_kWh = w.loadShare * st.demand_kWh;
   m[M.seasonalCop] = scop;
   // system COP (system-cop.ts): the heat pump sized to the piles' carried peak
   const copLimit = copFromTable(k.cop, hp.minEnteringFluid_C);
   const carriedShare = w.upperFluid_W_m > 0 ? Math.min(1, w.carried_W_m / w.upperFluid_W_m) : 0;
-  const capacity_W = Math.min(peak_W, (bld.foundationPiles * qPeak * carriedShare) / groundFactor);
+  const capacity_W = Math.min(
+    st.peak_W,
+    (s.building.foundationPiles * st.qPeak * carriedShare) / st.groundFactor,
+  );
   const sys = x.system;
   systemKernel(s, k.system, Math.max(0, capacity_W), heat_kWh, scop, copLimit, sys);
   const cop = sys.systemCop;
@@ -514,15 +658,9 @@ export function evaluateCellMetrics(
   m[M.fuelSaved] = fuelSavedKernel_L(k.econ, heat_kWh, cop);
   m[M.co2Avoided] = co2AvoidedKernel_t(k.econ, heat_kWh, cop);
   m[M.costSaved] = costSavedKernel(k.econ, heat_kWh, cop);
-  m[M.fuelIncrease] = cop < be.fuel ? 1 : 0;
+  m[M.fuelIncrease] = cop < k.breakEven.fuel ? 1 : 0;
   m[M.capitalCost] = sys.capitalCost;
   m[M.simplePayback] = simplePayback_yr(sys.capitalCost, m[M.costSaved]);
-
-  // 9. hard foundation checks, soft scores, class (cell-class.ts)
-  const c = classifyCell(m, tex, s, k.weights);
-  m[M.exclusion] = c.exclusion;
-  m[M.suitabilityScore] = c.score;
-  m[M.suitability] = c.suitability;
 }
 
 /** Air warming of a cell `t_yr` after the start year, K: its linear trend, or the (pattern-scaled) pathway. */

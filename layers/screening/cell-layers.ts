@@ -28,27 +28,13 @@ const SIZING_SRC =
   'three-pulse method (Kavanaugh & Rafferty 1997), month by month against the lagged ground, with the foundation group field response';
 const ECON_SRC = 'degree-day demand; diesel-grid vs oil-furnace balance (reference-values §12)';
 
-/** The layer definitions for a scenario (units and texts; ranges come from the build). */
-export function cellLayers(s: Scenario): ScreeningLayer[] {
-  const cur = s.economics.currency;
+type LayerTexts = Pick<ScreeningLayer, 'description' | 'source' | 'horizon'>;
+type SomeLayerTexts = Partial<Record<MetricId, LayerTexts>>;
+
+/** Texts of the class, the ground-temperature and active-layer layers and the soil inputs. */
+function groundTexts(s: Scenario) {
   const life = s.designLife_yr;
-  const z = s.referenceDepth_m;
-  const r = s.referenceRadius_m;
-  const group = `${s.building.foundationPiles}-pile, ${s.building.pileSpacing_m} m spacing`;
-  const hy = effectiveHorizonYear(s);
-  const horizon = (
-    after: number[],
-    atLeast: number[],
-    undetermined: number[],
-  ): ScreeningLayer['horizon'] => ({
-    year: hy,
-    flagBand: BAND.thawBeyondHorizon,
-    after,
-    atLeast,
-    undetermined,
-  });
-  const { pilesAfter, bothAfter } = THAW_HORIZON;
-  const L: Record<MetricId, Pick<ScreeningLayer, 'description' | 'source' | 'horizon'>> = {
+  return {
     suitability: {
       description: 'Hard exclusions first, then the weighted soft criteria (see criteria).',
       source: 'Pile Atlas screening rules (scenario weights)',
@@ -83,6 +69,42 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       source:
         'two-phase Neumann solution over the thaw season (Carslaw & Jaeger 1959 §11.2), as in the modified Berggren method (Aldrich & Paynter 1953)',
     },
+    bedrockDepth: {
+      description: 'Input depth to bedrock (criterion raw value).',
+      source: 'input grid',
+    },
+    thawStability: {
+      description: 'Texture and ice-content thaw stability score, 0 unstable to 1 stable.',
+      source: 'suitability.ts (common practice)',
+    },
+    excessIce: {
+      description:
+        "Ice beyond the texture's pore space per volume of frozen ground, as water volume: e = (θ − n)/(1 − n) for water content θ above the porosity n, else 0. Its meltwater leaves a thaw strain of about e (settlement per metre of thawed ground).",
+      source:
+        'soil catalogue porosity at the texture default density (soil-catalogue.ts); input water + ice content',
+    },
+  } satisfies SomeLayerTexts;
+}
+
+/** Texts of the thaw-year layers, with the climate horizon that caps them (climate-horizon.ts). */
+function thawTexts(s: Scenario) {
+  const life = s.designLife_yr;
+  const z = s.referenceDepth_m;
+  const r = s.referenceRadius_m;
+  const hy = effectiveHorizonYear(s);
+  const horizon = (
+    after: number[],
+    atLeast: number[],
+    undetermined: number[],
+  ): ScreeningLayer['horizon'] => ({
+    year: hy,
+    flagBand: BAND.thawBeyondHorizon,
+    after,
+    atLeast,
+    undetermined,
+  });
+  const { pilesAfter, bothAfter } = THAW_HORIZON;
+  return {
     thawYear: {
       description: `Year the ground at ${z} m thaws under the warming trend: conduction to 0 °C plus melting of its ice; ${hy} with thawBeyondHorizon = 2 means after ${hy} (the scenario's climate horizon).`,
       source: RAMP_SRC,
@@ -103,6 +125,21 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       source: FLS_SRC,
       horizon: horizon([], [pilesAfter, bothAfter], []),
     },
+    zeroCurtain: {
+      description: `Where groundTempEnd is 0 °C because latent heat holds the ground at its freezing point (after ${life} years, without piles).`,
+      source: RAMP_SRC,
+    },
+    thawBeyondHorizon: {
+      description: `Whether the thaw years fall after ${hy}, the scenario's climate horizon (thawYear, thawYearPiles, thawDelay and frozenMargin read "after ${hy}" or "≥" there).`,
+      source: 'scenario climateHorizonYear (climate-horizon.ts)',
+    },
+  } satisfies SomeLayerTexts;
+}
+
+/** Texts of the pile-yield and operating-window layers. */
+function pileTexts(s: Scenario) {
+  const group = `${s.building.foundationPiles}-pile, ${s.building.pileSpacing_m} m spacing`;
+  return {
     extractionPerPile: {
       description: `Annual-average heat a standard pile of the ${group} foundation yields at the fluid limit through the design life.`,
       source: SIZING_SRC,
@@ -141,6 +178,12 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       description: 'Which bound of the operating window limits the piles.',
       source: 'operating window (operating-window.ts)',
     },
+  } satisfies SomeLayerTexts;
+}
+
+/** Texts of the heat-pump and economics layers. */
+function economicsTexts() {
+  return {
     seasonalCop: {
       description: 'Heat-pump seasonal COP at the seasonal mean entering fluid temperature.',
       source: 'scenario COP curve',
@@ -177,28 +220,18 @@ export function cellLayers(s: Scenario): ScreeningLayer[] {
       description: 'Flag where the seasonal COP is below the fuel break-even COP.',
       source: ECON_SRC,
     },
-    bedrockDepth: {
-      description: 'Input depth to bedrock (criterion raw value).',
-      source: 'input grid',
-    },
-    thawStability: {
-      description: 'Texture and ice-content thaw stability score, 0 unstable to 1 stable.',
-      source: 'suitability.ts (common practice)',
-    },
-    excessIce: {
-      description:
-        "Ice beyond the texture's pore space per volume of frozen ground, as water volume: e = (θ − n)/(1 − n) for water content θ above the porosity n, else 0. Its meltwater leaves a thaw strain of about e (settlement per metre of thawed ground).",
-      source:
-        'soil catalogue porosity at the texture default density (soil-catalogue.ts); input water + ice content',
-    },
-    zeroCurtain: {
-      description: `Where groundTempEnd is 0 °C because latent heat holds the ground at its freezing point (after ${life} years, without piles).`,
-      source: RAMP_SRC,
-    },
-    thawBeyondHorizon: {
-      description: `Whether the thaw years fall after ${hy}, the scenario's climate horizon (thawYear, thawYearPiles, thawDelay and frozenMargin read "after ${hy}" or "≥" there).`,
-      source: 'scenario climateHorizonYear (climate-horizon.ts)',
-    },
+  } satisfies SomeLayerTexts;
+}
+
+/** The layer definitions for a scenario (units and texts; ranges come from the build). */
+export function cellLayers(s: Scenario): ScreeningLayer[] {
+  const cur = s.economics.currency;
+  const life = s.designLife_yr;
+  const L: Record<MetricId, LayerTexts> = {
+    ...groundTexts(s),
+    ...thawTexts(s),
+    ...pileTexts(s),
+    ...economicsTexts(),
     ...foundationDescriptions(s),
   };
   return IDS.map((id) => {

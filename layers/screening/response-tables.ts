@@ -102,27 +102,8 @@ function tabulateAll(
   return buildLogTable((x) => ys.get(x) ?? NaN, range);
 }
 
-function build(s: Scenario): ResponseTables {
-  const geometry = {
-    length_m: s.pile.length_m,
-    buriedDepth_m: s.pile.topDepth_m,
-    diffusivity_m2_s: 1,
-  };
-  const fls = { xMin: 1e-3, xMax: 1e5, perDecade: 10 };
-  const field = { xMin: 1e-3, xMax: 1e5, perDecade: 10 };
-  const point = { xMin: 1e-3, xMax: 1e5, perDecade: 20 };
-  const group = foundationGroup(s);
-  // Reference-point distances grouped to 1 µm (regular layouts repeat them).
-  const refCounts = new Map<number, number>();
-  for (const d of group.referenceDistances_m) {
-    const key = Math.round(d * 1e6) / 1e6;
-    refCounts.set(key, (refCounts.get(key) ?? 0) + 1);
-  }
-  const H = s.pile.length_m;
-  const D = s.pile.topDepth_m;
-  const zr = s.referenceDepth_m;
-  const rampForward = buildLogTable(rampShape, { xMin: TAU_MIN, xMax: TAU_MAX, perDecade: 40, logY: true });
-  // Inverse by bisection in log τ on the forward table (F is increasing).
+/** The inverse of the ramp shape F, by bisection in log τ on the forward table (F is increasing). */
+function rampInverseTable(rampForward: LogTable): LogTable {
   const solveTau = (f: number): number => {
     let lo = Math.log(TAU_MIN);
     let hi = Math.log(TAU_MAX);
@@ -133,6 +114,14 @@ function build(s: Scenario): ResponseTables {
     }
     return Math.exp(0.5 * (lo + hi));
   };
+  return buildLogTable(solveTau, { xMin: F_MIN, xMax: 2e6, perDecade: 40, logY: true });
+}
+
+/** Mean field responses of the foundation group and of the larger fields the sizing may need. */
+function fieldTables(s: Scenario, group: ReturnType<typeof foundationGroup>) {
+  const H = s.pile.length_m;
+  const D = s.pile.topDepth_m;
+  const field = { xMin: 1e-3, xMax: 1e5, perDecade: 10 };
   const fieldTable = (positions: { x_m: number; y_m: number }[]) =>
     tabulateAll(
       (xs) =>
@@ -168,9 +157,32 @@ function build(s: Scenario): ResponseTables {
       ),
     ],
   };
+  return { fieldMean, fieldBySize };
+}
+
+function build(s: Scenario): ResponseTables {
+  const geometry = {
+    length_m: s.pile.length_m,
+    buriedDepth_m: s.pile.topDepth_m,
+    diffusivity_m2_s: 1,
+  };
+  const fls = { xMin: 1e-3, xMax: 1e5, perDecade: 10 };
+  const point = { xMin: 1e-3, xMax: 1e5, perDecade: 20 };
+  const group = foundationGroup(s);
+  // Reference-point distances grouped to 1 µm (regular layouts repeat them).
+  const refCounts = new Map<number, number>();
+  for (const d of group.referenceDistances_m) {
+    const key = Math.round(d * 1e6) / 1e6;
+    refCounts.set(key, (refCounts.get(key) ?? 0) + 1);
+  }
+  const H = s.pile.length_m;
+  const D = s.pile.topDepth_m;
+  const zr = s.referenceDepth_m;
+  const rampForward = buildLogTable(rampShape, { xMin: TAU_MIN, xMax: TAU_MAX, perDecade: 40, logY: true });
+  const { fieldMean, fieldBySize } = fieldTables(s, group);
   return {
     rampForward,
-    rampInverse: buildLogTable(solveTau, { xMin: F_MIN, xMax: 2e6, perDecade: 40, logY: true }),
+    rampInverse: rampInverseTable(rampForward),
     pileMean: buildLogTable(
       (x) => finiteLineSourceG({ ...geometry, radius_m: s.pile.radius_m, time_s: x, point: 'mean' }),
       fls,

@@ -166,11 +166,11 @@ export function standardLoadAtColdestAir_W(s: Scenario, meanAirTemp_C: number, a
   return designHeatingLoad_W({ ...s.building, designMargin_K: 0, meanAirTemp_C, amplitude_C });
 }
 
-/** Build the site form's starting input from a cell (see the module comment for the mapping). */
-export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): SitePrefill {
-  const s = scenarioFromManifest(scenarioRaw);
-  const notes: PrefillNote[] = [];
-  const pick = (band: BandId, path: string, fallback: number, what: string): number => {
+/** A band's value, or the regional fallback with a note naming the site-input path. */
+type BandPick = (band: BandId, path: string, fallback: number, what: string) => number;
+
+function bandPicker(values: CellBandValues, notes: PrefillNote[]): BandPick {
+  return (band, path, fallback, what) => {
     const v = values[band];
     if (finite(v)) return v;
     notes.push({
@@ -179,6 +179,10 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
     });
     return fallback;
   };
+}
+
+/** The site's climate from the cell's air bands, n-factors and heat flux from the scenario where absent. */
+function climateFromCell(values: CellBandValues, s: Scenario, pick: BandPick) {
   const maat = round(
     pick(
       BAND.meanAirTemp_C,
@@ -210,7 +214,14 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   const flux = finite(values.geothermalFlux_W_m2)
     ? round(values.geothermalFlux_W_m2, 4)
     : s.ground.geothermalFlux_W_m2;
+  return { maat, amp, warming, nFreeze, flux };
+}
 
+/** The ground layers from the cell's texture, water + ice content and bedrock depth (module comment). */
+function layersFromCell(
+  pick: BandPick,
+  notes: PrefillNote[],
+): NonNullable<SiteInputDraft['ground']['layers']> {
   const code = pick(
     BAND.textureClass,
     'ground.layers.0.soil.texture',
@@ -235,24 +246,54 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
     bottom_m: DOMAIN_DEPTH_M,
     soil: { texture: 'bedrock' as const, waterContent_m3m3: PREFILL_FALLBACKS.bedrockWater_m3m3 },
   });
-  let layers: NonNullable<SiteInputDraft['ground']['layers']>;
   if (texture === 'bedrock' || bedrock < 0.2) {
-    layers = [bedrockLayer(0)];
-  } else {
-    const cap = MAX_SITE_WATER_CONTENT_M3M3;
-    const water = round(Math.min(Math.max(rawWater, 0), cap), 3);
-    // Compare before rounding: rounding to 3 digits is not a cap (a build's 0.1435 is not "capped").
-    if (rawWater > cap) {
-      notes.push({
-        path: 'ground.layers.0.soil.waterContent_m3m3',
-        text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds the site input's largest water + ice content; capped at ${water}.`,
-      });
-    }
-    const soilBottom = Math.min(round(bedrock, 1), DOMAIN_DEPTH_M);
-    layers = [{ top_m: 0, bottom_m: soilBottom, soil: { texture, waterContent_m3m3: water } }];
-    if (soilBottom < DOMAIN_DEPTH_M) layers.push(bedrockLayer(soilBottom));
+    return [bedrockLayer(0)];
   }
+  const cap = MAX_SITE_WATER_CONTENT_M3M3;
+  const water = round(Math.min(Math.max(rawWater, 0), cap), 3);
+  // Compare before rounding: rounding to 3 digits is not a cap (a build's 0.1435 is not "capped").
+  if (rawWater > cap) {
+    notes.push({
+      path: 'ground.layers.0.soil.waterContent_m3m3',
+      text: `Map water content ${rawWater.toFixed(2)} m³/m³ exceeds the site input's largest water + ice content; capped at ${water}.`,
+    });
+  }
+  const soilBottom = Math.min(round(bedrock, 1), DOMAIN_DEPTH_M);
+  const layers: NonNullable<SiteInputDraft['ground']['layers']> = [
+    { top_m: 0, bottom_m: soilBottom, soil: { texture, waterContent_m3m3: water } },
+  ];
+  if (soilBottom < DOMAIN_DEPTH_M) layers.push(bedrockLayer(soilBottom));
+  return layers;
+}
 
+/** The map's standard pile as the calibration models it (module comment), with the map's resistance. */
+function standardPileDraft(s: Scenario, maat: number, amp: number): SiteInputDraft['pile'] {
+  const p = s.pile;
+  return {
+    length_m: p.length_m,
+    topDepth_m: p.topDepth_m,
+    outerDiameter_m: round(2 * p.radius_m, 4),
+    wallThickness_m: 0.0071,
+    loop: {
+      type: 'coaxial',
+      centreOuterDiameter_m: 0.05,
+      centreInnerDiameter_m: 0.044,
+      centreConductivity_W_mK: 0.4,
+      downFlow: 'annulus',
+    },
+    fluid: { name: 'propyleneGlycol', massFraction: PREFILL_GLYCOL },
+    flow_L_min: prefillFlowPerPile_L_min(s, maat, amp),
+    resistance: { Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 },
+  };
+}
+
+/** Build the site form's starting input from a cell (see the module comment for the mapping). */
+export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): SitePrefill {
+  const s = scenarioFromManifest(scenarioRaw);
+  const notes: PrefillNote[] = [];
+  const pick = bandPicker(values, notes);
+  const { maat, amp, warming, nFreeze, flux } = climateFromCell(values, s, pick);
+  const layers = layersFromCell(pick, notes);
   const p = s.pile;
   notes.push({
     path: 'pile.resistance',
@@ -271,22 +312,7 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
       nThaw: s.ground.nThaw,
       nFreeze,
     },
-    pile: {
-      length_m: p.length_m,
-      topDepth_m: p.topDepth_m,
-      outerDiameter_m: round(2 * p.radius_m, 4),
-      wallThickness_m: 0.0071,
-      loop: {
-        type: 'coaxial',
-        centreOuterDiameter_m: 0.05,
-        centreInnerDiameter_m: 0.044,
-        centreConductivity_W_mK: 0.4,
-        downFlow: 'annulus',
-      },
-      fluid: { name: 'propyleneGlycol', massFraction: PREFILL_GLYCOL },
-      flow_L_min: prefillFlowPerPile_L_min(s, maat, amp),
-      resistance: { Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 },
-    },
+    pile: standardPileDraft(s, maat, amp),
     operation: {
       mode: 'building',
       designLoad_W: Math.max(load, 100),

@@ -75,20 +75,27 @@ function row(
   return { ...rest, quickOnePile: one, difference, agreement };
 }
 
-function thawRows(run: SiteStudyRun, d: ReportBase, s: Scenario): StudyComparisonRow[] {
-  const res = run.result;
-  const p0 = run.input.probes[0];
-  const m = d.quick?.metrics;
-  const m1 = d.quickOnePile?.metrics;
-  const where = p0 ? `${p0.r_m} m from the pile axis, ${p0.z_m} m deep` : 'the reference point';
-  const years = run.input.years;
-  const runEnd = s.startYear + years;
-  const noPileThaw = res.noPile.probes[0]?.thawYear ?? null;
-  // Thaw year without piles: the calibrated thaw figure (no pile on either side).
+/** What every row builder reads: the run, the report so far, the scenario and the map's metrics. */
+interface RowContext {
+  run: SiteStudyRun;
+  d: ReportBase;
+  s: Scenario;
+  /** The map's metrics: the building on its foundation group, and the one-pile form. */
+  m: NonNullable<ReportBase['quick']>['metrics'] | undefined;
+  m1: NonNullable<ReportBase['quickOnePile']>['metrics'] | undefined;
+  /** Where the first probe is, in words. */
+  where: string;
+}
+
+/** Thaw year without piles at the first probe: the calibrated thaw figure (no pile on either side). */
+function noPileThawRow(c: RowContext): StudyComparisonRow {
+  const { run, s, m, where } = c;
+  const runEnd = s.startYear + run.input.years;
+  const noPileThaw = run.result.noPile.probes[0]?.thawYear ?? null;
   const mapThaw = m?.thawYear.value ?? null;
   const mapAfter = m?.thawYear.qualifier !== undefined;
   const simThaw = noPileThaw !== null ? s.startYear + noPileThaw : null;
-  const onset = row({
+  return row({
     quantity: 'noPileThaw',
     title: `Thaw without piles at ${where} (calendar year)`,
     unit: '',
@@ -104,6 +111,16 @@ function thawRows(run: SiteStudyRun, d: ReportBase, s: Scenario): StudyCompariso
           ? `The run ends in ${runEnd}, before the map's thaw year; run at least ${Math.ceil(mapThaw - s.startYear) + 5} years to compare.`
           : 'The map: conduction of the surface warming to the reference depth plus the time to melt its ice (a Stefan delay); the study: the simulated ground column with freezing and thawing.',
   });
+}
+
+/** Thaw delay at the first probe: the simulated delay, or why the run cannot give one. */
+function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparisonRow {
+  const { run, s, m, m1, where } = c;
+  const res = run.result;
+  const p0 = run.input.probes[0];
+  const years = run.input.years;
+  const runEnd = s.startYear + years;
+  const noPileThaw = res.noPile.probes[0]?.thawYear ?? null;
   const delay = res.thawDelay_yr[0] ?? null;
   const lower = res.thawDelayIsLowerBound[0] ?? false;
   const upper = res.thawDelayIsUpperBound[0] ?? false;
@@ -119,124 +136,121 @@ function thawRows(run: SiteStudyRun, d: ReportBase, s: Scenario): StudyCompariso
     quickText: m?.thawDelay.qualifier,
     band: null,
   };
-  let delayRow: StudyComparisonRow;
   if (noPileThaw === 0) {
-    delayRow = row({
+    return row({
       ...base,
       simulated: null,
       simulatedText: 'ground unfrozen at the start: nothing to delay',
       comparable: false,
       reason: `The simulated ground at ${where} is unfrozen from the first year, so there is no thaw to delay.`,
     });
-  } else if (delay === null) {
-    delayRow = row({
+  }
+  if (delay === null) {
+    return row({
       ...base,
       simulated: null,
       simulatedText: res.withPile ? `no thaw within ${years} yr either way` : 'no pile in this run',
       comparable: false,
       reason: `The ground at ${where} does not thaw within the run even without the pile, so the run cannot measure a delay. ${onset.reason}`,
     });
-  } else if (upper) {
-    delayRow = row({
+  }
+  if (upper) {
+    return row({
       ...base,
       simulated: delay,
       simulatedText: `none: the pile brings the thaw forward by more than ${f1(-delay)} yr`,
       comparable: false,
       reason: `In the run the pile thaws the ground at ${where} earlier than without it. ${models}`,
     });
-  } else if (lower) {
-    delayRow = row({
+  }
+  if (lower) {
+    return row({
       ...base,
       simulated: delay,
       simulatedText: `more than ${f1(delay)} yr (the ground with the pile is still frozen when the run ends)`,
       comparable: false,
       reason: `The simulated delay is only a lower bound: the ground with the pile is still frozen in ${runEnd}. ${models}`,
     });
-  } else {
-    delayRow = row({ ...base, simulated: delay, reason: models });
   }
-  return [onset, delayRow];
+  return row({ ...base, simulated: delay, reason: models });
 }
 
-/** Every shared quantity (module comment). */
-export function compareStudy(input: {
-  run: SiteStudyRun;
-  report: ReportBase;
-  scenario: Scenario;
-}): StudyComparisonRow[] {
-  const { run, report: d, scenario: s } = input;
-  const m = d.quick?.metrics;
-  const m1 = d.quickOnePile?.metrics;
-  const pile = run.input.pile;
-  const length_m = pile?.length_m ?? s.pile.length_m;
+/** Piles for the design-day load: the map's piles per ton against the study's sizing. */
+function pileCountRow(c: RowContext): StudyComparisonRow {
+  const { run, d, s, m } = c;
   const peak_W = d.peakLoad_W;
-  const group = `${s.building.foundationPiles}-pile foundation at ${s.building.pileSpacing_m} m spacing`;
-  const onePile =
-    "The simulated pile carries one pile's share of the building; the map's one-pile form (one pile, that share of the load) is its calibrated counterpart, " +
-    `while the map itself shows a pile of the ${group}, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).`;
-  const rows: StudyComparisonRow[] = thawRows(run, d, s);
-
   const quickPiles =
     m && peak_W && m.pilesPerTon.value !== null
       ? Math.ceil((m.pilesPerTon.value * peak_W) / WATTS_PER_TON)
       : null;
   const sized = d.sizing;
-  rows.push(
-    row({
-      quantity: 'pileCount',
-      title: peak_W ? `Piles for the design-day load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
-      unit: '',
-      quick: quickPiles,
-      simulated: sized?.ok ? sized.sizing.pileCount : null,
-      simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
-      band: CALIBRATION_BANDS.pileCount,
-      reason:
-        `Both count a field of as many piles as the load needs (near-square at the foundation spacing, ${s.building.pileSpacing_m} m), for the same building, pile and fluid limit over the design life (${s.designLife_yr} yr), with the design-day peak. ` +
-        'The map checks every month against the seasonal ground wave along the pile computed by conduction alone (TTOP ground' +
-        (m && m.groundTemp.value !== null ? ` ${f1(m.groundTemp.value)} °C` : '') +
-        '); the study checks every month against the simulated ground along the pile' +
-        (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C at mid-pile)` : '') +
-        ', whose winter dip is smaller because the freezing active layer releases latent heat, so it needs fewer piles' +
-        (run.result.fluid
-          ? `; pile resistance ${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)}.`
-          : '.'),
-    }),
-  );
+  return row({
+    quantity: 'pileCount',
+    title: peak_W ? `Piles for the design-day load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
+    unit: '',
+    quick: quickPiles,
+    simulated: sized?.ok ? sized.sizing.pileCount : null,
+    simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
+    band: CALIBRATION_BANDS.pileCount,
+    reason:
+      `Both count a field of as many piles as the load needs (near-square at the foundation spacing, ${s.building.pileSpacing_m} m), for the same building, pile and fluid limit over the design life (${s.designLife_yr} yr), with the design-day peak. ` +
+      'The map checks every month against the seasonal ground wave along the pile computed by conduction alone (TTOP ground' +
+      (m && m.groundTemp.value !== null ? ` ${f1(m.groundTemp.value)} °C` : '') +
+      '); the study checks every month against the simulated ground along the pile' +
+      (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C at mid-pile)` : '') +
+      ', whose winter dip is smaller because the freezing active layer releases latent heat, so it needs fewer piles' +
+      (run.result.fluid
+        ? `; pile resistance ${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)}.`
+        : '.'),
+  });
+}
 
+/** Heat per pile and the load share: the simulated pile against the map's one-pile form. */
+function heatRows(c: RowContext): StudyComparisonRow[] {
+  const { run, d, s, m, m1 } = c;
+  const length_m = run.input.pile?.length_m ?? s.pile.length_m;
+  const group = `${s.building.foundationPiles}-pile foundation at ${s.building.pileSpacing_m} m spacing`;
+  const onePile =
+    "The simulated pile carries one pile's share of the building; the map's one-pile form (one pile, that share of the load) is its calibrated counterpart, " +
+    `while the map itself shows a pile of the ${group}, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).`;
   const atLimit = d.window?.fluidAtLimit ?? false;
   const carried = m?.extractionCarried.value ?? null;
   const carried1 = m1?.extractionCarried.value ?? null;
-  rows.push(
-    row({
-      quantity: 'heatPerPile',
-      title: 'Heat from the ground per pile, annual mean',
-      unit: 'W',
-      quick: carried !== null ? carried * length_m : null,
-      quickOnePile: carried1 !== null ? carried1 * length_m : null,
-      simulated: d.extraction_W,
-      band: atLimit ? CALIBRATION_BANDS.heatPerPile : null,
-      reason:
-        onePile +
-        (atLimit
-          ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
-          : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
-        ' Two differences in operation, not in the ground: the map holds the fluid limit through a 6-hour design peak each month and scales the whole year down until the limiting month just reaches the limit (a heat pump no larger than the piles can carry at peak); ' +
-        'the study steps a week at a time, cannot see the 6-hour peak, and cuts only the weeks that reach the limit (backup heat covers the rest), so its pile draws more heat.',
-    }),
-  );
-  rows.push(
-    row({
-      quantity: BAND.loadShare,
-      title: "Share of the building's heating the piles carry",
-      unit: '',
-      quick: m?.loadShare.value ?? null,
-      quickOnePile: m1?.loadShare.value ?? null,
-      simulated: d.loadShare,
-      band: CALIBRATION_BANDS.loadShare,
-      reason: `${onePile} The map's share is the whole year scaled down until the limiting month's 6-hour peak just reaches the fluid limit; the study's is the heat delivered over the heating demand of the run with only the weeks at the limit cut (backup heat covers them) and no 6-hour peak, so it carries more. The calibration bound is for the map's operation and does not cover this difference.`,
-    }),
-  );
-  rows.push(
+  const heat = row({
+    quantity: 'heatPerPile',
+    title: 'Heat from the ground per pile, annual mean',
+    unit: 'W',
+    quick: carried !== null ? carried * length_m : null,
+    quickOnePile: carried1 !== null ? carried1 * length_m : null,
+    simulated: d.extraction_W,
+    band: atLimit ? CALIBRATION_BANDS.heatPerPile : null,
+    reason:
+      onePile +
+      (atLimit
+        ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
+        : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
+      ' Two differences in operation, not in the ground: the map holds the fluid limit through a 6-hour design peak each month and scales the whole year down until the limiting month just reaches the limit (a heat pump no larger than the piles can carry at peak); ' +
+      'the study steps a week at a time, cannot see the 6-hour peak, and cuts only the weeks that reach the limit (backup heat covers the rest), so its pile draws more heat.',
+  });
+  const share = row({
+    quantity: BAND.loadShare,
+    title: "Share of the building's heating the piles carry",
+    unit: '',
+    quick: m?.loadShare.value ?? null,
+    quickOnePile: m1?.loadShare.value ?? null,
+    simulated: d.loadShare,
+    band: CALIBRATION_BANDS.loadShare,
+    reason: `${onePile} The map's share is the whole year scaled down until the limiting month's 6-hour peak just reaches the fluid limit; the study's is the heat delivered over the heating demand of the run with only the weeks at the limit cut (backup heat covers them) and no 6-hour peak, so it carries more. The calibration bound is for the map's operation and does not cover this difference.`,
+  });
+  return [heat, share];
+}
+
+/** Ground temperature and active layer: the map's TTOP and Neumann models against the simulated column. */
+function groundRows(c: RowContext): StudyComparisonRow[] {
+  const { run, d, m } = c;
+  const alt = run.result.noPile.annualThawDepth_m[0] ?? null;
+  const noPermafrost = alt !== null && alt >= run.result.mesh.depth_m - 0.01;
+  return [
     row({
       quantity: BAND.groundTemp,
       title: 'Ground temperature at pile mid-depth, today',
@@ -248,10 +262,6 @@ export function compareStudy(input: {
         'The map: the TTOP model (thawing and freezing indices with n-factors, thermal offset of the soil) plus the geothermal gradient; ' +
         'the study: the simulated ground column without the pile, first-year mean, from the same air, n-factors and heat flux. The bound is for the mean along the pile.',
     }),
-  );
-  const alt = run.result.noPile.annualThawDepth_m[0] ?? null;
-  const noPermafrost = alt !== null && alt >= run.result.mesh.depth_m - 0.01;
-  rows.push(
     row({
       quantity: BAND.activeLayer,
       title: 'Active layer (thaw depth), first year',
@@ -264,8 +274,13 @@ export function compareStudy(input: {
         'The map: the two-phase Neumann solution over the thaw season (the thawing index as one step into ground at its TTOP temperature); ' +
         "the study: the deepest thaw of the simulated first year, with the year's full temperature cycle.",
     }),
-  );
-  rows.push(
+  ];
+}
+
+/** Seasonal and system COP, payback, fuel and CO2: they follow the heat and COP of each side. */
+function economicsRows(c: RowContext): StudyComparisonRow[] {
+  const { d, m, m1 } = c;
+  return [
     row({
       quantity: BAND.seasonalCop,
       title: 'Seasonal COP',
@@ -278,8 +293,6 @@ export function compareStudy(input: {
         "The map: the heat pump's curve at the seasonal mean fluid temperature of undisturbed ground; " +
         'the study: the heat pump step by step at the simulated fluid temperature, weighted by the heat delivered. No calibration bound is published.',
     }),
-  );
-  rows.push(
     row({
       quantity: BAND.systemCop,
       title: 'System seasonal COP (pump, backup, controls)',
@@ -290,8 +303,6 @@ export function compareStudy(input: {
       reason:
         'Both from the same system model (circulation pump, backup heat, controls) applied to each side’s heat-pump COP and carried heat. No calibration bound is published.',
     }),
-  );
-  rows.push(
     row({
       quantity: BAND.simplePayback,
       title: 'Simple payback against an oil furnace',
@@ -302,8 +313,6 @@ export function compareStudy(input: {
       reason:
         'Capital cost over the yearly cost saved, both at the system COP: it follows the heat and COP rows.',
     }),
-  );
-  rows.push(
     row({
       quantity: BAND.fuelSaved,
       title: 'Fuel saved on a diesel grid',
@@ -316,8 +325,6 @@ export function compareStudy(input: {
       reason:
         'Same diesel-grid balance for both (oil avoided minus generator diesel added): it follows the heat the piles deliver and the COP, so it differs as the heat-per-pile and COP rows do.',
     }),
-  );
-  rows.push(
     row({
       quantity: BAND.co2Avoided,
       title: 'CO2 avoided',
@@ -328,6 +335,32 @@ export function compareStudy(input: {
       band: null,
       reason: 'Follows the fuel row (same balance, CO2 per litre of each fuel).',
     }),
-  );
-  return rows;
+  ];
+}
+
+/** Every shared quantity (module comment). */
+export function compareStudy(input: {
+  run: SiteStudyRun;
+  report: ReportBase;
+  scenario: Scenario;
+}): StudyComparisonRow[] {
+  const { run, report: d, scenario: s } = input;
+  const p0 = run.input.probes[0];
+  const c: RowContext = {
+    run,
+    d,
+    s,
+    m: d.quick?.metrics,
+    m1: d.quickOnePile?.metrics,
+    where: p0 ? `${p0.r_m} m from the pile axis, ${p0.z_m} m deep` : 'the reference point',
+  };
+  const onset = noPileThawRow(c);
+  return [
+    onset,
+    thawDelayRow(c, onset),
+    pileCountRow(c),
+    ...heatRows(c),
+    ...groundRows(c),
+    ...economicsRows(c),
+  ];
 }

@@ -155,127 +155,128 @@ export function softRanges(s: Scenario): [number, number][] {
   ];
 }
 
-/** Hard exclusions then soft criteria of a scenario, with thresholds, units and normalised weights. */
-export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
-  const u = s.suitability;
-  const f = u.foundation;
+/** Title, unit and description of each soft criterion, in SOFT_CRITERIA_IDS order. */
+const SOFT_CRITERIA_TEXTS: readonly [string, string, string][] = [
+  [
+    'Adfreeze-zone temperature at the end of life (piles operating)',
+    '°C',
+    'Colder ground at the end of the design life keeps more adfreeze strength and creeps less.',
+  ],
+  [
+    'Community fuel saved (system COP)',
+    'L/yr',
+    'Heating oil avoided minus generator diesel added per standard building, at the system seasonal COP: the one energy criterion (it holds the load share and the COP).',
+  ],
+  [
+    'Frost-jacking demand over anchorage',
+    '',
+    'Uplift of the freezing active layer (with the factor of safety) over the anchorage below it: lower is a larger structural margin.',
+  ],
+  [
+    'Thaw stability of the ground',
+    '',
+    'Texture and ice content: gravels and bedrock are stable, ice-rich silts and peat settle.',
+  ],
+];
+
+/** A hard exclusion (weight 0). */
+function exclusion(
+  d: Pick<
+    CriterionDefinition,
+    'id' | 'title' | 'bandId' | 'unit' | 'comparison' | 'threshold' | 'description'
+  >,
+): CriterionDefinition {
+  const { id, title, bandId, unit, comparison, threshold, description } = d;
+  return { id, title, bandId, unit, kind: 'exclusion', comparison, threshold, weight: 0, description };
+}
+
+/** The hard exclusions of a scenario, in the order they are checked (cell-class.ts). */
+function exclusionDefinitions(s: Scenario): CriterionDefinition[] {
+  const f = s.suitability.foundation;
   const tip = s.pile.topDepth_m + s.pile.length_m;
-  const texts: [string, string, string][] = [
-    [
-      'Adfreeze-zone temperature at the end of life (piles operating)',
-      '°C',
-      'Colder ground at the end of the design life keeps more adfreeze strength and creeps less.',
-    ],
-    [
-      'Community fuel saved (system COP)',
-      'L/yr',
-      'Heating oil avoided minus generator diesel added per standard building, at the system seasonal COP: the one energy criterion (it holds the load share and the COP).',
-    ],
-    [
-      'Frost-jacking demand over anchorage',
-      '',
-      'Uplift of the freezing active layer (with the factor of safety) over the anchorage below it: lower is a larger structural margin.',
-    ],
-    [
-      'Thaw stability of the ground',
-      '',
-      'Texture and ice content: gravels and bedrock are stable, ice-rich silts and peat settle.',
-    ],
-  ];
-  const w = softWeights(s);
-  const ranges = softRanges(s);
-  const exclusions: CriterionDefinition[] = [
-    {
+  return [
+    exclusion({
       id: 'data',
       title: 'Inside the data',
       bandId: BAND.exclusion,
       unit: '',
-      kind: 'exclusion',
       comparison: '!=',
       threshold: EXCLUSION.outsideData,
-      weight: 0,
       description: 'All required input grids have a value at the cell (exclusion code is not 1).',
-    },
-    {
+    }),
+    exclusion({
       id: 'rock',
       title: 'Soil depth over bedrock (pile tip plus margin)',
       bandId: BAND.bedrockDepth,
       unit: 'm',
-      kind: 'exclusion',
       comparison: '>=',
       threshold: tip + f.rockMargin_m,
-      weight: 0,
       description: `Screw piles need soil, not rock, down to the ${tip} m tip plus ${f.rockMargin_m} m; bedrock texture always fails.`,
-    },
-    {
+    }),
+    exclusion({
       id: 'permafrost',
       title: 'Permafrost at pile depth',
       bandId: BAND.groundTemp,
       unit: '°C',
-      kind: 'exclusion',
       comparison: '<',
       threshold: 0,
-      weight: 0,
       description: 'Mean annual ground temperature at mid-pile depth below 0 °C today.',
-    },
-    {
+    }),
+    exclusion({
       id: 'thawed',
       title: 'Active layer above the reference depth',
       bandId: BAND.activeLayer,
       unit: 'm',
-      kind: 'exclusion',
       comparison: '<',
       threshold: s.referenceDepth_m,
-      weight: 0,
       description: 'Seasonal thaw must not already reach the foundation reference depth.',
-    },
-    {
+    }),
+    exclusion({
       id: 'adfreezeTemp',
       title: 'Adfreeze-zone temperature at the end of life (piles operating)',
       bandId: BAND.adfreezeTempEndPiles,
       unit: '°C',
-      kind: 'exclusion',
       comparison: '<=',
       threshold: f.maxAdfreezeTempEnd_C,
-      weight: 0,
       description: `Permafrost warmer than ${f.maxAdfreezeTempEnd_C} °C around the piles at the end of the design life loses most of its adfreeze bond and creeps.`,
-    },
-    {
+    }),
+    exclusion({
       id: 'thawUnstable',
       title: 'Thaw year of thaw-unstable ground (piles operating)',
       bandId: BAND.iceRichThawYear,
       unit: 'yr',
-      kind: 'exclusion',
       comparison: '>',
       threshold: s.startYear + s.designLife_yr + f.thawMargin_yr,
-      weight: 0,
       description: `Ice-rich ground (excess ice above ${f.thawUnstableExcessIce_m3m3} m³/m³) must stay frozen at the reference depth beyond the design life plus ${f.thawMargin_yr} yr. No value: the ground is not ice-rich (passes).`,
-    },
-    {
+    }),
+    exclusion({
       id: 'frostJacking',
       title: 'Frost-jacking demand over anchorage',
       bandId: BAND.frostJackingRatio,
       unit: '',
-      kind: 'exclusion',
       comparison: '<=',
       threshold: 1,
-      weight: 0,
       description: `Uplift of the freezing active layer times ${f.jackingSafetyFactor} must not exceed the adfreeze anchorage below it plus the dead load.`,
-    },
-    {
+    }),
+    exclusion({
       id: 'fluid',
       title: 'Fluid can extract heat',
       bandId: BAND.windowUpperFluid,
       unit: 'W/m',
-      kind: 'exclusion',
       comparison: '>',
       threshold: 0,
-      weight: 0,
       description: 'Ground warm enough for the fluid to take heat above the minimum entering temperature.',
-    },
+    }),
   ];
+}
+
+/** Hard exclusions then soft criteria of a scenario, with thresholds, units and normalised weights. */
+export function criteriaDefinitions(s: Scenario): CriterionDefinition[] {
+  const texts = SOFT_CRITERIA_TEXTS;
+  const w = softWeights(s);
+  const ranges = softRanges(s);
   return [
-    ...exclusions,
+    ...exclusionDefinitions(s),
     ...SOFT_CRITERIA_IDS.map((id, i): CriterionDefinition => {
       const [good, poor] = ranges[i];
       return {

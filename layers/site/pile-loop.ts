@@ -78,28 +78,113 @@ export interface PileLoop extends InnerBoundary {
   linearResponse(dInnerT_C: Float64Array, out: Float64Array): void;
 }
 
+type Branch = 'off' | 'inlet' | 'outlet' | 'extraction';
+
+/** The loop's per-row conductances, sweep coefficients and latest evaluation (one per loop). */
+interface LoopState {
+  rows: number;
+  /** Row lengths, m, and the fluid's flow capacity ṁc, W/K. */
+  dz: Float64Array;
+  mc: number;
+  /** Per-metre conductances channel to cell (down, up) and channel to channel, W/m·K. */
+  gc1: Float64Array;
+  gc2: Float64Array;
+  g12: Float64Array;
+  /** Cell temperatures of the latest update, °C. */
+  Tc: Float64Array;
+  /** Sweep coefficients at each face (u = α d + β), the per-row pivots and the face temperatures. */
+  alpha: Float64Array;
+  beta: Float64Array;
+  pivot: Float64Array;
+  Tb: Float64Array;
+  /** The cell temperatures the sweeps read (Tc, or the perturbation in linearResponse). */
+  src: Float64Array;
+  /** Inlet and outlet of the latest evaluation, °C. */
+  evalIn: number;
+  evalOut: number;
+  /** Branch and command value chosen by the latest update. */
+  kind: Branch;
+  value: number;
+  /** Heat-pump latch: the step's on/off decision (null until the step's first evaluation). */
+  stepOn: boolean | null;
+}
+
+function createLoopState(spec: PileLoopSpec): LoopState {
+  const rows = spec.rowLength_m.length;
+  const Tc = new Float64Array(rows);
+  return {
+    rows,
+    dz: Float64Array.from(spec.rowLength_m),
+    mc: spec.flowCapacity_W_K,
+    gc1: new Float64Array(rows),
+    gc2: new Float64Array(rows),
+    g12: new Float64Array(rows),
+    Tc,
+    alpha: new Float64Array(rows + 1),
+    beta: new Float64Array(rows + 1),
+    pivot: new Float64Array(rows),
+    Tb: new Float64Array(rows),
+    src: Tc,
+    evalIn: NaN,
+    evalOut: NaN,
+    kind: 'off',
+    value: 0,
+    stepOn: null,
+  };
+}
+
+/** Star-delta conductances of every row for the half-cell conductances, and the cell temperatures. */
+function setConductances(
+  spec: PileLoopSpec,
+  st: LoopState,
+  innerT: Float64Array,
+  halfCell: Float64Array,
+): void {
+  for (let j = 0; j < st.rows; j++) {
+    const ga = spec.rowActive[j] ? halfCell[j] : 0;
+    const S = ga + spec.gDown_W_mK + spec.gUp_W_mK;
+    st.gc1[j] = (ga * spec.gDown_W_mK) / S;
+    st.gc2[j] = (ga * spec.gUp_W_mK) / S;
+    // Insulated rows: no exchange at all (the channels are taken as insulated from each other too).
+    st.g12[j] = ga > 0 ? spec.gChannels_W_mK + (spec.gDown_W_mK * spec.gUp_W_mK) / S : 0;
+    st.Tc[j] = innerT[j];
+  }
+}
+
+/**
+ * The branch for a command (module comment: the heat pump holds the outlet at its limit, latched off
+ * for the step when the limit allows no extraction): sets st.kind and st.value after the sweep up;
+ * returns whether the outlet is held at its lower limit.
+ */
+function chooseBranch(st: LoopState, cmd: LoopCommand): boolean {
+  st.kind = cmd.kind === 'heatPump' ? 'extraction' : cmd.kind;
+  st.value = 0;
+  if (cmd.kind === 'off') return false;
+  st.src = st.Tc;
+  sweepUp(st);
+  if (cmd.kind !== 'heatPump') {
+    st.value = cmd.kind === 'inlet' ? cmd.inlet_C : cmd.kind === 'outlet' ? cmd.outlet_C : cmd.extraction_W;
+    return false;
+  }
+  const lim = extractionLimit(st, cmd.minOutlet_C);
+  if (st.stepOn === null) st.stepOn = cmd.extraction_W > 0 && lim > 0;
+  if (!st.stepOn) st.kind = 'off';
+  else if (cmd.extraction_W > lim) {
+    st.kind = lim > 0 ? 'outlet' : 'extraction';
+    st.value = lim > 0 ? cmd.minOutlet_C : 0;
+    return lim > 0;
+  } else st.value = cmd.extraction_W;
+  return false;
+}
+
 /** Creates the loop boundary for the first `rowLength_m.length` rows of the mesh. */
 export function createPileLoop(spec: PileLoopSpec): PileLoop {
-  const rows = spec.rowLength_m.length;
-  const dz = Float64Array.from(spec.rowLength_m);
   const mc = spec.flowCapacity_W_K;
   if (!(mc > 0)) throw new RangeError(`flowCapacity_W_K must be > 0 W/K; received ${mc}`);
-  const gc1 = new Float64Array(rows);
-  const gc2 = new Float64Array(rows);
-  const g12 = new Float64Array(rows);
-  const Tc = new Float64Array(rows);
+  const st = createLoopState(spec);
+  const rows = st.rows;
   let time = 0;
-  // Sweep coefficients at each face (u = α d + β), the per-row pivots and the face temperatures.
-  const alpha = new Float64Array(rows + 1);
-  const beta = new Float64Array(rows + 1);
-  const pivot = new Float64Array(rows);
-  const Tb = new Float64Array(rows);
-  let src: Float64Array = Tc;
-  let lastKind: 'off' | 'inlet' | 'outlet' | 'extraction' = 'off';
-  let evalIn = NaN;
-  let evalOut = NaN;
-  // Heat-pump latch: the step's on/off decision (null until the step's first evaluation).
-  let stepOn: boolean | null = null;
+  let lastKind: Branch = 'off';
 
   const loop: PileLoop = {
     rows,
@@ -113,39 +198,14 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
     atLimit: false,
     beginStep(time_s: number) {
       time = time_s;
-      stepOn = null;
+      st.stepOn = null;
     },
     endStep() {},
     update(innerT: Float64Array, halfCell: Float64Array): number {
-      for (let j = 0; j < rows; j++) {
-        const ga = spec.rowActive[j] ? halfCell[j] : 0;
-        const S = ga + spec.gDown_W_mK + spec.gUp_W_mK;
-        gc1[j] = (ga * spec.gDown_W_mK) / S;
-        gc2[j] = (ga * spec.gUp_W_mK) / S;
-        // Insulated rows: no exchange at all (the channels are taken as insulated from each other too).
-        g12[j] = ga > 0 ? spec.gChannels_W_mK + (spec.gDown_W_mK * spec.gUp_W_mK) / S : 0;
-        Tc[j] = innerT[j];
-      }
+      setConductances(spec, st, innerT, halfCell);
       const cmd = spec.command(time, Number.isFinite(loop.outlet_C) ? loop.outlet_C : innerT[0]);
-      let kind: 'off' | 'inlet' | 'outlet' | 'extraction' = cmd.kind === 'heatPump' ? 'extraction' : cmd.kind;
-      let value = 0;
-      loop.atLimit = false;
-      if (cmd.kind !== 'off') {
-        src = Tc;
-        sweepUp();
-        if (cmd.kind === 'heatPump') {
-          const lim = extractionLimit(cmd.minOutlet_C);
-          if (stepOn === null) stepOn = cmd.extraction_W > 0 && lim > 0;
-          if (!stepOn) kind = 'off';
-          else if (cmd.extraction_W > lim) {
-            kind = lim > 0 ? 'outlet' : 'extraction';
-            value = lim > 0 ? cmd.minOutlet_C : 0;
-            loop.atLimit = lim > 0;
-          } else value = cmd.extraction_W;
-        } else
-          value =
-            cmd.kind === 'inlet' ? cmd.inlet_C : cmd.kind === 'outlet' ? cmd.outlet_C : cmd.extraction_W;
-      }
+      loop.atLimit = chooseBranch(st, cmd);
+      const kind = st.kind;
       let change = 0;
       if (kind === 'off') {
         loop.running = false;
@@ -154,21 +214,21 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
         for (let j = 0; j < rows; j++) {
           change = Math.max(change, loop.g_W_K[j] > 0 ? Math.abs(loop.g_W_K[j]) : 0);
           loop.g_W_K[j] = 0;
-          loop.T_C[j] = Tc[j];
+          loop.T_C[j] = st.Tc[j];
         }
         return change;
       }
       loop.running = true;
       lastKind = kind;
-      evaluate(kind, value, Tb);
+      evaluate(st, kind, st.value, st.Tb);
       for (let j = 0; j < rows; j++) {
-        change = Math.max(change, Math.abs(Tb[j] - loop.T_C[j]));
-        loop.T_C[j] = Tb[j];
-        loop.g_W_K[j] = dz[j] * (gc1[j] + gc2[j]);
+        change = Math.max(change, Math.abs(st.Tb[j] - loop.T_C[j]));
+        loop.T_C[j] = st.Tb[j];
+        loop.g_W_K[j] = st.dz[j] * (st.gc1[j] + st.gc2[j]);
       }
-      loop.inlet_C = evalIn;
-      loop.outlet_C = evalOut;
-      loop.extraction_W = mc * (evalOut - evalIn);
+      loop.inlet_C = st.evalIn;
+      loop.outlet_C = st.evalOut;
+      loop.extraction_W = mc * (st.evalOut - st.evalIn);
       return change;
     },
     linearResponse(dInnerT: Float64Array, out: Float64Array): void {
@@ -178,85 +238,91 @@ export function createPileLoop(spec: PileLoopSpec): PileLoop {
       }
       // The map from cell temperatures to boundary temperatures is affine for a fixed command: its
       // linear part is the same sweeps with the command's value set to zero.
-      src = dInnerT;
-      sweepUp();
-      evaluate(lastKind, 0, out);
-      src = Tc;
+      st.src = dInnerT;
+      sweepUp(st);
+      evaluate(st, lastKind, 0, out);
+      st.src = st.Tc;
     },
   };
-
-  /** Sweep from the bottom up: u = α d + β at every face for the cell temperatures in `src`. */
-  function sweepUp(): void {
-    alpha[rows] = 1;
-    beta[rows] = 0;
-    for (let j = rows - 1; j >= 0; j--) {
-      // Half-row conductances (channel to cell, channel to channel), W/K.
-      const a1 = 0.5 * dz[j] * gc1[j];
-      const a2 = 0.5 * dz[j] * gc2[j];
-      const b = 0.5 * dz[j] * g12[j];
-      const tc = src[j];
-      const ap = alpha[j + 1];
-      const bp = beta[j + 1];
-      const m22 = a2 + b - mc;
-      const P = mc + a1 + b - b * ap;
-      const Q = -b + m22 * ap;
-      const D = Q * b + P * (mc + a2 + b);
-      alpha[j] = (P * b - Q * (mc - a1 - b)) / D;
-      beta[j] = (P * (2 * a2 * tc - m22 * bp) - Q * (2 * a1 * tc + b * bp)) / D;
-      pivot[j] = P;
-    }
-  }
-
-  /**
-   * Largest extraction that keeps the outlet at or above `minOutlet_C` (W; +Infinity if the outlet does
-   * not fall with the extraction), from the sweep coefficients of the current cell temperatures.
-   */
-  function extractionLimit(minOutlet_C: number): number {
-    const a0 = alpha[0];
-    const b0 = beta[0];
-    if (!(1 - a0 > 1e-12)) return 0; // no exchange: the loop cannot extract
-    const equilibrium = b0 / (1 - a0);
-    if (!(a0 > 1e-12)) return equilibrium >= minOutlet_C ? Infinity : -Infinity;
-    return (mc * (1 - a0) * (equilibrium - minOutlet_C)) / a0;
-  }
-
-  /**
-   * Fluid temperatures for the ground temperatures in `src` (after `sweepUp`) and the command (kind,
-   * value): closure at the top, then the sweep down; writes each row's weighted channel temperature
-   * (the ground's boundary value; the cell's own value where g = 0) into `out` and the inlet and outlet
-   * temperatures into evalIn / evalOut.
-   */
-  function evaluate(kind: 'inlet' | 'outlet' | 'extraction', value: number, out: Float64Array): void {
-    const a0 = alpha[0];
-    const b0 = beta[0];
-    let Tin: number;
-    let Tout: number;
-    if (kind === 'inlet') {
-      Tin = value;
-      Tout = a0 * Tin + b0;
-    } else if (kind === 'outlet') {
-      Tout = value;
-      Tin = (Tout - b0) / a0;
-    } else {
-      // value = ṁc (T_out − T_in) with T_out = α₀ T_in + β₀.
-      Tin = 1 - a0 > 1e-12 ? (b0 - value / mc) / (1 - a0) : src[0];
-      Tout = a0 * Tin + b0;
-    }
-    let d = Tin;
-    let u = Tout;
-    for (let j = 0; j < rows; j++) {
-      const a1 = 0.5 * dz[j] * gc1[j];
-      const b = 0.5 * dz[j] * g12[j];
-      const dn = ((mc - a1 - b) * d + b * u + 2 * a1 * src[j] + b * beta[j + 1]) / pivot[j];
-      const un = alpha[j + 1] * dn + beta[j + 1];
-      const g = gc1[j] + gc2[j];
-      out[j] = g > 0 ? (gc1[j] * 0.5 * (d + dn) + gc2[j] * 0.5 * (u + un)) / g : src[j];
-      d = dn;
-      u = un;
-    }
-    evalIn = Tin;
-    evalOut = Tout;
-  }
-
   return loop;
+}
+
+/** Sweep from the bottom up: u = α d + β at every face for the cell temperatures in `st.src`. */
+function sweepUp(st: LoopState): void {
+  const { rows, dz, gc1, gc2, g12, alpha, beta, pivot, mc, src } = st;
+  alpha[rows] = 1;
+  beta[rows] = 0;
+  for (let j = rows - 1; j >= 0; j--) {
+    // Half-row conductances (channel to cell, channel to channel), W/K.
+    const a1 = 0.5 * dz[j] * gc1[j];
+    const a2 = 0.5 * dz[j] * gc2[j];
+    const b = 0.5 * dz[j] * g12[j];
+    const tc = src[j];
+    const ap = alpha[j + 1];
+    const bp = beta[j + 1];
+    const m22 = a2 + b - mc;
+    const P = mc + a1 + b - b * ap;
+    const Q = -b + m22 * ap;
+    const D = Q * b + P * (mc + a2 + b);
+    alpha[j] = (P * b - Q * (mc - a1 - b)) / D;
+    beta[j] = (P * (2 * a2 * tc - m22 * bp) - Q * (2 * a1 * tc + b * bp)) / D;
+    pivot[j] = P;
+  }
+}
+
+/**
+ * Largest extraction that keeps the outlet at or above `minOutlet_C` (W; +Infinity if the outlet does
+ * not fall with the extraction), from the sweep coefficients of the current cell temperatures.
+ */
+function extractionLimit(st: LoopState, minOutlet_C: number): number {
+  const a0 = st.alpha[0];
+  const b0 = st.beta[0];
+  if (!(1 - a0 > 1e-12)) return 0; // no exchange: the loop cannot extract
+  const equilibrium = b0 / (1 - a0);
+  if (!(a0 > 1e-12)) return equilibrium >= minOutlet_C ? Infinity : -Infinity;
+  return (st.mc * (1 - a0) * (equilibrium - minOutlet_C)) / a0;
+}
+
+/**
+ * Fluid temperatures for the ground temperatures in `st.src` (after `sweepUp`) and the command (kind,
+ * value): closure at the top, then the sweep down; writes each row's weighted channel temperature
+ * (the ground's boundary value; the cell's own value where g = 0) into `out` and the inlet and outlet
+ * temperatures into st.evalIn / st.evalOut.
+ */
+function evaluate(
+  st: LoopState,
+  kind: 'inlet' | 'outlet' | 'extraction',
+  value: number,
+  out: Float64Array,
+): void {
+  const { rows, dz, gc1, gc2, g12, alpha, beta, pivot, mc, src } = st;
+  const a0 = alpha[0];
+  const b0 = beta[0];
+  let Tin: number;
+  let Tout: number;
+  if (kind === 'inlet') {
+    Tin = value;
+    Tout = a0 * Tin + b0;
+  } else if (kind === 'outlet') {
+    Tout = value;
+    Tin = (Tout - b0) / a0;
+  } else {
+    // value = ṁc (T_out − T_in) with T_out = α₀ T_in + β₀.
+    Tin = 1 - a0 > 1e-12 ? (b0 - value / mc) / (1 - a0) : src[0];
+    Tout = a0 * Tin + b0;
+  }
+  let d = Tin;
+  let u = Tout;
+  for (let j = 0; j < rows; j++) {
+    const a1 = 0.5 * dz[j] * gc1[j];
+    const b = 0.5 * dz[j] * g12[j];
+    const dn = ((mc - a1 - b) * d + b * u + 2 * a1 * src[j] + b * beta[j + 1]) / pivot[j];
+    const un = alpha[j + 1] * dn + beta[j + 1];
+    const g = gc1[j] + gc2[j];
+    out[j] = g > 0 ? (gc1[j] * 0.5 * (d + dn) + gc2[j] * 0.5 * (u + un)) / g : src[j];
+    d = dn;
+    u = un;
+  }
+  st.evalIn = Tin;
+  st.evalOut = Tout;
 }

@@ -127,7 +127,12 @@ interface Prepared {
   copPeak: number;
 }
 
-function prepare(input: PileFieldSizingInput): Prepared {
+/** The building's loads, checked: peak (W), annual heating (J) and the monthly fractions. */
+function checkedLoads(input: PileFieldSizingInput): {
+  peak: number;
+  annual_J: number;
+  fr: readonly number[];
+} {
   const hasW = input.peakHeatingLoad_W !== undefined;
   const hasT = input.peakHeatingLoad_tons !== undefined;
   if (hasW === hasT) throw new TypeError('give exactly one of peakHeatingLoad_W and peakHeatingLoad_tons');
@@ -141,6 +146,11 @@ function prepare(input: PileFieldSizingInput): Prepared {
   const sum = fr.reduce((s, f) => s + f, 0);
   if (Math.abs(sum - 1) > 1e-3)
     throw new RangeError(`monthlyFractions must sum to 1 (±0.001); received ${sum}`);
+  return { peak, annual_J, fr };
+}
+
+/** The pile and ground, checked (the monthly ground, when given, 12 values). */
+function checkedPileAndGround(input: PileFieldSizingInput) {
   const H = requireRange('pile.length_m', input.pile.length_m, 1, 200, 'm');
   const rb = requireRange('pile.radius_m', input.pile.radius_m, 0.01, 2, 'm');
   const D = requireRange('pile.buriedDepth_m', input.pile.buriedDepth_m, 0, 50, 'm');
@@ -160,6 +170,12 @@ function prepare(input: PileFieldSizingInput): Prepared {
   const TgMonths = tm
     ? tm.map((t, i) => requireRange(`ground.monthlyTemperature_C[${i}]`, t, -30, 30, '°C'))
     : null;
+  return { H, rb, D, Rb, k, a, Tg, TgMonths };
+}
+
+function prepare(input: PileFieldSizingInput): Prepared {
+  const { peak, annual_J, fr } = checkedLoads(input);
+  const { H, rb, D, Rb, k, a, Tg, TgMonths } = checkedPileAndGround(input);
   const curve = input.heatPumpCurve ?? DEFAULT_HEAT_PUMP_CURVE;
   const minEft = requireRange(
     'minEnteringFluid_C',

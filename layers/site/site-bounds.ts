@@ -195,14 +195,11 @@ function nonFiniteNumbers(value: unknown, path: string, out: string[]): void {
   }
 }
 
-/**
- * Checks a finished run (see the module comment). Throws `SiteFluidLimitError` (the fluid freezes:
- * change pile.fluid) or `SitePhysicalBoundsError` (anything else); returns nothing when the run is
- * within bounds.
- */
-export function checkPhysicalBounds(result: SiteResult, ctx: BoundsContext): void {
-  const { extremes: x } = ctx;
-  const cases = ['no-pile', 'with-pile'];
+const CASES = ['no-pile', 'with-pile'];
+
+/** Non-finite temperatures or results: the run diverged. */
+function divergenceProblems(result: SiteResult, x: BoundsContext['extremes']): string[] {
+  const cases = CASES;
   const problems: string[] = [];
   x.ground.forEach((g, k) => {
     if (g.nonFinite > 0) {
@@ -220,9 +217,12 @@ export function checkPhysicalBounds(result: SiteResult, ctx: BoundsContext): voi
   const bad: string[] = [];
   nonFiniteNumbers(result, '', bad);
   if (bad.length) problems.push(`non-finite results: ${bad.join(', ')}`);
-  if (problems.length) throw new SitePhysicalBoundsError(`site run diverged: ${problems.join('; ')}`);
+  return problems;
+}
 
-  const fluidRan = Number.isFinite(x.fluid.min_C);
+/** The fluid's freezing and boiling limits (SiteFluidLimitError). */
+function checkFluidLimits(ctx: BoundsContext, fluidRan: boolean): void {
+  const { extremes: x } = ctx;
   if (fluidRan && ctx.fluid) {
     const f = ctx.fluid;
     try {
@@ -249,6 +249,21 @@ export function checkPhysicalBounds(result: SiteResult, ctx: BoundsContext): voi
         '(it would boil): reduce the heat injected (operation) or raise the flow (pile.flow_L_min)',
     );
   }
+}
+
+/**
+ * Checks a finished run (see the module comment). Throws `SiteFluidLimitError` (the fluid freezes:
+ * change pile.fluid) or `SitePhysicalBoundsError` (anything else); returns nothing when the run is
+ * within bounds.
+ */
+export function checkPhysicalBounds(result: SiteResult, ctx: BoundsContext): void {
+  const { extremes: x } = ctx;
+  const cases = CASES;
+  const problems = divergenceProblems(result, x);
+  if (problems.length) throw new SitePhysicalBoundsError(`site run diverged: ${problems.join('; ')}`);
+
+  const fluidRan = Number.isFinite(x.fluid.min_C);
+  checkFluidLimits(ctx, fluidRan);
   for (const [what, e] of [
     ['ground', x.ground[x.ground.length - 1]],
     ['fluid', x.fluid],

@@ -216,7 +216,7 @@ export const operationSchema = z.discriminatedUnion('mode', [
     .strict(),
 ]);
 
-export const siteInputSchema = z
+const siteInputObject = z
   .object({
     years: num({ title: 'Simulated years', unit: 'yr', min: 1, max: 200 })
       .int()
@@ -307,124 +307,146 @@ export const siteInputSchema = z
       .strict()
       .default({ fidelity: 'standard' }),
   })
-  .strict()
-  .superRefine((input, ctx) => {
-    const depth = input.domain.depth_m;
-    const layers = input.ground.layers;
-    const kMin: number[] = [];
-    layers.forEach((layer, i) => {
-      const path = ['ground', 'layers', i];
-      if (!(layer.bottom_m > layer.top_m)) {
-        ctx.addIssue({
-          code: 'custom',
-          path: [...path, 'bottom_m'],
-          message: `bottom_m (${layer.bottom_m}) must be below top_m (${layer.top_m})`,
-        });
-      }
-      const expected = i === 0 ? 0 : layers[i - 1].bottom_m;
-      if (layer.top_m !== expected) {
-        const what = layer.top_m > expected ? 'gap' : 'overlap';
-        ctx.addIssue({
-          code: 'custom',
-          path: [...path, 'top_m'],
-          message: `layer ${what}: top_m is ${layer.top_m} m but the ${i === 0 ? 'surface is 0' : `previous layer ends at ${expected}`} m`,
-        });
-      }
-      const explicitCount = EXPLICIT.filter((k) => layer[k] !== undefined).length;
-      kMin.push(
-        layer.soil && explicitCount === 0
-          ? soilRules(layer.soil, [...path, 'soil'], ctx)
-          : Math.min(layer.kFrozen_W_mK ?? NaN, layer.kThawed_W_mK ?? NaN),
-      );
-      if (layer.soil && explicitCount > 0) {
-        ctx.addIssue({
-          code: 'custom',
-          path: [...path, 'soil'],
-          message: 'give either soil or the explicit properties, not both',
-        });
-      } else if (!layer.soil && explicitCount < EXPLICIT.length) {
-        const missing = EXPLICIT.filter((k) => layer[k] === undefined);
-        ctx.addIssue({
-          code: 'custom',
-          path: [...path, missing[0]],
-          message: `layer needs soil or all of ${EXPLICIT.join(', ')}; missing ${missing.join(', ')}`,
-        });
-      }
-    });
-    groundRules(layers, input.ground.geothermalFlux_W_m2, depth, kMin, ctx);
-    climateRules(input.climate, input.years, ctx);
-    const pile = input.pile;
-    if (pile) {
-      const op = input.operation;
-      pileRules(pile, op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min, ctx);
-      fluidRules(pile, op, DEFAULT_HEAT_PUMP_CURVE.minEnteringFluid_C, ctx);
-      heatRateRules(pile.length_m, op, ctx);
-      if (pile.topDepth_m + pile.length_m > depth - 2) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['pile', 'length_m'],
-          message: `pile bottom (topDepth_m + length_m = ${pile.topDepth_m + pile.length_m} m) must lie at least 2 m above the domain depth ${depth} m`,
-        });
-      }
-      if (pile.outerDiameter_m / 2 > input.domain.radius_m / 10) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['pile', 'outerDiameter_m'],
-          message: `pile radius must be under a tenth of the domain radius ${input.domain.radius_m} m`,
-        });
-      }
-      if (pile.wallThickness_m >= pile.outerDiameter_m / 2) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['pile', 'wallThickness_m'],
-          message: 'wall thickness must be less than the pile radius',
-        });
-      }
-      const step = input.numerics.pileStep_m;
-      if (step !== undefined && step > pile.length_m / 4) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['numerics', 'pileStep_m'],
-          message: `vertical cell ${step} m cannot resolve a ${pile.length_m} m pile (at most a quarter of its length)`,
-        });
-      }
-      const dr = input.numerics.firstRadialStep_m;
-      if (dr !== undefined && dr > pile.outerDiameter_m) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['numerics', 'firstRadialStep_m'],
-          message: `first radial cell ${dr} m cannot resolve the pile wall (at most the pile diameter ${pile.outerDiameter_m} m)`,
-        });
-      }
-    }
-    if (pile && input.timeStep_days > 31) {
-      ctx.addIssue({ code: 'custom', path: ['timeStep_days'], message: 'time step must be at most 31 days' });
-    }
-    if (input.outputStep_days < input.timeStep_days) {
+  .strict();
+
+type SiteInputObject = z.output<typeof siteInputObject>;
+type PileObject = NonNullable<SiteInputObject['pile']>;
+
+/** Each layer's extent and its soil or explicit properties; returns the lowest conductivity per layer. */
+function layerRules(layers: SiteInputObject['ground']['layers'], ctx: z.RefinementCtx): number[] {
+  const kMin: number[] = [];
+  layers.forEach((layer, i) => {
+    const path = ['ground', 'layers', i];
+    if (!(layer.bottom_m > layer.top_m)) {
       ctx.addIssue({
         code: 'custom',
-        path: ['outputStep_days'],
-        message: `output interval ${input.outputStep_days} d must be at least the time step ${input.timeStep_days} d`,
+        path: [...path, 'bottom_m'],
+        message: `bottom_m (${layer.bottom_m}) must be below top_m (${layer.top_m})`,
       });
     }
-    const rMin = pile ? pile.outerDiameter_m / 2 : 0;
-    input.probes.forEach((p, i) => {
-      if (p.r_m < rMin || p.r_m > input.domain.radius_m) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['probes', i, 'r_m'],
-          message: `probe radius ${p.r_m} m is outside the ground domain [${rMin}, ${input.domain.radius_m}] m`,
-        });
-      }
-      if (p.z_m > depth) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['probes', i, 'z_m'],
-          message: `probe depth ${p.z_m} m is below the domain depth ${depth} m`,
-        });
-      }
-    });
+    const expected = i === 0 ? 0 : layers[i - 1].bottom_m;
+    if (layer.top_m !== expected) {
+      const what = layer.top_m > expected ? 'gap' : 'overlap';
+      ctx.addIssue({
+        code: 'custom',
+        path: [...path, 'top_m'],
+        message: `layer ${what}: top_m is ${layer.top_m} m but the ${i === 0 ? 'surface is 0' : `previous layer ends at ${expected}`} m`,
+      });
+    }
+    const explicitCount = EXPLICIT.filter((k) => layer[k] !== undefined).length;
+    kMin.push(
+      layer.soil && explicitCount === 0
+        ? soilRules(layer.soil, [...path, 'soil'], ctx)
+        : Math.min(layer.kFrozen_W_mK ?? NaN, layer.kThawed_W_mK ?? NaN),
+    );
+    if (layer.soil && explicitCount > 0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [...path, 'soil'],
+        message: 'give either soil or the explicit properties, not both',
+      });
+    } else if (!layer.soil && explicitCount < EXPLICIT.length) {
+      const missing = EXPLICIT.filter((k) => layer[k] === undefined);
+      ctx.addIssue({
+        code: 'custom',
+        path: [...path, missing[0]],
+        message: `layer needs soil or all of ${EXPLICIT.join(', ')}; missing ${missing.join(', ')}`,
+      });
+    }
   });
+  return kMin;
+}
+
+/** The pile's loop, fluid and load, and its fit in the domain and mesh. */
+function pileDomainRules(input: SiteInputObject, pile: PileObject, ctx: z.RefinementCtx): void {
+  const depth = input.domain.depth_m;
+  const op = input.operation;
+  pileRules(pile, op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min, ctx);
+  fluidRules(pile, op, DEFAULT_HEAT_PUMP_CURVE.minEnteringFluid_C, ctx);
+  heatRateRules(pile.length_m, op, ctx);
+  if (pile.topDepth_m + pile.length_m > depth - 2) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['pile', 'length_m'],
+      message: `pile bottom (topDepth_m + length_m = ${pile.topDepth_m + pile.length_m} m) must lie at least 2 m above the domain depth ${depth} m`,
+    });
+  }
+  if (pile.outerDiameter_m / 2 > input.domain.radius_m / 10) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['pile', 'outerDiameter_m'],
+      message: `pile radius must be under a tenth of the domain radius ${input.domain.radius_m} m`,
+    });
+  }
+  if (pile.wallThickness_m >= pile.outerDiameter_m / 2) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['pile', 'wallThickness_m'],
+      message: 'wall thickness must be less than the pile radius',
+    });
+  }
+  const step = input.numerics.pileStep_m;
+  if (step !== undefined && step > pile.length_m / 4) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['numerics', 'pileStep_m'],
+      message: `vertical cell ${step} m cannot resolve a ${pile.length_m} m pile (at most a quarter of its length)`,
+    });
+  }
+  const dr = input.numerics.firstRadialStep_m;
+  if (dr !== undefined && dr > pile.outerDiameter_m) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['numerics', 'firstRadialStep_m'],
+      message: `first radial cell ${dr} m cannot resolve the pile wall (at most the pile diameter ${pile.outerDiameter_m} m)`,
+    });
+  }
+}
+
+/** Time and output steps, and every probe inside the ground domain. */
+function stepAndProbeRules(input: SiteInputObject, ctx: z.RefinementCtx): void {
+  const depth = input.domain.depth_m;
+  const pile = input.pile;
+  if (pile && input.timeStep_days > 31) {
+    ctx.addIssue({ code: 'custom', path: ['timeStep_days'], message: 'time step must be at most 31 days' });
+  }
+  if (input.outputStep_days < input.timeStep_days) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['outputStep_days'],
+      message: `output interval ${input.outputStep_days} d must be at least the time step ${input.timeStep_days} d`,
+    });
+  }
+  const rMin = pile ? pile.outerDiameter_m / 2 : 0;
+  input.probes.forEach((p, i) => {
+    if (p.r_m < rMin || p.r_m > input.domain.radius_m) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['probes', i, 'r_m'],
+        message: `probe radius ${p.r_m} m is outside the ground domain [${rMin}, ${input.domain.radius_m}] m`,
+      });
+    }
+    if (p.z_m > depth) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['probes', i, 'z_m'],
+        message: `probe depth ${p.z_m} m is below the domain depth ${depth} m`,
+      });
+    }
+  });
+}
+
+/** Cross-field rules of a site input, in the order their issues are listed. */
+function siteInputRules(input: SiteInputObject, ctx: z.RefinementCtx): void {
+  const layers = input.ground.layers;
+  const kMin = layerRules(layers, ctx);
+  groundRules(layers, input.ground.geothermalFlux_W_m2, input.domain.depth_m, kMin, ctx);
+  climateRules(input.climate, input.years, ctx);
+  if (input.pile) pileDomainRules(input, input.pile, ctx);
+  stepAndProbeRules(input, ctx);
+}
+
+export const siteInputSchema = siteInputObject.superRefine(siteInputRules);
 
 export type { SiteResult, SiteCaseResult, SiteProbeResult, SiteFluidResult } from './site-result';
 

@@ -20,14 +20,8 @@ export interface SiteNote {
 
 const FROST_SUSCEPTIBLE = new Set(['silt', 'clay', 'peat']);
 
-export function siteNotes(
-  input: SiteInput,
-  result: SiteResult,
-  years: SiteYearEnergy[],
-  minEnteringFluid_C: number | null,
-  ownProbeCount: number,
-): SiteNote[] {
-  const notes: SiteNote[] = [];
+/** Frost heave: the pile freezes ground that was unfrozen at the start. */
+function frostHeaveNote(input: SiteInput, result: SiteResult, notes: SiteNote[]): void {
   const frozen = result.overCooling?.frozenByPile_m3 ?? [];
   const worst = frozen.reduce((m, v) => Math.max(m, v), 0);
   if (worst > 0.001) {
@@ -53,6 +47,10 @@ export function siteNotes(
           : 'The soil along the pile is coarse (not frost-susceptible), but check for fine-grained pockets that could heave.'),
     });
   }
+}
+
+/** Adfreeze: the first own probe that thaws without the pile (or is unfrozen from the start). */
+function thawNote(result: SiteResult, ownProbeCount: number, notes: SiteNote[]): void {
   for (let i = 0; i < ownProbeCount; i++) {
     const p = result.noPile.probes[i];
     if (p.thawYear === null) continue;
@@ -79,6 +77,18 @@ export function siteNotes(
     });
     break;
   }
+}
+
+export function siteNotes(
+  input: SiteInput,
+  result: SiteResult,
+  years: SiteYearEnergy[],
+  minEnteringFluid_C: number | null,
+  ownProbeCount: number,
+): SiteNote[] {
+  const notes: SiteNote[] = [];
+  frostHeaveNote(input, result, notes);
+  thawNote(result, ownProbeCount, notes);
   if (result.withPile && notes.every((n) => n.kind !== 'adfreeze')) {
     notes.push({
       kind: 'adfreeze',

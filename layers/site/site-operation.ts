@@ -117,16 +117,12 @@ export function loopResistances(pile: SitePile, flow_L_min: number): LoopResista
   }
 }
 
-export function createSiteLoop(
-  input: SiteInput,
-  mesh: SiteMesh,
-  pileRows: number,
-  airTemperature_C: (time_s: number) => number,
-): SiteLoop {
-  const pile = input.pile!;
-  const op = input.operation;
-  const flow_L_min = op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min;
-  const { Rb, Ra, R12, flowCapacity_W_K: mcp } = loopResistances(pile, flow_L_min);
+/** Per-metre conductances channel to wall and channel to channel (delta circuit, pile-loop.ts). */
+function channelConductances(
+  pile: NonNullable<SiteInput['pile']>,
+  Rb: number,
+  R12: number,
+): { gDown: number; gUp: number; gChannels: number } {
   let gDown: number;
   let gUp: number;
   if (pile.loop.type === 'uTube') {
@@ -138,13 +134,32 @@ export function createSiteLoop(
     gUp = annulusDown ? 0 : 1 / Rb;
   }
   const gChannels = Number.isFinite(R12) && R12 > 0 ? 1 / R12 : 0;
+  return { gDown, gUp, gChannels };
+}
 
+/** Length of each pile row and whether it exchanges heat (below the top of the active length). */
+function pileRowGeometry(mesh: SiteMesh, pileRows: number, topDepth_m: number) {
   const rowLength = new Float64Array(pileRows);
   const rowActive: boolean[] = [];
   for (let j = 0; j < pileRows; j++) {
     rowLength[j] = mesh.zFaces_m[j + 1] - mesh.zFaces_m[j];
-    rowActive.push(mesh.zCentres_m[j] > pile.topDepth_m);
+    rowActive.push(mesh.zCentres_m[j] > topDepth_m);
   }
+  return { rowLength, rowActive };
+}
+
+export function createSiteLoop(
+  input: SiteInput,
+  mesh: SiteMesh,
+  pileRows: number,
+  airTemperature_C: (time_s: number) => number,
+): SiteLoop {
+  const pile = input.pile!;
+  const op = input.operation;
+  const flow_L_min = op.mode === 'inletTemperature' ? op.flow_L_min : pile.flow_L_min;
+  const { Rb, Ra, R12, flowCapacity_W_K: mcp } = loopResistances(pile, flow_L_min);
+  const { gDown, gUp, gChannels } = channelConductances(pile, Rb, R12);
+  const { rowLength, rowActive } = pileRowGeometry(mesh, pileRows, pile.topDepth_m);
 
   let demand = NaN;
   let cop = NaN;
