@@ -224,10 +224,11 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
   }
 
   const scenario = manifest.scenario as { name?: string } | undefined;
+  const columns = [...settlementColumns, ...cellColumns, ...recordColumns];
   return {
     manifest,
     geometryType: options.settlements ? 'Point' : 'Polygon',
-    columns: [...settlementColumns, ...cellColumns, ...recordColumns],
+    columns,
     features: options.settlements ? settlementFeatures : cellFeatures,
     // Foreign members (RFC 7946 section 6.1): what was asked, of which build, with which cautions.
     members: () => ({
@@ -246,7 +247,8 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
       scenario: scenario?.name ?? null,
       model: manifest.parameters.model ?? null,
       build: { tool: manifest.tool, createdAt: manifest.createdAt },
-      units: exportUnits(manifest),
+      // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
+      units: { ...Object.fromEntries(cellColumns.map((c) => [c.name, c.unit])), ...exportUnits(manifest) },
       sources: manifest.sources.map((s) => ({
         file: s.file,
         role: s.role,

@@ -6,8 +6,8 @@
  * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
  * data provenance of the build, so the file still explains itself when it is passed on. Columns, units
  * and rounding are the export schema the CLI shares (layers/screening/export-schema.ts): values in the
- * build's stored units (SI; piles per ton) whatever the unit switch shows. The GeoPackage of a shortlist
- * comes from the CLI (`pile-atlas shortlist --gpkg`): GDAL is too heavy to ship to the browser.
+ * build's stored units (SI; piles per ton) whatever the unit switch shows. A GeoPackage of a shortlist
+ * comes from the CLI (`pile-atlas shortlist --out`, beside the GeoJSON): GDAL is too heavy for the browser.
  * CSV: one row per site with the same columns as the GeoJSON properties. Text cells that begin with
  * = + - @ tab or CR are prefixed with an apostrophe so that spreadsheets do not run them as formulas
  * (OWASP "CSV Injection"); numbers we write ourselves are plain decimals and are left as they are.
