@@ -169,3 +169,41 @@ export async function beginAtomicOutput(outDir: string): Promise<AtomicOutput> {
     },
   };
 }
+
+/** One output file written atomically: to `path` (a temporary name beside it), then `commit`. */
+export interface AtomicFile {
+  /** Temporary file to write (same directory as the target, so the rename cannot cross devices). */
+  path: string;
+  /** Rename the temporary file over the target (POSIX rename: readers see the old or the new file). */
+  commit(): Promise<void>;
+  /** Remove the temporary file; the target is left as it was. */
+  discard(): Promise<void>;
+}
+
+/**
+ * Begin writing `outFile` atomically: the caller writes `path` (`.<name>.building-<pid>-<t>` beside the
+ * target) and commits. A kill leaves the previous file untouched: the signal handler removes the
+ * temporary file (abortActiveOutputs), and the next write of the same target removes those of runs
+ * whose process is gone (recoverOutput).
+ */
+export function beginAtomicFile(outFile: string): AtomicFile {
+  const target = resolve(outFile);
+  const parent = dirname(target);
+  mkdirSync(parent, { recursive: true });
+  recoverOutput(target);
+  const stamp = `${process.pid}-${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`;
+  const path = join(parent, `.${basename(target)}.building-${stamp}`);
+  const entry = { target, dir: path, swapping: () => null };
+  active.add(entry);
+  return {
+    path,
+    async commit() {
+      renameSync(path, target);
+      active.delete(entry);
+    },
+    async discard() {
+      active.delete(entry);
+      rmSync(path, { force: true, recursive: true });
+    },
+  };
+}

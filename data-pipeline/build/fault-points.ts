@@ -11,11 +11,16 @@ export type FaultStage = (typeof FAULT_STAGES)[number];
 /** Fault points of a queue worker (`pile-atlas worker`): `job` is inside a job, part of its output written. */
 export const WORKER_FAULT_STAGES = ['job'] as const;
 export type WorkerFaultStage = (typeof WORKER_FAULT_STAGES)[number];
+/** Fault point of `pile-atlas shortlist --out`: `shortlist`, the GeoJSON written to its temporary file. */
+export const SHORTLIST_FAULT_STAGES = ['shortlist'] as const;
+export type ShortlistFaultStage = (typeof SHORTLIST_FAULT_STAGES)[number];
 
 export const FAULT_ENV = 'PILE_ATLAS_FAULT';
 
+type AnyFaultStage = FaultStage | WorkerFaultStage | ShortlistFaultStage;
+
 /** Synchronous part of a fault point: throws for `enospc` and `error`, true for `pause`. */
-function faultAt(stage: FaultStage | WorkerFaultStage, target: string): boolean {
+function faultAt(stage: AnyFaultStage, target: string): boolean {
   const spec = process.env[FAULT_ENV];
   if (!spec) return false;
   const [at, kind] = spec.split(':');
@@ -37,6 +42,6 @@ function faultAt(stage: FaultStage | WorkerFaultStage, target: string): boolean 
 }
 
 /** A fault point for `stage` (`target`: the file or directory being written there). */
-export async function faultPoint(stage: FaultStage | WorkerFaultStage, target: string): Promise<void> {
+export async function faultPoint(stage: AnyFaultStage, target: string): Promise<void> {
   if (faultAt(stage, target)) await new Promise(() => setInterval(() => undefined, 1 << 30));
 }

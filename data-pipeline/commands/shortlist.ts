@@ -1,8 +1,11 @@
-/** `pile-atlas shortlist`: filter a build's cells (or settlements) and write RFC 7946 GeoJSON. */
-import { writeFile } from 'node:fs/promises';
+/**
+ * `pile-atlas shortlist`: filter a build's cells (or settlements) and write RFC 7946 GeoJSON (every
+ * match, streamed; a limit only with --limit) and a GeoPackage of the same features beside it.
+ */
 import { isAbsolute, relative, resolve } from 'node:path';
 import { InputError } from '../input-error';
-import { shortlist } from '../shortlist/shortlist-cells';
+import { openShortlist } from '../shortlist/shortlist-cells';
+import { gpkgBeside, streamShortlist, streamSink, writeShortlistFiles } from '../shortlist/write-shortlist';
 import type { Command } from './command';
 import { numberOption, parseOptions, requireOption } from './parse-options';
 
@@ -10,13 +13,16 @@ export const shortlistCommand: Command = {
   name: 'shortlist',
   summary: 'filter built tiles with a --where expression; GeoJSON of matching cells or settlements',
   help: `pile-atlas shortlist --tiles <dir> --where "<conditions>" [--near <settlement> --within <km>]
-                   [--settlements] [--out <file>] [--limit N]
+                   [--settlements] [--out <file>] [--gpkg <file> | --no-gpkg] [--limit N]
 
-Reads a build (<dir>/manifest.json and <dir>/geotiff/*.tif) and writes the cells for which the
-conditions hold as RFC 7946 GeoJSON (WGS 84 lon/lat): each cell a polygon with every band's value
-(property names carry the unit: groundTemp_C, thawDelay_yr), class bands with their labels, and
-the cautions, the expression, the scenario and the data provenance on the collection.
-With --settlements, the settlements (points) whose cell matches.
+Reads a build (<dir>/manifest.json and <dir>/geotiff/*.tif) and writes every cell for which the
+conditions hold as RFC 7946 GeoJSON (WGS 84 lon/lat): each cell a polygon with its position and every
+band's value, rounded to a meaningful step, in the columns the web's shortlist export uses too (names
+carry the unit: groundTemp_degC, thawDelay_yr; class bands suitability_class with suitability_label),
+the cautions in every feature, and the expression, the counts, the units, the scenario and the data
+provenance on the collection. With --out, a GeoPackage of the same features is written beside the
+GeoJSON (picks.geojson -> picks.gpkg: layer shortlist, typed columns, a units table, the cautions
+and units in its metadata). With --settlements, the settlements (points) whose cell matches.
 
 Conditions:
   band op value       op: < <= > >= = == !=   value: a number, or a class label for class bands
@@ -36,15 +42,18 @@ Options:
                      from the cell centre; the name as in the settlements layer, any letter case)
   --within <km>      the radius for --near, km (0.1 to 5000)
   --settlements      filter settlements instead of cells
-  --out <file>       write the GeoJSON here instead of stdout
-  --limit N          at most N features (default 10000; the collection reports how many matched)
+  --out <file>       write the GeoJSON here instead of stdout (atomically: a temporary file, renamed)
+  --gpkg <file>      write the GeoPackage here (default: beside --out; none when writing to stdout)
+  --no-gpkg          no GeoPackage
+  --limit N          at most N features (default: all of them; the collection reports how many matched
+                     and sets "truncated" when the limit cut the list)
   --help             this text
 
 Screening estimate, not a design.`,
   async run(argv) {
     const opts = parseOptions('shortlist', argv, {
-      values: ['tiles', 'where', 'out', 'limit', 'near', 'within'],
-      flags: ['settlements'],
+      values: ['tiles', 'where', 'out', 'gpkg', 'limit', 'near', 'within'],
+      flags: ['settlements', 'no-gpkg'],
     });
     const tilesDir = requireOption('shortlist', opts, 'tiles');
     const near = opts.values.near;
@@ -55,13 +64,31 @@ Screening estimate, not a design.`,
     const where = near === undefined ? requireOption('shortlist', opts, 'where') : opts.values.where;
     const within_km =
       near === undefined ? undefined : numberOption('shortlist', opts, 'within', 0, 0.1, 5000);
-    const limit = numberOption('shortlist', opts, 'limit', 10_000, 1, 10_000_000, true);
+    const limit =
+      opts.values.limit === undefined
+        ? undefined
+        : numberOption('shortlist', opts, 'limit', 0, 1, Number.MAX_SAFE_INTEGER, true);
     const out = opts.values.out;
-    const rel = out === undefined ? '..' : relative(resolve(tilesDir), resolve(out));
-    if (rel === '' || (!rel.startsWith('..') && !isAbsolute(rel))) {
-      throw new InputError(`--out ${out}: lies inside the build (--tiles ${tilesDir}); write it elsewhere`);
+    if (opts.flags.has('no-gpkg') && opts.values.gpkg !== undefined)
+      throw new InputError('--no-gpkg: leave out --gpkg too, or drop --no-gpkg');
+    const gpkg = opts.flags.has('no-gpkg')
+      ? null
+      : (opts.values.gpkg ?? (out === undefined ? null : gpkgBeside(out)));
+    for (const [option, file] of [
+      ['--out', out],
+      ['--gpkg', gpkg],
+    ] as const) {
+      if (file === undefined || file === null) continue;
+      const rel = relative(resolve(tilesDir), resolve(file));
+      if (rel === '' || (!rel.startsWith('..') && !isAbsolute(rel))) {
+        throw new InputError(
+          `${option} ${file}: lies inside the build (--tiles ${tilesDir}); write it elsewhere`,
+        );
+      }
     }
-    const collection = await shortlist({
+    if (out !== undefined && gpkg !== null && resolve(out) === resolve(gpkg))
+      throw new InputError(`--gpkg ${gpkg}: is the --out file too; give the GeoPackage its own name`);
+    const run = await openShortlist({
       tilesDir,
       where,
       settlements: opts.flags.has('settlements'),
@@ -69,17 +96,18 @@ Screening estimate, not a design.`,
       near,
       within_km,
     });
-    const text = JSON.stringify(collection) + '\n';
-    const summary = collection as unknown as { matched: number; returned: number };
-    if (opts.values.out) {
-      await writeFile(opts.values.out, text);
-      process.stdout.write(
-        JSON.stringify({ out: opts.values.out, matched: summary.matched, returned: summary.returned }) + '\n',
-      );
+    let summary: { matched: number; returned: number };
+    if (out !== undefined) {
+      summary = await writeShortlistFiles(run, { geojson: out, gpkg });
+      process.stdout.write(JSON.stringify({ out, gpkg, ...summary }) + '\n');
+    } else if (gpkg !== null) {
+      throw new InputError('--gpkg: give --out too (the GeoPackage is written beside the GeoJSON file)');
     } else {
-      process.stdout.write(text);
+      await streamShortlist(run, streamSink(process.stdout));
+      summary = run.members() as { matched: number; returned: number };
     }
-    process.stderr.write(`shortlist: ${summary.matched} matched, ${summary.returned} written\n`);
+    const cut = summary.matched > summary.returned ? ` (--limit ${limit})` : '';
+    process.stderr.write(`shortlist: ${summary.matched} matched, ${summary.returned} written${cut}\n`);
     return 0;
   },
 };

@@ -74,8 +74,8 @@ export interface Gdal {
   rasterize: (src: string, dst: string, args: string[]) => void;
   /** `gdalbuildvrt args dst srcs...` (a virtual mosaic of the sources). */
   buildVrt: (srcs: string[], dst: string, args: string[]) => void;
-  /** `ogr2ogr args dst src`. */
-  vectorTranslate: (src: string, dst: string, args: string[]) => void;
+  /** `ogr2ogr args dst src`, the source opened with `openOptions` (ogr2ogr's `-oo`, as NAME=VALUE). */
+  vectorTranslate: (src: string, dst: string, args: string[], openOptions?: string[]) => void;
   /** `ogrinfo -json args src`. */
   vectorInfo: (src: string, args?: string[]) => unknown;
   /** The WKT of a CRS given as any user input GDAL accepts (EPSG:n, ESRI:n, PROJ string, WKT). */
@@ -126,18 +126,23 @@ async function init(): Promise<Gdal> {
     return [list, () => (ptrs.forEach((p) => M._free(p)), M._free(list))];
   };
 
-  const open = (path: string, vector = false): number => {
+  const open = (path: string, vector = false, openOptions: string[] = []): number => {
     reset();
     // GDAL_OF_RASTER = 0x02, GDAL_OF_VECTOR = 0x04, GDAL_OF_VERBOSE_ERROR = 0x40.
     const flags = (vector ? 0x04 : 0x02) | 0x40;
-    const ds = call(
-      'GDALOpenEx',
-      'number',
-      ['string', 'number', 'number', 'number', 'number'],
-      [gdalPath(path), flags, 0, 0, 0],
-    ) as number;
-    if (!ds) throw lastError('open');
-    return ds;
+    const [oo, freeOo] = openOptions.length ? stringList(openOptions) : [0, () => undefined];
+    try {
+      const ds = call(
+        'GDALOpenEx',
+        'number',
+        ['string', 'number', 'number', 'number', 'number'],
+        [gdalPath(path), flags, 0, oo, 0],
+      ) as number;
+      if (!ds) throw lastError('open');
+      return ds;
+    } finally {
+      freeOo();
+    }
   };
   const close = (ds: number) => call('GDALClose', null, ['number'], [ds]);
 
@@ -149,8 +154,9 @@ async function init(): Promise<Gdal> {
     newOptions: string,
     freeOptions: string,
     run: (ds: number, options: number) => number,
+    openOptions: string[] = [],
   ) => {
-    const ds = open(src, vector);
+    const ds = open(src, vector, openOptions);
     const [list, freeList] = stringList(args);
     try {
       const options = call(newOptions, 'number', ['number', 'number'], [list, 0]) as number;
@@ -271,18 +277,25 @@ async function init(): Promise<Gdal> {
         freeNames();
       }
     },
-    vectorTranslate(src, dst, args) {
-      utility(src, true, args, 'GDALVectorTranslateOptionsNew', 'GDALVectorTranslateOptionsFree', (ds, o) =>
-        withDatasetList(ds, (l) =>
-          Number(
-            call(
-              'GDALVectorTranslate',
-              'number',
-              ['string', 'number', 'number', 'number', 'number', 'number'],
-              [gdalPath(dst), 0, 1, l, o, 0],
+    vectorTranslate(src, dst, args, openOptions = []) {
+      utility(
+        src,
+        true,
+        args,
+        'GDALVectorTranslateOptionsNew',
+        'GDALVectorTranslateOptionsFree',
+        (ds, o) =>
+          withDatasetList(ds, (l) =>
+            Number(
+              call(
+                'GDALVectorTranslate',
+                'number',
+                ['string', 'number', 'number', 'number', 'number', 'number'],
+                [gdalPath(dst), 0, 1, l, o, 0],
+              ),
             ),
           ),
-        ),
+        openOptions,
       );
     },
     vectorInfo(src, args = []) {

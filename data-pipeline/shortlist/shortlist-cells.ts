@@ -1,15 +1,23 @@
 /**
  * `pile-atlas shortlist`: reads a build (manifest.json + the per-band GeoTIFFs of the analysis grid),
- * keeps the cells (or the settlements' cells) for which the `--where` expression holds, and returns an
- * RFC 7946 FeatureCollection (WGS 84 lon/lat, no crs member): cells as polygons of their four corners,
- * settlements as points; every band's value as a property whose name carries its unit; the cautions,
- * the expression, the scenario and the data provenance as foreign members of the collection.
+ * keeps the cells (or the settlements' cells) for which the `--where` expression holds, and yields RFC
+ * 7946 features (WGS 84 lon/lat): cells as polygons of their four corners, settlements as points; each
+ * with the export schema's record (layers/screening/export-schema.ts, shared with the web: position,
+ * every band rounded to its step with its unit in the column name, class codes with labels, cautions).
+ * The features come one by one from a generator, so a writer can stream every match (no limit unless
+ * asked); the expression, the scenario, the units and the data provenance are the collection's members.
  */
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Feature, FeatureCollection, Point, Polygon } from 'geojson';
-import { manifestSchema, type Band, type Manifest } from '../../layers/screening/manifest';
-import { horizonText } from '../../layers/screening/climate-horizon';
+import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import {
+  exportColumns,
+  exportRecord,
+  exportUnits,
+  EXPORT_CAUTIONS,
+  type ExportColumn,
+} from '../../layers/screening/export-schema';
 import { createTransform } from '../crs/crs-definitions';
 import { ValidationError } from '../../layers/validation-error';
 import { InputError } from '../input-error';
@@ -24,24 +32,11 @@ export interface ShortlistOptions {
   where?: string;
   /** Filter the settlements (their cells) instead of every cell. */
   settlements?: boolean;
-  /** At most this many features (default 10 000); the collection says how many matched. */
+  /** At most this many features (default: all of them); the counts say how many matched. */
   limit?: number;
   /** Keep only places within `within_km` of this settlement (its name, any letter case). */
   near?: string;
   within_km?: number;
-}
-
-/** Property name of a band: its id with the unit appended (groundTemp -> groundTemp_C). */
-export function propertyName(band: Band): string {
-  if (!band.unit || band.kind === 'class') return band.id;
-  const slug = band.unit
-    .replace(/°/g, '')
-    .replace(/³/g, '3')
-    .replace(/²/g, '2')
-    .replace(/\//g, '_per_')
-    .replace(/\s+/g, '_')
-    .replace(/[^A-Za-z0-9_]/g, '');
-  return band.id.toLowerCase().endsWith(`_${slug.toLowerCase()}`) ? band.id : `${band.id}_${slug}`;
 }
 
 async function readManifest(tilesDir: string): Promise<Manifest> {
@@ -78,9 +73,23 @@ async function findSettlement(
   return { name: names[i], lonLat: [lon, lat] };
 }
 
-export async function shortlist(options: ShortlistOptions): Promise<FeatureCollection> {
+/** One shortlist run: the features one at a time, then the collection's members with the counts. */
+export interface ShortlistRun {
+  manifest: Manifest;
+  /** 'Polygon' (cells) or 'Point' (settlements). */
+  geometryType: 'Polygon' | 'Point';
+  /** Every property column of the features, in order, with its type and unit. */
+  columns: ExportColumn[];
+  /** The matching features (at most `limit`), generated one by one: nothing is held back in memory. */
+  features(): Generator<Feature>;
+  /** The collection's foreign members; the counts are final once `features()` has run to its end. */
+  members(): Record<string, unknown>;
+}
+
+/** Open a build and prepare the filter; the features come from the run's generator. */
+export async function openShortlist(options: ShortlistOptions): Promise<ShortlistRun> {
   const { tilesDir } = options;
-  const limit = options.limit ?? 10_000;
+  const limit = options.limit ?? Infinity;
   const manifest = await readManifest(tilesDir);
   const where: CompiledWhere = options.where
     ? compileWhere(options.where, manifest.bands)
@@ -105,35 +114,23 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
     }
     planes.push(src.grid.values);
   }
-  const names = manifest.bands.map(propertyName);
-  const flagIndex = manifest.bands.map((b) =>
-    b.horizon ? manifest.bands.findIndex((x) => x.id === b.horizon?.flagBand) : -1,
-  );
-  const values = new Float64Array(manifest.bands.length);
-  const propertiesOf = (cell: number): Record<string, number | string | null> => {
-    const props: Record<string, number | string | null> = {};
-    manifest.bands.forEach((band, b) => {
-      const v = planes[b][cell];
-      props[names[b]] = v === v ? +v.toPrecision(6) : null;
-      if (band.classes) props[`${band.id}_label`] = band.classes.find((c) => c.value === v)?.label ?? null;
-      if (band.horizon) {
-        // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
-        const f = flagIndex[b];
-        const value = v === v ? `${+v.toPrecision(4)} ${band.unit}` : '';
-        props[`${band.id}_qualifier`] = horizonText(band.horizon, f < 0 ? undefined : planes[f][cell], value);
-      }
+  const bandIndex = new Map(manifest.bands.map((b, i) => [b.id, i]));
+  /** The export schema's record of a cell (shared with the web: export-schema.ts). */
+  const recordOf = (cell: number, lon: number, lat: number) =>
+    exportRecord(manifest, lon, lat, (id) => {
+      const b = bandIndex.get(id);
+      return b === undefined ? undefined : planes[b][cell];
     });
-    return props;
-  };
   const toLonLat = createTransform(grid.crs, 'EPSG:4326');
   const fromLonLat = createTransform('EPSG:4326', grid.crs);
   const gt = grid.geoTransform;
   const round = (p: [number, number]): [number, number] => [+p[0].toFixed(6), +p[1].toFixed(6)];
-  const features: Feature[] = [];
   let matched = 0;
+  let returned = 0;
 
   const near = options.near === undefined ? null : await findSettlement(tilesDir, manifest, options.near);
   const within_km = options.within_km ?? Infinity;
+  const values = new Float64Array(manifest.bands.length);
   const testCell = (cell: number): boolean => {
     for (const b of where.bandsUsed) values[b] = planes[b][cell];
     return where.test(values);
@@ -142,29 +139,34 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
   const inRadius = (lon: number, lat: number): boolean =>
     near === null || haversine_km([lon, lat], near.lonLat) <= within_km;
 
+  const cellColumns: ExportColumn[] = [
+    { name: 'cellCol', type: 'integer', unit: 'column of the analysis grid' },
+    { name: 'cellRow', type: 'integer', unit: 'row of the analysis grid' },
+  ];
+  const recordColumns = exportColumns(manifest);
+  let settlements: Feature<Point>[] = [];
+  const settlementColumns: ExportColumn[] = [];
   if (options.settlements) {
     if (!manifest.settlements)
       throw new InputError(`${join(tilesDir, 'manifest.json')}: build lists no settlements`);
     const file = join(tilesDir, manifest.settlements);
     const collection = JSON.parse(await readFile(file, 'utf8')) as FeatureCollection<Point>;
-    for (const s of collection.features) {
-      if (s.geometry?.type !== 'Point') continue;
-      const [lon, lat] = s.geometry.coordinates;
-      const [x, y] = fromLonLat(lon, lat);
-      const col = Math.floor((x - gt[0]) / gt[1]);
-      const row = Math.floor((y - gt[3]) / gt[5]);
-      if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
-      const cell = row * grid.width + col;
-      if (!inRadius(lon, lat) || !testCell(cell)) continue;
-      matched++;
-      if (features.length >= limit) continue;
-      features.push({
-        type: 'Feature',
-        geometry: { type: 'Point', coordinates: [lon, lat] },
-        properties: { ...s.properties, cellCol: col, cellRow: row, ...propertiesOf(cell) },
-      });
+    settlements = collection.features.filter((s) => s.geometry?.type === 'Point');
+    // The settlement's own properties come first (name, population, ...): numbers or text.
+    const taken = new Set([...cellColumns, ...recordColumns].map((c) => c.name));
+    const numeric = new Map<string, boolean>();
+    for (const s of settlements) {
+      for (const [k, v] of Object.entries(s.properties ?? {})) {
+        if (taken.has(k)) continue;
+        numeric.set(k, (numeric.get(k) ?? true) && (v === null || typeof v === 'number'));
+      }
     }
-  } else {
+    for (const [name, isNumber] of numeric) {
+      settlementColumns.push({ name, type: isNumber ? 'real' : 'text', unit: '' });
+    }
+  }
+
+  function* cellFeatures(): Generator<Feature> {
     for (let row = 0; row < grid.height; row++) {
       for (let col = 0; col < grid.width; col++) {
         const cell = row * grid.width + col;
@@ -180,52 +182,73 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
         }
         if (!testCell(cell)) continue;
         matched++;
-        if (features.length >= limit) continue;
+        if (returned >= limit) continue;
         const x0 = gt[0] + col * gt[1];
         const y0 = gt[3] + (row + 1) * gt[5];
         const x1 = x0 + gt[1];
         const y1 = gt[3] + row * gt[5];
         const ring = [toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)].map(round);
         ring.push(ring[0]);
-        const centre = round(toLonLat(x0 + gt[1] / 2, (y0 + y1) / 2));
+        const centre = toLonLat(x0 + gt[1] / 2, (y0 + y1) / 2);
         const geometry: Polygon = { type: 'Polygon', coordinates: [ring] };
-        features.push({
+        returned++;
+        yield {
           type: 'Feature',
           geometry,
-          properties: {
-            cellCol: col,
-            cellRow: row,
-            centreLon: centre[0],
-            centreLat: centre[1],
-            ...propertiesOf(cell),
-          },
-        });
+          properties: { cellCol: col, cellRow: row, ...recordOf(cell, centre[0], centre[1]) },
+        };
       }
     }
   }
 
+  function* settlementFeatures(): Generator<Feature> {
+    for (const s of settlements) {
+      const [lon, lat] = s.geometry.coordinates;
+      const [x, y] = fromLonLat(lon, lat);
+      const col = Math.floor((x - gt[0]) / gt[1]);
+      const row = Math.floor((y - gt[3]) / gt[5]);
+      if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
+      const cell = row * grid.width + col;
+      if (!inRadius(lon, lat) || !testCell(cell)) continue;
+      matched++;
+      if (returned >= limit) continue;
+      const own: Record<string, unknown> = {};
+      for (const c of settlementColumns) own[c.name] = s.properties?.[c.name] ?? null;
+      returned++;
+      yield {
+        type: 'Feature',
+        geometry: { type: 'Point', coordinates: round([lon, lat]) },
+        properties: { ...own, cellCol: col, cellRow: row, ...recordOf(cell, lon, lat) },
+      };
+    }
+  }
+
   const scenario = manifest.scenario as { name?: string } | undefined;
+  const columns = [...settlementColumns, ...cellColumns, ...recordColumns];
   return {
-    type: 'FeatureCollection',
-    features,
+    manifest,
+    geometryType: options.settlements ? 'Point' : 'Polygon',
+    columns,
+    features: options.settlements ? settlementFeatures : cellFeatures,
     // Foreign members (RFC 7946 section 6.1): what was asked, of which build, with which cautions.
-    ...{
+    members: () => ({
       notice: manifest.notice,
+      cautions: EXPORT_CAUTIONS,
       fictional: manifest.fictional,
       where: options.where ?? null,
       near: near ? { settlement: near.name, lon: near.lonLat[0], lat: near.lonLat[1], within_km } : null,
       subject: options.settlements ? 'settlements' : 'cells',
       matched,
-      returned: features.length,
-      truncated: matched > features.length,
+      returned,
+      truncated: matched > returned,
+      limit: Number.isFinite(limit) ? limit : null,
       cellSize_m: grid.cellSize_m,
       region: manifest.region.name,
       scenario: scenario?.name ?? null,
       model: manifest.parameters.model ?? null,
       build: { tool: manifest.tool, createdAt: manifest.createdAt },
-      units: Object.fromEntries(
-        manifest.bands.map((b, i) => [names[i], b.unit || (b.kind === 'class' ? 'class code' : '1')]),
-      ),
+      // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
+      units: { ...Object.fromEntries(cellColumns.map((c) => [c.name, c.unit])), ...exportUnits(manifest) },
       sources: manifest.sources.map((s) => ({
         file: s.file,
         role: s.role,
@@ -233,6 +256,13 @@ export async function shortlist(options: ShortlistOptions): Promise<FeatureColle
         provenance: s.provenance,
         licence: s.licence,
       })),
-    },
-  } as FeatureCollection;
+    }),
+  };
+}
+
+/** The whole shortlist as one FeatureCollection in memory (for small results; the CLI streams). */
+export async function shortlist(options: ShortlistOptions): Promise<FeatureCollection> {
+  const run = await openShortlist(options);
+  const features = [...run.features()];
+  return { type: 'FeatureCollection', features, ...run.members() } as FeatureCollection;
 }

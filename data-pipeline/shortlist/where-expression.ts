@@ -9,11 +9,13 @@
  *   factor     := "not" factor | "(" expr ")" | comparison | band
  *   comparison := band op value          op: < <= > >= = == !=
  *   value      := number | class label (word or "quoted")
- *   band       := a band id of the manifest; a unit suffix is allowed when it matches the band's unit
+ *   band       := a band id of the manifest, or its export column name (export-schema.ts); a unit
+ *                 suffix is allowed when it matches the band's unit
  *                 (thawDelay_yr for band thawDelay in yr); `excluded` means `exclusion != 0`.
  * A bare band is true when its value is non-zero. Comparisons with nodata are false. Errors name the
  * offending token and its position.
  */
+import { bandColumnName } from '../../layers/screening/export-schema';
 import { InputError } from '../input-error';
 import { BAND } from '../../layers/screening/band-ids';
 
@@ -89,6 +91,9 @@ const isKeyword = (t: Token, k: string) => t.type === 'word' && t.text.toLowerCa
 function resolveBand(bands: ExpressionBand[], t: Token): number {
   const exact = bands.findIndex((b) => b.id === t.text);
   if (exact >= 0) return exact;
+  // The export's column name (groundTemp_degC, pilesPerTon_piles_per_ton, suitability_class).
+  const column = bands.findIndex((b) => bandColumnName(b) === t.text);
+  if (column >= 0) return column;
   const cut = t.text.lastIndexOf('_');
   if (cut > 0) {
     const base = bands.findIndex((b) => b.id === t.text.slice(0, cut));

@@ -46,6 +46,9 @@ describe('shortlist --where expressions', () => {
       false,
     );
     expect(test('groundTemp_C < -3', cell)).toBe(true);
+    // The export's column names work too (export-schema.ts): what a user copies from the GeoJSON.
+    expect(test('groundTemp_degC < -3 and pilesPerTon_piles_per_ton <= 3', cell)).toBe(true);
+    expect(test('suitability_class = fair', cell)).toBe(true);
     expect(test('groundTemp<-3.5', cell)).toBe(false);
     // and binds tighter than or: false or (true and true)
     expect(test('thawDelay > 20 or pilesPerTon < 3 and suitability = fair', cell)).toBe(true);
@@ -112,8 +115,9 @@ describe('pile-atlas shortlist on a built demo', () => {
     expect(fc.matched).toBe(expected);
     expect(fc.features).toHaveLength(expected);
     for (const f of fc.features) {
-      expect(f.properties.groundTemp_C).toBeLessThan(-2);
-      expect(f.properties.exclusion).toBe(0);
+      // Rounded to 0.01 K (export-schema.ts, common practice): a value just below -2 may print as -2.
+      expect(f.properties.groundTemp_degC).toBeLessThanOrEqual(-2);
+      expect(f.properties.exclusion_class).toBe(0);
       expect(f.properties.exclusion_label).toBeTypeOf('string');
       const ring = f.geometry.coordinates[0];
       expect(f.geometry.type).toBe('Polygon');
@@ -147,7 +151,7 @@ describe('pile-atlas shortlist on a built demo', () => {
     for (const f of fc.features) {
       expect(f.geometry.type).toBe('Point');
       expect(f.properties.name).toBeTypeOf('string');
-      expect(f.properties.groundTemp_C).toBeLessThan(0);
+      expect(f.properties.groundTemp_degC).toBeLessThanOrEqual(0);
     }
     const bad = await runCli(['shortlist', '--tiles', tilesDir, '--where', 'groundTemp < cold']);
     expect(bad.code).toBe(2);
@@ -226,10 +230,8 @@ describe('proximity bands and shortlist --near', () => {
     expect(fc.near.settlement).toBe(s.name);
     expect(fc.features.length).toBeGreaterThan(0);
     for (const f of fc.features) {
-      expect(haversine_km([f.properties.centreLon, f.properties.centreLat], s.lonLat)).toBeLessThanOrEqual(
-        30.01,
-      );
-      expect(f.properties.exclusion).toBe(0);
+      expect(haversine_km([f.properties.lon_deg, f.properties.lat_deg], s.lonLat)).toBeLessThanOrEqual(30.01);
+      expect(f.properties.exclusion_class).toBe(0);
     }
     // Every cell whose centre is within 30 km and not excluded: counted from the GeoTIFFs.
     const excl = await readGeoTiffGrid(join(tilesDir, 'geotiff/exclusion.tif'), { label: 'exclusion' });

@@ -9,6 +9,8 @@ import {
   unitSlug,
 } from '../../web/src/shortlist/shortlist-export';
 import type { ShortlistItem } from '../../web/src/shortlist/shortlist-item';
+import { BAND_REGISTRY } from '../../layers/screening/band-registry';
+import { bandColumnName, exportStep, exportValue, roundToStep } from '../../layers/screening/export-schema';
 import { testManifest } from './web-test-manifest';
 
 const manifest = testManifest();
@@ -119,5 +121,40 @@ describe('shortlist export', () => {
     expect(sortShortlist(list, 'band:pilesPerTon', 'asc').map((i) => i.id)).toEqual(['3', '1', '2']);
     expect(sortShortlist(list, 'band:pilesPerTon', 'desc').map((i) => i.id)).toEqual(['1', '3', '2']);
     expect(sortShortlist(list, 'name', 'asc').map((i) => i.id)).toEqual(['2', '1', '3']);
+  });
+});
+
+describe('shared export schema (layers/screening/export-schema.ts)', () => {
+  it('gives every registry band a rounding rule and a column name with its unit once', () => {
+    for (const [id, entry] of Object.entries(BAND_REGISTRY)) {
+      const band = { id, unit: entry.unit.replace('¤', 'CAD'), kind: entry.kind };
+      // A missing rule would fall back to 4 significant figures; every band the builds write has one.
+      expect([id, exportStep(band)]).not.toEqual([id, null]);
+      const name = bandColumnName(band);
+      expect(name.startsWith(id)).toBe(true);
+      const slug = unitSlug(band.unit);
+      if (slug && band.kind !== 'class') expect(name.endsWith(`_${slug}_${slug}`)).toBe(false);
+    }
+    expect(bandColumnName({ id: 'waterContent_m3m3', unit: 'm³/m³', kind: 'continuous' })).toBe(
+      'waterContent_m3m3',
+    );
+    expect(bandColumnName({ id: 'warming_C_per_yr', unit: 'K/yr', kind: 'continuous' })).toBe(
+      'warming_C_per_yr',
+    );
+    expect(bandColumnName({ id: 'costSaved', unit: 'CAD/yr', kind: 'continuous' })).toBe(
+      'costSaved_CAD_per_yr',
+    );
+  });
+
+  it('rounds to the step without float noise', () => {
+    // Steps per unit: common practice for screening figures (export-schema.ts EXPORT_STEPS).
+    expect(roundToStep(0.1 + 0.2, 0.01)).toBe(0.3);
+    expect(roundToStep(-4.565001, 0.01)).toBe(-4.57);
+    expect(roundToStep(-0.004, 0.01)).toBe(0); // not -0
+    expect(exportValue({ id: 'groundTemp', unit: '°C', kind: 'continuous' }, -4.56789)).toBe(-4.57);
+    expect(exportValue({ id: 'thawYear', unit: 'yr', kind: 'continuous' }, 2061.6)).toBe(2062);
+    expect(exportValue({ id: 'thawDelay', unit: 'yr', kind: 'continuous' }, 22.46)).toBe(22.5);
+    expect(exportValue({ id: 'costSaved', unit: 'CAD/yr', kind: 'continuous' }, 1234.5678)).toBe(1235);
+    expect(exportValue({ id: 'groundTemp', unit: '°C', kind: 'continuous' }, NaN)).toBeNull();
   });
 });

@@ -4,37 +4,31 @@
  * GeoJSON: RFC 7946 FeatureCollection of Points, coordinates [lon, lat] in WGS 84 with no `crs`
  * member; every numeric property carries its unit in its name (`groundTemp_degC`, `lon_deg`); each
  * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
- * data provenance of the build, so the file still explains itself when it is passed on.
+ * data provenance of the build, so the file still explains itself when it is passed on. Columns, units
+ * and rounding are the export schema the CLI shares (layers/screening/export-schema.ts): values in the
+ * build's stored units (SI; piles per ton) whatever the unit switch shows. A GeoPackage of a shortlist
+ * comes from the CLI (`pile-atlas shortlist --out`, beside the GeoJSON): GDAL is too heavy for the browser.
  * CSV: one row per site with the same columns as the GeoJSON properties. Text cells that begin with
  * = + - @ tab or CR are prefixed with an apostrophe so that spreadsheets do not run them as formulas
  * (OWASP "CSV Injection"); numbers we write ourselves are plain decimals and are left as they are.
  */
 import { z } from 'zod';
 import type { Band, Manifest } from '../../../layers/screening/manifest';
-import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
-import { horizonText } from '../../../layers/screening/climate-horizon';
+import {
+  bandColumnName,
+  exportRecord,
+  roundToStep,
+  type ExportValue,
+} from '../../../layers/screening/export-schema';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
 import { formatZodIssues } from '../../../layers/validation-error';
 
-type PropertyValue = string | number | boolean | null | Record<string, unknown>;
+export { EXPORT_CAUTIONS, unitSlug } from '../../../layers/screening/export-schema';
 
-/** A unit label as an identifier suffix: '°C' -> 'degC', 'piles/kW' -> 'piles_per_kW', 'm²' -> 'm2'. */
-export function unitSlug(unit: string): string {
-  return unit
-    .replace(/°/g, 'deg')
-    .replace(/²/g, '2')
-    .replace(/³/g, '3')
-    .replace(/\//g, '_per_')
-    .replace(/[·\s]+/g, '')
-    .replace(/[^A-Za-z0-9_]/g, '');
-}
+type PropertyValue = ExportValue | boolean | Record<string, unknown>;
 
-/** Property name of a band in exports: the band id plus its unit (class bands: `_class`). */
-export function bandPropertyName(band: Band): string {
-  if (band.kind === 'class') return `${band.id}_class`;
-  const slug = unitSlug(band.unit);
-  return slug ? `${band.id}_${slug}` : band.id;
-}
+/** Property name of a band in exports (the shared schema's column: band id plus unit, or `_class`). */
+export const bandPropertyName = (band: Band): string => bandColumnName(band);
 
 /** One line naming the build and its inputs (tool, creation time, files with checksums and licences). */
 export function provenanceText(manifest: Manifest): string {
@@ -50,9 +44,11 @@ export function provenanceText(manifest: Manifest): string {
   );
 }
 
-export const EXPORT_CAUTIONS = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
-
-/** Properties of one site in export order (shared by GeoJSON and CSV). */
+/**
+ * Properties of one site in export order (shared by GeoJSON and CSV): the site's own columns, then the
+ * record the CLI writes too (layers/screening/export-schema.ts: position, bands rounded to their step,
+ * cautions, demo-data notice), then the site's metrics, the scenario and the provenance.
+ */
 export function exportProperties(
   item: ShortlistItem,
   rank: number,
@@ -62,31 +58,12 @@ export function exportProperties(
     rank,
     name: item.name,
     note: item.note,
-    lon_deg: round(item.lon, 6),
-    lat_deg: round(item.lat, 6),
     addedAt: item.addedAt,
     origin: item.origin,
     pileAtlasId: item.id,
+    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id]),
   };
-  for (const band of manifest.bands) {
-    const v = item.values[band.id];
-    p[bandPropertyName(band)] = v === undefined || v === null || !Number.isFinite(v) ? null : v;
-    if (band.kind === 'class') {
-      const label = band.classes?.find((c) => c.value === v)?.label;
-      p[`${band.id}_label`] = label ?? null;
-    }
-    if (band.horizon) {
-      // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
-      const value = typeof v === 'number' && Number.isFinite(v) ? `${+v.toPrecision(4)} ${band.unit}` : '';
-      p[`${band.id}_qualifier`] = horizonText(band.horizon, item.values[band.horizon.flagBand], value);
-    }
-  }
   for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;
-  p.cautions = EXPORT_CAUTIONS;
-  if (manifest.fictional) {
-    const extra = manifest.notice.includes(FICTIONAL_DATA_NOTICE) ? '' : ` ${manifest.notice}`;
-    p.fictionalData = `${FICTIONAL_DATA_NOTICE}${extra}`;
-  }
   p.scenario = manifest.scenario ?? null;
   // A scenario-set build: the scenario these values come from and every scenario's region figures.
   if (manifest.scenarioSet) {
@@ -108,7 +85,10 @@ export function shortlistToGeoJSON(items: readonly ShortlistItem[], manifest: Ma
     type: 'FeatureCollection' as const,
     features: items.map((item, i) => ({
       type: 'Feature' as const,
-      geometry: { type: 'Point' as const, coordinates: [round(item.lon, 6), round(item.lat, 6)] },
+      geometry: {
+        type: 'Point' as const,
+        coordinates: [roundToStep(item.lon, 1e-6), roundToStep(item.lat, 1e-6)],
+      },
       properties: exportProperties(item, i + 1, manifest),
     })),
   };
@@ -229,9 +209,4 @@ export function sortShortlist(
       return va !== vb ? sign * (va - vb) : a.i - b.i;
     })
     .map((x) => x.it);
-}
-
-function round(v: number, digits: number): number {
-  const f = 10 ** digits;
-  return Math.round(v * f) / f;
 }

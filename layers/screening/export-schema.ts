@@ -1,0 +1,210 @@
+/**
+ * The one export schema of the shortlist, shared by the web (GeoJSON and CSV of the shortlisted sites,
+ * web/src/shortlist/shortlist-export.ts) and the CLI (`pile-atlas shortlist`, GeoJSON and GeoPackage of
+ * the matching cells or settlements, data-pipeline/shortlist/shortlist-cells.ts).
+ *
+ * Every export carries the same record per place, in this order:
+ *   lon_deg, lat_deg          WGS 84 position, 6 decimals (0.1 m)
+ *   <band>_<unit>             each continuous band, its unit in the name (groundTemp_degC, thawDelay_yr)
+ *   <band>_class, _label      each class band: the integer class code and its label in words
+ *   <band>_qualifier          bands bounded by the climate horizon: "after 2100", "≥ 45 yr", or null
+ *   cautions                  the screening cautions (layers/cautions.ts)
+ *   fictionalData             the demo-data notice (builds from invented data only)
+ * The web puts the site's name, note and rank before it and the site metrics, scenario and provenance
+ * after it; the CLI puts the cell's column and row before it and the rest on the collection.
+ *
+ * Units: exports are always in the units the build stores (SI, and piles per ton where the trade quotes
+ * tons), whatever the web's unit switch shows, so that a file reads the same whoever wrote it and the
+ * column names never change. Values are rounded to a meaningful step per quantity (EXPORT_STEPS), far
+ * finer than the screening's own uncertainty and coarser than float noise.
+ */
+import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../cautions';
+import { BAND } from './band-ids';
+import { horizonText } from './climate-horizon';
+import type { Band, Manifest } from './manifest';
+
+/** The cautions text every export carries (one column, and the GeoPackage's metadata). */
+export const EXPORT_CAUTIONS = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
+
+/** The fields of a band the schema reads. */
+export type ExportBand = Pick<Band, 'id' | 'unit' | 'kind' | 'classes' | 'horizon'>;
+
+/** A unit label as an identifier suffix: '°C' -> 'degC', 'piles/kW' -> 'piles_per_kW', 'm²' -> 'm2'. */
+export function unitSlug(unit: string): string {
+  return unit
+    .replace(/°/g, 'deg')
+    .replace(/²/g, '2')
+    .replace(/³/g, '3')
+    .replace(/\//g, '_per_')
+    .replace(/[·\s]+/g, '')
+    .replace(/[^A-Za-z0-9_]/g, '');
+}
+
+/** Letters and digits only, lower case: how a unit suffix already in a band id is compared. */
+const bare = (s: string) =>
+  unitSlug(s).replace(/deg/g, '').replace(/_per_/g, '').replace(/_/g, '').toLowerCase();
+
+/**
+ * True when the band id already ends in its unit: `settlementDistance_km` (km), `waterContent_m3m3`
+ * (m³/m³), `magt_C` (°C), `warming_C_per_yr` (K/yr: a temperature difference is the same in K and °C).
+ */
+function idCarriesUnit(id: string, unit: string): boolean {
+  const want = bare(unit.replace(/^K(?=\/|$)/, 'C'));
+  for (let cut = id.indexOf('_'); cut > 0; cut = id.indexOf('_', cut + 1)) {
+    if (bare(id.slice(cut + 1)) === want) return true;
+  }
+  return false;
+}
+
+/**
+ * Column of a band's value: the band id plus its unit (class bands: `_class`, the integer code). A band
+ * id that already ends in its unit is used as it is, so the unit is never doubled (the old
+ * `waterContent_m3m3_m3_per_m3`).
+ */
+export function bandColumnName(band: Pick<Band, 'id' | 'unit' | 'kind'>): string {
+  if (band.kind === 'class') return `${band.id}_class`;
+  const slug = unitSlug(band.unit);
+  if (!slug || idCarriesUnit(band.id, band.unit)) return band.id;
+  return `${band.id}_${slug}`;
+}
+
+/**
+ * Rounding step of each stored unit, in that unit (common practice for screening figures, chosen so
+ * that the step is well below what the inputs can resolve):
+ * temperatures 0.01 K; warming rates 0.0001 K/yr (0.01 K per century); depths and thicknesses 0.01 m;
+ * distances 0.01 km; durations 0.1 yr (calendar years: 1, see CALENDAR_YEAR_BANDS); piles per ton 0.1;
+ * power 0.1 W; heat rate per length 0.01 W/m; forces 0.1 kN; energy 1 kWh/yr; fuel 1 L/yr; CO2 0.01 t/yr;
+ * money 1 currency unit; volume fractions 0.001 m³/m³; dimensionless scores, shares, ratios, COPs and
+ * probabilities 0.001.
+ */
+export const EXPORT_STEPS: Readonly<Record<string, number>> = {
+  '°C': 0.01,
+  K: 0.01,
+  'K/yr': 0.0001,
+  '°C/yr': 0.0001,
+  m: 0.01,
+  km: 0.01,
+  yr: 0.1,
+  'piles/ton': 0.1,
+  W: 0.1,
+  'W/m': 0.01,
+  kN: 0.1,
+  'kWh/yr': 1,
+  'L/yr': 1,
+  't/yr': 0.01,
+  'm³/m³': 0.001,
+  '': 0.001,
+};
+
+/** Bands in 'yr' that are calendar years, not durations: exported as whole years. */
+const CALENDAR_YEAR_BANDS: ReadonlySet<string> = new Set([
+  BAND.thawYear,
+  BAND.thawYearPiles,
+  BAND.iceRichThawYear,
+]);
+
+/** A currency code with or without '/yr' (the scenario's currency, substituted for ¤ in the build). */
+const CURRENCY = /^(?:[A-Z]{3}|¤)(?:\/yr)?$/;
+
+/** The rounding step of a band, or null when its unit has no rule (then 4 significant figures). */
+export function exportStep(band: Pick<Band, 'id' | 'unit' | 'kind'>): number | null {
+  if (band.kind === 'class') return 1;
+  if (CALENDAR_YEAR_BANDS.has(band.id)) return 1;
+  if (CURRENCY.test(band.unit)) return 1;
+  return EXPORT_STEPS[band.unit] ?? null;
+}
+
+/** The export's value type of a band's column: class codes and calendar years are integers. */
+export function exportType(band: Pick<Band, 'id' | 'unit' | 'kind'>): 'integer' | 'real' {
+  return exportStep(band) === 1 && (band.kind === 'class' || CALENDAR_YEAR_BANDS.has(band.id))
+    ? 'integer'
+    : 'real';
+}
+
+/** `value` rounded to `step` (no float noise: 0.1 + 0.2 gives 0.3), -0 as 0. */
+export function roundToStep(value: number, step: number): number {
+  const decimals = Math.max(0, Math.ceil(-Math.log10(step) - 1e-9));
+  const r = +(Math.round(value / step) * step).toFixed(decimals);
+  return r === 0 ? 0 : r;
+}
+
+/** A band's value as exported: rounded to its step (4 significant figures without a rule), nodata null. */
+export function exportValue(band: Pick<Band, 'id' | 'unit' | 'kind'>, value: number | null | undefined) {
+  if (value === null || value === undefined || !Number.isFinite(value)) return null;
+  const step = exportStep(band);
+  if (step === null) return +value.toPrecision(4);
+  return roundToStep(value, step);
+}
+
+export type ExportValue = string | number | null;
+
+/** One column of the shared record, for typed outputs (GeoPackage) and the units table. */
+export interface ExportColumn {
+  name: string;
+  type: 'integer' | 'real' | 'text';
+  /** Unit of the values ('' for text, 'class code' for class codes, '1' for dimensionless numbers). */
+  unit: string;
+}
+
+/** The columns of the shared record, in order (see the file comment). */
+export function exportColumns(manifest: Pick<Manifest, 'bands' | 'fictional'>): ExportColumn[] {
+  const cols: ExportColumn[] = [
+    { name: 'lon_deg', type: 'real', unit: '°' },
+    { name: 'lat_deg', type: 'real', unit: '°' },
+  ];
+  for (const band of manifest.bands) {
+    const unit = band.kind === 'class' ? 'class code' : band.unit || '1';
+    cols.push({ name: bandColumnName(band), type: exportType(band), unit });
+    if (band.kind === 'class') cols.push({ name: `${band.id}_label`, type: 'text', unit: '' });
+    if (band.horizon) cols.push({ name: `${band.id}_qualifier`, type: 'text', unit: '' });
+  }
+  cols.push({ name: 'cautions', type: 'text', unit: '' });
+  if (manifest.fictional) cols.push({ name: 'fictionalData', type: 'text', unit: '' });
+  return cols;
+}
+
+/** The demo-data notice of a build from invented data (with the build's own notice when it says more). */
+export function fictionalDataText(manifest: Pick<Manifest, 'notice'>): string {
+  const extra = manifest.notice.includes(FICTIONAL_DATA_NOTICE) ? '' : ` ${manifest.notice}`;
+  return `${FICTIONAL_DATA_NOTICE}${extra}`;
+}
+
+/**
+ * The shared record of one place: its position and the values of every band of the build (looked up by
+ * band id through `valueOf`, SI as stored, null/undefined/NaN = nodata), rounded by the schema.
+ */
+export function exportRecord(
+  manifest: Pick<Manifest, 'bands' | 'fictional' | 'notice'>,
+  lon: number,
+  lat: number,
+  valueOf: (bandId: string) => number | null | undefined,
+): Record<string, ExportValue> {
+  const r: Record<string, ExportValue> = {
+    lon_deg: roundToStep(lon, 1e-6),
+    lat_deg: roundToStep(lat, 1e-6),
+  };
+  for (const band of manifest.bands) {
+    const raw = valueOf(band.id);
+    const v = exportValue(band, raw);
+    r[bandColumnName(band)] = v;
+    if (band.kind === 'class')
+      r[`${band.id}_label`] = band.classes?.find((c) => c.value === v)?.label ?? null;
+    if (band.horizon) {
+      // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
+      const text = v === null ? '' : `${v} ${band.unit}`;
+      r[`${band.id}_qualifier`] = horizonText(band.horizon, valueOf(band.horizon.flagBand), text);
+    }
+  }
+  r.cautions = EXPORT_CAUTIONS;
+  if (manifest.fictional) r.fictionalData = fictionalDataText(manifest);
+  return r;
+}
+
+/** Unit of every numeric column of the shared record (the collection's and the GeoPackage's `units`). */
+export function exportUnits(manifest: Pick<Manifest, 'bands' | 'fictional'>): Record<string, string> {
+  return Object.fromEntries(
+    exportColumns(manifest)
+      .filter((c) => c.type !== 'text')
+      .map((c) => [c.name, c.unit]),
+  );
+}
