@@ -21,7 +21,6 @@ import {
   type ShortlistSort,
   type ViewState,
 } from './state/url-state';
-import { boundaryForLink } from './state/boundary-link';
 import { CopyLink } from './state/copy-link';
 import { RadiusFilter } from './filters/radius-filter';
 import type { UnitSystem } from './units/display-units';
@@ -146,10 +145,8 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
   useEffect(() => {
     if (init.state.boundary) loadPolygons(init.state.boundary.polygons, init.state.boundary.name);
   }, [init, loadPolygons]);
-  const linkedBoundary = useMemo(
-    () => (zone.boundary ? boundaryForLink(zone.boundary) : null),
-    [zone.boundary],
-  );
+  // Worked out in the boundary worker: encoding a large boundary would hold up the page.
+  const linkedBoundary = zone.boundary?.link ?? null;
   const [firstPaint_ms, setFirstPaint_ms] = useState<number | null>(null);
   const onFirstPaint = useCallback((time_ms: number) => setFirstPaint_ms(Math.round(time_ms)), []);
 
