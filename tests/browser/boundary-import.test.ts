@@ -3,15 +3,19 @@
  * boundary is read, checked and counted in the boundary worker while the page stays responsive; its
  * outline is drawn above the screening tiles; faulty files (ring not closed, self-crossing, another
  * crs) and a self-crossing drawn shape are refused with a message and leave the previous boundary in
- * place; a file name carrying markup is shown as text. Freeze figures for 1e5 and 1e6 vertices come
- * from bench/boundary-freeze.bench.ts; here the longest main-thread gap is printed, not asserted.
+ * place; a file name carrying markup is shown as text. While a 1,000,000-vertex boundary is imported,
+ * no main-thread task of the page's own work reaches 100 ms (issue 21 item 1: input answered within
+ * 100 ms), read from a Chrome trace. The whole gap an input could wait is asserted only loosely: with
+ * the software WebGL of these tests every map frame is read back on the main thread, and one frame
+ * alone takes 60-170 ms on a busy 2-core machine (bench/boundary-freeze.bench.ts, whose reference
+ * redraw measures it), so it cannot be held under 100 ms here.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { countForegroundPixels, hexRgb, startSession, type BrowserSession } from './browser-session';
-import { wigglyCircle } from '../../bench/boundary-freeze.bench';
+import { traceMainThread, wigglyCircle } from '../../bench/boundary-freeze.bench';
 import { BOUNDARY_COLOUR } from '../../web/src/map/base-style';
 
 let s: BrowserSession;
@@ -99,6 +103,40 @@ describe('boundary import', () => {
     await s.page.selectOption('[data-testid=layer-select]', other.id);
     await s.page.waitForTimeout(1500);
     expect(await outlinePixels(s.page)).toBeGreaterThan(500);
+  });
+
+  it('keeps its own main-thread work under 100 ms while a 1,000,000-vertex boundary is imported', async () => {
+    const file = writeJson('boundary-1000000.geojson', {
+      type: 'Feature',
+      properties: {},
+      geometry: { type: 'Polygon', coordinates: [wigglyCircle(centre, radius_deg, 1_000_000)] },
+    });
+    await s.page.evaluate(`
+      window.__gap = { max: 0, last: performance.now() };
+      window.__gapTimer = setInterval(() => {
+        const now = performance.now();
+        window.__gap.max = Math.max(window.__gap.max, now - window.__gap.last);
+        window.__gap.last = now;
+      }, 10);
+    `);
+    const stopTrace = await traceMainThread(s.context, s.page);
+    const message = await importFile(s.page, file);
+    await s.page.waitForTimeout(1500); // the map frames that draw the outline
+    const trace = await stopTrace();
+    const gap = Number(
+      await s.page.evaluate('clearInterval(window.__gapTimer), Math.round(window.__gap.max)'),
+    );
+    console.log(
+      `${message} Longest main-thread gap ${gap} ms; longest task ${trace.longestTask_ms.toFixed(0)} ms, ` +
+        `of the page's own work ${trace.longestWork_ms.toFixed(0)} ms (the rest waits for map frames)`,
+    );
+    expect(message).toMatch(/^Boundary from boundary-1000000\.geojson: 1,000,000 vertices in 1 polygon\(s\)/);
+    // The trace saw the tasks (a trace that recorded nothing would pass the bound below).
+    expect(trace.longestTask_ms).toBeGreaterThan(0);
+    // Issue 21 item 1: input answered within 100 ms, for the page's own work.
+    expect(trace.longestWork_ms).toBeLessThan(100);
+    // Loose bound on the whole gap (map frames included): the page never stops for a second.
+    expect(gap).toBeLessThan(1000);
   });
 
   it('refuses faulty files with a reason and keeps the boundary it had', async () => {

@@ -8,6 +8,7 @@ import {
   runBoundaryJob,
   type BoundaryJobRequest,
 } from '../../web/src/filters/boundary-job';
+import { unflattenPolygons } from '../../web/src/geometry/flat-rings';
 
 const square = {
   type: 'Feature',
@@ -50,7 +51,13 @@ describe('boundary job', () => {
     if (reply.type !== 'done') return;
     expect(Array.from(reply.mask ?? [])).toEqual([1, 1, 0, 0]);
     expect(reply.boundary.vertices).toBe(4);
-    expect(reply.boundary.display).toEqual([square.geometry.coordinates[0]]);
+    expect(unflattenPolygons(reply.boundary.display)).toEqual([square.geometry.coordinates]);
+    // Small enough for a link: the full ring travels, not the drawn copy.
+    expect(reply.boundary.link).toEqual({
+      name: 'sq.geojson',
+      polygons: [square.geometry.coordinates],
+      simplified: false,
+    });
     // 2° x 2° from the equator on the sphere R = 6371.0088 km: R² Δλ sin(2°) = 49 438.6 km² (spherical zone, computed).
     const R = 6371.0088;
     expect(reply.boundary.area_km2).toBeCloseTo(
@@ -69,7 +76,7 @@ describe('boundary job', () => {
     expect(big.type === 'refused' && big.problems[0]).toBe('the file is 300 MB; at most 256 MB can be read');
   });
 
-  it('draws at most MAX_DISPLAY_VERTICES of a large boundary, and recounts cells from stored rings', async () => {
+  it('draws at most MAX_DISPLAY_VERTICES of a large boundary, hands back no full rings, and recounts cells from its source', async () => {
     const n = 200_000;
     const ring: number[][] = [];
     for (let i = 0; i < n; i++) {
@@ -78,19 +85,43 @@ describe('boundary job', () => {
       ring.push([r * Math.cos(t), r * Math.sin(t)]);
     }
     ring.push(ring[0]);
-    const reply = await runBoundaryJob(
-      request({ kind: 'json', json: { type: 'Polygon', coordinates: [ring] }, name: 'big' }),
-    );
+    const source = { kind: 'json', json: { type: 'Polygon', coordinates: [ring] }, name: 'big' } as const;
+    const reply = await runBoundaryJob(request(source));
     if (reply.type !== 'done') throw new Error('refused');
     expect(reply.boundary.vertices).toBe(n);
     expect(reply.boundary.displayVertices).toBeLessThanOrEqual(MAX_DISPLAY_VERTICES);
     expect(reply.boundary.displayVertices).toBeGreaterThan(100);
+    // The page gets the drawn copy only (closing positions included, one ring).
+    expect(reply.boundary.display.coords.length).toBe(2 * (reply.boundary.displayVertices + 1));
+    expect('rings' in reply.boundary).toBe(false);
+    // Too long for a link at full resolution: the link carries the drawn copy.
+    // Too long for a link even simplified: 10,001 drawn vertices encode to more than MAX_BOUNDARY_URL_CHARS.
+    expect(reply.boundary.link).toBeNull();
     const again = await runBoundaryJob(
-      request(
-        { kind: 'rings', boundary: reply.boundary },
-        { lon: Float64Array.from([0, 3]), lat: Float64Array.from([0, 0]) },
-      ),
+      request(source, { lon: Float64Array.from([0, 3]), lat: Float64Array.from([0, 0]) }),
     );
     expect(again.type === 'done' && Array.from(again.mask ?? [])).toEqual([1, 0]);
+  });
+
+  it('sends a boundary too long for a link as its drawn copy', async () => {
+    // A smooth 1° circle of 20,000 vertices: at full resolution at least 40,000 characters (each
+    // position encodes to two or more), far more than MAX_BOUNDARY_URL_CHARS; its drawn copy is short.
+    const ring: number[][] = [];
+    for (let i = 0; i < 20_000; i++) {
+      const t = (2 * Math.PI * i) / 20_000;
+      ring.push([Math.cos(t), Math.sin(t)]);
+    }
+    ring.push(ring[0]);
+    const reply = await runBoundaryJob(
+      request({ kind: 'json', json: { type: 'Polygon', coordinates: [ring] }, name: 'circle' }),
+    );
+    if (reply.type !== 'done') throw new Error('refused');
+    const link = reply.boundary.link;
+    expect(link?.simplified).toBe(true);
+    expect(link?.name).toBe('circle');
+    // The link's polygon is the drawn copy, position for position.
+    expect(link?.polygons).toEqual(unflattenPolygons(reply.boundary.display));
+    expect(link?.polygons[0][0].length).toBe(reply.boundary.displayVertices + 1);
+    expect(reply.boundary.displayVertices).toBeLessThan(1000);
   });
 });

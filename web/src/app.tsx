@@ -10,7 +10,6 @@ import type { CellTable } from './data/cell-table';
 import { EMPTY_FILTER } from './filters/cell-filter';
 import { useBoundary } from './filters/use-boundary';
 import { DEFAULT_SORT, parseUrlState, type ViewState } from './state/url-state';
-import { boundaryForLink } from './state/boundary-link';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
 import { defaultSiteName } from './shortlist/site-name';
@@ -139,10 +138,8 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
   useEffect(() => {
     if (init.state.boundary) loadPolygons(init.state.boundary.polygons, init.state.boundary.name);
   }, [init, loadPolygons]);
-  const linkedBoundary = useMemo(
-    () => (zone.boundary ? boundaryForLink(zone.boundary) : null),
-    [zone.boundary],
-  );
+  // Worked out in the boundary worker: encoding a large boundary would hold up the page.
+  const linkedBoundary = zone.boundary?.link ?? null;
   const [firstPaint_ms, onFirstPaint] = useFirstPaint();
   useCellTableAfterFirstPaint(atlas, firstPaint_ms, setTable, zone.setMessage);
   const cellAt = useCellAt(atlas, table);

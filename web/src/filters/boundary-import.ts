@@ -23,7 +23,7 @@ import {
   type FlatRings,
   type LonLat,
 } from '../geometry/flat-rings';
-import { findRingCrossing } from '../geometry/ring-crossings';
+import { findRingCrossing, type RingCrossing } from '../geometry/ring-crossings';
 
 /** A checked boundary: its rings, how many vertices it has, and notes on what was changed. */
 export interface CheckedBoundary {
@@ -162,36 +162,38 @@ function readPolygon(raw: unknown, path: string, problems: Problems): LonLat[][]
   return rings.every((r) => r !== null) ? (rings as LonLat[][]) : null;
 }
 
-/** Read, check and normalise a boundary (see the module comment). */
-export function parseBoundary(json: unknown): BoundaryParse {
-  const polys: LonLat[][][] = [];
-  const polyPaths: string[] = [];
-  const problems = new Problems();
-  // The root's crs is checked once below; a geometry's own crs where it is not the root.
-  const take = (g: unknown, path: string) => {
-    const r = geometry.safeParse(g);
-    if (!r.success) {
-      for (const i of r.error.issues)
-        problems.add(`${path}${i.path.length ? '.' + i.path.join('.') : ''}: ${i.message}`);
-      return;
+/** Polygons found in a file, each with its path (for messages). */
+interface Found {
+  polys: LonLat[][][];
+  paths: string[];
+}
+
+/** One Polygon or MultiPolygon geometry at `path`; `isRoot`: its crs is the root's (checked once). */
+function takeGeometry(g: unknown, path: string, isRoot: boolean, found: Found, problems: Problems): void {
+  const r = geometry.safeParse(g);
+  if (!r.success) {
+    for (const i of r.error.issues)
+      problems.add(`${path}${i.path.length ? '.' + i.path.join('.') : ''}: ${i.message}`);
+    return;
+  }
+  if (!isRoot) checkCrs(r.data.crs, `${path}.crs`, problems);
+  const coordsPath = `${path}.coordinates`;
+  const polygons: [unknown, string][] =
+    r.data.type === 'Polygon'
+      ? [[r.data.coordinates, coordsPath]]
+      : r.data.coordinates.map((raw, i) => [raw, `${coordsPath}.${i}`]);
+  for (const [raw, at] of polygons) {
+    const p = readPolygon(raw, at, problems);
+    if (p) {
+      found.polys.push(p);
+      found.paths.push(at);
     }
-    if (g !== json) checkCrs(r.data.crs, `${path}.crs`, problems);
-    const coordsPath = `${path}.coordinates`;
-    if (r.data.type === 'Polygon') {
-      const p = readPolygon(r.data.coordinates, coordsPath, problems);
-      if (p) {
-        polys.push(p);
-        polyPaths.push(coordsPath);
-      }
-    } else
-      r.data.coordinates.forEach((raw, i) => {
-        const p = readPolygon(raw, `${coordsPath}.${i}`, problems);
-        if (p) {
-          polys.push(p);
-          polyPaths.push(`${coordsPath}.${i}`);
-        }
-      });
-  };
+  }
+}
+
+/** Every polygon of a bare geometry, a Feature or a FeatureCollection, crs members checked. */
+function collectPolygons(json: unknown, problems: Problems): Found {
+  const found: Found = { polys: [], paths: [] };
   const root = json as { crs?: unknown } | null;
   if (root && typeof root === 'object') checkCrs(root.crs, 'crs', problems);
   const asCollection = collection.safeParse(json);
@@ -199,43 +201,43 @@ export function parseBoundary(json: unknown): BoundaryParse {
     asCollection.data.features.forEach((f, i) => {
       checkCrs(f.crs, `features.${i}.crs`, problems);
       const t = (f.geometry as { type?: string } | null)?.type;
-      if (t === 'Polygon' || t === 'MultiPolygon') take(f.geometry, `features.${i}.geometry`);
+      if (t === 'Polygon' || t === 'MultiPolygon')
+        takeGeometry(f.geometry, `features.${i}.geometry`, false, found, problems);
     });
-    if (polys.length === 0 && problems.count === 0)
+    if (found.polys.length === 0 && problems.count === 0)
       problems.add('features: no Polygon or MultiPolygon found');
-  } else {
-    const asFeature = feature.safeParse(json);
-    if (asFeature.success) checkCrs(asFeature.data.crs, 'crs', problems);
-    take(asFeature.success ? asFeature.data.geometry : json, asFeature.success ? 'geometry' : '(root)');
+    return found;
   }
-  if (problems.count > 0 || polys.length === 0) return { boundary: null, problems: problems.result() };
+  const asFeature = feature.safeParse(json);
+  if (asFeature.success) {
+    checkCrs(asFeature.data.crs, 'crs', problems);
+    takeGeometry(asFeature.data.geometry, 'geometry', false, found, problems);
+  } else takeGeometry(json, '(root)', true, found, problems);
+  return found;
+}
 
-  const rings = flattenPolygons(polys);
+/** The message for a crossing found in `rings` (flattened from polygons at `paths`). */
+function crossingProblem(rings: FlatRings, paths: string[], c: RingCrossing): string {
   const ringPath = (r: number) => {
     const p = rings.ringPolygon[r];
     let first = r;
     while (first > 0 && rings.ringPolygon[first - 1] === p) first--;
-    return `${polyPaths[p]}.${r - first}`;
+    return `${paths[p]}.${r - first}`;
   };
-  const search = findRingCrossing(rings);
-  if (search.crossing) {
-    const c = search.crossing;
-    const where = `near lon ${c.lon.toFixed(5)}, lat ${c.lat.toFixed(5)}`;
-    const what =
-      c.kind === 'overlap'
-        ? 'runs back along itself'
-        : c.kind === 'touch'
-          ? 'touches itself'
-          : 'crosses itself';
-    problems.add(
-      c.ringA === c.ringB
-        ? `${ringPath(c.ringA)}: the ring ${what} ${where} (edges ${c.edgeA} and ${c.edgeB}); a boundary must be a simple polygon`
-        : `${ringPath(c.ringA)} and ${ringPath(c.ringB)}: the rings cross ${where}; holes must lie inside their polygon without crossing it`,
-    );
-    return { boundary: null, problems: problems.result() };
-  }
-  const notes: string[] = [];
-  if (!search.complete) notes.push('the boundary is too intricate to be fully checked for self-crossings');
+  const where = `near lon ${c.lon.toFixed(5)}, lat ${c.lat.toFixed(5)}`;
+  const what =
+    c.kind === 'overlap'
+      ? 'runs back along itself'
+      : c.kind === 'touch'
+        ? 'touches itself'
+        : 'crosses itself';
+  return c.ringA === c.ringB
+    ? `${ringPath(c.ringA)}: the ring ${what} ${where} (edges ${c.edgeA} and ${c.edgeB}); a boundary must be a simple polygon`
+    : `${ringPath(c.ringA)} and ${ringPath(c.ringB)}: the rings cross ${where}; holes must lie inside their polygon without crossing it`;
+}
+
+/** Rewind rings to RFC 7946 orientation (exterior counter-clockwise, holes clockwise); how many. */
+function rewindRings(rings: FlatRings): number {
   let rewound = 0;
   for (let r = 0; r < ringCount(rings); r++) {
     const exterior = r === 0 || rings.ringPolygon[r - 1] !== rings.ringPolygon[r];
@@ -245,6 +247,23 @@ export function parseBoundary(json: unknown): BoundaryParse {
       rewound++;
     }
   }
+  return rewound;
+}
+
+/** Read, check and normalise a boundary (see the module comment). */
+export function parseBoundary(json: unknown): BoundaryParse {
+  const problems = new Problems();
+  const { polys, paths } = collectPolygons(json, problems);
+  if (problems.count > 0 || polys.length === 0) return { boundary: null, problems: problems.result() };
+  const rings = flattenPolygons(polys);
+  const search = findRingCrossing(rings);
+  if (search.crossing) {
+    problems.add(crossingProblem(rings, paths, search.crossing));
+    return { boundary: null, problems: problems.result() };
+  }
+  const notes: string[] = [];
+  if (!search.complete) notes.push('the boundary is too intricate to be fully checked for self-crossings');
+  const rewound = rewindRings(rings);
   if (rewound > 0)
     notes.push(
       `${rewound} ring(s) rewound to the RFC 7946 orientation (exterior counter-clockwise, holes clockwise)`,
