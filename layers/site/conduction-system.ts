@@ -115,6 +115,13 @@ export interface ConductionSystem {
   k: Float64Array;
   /** 1 / k. */
   rk: Float64Array;
+  /**
+   * Vertical thermal resistance of each cell's upper and lower half per unit area, m²·K/W: h/(2k) for a
+   * cell wholly frozen or thawed, the thawed and frozen layers in series for a cell the front is in
+   * (see `halfCellResistances` in conduction-assembly.ts).
+   */
+  rUp: Float64Array;
+  rLow: Float64Array;
   kRowChanged: Uint8Array;
   /** C V / Δt, W/K. */
   cap: Float64Array;
@@ -208,6 +215,8 @@ export function createConductionSystem(s: ConductionSetup): ConductionSystem {
     Tguess: new Float64Array(n),
     k: new Float64Array(n),
     rk: new Float64Array(n),
+    rUp: new Float64Array(n),
+    rLow: new Float64Array(n),
     kRowChanged: new Uint8Array(nz),
     cap: new Float64Array(n),
     capC: new Float64Array(n),
