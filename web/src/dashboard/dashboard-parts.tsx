@@ -230,6 +230,8 @@ export function PlaceSide(props: {
   table: CellTable | null;
   selection: CellSelection | null;
   choices: MapChoices;
+  /** Name of the shortlisted site at the selected place, or null. */
+  listedAs: string | null;
   onAdd: () => void;
   onClose: () => void;
   onLocate: (lon: number, lat: number) => void;
@@ -253,6 +255,7 @@ export function PlaceSide(props: {
           table={table}
           selection={selection}
           units={choices.units}
+          listedAs={props.listedAs}
           onAdd={props.onAdd}
           onClose={props.onClose}
         />

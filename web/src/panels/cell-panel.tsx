@@ -60,6 +60,8 @@ export function CellPanel(props: {
   table: CellTable | null;
   selection: CellSelection;
   units: UnitSystem;
+  /** Name of the shortlisted site at this place (the button then updates it, never adds it twice). */
+  listedAs?: string | null;
   onAdd: () => void;
   onClose: () => void;
 }) {
@@ -108,7 +110,7 @@ export function CellPanel(props: {
           </details>
           <ClassCard manifest={manifest} values={values ?? {}} units={units} />
           <button type="button" className="primary" onClick={props.onAdd} data-testid="add-to-shortlist">
-            Add to shortlist
+            {props.listedAs ? `Update “${props.listedAs}” on the shortlist` : 'Add to shortlist'}
           </button>
         </>
       )}

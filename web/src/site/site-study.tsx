@@ -83,6 +83,7 @@ export function SiteStudy(props: {
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
 
   const addToShortlist = (derived: SiteDerived | null) => {
+    const listed = shortlistStore.atPlace(place.lon, place.lat);
     const item = shortlistStore.add({
       name: place.name,
       lon: place.lon,
@@ -91,8 +92,11 @@ export function SiteStudy(props: {
       values: place.values,
       metrics: shortlistMetrics(quick, derived, run),
     });
+    const withResults = run.kind === 'done' ? ' with the simulated results' : '';
     setAdded(
-      `Added “${item.name}” to the shortlist${run.kind === 'done' ? ' with the simulated results' : ''}.`,
+      listed
+        ? `“${item.name}” is already on the shortlist at this place: updated${withResults}, not added twice.`
+        : `Added “${item.name}” to the shortlist${withResults}.`,
     );
   };
 
