@@ -160,6 +160,21 @@ describe('site panel', () => {
     expect(typeof fromSite[fromSite.length - 1].metrics.simulatedYears_yr).toBe('number');
   });
 
+  it('does not shortlist the same place twice, and marks results whose inputs were edited since (issue 18)', async () => {
+    await s.page.click('[data-testid=site-add-shortlist]');
+    await expect
+      .poll(() => s.page.locator('.site-output [role=status]').allTextContents())
+      .toContainEqual(expect.stringMatching(/already on the shortlist at this place: updated/));
+    expect(await s.page.locator('[data-testid=site-stale]').count()).toBe(0);
+    const years = await s.page.inputValue('#site-years');
+    await setField(s.page, 'site-years', String(Number(years) + 1));
+    await s.page.waitForSelector('[data-testid=site-stale]');
+    expect(await s.page.locator('[data-testid=site-stale]').textContent()).toMatch(/for the earlier inputs/);
+    // Back to the inputs of the run: the results are current again.
+    await setField(s.page, 'site-years', years);
+    await expect.poll(() => s.page.locator('[data-testid=site-stale]').count()).toBe(0);
+  });
+
   it('shows an invalid input message next to the field and does not run', async () => {
     await openSiteStudy(s.page);
     await setField(s.page, 'site-years', '0');

@@ -38,8 +38,8 @@ export interface ShortlistStore {
   list(): readonly ShortlistItem[];
   /**
    * Add a site. A site at the same place as one already listed (within SAME_PLACE_M) is not added
-   * twice: the listed one is updated (newer values, its metrics merged with the new ones; name, note
-   * and position kept) and returned.
+   * twice: the listed one is updated (newer values, its metrics merged with the new ones, a study's
+   * origin; name, note and position kept) and returned.
    */
   add(item: NewShortlistItem): ShortlistItem;
   /** The listed site at the same place as (lon, lat), if any (within SAME_PLACE_M). */
@@ -274,7 +274,14 @@ export function createShortlistStore(backend: ShortlistPersistence | null): Shor
       const item = newItem(input, st.items.length);
       const same = findAtPlace(st.items, item.lon, item.lat);
       if (same) {
-        const merged = { ...same, values: item.values, metrics: { ...same.metrics, ...item.metrics } };
+        // A site studied at a listed place becomes a studied site; its name and note stay the user's.
+        const origin = item.origin === 'site' ? item.origin : same.origin;
+        const merged = {
+          ...same,
+          origin,
+          values: item.values,
+          metrics: { ...same.metrics, ...item.metrics },
+        };
         commit(st, (list) => list.map((it) => (it.id === same.id ? merged : it)));
         return merged;
       }

@@ -74,7 +74,9 @@ export function SiteStudy(props: {
   // The cost of the run as the form stands, stated before it starts.
   const cost = useMemo(() => runCostOf(draft), [draft]);
   const quick = useMemo(() => quickEstimateOf(draft, scenario), [draft, scenario]);
-  const { run, blocked, start, cancel } = useSiteRun(scenario);
+  const { run, blocked, startedWith, start, cancel } = useSiteRun(scenario);
+  // Results of a run whose inputs have been edited since are marked as such (issue 18 item 4).
+  const stale = run.kind === 'done' && startedWith !== null && startedWith !== JSON.stringify(draft);
   const [added, setAdded] = useState<string | null>(null);
   const heading = useRef<HTMLHeadingElement>(null);
   useModalDialog(heading, props.onClose);
@@ -133,7 +135,7 @@ export function SiteStudy(props: {
           />
           <section className="site-output" aria-label="Site results">
             <SheetHeaderAndCautions place={place} fictional={manifest.fictional} />
-            <SiteResultsOrQuick {...{ run, quick, scenario, units, added }} onAdd={addToShortlist} />
+            <SiteResultsOrQuick {...{ run, quick, scenario, units, added, stale }} onAdd={addToShortlist} />
             <SheetInputs run={run} draft={draft} />
           </section>
         </div>
@@ -150,19 +152,29 @@ function SiteResultsOrQuick(props: {
   scenario: StudyScenario;
   units: UnitSystem;
   added: string | null;
+  /** The inputs were edited after this run. */
+  stale: boolean;
   onAdd(d: SiteDerived | null): void;
 }) {
   const { run, added } = props;
   if (run.kind === 'done')
     return (
-      <SiteOutcome
-        outcome={run.outcome}
-        quick={props.quick}
-        scenario={props.scenario}
-        units={props.units}
-        onAdd={props.onAdd}
-        added={added}
-      />
+      <>
+        {props.stale ? (
+          <p className="stale-note" role="status" data-testid="site-stale">
+            The inputs have changed since this run: the results below are for the earlier inputs. Run the
+            simulation again to update them.
+          </p>
+        ) : null}
+        <SiteOutcome
+          outcome={run.outcome}
+          quick={props.quick}
+          scenario={props.scenario}
+          units={props.units}
+          onAdd={props.onAdd}
+          added={added}
+        />
+      </>
     );
   return (
     <>
