@@ -7,6 +7,8 @@
  * (write-band-geotiff.ts) -> manifest (assemble-manifest.ts) -> copy settlements/land GeoJSON.
  * Everything is written into a temporary directory beside `outDir`, validated, then swapped in
  * (atomic-output.ts): on any error the previous output stays untouched.
+ * This file checks the grid and the budget and runs the stages; each scenario's screening, tiles and
+ * GeoTIFFs are in screen-scenario.ts, the manifests in write-manifests.ts (shared state: build-run.ts).
  * Memory budget, independent of the region's height and of its cell count (W = analysis grid width,
  * B = bands, T = threads, Wi = an input grid's width): no input grid is held whole. Loading scans each
  * input in blocks of about 1 M pixels (4 MB: unit conversion, range check, valid-pixel box) and keeps
