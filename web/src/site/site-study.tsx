@@ -8,6 +8,7 @@ import { createPortal } from 'react-dom';
 import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
+import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { shortlistStore } from '../shortlist/shortlist-store';
 import type { UnitSystem } from '../units/display-units';
 import type { FormContext } from './form-inputs';
@@ -58,6 +59,30 @@ function useModalDialog(heading: RefObject<HTMLHeadingElement | null>, onClose: 
   }, [heading]);
 }
 
+/**
+ * Put the studied place on the shortlist (or update it when it is listed already: the store never lists
+ * one place twice) and say which happened.
+ */
+function shortlistStudiedSite(
+  place: SitePlace,
+  metrics: ShortlistItem['metrics'],
+  simulated: boolean,
+): string {
+  const listed = shortlistStore.atPlace(place.lon, place.lat);
+  const item = shortlistStore.add({
+    name: place.name,
+    lon: place.lon,
+    lat: place.lat,
+    origin: 'site',
+    values: place.values,
+    metrics,
+  });
+  const withResults = simulated ? ' with the simulated results' : '';
+  return listed
+    ? `“${item.name}” is already on the shortlist at this place: updated${withResults}, not added twice.`
+    : `Added “${item.name}” to the shortlist${withResults}.`;
+}
+
 export function SiteStudy(props: {
   place: SitePlace;
   prefill: SitePrefill;
@@ -75,8 +100,6 @@ export function SiteStudy(props: {
   const cost = useMemo(() => runCostOf(draft), [draft]);
   const quick = useMemo(() => quickEstimateOf(draft, scenario), [draft, scenario]);
   const { run, blocked, startedWith, start, cancel } = useSiteRun(scenario);
-  // Results of a run whose inputs have been edited since are marked as such (issue 18 item 4).
-  const stale = run.kind === 'done' && startedWith !== null && startedWith !== JSON.stringify(draft);
   const [added, setAdded] = useState<string | null>(null);
   const heading = useRef<HTMLHeadingElement>(null);
   useModalDialog(heading, props.onClose);
@@ -84,23 +107,8 @@ export function SiteStudy(props: {
   const ctx: FormContext = { root: draft, issues, onChange: setDraft, units };
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
 
-  const addToShortlist = (derived: SiteDerived | null) => {
-    const listed = shortlistStore.atPlace(place.lon, place.lat);
-    const item = shortlistStore.add({
-      name: place.name,
-      lon: place.lon,
-      lat: place.lat,
-      origin: 'site',
-      values: place.values,
-      metrics: shortlistMetrics(quick, derived, run),
-    });
-    const withResults = run.kind === 'done' ? ' with the simulated results' : '';
-    setAdded(
-      listed
-        ? `“${item.name}” is already on the shortlist at this place: updated${withResults}, not added twice.`
-        : `Added “${item.name}” to the shortlist${withResults}.`,
-    );
-  };
+  const addToShortlist = (derived: SiteDerived | null) =>
+    setAdded(shortlistStudiedSite(place, shortlistMetrics(quick, derived, run), run.kind === 'done'));
 
   const overlay = (
     <div
@@ -135,7 +143,11 @@ export function SiteStudy(props: {
           />
           <section className="site-output" aria-label="Site results">
             <SheetHeaderAndCautions place={place} fictional={manifest.fictional} />
-            <SiteResultsOrQuick {...{ run, quick, scenario, units, added, stale }} onAdd={addToShortlist} />
+            <SiteResultsOrQuick
+              {...{ run, quick, scenario, units, added }}
+              stale={run.kind === 'done' && startedWith !== JSON.stringify(draft)}
+              onAdd={addToShortlist}
+            />
             <SheetInputs run={run} draft={draft} />
           </section>
         </div>
@@ -152,7 +164,7 @@ function SiteResultsOrQuick(props: {
   scenario: StudyScenario;
   units: UnitSystem;
   added: string | null;
-  /** The inputs were edited after this run. */
+  /** The inputs were edited after this run (its results are marked, issue 18 item 4). */
   stale: boolean;
   onAdd(d: SiteDerived | null): void;
 }) {
