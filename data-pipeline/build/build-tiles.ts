@@ -41,6 +41,7 @@ import type { GridSpread, SpreadRole } from '../../layers/screening/uncertainty-
 import type { InputsConfig } from '../inputs-config';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
 import { writeBandCog } from '../export/write-band-cog';
+import { writeDisplayPackage } from '../export/write-display-package';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
 import { InputError } from '../input-error';
 import type { Progress } from '../progress-bar';
@@ -504,6 +505,10 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
             }
           : manifest;
         const checked = manifestSchema.parse(withSet);
+        // The display package (PMTiles of PNG tiles per band) from the tiles just written.
+        checked.parameters.display = await writeDisplayPackage(o.dir, checked, (d, t) =>
+          progress('display', d, t),
+        );
         await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
         await validateOutput(o.dir, checked);
       }
