@@ -239,6 +239,7 @@ describe('display package of a demo build', () => {
         }
         // A tile of the region's edge: both land cells and nodata in it.
         expect(coloured).toBeGreaterThan(0);
+        expect(transparent).toBeGreaterThan(0);
         expect(coloured + transparent).toBe(TILE_SIZE * TILE_SIZE);
         checkedTiles++;
       }
