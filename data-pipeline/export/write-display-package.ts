@@ -117,22 +117,33 @@ async function pyramidTiles(tilesDir: string, minZoom: number, maxZoom: number) 
   return tiles.sort((a, b) => a.id - b.id);
 }
 
+/** A code whose palette entry is not computed yet. */
+const UNKNOWN = -2;
+
 /**
- * Palette entry (-1: none) of every tile code of a band: the code decoded as the web decodes it
- * (tile-format.ts unpackTile: offset + code x scale, held as Float32), then coloured (band-colour.ts).
+ * Palette entry (-1: none) of a band's tile codes: a code decoded as the web decodes it (tile-format.ts
+ * unpackTile: offset + code x scale, held as Float32), then coloured (band-colour.ts). Filled on first
+ * use of each code (a build uses a fraction of the 65 535 codes of most bands).
  */
-export function codePalette(band: Band, indexOf: (v: number) => number): Int16Array {
-  const lut = new Int16Array(NODATA_CODE + 1);
-  for (let code = 0; code < NODATA_CODE; code++)
-    lut[code] = indexOf(Math.fround(band.offset + code * band.scale));
-  lut[NODATA_CODE] = -1;
-  return lut;
+export class CodePalette {
+  private readonly lut = new Int16Array(NODATA_CODE + 1).fill(UNKNOWN);
+  constructor(
+    private readonly band: Pick<Band, 'offset' | 'scale'>,
+    private readonly indexOf: (v: number) => number,
+  ) {
+    this.lut[NODATA_CODE] = -1;
+  }
+  of(code: number): number {
+    const c = this.lut[code];
+    if (c !== UNKNOWN) return c;
+    return (this.lut[code] = this.indexOf(Math.fround(this.band.offset + code * this.band.scale)));
+  }
 }
 
 /** One band's tile as PNG (null when the band has no colour anywhere in it). */
 function bandTilePng(
   codes: Uint16Array,
-  lut: Int16Array,
+  lut: CodePalette,
   rgba: Uint8Array,
   remap: Int16Array,
   scratch: { indices: Uint8Array; image: Uint8Array },
@@ -143,7 +154,7 @@ function bandTilePng(
   let coloured = false;
   const { indices } = scratch;
   for (let i = 0; i < codes.length; i++) {
-    const slot = lut[codes[i]] + 1;
+    const slot = lut.of(codes[i]) + 1;
     if (slot > 0) coloured = true;
     let k = remap[slot];
     if (k < 0) k = remap[slot] = used++;
@@ -160,7 +171,7 @@ function bandTilePng(
   }
   const { image } = scratch;
   for (let i = 0; i < codes.length; i++) {
-    const c = lut[codes[i]];
+    const c = lut.of(codes[i]);
     if (c < 0) image.fill(0, i * 4, i * 4 + 4);
     else image.set(rgba.subarray(c * 4, c * 4 + 4), i * 4);
   }
@@ -200,7 +211,7 @@ export async function writeDisplayPackage(
     const rgba = new Uint8Array(colours.length * 4);
     colours.forEach((c, i) => rgba.set([c[0], c[1], c[2], 255], i * 4));
     const file = `${DISPLAY_DIR}/${band.id}.pmtiles`;
-    const lut = codePalette(band, indexOf);
+    const lut = new CodePalette(band, indexOf);
     return { band, lut, rgba, file, remap: new Int16Array(colours.length + 1) };
   });
   const files: AtomicFile[] = [];
