@@ -72,8 +72,10 @@ export function displayLegend(band: Band): Record<string, unknown> {
 
 /** The inputs' provenance and licence, each distinct line once. */
 function attribution(manifest: Manifest): string {
-  const lines = [...new Set(manifest.sources.map((s) => `${s.provenance} (${s.licence})`))];
-  return `Pile Atlas screening (${manifest.region.name}). Inputs: ${lines.join('; ')}`;
+  const lines = [
+    ...new Set(manifest.sources.map((s) => `${s.provenance.replace(/[.\s]+$/, '')}. Licence: ${s.licence}`)),
+  ];
+  return `Pile Atlas screening (${manifest.region.name}). Inputs: ${lines.join(' ')}`;
 }
 
 /** The metadata of one band's archive. */
