@@ -112,6 +112,9 @@ async function pyramidTiles(tilesDir: string, minZoom: number, maxZoom: number) 
         const m = /^(\d+)\.bin$/.exec(yName);
         if (!m) continue;
         const [x, y] = [Number(xName), Number(m[1])];
+        if (!(Number.isInteger(x) && x < 2 ** z && y < 2 ** z)) {
+          throw new Error(`${join('tiles', String(z), xName, yName)}: no tile of zoom ${z} has this x/y`);
+        }
         tiles.push({ z, x, y, id: zxyToTileId(z, x, y) });
       }
     }

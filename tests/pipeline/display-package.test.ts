@@ -5,7 +5,7 @@
  * the PNG tiles decoded by GDAL's PNG driver (libpng, independent of our encoder). The colours are
  * checked against the web map's own tile colouring (web/src/map/colour-tile.ts) of the same tile.
  */
-import { readdir, readFile, writeFile } from 'node:fs/promises';
+import { mkdir, readdir, readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
@@ -18,6 +18,7 @@ import {
   type Source,
 } from 'pmtiles';
 import { buildDirectories, PmtilesWriter } from '../../data-pipeline/export/pmtiles-writer';
+import { writeDisplayPackage } from '../../data-pipeline/export/write-display-package';
 import { encodePng } from '../../data-pipeline/export/png-encode';
 import { loadGdal } from '../../data-pipeline/gdal/gdal-wasm';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../layers/cautions';
@@ -245,5 +246,18 @@ describe('display package of a demo build', () => {
       }
     }
     expect(checkedTiles).toBe(4);
+  });
+
+  it('a tile of the wrong size: an error naming the tile, and no archive left behind', async () => {
+    const dir = await makeTempDir('display-bad');
+    const z = demo.manifest.tiles.minZoom;
+    await mkdir(join(dir, 'tiles', String(z), '0'), { recursive: true });
+    await writeFile(join(dir, 'tiles', String(z), '0', '0.bin'), new Uint8Array(1000));
+    await expect(writeDisplayPackage(dir, demo.manifest)).rejects.toThrow(
+      new RegExp(
+        `tiles/${z}/0/0\\.bin: 1000 bytes, expected ${demo.manifest.bands.length * TILE_SIZE ** 2 * 2}`,
+      ),
+    );
+    expect(await readdir(join(dir, 'display'))).toEqual([]);
   });
 });
