@@ -13,6 +13,7 @@ import type { Scenario } from '../../layers/screening/scenario';
 import { differenceText, scenarioDifferences } from '../../layers/screening/scenario-set';
 import type { ScreeningModel } from '../../layers/screening/screening-model';
 import { TILE_SIZE } from '../../layers/screening/tile-format';
+import { writeDisplayPackage } from '../export/write-display-package';
 import { assembleManifest } from './assemble-manifest';
 import type { BuildRun, ScenarioOutput } from './build-run';
 
@@ -39,6 +40,10 @@ export async function writeManifests(
         }
       : manifest;
     const checked = manifestSchema.parse(withSet);
+    // The display package (PMTiles of PNG tiles per band) from the tiles just written.
+    checked.parameters.display = await writeDisplayPackage(o.dir, checked, (d, t) =>
+      run.progress('display', d, t),
+    );
     await writeFile(join(o.dir, 'manifest.json'), JSON.stringify(checked, null, 2) + '\n');
     await validateOutput(o.dir, checked);
   }

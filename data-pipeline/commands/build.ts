@@ -136,6 +136,7 @@ in EPSG:3413 (nearest for classes, bilinear for continuous values), screens ever
 writes:
   <out>/tiles/{z}/{x}/{y}.bin   Web Mercator tile pyramid (overviews: classes by mode, values by mean)
   <out>/geotiff/<band>.tif      every band as a GeoTIFF in EPSG:3413 (nodata -9999)
+  <out>/display/<band>.pmtiles  every band as PNG map tiles coloured as the web map (PMTiles v3)
   <out>/manifest.json           bands, units, ranges, sources with sha256, scenario, run summary
   <out>/settlements.geojson, <out>/land.geojson (copied when the config lists them)
 The output is replaced atomically: if anything fails or the build is killed, a previous <out> stays
