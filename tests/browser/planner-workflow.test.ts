@@ -91,6 +91,14 @@ describe('planner workflow', () => {
     await s.page.waitForSelector('[data-testid=site-card]', { timeout: 30_000 });
     await s.page.click('[data-testid=open-site-study]');
     await s.page.waitForSelector('[data-testid=site-study]');
+    // The quick estimate reads in the chosen units too: W -> Btu/h, L/yr -> US gal/yr (display-units.ts).
+    const quick = s.page.locator('[data-testid=site-quick]');
+    if (await quick.count()) {
+      const q = (await quick.textContent()) ?? '';
+      expect(q).toMatch(/Btu\/h/);
+      expect(q).toMatch(/US gal\/yr/);
+      expect(q).not.toMatch(/\d W\b|L\/yr/);
+    }
     const unitOf = (id: string) => s.page.locator(`#${id} + .unit`).textContent();
     const stored = async (id: string) => Number(await s.page.getAttribute(`#${id}`, 'data-stored-si'));
     const shown = async (id: string) => Number(await s.page.inputValue(`#${id}`));

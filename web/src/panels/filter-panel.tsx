@@ -120,6 +120,31 @@ function ClassRow(props: {
   );
 }
 
+/**
+ * The active filters in one line each, as the counter repeats them ("Ground temperature ≤ 28 °F",
+ * "Suitability class: not poor"), so that what the count means stays in view with it.
+ */
+export function activeFilterTexts(filter: FilterSpec, bands: Band[], units: UnitSystem): string[] {
+  const byId = new Map(bands.map((b) => [b.id, b]));
+  const out: string[] = [];
+  for (const r of filter.ranges) {
+    const band = byId.get(r.bandId);
+    if (!band || (r.min === undefined && r.max === undefined)) continue;
+    const unit = bandUnitText(band, units);
+    const v = (x: number) => `${formatNumber(toDisplay(x, band.unit, units))}${unit ? ` ${unit}` : ''}`;
+    const title = displayTitle(band.title, band.unit, units);
+    if (r.min !== undefined && r.max !== undefined) out.push(`${title} ${v(r.min)} to ${v(r.max)}`);
+    else out.push(r.min !== undefined ? `${title} ≥ ${v(r.min)}` : `${title} ≤ ${v(r.max ?? NaN)}`);
+  }
+  for (const e of filter.excluded) {
+    const band = byId.get(e.bandId);
+    if (!band || e.values.length === 0) continue;
+    const labels = e.values.map((x) => band.classes?.find((c) => c.value === x)?.label ?? String(x));
+    out.push(`${band.title}: not ${labels.join(', not ')}`);
+  }
+  return out;
+}
+
 export function FilterPanel(props: {
   bands: Band[];
   filter: FilterSpec;

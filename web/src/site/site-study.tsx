@@ -155,13 +155,14 @@ function useAddToShortlist(place: SitePlace, quick: CellScreening | null, run: R
  * (issue 18 item 4) and say so, and whether the inputs as they now stand can be run at all.
  */
 function useStaleMark(run: RunState, draft: unknown, issueCount: number, start: (d: unknown) => void) {
-  const [ranWith, setRanWith] = useState<unknown>(undefined);
+  const [ranWith, setRanWith] = useState<string | null>(null);
+  const now = useMemo(() => JSON.stringify(draft), [draft]);
   const startNow = () => {
-    if (issueCount === 0) setRanWith(draft);
+    if (issueCount === 0) setRanWith(now);
     start(draft);
   };
   const stale: StaleState =
-    run.kind !== 'done' || ranWith === draft ? null : issueCount > 0 ? 'invalid' : 'edited';
+    run.kind !== 'done' || ranWith === now ? null : issueCount > 0 ? 'invalid' : 'edited';
   return { stale, startNow };
 }
 
