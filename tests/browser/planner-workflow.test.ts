@@ -192,6 +192,61 @@ describe('planner workflow', () => {
     expect(year).toMatch(/^(\d{4}|after \d{4}|no data)$/);
     expect(await s.page.locator('[data-testid=legend-unit]').textContent()).toContain('calendar year');
   });
+
+  it('keeps the counter and the active filters in view at 1440 × 900 and 1024 × 700; no word cut at 1024', async () => {
+    const f = ['groundTemp::-1', 'thawDelay:10:'].join(';');
+    for (const [w, h] of [
+      [1440, 900],
+      [1024, 700],
+    ]) {
+      await s.page.setViewportSize({ width: w, height: h });
+      await openAndClickCentre(s.page, `&units=NA&f=${f}`);
+      const filters = await s.page.locator('[data-testid=active-filters] li').allTextContents();
+      console.log(`${w} × ${h}: active filters ${filters.join(' | ')}`);
+      // The filters in words, in the chosen units: −1 °C = 30.2 °F (°F = °C × 9/5 + 32).
+      expect(filters).toEqual(['Ground temperature at pile depth ≤ 30.2 °F', 'Thaw delay ≥ 10.0 yr']);
+      for (const sel of ['[data-testid=region-count]', '[data-testid=active-filters]']) {
+        const box = await s.page.locator(sel).boundingBox();
+        if (!box) throw new Error(`${sel} not shown`);
+        expect(box.y, `${w}: ${sel} top`).toBeGreaterThanOrEqual(0);
+        expect(box.y + box.height, `${w}: ${sel} bottom`).toBeLessThanOrEqual(h);
+      }
+      await s.page.mouse.move(1, h - 1);
+      await s.page.screenshot({ path: join(s.artifactsDir, `planner-map-${w}x${h}.png`) });
+      // "Why this class": the criteria table fits its panel and cuts no word across two lines.
+      await s.page.click('[data-testid=class-card] > summary');
+      const cut = await s.page.locator('[data-testid=criteria]').evaluate((table) => {
+        const words: string[] = [];
+        const walker = document.createTreeWalker(table, NodeFilter.SHOW_TEXT);
+        for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+          const text = n.textContent ?? '';
+          for (const m of text.matchAll(/[^\s\-–/]+/g)) {
+            const r = document.createRange();
+            r.setStart(n, m.index);
+            r.setEnd(n, m.index + m[0].length);
+            const lines = new Set([...r.getClientRects()].map((x) => Math.round(x.top)));
+            if (lines.size > 1) words.push(m[0]);
+          }
+        }
+        const panel = table.parentElement as HTMLElement;
+        return { words, overflow: table.scrollWidth - panel.clientWidth };
+      });
+      console.log(`${w} × ${h}: criteria words cut ${cut.words.length}, overflow ${cut.overflow} px`);
+      expect(cut.words).toEqual([]);
+      expect(cut.overflow).toBeLessThanOrEqual(1);
+      await s.page.locator('[data-testid=cell-panel]').screenshot({
+        path: join(s.artifactsDir, `planner-criteria-${w}.png`),
+      });
+    }
+    // The shortlist report follows the unit switch: the comparison reads °F, not °C.
+    await s.page.click('[data-testid=add-to-shortlist]');
+    await s.page.click('[data-testid=open-report]');
+    const comparison = (await s.page.locator('[data-testid=report-comparison]').textContent()) ?? '';
+    expect(comparison).toMatch(/°F/);
+    expect(comparison).not.toMatch(/°C/);
+    await s.page.click('[data-testid=report-close]');
+    await s.page.setViewportSize({ width: 1280, height: 720 });
+  });
 });
 
 let excludedGrey: [number, number, number] = [0, 0, 0];
