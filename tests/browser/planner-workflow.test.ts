@@ -194,25 +194,30 @@ describe('planner workflow', () => {
   });
 
   it('keeps the counter and the active filters in view at 1440 × 900 and 1024 × 700; no word cut at 1024', async () => {
-    const f = ['groundTemp::-1', 'thawDelay:10:'].join(';');
+    const f = ['groundTemp::-1', 'thawDelay:5:'].join(';');
     for (const [w, h] of [
       [1440, 900],
       [1024, 700],
     ]) {
       await s.page.setViewportSize({ width: w, height: h });
+      // The whole region first (the opening view) for the docs' screenshots, then a place.
+      await s.page.goto(`${s.url}?units=NA&f=${f}`);
+      await s.page.waitForSelector('[data-testid=map-wrap][data-first-paint-ms]', { timeout: 60_000 });
+      await s.page.waitForSelector('[data-testid=active-filters]', { timeout: 60_000 });
+      await s.page.waitForTimeout(500);
+      await s.page.screenshot({ path: join(s.artifactsDir, `planner-map-${w}x${h}.png`) });
       await openAndClickCentre(s.page, `&units=NA&f=${f}`);
       const filters = await s.page.locator('[data-testid=active-filters] li').allTextContents();
       console.log(`${w} × ${h}: active filters ${filters.join(' | ')}`);
       // The filters in words, in the chosen units: −1 °C = 30.2 °F (°F = °C × 9/5 + 32).
-      expect(filters).toEqual(['Ground temperature at pile depth ≤ 30.2 °F', 'Thaw delay ≥ 10.0 yr']);
+      expect(filters).toEqual(['Ground temperature at pile depth ≤ 30.2 °F', 'Thaw delay ≥ 5.00 yr']);
       for (const sel of ['[data-testid=region-count]', '[data-testid=active-filters]']) {
         const box = await s.page.locator(sel).boundingBox();
         if (!box) throw new Error(`${sel} not shown`);
         expect(box.y, `${w}: ${sel} top`).toBeGreaterThanOrEqual(0);
         expect(box.y + box.height, `${w}: ${sel} bottom`).toBeLessThanOrEqual(h);
       }
-      await s.page.mouse.move(1, h - 1);
-      await s.page.screenshot({ path: join(s.artifactsDir, `planner-map-${w}x${h}.png`) });
+      await s.page.screenshot({ path: join(s.artifactsDir, `planner-place-${w}x${h}.png`) });
       // "Why this class": the criteria table fits its panel and cuts no word across two lines.
       await s.page.click('[data-testid=class-card] > summary');
       const cut = await s.page.locator('[data-testid=criteria]').evaluate((table) => {
@@ -240,6 +245,11 @@ describe('planner workflow', () => {
     }
     // The shortlist report follows the unit switch: the comparison reads °F, not °C.
     await s.page.click('[data-testid=add-to-shortlist]');
+    // The same place is not listed twice: the button now updates the listed site.
+    const add = s.page.locator('[data-testid=add-to-shortlist]');
+    await expect.poll(() => add.textContent()).toMatch(/^Update “.+” on the shortlist$/);
+    await add.click();
+    await expect(s.page.locator('[data-testid=shortlist-item]').count()).resolves.toBe(1);
     await s.page.click('[data-testid=open-report]');
     const comparison = (await s.page.locator('[data-testid=report-comparison]').textContent()) ?? '';
     expect(comparison).toMatch(/°F/);
