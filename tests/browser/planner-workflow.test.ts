@@ -204,6 +204,7 @@ describe('planner workflow', () => {
       await s.page.goto(`${s.url}?units=NA&f=${f}`);
       await s.page.waitForSelector('[data-testid=map-wrap][data-first-paint-ms]', { timeout: 60_000 });
       await s.page.waitForSelector('[data-testid=active-filters]', { timeout: 60_000 });
+      await s.page.waitForSelector('[data-testid=region-count-cells]', { timeout: 60_000 });
       await s.page.waitForTimeout(500);
       await s.page.screenshot({ path: join(s.artifactsDir, `planner-map-${w}x${h}.png`) });
       await openAndClickCentre(s.page, `&units=NA&f=${f}`);
