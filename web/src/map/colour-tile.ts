@@ -4,7 +4,8 @@
  * legend range; class bands use one colour per class (ordinal classes sampled from the band's ramp
  * when it names one, otherwise the Okabe & Ito (2008) palette, "Color Universal Design", which stays
  * distinguishable under the common colour-vision deficiencies). Nodata is transparent (the base map's
- * land or sea shows through); cells failing the live filter are drawn as a pale grey veil; in an
+ * land or sea shows through); cells failing the live filter are drawn as a grey veil, dense enough to
+ * read apart from land without data and from the solid grey of an "excluded" class; in an
  * ensemble build, cells whose robust class is "uncertain" can be hatched over any layer.
  */
 import type { Band } from '../../../layers/screening/manifest';
@@ -15,11 +16,16 @@ import { bandColourer } from '../../../layers/screening/band-colour';
 export { legendRange } from '../../../layers/screening/band-colour';
 
 // The class colours are shared with the pipeline's GeoTIFF colour tables (layers/screening/class-colours.ts).
-export { classColours, NONE_CLASS_RGB, OKABE_ITO } from '../../../layers/screening/class-colours';
+export {
+  CLEAR_CLASS_RGB,
+  classColours,
+  NONE_CLASS_RGB,
+  OKABE_ITO,
+} from '../../../layers/screening/class-colours';
 import { passesAt, type CompiledFilter } from '../filters/cell-filter';
 
 export const FADED_RGB: Rgb = [150, 156, 162];
-export const FADED_ALPHA = 0.35;
+export const FADED_ALPHA = 0.6;
 
 export interface TileStyle {
   band: Band;

@@ -26,8 +26,6 @@ export interface SiteRun {
   run: RunState;
   /** The last start was refused because inputs need attention (the first one is focused). */
   blocked: boolean;
-  /** The inputs the current results were computed from (JSON of the draft at start), or null. */
-  startedWith: string | null;
   start(draft: unknown): void;
   cancel(): void;
 }
@@ -35,7 +33,6 @@ export interface SiteRun {
 export function useSiteRun(scenario: StudyScenario): SiteRun {
   const [run, setRun] = useState<RunState>({ kind: 'idle' });
   const [blocked, setBlocked] = useState(false);
-  const [startedWith, setStartedWith] = useState<string | null>(null);
   const handle = useRef<SiteRunHandle | null>(null);
   useEffect(() => () => handle.current?.cancel(), []);
 
@@ -49,7 +46,6 @@ export function useSiteRun(scenario: StudyScenario): SiteRun {
       return;
     }
     setBlocked(false);
-    setStartedWith(JSON.stringify(draft));
     const { input, column } = studyRunInput(parsed.data, scenario);
     setRun({ kind: 'running', progress: 0, phase: 'simulating' });
     let last = 0;
@@ -75,7 +71,7 @@ export function useSiteRun(scenario: StudyScenario): SiteRun {
       },
     );
   };
-  return { run, blocked, startedWith, start, cancel: () => handle.current?.cancel() };
+  return { run, blocked, start, cancel: () => handle.current?.cancel() };
 }
 
 export type RunCost = SiteRunCost & { years: number };
