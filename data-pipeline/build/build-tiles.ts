@@ -54,6 +54,7 @@ import { checkOutputTarget } from './output-guard';
 import { computeLayers } from './compute-layers';
 import { addProximityBands } from './proximity-bands';
 import { compareWithFirst, type ScenarioComparison } from './compare-scenarios';
+import { addScenarioDifferenceBands } from './scenario-difference-bands';
 import { loadInputs, type InputReader } from './load-inputs';
 import { alignInputs, gdalTransformTo } from './align-inputs';
 import { ANALYSIS_CRS } from '../crs/crs-definitions';
@@ -352,6 +353,8 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
           maskBand: 0,
           geojson,
         });
+        if (si > 0)
+          await addScenarioDifferenceBands(outputs[0].result, result, dirname(result.files.paths[0]));
         const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
         const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
         const margin = (2 * cellSize_m) / 111_000;
