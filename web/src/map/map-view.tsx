@@ -188,14 +188,16 @@ function wireMapEvents(map: maplibregl.Map, latest: Ref<MapViewProps>): void {
   map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
   map.on('mouseout', () => latest.current.onHover(null));
   map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
-  map.on('moveend', () => {
+  const report = () => {
     const c = map.getCenter();
+    // The view on the element too (the compare view's linked maps are checked through it).
+    map.getContainer().dataset.view = `${c.lng.toFixed(6)},${c.lat.toFixed(6)},${map.getZoom().toFixed(4)}`;
     latest.current.onViewChange([c.lng, c.lat], map.getZoom());
-  });
+  };
+  map.on('moveend', report);
   // The opening view (fitted to the region, or the link's) fires no moveend: report it, so that the
   // URL holds the view on screen and not the defaults it was computed from.
-  const c0 = map.getCenter();
-  latest.current.onViewChange([c0.lng, c0.lat], map.getZoom());
+  report();
 }
 
 /** Pins of the shortlisted sites and the ring round the selected place. */
