@@ -3,7 +3,8 @@
  * of the demo set) served to Chromium (software WebGL). The header's Compare control splits the map
  * into the scenario shown and a second one, both maps paint, panning one moves the other to the same
  * centre and zoom, each map names its scenario, the link carries `compare=<slug>` and opens the same
- * split, and leaving compare restores the single map. Screenshot: docs/compare-view.png (1440 x 900).
+ * split, the matching-area counter counts the cells matching the filter under both scenarios (checked
+ * against the build's own comparison), and leaving compare restores the single map. Screenshot: docs/compare-view.png (1440 x 900).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync } from 'node:fs';
@@ -14,6 +15,7 @@ import { buildTiles } from '../../data-pipeline/build/build-tiles';
 import { generateDemoData } from '../../data-pipeline/demo/generate-demo-data';
 import { DEMO_SCENARIO_SET } from '../../data-pipeline/demo/demo-scenarios';
 import { LAND_COLOUR, SEA_COLOUR } from '../../web/src/map/base-style';
+import { BAND } from '../../layers/screening/band-ids';
 import { countForegroundPixels, hexRgb, startSession, type BrowserSession } from './browser-session';
 
 const DOCS = fileURLToPath(new URL('../../docs/', import.meta.url));
@@ -106,9 +108,6 @@ describe('compare view', () => {
     const url = new URL(page.url());
     expect(url.searchParams.get('compare')).toBe('high-pathway-50-year-life');
     expect(url.searchParams.get('c')).toBe(`${l2[0].toFixed(5)},${l2[1].toFixed(5)}`);
-    await page.waitForTimeout(1500);
-    await page.screenshot({ path: join(DOCS, 'compare-view.png') });
-
     // the link opens the same split at the same view
     await page.goto(page.url());
     await waitForCompare();
@@ -117,6 +116,24 @@ describe('compare view', () => {
     const [l3, r3] = await views();
     expect(r3).toEqual(l3);
     expect(Math.abs(l3[0] - l2[0])).toBeLessThan(1e-4);
+
+    // good under both: with the filter "good only", the counter under both scenarios counts the cells
+    // good in each; the build's own cell-by-cell comparison (compare-scenarios.ts) counted the same cells
+    await page.goto(`${page.url()}&x=${BAND.suitability}:0,1,2`);
+    await waitForCompare();
+    await page.waitForSelector('[data-testid=both-count-cells]', { timeout: 60_000 });
+    const count = async (id: string) =>
+      Number(((await page.locator(`[data-testid=${id}]`).textContent()) ?? '').replace(/,/g, ''));
+    const both = await count('both-count-cells');
+    const goodHere = await count('region-count-cells');
+    const fromBuild = s.manifest.scenarioSet?.scenarios[2].keyFigures.goodUnderBoth_cells;
+    console.log(`good here ${goodHere}, good under both ${both}, build's count ${fromBuild}`);
+    expect(both).toBe(fromBuild);
+    expect(both).toBeGreaterThan(0);
+    expect(both).toBeLessThanOrEqual(goodHere);
+    expect(await page.locator('[data-testid=both-count]').textContent()).toContain(SET.scenarios[2].name);
+    await page.waitForTimeout(1500);
+    await page.screenshot({ path: join(DOCS, 'compare-view.png') });
 
     // leaving compare restores the single map, full width, and the link drops the compare scenario
     await page.click('[data-testid=compare-toggle]');

@@ -22,7 +22,7 @@ import {
   linkedScenarios,
   scenarioBase,
 } from './data/scenario-urls';
-import { useCompareAtlas, type CompareState } from './dashboard/compare-view';
+import { useCompareAtlas, useCompareTable, type CompareState } from './dashboard/compare-view';
 import {
   useBoundarySketch,
   useCellAt,
@@ -154,6 +154,7 @@ function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void
   useCellTableAfterFirstPaint(atlas, firstPaint_ms, setTable, zone.setMessage);
   const cellAt = useCellAt(atlas, table);
   const [selection, setSelection] = useSelection(init.state.selection, table, cellAt);
+  const compareTable = useCompareTable(compare.atlas, table !== null);
   const onViewChange = useLinkSync(manifest, choices, view, linkedBoundary, selection, compare.slug);
   const sketch = useBoundarySketch(zone.finishDrawing);
   const pick = usePointPicker(sketch, setSelection, cellAt);
@@ -168,7 +169,7 @@ function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void
         linkedBoundary={linkedBoundary}
       />
       <UrlNotice problems={init.problems} />
-      <LayersSide {...{ atlas, choices, look, uncertainClass, table, zone, sketch }} />
+      <LayersSide {...{ atlas, choices, look, uncertainClass, table, zone, sketch, compareTable }} />
       <MapArea
         {...{ atlas, look, table, view, sketch, selection, shortlist, cellAt, flyTarget, firstPaint_ms }}
         {...{ choices, compare }}

@@ -7,11 +7,17 @@
  */
 import { useEffect, useMemo, useState } from 'react';
 import type { Manifest } from '../../../layers/screening/manifest';
-import { loadAtlas, type Atlas } from '../data/load-atlas';
+import { loadAtlas, loadCellTable, type Atlas } from '../data/load-atlas';
+import type { CellTable } from '../data/cell-table';
+import { compileFilter, type CompiledFilter, type FilterSpec } from '../filters/cell-filter';
+import { summariseBoth } from '../filters/both-scenarios';
+import type { ZonalSummary } from '../filters/zonal-summary';
 import { currentScenarioName, defaultCompareSlug, scenarioBase } from '../data/scenario-urls';
 import { MapView } from '../map/map-view';
 import type { ViewLink } from '../map/linked-views';
 import { uncertainClassOf } from '../panels/ensemble-ranges';
+import { Counts } from '../panels/summary-panel';
+import type { UnitSystem } from '../units/display-units';
 import { useTileLook, type LonLatPoint, type MapChoices, type MapViewRef } from './use-dashboard-state';
 
 /** The compare state the dashboard gets from the app: the second scenario (slug and data) and its setter. */
@@ -142,3 +148,73 @@ export function ComparePane(props: {
 const NO_RINGS: LonLatPoint[][] = [];
 const NO_PATH: LonLatPoint[] = [];
 const ignore = () => undefined;
+
+/** The compare scenario's cell table, loaded once the shown scenario's table is there (null outside compare). */
+export function useCompareTable(compareAtlas: Atlas | null, shownTableReady: boolean): CompareTable | null {
+  const [loaded, setLoaded] = useState<CompareTable | null>(null);
+  useEffect(() => {
+    if (!compareAtlas || !shownTableReady) return;
+    let live = true;
+    loadCellTable(compareAtlas).then(
+      (table) => live && setLoaded({ atlas: compareAtlas, table }),
+      () => undefined, // the counter under both then stays away; the maps still compare
+    );
+    return () => {
+      live = false;
+    };
+  }, [compareAtlas, shownTableReady]);
+  return loaded && loaded.atlas === compareAtlas ? loaded : null;
+}
+
+export interface CompareTable {
+  atlas: Atlas;
+  table: CellTable;
+}
+
+/** Cells matching the live filter under both scenarios (region, and inside the boundary when one is set). */
+export function useBothSummary(
+  table: CellTable | null,
+  compiled: CompiledFilter,
+  compareTable: CompareTable | null,
+  filter: FilterSpec,
+  mask: Uint8Array | null,
+): { region: ZonalSummary; zone: ZonalSummary | null; name: string } | null {
+  const otherBands = compareTable?.atlas.manifest.bands;
+  const otherFilter = useMemo(
+    () => (otherBands ? compileFilter(filter, otherBands) : null),
+    [filter, otherBands],
+  );
+  return useMemo(() => {
+    if (!table || !compareTable || !otherFilter) return null;
+    const a = { table, filter: compiled };
+    const b = { table: compareTable.table, filter: otherFilter };
+    return {
+      region: summariseBoth(a, b),
+      zone: mask ? summariseBoth(a, b, mask) : null,
+      name: currentScenarioName(compareTable.atlas.manifest),
+    };
+  }, [table, compiled, compareTable, otherFilter, mask]);
+}
+
+/** The counts under both scenarios, in the matching-area panel while comparing. */
+export function BothCounts({ both, units }: { both: ReturnType<typeof useBothSummary>; units: UnitSystem }) {
+  if (!both) return null;
+  return (
+    <>
+      <Counts
+        label={`Whole region, under both scenarios (with ${both.name})`}
+        s={both.region}
+        units={units}
+        testId="both-count"
+      />
+      {both.zone ? (
+        <Counts
+          label="Inside the boundary, under both scenarios"
+          s={both.zone}
+          units={units}
+          testId="both-zone-count"
+        />
+      ) : null}
+    </>
+  );
+}

@@ -25,7 +25,15 @@ import { HoverReadout, type HoverState } from '../panels/hover-readout';
 import { ScenarioPicker } from '../panels/scenario-picker';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { ViewLink } from '../map/linked-views';
-import { CompareControl, CompareLabel, ComparePane, type CompareState } from './compare-view';
+import {
+  BothCounts,
+  CompareControl,
+  CompareLabel,
+  ComparePane,
+  useBothSummary,
+  type CompareState,
+  type CompareTable,
+} from './compare-view';
 import { SitePanel } from '../site/site-panel';
 import type { LinkedBoundary } from '../state/boundary-link';
 import { CopyLink } from '../state/copy-link';
@@ -100,8 +108,10 @@ export function LayersSide(props: {
   table: CellTable | null;
   zone: BoundaryState;
   sketch: BoundarySketch;
+  compareTable: CompareTable | null;
 }) {
   const { atlas, choices: c, look, uncertainClass, table, zone, sketch } = props;
+  const both = useBothSummary(table, look.compiled, props.compareTable, c.filter, zone.mask);
   const { manifest } = atlas;
   const { compiled } = look;
   const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
@@ -148,7 +158,9 @@ export function LayersSide(props: {
         onFinish={sketch.finish}
         onClear={zone.clear}
         onImport={importBoundary}
-      />
+      >
+        <BothCounts both={both} units={c.units} />
+      </SummaryPanel>
       <SourcesPanel manifest={manifest} />
     </aside>
   );
