@@ -64,6 +64,27 @@ async function waitForCompare(): Promise<void> {
   await page.waitForTimeout(2500); // the right map's tiles (software WebGL)
 }
 
+/**
+ * Good under both: with the filter "good only", the counter under both scenarios counts the cells
+ * good in each; the build's own cell-by-cell comparison (compare-scenarios.ts) counted the same cells.
+ */
+async function checkGoodUnderBoth(): Promise<void> {
+  const page = s.page;
+  await page.goto(`${page.url()}&x=${BAND.suitability}:0,1,2`);
+  await waitForCompare();
+  await page.waitForSelector('[data-testid=both-count-cells]', { timeout: 60_000 });
+  const count = async (id: string) =>
+    Number(((await page.locator(`[data-testid=${id}]`).textContent()) ?? '').replace(/,/g, ''));
+  const both = await count('both-count-cells');
+  const goodHere = await count('region-count-cells');
+  const fromBuild = s.manifest.scenarioSet?.scenarios[2].keyFigures.goodUnderBoth_cells;
+  console.log(`good here ${goodHere}, good under both ${both}, build's count ${fromBuild}`);
+  expect(both).toBe(fromBuild);
+  expect(both).toBeGreaterThan(0);
+  expect(both).toBeLessThanOrEqual(goodHere);
+  expect(await page.locator('[data-testid=both-count]').textContent()).toContain(SET.scenarios[2].name);
+}
+
 describe('compare view', () => {
   it('splits into two labelled maps that both paint, pan together, round-trip by link and close again', async () => {
     const page = s.page;
@@ -117,21 +138,7 @@ describe('compare view', () => {
     expect(r3).toEqual(l3);
     expect(Math.abs(l3[0] - l2[0])).toBeLessThan(1e-4);
 
-    // good under both: with the filter "good only", the counter under both scenarios counts the cells
-    // good in each; the build's own cell-by-cell comparison (compare-scenarios.ts) counted the same cells
-    await page.goto(`${page.url()}&x=${BAND.suitability}:0,1,2`);
-    await waitForCompare();
-    await page.waitForSelector('[data-testid=both-count-cells]', { timeout: 60_000 });
-    const count = async (id: string) =>
-      Number(((await page.locator(`[data-testid=${id}]`).textContent()) ?? '').replace(/,/g, ''));
-    const both = await count('both-count-cells');
-    const goodHere = await count('region-count-cells');
-    const fromBuild = s.manifest.scenarioSet?.scenarios[2].keyFigures.goodUnderBoth_cells;
-    console.log(`good here ${goodHere}, good under both ${both}, build's count ${fromBuild}`);
-    expect(both).toBe(fromBuild);
-    expect(both).toBeGreaterThan(0);
-    expect(both).toBeLessThanOrEqual(goodHere);
-    expect(await page.locator('[data-testid=both-count]').textContent()).toContain(SET.scenarios[2].name);
+    await checkGoodUnderBoth();
     await page.waitForTimeout(1500);
     await page.screenshot({ path: join(DOCS, 'compare-view.png') });
 

@@ -126,6 +126,19 @@ describe('scenario set build', () => {
     );
     expect(list[0].keyFigures.goodUnderBoth_cells).toBeUndefined();
   });
+  it('rejects two scenarios with the same name, naming the field, before reading any input', async () => {
+    const bad = { scenarios: [{ name: 'A' }, { name: 'a', designLife_yr: 50 }] };
+    const err = await buildTiles({
+      inDir,
+      outDir: join(await makeTempDir('bad'), 'out'),
+      scenario: bad,
+    }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ValidationError);
+    expect(String((err as Error).message)).toMatch(/scenarios\.1\.name/);
+  });
+});
+
+describe('scenario difference bands', () => {
   it('writes difference bands on every scenario after the first: each cell is its two scenarios’ values subtracted', async () => {
     // Definition of the bands (issue 17 item 3): margin lost = first − this, piles added = this − first,
     // class change compares the ordinal classes. Tolerance: the tiles' quantisation, at most scale / 2
@@ -190,15 +203,5 @@ describe('scenario set build', () => {
     for (const v of finiteLost)
       expect(Math.abs(v)).toBeLessThanOrEqual(q(manifests[3], BAND.frozenMarginLost));
     for (const v of again[0]) if (Number.isFinite(v)) expect(Math.round(v)).toBe(2);
-  });
-  it('rejects two scenarios with the same name, naming the field, before reading any input', async () => {
-    const bad = { scenarios: [{ name: 'A' }, { name: 'a', designLife_yr: 50 }] };
-    const err = await buildTiles({
-      inDir,
-      outDir: join(await makeTempDir('bad'), 'out'),
-      scenario: bad,
-    }).catch((e: unknown) => e);
-    expect(err).toBeInstanceOf(ValidationError);
-    expect(String((err as Error).message)).toMatch(/scenarios\.1\.name/);
   });
 });
