@@ -17,6 +17,7 @@ import { bandFor, bandStatsOf, classShares } from './assemble-manifest';
 import type { BuildRun, ResolvedModel, ScenarioOutput } from './build-run';
 import { compareWithFirst } from './compare-scenarios';
 import { computeLayers, type ComputeResult } from './compute-layers';
+import { addScenarioDifferenceBands } from './scenario-difference-bands';
 import { addProximityBands } from './proximity-bands';
 
 function ensembleMembers(model: ScreeningModel): number {
@@ -71,6 +72,7 @@ async function screenScenario(
     maskBand: 0,
     geojson: run.geojson,
   });
+  if (si > 0 && first) await addScenarioDifferenceBands(first.result, result, dirname(result.files.paths[0]));
   const stats = result.layers.map((layer, i) => bandStatsOf(result.files, i, layer.kind));
   const bands = result.layers.map((layer, i) => bandFor(layer, stats[i]));
   const bounds = paddedBounds(result.bounds, cellSize_m);

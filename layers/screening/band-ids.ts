@@ -114,13 +114,22 @@ export const ENSEMBLE_BAND_IDS = [
 /** Bands the pipeline itself adds (input fallbacks; distances to the settlements and to the roads layer). */
 export const PIPELINE_BAND_IDS = ['inputFlags', 'settlementDistance_km', 'roadDistance_km'] as const;
 
+/**
+ * Bands a scenario-set build adds to every scenario after the first (data-pipeline/build/
+ * scenario-difference-bands.ts): the change of suitability class from the first scenario, the years of
+ * frozen-ground margin lost and the piles per ton added, cell by cell.
+ */
+export const SCENARIO_DIFFERENCE_BAND_IDS = ['classChange', 'frozenMarginLost', 'pilesPerTonAdded'] as const;
+
 export type MetricBandId = (typeof METRIC_BAND_IDS)[number];
 export type BasicBandId = (typeof BASIC_BAND_IDS)[number];
 export type InputEchoBandId = (typeof INPUT_ECHO_BAND_IDS)[number];
 export type PipelineBandId = (typeof PIPELINE_BAND_IDS)[number];
 export type EnsembleBandId = (typeof ENSEMBLE_BAND_IDS)[number];
+export type ScenarioDifferenceBandId = (typeof SCENARIO_DIFFERENCE_BAND_IDS)[number];
 /** Any band id a build can write. */
-export type BandId = MetricBandId | BasicBandId | InputEchoBandId | PipelineBandId | EnsembleBandId;
+export type BandId =
+  MetricBandId | BasicBandId | InputEchoBandId | PipelineBandId | EnsembleBandId | ScenarioDifferenceBandId;
 
 /** All band ids, no duplicates (bedrockDepth is both a model band and an echo: listed once). */
 export const BAND_IDS: readonly BandId[] = [
@@ -130,6 +139,7 @@ export const BAND_IDS: readonly BandId[] = [
     ...INPUT_ECHO_BAND_IDS,
     ...PIPELINE_BAND_IDS,
     ...ENSEMBLE_BAND_IDS,
+    ...SCENARIO_DIFFERENCE_BAND_IDS,
   ]),
 ];
 

@@ -16,6 +16,7 @@ import { BINDING_LABELS } from './operating-window';
 import { THAW_HORIZON_LABELS } from './climate-horizon';
 import { TEXTURE_CODES } from '../physics/texture-codes';
 import { ROBUSTNESS_LABELS } from './robustness-labels';
+import { CLASS_CHANGE_LABELS } from './scenario-difference';
 
 export interface BandClass {
   value: number;
@@ -286,6 +287,31 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     ...cls([...classes(SUITABILITY_LABELS), { value: UNCERTAIN_CLASS_VALUE, label: 'uncertain' }]),
   },
   classAgreement: { title: 'Class agreement', ...none, ...cont('cividis', 0, 1) },
+
+  // Differences from the first scenario of a set, on every other scenario (scenario-difference.ts).
+  classChange: {
+    title: 'Suitability class against the first scenario',
+    ...cls(classes(CLASS_CHANGE_LABELS)),
+    description:
+      'Suitability class of this scenario against the first scenario of the set, cell by cell: better, same or worse (poor < fair < good), or excluded under only one of the two.',
+    source: 'pipeline: the two scenarios’ suitability classes (layers/screening/scenario-difference.ts)',
+  },
+  frozenMarginLost: {
+    title: 'Frozen-ground margin lost against the first scenario',
+    ...years,
+    ...cont('blueOrange', -20, 20),
+    description:
+      'Frozen-ground margin of the first scenario minus that of this scenario: positive where this scenario leaves less margin.',
+    source: 'pipeline: the two scenarios’ frozen-ground margins (layers/screening/scenario-difference.ts)',
+  },
+  pilesPerTonAdded: {
+    title: 'Piles per ton added against the first scenario',
+    ...same('piles/ton'),
+    ...cont('blueOrange', -5, 5),
+    description:
+      'Piles per ton of peak heating of this scenario minus those of the first scenario: positive where this scenario needs more piles.',
+    source: 'pipeline: the two scenarios’ piles per ton (layers/screening/scenario-difference.ts)',
+  },
 };
 
 /** Registry entry of a percentile band: its metric's title with the percentile, unit, kind and ramp. */

@@ -137,3 +137,71 @@ describe('scenario set build', () => {
     expect(String((err as Error).message)).toMatch(/scenarios\.1\.name/);
   });
 });
+
+describe('scenario difference bands', () => {
+  it('writes difference bands on every scenario after the first: each cell is its two scenarios’ values subtracted', async () => {
+    // Definition of the bands (issue 17 item 3): margin lost = first − this, piles added = this − first,
+    // class change compares the ordinal classes. Tolerance: the tiles' quantisation, at most scale / 2
+    // per band (layers/screening/tile-format.ts), summed over the three bands involved.
+    const subs = ['', 'scenarios/high-pathway-30-year-life', 'scenarios/high-pathway-50-year-life'];
+    const q = (m: Manifest, id: string) => (m.bands.find((b) => b.id === id)?.scale ?? NaN) / 2;
+    expect(manifests[0].bands.some((b) => b.id === BAND.classChange)).toBe(false);
+    const plane = (i: number, id: string) => bandPlane(manifests[i], subs[i], id);
+    const [m0, p0, c0] = await Promise.all(
+      [BAND.frozenMargin, BAND.pilesPerTon, BAND.suitability].map((id) => plane(0, id)),
+    );
+    for (const i of [1, 2]) {
+      const m = manifests[i];
+      const classBand = m.bands.find((b) => b.id === BAND.classChange);
+      expect(classBand?.classes?.map((c) => c.label)).toEqual([
+        'excluded under only one of the two',
+        'worse class',
+        'same class',
+        'better class',
+      ]);
+      expect(m.bands.find((b) => b.id === BAND.frozenMarginLost)?.unit).toBe('yr');
+      const [mi, pi, ci, lost, added, change] = await Promise.all(
+        [
+          BAND.frozenMargin,
+          BAND.pilesPerTon,
+          BAND.suitability,
+          BAND.frozenMarginLost,
+          BAND.pilesPerTonAdded,
+          BAND.classChange,
+        ].map((id) => plane(i, id)),
+      );
+      const tolLost =
+        q(manifests[0], BAND.frozenMargin) + q(m, BAND.frozenMargin) + q(m, BAND.frozenMarginLost);
+      const tolAdded =
+        q(manifests[0], BAND.pilesPerTon) + q(m, BAND.pilesPerTon) + q(m, BAND.pilesPerTonAdded);
+      let checked = 0;
+      let changed = 0;
+      for (let p = 0; p < lost.length; p++) {
+        if (Number.isFinite(m0[p]) && Number.isFinite(mi[p])) {
+          expect(Math.abs(lost[p] - (m0[p] - mi[p]))).toBeLessThanOrEqual(tolLost);
+          checked++;
+        } else expect(lost[p]).toBeNaN();
+        if (Number.isFinite(p0[p]) && Number.isFinite(pi[p]))
+          expect(Math.abs(added[p] - (pi[p] - p0[p]))).toBeLessThanOrEqual(tolAdded);
+        if (!Number.isFinite(c0[p]) || !Number.isFinite(ci[p])) continue;
+        const [a, b] = [Math.round(c0[p]), Math.round(ci[p])];
+        const want = a === b ? 2 : a === 0 || b === 0 ? 0 : b > a ? 3 : 1;
+        expect(Math.round(change[p])).toBe(want);
+        if (want !== 2) changed++;
+      }
+      expect(checked).toBeGreaterThan(50);
+      if (i === 2) expect(changed).toBeGreaterThan(0);
+    }
+    // the same scenario under another name: nothing changes
+    const again = await Promise.all(
+      [BAND.classChange, BAND.frozenMarginLost].map((id) =>
+        bandPlane(manifests[3], 'scenarios/present-trend-again', id),
+      ),
+    );
+    const finiteLost = again[1].filter((v) => Number.isFinite(v));
+    expect(finiteLost.length).toBeGreaterThan(50);
+    for (const v of finiteLost)
+      expect(Math.abs(v)).toBeLessThanOrEqual(q(manifests[3], BAND.frozenMarginLost));
+    for (const v of again[0]) if (Number.isFinite(v)) expect(Math.round(v)).toBe(2);
+  });
+});

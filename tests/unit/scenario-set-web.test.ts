@@ -5,7 +5,13 @@
  * scenario differences computed by the build (scenario-set.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { currentScenarioName, scenarioBase } from '../../web/src/data/scenario-urls';
+import {
+  currentScenarioName,
+  defaultCompareSlug,
+  linkedScenarios,
+  scenarioBase,
+  scenarioQuery,
+} from '../../web/src/data/scenario-urls';
 import { exportProperties } from '../../web/src/shortlist/shortlist-export';
 import { parseScenario } from '../../layers/screening/scenario';
 import { differenceText, scenarioDifferences, scenarioSlug } from '../../layers/screening/scenario-set';
@@ -48,6 +54,22 @@ describe('scenario URLs and names', () => {
     expect(scenarioBase(setManifest('Present trend', ''), rootBase, 'nope')).toBeNull();
     expect(currentScenarioName(setManifest('High, 50 yr', '../../'))).toBe('High, 50 yr');
     expect(currentScenarioName(testManifest({ scenario: { name: 'default' } }))).toBe('default');
+  });
+  it('writes the shown and the compare scenario into the link and reads them back', () => {
+    const sub = setManifest('High, 50 yr', '../../');
+    const root = setManifest('Present trend', '');
+    expect(scenarioQuery(root, null)).toBe('');
+    expect(scenarioQuery(sub, null)).toBe('&scenario=high-50-yr');
+    expect(scenarioQuery(sub, 'present-trend')).toBe('&scenario=high-50-yr&compare=present-trend');
+    expect(scenarioQuery(root, 'nope')).toBe(''); // a scenario the set lacks is not written
+    expect(linkedScenarios(`?c=1,2${scenarioQuery(sub, 'present-trend')}`)).toEqual({
+      scenario: 'high-50-yr',
+      compare: 'present-trend',
+    });
+    expect(linkedScenarios('?c=1,2')).toEqual({ scenario: null, compare: null });
+    expect(defaultCompareSlug(root)).toBe('high-50-yr');
+    expect(defaultCompareSlug(sub)).toBe('present-trend');
+    expect(defaultCompareSlug(testManifest())).toBeNull();
   });
   it('exports name the scenario and carry every scenario’s differences and figures', () => {
     const p = exportProperties(

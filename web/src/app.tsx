@@ -16,7 +16,13 @@ import { defaultSiteName } from './shortlist/site-name';
 import { cellValues, type CellSelection } from './panels/cell-panel';
 import { ScreeningCaution } from './panels/caution-notes';
 import { uncertainClassOf } from './panels/ensemble-ranges';
-import { currentScenarioName, currentScenarioSlug, scenarioBase } from './data/scenario-urls';
+import {
+  currentScenarioName,
+  currentScenarioSlug,
+  linkedScenarios,
+  scenarioBase,
+} from './data/scenario-urls';
+import { useCompareAtlas, useCompareTable, type CompareState } from './dashboard/compare-view';
 import {
   useBoundarySketch,
   useCellAt,
@@ -45,13 +51,14 @@ export function App() {
   );
   useEffect(() => {
     // A link may name a scenario of a scenario-set build (?scenario=<slug>): open that one.
-    const wanted = new URLSearchParams(window.location.search).get('scenario');
+    const wanted = linkedScenarios(window.location.search).scenario;
     loadAtlas(DATA_BASE).then((root) => {
       const base = wanted ? scenarioBase(root.manifest, DATA_BASE, wanted) : null;
       if (!base || wanted === currentScenarioSlug(root.manifest)) setAtlas(root);
       else loadAtlas(base).then(setAtlas, fail);
     }, fail);
   }, [fail]);
+  const compare = useCompareAtlas(atlas, linkedScenarios(window.location.search).compare, fail);
   const pickScenario = useCallback(
     (slug: string) => {
       if (!atlas) return;
@@ -78,7 +85,9 @@ export function App() {
   }
   if (!atlas) return <main className="loading">Loading the map data…</main>;
   // Keyed by scenario: switching remounts the dashboard, which takes the view, layer and filters from the URL.
-  return <Dashboard key={atlas.dataBase.href} atlas={atlas} onPickScenario={pickScenario} />;
+  return (
+    <Dashboard key={atlas.dataBase.href} atlas={atlas} onPickScenario={pickScenario} compare={compare} />
+  );
 }
 
 function initialState(atlas: Atlas): { state: ViewState; problems: string[]; hasView: boolean } {
@@ -123,7 +132,8 @@ function addToShortlist(
   });
 }
 
-function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (slug: string) => void }) {
+function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void; compare: CompareState }) {
+  const { atlas, onPickScenario, compare } = props;
   const { manifest } = atlas;
   const init = useMemo(() => initialState(atlas), [atlas]);
   const choices = useMapChoices(init.state);
@@ -144,7 +154,8 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
   useCellTableAfterFirstPaint(atlas, firstPaint_ms, setTable, zone.setMessage);
   const cellAt = useCellAt(atlas, table);
   const [selection, setSelection] = useSelection(init.state.selection, table, cellAt);
-  const onViewChange = useLinkSync(manifest, choices, view, linkedBoundary, selection);
+  const compareTable = useCompareTable(compare.atlas, table !== null);
+  const onViewChange = useLinkSync(manifest, choices, view, linkedBoundary, selection, compare.slug);
   const sketch = useBoundarySketch(zone.finishDrawing);
   const pick = usePointPicker(sketch, setSelection, cellAt);
 
@@ -153,13 +164,15 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
       <TopBar
         manifest={manifest}
         onPickScenario={onPickScenario}
+        compare={compare}
         hasBoundary={zone.boundary !== null}
         linkedBoundary={linkedBoundary}
       />
       <UrlNotice problems={init.problems} />
-      <LayersSide {...{ atlas, choices, look, uncertainClass, table, zone, sketch }} />
+      <LayersSide {...{ atlas, choices, look, uncertainClass, table, zone, sketch, compareTable }} />
       <MapArea
         {...{ atlas, look, table, view, sketch, selection, shortlist, cellAt, flyTarget, firstPaint_ms }}
+        {...{ choices, compare }}
         units={choices.units}
         initialView={init.hasView ? { center: init.state.center, zoom: init.state.zoom } : null}
         boundary={zone.boundary}

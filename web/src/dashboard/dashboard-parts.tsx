@@ -24,6 +24,16 @@ import { FictionalNotice } from '../panels/caution-notes';
 import { HoverReadout, type HoverState } from '../panels/hover-readout';
 import { ScenarioPicker } from '../panels/scenario-picker';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
+import { ViewLink } from '../map/linked-views';
+import {
+  BothCounts,
+  CompareControl,
+  CompareLabel,
+  ComparePane,
+  useBothSummary,
+  type CompareState,
+  type CompareTable,
+} from './compare-view';
 import { SitePanel } from '../site/site-panel';
 import type { LinkedBoundary } from '../state/boundary-link';
 import { CopyLink } from '../state/copy-link';
@@ -50,6 +60,7 @@ function boundaryLinkNote(hasBoundary: boolean, linked: LinkedBoundary | null): 
 export function TopBar(props: {
   manifest: Manifest;
   onPickScenario: (slug: string) => void;
+  compare: CompareState;
   hasBoundary: boolean;
   linkedBoundary: LinkedBoundary | null;
 }) {
@@ -60,6 +71,7 @@ export function TopBar(props: {
         Pile Atlas <span className="muted">· {manifest.region.name}</span>
       </h1>
       <ScenarioPicker manifest={manifest} onPick={props.onPickScenario} />
+      <CompareControl manifest={manifest} compare={props.compare} />
       <FictionalNotice fictional={manifest.fictional} notice={manifest.notice} />
       <span className="caution-pill" title={SCREENING_CAUTION}>
         Screening estimate, not a design
@@ -96,8 +108,10 @@ export function LayersSide(props: {
   table: CellTable | null;
   zone: BoundaryState;
   sketch: BoundarySketch;
+  compareTable: CompareTable | null;
 }) {
   const { atlas, choices: c, look, uncertainClass, table, zone, sketch } = props;
+  const both = useBothSummary(table, look.compiled, props.compareTable, c.filter, zone.mask);
   const { manifest } = atlas;
   const { compiled } = look;
   const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
@@ -145,7 +159,9 @@ export function LayersSide(props: {
         onFinish={sketch.finish}
         onClear={zone.clear}
         onImport={importBoundary}
-      />
+      >
+        <BothCounts both={both} units={c.units} />
+      </SummaryPanel>
       <SourcesPanel manifest={manifest} />
     </aside>
   );
@@ -168,8 +184,10 @@ export function MapArea(props: {
   flyTarget: { lon: number; lat: number; seq: number } | null;
   firstPaint_ms: number | null;
   onFirstPaint: (time_ms: number) => void;
+  choices: MapChoices;
+  compare: CompareState;
 }) {
-  const { atlas, look, sketch, selection, shortlist, cellAt } = props;
+  const { atlas, look, sketch, selection, shortlist, cellAt, compare } = props;
   const [hover, setHover] = useState<HoverState | null>(null);
   const onHover = useCallback(
     (p: LonLatPoint | null) => setHover(p ? { lon: p[0], lat: p[1], index: cellAt(p[0], p[1]) } : null),
@@ -183,46 +201,68 @@ export function MapArea(props: {
     () => (selection ? [selection.lon, selection.lat] : null),
     [selection],
   );
+  // One link per map area: the left map is always on it, the right map joins while comparing.
+  const [link] = useState(() => new ViewLink());
+  const comparing = compare.slug !== null;
   return (
-    <main className="map-wrap" data-testid="map-wrap" data-first-paint-ms={props.firstPaint_ms ?? undefined}>
-      <MapView
-        atlas={atlas}
-        style={look.style}
-        styleKey={look.styleKey}
-        initialView={props.initialView}
-        boundaryRings={props.boundary?.display ?? NO_RINGS}
-        drawingPath={sketch.vertices}
-        drawing={sketch.drawing}
-        selected={selectedPoint}
-        shortlist={shortlistPoints}
-        onHover={onHover}
-        onClick={props.onPick}
-        onViewChange={props.onViewChange}
-        flyTarget={props.flyTarget}
-        onFirstPaint={props.onFirstPaint}
-      />
-      <button
-        type="button"
-        className="inspect-centre"
-        onClick={() => {
-          const [lon, lat] = props.view.current.center;
-          props.onPick([lon, lat]);
-        }}
-        title="For keyboard use: pan with the arrow keys, then press this button"
-        data-testid="inspect-centre"
-      >
-        {sketch.drawing ? 'Add corner at map centre' : 'Inspect map centre'}
-      </button>
+    <main
+      className={comparing ? 'map-wrap comparing' : 'map-wrap'}
+      data-testid="map-wrap"
+      data-first-paint-ms={props.firstPaint_ms ?? undefined}
+    >
+      <div className="compare-pane compare-left">
+        <MapView
+          {...{ atlas, onHover, link }}
+          style={look.style}
+          styleKey={look.styleKey}
+          initialView={props.initialView}
+          boundaryRings={props.boundary?.display ?? NO_RINGS}
+          drawingPath={sketch.vertices}
+          drawing={sketch.drawing}
+          selected={selectedPoint}
+          shortlist={shortlistPoints}
+          onClick={props.onPick}
+          onViewChange={props.onViewChange}
+          flyTarget={props.flyTarget}
+          onFirstPaint={props.onFirstPaint}
+        />
+        {comparing && <CompareLabel manifest={atlas.manifest} side="left" />}
+      </div>
+      {compare.atlas && (
+        <ComparePane
+          {...{ link, view: props.view, choices: props.choices, selected: selectedPoint }}
+          atlas={compare.atlas}
+          shortlist={shortlistPoints}
+          onPick={props.onPick}
+        />
+      )}
+      <InspectCentre view={props.view} drawing={sketch.drawing} onPick={props.onPick} />
       <span className="centre-mark" aria-hidden="true" />
       <HoverReadout
-        hover={hover}
-        table={props.table}
+        {...{ hover, table: props.table, units: props.units }}
         manifest={atlas.manifest}
         band={look.band}
         bandIndex={look.bandIndex}
-        units={props.units}
       />
     </main>
+  );
+}
+
+/** For keyboard use: inspect (or, while drawing, add a corner at) the map centre. */
+function InspectCentre(props: { view: MapViewRef; drawing: boolean; onPick: (p: LonLatPoint) => void }) {
+  return (
+    <button
+      type="button"
+      className="inspect-centre"
+      onClick={() => {
+        const [lon, lat] = props.view.current.center;
+        props.onPick([lon, lat]);
+      }}
+      title="For keyboard use: pan with the arrow keys, then press this button"
+      data-testid="inspect-centre"
+    >
+      {props.drawing ? 'Add corner at map centre' : 'Inspect map centre'}
+    </button>
   );
 }
 

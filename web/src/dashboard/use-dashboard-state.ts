@@ -19,7 +19,7 @@ import { compileFilter, type FilterSpec } from '../filters/cell-filter';
 import type { TileStyle } from '../map/colour-tile';
 import type { CellSelection } from '../panels/cell-panel';
 import type { uncertainClassOf } from '../panels/ensemble-ranges';
-import { currentScenarioSlug } from '../data/scenario-urls';
+import { scenarioQuery } from '../data/scenario-urls';
 import type { LinkedBoundary } from '../state/boundary-link';
 import { formatUrlState, type ShortlistSort, type ViewState } from '../state/url-state';
 import type { UnitSystem } from '../units/display-units';
@@ -233,6 +233,7 @@ export function useLinkSync(
   view: MapViewRef,
   linkedBoundary: LinkedBoundary | null,
   selection: CellSelection | null,
+  compareSlug: string | null = null,
 ): (center: LonLatPoint, zoom: number) => void {
   const { bandId, units, opacity, filter, sort } = choices;
   const writeUrl = useCallback(() => {
@@ -247,11 +248,9 @@ export function useLinkSync(
       selection: selection ? [selection.lon, selection.lat] : null,
       sort,
     });
-    const slug = currentScenarioSlug(manifest);
-    const sc =
-      slug && manifest.scenarioSet?.scenarios[0].slug !== slug ? `&scenario=${encodeURIComponent(slug)}` : '';
+    const sc = scenarioQuery(manifest, compareSlug);
     window.history.replaceState(null, '', `${window.location.pathname}?${q}${sc}`);
-  }, [view, bandId, units, opacity, filter, linkedBoundary, selection, sort, manifest]);
+  }, [view, bandId, units, opacity, filter, linkedBoundary, selection, sort, manifest, compareSlug]);
   useEffect(() => writeUrl(), [writeUrl]);
   return useCallback(
     (center: LonLatPoint, zoom: number) => {

@@ -25,3 +25,28 @@ export function currentScenarioSlug(manifest: Manifest): string {
   const set = manifest.scenarioSet;
   return set?.scenarios.find((s) => s.name === set.current)?.slug ?? '';
 }
+
+/**
+ * The scenario part of a link (appended to the view's query): `&scenario=<slug>` unless the scenario
+ * shown is the first of its set, and `&compare=<slug>` while the compare view shows a second scenario.
+ */
+export function scenarioQuery(manifest: Manifest, compareSlug: string | null): string {
+  const set = manifest.scenarioSet;
+  if (!set) return '';
+  const slug = currentScenarioSlug(manifest);
+  const sc = slug && set.scenarios[0].slug !== slug ? `&scenario=${encodeURIComponent(slug)}` : '';
+  const known = compareSlug !== null && set.scenarios.some((s) => s.slug === compareSlug);
+  return known ? `${sc}&compare=${encodeURIComponent(compareSlug)}` : sc;
+}
+
+/** The scenario and the compare scenario a link names (null where it names none). */
+export function linkedScenarios(search: string): { scenario: string | null; compare: string | null } {
+  const params = new URLSearchParams(search);
+  return { scenario: params.get('scenario'), compare: params.get('compare') };
+}
+
+/** The scenario the compare view opens on: the first of the set other than the one shown. */
+export function defaultCompareSlug(manifest: Manifest): string | null {
+  const current = currentScenarioSlug(manifest);
+  return manifest.scenarioSet?.scenarios.find((s) => s.slug !== current)?.slug ?? null;
+}

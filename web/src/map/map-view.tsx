@@ -21,6 +21,7 @@ import { colourTile, type TileStyle } from './colour-tile';
 import { baseStyle, BOUNDARY_LAYER, BOUNDARY_LAYER_ID } from './base-style';
 import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
+import type { ViewLink } from './linked-views';
 
 maplibregl.setWorkerUrl(workerUrl);
 
@@ -43,6 +44,10 @@ export interface MapViewProps {
   onFirstPaint?: (time_ms: number) => void;
   /** Centre the map here whenever `seq` changes. */
   flyTarget: { lon: number; lat: number; seq: number } | null;
+  /** Compare view: the link that keeps this map's pan and zoom with the other map's. */
+  link?: ViewLink;
+  /** Accessible name of the map (default: the screening layer). */
+  label?: string;
 }
 
 interface Painted {
@@ -75,7 +80,14 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   useScreeningTiles(overlayRef, screeningLayer, props, boundaryLayerAdded);
   useBoundaryLines(mapRef, styleLoaded, props.boundaryRings, props.drawingPath, setBoundaryLayerAdded);
 
-  return <div ref={container} className="map" data-testid="map" aria-label="Map of the screening layer" />;
+  return (
+    <div
+      ref={container}
+      className="map"
+      data-testid="map"
+      aria-label={props.label ?? 'Map of the screening layer'}
+    />
+  );
 });
 
 type ScreeningLayer = TileLayer<Float32Array[] | null>;
@@ -122,7 +134,9 @@ function useMapAndOverlay(
       styleLoaded.current = true;
     });
     wireMapEvents(map, latest);
+    const unlink = latest.current.link?.add(map);
     return () => {
+      unlink?.();
       map.remove();
       styleLoaded.current = false;
       setBoundaryLayerAdded(false);
@@ -174,14 +188,16 @@ function wireMapEvents(map: maplibregl.Map, latest: Ref<MapViewProps>): void {
   map.on('mousemove', (ev) => latest.current.onHover([ev.lngLat.lng, ev.lngLat.lat]));
   map.on('mouseout', () => latest.current.onHover(null));
   map.on('click', (ev) => latest.current.onClick([ev.lngLat.lng, ev.lngLat.lat]));
-  map.on('moveend', () => {
+  const report = () => {
     const c = map.getCenter();
+    // The view on the element too (the compare view's linked maps are checked through it).
+    map.getContainer().dataset.view = `${c.lng.toFixed(6)},${c.lat.toFixed(6)},${map.getZoom().toFixed(4)}`;
     latest.current.onViewChange([c.lng, c.lat], map.getZoom());
-  });
+  };
+  map.on('moveend', report);
   // The opening view (fitted to the region, or the link's) fires no moveend: report it, so that the
   // URL holds the view on screen and not the defaults it was computed from.
-  const c0 = map.getCenter();
-  latest.current.onViewChange([c0.lng, c0.lat], map.getZoom());
+  report();
 }
 
 /** Pins of the shortlisted sites and the ring round the selected place. */

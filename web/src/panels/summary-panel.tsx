@@ -2,11 +2,11 @@
  * The counter: cells and area matching the filters, for the whole region and inside a boundary that
  * the planner draws on the map or imports as GeoJSON, with the active filters in words beside it.
  */
-import type { ChangeEvent } from 'react';
+import type { ChangeEvent, ReactNode } from 'react';
 import type { ZonalSummary } from '../filters/zonal-summary';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
 
-function Counts(props: { label: string; s: ZonalSummary; units: UnitSystem; testId: string }) {
+export function Counts(props: { label: string; s: ZonalSummary; units: UnitSystem; testId: string }) {
   const { s, units } = props;
   return (
     <div className="counts" data-testid={props.testId}>
@@ -53,6 +53,8 @@ export function SummaryPanel(props: {
   onFinish: () => void;
   onClear: () => void;
   onImport: (ev: ChangeEvent<HTMLInputElement>) => void;
+  /** Further counts after the region's and the boundary's (the compare view's "under both"). */
+  children?: ReactNode;
 }) {
   const { units } = props;
   return (
@@ -72,6 +74,7 @@ export function SummaryPanel(props: {
           testId="zone-count"
         />
       ) : null}
+      {props.children}
       <div className="row wrap">
         {props.drawing ? (
           <button type="button" className="primary" onClick={props.onFinish} data-testid="boundary-finish">
