@@ -56,6 +56,7 @@ import { addProximityBands } from './proximity-bands';
 import { compareWithFirst, type ScenarioComparison } from './compare-scenarios';
 import { loadInputs, type InputReader } from './load-inputs';
 import { alignInputs, gdalTransformTo } from './align-inputs';
+import { sdGridRoles } from './sd-grids';
 import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 import type { BuildDistributor } from './build-distributor';
@@ -265,7 +266,7 @@ export async function buildTiles(options: BuildOptions): Promise<BuildSummary> {
     for (const m of models) {
       if (m.spec?.kind === 'ensemble') {
         // The grids' own spreads (inputs config) replace the scenario's defaults.
-        m.spec = { ...m.spec, gridSpreads: declaredSpreads(config) };
+        m.spec = { ...m.spec, gridSpreads: declaredSpreads(config), gridSdRoles: sdGridRoles(config) };
         m.model = createModelFromSpec(m.spec);
       }
     }
