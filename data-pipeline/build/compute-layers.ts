@@ -147,7 +147,7 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
           spec,
           grid,
           inputs: windowInputs,
-          inputSha256: inputs.flatMap((i) => [i.source.sha256, ...(i.sd ? [i.sd.source.sha256] : [])]),
+          inputSha256: inputs.map((i) => i.source.sha256),
           echoRoles,
           bandCount: layers.length,
         })

@@ -17,6 +17,7 @@ import { existsSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { Queue, QueueEvents, type Job } from 'bullmq';
 import { toolVersion } from '../build/assemble-manifest';
+import type { WindowInput } from '../build/screen-window';
 import {
   closeBandFds,
   createBandFiles,
@@ -42,6 +43,7 @@ import {
   type BuildJobData,
   type BuildJobResult,
   type ScreenContext,
+  type SharedInput,
   type ScreenJobData,
   type ScreenJobResult,
   type TileContext,
@@ -222,19 +224,20 @@ export async function createQueueDistributor(o: QueueDistributorOptions): Promis
 
   const windows: BuildDistributor['windows'] = {
     async prepare(c: ScreenJobContext): Promise<BandFiles> {
-      const inputs: ScreenContext['inputs'] = [];
-      for (const [i, input] of c.inputs.entries()) {
-        const { path, aligned, ...rest } = input;
+      const ship = async (input: WindowInput, fileSha256?: string): Promise<SharedInput> => {
+        const { path, aligned, sd, ...rest } = input;
+        const withSd = sd ? { sd: await ship(sd) } : {};
         if (aligned) {
           // Inputs GDAL warped onto the analysis grid travel as that raw grid, under its own checksum.
           const sha256 = await sha256OfFile(aligned);
           const rel = await putInput(o.shared, aligned, sha256, input.label);
-          inputs.push({ ...rest, sha256, rel, alignedInShared: true });
-          continue;
+          return { ...rest, sha256, rel, alignedInShared: true, ...withSd };
         }
-        const sha256 = c.inputSha256[i];
-        inputs.push({ ...rest, sha256, rel: await putInput(o.shared, path, sha256, input.label) });
-      }
+        const sha256 = fileSha256 ?? (await sha256OfFile(path));
+        return { ...rest, sha256, rel: await putInput(o.shared, path, sha256, input.label), ...withSd };
+      };
+      const inputs: SharedInput[] = [];
+      for (const [i, input] of c.inputs.entries()) inputs.push(await ship(input, c.inputSha256[i]));
       const scenarioChecksum = await putObject(o.shared, c.spec);
       const ctx: ScreenContext = {
         format: JOB_FORMAT,
@@ -243,7 +246,11 @@ export async function createQueueDistributor(o: QueueDistributorOptions): Promis
         inputs,
         echoRoles: c.echoRoles,
         bandCount: c.bandCount,
-        inputsChecksum: sha256Text(canonicalJson(inputs.map((i) => [i.role, i.sha256, i.unit, i.nodata]))),
+        inputsChecksum: sha256Text(
+          canonicalJson(
+            inputs.map((i) => [i.role, i.sha256, i.unit, i.nodata, ...(i.sd ? [i.sd.sha256] : [])]),
+          ),
+        ),
         scenarioChecksum,
       };
       const key = await putObject(o.shared, ctx);
