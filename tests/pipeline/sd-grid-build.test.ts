@@ -90,6 +90,15 @@ beforeAll(async () => {
   // Western half: σ = 3 K (large against the 0.5 K default; judgement), eastern half 0.
   const half = await variant({ sdFile: SD_FILE }, (lon) => (lon < midLon ? 3 : 0));
   await buildTiles({ ...common, inDir: half, outDir: join(root, 'half') });
+  // The same on two worker threads (the σ grid travels with its input to every screener).
+  await buildTiles({
+    ...common,
+    inDir: half,
+    outDir: join(root, 'half-workers'),
+    workers: 2,
+    minCellsForWorkers: 0,
+    geotiff: false,
+  });
 }, 400_000);
 
 describe('companion standard-deviation grid', () => {
@@ -144,6 +153,14 @@ describe('companion standard-deviation grid', () => {
     const source = m.sources.find((s) => s.role === ROLE);
     expect(source?.standardDeviation?.file).toBe(SD_FILE);
     expect(source?.standardDeviation?.sha256).toMatch(/^[0-9a-f]{64}$/);
+  });
+
+  it('gives the same tiles whatever the worker count', async () => {
+    const a = await hashTree(join(root, 'half'));
+    const b = await hashTree(join(root, 'half-workers'));
+    const tiles = Object.keys(a).filter((f) => f.startsWith('tiles/'));
+    expect(tiles.length).toBeGreaterThan(10);
+    for (const f of tiles) expect(b[f], f).toBe(a[f]);
   });
 
   it('refuses a negative or non-finite standard deviation, naming the file and band', async () => {
