@@ -1,6 +1,7 @@
 // Lint config: typescript-eslint recommended rules on every TypeScript source, plus the project rules:
 // the science core in layers/ must stay free of DOM, Node and UI imports (style.md habit 1), and every
-// folder imports only in its allowed direction (eslint-import-boundaries.js, DEVELOPERS.md).
+// folder imports only in its allowed direction (eslint-import-boundaries.js, DEVELOPERS.md), and no
+// function outside the tests is longer than 80 lines.
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import globals from 'globals';
@@ -19,6 +20,12 @@ export default tseslint.config(
       '@typescript-eslint/no-explicit-any': 'error',
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
     },
+  },
+  {
+    // Functions split by idea (issue 16): none over 80 lines outside the tests.
+    files: ['**/*.{ts,tsx}'],
+    ignores: ['tests/**'],
+    rules: { 'max-lines-per-function': ['error', { max: 80, skipBlankLines: true, skipComments: true }] },
   },
   {
     files: ['layers/**/*.ts'],

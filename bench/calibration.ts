@@ -6,7 +6,7 @@
  * and write tests/fixtures/calibration.json (regenerated only on purpose; never edited by hand). The
  * first m cells (default 5, one per texture) also get the group bracket (isolated and endless-field
  * simulated pile against the model's 4 × 4 group). About 8 s per simulated cell on one loaded core
- * (75 years, 7-day steps, standard mesh); `--workers k` splits the cells over k child processes (default
+ * (75 years, 7-day steps, standard mesh; about 1.4 × that at the 3.5-day default); `--workers k` splits the cells over k child processes (default
  * 2; each cell is independent, so the result does not depend on k).
  * tests/unit/screening-calibration.test.ts checks the committed distribution against the documented
  * bounds, recomputes the model side and re-runs a seeded subset live.

@@ -34,7 +34,7 @@
  */
 import { simulateSite } from '../layers/site/simulate-site';
 import { createRandom } from '../data-pipeline/demo/seeded-random';
-import type { SiteInputDraft } from '../layers/site/site-input-schema';
+import { SITE_DEFAULTS, type SiteInputDraft } from '../layers/site/site-input-schema';
 import { SECONDS_PER_YEAR } from '../layers/physics/surface-forcing';
 import type { CellInputs } from '../layers/screening/screening-model';
 import { TEXTURE_CODES, type TextureCode } from '../layers/screening/screening-model';
@@ -97,9 +97,9 @@ export interface CalibrationOptions {
   domainRadius_m: number;
 }
 
-/** The simulator's own defaults (7-day steps, standard mesh, 20 m radius). */
+/** The simulator's own defaults (its default step, standard mesh, 20 m radius). */
 export const DEFAULT_CALIBRATION_OPTIONS: CalibrationOptions = {
-  timeStep_days: 7,
+  timeStep_days: SITE_DEFAULTS.timeStep_days.value,
   fidelity: 'standard',
   domainRadius_m: 20,
 };

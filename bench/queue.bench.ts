@@ -82,109 +82,32 @@ async function treeWithoutManifest(dir: string): Promise<Record<string, string>>
   return t;
 }
 
+/** What every build of the benchmark shares. */
+interface BenchBase {
+  inDir: string;
+  cellSize_m: number;
+  geotiff: false;
+}
+
 export async function run(): Promise<void> {
   const root = await mkdtemp(join(tmpdir(), 'pile-atlas-queue-bench-'));
   const inDir = join(root, 'in');
   await mkdir(inDir);
   const redis = await startRedis();
-  const rows: Row[] = [];
   try {
     console.log(`cores: ${availableParallelism()}; load average (1/5/15 min) at start: ${load()}`);
     await writeSyntheticInputs(inDir);
     // QUEUE_BENCH_CELL_M: a coarser cell for a quick trial run (default 1000 m: 4.4 M cells).
     const cellSize_m = Number(process.env.QUEUE_BENCH_CELL_M ?? 1000);
-    const base = { inDir, cellSize_m, geotiff: false };
-    for (const threads of [1, availableParallelism()]) {
-      const outDir = join(root, `local-${threads}`);
-      const t = Date.now();
-      const summary = await buildTiles({ ...base, outDir, workers: threads });
-      rows.push({
-        label: `local, ${threads} thread${threads === 1 ? '' : 's'}`,
-        wall_s: (Date.now() - t) / 1000,
-        summary,
-      });
-      console.log(`${rows.at(-1)!.label}: ${rows.at(-1)!.wall_s.toFixed(1)} s`);
-    }
+    const base: BenchBase = { inDir, cellSize_m, geotiff: false };
+    const rows = await runLocalBuilds(root, base);
     const reference = await treeWithoutManifest(join(root, 'local-1'));
     rows[1].identical =
       JSON.stringify(await treeWithoutManifest(join(root, `local-${availableParallelism()}`))) ===
       JSON.stringify(reference);
-    const connection = parseQueueUrl(redis.url);
-    for (const n of [1, 2, 4]) {
-      const shared = join(root, `shared-${n}`);
-      await mkdir(shared);
-      const queue = new Queue(QUEUE_NAME, { connection: connection.options });
-      await queue.obliterate({ force: true });
-      await queue.close();
-      const workers = await Promise.all(Array.from({ length: n }, () => startWorker(redis.url, shared)));
-      const distributor = await createQueueDistributor({ connection, shared });
-      const outDir = join(root, `queue-${n}`);
-      const t = Date.now();
-      try {
-        const summary = await buildTiles({ ...base, outDir, distributor });
-        const wall_s = (Date.now() - t) / 1000;
-        const identical = JSON.stringify(await treeWithoutManifest(outDir)) === JSON.stringify(reference);
-        const q = new Queue(QUEUE_NAME, { connection: connection.options });
-        const dispatchGap_ms = await medianDispatchGap(q);
-        await q.close();
-        rows.push({
-          label: `queue, ${n} worker process${n === 1 ? '' : 'es'}`,
-          wall_s,
-          summary,
-          identical,
-          dispatchGap_ms,
-        });
-        console.log(`${rows.at(-1)!.label}: ${wall_s.toFixed(1)} s`);
-      } finally {
-        await distributor.close();
-        for (const w of workers) w.kill('SIGTERM');
-        await rm(shared, { recursive: true, force: true });
-        await rm(outDir, { recursive: true, force: true });
-      }
-    }
-    const cells = rows[0].summary.cellsTotal;
-    console.log(
-      `\n${cells} cells, ${rows[0].summary.bands.length} bands, ${rows[0].summary.tiles} tiles; no GeoTIFFs`,
-    );
-    console.log(
-      'run                          wall s   cells/s   jobs  job processing s (summed)  identical to local',
-    );
-    for (const r of rows) {
-      const q = r.summary.queue;
-      console.log(
-        `${r.label.padEnd(28)} ${r.wall_s.toFixed(1).padStart(6)} ${String(Math.round(cells / r.wall_s)).padStart(9)}` +
-          `${q ? String(q.jobs).padStart(7) : '      -'}  ${q ? (q.processing_ms / 1000).toFixed(1).padStart(25) : ' '.repeat(25)}` +
-          `  ${r.identical === undefined ? '(reference)' : r.identical ? 'yes' : 'NO'}`,
-      );
-    }
-    const local1 = rows[0];
-    const q1 = rows.find((r) => r.label.startsWith('queue, 1 '))!;
-    const jobs = q1.summary.queue!.jobs;
-    const P = q1.summary.queue!.processing_ms / 1000;
-    const S = Math.max(0, q1.wall_s - P);
-    console.log(
-      `\noverhead per job: median idle time of a worker between two jobs (queue dispatch) ` +
-        rows
-          .filter((r) => r.dispatchGap_ms !== undefined)
-          .map((r) => `${r.dispatchGap_ms!.toFixed(0)} ms (${r.label.replace('queue, ', '')})`)
-          .join(', ') +
-        `; all time of the 1-worker run outside its jobs, per job (dispatch + the coordinator's reading, ` +
-        `merging, top tiles and manifest): ${(((q1.wall_s - P) / jobs) * 1000).toFixed(0)} ms over ${jobs} jobs; ` +
-        `(queue with 1 worker - local 1 thread) / jobs: ${(((q1.wall_s - local1.wall_s) / jobs) * 1000).toFixed(0)} ms ` +
-        `(meaningful only when both ran at the same load)`,
-    );
-    console.log(
-      `projected T(N) = S + P/N with S = ${S.toFixed(1)} s (coordinator: read, merge, top tiles, manifest, swap) ` +
-        `and P = ${P.toFixed(1)} s (jobs), one core per worker:`,
-    );
-    for (const n of [1, 2, 4, 8, 16, 32, 64]) {
-      console.log(
-        `  N = ${String(n).padStart(2)}: ${(S + P / n).toFixed(1)} s (speed-up ${(q1.wall_s / (S + P / n)).toFixed(2)}x)`,
-      );
-    }
-    console.log(
-      `  limit (N -> infinity): ${S.toFixed(1)} s; speed-up at most ${(q1.wall_s / Math.max(S, 1e-9)).toFixed(1)}x`,
-    );
+    for (const n of [1, 2, 4]) rows.push(await runQueueBuild(root, base, redis.url, n, reference));
+    printTable(rows);
+    printScaling(rows);
     console.log(
       `load average at end: ${load()} (on ${availableParallelism()} shared cores: timings inflated)`,
     );
@@ -192,4 +115,114 @@ export async function run(): Promise<void> {
     await redis.stop();
     await rm(root, { recursive: true, force: true });
   }
+}
+
+/** The local builds, 1 thread and then one per core, into `local-<threads>`. */
+async function runLocalBuilds(root: string, base: BenchBase): Promise<Row[]> {
+  const rows: Row[] = [];
+  for (const threads of [1, availableParallelism()]) {
+    const outDir = join(root, `local-${threads}`);
+    const t = Date.now();
+    const summary = await buildTiles({ ...base, outDir, workers: threads });
+    rows.push({
+      label: `local, ${threads} thread${threads === 1 ? '' : 's'}`,
+      wall_s: (Date.now() - t) / 1000,
+      summary,
+    });
+    console.log(`${rows.at(-1)!.label}: ${rows.at(-1)!.wall_s.toFixed(1)} s`);
+  }
+  return rows;
+}
+
+/** A queue-backed build with `n` worker processes, from an empty queue and empty shared storage. */
+async function runQueueBuild(
+  root: string,
+  base: BenchBase,
+  url: string,
+  n: number,
+  reference: Record<string, string>,
+): Promise<Row> {
+  const connection = parseQueueUrl(url);
+  const shared = join(root, `shared-${n}`);
+  await mkdir(shared);
+  const queue = new Queue(QUEUE_NAME, { connection: connection.options });
+  await queue.obliterate({ force: true });
+  await queue.close();
+  const workers = await Promise.all(Array.from({ length: n }, () => startWorker(url, shared)));
+  const distributor = await createQueueDistributor({ connection, shared });
+  const outDir = join(root, `queue-${n}`);
+  const t = Date.now();
+  try {
+    const summary = await buildTiles({ ...base, outDir, distributor });
+    const wall_s = (Date.now() - t) / 1000;
+    const identical = JSON.stringify(await treeWithoutManifest(outDir)) === JSON.stringify(reference);
+    const q = new Queue(QUEUE_NAME, { connection: connection.options });
+    const dispatchGap_ms = await medianDispatchGap(q);
+    await q.close();
+    const row: Row = {
+      label: `queue, ${n} worker process${n === 1 ? '' : 'es'}`,
+      wall_s,
+      summary,
+      identical,
+      dispatchGap_ms,
+    };
+    console.log(`${row.label}: ${wall_s.toFixed(1)} s`);
+    return row;
+  } finally {
+    await distributor.close();
+    for (const w of workers) w.kill('SIGTERM');
+    await rm(shared, { recursive: true, force: true });
+    await rm(outDir, { recursive: true, force: true });
+  }
+}
+
+/** One line per run: wall time, cells per second, jobs, summed job processing time, identical or not. */
+function printTable(rows: Row[]): void {
+  const cells = rows[0].summary.cellsTotal;
+  console.log(
+    `\n${cells} cells, ${rows[0].summary.bands.length} bands, ${rows[0].summary.tiles} tiles; no GeoTIFFs`,
+  );
+  console.log(
+    'run                          wall s   cells/s   jobs  job processing s (summed)  identical to local',
+  );
+  for (const r of rows) {
+    const q = r.summary.queue;
+    console.log(
+      `${r.label.padEnd(28)} ${r.wall_s.toFixed(1).padStart(6)} ${String(Math.round(cells / r.wall_s)).padStart(9)}` +
+        `${q ? String(q.jobs).padStart(7) : '      -'}  ${q ? (q.processing_ms / 1000).toFixed(1).padStart(25) : ' '.repeat(25)}` +
+        `  ${r.identical === undefined ? '(reference)' : r.identical ? 'yes' : 'NO'}`,
+    );
+  }
+}
+
+/** The overhead per job and the projected T(N) = S + P / N from the 1-worker queue run. */
+function printScaling(rows: Row[]): void {
+  const local1 = rows[0];
+  const q1 = rows.find((r) => r.label.startsWith('queue, 1 '))!;
+  const jobs = q1.summary.queue!.jobs;
+  const P = q1.summary.queue!.processing_ms / 1000;
+  const S = Math.max(0, q1.wall_s - P);
+  console.log(
+    `\noverhead per job: median idle time of a worker between two jobs (queue dispatch) ` +
+      rows
+        .filter((r) => r.dispatchGap_ms !== undefined)
+        .map((r) => `${r.dispatchGap_ms!.toFixed(0)} ms (${r.label.replace('queue, ', '')})`)
+        .join(', ') +
+      `; all time of the 1-worker run outside its jobs, per job (dispatch + the coordinator's reading, ` +
+      `merging, top tiles and manifest): ${(((q1.wall_s - P) / jobs) * 1000).toFixed(0)} ms over ${jobs} jobs; ` +
+      `(queue with 1 worker - local 1 thread) / jobs: ${(((q1.wall_s - local1.wall_s) / jobs) * 1000).toFixed(0)} ms ` +
+      `(meaningful only when both ran at the same load)`,
+  );
+  console.log(
+    `projected T(N) = S + P/N with S = ${S.toFixed(1)} s (coordinator: read, merge, top tiles, manifest, swap) ` +
+      `and P = ${P.toFixed(1)} s (jobs), one core per worker:`,
+  );
+  for (const n of [1, 2, 4, 8, 16, 32, 64]) {
+    console.log(
+      `  N = ${String(n).padStart(2)}: ${(S + P / n).toFixed(1)} s (speed-up ${(q1.wall_s / (S + P / n)).toFixed(2)}x)`,
+    );
+  }
+  console.log(
+    `  limit (N -> infinity): ${S.toFixed(1)} s; speed-up at most ${(q1.wall_s / Math.max(S, 1e-9)).toFixed(1)}x`,
+  );
 }

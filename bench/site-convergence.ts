@@ -17,8 +17,9 @@
  * with f1 the coarsest of the three; when the differences change sign or p falls outside (0.3, 4) the
  * series is not in its asymptotic range and f3 ± |f3 − f2| is given instead. Then the error of the
  * default setting (standard mesh, default step) against f*. The mesh presets do not refine by one
- * ratio, so the mesh series prints its successive changes only. A thaw year is a discontinuous
- * functional (a probe that just misses Tf one summer thaws the next): jumps of about 1 yr are that.
+ * ratio, so the mesh series prints its successive changes only. The thaw year is a continuous
+ * functional: the time the annual maximum thaw depth at the probe's column (read from the cells'
+ * liquid fractions) crosses the probe depth, interpolated between consecutive years' maxima.
  * Public API only (simulateSite and the input schema), so it runs against any simulator on the branch.
  */
 import { readFileSync } from 'node:fs';

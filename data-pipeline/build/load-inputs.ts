@@ -234,6 +234,110 @@ function extendBox(box: number[], values: Float32Array, width: number, row0: num
   }
 }
 
+/** A polygon or NetCDF input turned into a raster GDAL opens (or the file itself), with what was read. */
+interface DerivedRaster {
+  /** The raster to open: the file itself, or the GeoTIFF / VRT derived from it in `derivedDir`. */
+  path: string;
+  /** For polygon and NetCDF inputs: how the file was read (the manifest's `reading`). */
+  reading?: Record<string, unknown>;
+  /** The unit a NetCDF variable declares (undefined for other inputs). */
+  unit?: string | null;
+}
+
+/**
+ * Polygons are rasterised and NetCDF-4 variables exposed as a VRT in `derivedDir`; other files are
+ * opened as they are. Polygon-only or NetCDF-only fields on another kind of file are an error.
+ */
+async function deriveRaster(
+  path: string,
+  entry: GridEntry,
+  budget: BuildBudget,
+  index: number,
+  derivedDir: string,
+): Promise<DerivedRaster> {
+  if (entry.attribute) {
+    const poly = await rasterisePolygons(path, derivedDir, String(index), {
+      label: entry.file,
+      attribute: entry.attribute,
+      values: entry.values,
+      layer: entry.layer,
+      srs: ANALYSIS_CRS,
+    });
+    return { path: poly.tif, reading: poly.reading };
+  }
+  if (entry.values || entry.layer) {
+    throw new InputError(
+      `${entry.file}: "values" and "layer" apply to polygon inputs (with "attribute") only`,
+    );
+  }
+  if (await isHdf5File(path)) {
+    const nc = await readNetcdf(path, derivedDir, String(index), {
+      label: entry.file,
+      variable: entry.variable,
+      time: entry.time,
+      budget,
+    });
+    return { path: nc.vrtPath, reading: nc.reading, unit: nc.unit };
+  }
+  if (entry.variable || entry.time) {
+    throw new InputError(`${entry.file}: "variable" and "time" apply to NetCDF-4 files only`);
+  }
+  return { path };
+}
+
+/** The unit the file declares must be the one the inputs config gives, when it is one the role knows. */
+function checkDeclaredUnit(entry: GridEntry, role: GridRole, fileUnit: string | null): void {
+  if (fileUnit && fileUnit in role.units && fileUnit !== entry.unit) {
+    throw new InputError(
+      `${entry.file}: the file declares unit "${fileUnit}" but the inputs config says "${entry.unit}" for ${entry.role}`,
+    );
+  }
+}
+
+/**
+ * Copy band 1 of `input` as raw Float32 into `scratch` (GDAL), then read it block by block of rows:
+ * nodata and non-finite values -> NaN, unit conversion and range check; returns the valid-pixel box.
+ */
+async function scanBand(
+  input: LoadedInput,
+  scratch: string,
+  index: number,
+): Promise<InputSource['validBox']> {
+  const { entry, source } = input;
+  const { width, height } = source.grid;
+  const raw = join(scratch, `${index}.f32`);
+  const gdal = await loadGdal();
+  try {
+    gdal.translate(source.path, raw, ['-of', 'ENVI', '-ot', 'Float32', '-b', '1']);
+  } catch (err) {
+    throw new InputError(`${entry.file}: unreadable image data (${(err as Error).message})`);
+  }
+  const nodata = source.nodata;
+  const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
+  const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
+  const block = new Float32Array(rows * width);
+  const box = [Infinity, Infinity, -Infinity, -Infinity];
+  const fd = openSync(raw, 'r');
+  try {
+    for (let y0 = 0; y0 < height; y0 += rows) {
+      const y1 = Math.min(height, y0 + rows);
+      const values = block.subarray(0, (y1 - y0) * width);
+      readBandRows(fd, width, y0, y1, values);
+      if (input.isSd) checkFinite(input, values, y0, nodata);
+      for (let i = 0; i < values.length; i++) {
+        const v = values[i];
+        if (v === nodata || v === nodataSingle || !Number.isFinite(v)) values[i] = NaN;
+      }
+      convertAndCheck(input, values, y0);
+      extendBox(box, values, width, y0);
+    }
+  } finally {
+    closeSync(fd);
+    await rm(raw, { force: true });
+  }
+  return box[2] < 0 ? null : [box[0], box[1], box[2] + 1, box[3] + 1];
+}
+
 /**
  * Open one input through GDAL and scan it: band 1 is copied as raw Float32 into `scratch` by GDAL,
  * then read block by block of rows (nodata and non-finite values -> NaN, scale/offset, unit, range).
@@ -248,53 +352,20 @@ async function scanInputGdal(
   derivedDir: string,
   sdRole?: GridRole,
 ): Promise<LoadedInput> {
-  const filePath = path;
-  let netcdf: Record<string, unknown> | undefined;
-  let derivedUnit: string | null | undefined;
-  if (entry.attribute) {
-    const poly = await rasterisePolygons(path, derivedDir, String(index), {
-      label: entry.file,
-      attribute: entry.attribute,
-      values: entry.values,
-      layer: entry.layer,
-      srs: ANALYSIS_CRS,
-    });
-    path = poly.tif;
-    netcdf = poly.reading;
-  } else if (entry.values || entry.layer) {
-    throw new InputError(
-      `${entry.file}: "values" and "layer" apply to polygon inputs (with "attribute") only`,
-    );
-  } else if (await isHdf5File(path)) {
-    const nc = await readNetcdf(path, derivedDir, String(index), {
-      label: entry.file,
-      variable: entry.variable,
-      time: entry.time,
-      budget,
-    });
-    path = nc.vrtPath;
-    netcdf = nc.reading;
-    derivedUnit = nc.unit;
-  } else if (entry.variable || entry.time) {
-    throw new InputError(`${entry.file}: "variable" and "time" apply to NetCDF-4 files only`);
-  }
-  const opened = await openRaster(path, {
+  const derived = await deriveRaster(path, entry, budget, index, derivedDir);
+  const netcdf = derived.reading;
+  const opened = await openRaster(derived.path, {
     label: entry.file,
     nodataOverride: entry.nodata,
     budget,
     insideDirs: [resolve(inDir), await realpath(inDir), resolve(derivedDir)],
   });
-  if (derivedUnit !== undefined) opened.fileUnit = derivedUnit;
+  if (derived.unit !== undefined) opened.fileUnit = derived.unit;
   const role = sdRole ?? (GRID_ROLES[entry.role] as GridRole);
-  if (opened.fileUnit && opened.fileUnit in role.units && opened.fileUnit !== entry.unit) {
-    throw new InputError(
-      `${entry.file}: the file declares unit "${opened.fileUnit}" but the inputs config says "${entry.unit}" for ${entry.role}`,
-    );
-  }
-  const { width, height } = opened.header;
+  checkDeclaredUnit(entry, role, opened.fileUnit);
   const source: InputSource = {
     grid: opened.header,
-    path,
+    path: derived.path,
     label: entry.file,
     nodata: opened.nodata,
     description: opened.description,
@@ -312,38 +383,8 @@ async function scanInputGdal(
     ...(netcdf ? { netcdf } : {}),
   };
   const input: LoadedInput = { entry, role, source, ...(sdRole ? { isSd: true } : {}) };
-  const raw = join(scratch, `${index}.f32`);
-  const gdal = await loadGdal();
-  try {
-    gdal.translate(path, raw, ['-of', 'ENVI', '-ot', 'Float32', '-b', '1']);
-  } catch (err) {
-    throw new InputError(`${entry.file}: unreadable image data (${(err as Error).message})`);
-  }
-  const nodata = opened.nodata;
-  const nodataSingle = nodata == null ? NaN : Math.fround(nodata);
-  const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
-  const block = new Float32Array(rows * width);
-  const box = [Infinity, Infinity, -Infinity, -Infinity];
-  const fd = openSync(raw, 'r');
-  try {
-    for (let y0 = 0; y0 < height; y0 += rows) {
-      const y1 = Math.min(height, y0 + rows);
-      const values = block.subarray(0, (y1 - y0) * width);
-      readBandRows(fd, width, y0, y1, values);
-      if (sdRole) checkFinite(input, values, y0, nodata);
-      for (let i = 0; i < values.length; i++) {
-        const v = values[i];
-        if (v === nodata || v === nodataSingle || !Number.isFinite(v)) values[i] = NaN;
-      }
-      convertAndCheck(input, values, y0);
-      extendBox(box, values, width, y0);
-    }
-  } finally {
-    closeSync(fd);
-    await rm(raw, { force: true });
-  }
-  source.validBox = box[2] < 0 ? null : [box[0], box[1], box[2] + 1, box[3] + 1];
-  source.sha256 = await sha256Of(filePath);
+  source.validBox = await scanBand(input, scratch, index);
+  source.sha256 = await sha256Of(path);
   return input;
 }
 

@@ -52,6 +52,78 @@ export function formatRunSummary(s: BuildSummary): string {
   return lines.join('\n') + '\n';
 }
 
+/** The value options and flags `pile-atlas build` takes. */
+const BUILD_OPTIONS = {
+  values: [
+    'in',
+    'out',
+    'cell-size',
+    'scenario',
+    'model',
+    'workers',
+    'max-input-mb',
+    'max-cells',
+    'max-memory-mb',
+    'max-disk-mb',
+    'members',
+    'seed',
+    'min-latitude',
+    'queue',
+    'shared',
+  ],
+  flags: ['quiet', 'no-geotiff', 'ensemble'],
+};
+
+/** --model (screening or basic) and the --scenario file it applies to, read as JSON. */
+async function modelOptions(
+  opts: ParsedOptions,
+): Promise<{ modelKind: 'screening' | 'basic'; scenarioFile?: string; scenario?: unknown }> {
+  const modelKind = opts.values.model ?? 'screening';
+  if (modelKind !== 'screening' && modelKind !== 'basic') {
+    throw new InputError(`build: --model must be screening or basic, got "${modelKind}"`);
+  }
+  if (modelKind === 'basic' && opts.values.scenario) {
+    throw new InputError('build: --scenario applies to --model screening only');
+  }
+  const scenarioFile = opts.values.scenario;
+  const scenario = scenarioFile ? await readJsonFile(scenarioFile, scenarioFile) : undefined;
+  return { modelKind, scenarioFile, scenario };
+}
+
+/** --ensemble, --members and --seed (each turns the ensemble on; screening model only). */
+function ensembleOption(
+  opts: ParsedOptions,
+  modelKind: 'screening' | 'basic',
+): { members?: number; seed?: number } | undefined {
+  const members =
+    opts.values.members !== undefined ? numberOption('build', opts, 'members', 32, 1, 1024, true) : undefined;
+  const seed =
+    opts.values.seed !== undefined ? numberOption('build', opts, 'seed', 1, 0, 0xffffffff, true) : undefined;
+  const ensemble =
+    opts.flags.has('ensemble') || members !== undefined || seed !== undefined ? { members, seed } : undefined;
+  if (ensemble && modelKind === 'basic') {
+    throw new InputError('build: --ensemble, --members and --seed apply to --model screening only');
+  }
+  return ensemble;
+}
+
+/** With --queue (and its --shared storage): the distributor that runs the build on queue workers. */
+async function queueDistributor(opts: ParsedOptions, quiet: boolean): Promise<QueueDistributor | undefined> {
+  if (opts.values.queue === undefined) {
+    if (opts.values.shared !== undefined) {
+      throw new InputError('build: --shared applies to --queue builds only');
+    }
+    return undefined;
+  }
+  const connection = parseQueueUrl(opts.values.queue);
+  const shared = sharedRoot(requireOption('build', opts, 'shared'));
+  return createQueueDistributor({
+    connection,
+    shared,
+    log: quiet ? undefined : (line) => process.stderr.write(`${line}\n`),
+  });
+}
+
 export const buildCommand: Command = {
   name: 'build',
   summary: 'screen every cell of a region and write tiles, GeoTIFFs and manifest.json',
@@ -64,6 +136,7 @@ in EPSG:3413 (nearest for classes, bilinear for continuous values), screens ever
 writes:
   <out>/tiles/{z}/{x}/{y}.bin   Web Mercator tile pyramid (overviews: classes by mode, values by mean)
   <out>/geotiff/<band>.tif      every band as a GeoTIFF in EPSG:3413 (nodata -9999)
+  <out>/display/<band>.pmtiles  every band as PNG map tiles coloured as the web map (PMTiles v3)
   <out>/manifest.json           bands, units, ranges, sources with sha256, scenario, run summary
   <out>/settlements.geojson, <out>/land.geojson (copied when the config lists them)
 The output is replaced atomically: if anything fails or the build is killed, a previous <out> stays
@@ -105,68 +178,16 @@ Options:
 
 Prints a JSON summary on stdout; progress with ETA and the run summary on stderr.`,
   async run(argv) {
-    const opts = parseOptions('build', argv, {
-      values: [
-        'in',
-        'out',
-        'cell-size',
-        'scenario',
-        'model',
-        'workers',
-        'max-input-mb',
-        'max-cells',
-        'max-memory-mb',
-        'max-disk-mb',
-        'members',
-        'seed',
-        'min-latitude',
-        'queue',
-        'shared',
-      ],
-      flags: ['quiet', 'no-geotiff', 'ensemble'],
-    });
+    const opts = parseOptions('build', argv, BUILD_OPTIONS);
     const inDir = requireOption('build', opts, 'in');
     const outDir = requireOption('build', opts, 'out');
     const cellSize_m = numberOption('build', opts, 'cell-size', 1000, 50, 50_000);
     const workers = numberOption('build', opts, 'workers', Math.min(8, availableParallelism()), 1, 64, true);
-    const modelKind = opts.values.model ?? 'screening';
-    if (modelKind !== 'screening' && modelKind !== 'basic') {
-      throw new InputError(`build: --model must be screening or basic, got "${modelKind}"`);
-    }
-    if (modelKind === 'basic' && opts.values.scenario) {
-      throw new InputError('build: --scenario applies to --model screening only');
-    }
-    const scenarioFile = opts.values.scenario;
-    const scenario = scenarioFile ? await readJsonFile(scenarioFile, scenarioFile) : undefined;
+    const { modelKind, scenarioFile, scenario } = await modelOptions(opts);
     const budget = budgetOptions(opts);
-    const members =
-      opts.values.members !== undefined
-        ? numberOption('build', opts, 'members', 32, 1, 1024, true)
-        : undefined;
-    const seed =
-      opts.values.seed !== undefined
-        ? numberOption('build', opts, 'seed', 1, 0, 0xffffffff, true)
-        : undefined;
-    const ensemble =
-      opts.flags.has('ensemble') || members !== undefined || seed !== undefined
-        ? { members, seed }
-        : undefined;
-    if (ensemble && modelKind === 'basic') {
-      throw new InputError('build: --ensemble, --members and --seed apply to --model screening only');
-    }
+    const ensemble = ensembleOption(opts, modelKind);
     const quiet = opts.flags.has('quiet');
-    let distributor: QueueDistributor | undefined;
-    if (opts.values.queue !== undefined) {
-      const connection = parseQueueUrl(opts.values.queue);
-      const shared = sharedRoot(requireOption('build', opts, 'shared'));
-      distributor = await createQueueDistributor({
-        connection,
-        shared,
-        log: quiet ? undefined : (line) => process.stderr.write(`${line}\n`),
-      });
-    } else if (opts.values.shared !== undefined) {
-      throw new InputError('build: --shared applies to --queue builds only');
-    }
+    const distributor = await queueDistributor(opts, quiet);
     let summary: BuildSummary;
     try {
       summary = await buildTiles({

@@ -18,7 +18,7 @@ pile-atlas site --batch <sites.geojson | sites.csv> --base <input.json> [--full]
 
 Runs the axisymmetric (r, z) transient ground simulation around one heat-exchanger pile, twice (with
 and without the pile), and prints the result as JSON: probe temperature histories, the year each probe
-first reaches its freezing point and the thaw delay the pile buys, the thaw depth by year, monthly
+the summer thaw first reaches and the thaw delay the pile buys, the thaw depth by year, monthly
 fluid temperatures and heat, the lowest fluid temperature, ground frozen by the pile that was unfrozen
 at the start, and the energy balance. Screening estimate, not a design.
 

@@ -36,7 +36,8 @@ function entryBytes(e: Entry): number {
   return count * TYPE_SIZE[e.type];
 }
 
-export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
+/** Check the band's size, source, transform and CRS; returns the EPSG code of its CRS. */
+function checkBand(band: BandGeoTiff): number {
   const { width, height, values, readRows, geoTransform: gt, crs } = band;
   if (values && values.length !== width * height) {
     throw new RangeError(`writeBandGeoTiff: ${values.length} values for ${width} x ${height}`);
@@ -45,22 +46,23 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
   if (gt[2] !== 0 || gt[4] !== 0) throw new RangeError('writeBandGeoTiff: rotated grids are not supported');
   const code = Number(/^EPSG:(\d+)$/.exec(crs)?.[1]);
   if (!Number.isInteger(code)) throw new RangeError(`writeBandGeoTiff: crs must be EPSG:n, got ${crs}`);
+  return code;
+}
+
+/** The IFD entries of the band's TIFF: baseline Float32 strips and GeoTIFF 1.0 keys (strip offsets 0). */
+function tiffEntries(band: BandGeoTiff, code: number, stripBytes: number[]): Entry[] {
+  const { width, height, geoTransform: gt } = band;
   const geographic = code === 4326;
-  const strips = Math.ceil(height / ROWS_PER_STRIP);
-  const stripBytes = Array.from(
-    { length: strips },
-    (_, s) => Math.min(ROWS_PER_STRIP, height - s * ROWS_PER_STRIP) * width * 4,
-  );
   const geoKeys = [1, 1, 0, 3, 1024, 0, 1, geographic ? 2 : 1, 1025, 0, 1, 1];
   geoKeys.push(geographic ? 2048 : 3072, 0, 1, code);
-  const entries: Entry[] = [
+  return [
     { tag: 256, type: 4, values: [width] },
     { tag: 257, type: 4, values: [height] },
     { tag: 258, type: 3, values: [32] },
     { tag: 259, type: 3, values: [1] },
     { tag: 262, type: 3, values: [1] },
     { tag: 270, type: 2, values: band.description.replace(/[^\x20-\x7e]/g, '?') },
-    { tag: 273, type: 4, values: new Array<number>(strips).fill(0) },
+    { tag: 273, type: 4, values: new Array<number>(stripBytes.length).fill(0) },
     { tag: 277, type: 3, values: [1] },
     { tag: 278, type: 4, values: [ROWS_PER_STRIP] },
     { tag: 279, type: 4, values: stripBytes },
@@ -71,6 +73,13 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
     { tag: 34735, type: 3, values: geoKeys },
     { tag: 42113, type: 2, values: String(GEOTIFF_NODATA) },
   ];
+}
+
+/**
+ * The file's header: TIFF header, the IFD and the entry values over 4 bytes after it; the strips
+ * follow it (the strip offsets entry is filled in here). Its length is where the strips start.
+ */
+function tiffHeader(entries: Entry[], stripBytes: number[], width: number): Buffer {
   const ifdSize = 2 + entries.length * 12 + 4;
   let extra = 8 + ifdSize;
   const extraOffsets = entries.map((e) => {
@@ -81,8 +90,7 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
     return at;
   });
   const dataStart = extra;
-  const stripOffsets = stripBytes.map((_, s) => dataStart + s * ROWS_PER_STRIP * width * 4);
-  entries[6].values = stripOffsets;
+  entries[6].values = stripBytes.map((_, s) => dataStart + s * ROWS_PER_STRIP * width * 4);
 
   const header = Buffer.alloc(dataStart);
   header.write('II', 0, 'latin1');
@@ -106,12 +114,17 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
       });
   });
   header.writeUInt32LE(0, 10 + entries.length * 12);
+  return header;
+}
 
+/** Write `header`, then the band strip by strip as little-endian Float32 (NaN -> GEOTIFF_NODATA). */
+async function writeStrips(band: BandGeoTiff, header: Buffer, stripBytes: number[]): Promise<void> {
+  const { width, values, readRows } = band;
   const file = await open(band.path, 'w');
   try {
     await file.write(header);
     const chunk = Buffer.alloc(ROWS_PER_STRIP * width * 4);
-    for (let s = 0; s < strips; s++) {
+    for (let s = 0; s < stripBytes.length; s++) {
       const row0 = s * ROWS_PER_STRIP;
       const n = stripBytes[s] / 4;
       const rows = values
@@ -129,4 +142,17 @@ export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
   } finally {
     await file.close();
   }
+}
+
+/** Write the band as a Float32 GeoTIFF in strips of GEOTIFF_ROWS_PER_STRIP rows (see the file comment). */
+export async function writeBandGeoTiff(band: BandGeoTiff): Promise<void> {
+  const code = checkBand(band);
+  const { width, height } = band;
+  const strips = Math.ceil(height / ROWS_PER_STRIP);
+  const stripBytes = Array.from(
+    { length: strips },
+    (_, s) => Math.min(ROWS_PER_STRIP, height - s * ROWS_PER_STRIP) * width * 4,
+  );
+  const header = tiffHeader(tiffEntries(band, code, stripBytes), stripBytes, width);
+  await writeStrips(band, header, stripBytes);
 }

@@ -66,96 +66,25 @@ export interface QueueWorkerHandle {
 /** Times a stalled job is put back before it fails (BullMQ's default is 1). */
 const MAX_STALLED = 3;
 
+/** A build's screening context and the screener made from it. */
+interface ScreenEntry {
+  ctx: ScreenContext;
+  screener: WindowScreener;
+}
+
 export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWorkerHandle> {
   const name = `${hostname()}:${process.pid}`;
-  const screeners = new Map<string, Promise<{ ctx: ScreenContext; screener: WindowScreener }>>();
+  const screeners = new Map<string, Promise<ScreenEntry>>();
   const log = o.log ?? (() => undefined);
 
   const screenContext = (key: string) => {
     let entry = screeners.get(key);
     if (!entry) {
-      entry = (async () => {
-        const ctx = await getObject<ScreenContext>(o.shared, key);
-        const spec = await getObject<ModelSpec>(o.shared, ctx.scenarioChecksum);
-        const local = async (i: SharedInput): Promise<WindowInput> => {
-          const { rel, sha256, alignedInShared, sd, ...input } = i;
-          const path = await verifiedInput(o.shared, rel, sha256);
-          return {
-            ...input,
-            path,
-            ...(alignedInShared ? { aligned: path } : {}),
-            ...(sd ? { sd: await local(sd) } : {}),
-          };
-        };
-        const inputs: WindowInput[] = [];
-        for (const i of ctx.inputs) inputs.push(await local(i));
-        const unused: BandFiles = { paths: [], width: ctx.grid.width, height: 0 };
-        const screener = createWindowScreener({
-          grid: ctx.grid,
-          inputs,
-          model: createModelFromSpec(spec),
-          echoRoles: ctx.echoRoles,
-          files: unused,
-        });
-        return { ctx, screener };
-      })();
+      entry = loadScreenContext(o.shared, key);
       entry.catch(() => screeners.delete(key));
       screeners.set(key, entry);
     }
     return entry;
-  };
-
-  const runScreen = async (id: string, data: ScreenJobData): Promise<ScreenJobResult> => {
-    const done = join(jobDir(o.shared, id), STATS_FILE);
-    if (existsSync(done)) return { stats: JSON.parse(await readFile(done, 'utf8')), worker: name };
-    const { ctx, screener } = await screenContext(data.context);
-    if (ctx.inputsChecksum !== data.inputsChecksum || ctx.scenarioChecksum !== data.scenarioChecksum) {
-      throw new Error(`${describeJob(data)}: its context does not match the job's input/scenario checksums`);
-    }
-    const stats = emptyStats();
-    await publishJobOutput(o.shared, id, async (dir) => {
-      const files = await createBandFiles(dir, ctx.bandCount, ctx.grid.width, data.row1 - data.row0);
-      const into = { ...files, row0: data.row0 };
-      for (let r = data.row0; r < data.row1; r += WINDOW_ROWS) {
-        mergeStats(stats, await screener.screen(r, Math.min(data.row1, r + WINDOW_ROWS), into));
-        await faultPoint('job', dir);
-        // Let BullMQ renew the job's lock between windows.
-        await yieldToEventLoop();
-      }
-      await writeFile(join(dir, STATS_FILE), JSON.stringify(stats));
-    });
-    return { stats, worker: name };
-  };
-
-  const runTiles = async (id: string, data: TileJobData): Promise<TileJobResult> => {
-    const resultFile = join(jobDir(o.shared, id), 'result.json');
-    if (existsSync(resultFile)) {
-      return { ...(JSON.parse(await readFile(resultFile, 'utf8')) as TileJobResult), worker: name };
-    }
-    const ctx = await getObject<TileContext>(o.shared, data.context);
-    let result: TileJobResult | undefined;
-    await publishJobOutput(o.shared, id, async (dir) => {
-      let finest = 0;
-      const renderer = createTileRenderer({
-        tilesDir: join(dir, 'tiles'),
-        grid: ctx.grid,
-        files: { paths: ctx.bands.map((b) => join(o.shared, b)), width: ctx.width, height: ctx.height },
-        bands: ctx.pyramid,
-        maxZoom: ctx.maxZoom,
-        bounds: ctx.bounds,
-        onFinest: () => finest++,
-      });
-      const planes = await renderer.render(data.z, data.x, data.y);
-      await faultPoint('job', dir);
-      if (planes) {
-        const all = new Float32Array(planes.length * planes[0].length);
-        planes.forEach((p, i) => all.set(p, i * p.length));
-        await writeFile(join(dir, ROOT_PLANES_FILE), new Uint8Array(all.buffer));
-      }
-      result = { written: renderer.written, finest, hasRoot: planes !== null, worker: name };
-      await writeFile(join(dir, 'result.json'), JSON.stringify(result));
-    });
-    return result ?? (JSON.parse(await readFile(resultFile, 'utf8')) as TileJobResult);
   };
 
   const worker = new Worker<BuildJobData, BuildJobResult>(
@@ -164,7 +93,9 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
       const started = Date.now();
       const id = job.id as string;
       const result =
-        job.data.kind === 'screen' ? await runScreen(id, job.data) : await runTiles(id, job.data);
+        job.data.kind === 'screen'
+          ? await runScreen(o.shared, name, screenContext, id, job.data)
+          : await runTiles(o.shared, name, id, job.data);
       log(
         `pile-atlas worker ${name}: ${describeJob(job.data)} done in ${((Date.now() - started) / 1000).toFixed(2)} s` +
           (job.attemptsMade > 0 || job.stalledCounter > 0 ? ' (retried)' : ''),
@@ -196,4 +127,92 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
       for (const entry of screeners.values()) await (await entry).screener.close().catch(() => undefined);
     },
   };
+}
+
+/** A build's screening context from shared storage, its inputs verified, and a screener over them. */
+async function loadScreenContext(shared: string, key: string): Promise<ScreenEntry> {
+  const ctx = await getObject<ScreenContext>(shared, key);
+  const spec = await getObject<ModelSpec>(shared, ctx.scenarioChecksum);
+  const local = async (i: SharedInput): Promise<WindowInput> => {
+    const { rel, sha256, alignedInShared, sd, ...input } = i;
+    const path = await verifiedInput(shared, rel, sha256);
+    return {
+      ...input,
+      path,
+      ...(alignedInShared ? { aligned: path } : {}),
+      ...(sd ? { sd: await local(sd) } : {}),
+    };
+  };
+  const inputs: WindowInput[] = [];
+  for (const i of ctx.inputs) inputs.push(await local(i));
+  const unused: BandFiles = { paths: [], width: ctx.grid.width, height: 0 };
+  const screener = createWindowScreener({
+    grid: ctx.grid,
+    inputs,
+    model: createModelFromSpec(spec),
+    echoRoles: ctx.echoRoles,
+    files: unused,
+  });
+  return { ctx, screener };
+}
+
+/** Screen a job's rows window by window into band files of its own, published with its statistics. */
+async function runScreen(
+  shared: string,
+  name: string,
+  screenContext: (key: string) => Promise<ScreenEntry>,
+  id: string,
+  data: ScreenJobData,
+): Promise<ScreenJobResult> {
+  const done = join(jobDir(shared, id), STATS_FILE);
+  if (existsSync(done)) return { stats: JSON.parse(await readFile(done, 'utf8')), worker: name };
+  const { ctx, screener } = await screenContext(data.context);
+  if (ctx.inputsChecksum !== data.inputsChecksum || ctx.scenarioChecksum !== data.scenarioChecksum) {
+    throw new Error(`${describeJob(data)}: its context does not match the job's input/scenario checksums`);
+  }
+  const stats = emptyStats();
+  await publishJobOutput(shared, id, async (dir) => {
+    const files = await createBandFiles(dir, ctx.bandCount, ctx.grid.width, data.row1 - data.row0);
+    const into = { ...files, row0: data.row0 };
+    for (let r = data.row0; r < data.row1; r += WINDOW_ROWS) {
+      mergeStats(stats, await screener.screen(r, Math.min(data.row1, r + WINDOW_ROWS), into));
+      await faultPoint('job', dir);
+      // Let BullMQ renew the job's lock between windows.
+      await yieldToEventLoop();
+    }
+    await writeFile(join(dir, STATS_FILE), JSON.stringify(stats));
+  });
+  return { stats, worker: name };
+}
+
+/** Render a job's tile subtree and publish its tiles, root planes and result. */
+async function runTiles(shared: string, name: string, id: string, data: TileJobData): Promise<TileJobResult> {
+  const resultFile = join(jobDir(shared, id), 'result.json');
+  if (existsSync(resultFile)) {
+    return { ...(JSON.parse(await readFile(resultFile, 'utf8')) as TileJobResult), worker: name };
+  }
+  const ctx = await getObject<TileContext>(shared, data.context);
+  let result: TileJobResult | undefined;
+  await publishJobOutput(shared, id, async (dir) => {
+    let finest = 0;
+    const renderer = createTileRenderer({
+      tilesDir: join(dir, 'tiles'),
+      grid: ctx.grid,
+      files: { paths: ctx.bands.map((b) => join(shared, b)), width: ctx.width, height: ctx.height },
+      bands: ctx.pyramid,
+      maxZoom: ctx.maxZoom,
+      bounds: ctx.bounds,
+      onFinest: () => finest++,
+    });
+    const planes = await renderer.render(data.z, data.x, data.y);
+    await faultPoint('job', dir);
+    if (planes) {
+      const all = new Float32Array(planes.length * planes[0].length);
+      planes.forEach((p, i) => all.set(p, i * p.length));
+      await writeFile(join(dir, ROOT_PLANES_FILE), new Uint8Array(all.buffer));
+    }
+    result = { written: renderer.written, finest, hasRoot: planes !== null, worker: name };
+    await writeFile(join(dir, 'result.json'), JSON.stringify(result));
+  });
+  return result ?? (JSON.parse(await readFile(resultFile, 'utf8')) as TileJobResult);
 }

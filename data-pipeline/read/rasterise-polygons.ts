@@ -10,7 +10,7 @@
  */
 import { readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { loadGdal } from '../gdal/gdal-wasm';
+import { loadGdal, type Gdal } from '../gdal/gdal-wasm';
 import { InputError } from '../input-error';
 
 export interface PolygonOptions {
@@ -39,15 +39,13 @@ function extend(box: number[], coords: unknown): void {
   } else if (Array.isArray(coords)) for (const c of coords) extend(box, c);
 }
 
-/** Rasterise the polygons at `path`; returns the GeoTIFF written into `outDir` and what was read. */
-export async function rasterisePolygons(
+/** Reproject the polygons at `path` into `o.srs` as GeoJSON (ogr2ogr), keeping only the attribute. */
+async function reprojectPolygons(
+  gdal: Gdal,
   path: string,
-  outDir: string,
-  name: string,
+  reprojected: string,
   o: PolygonOptions,
-): Promise<{ tif: string; reading: Record<string, unknown> }> {
-  const gdal = await loadGdal();
-  const reprojected = join(outDir, `${name}-polygons.geojson`);
+): Promise<Feature[]> {
   try {
     gdal.vectorTranslate(path, reprojected, [
       '-f',
@@ -64,7 +62,38 @@ export async function rasterisePolygons(
     throw new InputError(`${o.label}: cannot read the polygons (${(err as Error).message})`);
   }
   const fc = JSON.parse(await readFile(reprojected, 'utf8')) as { features?: Feature[] };
-  const features = fc.features ?? [];
+  return fc.features ?? [];
+}
+
+/** Feature `i`'s attribute `raw` as the role's value: through the `values` table, else as a number. */
+function valueOf(raw: unknown, i: number, o: PolygonOptions): number {
+  if (o.values) {
+    const v = o.values[String(raw)];
+    if (v === undefined) {
+      throw new InputError(
+        `${o.label}: feature ${i} has ${o.attribute} = "${String(raw)}", not in the inputs config's values ` +
+          `(${Object.keys(o.values).join(', ')})`,
+      );
+    }
+    return v;
+  }
+  const value = typeof raw === 'number' ? raw : Number(raw);
+  if (!Number.isFinite(value)) {
+    throw new InputError(
+      `${o.label}: feature ${i} has ${o.attribute} = "${String(raw)}", not a number (give "values" to map it)`,
+    );
+  }
+  return value;
+}
+
+/**
+ * The polygon features with a value, each carrying only `value`, and their bounding box; features
+ * without the attribute are an error, with a null or empty one skipped.
+ */
+function mapFeatures(
+  features: Feature[],
+  o: PolygonOptions,
+): { mapped: Feature[]; box: number[]; withAttribute: number } {
   const box = [Infinity, Infinity, -Infinity, -Infinity];
   const mapped: Feature[] = [];
   let withAttribute = 0;
@@ -76,42 +105,31 @@ export async function rasterisePolygons(
     const raw = f.properties[o.attribute];
     if (raw === null || raw === undefined || raw === '') continue;
     withAttribute++;
-    let value: number;
-    if (o.values) {
-      const v = o.values[String(raw)];
-      if (v === undefined) {
-        throw new InputError(
-          `${o.label}: feature ${i} has ${o.attribute} = "${String(raw)}", not in the inputs config's values ` +
-            `(${Object.keys(o.values).join(', ')})`,
-        );
-      }
-      value = v;
-    } else {
-      value = typeof raw === 'number' ? raw : Number(raw);
-      if (!Number.isFinite(value)) {
-        throw new InputError(
-          `${o.label}: feature ${i} has ${o.attribute} = "${String(raw)}", not a number (give "values" to map it)`,
-        );
-      }
-    }
+    const value = valueOf(raw, i, o);
     extend(box, f.geometry.coordinates);
     mapped.push({ type: 'Feature', properties: { value }, geometry: f.geometry });
   }
   if (mapped.length === 0) {
     throw new InputError(`${o.label}: no polygon with a value for attribute "${o.attribute}"`);
   }
-  const valued = join(outDir, `${name}-valued.geojson`);
-  await writeFile(valued, JSON.stringify({ type: 'FeatureCollection', features: mapped }));
-  const maxSide = o.maxSide ?? 4000;
-  const span = Math.max(box[2] - box[0], box[3] - box[1]);
-  const pixel = Math.max(250, Math.ceil(span / maxSide / 50) * 50);
+  return { mapped, box, withAttribute };
+}
+
+/** Burn `value` of the features in `valued` into a Float32 GeoTIFF of square `pixel`s covering `box`. */
+function burnValues(
+  gdal: Gdal,
+  valued: string,
+  tif: string,
+  box: number[],
+  pixel: number,
+  o: PolygonOptions,
+): void {
   const te = [
     Math.floor(box[0] / pixel) * pixel,
     Math.floor(box[1] / pixel) * pixel,
     Math.ceil(box[2] / pixel) * pixel,
     Math.ceil(box[3] / pixel) * pixel,
   ];
-  const tif = join(outDir, `${name}-polygons.tif`);
   try {
     gdal.rasterize(valued, tif, [
       '-a',
@@ -135,6 +153,25 @@ export async function rasterisePolygons(
   } catch (err) {
     throw new InputError(`${o.label}: cannot rasterise the polygons (${(err as Error).message})`);
   }
+}
+
+/** Rasterise the polygons at `path`; returns the GeoTIFF written into `outDir` and what was read. */
+export async function rasterisePolygons(
+  path: string,
+  outDir: string,
+  name: string,
+  o: PolygonOptions,
+): Promise<{ tif: string; reading: Record<string, unknown> }> {
+  const gdal = await loadGdal();
+  const features = await reprojectPolygons(gdal, path, join(outDir, `${name}-polygons.geojson`), o);
+  const { mapped, box, withAttribute } = mapFeatures(features, o);
+  const valued = join(outDir, `${name}-valued.geojson`);
+  await writeFile(valued, JSON.stringify({ type: 'FeatureCollection', features: mapped }));
+  const maxSide = o.maxSide ?? 4000;
+  const span = Math.max(box[2] - box[0], box[3] - box[1]);
+  const pixel = Math.max(250, Math.ceil(span / maxSide / 50) * 50);
+  const tif = join(outDir, `${name}-polygons.tif`);
+  burnValues(gdal, valued, tif, box, pixel, o);
   return {
     tif,
     reading: {

@@ -30,6 +30,9 @@ import h5wasm from 'h5wasm/node';
 import type { BuildBudget } from '../build/build-budget';
 import { gdalPath } from '../gdal/gdal-wasm';
 import { InputError } from '../input-error';
+import { reduceSteps, type StepReader, type TimeStep } from './netcdf-time-reduce';
+
+export { MONTHLY_MEAN_ATTENUATION } from './netcdf-time-reduce';
 
 export type TimeReduce = 'mean' | 'annualMean' | 'annualAmplitude' | 'trend';
 
@@ -199,8 +202,40 @@ function monthIndex(label: string, s: string): number {
   return Number(m[1]) * 12 + Number(m[2]) - 1;
 }
 
-/** Monthly mean of a unit sinusoid, relative to its amplitude: sin(pi/12) / (pi/12). */
-export const MONTHLY_MEAN_ATTENUATION = Math.sin(Math.PI / 12) / (Math.PI / 12);
+/** A named dataset of the file. */
+interface NamedDataset {
+  name: string;
+  ds: H5Dataset;
+}
+
+/** The chosen variable's regular Y, X grid (coordinates in m or degrees) and CRS. */
+interface NetcdfGrid {
+  /** Number of dimensions: 2 (y, x) or 3 (time, y, x). */
+  nd: number;
+  width: number;
+  height: number;
+  /** Time steps (1 without a time axis). */
+  steps: number;
+  x: { first: number; step: number };
+  y: { first: number; step: number };
+  gmName: string | undefined;
+  srs: string;
+}
+
+/** CF packing and unit attributes of the chosen variable. */
+interface CfPacking {
+  scale: number;
+  offset: number;
+  fills: number[];
+  units: string | null;
+}
+
+/** The time steps to reduce, and how. */
+interface TimeSelection {
+  timeName: string | undefined;
+  used: TimeStep[];
+  r: TimeReduce;
+}
 
 /** Read and reduce the NetCDF-4 file at `path`; writes `<name>.f32` + `<name>.vrt` into `outDir`. */
 export async function readNetcdf(
@@ -210,252 +245,244 @@ export async function readNetcdf(
   o: NetcdfOptions,
 ): Promise<NetcdfResult> {
   const { label } = o;
-  await h5wasm.ready;
-  let f: H5File;
-  try {
-    f = new h5wasm.File(path, 'r');
-  } catch (err) {
-    throw new InputError(`${label}: not a NetCDF-4 file h5wasm can read (${(err as Error).message})`);
-  }
+  const f = await openNetcdf(path, label);
   try {
     const all = datasets(f);
-    const isCoord = (d: H5Dataset) => d.get_scale_name() !== null;
-    const isMapping = (d: H5Dataset) => attr(d, 'grid_mapping_name') !== undefined || d.shape?.length === 0;
-    const dataVars = all.filter(({ ds }) => !isCoord(ds) && !isMapping(ds) && (ds.shape?.length ?? 0) >= 2);
-    let chosen = o.variable ? all.find((d) => d.name === o.variable) : undefined;
-    if (o.variable && !chosen) {
-      throw new InputError(
-        `${label}: no variable "${o.variable}" (data variables: ${dataVars.map((d) => d.name).join(', ') || 'none'})`,
-      );
-    }
-    if (!chosen) {
-      if (dataVars.length !== 1) {
-        throw new InputError(
-          `${label}: ${dataVars.length} data variables (${dataVars.map((d) => d.name).join(', ')}); name one with "variable"`,
-        );
-      }
-      chosen = dataVars[0];
-    }
-    const v = chosen.ds;
-    const shape = (v.shape ?? []).map(Number);
-    if (shape.length < 2 || shape.length > 3) {
-      throw new InputError(
-        `${label}: variable ${chosen.name} has ${shape.length} dimensions, expected (time,) y, x`,
-      );
-    }
-    const dimName = (i: number) => {
-      const scales = v.get_attached_scales(i) as string[] | undefined;
-      return scales && scales.length ? scales[0].replace(/^\//, '') : undefined;
-    };
-    const axis = (i: number) => {
-      const n = dimName(i);
-      const d = n ? all.find((x) => x.name === n) : undefined;
-      if (!d) throw new InputError(`${label}: dimension ${i} of ${chosen!.name} has no coordinate variable`);
-      return d;
-    };
-    const nd = shape.length;
-    const xVar = axis(nd - 1);
-    const yVar = axis(nd - 2);
-    const height = shape[nd - 2];
-    const width = shape[nd - 1];
-    const steps = nd === 3 ? shape[0] : 1;
-    const bytes = steps * width * height * (v.metadata.size ?? 4);
-    if (bytes > o.budget.maxInputBytes) {
-      throw new InputError(
-        `${label}: variable ${chosen.name} declares ${steps} x ${height} x ${width} values (${bytes} bytes), over the ` +
-          'budget per input; raise --max-input-mb if the file is genuine',
-      );
-    }
-    const xUnits = str(attr(xVar.ds, 'units')) ?? '';
-    const yUnits = str(attr(yVar.ds, 'units')) ?? '';
-    const toM = (u: string) => (/^km$/i.test(u) ? 1000 : 1);
-    const x = regularAxis(
-      label,
-      xVar.name,
-      numbers(xVar.ds).map((c) => c * toM(xUnits)),
-    );
-    const y = regularAxis(
-      label,
-      yVar.name,
-      numbers(yVar.ds).map((c) => c * toM(yUnits)),
-    );
-    const gmName = str(attr(v, 'grid_mapping'));
-    const gm = gmName ? all.find((d) => d.name === gmName)?.ds : undefined;
-    if (gmName && !gm) throw new InputError(`${label}: grid_mapping variable "${gmName}" not found`);
-    const srs = crsOfGridMapping(label, gm, xUnits);
-    const scale = num(attr(v, 'scale_factor')) ?? 1;
-    const offset = num(attr(v, 'add_offset')) ?? 0;
-    const fills = [num(attr(v, '_FillValue')), num(attr(v, 'missing_value'))].filter(
-      (q): q is number => q !== undefined,
-    );
-    const units = str(attr(v, 'units')) ?? null;
-
-    // Time axis and selection.
-    let months: { y: number; m: number }[] = [];
-    let timeName: string | undefined;
-    if (nd === 3) {
-      const t = axis(0);
-      timeName = t.name;
-      months = monthsOf(
-        label,
-        numbers(t.ds),
-        str(attr(t.ds, 'units')) ?? '',
-        (str(attr(t.ds, 'calendar')) ?? 'standard').toLowerCase(),
-      );
-    }
-    const reduce: TimeReduce | undefined = o.time?.reduce;
-    if (nd === 3 && steps > 1 && !reduce) {
-      throw new InputError(
-        `${label}: variable ${chosen.name} has a time axis of ${steps} steps; set "time": { "reduce": ... } in the inputs config`,
-      );
-    }
-    const from = o.time?.from ? monthIndex(label, o.time.from) : -Infinity;
-    const to = o.time?.to ? monthIndex(label, o.time.to) : Infinity;
-    const used = months.length
-      ? months
-          .map((mo, i) => ({ ...mo, i }))
-          .filter((mo) => {
-            const k = mo.y * 12 + mo.m - 1;
-            return k >= from && k < to;
-          })
-      : [{ y: 0, m: 0, i: 0 }];
-    if (used.length === 0)
-      throw new InputError(
-        `${label}: no time step of ${chosen.name} falls in [${o.time?.from}, ${o.time?.to})`,
-      );
-
-    const n = width * height;
-    const physical = (stored: number) =>
-      fills.includes(stored) || !Number.isFinite(stored) ? NaN : stored * scale + offset;
-    const step = (i: number): Float64Array => {
-      const raw = (nd === 3 ? v.slice([[i, i + 1], [], []]) : v.value) as ArrayLike<number | bigint>;
-      const out = new Float64Array(n);
-      for (let k = 0; k < n; k++) out[k] = physical(Number(raw[k]));
-      return out;
-    };
-    const result = new Float32Array(n).fill(NaN);
-    const r = reduce ?? 'mean';
-    if (r === 'mean' || nd === 2) {
-      const sum = new Float64Array(n);
-      const cnt = new Uint32Array(n);
-      for (const u of used) {
-        const s = step(u.i);
-        for (let k = 0; k < n; k++) {
-          if (s[k] !== s[k]) continue;
-          sum[k] += s[k];
-          cnt[k]++;
-        }
-      }
-      for (let k = 0; k < n; k++) if (cnt[k]) result[k] = sum[k] / cnt[k];
-    } else {
-      // Group the used steps by calendar year; only years with all 12 months are used.
-      const years = new Map<number, { m: number; i: number }[]>();
-      for (const u of used) (years.get(u.y) ?? years.set(u.y, []).get(u.y)!).push(u);
-      const full = [...years.entries()].filter(
-        ([, ms]) => new Set(ms.map((q) => q.m)).size === 12 && ms.length === 12,
-      );
-      if (full.length === 0) {
-        throw new InputError(
-          `${label}: ${r} needs complete calendar years of monthly steps; none in the selection`,
-        );
-      }
-      const clim = Array.from({ length: 12 }, () => new Float64Array(n));
-      const climN = new Uint32Array(n);
-      const sx = new Float64Array(n);
-      const sy = new Float64Array(n);
-      const sxx = new Float64Array(n);
-      const sxy = new Float64Array(n);
-      for (const [year, ms] of full) {
-        const yearSum = new Float64Array(n);
-        const monthly = ms.sort((a, b) => a.m - b.m).map((q) => step(q.i));
-        const ok = new Uint8Array(n).fill(1);
-        for (const s of monthly) for (let k = 0; k < n; k++) if (s[k] !== s[k]) ok[k] = 0;
-        for (let mi = 0; mi < 12; mi++) {
-          const s = monthly[mi];
-          for (let k = 0; k < n; k++) {
-            if (!ok[k]) continue;
-            yearSum[k] += s[k];
-            clim[mi][k] += s[k];
-          }
-        }
-        for (let k = 0; k < n; k++) {
-          if (!ok[k]) continue;
-          const mean = yearSum[k] / 12;
-          climN[k]++;
-          sx[k] += year;
-          sy[k] += mean;
-          sxx[k] += year * year;
-          sxy[k] += year * mean;
-        }
-      }
-      for (let k = 0; k < n; k++) {
-        const c = climN[k];
-        if (!c) continue;
-        if (r === 'annualMean') result[k] = sy[k] / c;
-        else if (r === 'trend') {
-          const den = c * sxx[k] - sx[k] * sx[k];
-          result[k] = c >= 2 && den > 0 ? (c * sxy[k] - sx[k] * sy[k]) / den : NaN;
-        } else {
-          let a = 0;
-          let b = 0;
-          for (let mi = 0; mi < 12; mi++) {
-            const t = clim[mi][k] / c;
-            a += (2 / 12) * t * Math.cos((2 * Math.PI * (mi + 0.5)) / 12);
-            b += (2 / 12) * t * Math.sin((2 * Math.PI * (mi + 0.5)) / 12);
-          }
-          result[k] = Math.hypot(a, b) / MONTHLY_MEAN_ATTENUATION;
-        }
-      }
-    }
-    // CF rows run along y as stored; the geotransform takes the first row's edge.
-    const gt = [x.first - x.step / 2, x.step, 0, y.first - y.step / 2, 0, y.step];
-    const raw = join(outDir, `${name}.f32`);
-    const fd = openSync(raw, 'w');
-    try {
-      writeSync(fd, new Uint8Array(result.buffer));
-    } finally {
-      closeSync(fd);
-    }
-    const unit = units ? (r === 'trend' && nd === 3 && steps > 1 ? `${units}/yr` : units) : null;
-    const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
-    const vrtPath = join(outDir, `${name}.vrt`);
-    await writeFile(
-      vrtPath,
-      `<VRTDataset rasterXSize="${width}" rasterYSize="${height}">` +
-        `<SRS dataAxisToSRSAxisMapping="1,2">${esc(srs)}</SRS><GeoTransform>${gt.join(', ')}</GeoTransform>` +
-        `<VRTRasterBand dataType="Float32" band="1" subClass="VRTRawRasterBand">` +
-        `<SourceFilename relativeToVRT="0">${esc(gdalPath(raw))}</SourceFilename>` +
-        `<ImageOffset>0</ImageOffset><PixelOffset>4</PixelOffset><LineOffset>${4 * width}</LineOffset>` +
-        `<ByteOrder>LSB</ByteOrder><NoDataValue>nan</NoDataValue>` +
-        `<Description>${esc(chosen.name)}</Description>` +
-        `</VRTRasterBand></VRTDataset>`,
-    );
-    return {
-      vrtPath,
-      unit,
-      reading: {
-        format: 'NetCDF-4 (h5wasm)',
-        variable: chosen.name,
-        gridMapping: gmName ?? null,
-        crs: srs.length > 200 ? `${srs.slice(0, 200)}...` : srs,
-        scale,
-        offset,
-        fillValues: fills,
-        fileUnit: units,
-        ...(timeName
-          ? {
-              time: {
-                dimension: timeName,
-                reduce: r,
-                steps: used.length,
-                first: `${used[0].y}-${String(used[0].m).padStart(2, '0')}`,
-                last: `${used[used.length - 1].y}-${String(used[used.length - 1].m).padStart(2, '0')}`,
-              },
-            }
-          : {}),
-      },
-    };
+    const chosen = chooseVariable(label, all, o.variable);
+    const grid = readGrid(label, all, chosen, o.budget);
+    const packing = readPacking(chosen.ds);
+    const sel = selectTimeSteps(label, all, chosen, grid, o.time);
+    const step = stepReader(chosen.ds, grid, packing);
+    const result = reduceSteps(label, sel.r, grid.nd, grid.width * grid.height, sel.used, step);
+    const vrtPath = await writeFieldVrt(outDir, name, result, grid, chosen.name);
+    const { units } = packing;
+    const unit = units
+      ? sel.r === 'trend' && grid.nd === 3 && grid.steps > 1
+        ? `${units}/yr`
+        : units
+      : null;
+    return { vrtPath, unit, reading: readingOf(chosen.name, grid, packing, sel) };
   } finally {
     f.close();
   }
+}
+
+/** The file opened with h5wasm, or an InputError saying it is not a NetCDF-4 file h5wasm can read. */
+async function openNetcdf(path: string, label: string): Promise<H5File> {
+  await h5wasm.ready;
+  try {
+    return new h5wasm.File(path, 'r');
+  } catch (err) {
+    throw new InputError(`${label}: not a NetCDF-4 file h5wasm can read (${(err as Error).message})`);
+  }
+}
+
+/** The data variable named by `variable`, or the only one in the file. */
+function chooseVariable(label: string, all: NamedDataset[], variable: string | undefined): NamedDataset {
+  const isCoord = (d: H5Dataset) => d.get_scale_name() !== null;
+  const isMapping = (d: H5Dataset) => attr(d, 'grid_mapping_name') !== undefined || d.shape?.length === 0;
+  const dataVars = all.filter(({ ds }) => !isCoord(ds) && !isMapping(ds) && (ds.shape?.length ?? 0) >= 2);
+  const chosen = variable ? all.find((d) => d.name === variable) : undefined;
+  if (variable && !chosen) {
+    throw new InputError(
+      `${label}: no variable "${variable}" (data variables: ${dataVars.map((d) => d.name).join(', ') || 'none'})`,
+    );
+  }
+  if (chosen) return chosen;
+  if (dataVars.length !== 1) {
+    throw new InputError(
+      `${label}: ${dataVars.length} data variables (${dataVars.map((d) => d.name).join(', ')}); name one with "variable"`,
+    );
+  }
+  return dataVars[0];
+}
+
+/** The coordinate variable attached to dimension `i` of the chosen variable. */
+function coordinateVariable(
+  label: string,
+  all: NamedDataset[],
+  chosen: NamedDataset,
+  i: number,
+): NamedDataset {
+  const scales = chosen.ds.get_attached_scales(i) as string[] | undefined;
+  const n = scales && scales.length ? scales[0].replace(/^\//, '') : undefined;
+  const d = n ? all.find((x) => x.name === n) : undefined;
+  if (!d) throw new InputError(`${label}: dimension ${i} of ${chosen.name} has no coordinate variable`);
+  return d;
+}
+
+/** The chosen variable's shape, regular axes and CRS, checked against the input budget. */
+function readGrid(label: string, all: NamedDataset[], chosen: NamedDataset, budget: BuildBudget): NetcdfGrid {
+  const v = chosen.ds;
+  const shape = (v.shape ?? []).map(Number);
+  if (shape.length < 2 || shape.length > 3) {
+    throw new InputError(
+      `${label}: variable ${chosen.name} has ${shape.length} dimensions, expected (time,) y, x`,
+    );
+  }
+  const nd = shape.length;
+  const xVar = coordinateVariable(label, all, chosen, nd - 1);
+  const yVar = coordinateVariable(label, all, chosen, nd - 2);
+  const height = shape[nd - 2];
+  const width = shape[nd - 1];
+  const steps = nd === 3 ? shape[0] : 1;
+  const bytes = steps * width * height * (v.metadata.size ?? 4);
+  if (bytes > budget.maxInputBytes) {
+    throw new InputError(
+      `${label}: variable ${chosen.name} declares ${steps} x ${height} x ${width} values (${bytes} bytes), over the ` +
+        'budget per input; raise --max-input-mb if the file is genuine',
+    );
+  }
+  const xUnits = str(attr(xVar.ds, 'units')) ?? '';
+  const yUnits = str(attr(yVar.ds, 'units')) ?? '';
+  const toM = (u: string) => (/^km$/i.test(u) ? 1000 : 1);
+  const x = regularAxis(
+    label,
+    xVar.name,
+    numbers(xVar.ds).map((c) => c * toM(xUnits)),
+  );
+  const y = regularAxis(
+    label,
+    yVar.name,
+    numbers(yVar.ds).map((c) => c * toM(yUnits)),
+  );
+  const gmName = str(attr(v, 'grid_mapping'));
+  const gm = gmName ? all.find((d) => d.name === gmName)?.ds : undefined;
+  if (gmName && !gm) throw new InputError(`${label}: grid_mapping variable "${gmName}" not found`);
+  const srs = crsOfGridMapping(label, gm, xUnits);
+  return { nd, width, height, steps, x, y, gmName, srs };
+}
+
+/** `scale_factor`, `add_offset`, `_FillValue` / `missing_value` and `units` of a variable. */
+function readPacking(v: H5Dataset): CfPacking {
+  const scale = num(attr(v, 'scale_factor')) ?? 1;
+  const offset = num(attr(v, 'add_offset')) ?? 0;
+  const fills = [num(attr(v, '_FillValue')), num(attr(v, 'missing_value'))].filter(
+    (q): q is number => q !== undefined,
+  );
+  const units = str(attr(v, 'units')) ?? null;
+  return { scale, offset, fills, units };
+}
+
+/** The time steps within [`from`, `to`) and the reduction (required when there are several steps). */
+function selectTimeSteps(
+  label: string,
+  all: NamedDataset[],
+  chosen: NamedDataset,
+  grid: NetcdfGrid,
+  time: NetcdfOptions['time'],
+): TimeSelection {
+  const { nd, steps } = grid;
+  let months: { y: number; m: number }[] = [];
+  let timeName: string | undefined;
+  if (nd === 3) {
+    const t = coordinateVariable(label, all, chosen, 0);
+    timeName = t.name;
+    months = monthsOf(
+      label,
+      numbers(t.ds),
+      str(attr(t.ds, 'units')) ?? '',
+      (str(attr(t.ds, 'calendar')) ?? 'standard').toLowerCase(),
+    );
+  }
+  const reduce: TimeReduce | undefined = time?.reduce;
+  if (nd === 3 && steps > 1 && !reduce) {
+    throw new InputError(
+      `${label}: variable ${chosen.name} has a time axis of ${steps} steps; set "time": { "reduce": ... } in the inputs config`,
+    );
+  }
+  const from = time?.from ? monthIndex(label, time.from) : -Infinity;
+  const to = time?.to ? monthIndex(label, time.to) : Infinity;
+  const used = months.length
+    ? months
+        .map((mo, i) => ({ ...mo, i }))
+        .filter((mo) => {
+          const k = mo.y * 12 + mo.m - 1;
+          return k >= from && k < to;
+        })
+    : [{ y: 0, m: 0, i: 0 }];
+  if (used.length === 0)
+    throw new InputError(`${label}: no time step of ${chosen.name} falls in [${time?.from}, ${time?.to})`);
+  return { timeName, used, r: reduce ?? 'mean' };
+}
+
+/** Reads one time step (the whole field of a 2-D variable) in physical units, NaN for fill values. */
+function stepReader(v: H5Dataset, grid: NetcdfGrid, packing: CfPacking): StepReader {
+  const { nd } = grid;
+  const { fills, scale, offset } = packing;
+  const n = grid.width * grid.height;
+  const physical = (stored: number) =>
+    fills.includes(stored) || !Number.isFinite(stored) ? NaN : stored * scale + offset;
+  return (i: number): Float64Array => {
+    const raw = (nd === 3 ? v.slice([[i, i + 1], [], []]) : v.value) as ArrayLike<number | bigint>;
+    const out = new Float64Array(n);
+    for (let k = 0; k < n; k++) out[k] = physical(Number(raw[k]));
+    return out;
+  };
+}
+
+/** Write the field as `<name>.f32` plus a VRT carrying its CRS and geotransform; returns the VRT path. */
+async function writeFieldVrt(
+  outDir: string,
+  name: string,
+  result: Float32Array,
+  grid: NetcdfGrid,
+  description: string,
+): Promise<string> {
+  const { x, y, width, height, srs } = grid;
+  // CF rows run along y as stored; the geotransform takes the first row's edge.
+  const gt = [x.first - x.step / 2, x.step, 0, y.first - y.step / 2, 0, y.step];
+  const raw = join(outDir, `${name}.f32`);
+  const fd = openSync(raw, 'w');
+  try {
+    writeSync(fd, new Uint8Array(result.buffer));
+  } finally {
+    closeSync(fd);
+  }
+  const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+  const vrtPath = join(outDir, `${name}.vrt`);
+  await writeFile(
+    vrtPath,
+    `<VRTDataset rasterXSize="${width}" rasterYSize="${height}">` +
+      `<SRS dataAxisToSRSAxisMapping="1,2">${esc(srs)}</SRS><GeoTransform>${gt.join(', ')}</GeoTransform>` +
+      `<VRTRasterBand dataType="Float32" band="1" subClass="VRTRawRasterBand">` +
+      `<SourceFilename relativeToVRT="0">${esc(gdalPath(raw))}</SourceFilename>` +
+      `<ImageOffset>0</ImageOffset><PixelOffset>4</PixelOffset><LineOffset>${4 * width}</LineOffset>` +
+      `<ByteOrder>LSB</ByteOrder><NoDataValue>nan</NoDataValue>` +
+      `<Description>${esc(description)}</Description>` +
+      `</VRTRasterBand></VRTDataset>`,
+  );
+  return vrtPath;
+}
+
+/** What was read, for the manifest. */
+function readingOf(
+  variable: string,
+  grid: NetcdfGrid,
+  packing: CfPacking,
+  sel: TimeSelection,
+): Record<string, unknown> {
+  const { srs } = grid;
+  const { used } = sel;
+  return {
+    format: 'NetCDF-4 (h5wasm)',
+    variable,
+    gridMapping: grid.gmName ?? null,
+    crs: srs.length > 200 ? `${srs.slice(0, 200)}...` : srs,
+    scale: packing.scale,
+    offset: packing.offset,
+    fillValues: packing.fills,
+    fileUnit: packing.units,
+    ...(sel.timeName
+      ? {
+          time: {
+            dimension: sel.timeName,
+            reduce: sel.r,
+            steps: used.length,
+            first: `${used[0].y}-${String(used[0].m).padStart(2, '0')}`,
+            last: `${used[used.length - 1].y}-${String(used[used.length - 1].m).padStart(2, '0')}`,
+          },
+        }
+      : {}),
+  };
 }

@@ -17,8 +17,9 @@ import {
   exportUnits,
   EXPORT_CAUTIONS,
   type ExportColumn,
+  type ExportValue,
 } from '../../layers/screening/export-schema';
-import { createTransform } from '../crs/crs-definitions';
+import { createTransform, type PointTransform } from '../crs/crs-definitions';
 import { ValidationError } from '../../layers/validation-error';
 import { InputError } from '../input-error';
 import { parseJsonText } from '../read/read-json-file';
@@ -86,14 +87,8 @@ export interface ShortlistRun {
   members(): Record<string, unknown>;
 }
 
-/** Open a build and prepare the filter; the features come from the run's generator. */
-export async function openShortlist(options: ShortlistOptions): Promise<ShortlistRun> {
-  const { tilesDir } = options;
-  const limit = options.limit ?? Infinity;
-  const manifest = await readManifest(tilesDir);
-  const where: CompiledWhere = options.where
-    ? compileWhere(options.where, manifest.bands)
-    : { bandsUsed: [], test: () => true };
+/** Every band's GeoTIFF of the build, read whole, in the manifest's band order. */
+async function readBandPlanes(tilesDir: string, manifest: Manifest): Promise<Float32Array[]> {
   const files = manifest.parameters.geotiffs as Record<string, string> | undefined;
   if (!files) {
     throw new InputError(
@@ -114,149 +109,216 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
     }
     planes.push(src.grid.values);
   }
-  const bandIndex = new Map(manifest.bands.map((b, i) => [b.id, i]));
-  /** The export schema's record of a cell (shared with the web: export-schema.ts). */
-  const recordOf = (cell: number, lon: number, lat: number) =>
-    exportRecord(manifest, lon, lat, (id) => {
-      const b = bandIndex.get(id);
-      return b === undefined ? undefined : planes[b][cell];
-    });
-  const toLonLat = createTransform(grid.crs, 'EPSG:4326');
-  const fromLonLat = createTransform('EPSG:4326', grid.crs);
-  const gt = grid.geoTransform;
-  const round = (p: [number, number]): [number, number] => [+p[0].toFixed(6), +p[1].toFixed(6)];
-  let matched = 0;
-  let returned = 0;
+  return planes;
+}
 
-  const near = options.near === undefined ? null : await findSettlement(tilesDir, manifest, options.near);
-  const within_km = options.within_km ?? Infinity;
-  const values = new Float64Array(manifest.bands.length);
-  const testCell = (cell: number): boolean => {
-    for (const b of where.bandsUsed) values[b] = planes[b][cell];
-    return where.test(values);
-  };
+/** The cell's position in the analysis grid, the first columns of every feature. */
+const CELL_COLUMNS: ExportColumn[] = [
+  { name: 'cellCol', type: 'integer', unit: 'column of the analysis grid' },
+  { name: 'cellRow', type: 'integer', unit: 'row of the analysis grid' },
+];
+
+/**
+ * The build's settlements (points) and their own property columns (name, population, ...: numbers or
+ * text) not `taken` by the record's columns.
+ */
+async function readSettlements(
+  tilesDir: string,
+  manifest: Manifest,
+  taken: Set<string>,
+): Promise<{ settlements: Feature<Point>[]; columns: ExportColumn[] }> {
+  if (!manifest.settlements)
+    throw new InputError(`${join(tilesDir, 'manifest.json')}: build lists no settlements`);
+  const file = join(tilesDir, manifest.settlements);
+  const collection = JSON.parse(await readFile(file, 'utf8')) as FeatureCollection<Point>;
+  const settlements = collection.features.filter((s) => s.geometry?.type === 'Point');
+  const numeric = new Map<string, boolean>();
+  for (const s of settlements) {
+    for (const [k, v] of Object.entries(s.properties ?? {})) {
+      if (taken.has(k)) continue;
+      numeric.set(k, (numeric.get(k) ?? true) && (v === null || typeof v === 'number'));
+    }
+  }
+  const columns: ExportColumn[] = [];
+  for (const [name, isNumber] of numeric) columns.push({ name, type: isNumber ? 'real' : 'text', unit: '' });
+  return { settlements, columns };
+}
+
+/** What the feature generators share: the grid, the filter, the record and the running counts. */
+interface ShortlistScan {
+  grid: Manifest['analysisGrid'];
+  planes: Float32Array[];
+  limit: number;
+  /** Places that matched, and features yielded (at most `limit`). */
+  counts: { matched: number; returned: number };
+  /** The --where expression holds for the cell. */
+  testCell(cell: number): boolean;
   /** Within the radius of --near (the cell centre's or the point's great-circle distance). */
-  const inRadius = (lon: number, lat: number): boolean =>
-    near === null || haversine_km([lon, lat], near.lonLat) <= within_km;
+  inRadius(lon: number, lat: number): boolean;
+  /** True when there is a --near settlement (cell centres then need their lon/lat). */
+  hasNear: boolean;
+  /** The export schema's record of a cell (shared with the web: export-schema.ts). */
+  recordOf(cell: number, lon: number, lat: number): Record<string, ExportValue>;
+  toLonLat: PointTransform;
+  fromLonLat: PointTransform;
+}
 
-  const cellColumns: ExportColumn[] = [
-    { name: 'cellCol', type: 'integer', unit: 'column of the analysis grid' },
-    { name: 'cellRow', type: 'integer', unit: 'row of the analysis grid' },
-  ];
-  const recordColumns = exportColumns(manifest);
-  let settlements: Feature<Point>[] = [];
-  const settlementColumns: ExportColumn[] = [];
-  if (options.settlements) {
-    if (!manifest.settlements)
-      throw new InputError(`${join(tilesDir, 'manifest.json')}: build lists no settlements`);
-    const file = join(tilesDir, manifest.settlements);
-    const collection = JSON.parse(await readFile(file, 'utf8')) as FeatureCollection<Point>;
-    settlements = collection.features.filter((s) => s.geometry?.type === 'Point');
-    // The settlement's own properties come first (name, population, ...): numbers or text.
-    const taken = new Set([...cellColumns, ...recordColumns].map((c) => c.name));
-    const numeric = new Map<string, boolean>();
-    for (const s of settlements) {
-      for (const [k, v] of Object.entries(s.properties ?? {})) {
-        if (taken.has(k)) continue;
-        numeric.set(k, (numeric.get(k) ?? true) && (v === null || typeof v === 'number'));
-      }
-    }
-    for (const [name, isNumber] of numeric) {
-      settlementColumns.push({ name, type: isNumber ? 'real' : 'text', unit: '' });
-    }
-  }
+const round = (p: [number, number]): [number, number] => [+p[0].toFixed(6), +p[1].toFixed(6)];
 
-  function* cellFeatures(): Generator<Feature> {
-    for (let row = 0; row < grid.height; row++) {
-      for (let col = 0; col < grid.width; col++) {
-        const cell = row * grid.width + col;
-        if (
-          planes[0][cell] !== planes[0][cell] &&
-          planes[planes.length - 1][cell] !== planes[planes.length - 1][cell]
-        ) {
-          continue; // outside the screened area
-        }
-        if (near !== null) {
-          const [lon, lat] = toLonLat(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
-          if (!inRadius(lon, lat)) continue;
-        }
-        if (!testCell(cell)) continue;
-        matched++;
-        if (returned >= limit) continue;
-        const x0 = gt[0] + col * gt[1];
-        const y0 = gt[3] + (row + 1) * gt[5];
-        const x1 = x0 + gt[1];
-        const y1 = gt[3] + row * gt[5];
-        const ring = [toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)].map(round);
-        ring.push(ring[0]);
-        const centre = toLonLat(x0 + gt[1] / 2, (y0 + y1) / 2);
-        const geometry: Polygon = { type: 'Polygon', coordinates: [ring] };
-        returned++;
-        yield {
-          type: 'Feature',
-          geometry,
-          properties: { cellCol: col, cellRow: row, ...recordOf(cell, centre[0], centre[1]) },
-        };
-      }
-    }
-  }
-
-  function* settlementFeatures(): Generator<Feature> {
-    for (const s of settlements) {
-      const [lon, lat] = s.geometry.coordinates;
-      const [x, y] = fromLonLat(lon, lat);
-      const col = Math.floor((x - gt[0]) / gt[1]);
-      const row = Math.floor((y - gt[3]) / gt[5]);
-      if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
+/** The matching cells, row by row, as polygons of their four corners (outside the screened area skipped). */
+function* cellFeatures(scan: ShortlistScan): Generator<Feature> {
+  const { grid, planes, counts, toLonLat } = scan;
+  const gt = grid.geoTransform;
+  for (let row = 0; row < grid.height; row++) {
+    for (let col = 0; col < grid.width; col++) {
       const cell = row * grid.width + col;
-      if (!inRadius(lon, lat) || !testCell(cell)) continue;
-      matched++;
-      if (returned >= limit) continue;
-      const own: Record<string, unknown> = {};
-      for (const c of settlementColumns) own[c.name] = s.properties?.[c.name] ?? null;
-      returned++;
+      if (
+        planes[0][cell] !== planes[0][cell] &&
+        planes[planes.length - 1][cell] !== planes[planes.length - 1][cell]
+      ) {
+        continue; // outside the screened area
+      }
+      if (scan.hasNear) {
+        const [lon, lat] = toLonLat(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
+        if (!scan.inRadius(lon, lat)) continue;
+      }
+      if (!scan.testCell(cell)) continue;
+      counts.matched++;
+      if (counts.returned >= scan.limit) continue;
+      const x0 = gt[0] + col * gt[1];
+      const y0 = gt[3] + (row + 1) * gt[5];
+      const x1 = x0 + gt[1];
+      const y1 = gt[3] + row * gt[5];
+      const ring = [toLonLat(x0, y0), toLonLat(x1, y0), toLonLat(x1, y1), toLonLat(x0, y1)].map(round);
+      ring.push(ring[0]);
+      const centre = toLonLat(x0 + gt[1] / 2, (y0 + y1) / 2);
+      const geometry: Polygon = { type: 'Polygon', coordinates: [ring] };
+      counts.returned++;
       yield {
         type: 'Feature',
-        geometry: { type: 'Point', coordinates: round([lon, lat]) },
-        properties: { ...own, cellCol: col, cellRow: row, ...recordOf(cell, lon, lat) },
+        geometry,
+        properties: { cellCol: col, cellRow: row, ...scan.recordOf(cell, centre[0], centre[1]) },
       };
     }
   }
+}
 
+/** The settlements inside the grid whose cell matches, as points with their own columns first. */
+function* settlementFeatures(
+  scan: ShortlistScan,
+  settlements: Feature<Point>[],
+  settlementColumns: ExportColumn[],
+): Generator<Feature> {
+  const { grid, counts } = scan;
+  const gt = grid.geoTransform;
+  for (const s of settlements) {
+    const [lon, lat] = s.geometry.coordinates;
+    const [x, y] = scan.fromLonLat(lon, lat);
+    const col = Math.floor((x - gt[0]) / gt[1]);
+    const row = Math.floor((y - gt[3]) / gt[5]);
+    if (col < 0 || row < 0 || col >= grid.width || row >= grid.height) continue;
+    const cell = row * grid.width + col;
+    if (!scan.inRadius(lon, lat) || !scan.testCell(cell)) continue;
+    counts.matched++;
+    if (counts.returned >= scan.limit) continue;
+    const own: Record<string, unknown> = {};
+    for (const c of settlementColumns) own[c.name] = s.properties?.[c.name] ?? null;
+    counts.returned++;
+    yield {
+      type: 'Feature',
+      geometry: { type: 'Point', coordinates: round([lon, lat]) },
+      properties: { ...own, cellCol: col, cellRow: row, ...scan.recordOf(cell, lon, lat) },
+    };
+  }
+}
+
+/**
+ * The collection's foreign members (RFC 7946 section 6.1): what was asked, of which build, with which
+ * cautions, and the counts so far.
+ */
+function shortlistMembers(
+  manifest: Manifest,
+  options: ShortlistOptions,
+  near: { name: string; lonLat: [number, number] } | null,
+  within_km: number,
+  scan: ShortlistScan,
+): Record<string, unknown> {
+  const { matched, returned } = scan.counts;
   const scenario = manifest.scenario as { name?: string } | undefined;
-  const columns = [...settlementColumns, ...cellColumns, ...recordColumns];
+  return {
+    notice: manifest.notice,
+    cautions: EXPORT_CAUTIONS,
+    fictional: manifest.fictional,
+    where: options.where ?? null,
+    near: near ? { settlement: near.name, lon: near.lonLat[0], lat: near.lonLat[1], within_km } : null,
+    subject: options.settlements ? 'settlements' : 'cells',
+    matched,
+    returned,
+    truncated: matched > returned,
+    limit: Number.isFinite(scan.limit) ? scan.limit : null,
+    cellSize_m: manifest.analysisGrid.cellSize_m,
+    region: manifest.region.name,
+    scenario: scenario?.name ?? null,
+    model: manifest.parameters.model ?? null,
+    build: { tool: manifest.tool, createdAt: manifest.createdAt },
+    // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
+    units: { ...Object.fromEntries(CELL_COLUMNS.map((c) => [c.name, c.unit])), ...exportUnits(manifest) },
+    sources: manifest.sources.map((s) => ({
+      file: s.file,
+      role: s.role,
+      sha256: s.sha256,
+      provenance: s.provenance,
+      licence: s.licence,
+    })),
+  };
+}
+
+/** Open a build and prepare the filter; the features come from the run's generator. */
+export async function openShortlist(options: ShortlistOptions): Promise<ShortlistRun> {
+  const { tilesDir } = options;
+  const manifest = await readManifest(tilesDir);
+  const where: CompiledWhere = options.where
+    ? compileWhere(options.where, manifest.bands)
+    : { bandsUsed: [], test: () => true };
+  const planes = await readBandPlanes(tilesDir, manifest);
+  const bandIndex = new Map(manifest.bands.map((b, i) => [b.id, i]));
+  const toLonLat = createTransform(manifest.analysisGrid.crs, 'EPSG:4326');
+  const fromLonLat = createTransform('EPSG:4326', manifest.analysisGrid.crs);
+  const near = options.near === undefined ? null : await findSettlement(tilesDir, manifest, options.near);
+  const within_km = options.within_km ?? Infinity;
+  const values = new Float64Array(manifest.bands.length);
+  const scan: ShortlistScan = {
+    grid: manifest.analysisGrid,
+    planes,
+    limit: options.limit ?? Infinity,
+    counts: { matched: 0, returned: 0 },
+    testCell: (cell) => {
+      for (const b of where.bandsUsed) values[b] = planes[b][cell];
+      return where.test(values);
+    },
+    inRadius: (lon, lat) => near === null || haversine_km([lon, lat], near.lonLat) <= within_km,
+    hasNear: near !== null,
+    recordOf: (cell, lon, lat) =>
+      exportRecord(manifest, lon, lat, (id) => {
+        const b = bandIndex.get(id);
+        return b === undefined ? undefined : planes[b][cell];
+      }),
+    toLonLat,
+    fromLonLat,
+  };
+  const recordColumns = exportColumns(manifest);
+  const taken = new Set([...CELL_COLUMNS, ...recordColumns].map((c) => c.name));
+  const { settlements, columns: settlementColumns } = options.settlements
+    ? await readSettlements(tilesDir, manifest, taken)
+    : { settlements: [], columns: [] };
   return {
     manifest,
     geometryType: options.settlements ? 'Point' : 'Polygon',
-    columns,
-    features: options.settlements ? settlementFeatures : cellFeatures,
-    // Foreign members (RFC 7946 section 6.1): what was asked, of which build, with which cautions.
-    members: () => ({
-      notice: manifest.notice,
-      cautions: EXPORT_CAUTIONS,
-      fictional: manifest.fictional,
-      where: options.where ?? null,
-      near: near ? { settlement: near.name, lon: near.lonLat[0], lat: near.lonLat[1], within_km } : null,
-      subject: options.settlements ? 'settlements' : 'cells',
-      matched,
-      returned,
-      truncated: matched > returned,
-      limit: Number.isFinite(limit) ? limit : null,
-      cellSize_m: grid.cellSize_m,
-      region: manifest.region.name,
-      scenario: scenario?.name ?? null,
-      model: manifest.parameters.model ?? null,
-      build: { tool: manifest.tool, createdAt: manifest.createdAt },
-      // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
-      units: { ...Object.fromEntries(cellColumns.map((c) => [c.name, c.unit])), ...exportUnits(manifest) },
-      sources: manifest.sources.map((s) => ({
-        file: s.file,
-        role: s.role,
-        sha256: s.sha256,
-        provenance: s.provenance,
-        licence: s.licence,
-      })),
-    }),
+    columns: [...settlementColumns, ...CELL_COLUMNS, ...recordColumns],
+    features: options.settlements
+      ? () => settlementFeatures(scan, settlements, settlementColumns)
+      : () => cellFeatures(scan),
+    members: () => shortlistMembers(manifest, options, near, within_km, scan),
   };
 }
 

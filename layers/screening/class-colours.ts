@@ -21,18 +21,31 @@ export const OKABE_ITO: Rgb[] = [
 
 /** Neutral grey for a "none / excluded" class, so that it reads as absence rather than a category. */
 export const NONE_CLASS_RGB: Rgb = [120, 120, 120];
-const NONE_LABEL = /^(excluded|none|no|not? .*|unsuitable)\b/i;
+/**
+ * Clear green for the "not excluded" class of the exclusion band: the places that pass, never the grey
+ * that the suitability layer uses for "excluded" (the two layers mean opposite things by it).
+ */
+export const CLEAR_CLASS_RGB: Rgb = [120, 200, 120];
+const NONE_LABEL = /^(excluded|none|no|not (?!excluded\b).*|unsuitable)\b/i;
+const CLEAR_LABEL = /^not excluded\b/i;
 
 /**
  * Colour of each class of a class band, in the band's class order. A class with value 0 whose label
- * says none/excluded/no is drawn neutral grey; the others take the band's ramp (ordinal classes) or
- * the Okabe-Ito palette (nominal classes).
+ * says none/excluded/no is drawn neutral grey, one that says "not excluded" clear green; the others
+ * take the band's ramp (ordinal classes) or the Okabe-Ito palette (nominal classes).
  */
 export function classColours(band: Pick<Band, 'classes' | 'ramp'>): Map<number, Rgb> {
   const classes = band.classes ?? [];
   const m = new Map<number, Rgb>();
-  const rest = classes.filter((c) => !(c.value === 0 && NONE_LABEL.test(c.label)));
-  if (rest.length < classes.length) m.set(0, NONE_CLASS_RGB);
+  const zero = classes.find((c) => c.value === 0);
+  const special =
+    zero && NONE_LABEL.test(zero.label)
+      ? NONE_CLASS_RGB
+      : zero && CLEAR_LABEL.test(zero.label)
+        ? CLEAR_CLASS_RGB
+        : null;
+  const rest = special ? classes.filter((c) => c.value !== 0) : classes;
+  if (special) m.set(0, special);
   rest.forEach((c, i) => {
     const colour = band.ramp
       ? rampColour(band.ramp, i, 0, Math.max(1, rest.length - 1))

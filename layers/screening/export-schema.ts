@@ -105,6 +105,11 @@ const CALENDAR_YEAR_BANDS: ReadonlySet<string> = new Set([
   BAND.iceRichThawYear,
 ]);
 
+/** Whether a band's values are calendar years (read "2094", never "2094 yr"). */
+export function isCalendarYearBand(band: Pick<Band, 'id'>): boolean {
+  return CALENDAR_YEAR_BANDS.has(band.id);
+}
+
 /** A currency code with or without '/yr' (the scenario's currency, substituted for ¤ in the build). */
 const CURRENCY = /^(?:[A-Z]{3}|¤)(?:\/yr)?$/;
 

@@ -48,9 +48,16 @@ export interface SiteEnsemblePlan {
   design: Float64Array;
 }
 
+/** Longest time step of an ensemble member, d (the site's own step if it is longer). */
+export const ENSEMBLE_MEMBER_STEP_DAYS = 7;
+
 /**
  * The members' inputs: `count` perturbations of `input` (validated SiteInput) from `seed`. The members
- * run at `fidelity` (coarse by default: the study's ensemble is a ranking, not a design).
+ * run at `fidelity` (coarse by default: the study's ensemble is a ranking, not a design) and with steps
+ * of at least ENSEMBLE_MEMBER_STEP_DAYS: the refinement study (docs/site-convergence.md) puts the 7-day
+ * step's thaw year 0.6–0.9 yr late against the converged one, a bias every member shares, so the
+ * spread the ensemble reports moves far less than the centre; the deterministic run keeps the
+ * site's own step.
  */
 export function planSiteEnsemble(
   input: SiteInput,
@@ -109,6 +116,10 @@ export function planSiteEnsemble(
             : l,
         ),
       },
+      timeStep_days: Math.min(
+        input.outputStep_days,
+        Math.max(input.timeStep_days, ENSEMBLE_MEMBER_STEP_DAYS),
+      ),
       numerics: { ...input.numerics, fidelity },
     } as SiteInput);
   }

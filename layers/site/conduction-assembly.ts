@@ -6,7 +6,40 @@
  * (surface temperature, geothermal flux); per pass of the enthalpy Newton iteration the tangent capacities, the diagonal and the right-hand side.
  */
 import type { ConductionSystem } from './conduction-system';
-import { conductivityAt } from './ground-enthalpy';
+import { conductivityAt, liquidFractionAt, type MaterialTable } from './ground-enthalpy';
+
+/**
+ * Vertical resistances of the two halves of a cell of height h the front is in (liquid fraction f),
+ * m²·K/W, into rUp[c] and rLow[c]. In the enthalpy method the front sits f·h below the cell's top face
+ * when the ground thaws from above (the cell above warmer than the one below), or f·h above its bottom
+ * face when it thaws from below; the thawed (k_t) and frozen (k_f) layers conduct vertically in series.
+ * Taking the cell's conductivity as the linear mixture f·k_t + (1 − f)·k_f instead (right for heat
+ * flowing along the layers, so the radial conductances keep it) misplaces the conductivity jump by up
+ * to half a cell: measured on a thin-active-layer column, a first-order error in the mesh of 1.1 yr of
+ * thaw year at 5 cm cells, which vanished when k_t = k_f (bench/site-convergence.ts).
+ */
+function layeredHalfCells(
+  materials: MaterialTable,
+  m: number,
+  f: number,
+  h: number,
+  thawedOnTop: boolean,
+  out: Float64Array,
+  outLow: Float64Array,
+  c: number,
+): void {
+  const rt = 1 / materials.kT[m];
+  const rf = 1 / materials.kF[m];
+  const half = 0.5 * h;
+  // Thickness of the top layer (thawed when thawing from above, frozen when from below).
+  const top = (thawedOnTop ? f : 1 - f) * h;
+  const rTop = thawedOnTop ? rt : rf;
+  const rBottom = thawedOnTop ? rf : rt;
+  const a = Math.min(top, half);
+  const b = Math.max(0, top - half);
+  out[c] = a * rTop + (half - a) * rBottom;
+  outLow[c] = b * rTop + (half - b) * rBottom;
+}
 
 /**
  * Per step: conductivities at the old temperature; conductances are recomputed only next to a change
@@ -14,15 +47,45 @@ import { conductivityAt } from './ground-enthalpy';
  * wall's half-cell conductance and `assembleConductances`.
  */
 export function updateConductances(st: ConductionSystem, Tsurf: number): void {
-  const { materials, mat, nr, nz, np, T, k, rk, kRowChanged, Gr, Gz, Gs, dz, Az, gOut, gIn, halfCell } = st;
+  const {
+    materials,
+    mat,
+    nr,
+    nz,
+    np,
+    T,
+    k,
+    rk,
+    rUp,
+    rLow,
+    kRowChanged,
+    Gr,
+    Gz,
+    Gs,
+    dz,
+    Az,
+    gOut,
+    gIn,
+    halfCell,
+  } = st;
   for (let j = 0; j < nz; j++) {
     const mj = mat[j];
     let changed = 0;
     for (let c = j * nr; c < (j + 1) * nr; c++) {
       const kNew = conductivityAt(materials, mj, T[c]);
-      if (kNew !== k[c]) {
+      const f = liquidFractionAt(materials, mj, T[c]);
+      if (f > 0 && f < 1) {
+        const above = j > 0 ? T[c - nr] : Tsurf;
+        const below = j < nz - 1 ? T[c + nr] : T[c];
+        layeredHalfCells(materials, mj, f, dz[j], above >= below, rUp, rLow, c);
         k[c] = kNew;
         rk[c] = 1 / kNew;
+        changed = 1;
+      } else if (kNew !== k[c] || !(rUp[c] > 0)) {
+        k[c] = kNew;
+        rk[c] = 1 / kNew;
+        rUp[c] = 0.5 * dz[j] * rk[c];
+        rLow[c] = rUp[c];
         changed = 1;
       }
     }
@@ -36,15 +99,13 @@ export function updateConductances(st: ConductionSystem, Tsurf: number): void {
       }
     }
     if (j < nz - 1 && (kRowChanged[j] || kRowChanged[j + 1])) {
-      const h0 = 0.5 * dz[j];
-      const h1 = 0.5 * dz[j + 1];
       for (let i = 0; i < nr; i++) {
         const c = j * nr + i;
-        Gz[c] = Az[i] / (h0 * rk[c] + h1 * rk[c + nr]);
+        Gz[c] = Az[i] / (rLow[c] + rUp[c + nr]);
       }
     }
   }
-  for (let i = 0; i < nr; i++) Gs[i] = Az[i] / (0.5 * dz[0] * rk[i]);
+  for (let i = 0; i < nr; i++) Gs[i] = Az[i] / rUp[i];
   for (let j = 0; j < np; j++) halfCell[j] = k[j * nr] / gIn[0];
   assembleConductances(st, Tsurf);
 }

@@ -41,7 +41,7 @@
  */
 import { createConductionCoupling, iterateCoupled, solveCoupled, updateInner } from './conduction-coupling';
 import { assemble, updateConductances } from './conduction-assembly';
-import { copyField, createConductionSystem } from './conduction-system';
+import { copyField, createConductionSystem, type ConductionSystem } from './conduction-system';
 import type { SiteMesh } from './site-mesh';
 import { enthalpyAt, temperatureAt } from './ground-enthalpy';
 import type { ConductionSetup } from './conduction-system';
@@ -102,22 +102,170 @@ const DAMP_AFTER = 8;
 /** Halvings of one step before the run stops with an error (a step of Δt / 2^10). */
 const MAX_STEP_HALVINGS = 10;
 
+/** The Newton iteration's work arrays: linearisation enthalpy and the updated enthalpy. */
+interface NewtonState {
+  Hk: Float64Array;
+  Hnew: Float64Array;
+}
+
+/**
+ * Starting state of the iteration: the last steps' trend carried forward (any consistent (T, H(T))
+ * pair is a valid start; this one usually lands in the right branch of every cell).
+ */
+function startingGuess(st: ConductionSystem, ns: NewtonState, ratio: number): void {
+  const { materials, mat, nr, nz, T, Told, Tprev, Tguess } = st;
+  for (let j = 0; j < nz; j++) {
+    const mj = mat[j];
+    for (let c = j * nr; c < (j + 1) * nr; c++) {
+      const g = Told[c] + ratio * (Told[c] - Tprev[c]);
+      Tguess[c] = g;
+      T[c] = g;
+      ns.Hk[c] = enthalpyAt(materials, mj, g);
+    }
+  }
+}
+
+/** Hnew = H^k + C (T* − T^k) for every cell; returns max |T(Hnew) − T*| (K), NaN if not finite. */
+function newtonUpdate(st: ConductionSystem, ns: NewtonState): number {
+  const { materials, mat, nr, nz, T, Tguess, capC } = st;
+  const { Hk, Hnew } = ns;
+  let worst = 0;
+  for (let j = 0; j < nz; j++) {
+    const mj = mat[j];
+    for (let c = j * nr; c < (j + 1) * nr; c++) {
+      const h = Hk[c] + capC[c] * (T[c] - Tguess[c]);
+      Hnew[c] = h;
+      const d = Math.abs(temperatureAt(materials, mj, h) - T[c]);
+      if (!(d <= worst)) worst = d; // NaN propagates
+    }
+  }
+  return worst;
+}
+
+/**
+ * Next linearisation state: the Newton step projected onto the enthalpy curve, relaxed by `omega`
+ * (1, or 0.5 after DAMP_AFTER passes, which breaks the rare two-cycle of a cell whose capacities differ
+ * by orders of magnitude across its interval; the fixed point is the same).
+ */
+function relaxLinearisation(st: ConductionSystem, ns: NewtonState, omega: number): void {
+  const { materials, mat, nr, nz, Tguess } = st;
+  const { Hk, Hnew } = ns;
+  for (let j = 0; j < nz; j++) {
+    const mj = mat[j];
+    for (let c = j * nr; c < (j + 1) * nr; c++) {
+      const h = Hk[c] + omega * (Hnew[c] - Hk[c]);
+      Hk[c] = h;
+      Tguess[c] = temperatureAt(materials, mj, h);
+    }
+  }
+}
+
+/**
+ * The enthalpy iteration of one step (assemble, solve with the pile coupling, Newton update) until the
+ * enthalpy and temperature agree; returns null when converged, else the reason.
+ */
+function iteratePhase(
+  st: ConductionSystem,
+  pc: ReturnType<typeof createConductionCoupling>,
+  ns: NewtonState,
+  dt_s: number,
+  Tsurf: number,
+  limits: { maxPasses: number; tolerance_K: number; work: { phasePasses: number } },
+): string | null {
+  let coupledOk = false;
+  let worst = 0;
+  for (let pass = 0; pass < limits.maxPasses; pass++) {
+    limits.work.phasePasses++;
+    assemble(st, dt_s, st.H, ns.Hk);
+    if (pass === 0) updateInner(st, pc);
+    coupledOk = solveCoupled(st, pc, true, pass === 0);
+    copyField(st);
+    worst = newtonUpdate(st, ns);
+    if (!Number.isFinite(worst)) return `temperatures not finite`;
+    if (worst < limits.tolerance_K) {
+      // Finish the pass: the coupling and the factor's staleness to the full tolerance.
+      coupledOk = iterateCoupled(st, pc, false);
+      copyField(st);
+      newtonUpdate(st, ns);
+      return coupledOk ? null : 'the pile-loop coupling did not converge';
+    }
+    relaxLinearisation(st, ns, pass >= DAMP_AFTER ? 0.5 : 1);
+    // Conductivities at the new state too (Picard on k inside the Newton iteration): lagging them
+    // at T^n was a first-order error that thawed the active layer 4 % too deep with 7-day steps.
+    // After PICARD_PASSES they are held, so that a cell whose k jumps across its interval cannot
+    // keep the iteration cycling (any fixed k conserves energy exactly).
+    if (pass + 1 < PICARD_PASSES) {
+      st.T.set(st.Tguess);
+      updateConductances(st, Tsurf);
+    }
+  }
+  return `the phase-change iteration did not converge in ${limits.maxPasses} passes (largest enthalpy/temperature mismatch ${worst.toExponential(2)} K)`;
+}
+
+/** Boundary heat flows at the solved temperatures T*, W (into the ground), added to the ledger over dt_s. */
+function recordBoundaryFlows(st: ConductionSystem, ledger: EnergyLedger, Tsurf: number, dt_s: number): void {
+  const { nr, np, T, Gs, Az, qBottom, gUsed, TbcUsed, qUsed } = st;
+  let qs = 0;
+  for (let i = 0; i < nr; i++) qs += Gs[i] * (Tsurf - T[i]);
+  let qb = 0;
+  for (let i = 0; i < nr; i++) qb += qBottom * Az[i];
+  let qp = 0;
+  for (let j = 0; j < np; j++) qp += gUsed[j] * (TbcUsed[j] - T[j * nr]) + qUsed[j];
+  ledger.surface_J += qs * dt_s;
+  ledger.bottom_J += qb * dt_s;
+  ledger.pile_J += qp * dt_s;
+  ledger.gross_J += (Math.abs(qs) + Math.abs(qb) + Math.abs(qp)) * dt_s;
+}
+
+/** Accepts the step: the enthalpy that balances the fluxes at T* exactly, and the temperature it implies. */
+function acceptEnthalpy(st: ConductionSystem, ns: NewtonState): void {
+  const { materials, mat, nr, nz, T, H } = st;
+  for (let j = 0; j < nz; j++) {
+    const mj = mat[j];
+    for (let c = j * nr; c < (j + 1) * nr; c++) {
+      H[c] = ns.Hnew[c];
+      T[c] = temperatureAt(materials, mj, ns.Hnew[c]);
+    }
+  }
+}
+
+/** What a step changes, saved before an attempt so that a failed attempt can be undone. */
+function createCheckpoint(st: ConductionSystem, ledger: EnergyLedger) {
+  const saveT = new Float64Array(st.n);
+  const saveH = new Float64Array(st.n);
+  const saveTprev = new Float64Array(st.n);
+  const mark = { time_s: 0, dtPrev: 0, surface: 0, bottom: 0, pile: 0, gross: 0 };
+  return {
+    save(time_s: number, dtPrev: number): void {
+      saveT.set(st.T);
+      saveH.set(st.H);
+      saveTprev.set(st.Tprev);
+      Object.assign(mark, { time_s, dtPrev });
+      Object.assign(mark, { surface: ledger.surface_J, bottom: ledger.bottom_J, pile: ledger.pile_J });
+      mark.gross = ledger.gross_J;
+    },
+    /** Restores the saved fields and ledger; returns the saved time and previous step. */
+    restore(): { time_s: number; dtPrev: number } {
+      st.T.set(saveT);
+      st.H.set(saveH);
+      st.Tprev.set(saveTprev);
+      ledger.surface_J = mark.surface;
+      ledger.bottom_J = mark.bottom;
+      ledger.pile_J = mark.pile;
+      ledger.gross_J = mark.gross;
+      return { time_s: mark.time_s, dtPrev: mark.dtPrev };
+    },
+  };
+}
+
 /** Creates a solver in its initial state (time 0). Allocates everything once; `step` allocates nothing. */
 export function createConductionSolver(s: ConductionSetup): ConductionSolver {
-  const maxPasses = s.phaseIterations ?? MAX_PHASE_PASSES;
-  const phaseTolerance_K = s.phaseTolerance_K ?? 1e-4;
   const st = createConductionSystem(s);
   const pc = createConductionCoupling(st, s.tolerance_K, s.maxSweeps);
-  const { mesh, materials, mat, nr, nz, n, np, inner, qBottom, Az, V, T, H, Tprev, Told, Tguess, capC, Gs } =
-    st;
-  const { gUsed, TbcUsed, qUsed } = st;
+  const { mesh, materials, mat, nr, n, inner, V, T, H, Tprev, Told } = st;
   const ledger: EnergyLedger = { surface_J: 0, bottom_J: 0, pile_J: 0, gross_J: 0 };
-  // Newton state: linearisation enthalpy, the updated enthalpy, and the state saved before a step.
-  const Hk = new Float64Array(n);
-  const Hnew = new Float64Array(n);
-  const saveT = new Float64Array(n);
-  const saveH = new Float64Array(n);
-  const saveTprev = new Float64Array(n);
+  const ns: NewtonState = { Hk: new Float64Array(n), Hnew: new Float64Array(n) };
+  const checkpoint = createCheckpoint(st, ledger);
   let dtPrev = 0;
 
   /**
@@ -131,81 +279,11 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     updateConductances(st, Tsurf);
     Told.set(T);
     if (inner) inner.beginStep(t1, dt_s);
-    // Starting state of the iteration: the last steps' trend carried forward (any consistent
-    // (T, H(T)) pair is a valid start; this one usually lands in the right branch of every cell).
-    const ratio = dtPrev > 0 ? dt_s / dtPrev : 0;
-    for (let j = 0; j < nz; j++) {
-      const mj = mat[j];
-      for (let c = j * nr; c < (j + 1) * nr; c++) {
-        const g = Told[c] + ratio * (Told[c] - Tprev[c]);
-        Tguess[c] = g;
-        T[c] = g;
-        Hk[c] = enthalpyAt(materials, mj, g);
-      }
-    }
-    let coupledOk = false;
-    let phaseOk = false;
-    let worst = 0;
-    for (let pass = 0; pass < maxPasses; pass++) {
-      solver.phasePasses++;
-      assemble(st, dt_s, H, Hk);
-      if (pass === 0) updateInner(st, pc);
-      coupledOk = solveCoupled(st, pc, true, pass === 0);
-      copyField(st);
-      worst = newtonUpdate();
-      if (!Number.isFinite(worst)) return `temperatures not finite`;
-      phaseOk = worst < phaseTolerance_K;
-      if (phaseOk) {
-        // Finish the pass: the coupling and the factor's staleness to the full tolerance.
-        coupledOk = iterateCoupled(st, pc, false);
-        copyField(st);
-        newtonUpdate();
-        break;
-      }
-      // Next linearisation state: the Newton step projected onto the enthalpy curve (relaxed by half
-      // after DAMP_AFTER passes, which breaks the rare two-cycle of a cell whose capacities differ by
-      // orders of magnitude across its interval; the fixed point is the same).
-      const omega = pass >= DAMP_AFTER ? 0.5 : 1;
-      for (let j = 0; j < nz; j++) {
-        const mj = mat[j];
-        for (let c = j * nr; c < (j + 1) * nr; c++) {
-          const h = Hk[c] + omega * (Hnew[c] - Hk[c]);
-          Hk[c] = h;
-          Tguess[c] = temperatureAt(materials, mj, h);
-        }
-      }
-      // Conductivities at the new state too (Picard on k inside the Newton iteration): lagging them
-      // at T^n was a first-order error that thawed the active layer 4 % too deep with 7-day steps.
-      // After PICARD_PASSES they are held, so that a cell whose k jumps across its interval cannot
-      // keep the iteration cycling (any fixed k conserves energy exactly).
-      if (pass + 1 < PICARD_PASSES) {
-        T.set(Tguess);
-        updateConductances(st, Tsurf);
-      }
-    }
-    if (!phaseOk) {
-      return `the phase-change iteration did not converge in ${maxPasses} passes (largest enthalpy/temperature mismatch ${worst.toExponential(2)} K)`;
-    }
-    if (!coupledOk) return 'the pile-loop coupling did not converge';
-    // Boundary heat flows at the solved temperatures T*, W (into the ground).
-    let qs = 0;
-    for (let i = 0; i < nr; i++) qs += Gs[i] * (Tsurf - T[i]);
-    let qb = 0;
-    for (let i = 0; i < nr; i++) qb += qBottom * Az[i];
-    let qp = 0;
-    for (let j = 0; j < np; j++) qp += gUsed[j] * (TbcUsed[j] - T[j * nr]) + qUsed[j];
-    ledger.surface_J += qs * dt_s;
-    ledger.bottom_J += qb * dt_s;
-    ledger.pile_J += qp * dt_s;
-    ledger.gross_J += (Math.abs(qs) + Math.abs(qb) + Math.abs(qp)) * dt_s;
-    // Accept: the enthalpy that balances the fluxes at T* exactly, and the temperature it implies.
-    for (let j = 0; j < nz; j++) {
-      const mj = mat[j];
-      for (let c = j * nr; c < (j + 1) * nr; c++) {
-        H[c] = Hnew[c];
-        T[c] = temperatureAt(materials, mj, Hnew[c]);
-      }
-    }
+    startingGuess(st, ns, dtPrev > 0 ? dt_s / dtPrev : 0);
+    const why = iteratePhase(st, pc, ns, dt_s, Tsurf, limits);
+    if (why !== null) return why;
+    recordBoundaryFlows(st, ledger, Tsurf, dt_s);
+    acceptEnthalpy(st, ns);
     Tprev.set(Told);
     dtPrev = dt_s;
     if (inner) inner.endStep(dt_s);
@@ -213,52 +291,12 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     return null;
   };
 
-  /** Hnew = H^k + C (T* − T^k) for every cell; returns max |T(Hnew) − T*| (K), NaN if not finite. */
-  const newtonUpdate = (): number => {
-    let worst = 0;
-    for (let j = 0; j < nz; j++) {
-      const mj = mat[j];
-      for (let c = j * nr; c < (j + 1) * nr; c++) {
-        const h = Hk[c] + capC[c] * (T[c] - Tguess[c]);
-        Hnew[c] = h;
-        const d = Math.abs(temperatureAt(materials, mj, h) - T[c]);
-        if (!(d <= worst)) worst = d; // NaN propagates
-      }
-    }
-    return worst;
-  };
-
-  const save = () => {
-    saveT.set(T);
-    saveH.set(H);
-    saveTprev.set(Tprev);
-    return {
-      time: solver.time_s,
-      dtPrev,
-      surface: ledger.surface_J,
-      bottom: ledger.bottom_J,
-      pile: ledger.pile_J,
-      gross: ledger.gross_J,
-    };
-  };
-  const restore = (m: ReturnType<typeof save>) => {
-    T.set(saveT);
-    H.set(saveH);
-    Tprev.set(saveTprev);
-    solver.time_s = m.time;
-    dtPrev = m.dtPrev;
-    ledger.surface_J = m.surface;
-    ledger.bottom_J = m.bottom;
-    ledger.pile_J = m.pile;
-    ledger.gross_J = m.gross;
-  };
-
   /** Advances by dt_s, halving the step where it does not converge (at most MAX_STEP_HALVINGS times). */
   const advance = (dt_s: number, depth: number): void => {
-    const mark = save();
+    checkpoint.save(solver.time_s, dtPrev);
     const why = attempt(dt_s);
     if (why === null) return;
-    restore(mark);
+    ({ time_s: solver.time_s, dtPrev } = checkpoint.restore());
     if (depth >= MAX_STEP_HALVINGS) {
       throw new SiteStepError(
         `site simulation: time step at t = ${(solver.time_s / 86400).toFixed(2)} d could not converge even at ${(dt_s / 86400).toPrecision(3)} d: ${why}`,
@@ -292,6 +330,11 @@ export function createConductionSolver(s: ConductionSetup): ConductionSolver {
     step(dt_s: number) {
       advance(dt_s, 0);
     },
+  };
+  const limits = {
+    maxPasses: s.phaseIterations ?? MAX_PHASE_PASSES,
+    tolerance_K: s.phaseTolerance_K ?? 1e-4,
+    work: solver,
   };
   // The linear system and the coupling count their work on the public solver object.
   st.work = solver;

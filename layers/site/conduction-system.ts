@@ -115,6 +115,13 @@ export interface ConductionSystem {
   k: Float64Array;
   /** 1 / k. */
   rk: Float64Array;
+  /**
+   * Vertical thermal resistance of each cell's upper and lower half per unit area, m²·K/W: h/(2k) for a
+   * cell wholly frozen or thawed, the thawed and frozen layers in series for a cell the front is in
+   * (see `halfCellResistances` in conduction-assembly.ts).
+   */
+  rUp: Float64Array;
+  rLow: Float64Array;
   kRowChanged: Uint8Array;
   /** C V / Δt, W/K. */
   cap: Float64Array;
@@ -152,14 +159,9 @@ export interface ConductionSystem {
   work: SolverWork;
 }
 
-/** Allocates the system in its initial state (time 0); throws RangeError on mismatched lengths. */
-export function createConductionSystem(s: ConductionSetup): ConductionSystem {
-  const { mesh, materials } = s;
+/** Cell heights, plan areas, radial half-cell shape factors ln(r_out/r_c)/2π and ln(r_c/r_in)/2π, volumes. */
+function cellGeometry(mesh: SiteMesh) {
   const { nr, nz, rFaces_m: rf, zFaces_m: zf, rCentres_m: rc } = mesh;
-  const n = nr * nz;
-  const mat = Int32Array.from(s.rowMaterial);
-  if (mat.length !== nz) throw new RangeError(`rowMaterial must have ${nz} entries; received ${mat.length}`);
-
   const dz = new Float64Array(nz);
   for (let j = 0; j < nz; j++) dz[j] = zf[j + 1] - zf[j];
   const Az = new Float64Array(nr);
@@ -170,9 +172,14 @@ export function createConductionSystem(s: ConductionSetup): ConductionSystem {
     gOut[i] = Math.log(rf[i + 1] / rc[i]) / (2 * Math.PI);
     gIn[i] = Math.log(rc[i] / rf[i]) / (2 * Math.PI);
   }
-  const V = new Float64Array(n);
+  const V = new Float64Array(nr * nz);
   for (let j = 0; j < nz; j++) for (let i = 0; i < nr; i++) V[j * nr + i] = Az[i] * dz[j];
+  return { dz, Az, gOut, gIn, V };
+}
 
+/** Initial temperatures (one per row or one per cell) and their enthalpies; RangeError on a wrong length. */
+function initialField(s: ConductionSetup, mat: Int32Array, nr: number, nz: number) {
+  const n = nr * nz;
   const T = new Float64Array(n);
   if (s.initialT_C.length === nz) {
     for (let j = 0; j < nz; j++) T.fill(s.initialT_C[j], j * nr, (j + 1) * nr);
@@ -182,7 +189,19 @@ export function createConductionSystem(s: ConductionSetup): ConductionSystem {
     throw new RangeError(`initialT_C must have ${nz} or ${n} entries; received ${s.initialT_C.length}`);
   }
   const H = new Float64Array(n);
-  for (let c = 0; c < n; c++) H[c] = enthalpyAt(materials, mat[(c / nr) | 0], T[c]);
+  for (let c = 0; c < n; c++) H[c] = enthalpyAt(s.materials, mat[(c / nr) | 0], T[c]);
+  return { T, H };
+}
+
+/** Allocates the system in its initial state (time 0); throws RangeError on mismatched lengths. */
+export function createConductionSystem(s: ConductionSetup): ConductionSystem {
+  const { mesh, materials } = s;
+  const { nr, nz } = mesh;
+  const n = nr * nz;
+  const mat = Int32Array.from(s.rowMaterial);
+  if (mat.length !== nz) throw new RangeError(`rowMaterial must have ${nz} entries; received ${mat.length}`);
+  const { dz, Az, gOut, gIn, V } = cellGeometry(mesh);
+  const { T, H } = initialField(s, mat, nr, nz);
   const inner = s.inner;
   const np = inner ? Math.min(inner.rows, nz) : 0;
   const p = Math.max(1, np);
@@ -208,6 +227,8 @@ export function createConductionSystem(s: ConductionSetup): ConductionSystem {
     Tguess: new Float64Array(n),
     k: new Float64Array(n),
     rk: new Float64Array(n),
+    rUp: new Float64Array(n),
+    rLow: new Float64Array(n),
     kRowChanged: new Uint8Array(nz),
     cap: new Float64Array(n),
     capC: new Float64Array(n),

@@ -40,7 +40,8 @@ import {
   createPermafrostTableTracker,
   probeStencil,
   probeTemperature,
-  probeThawMeasure,
+  createProbeThawTracker,
+  type ProbeThawTracker,
   type ProbeStencil,
 } from './site-probes';
 import type { SiteCaseResult, SiteFluidResult, SiteResult } from './site-result';
@@ -73,8 +74,17 @@ const round4 = (x: number): number => Math.round(x * 1e4) / 1e4;
 interface CaseRun {
   solver: ConductionSolver;
   stencils: ProbeStencil[];
+  thawTrackers: ProbeThawTracker[];
   lastProbeT: Float64Array;
+  /** First time the front passes each probe (interpolated within the step), s, or null. */
   thawTime_s: (number | null)[];
+  /** The year's largest thaw measure per probe and its time; the previous year's (NaN before any). */
+  yearMax: Float64Array;
+  yearMaxAt: Float64Array;
+  prevMax: Float64Array;
+  prevMaxAt: Float64Array;
+  /** Thaw-year trend per probe (see closeProbeYear), s, or null. */
+  trendThaw_s: (number | null)[];
   tracker: ReturnType<typeof createPermafrostTableTracker>;
   trackerStride: number;
   trackerOffset: number;
@@ -174,7 +184,7 @@ export function simulateSite(
   for (let s = 1; s <= grid.steps; s++) {
     if (options.shouldCancel && (s & 15) === 0 && options.shouldCancel()) throw new SiteCancelledError();
     const t = s * grid.dt;
-    stepCases(ctx, cases, t, grid.dt);
+    stepCases(cases, t, grid.dt);
     observeSiteStep(extremes, fields, siteLoop ? siteLoop.loop : null, ctx.surface(t), t / SECONDS_PER_YEAR);
     if (siteLoop) accumulateFluid(ledger, siteLoop, months, t, grid.dt);
     advanceSchedule(ctx, cases, overCooling, schedule, t, grid);
@@ -290,14 +300,21 @@ function makeCase(ctx: RunContext, solver: ConductionSolver, stride: number, off
   const mesh = solver.mesh;
   const stencils = input.probes.map((p) => probeStencil(mesh, ground.table, rowMat, p.r_m, p.z_m));
   // Last thaw measure per probe (probeThawMeasure: ≥ 0 once the front has passed the probe).
-  const lastProbeT = Float64Array.from(
-    stencils.map((s) => probeThawMeasure(s, ground.table, rowMat, solver.T, mesh.nr)),
-  );
+  const thawTrackers = stencils.map((s) => createProbeThawTracker(s, mesh, ground.table, rowMat, mesh.nr));
+  const lastProbeT = Float64Array.from(thawTrackers.map((tr) => tr.observe(solver.T)));
+  const n = stencils.length;
+  const thawed = stencils.map((_, i) => (lastProbeT[i] >= 0 ? 0 : null));
   return {
     solver,
     stencils,
+    thawTrackers,
     lastProbeT,
-    thawTime_s: stencils.map((_, i) => (lastProbeT[i] >= 0 ? 0 : null)),
+    thawTime_s: thawed,
+    yearMax: new Float64Array(n).fill(-Infinity),
+    yearMaxAt: new Float64Array(n),
+    prevMax: new Float64Array(n).fill(NaN),
+    prevMaxAt: new Float64Array(n),
+    trendThaw_s: [...thawed],
     tracker: createPermafrostTableTracker(mesh, ground.table, rowMat, SECONDS_PER_YEAR, init.lastThawed_s),
     trackerStride: stride,
     trackerOffset: offset,
@@ -428,20 +445,24 @@ function record(run: CaseRun, t: number): void {
 }
 
 /**
- * Advances every case by one step to time `t` and records the thaw at each probe: the front (liquid
- * fraction of the probe's cell) passing the probe's depth, interpolated linearly within the step.
+ * Advances every case by one step to time `t` and records the thaw at each probe: the first passage of
+ * the year's thaw front past the probe's depth (interpolated linearly within the step) and the year's
+ * largest reach of the front (for the thaw-year trend, closeProbeYear).
  */
-function stepCases(ctx: RunContext, cases: readonly CaseRun[], t: number, dt: number): void {
-  const { ground, rowMat } = ctx;
+function stepCases(cases: readonly CaseRun[], t: number, dt: number): void {
   for (const run of cases) {
     run.solver.step(dt);
     run.tracker.observe(run.solver.T, run.trackerStride, run.trackerOffset, t);
-    run.stencils.forEach((st, i) => {
-      const m = probeThawMeasure(st, ground.table, rowMat, run.solver.T, run.solver.mesh.nr);
+    run.thawTrackers.forEach((tr, i) => {
+      const m = tr.observe(run.solver.T);
       if (run.thawTime_s[i] === null && m >= 0) {
         const prev = run.lastProbeT[i];
         const frac = m > prev ? -prev / (m - prev) : 1;
         run.thawTime_s[i] = t - dt + Math.min(1, Math.max(0, frac)) * dt;
+      }
+      if (m > run.yearMax[i]) {
+        run.yearMax[i] = m;
+        run.yearMaxAt[i] = t;
       }
       run.lastProbeT[i] = m;
     });
@@ -500,13 +521,43 @@ function advanceSchedule(
     sc.nextWinter += year;
   }
   if (t >= sc.nextYearEnd - dt / 2) {
-    for (const run of cases) run.out.annualThawDepth_m.push(round4(run.tracker.periodMaxDepth_m()));
+    for (const run of cases) {
+      run.out.annualThawDepth_m.push(round4(run.tracker.periodMaxDepth_m()));
+      closeProbeYear(run);
+    }
     sc.nextYearEnd += year;
   }
   if (t >= sc.nextOutput - dt / 2) {
     for (const run of cases) record(run, t);
     sc.nextOutput += grid.outputEvery;
   }
+}
+
+/**
+ * Closes a year of each probe's thaw bookkeeping. The thaw year is the trend of the annual thaw: the time
+ * at which the annual maximum of the thaw depth on the probe's column reaches the probe, interpolated
+ * linearly between the two years' maxima (at the times they occur) when the front first passes the probe
+ * in this year and fell short of it the year before. A first-passage time alone would jump by whole years
+ * (the front passes in one summer or the next), however finely the step and mesh resolve the front; the
+ * trend moves with the annual maxima, so it converges with them. The first year, or a front that came
+ * from beyond the last year's reach, keeps the first-passage time.
+ */
+function closeProbeYear(run: CaseRun): void {
+  run.stencils.forEach((_, i) => {
+    const m = run.yearMax[i];
+    const m0 = run.prevMax[i];
+    if (run.trendThaw_s[i] === null && m >= 0) {
+      const t0 = run.prevMaxAt[i];
+      const t1 = run.yearMaxAt[i];
+      run.trendThaw_s[i] =
+        Number.isFinite(m0) && m0 < 0 && m > m0 ? t0 + (-m0 / (m - m0)) * (t1 - t0) : run.thawTime_s[i];
+    }
+    run.prevMax[i] = m;
+    run.prevMaxAt[i] = run.yearMaxAt[i];
+    run.yearMax[i] = -Infinity;
+    run.thawTrackers[i].startYear();
+    run.lastProbeT[i] = run.thawTrackers[i].observe(run.solver.T);
+  });
 }
 
 /** Fills each case's energy balance, solver work and probe thaw years; returns the worst balance error. */
@@ -532,7 +583,7 @@ function finishCases(cases: readonly CaseRun[]): number {
       halvedSteps: run.solver.refinedSteps,
     };
     run.out.probes.forEach((p, i) => {
-      const tt = run.thawTime_s[i];
+      const tt = run.trendThaw_s[i] ?? run.thawTime_s[i];
       p.thawYear = tt === null ? null : round4(tt / SECONDS_PER_YEAR);
     });
     worst = Math.max(worst, eb.relativeError);

@@ -4,7 +4,7 @@
  *
  * - Frost heave: the pile froze ground that was unfrozen at the start (SiteResult.overCooling); in
  *   frost-susceptible soil (silt, clay, peat) new freezing around a pile can heave and jack it.
- * - Adfreeze: where the ground at a probe reaches its freezing point without the pile within the run,
+ * - Adfreeze: where the summer thaw reaches the ground at a probe without the pile within the run,
  *   adfreeze strength and pile capacity fall as it warms; where the pile keeps it colder the capacity
  *   holds but frost-heave forces in the active layer can grow.
  * - Fluid: the lowest fluid temperature against the heat pump's lowest entering temperature.
@@ -67,7 +67,7 @@ function thawNote(result: SiteResult, ownProbeCount: number, notes: SiteNote[]):
     notes.push({
       kind: 'adfreeze',
       text:
-        `Without the pile the ground at ${p.r_m} m from the axis and ${p.z_m} m deep reaches its freezing point in year ${p.thawYear.toFixed(1)}` +
+        `Without the pile the summer thaw reaches the ground at ${p.r_m} m from the axis and ${p.z_m} m deep in year ${p.thawYear.toFixed(1)}` +
         (result.withPile
           ? withYear === null
             ? '; with the pile it stays frozen through the run.'

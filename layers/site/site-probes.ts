@@ -24,6 +24,8 @@ export interface ProbeStencil {
   colWeight1: number;
   /** Fraction of the row's height above the probe: the front passes the probe when f reaches it. */
   depthInRow: number;
+  /** The probe's depth, m. */
+  z_m: number;
 }
 
 function bracket(centres: Float64Array, x: number): [number, number, number] {
@@ -66,37 +68,70 @@ export function probeStencil(
     col1: i1,
     colWeight1: fr,
     depthInRow: Math.min(1, Math.max(0, (z_m - z0) / (z1 - z0))),
+    z_m,
   };
 }
 
 /**
- * How far the thaw front has passed the probe, as a liquid fraction of the probe's cell: the cell's
- * liquid fraction (between the two columns about the probe) minus the fraction of the cell's height
- * above the probe. In the enthalpy method a front inside a cell sits at its top face plus f times its
- * height (f the liquid fraction, e.g. Voller & Cross 1981), so the probe has thawed from above when
- * this is ≥ 0 and the cell above has thawed through (otherwise the measure is the fraction the cell
- * above still lacks, negative); it resolves thaw times inside a cell instead of at cell centres.
+ * How far the thaw front has come down to a probe, m, over the current year: the year's thaw depth on the
+ * probe's column (liquid fractions interpolated between the two columns about the probe) minus the
+ * probe's depth. The year's thaw depth is continuous from the surface: the cells that have thawed through
+ * (liquid fraction 1) at some time this year, from the top down, plus the part of the next ones that
+ * thawed (in the enthalpy method a front inside a cell sits at its top face plus its liquid fraction f
+ * times its height, e.g. Voller & Cross 1981; the same rule as the active layer). Cells that
+ * thawed this year count although the surface may have refrozen since: in autumn the thaw front still
+ * deepens below the refreezing crust. So the measure is ≥ 0 once the front has come down to the probe
+ * (ground warmed into its freezing interval from the side or below is not a front), it resolves thaw
+ * times inside a cell instead of at cell centres, it never falls within a year, and its yearly values
+ * rise smoothly from year to year (the thaw-year trend in simulate-site.ts). `startYear` begins a new year.
  */
-export function probeThawMeasure(
+export interface ProbeThawTracker {
+  observe(T: Float64Array): number;
+  startYear(): void;
+}
+
+export function createProbeThawTracker(
   s: ProbeStencil,
+  mesh: Pick<SiteMesh, 'zFaces_m' | 'nz'>,
   materials: MaterialTable,
   rowMaterial: ArrayLike<number>,
-  T: Float64Array,
   nr: number,
-): number {
-  const c = s.row * nr;
-  const f0 = liquidFractionAt(materials, s.material, T[c + s.col0]);
-  const f1 = liquidFractionAt(materials, s.material, T[c + s.col1]);
-  const m = f0 + s.colWeight1 * (f1 - f0) - s.depthInRow;
-  if (s.row === 0 || m < 0) return m;
-  // A front inside the probe's cell has come from above only if the cell above has thawed through
-  // (ground warmed into its freezing interval from the side or below is not a front).
-  const a = c - nr;
-  const m0 = rowMaterial[s.row - 1];
-  const g0 = liquidFractionAt(materials, m0, T[a + s.col0]);
-  const g1 = liquidFractionAt(materials, m0, T[a + s.col1]);
-  const above = g0 + s.colWeight1 * (g1 - g0);
-  return above >= 1 ? m : Math.min(m, above - 1);
+): ProbeThawTracker {
+  const nz = mesh.nz;
+  const z = mesh.zFaces_m;
+  const maxF = new Float64Array(nz);
+  const minF = new Float64Array(nz).fill(1);
+  return {
+    observe(T) {
+      for (let row = 0; row < nz; row++) {
+        const c = row * nr;
+        const m = rowMaterial[row];
+        const f0 = liquidFractionAt(materials, m, T[c + s.col0]);
+        const f1 = liquidFractionAt(materials, m, T[c + s.col1]);
+        const f = f0 + s.colWeight1 * (f1 - f0);
+        if (f > maxF[row]) maxF[row] = f;
+        if (f < minF[row]) minF[row] = f;
+      }
+      // As periodMaxDepth_m of the permafrost-table tracker: each cell from the surface down adds the
+      // part of it that thawed this year (1 if it thawed through, else its rise of liquid fraction as a
+      // share of what it could rise), so a front spread over two cells (the freezing interval) is
+      // counted once; it stops at the first cell that did not thaw at all.
+      let depth = 0;
+      for (let row = 0; row < nz; row++) {
+        const hi = maxF[row];
+        const lo = minF[row];
+        const part = hi >= 1 ? 1 : lo < 1 ? (hi - lo) / (1 - lo) : 0;
+        if (!(part > 1e-9)) break;
+        depth += part * (z[row + 1] - z[row]);
+        if (part < 1 && row + 1 < nz && !(maxF[row + 1] > minF[row + 1])) break;
+      }
+      return depth - s.z_m;
+    },
+    startYear() {
+      maxF.fill(0);
+      minF.fill(1);
+    },
+  };
 }
 
 export function probeTemperature(s: ProbeStencil, T: Float64Array): number {

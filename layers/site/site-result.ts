@@ -7,7 +7,12 @@ export interface SiteProbeResult {
   z_m: number;
   /** Temperature at each output time, °C (same length as time_yr). */
   T_C: number[];
-  /** Time the probe first reaches its freezing point, yr (0 if it starts there), or null. */
+  /**
+   * Time the summer thaw first reaches the probe, yr: when the annual maximum thaw depth at the probe's
+   * distance from the axis (read from the liquid fraction of the cells, so a front inside a cell
+   * counts) crosses the probe's depth, interpolated between consecutive years' maxima; 0 if the probe
+   * is unfrozen at the start; null if the thaw never reaches it within the run.
+   */
   thawYear: number | null;
 }
 

@@ -282,6 +282,29 @@ export function initialState(
       spinUpSurfaceRange_C: [Infinity, -Infinity],
     };
   }
+  const T = ttopProfile(input, ground, column, rowMaterial);
+  const startRange: [number, number] = [Infinity, -Infinity];
+  rangeOf(T, startRange);
+  const spun = spinUp(input, ground, column, rowMaterial, T, lastThawed);
+  return {
+    rowT_C: spun.T,
+    lastThawed_s: lastThawed,
+    startRange_C: startRange,
+    spinUpFieldRange_C: [
+      Math.min(startRange[0], spun.fieldRange[0]),
+      Math.max(startRange[1], spun.fieldRange[1]),
+    ],
+    spinUpSurfaceRange_C: spun.surfaceRange,
+  };
+}
+
+/** TTOP at the top of the column (Smith & Riseborough 2002) plus the geothermal gradient below, °C per row. */
+function ttopProfile(
+  input: SiteInput,
+  ground: SiteGround,
+  column: SiteMesh,
+  rowMaterial: Int32Array,
+): Float64Array {
   const c = input.climate;
   const dd = degreeDays({ meanAirTemp_C: c.meanAirTemp_C, amplitude_C: c.amplitude_C });
   const top = ground.layers[0];
@@ -293,19 +316,32 @@ export function initialState(
     kFrozen_W_mK: top.kFrozen_W_mK,
   });
   const q = input.ground.geothermalFlux_W_m2;
-  const T = new Float64Array(nz);
+  const T = new Float64Array(column.nz);
   let temp = ttop;
   let zPrev = 0;
-  for (let j = 0; j < nz; j++) {
+  for (let j = 0; j < column.nz; j++) {
     const m = ground.layers[rowMaterial[j]];
     const k = temp < m.freezingPoint_C ? m.kFrozen_W_mK : m.kThawed_W_mK;
     temp += (q * (column.zCentres_m[j] - zPrev)) / k;
     zPrev = column.zCentres_m[j];
     T[j] = temp;
   }
-  const startRange: [number, number] = [Infinity, -Infinity];
-  rangeOf(T, startRange);
-  const fieldRange: [number, number] = [startRange[0], startRange[1]];
+  return T;
+}
+
+/**
+ * SPIN_UP_YEARS of the column under the untrended surface from `T0`: the spun-up rows, the range the
+ * field and the surface took, and (in `lastThawed`) the last time each row was mostly thawed, s (≤ 0).
+ */
+function spinUp(
+  input: SiteInput,
+  ground: SiteGround,
+  column: SiteMesh,
+  rowMaterial: Int32Array,
+  T0: Float64Array,
+  lastThawed: Float64Array,
+) {
+  const fieldRange: [number, number] = [Infinity, -Infinity];
   const surfaceRange: [number, number] = [Infinity, -Infinity];
   const spinSurface = surfaceForcing(input, false);
   const solver = createConductionSolver({
@@ -313,8 +349,8 @@ export function initialState(
     materials: ground.table,
     rowMaterial,
     surfaceTemperature_C: spinSurface,
-    bottomFlux_W_m2: q,
-    initialT_C: T,
+    bottomFlux_W_m2: input.ground.geothermalFlux_W_m2,
+    initialT_C: T0,
     inner: null,
   });
   const dt = Math.min(input.timeStep_days, 15) * SECONDS_PER_DAY;
@@ -328,15 +364,9 @@ export function initialState(
     surfaceRange[0] = Math.min(surfaceRange[0], Ts);
     surfaceRange[1] = Math.max(surfaceRange[1], Ts);
     const t = s * dtExact - total;
-    for (let j = 0; j < nz; j++) {
+    for (let j = 0; j < column.nz; j++) {
       if (liquidFractionAt(ground.table, rowMaterial[j], solver.T[j]) > 0.5) lastThawed[j] = t;
     }
   }
-  return {
-    rowT_C: Float64Array.from(solver.T),
-    lastThawed_s: lastThawed,
-    startRange_C: startRange,
-    spinUpFieldRange_C: fieldRange,
-    spinUpSurfaceRange_C: surfaceRange,
-  };
+  return { T: Float64Array.from(solver.T), fieldRange, surfaceRange };
 }

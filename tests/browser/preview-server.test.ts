@@ -75,7 +75,11 @@ describe('preview server', () => {
     const manifest = await get('/data/manifest.json');
     expect(manifest.status).toBe(200);
     expect(JSON.parse(manifest.body).bands.length).toBeGreaterThan(0);
-    for (const path of ['/data/%2e%2e/package.json', '/data/..%2f..%2fpackage.json']) {
+    for (const path of [
+      '/data/../package.json',
+      '/data/%2e%2e/package.json',
+      '/data/..%2f..%2fpackage.json',
+    ]) {
       const r = await get(path);
       expect(r.status, path).toBe(403);
       expect(r.body).not.toContain('pile-atlas');

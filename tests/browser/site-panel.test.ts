@@ -158,6 +158,25 @@ describe('site panel', () => {
     const fromSite = items.filter((i) => i.origin === 'site');
     expect(fromSite.length).toBeGreaterThan(0);
     expect(typeof fromSite[fromSite.length - 1].metrics.simulatedYears_yr).toBe('number');
+    // Stale results are marked (issue 18 item 4): an edit after the run says the results are for the
+    // last run's inputs; an invalid edit says the inputs need attention; undoing the edit clears it.
+    const stale = s.page.locator('[data-testid=site-stale]');
+    expect(await stale.count()).toBe(0);
+    const years = await s.page.inputValue('#site-years');
+    await setField(s.page, 'site-years', String(Number(years) + 1));
+    await expect.poll(() => stale.textContent()).toMatch(/inputs have changed since\. Run again/);
+    await setField(s.page, 'site-years', '0');
+    await expect.poll(() => stale.textContent()).toMatch(/some need attention/);
+    expect(await s.page.locator('[data-testid=site-outcome]').getAttribute('class')).toContain('stale');
+    await setField(s.page, 'site-years', years);
+    await expect.poll(() => stale.count()).toBe(0);
+  });
+
+  it('does not shortlist the same place twice: a second add updates the listed site (issue 18)', async () => {
+    await s.page.click('[data-testid=site-add-shortlist]');
+    await expect
+      .poll(() => s.page.locator('.site-output [role=status]').allTextContents())
+      .toContainEqual(expect.stringMatching(/already on the shortlist at this place: updated/));
   });
 
   it('shows an invalid input message next to the field and does not run', async () => {

@@ -76,29 +76,32 @@ describe('site solver against Neumann solutions', () => {
   });
 
   it('converges under mesh and time-step refinement (NEU-9)', () => {
-    const errors = [
+    // With the front cell's vertical resistances layered (thawed part in series with frozen part) the
+    // mesh error is already small at 0.1 m: every level is within 0.5 % of Neumann, and the levels
+    // settle on one front (the remaining ~0.3 % is the 0.1 K freezing interval, not the mesh: measured
+    // 1.17505 / 1.17408 / 1.17480 / 1.17461 m at 0.1 / 0.05 / 0.025 / 0.0125 m).
+    const fronts = [
       { dz: 0.1, dt_days: 2 },
       { dz: 0.05, dt_days: 1 },
       { dz: 0.025, dt_days: 0.5 },
-    ].map((c) => Math.abs(thawFront({ ...c, initial_C: -2, interval_K: 0.1 }).front_m - 1.17094));
-    expect(errors[1]).toBeLessThan(errors[0]);
-    expect(errors[2]).toBeLessThan(errors[1]);
-    expect(errors[2]).toBeLessThan(0.01 * 1.17094);
+      { dz: 0.0125, dt_days: 0.25 },
+    ].map((c) => thawFront({ ...c, initial_C: -2, interval_K: 0.1 }).front_m);
+    for (const f of fronts) expect(Math.abs(f / 1.17094 - 1)).toBeLessThan(0.005);
+    expect(Math.abs(fronts[3] - fronts[2])).toBeLessThan(0.0005 * 1.17094);
   });
 
   it('time-step refinement alone converges (NEU-9, dz = 0.025 m)', () => {
-    // With the converged enthalpy iteration the time-step error at 2 d is already below the mesh and
-    // freezing-interval error (of the opposite sign), so the error against Neumann is not monotone in
-    // the step; the front itself converges in the step: successive differences shrink, at first order
-    // or better (backward Euler).
+    // Backward Euler is first order in the step: the 8-day step is 2 % deep; from 2 d down the front
+    // changes by less than 0.05 % (measured 1.19505 / 1.17482 / 1.17480 / 1.17463 m at 8 / 2 / 0.5 /
+    // 0.125 d): the step error is then below the iteration's own tolerance.
     const f = [8, 2, 0.5, 0.125].map(
       (dt) => thawFront({ dz: 0.025, dt_days: dt, initial_C: -2, interval_K: 0.1 }).front_m,
     );
     const d1 = Math.abs(f[0] - f[1]);
-    const d2 = Math.abs(f[1] - f[2]);
-    const d3 = Math.abs(f[2] - f[3]);
-    expect(d2).toBeLessThan(d1 / 2);
-    expect(d3).toBeLessThan(d2 / 2);
+    expect(d1).toBeGreaterThan(0.005);
+    expect(Math.abs(f[1] - f[2])).toBeLessThan(d1 / 10);
+    expect(Math.abs(f[2] - f[3])).toBeLessThan(d1 / 10);
+    expect(Math.abs(f[3] - f[1])).toBeLessThan(0.0005 * 1.17094);
     expect(Math.abs(f[3] / 1.17094 - 1)).toBeLessThan(0.01);
   });
 });

@@ -9,7 +9,7 @@ import { cellLayers } from '../../layers/screening/cell-layers';
 import { DEFAULT_SCENARIO, parseScenario } from '../../layers/screening/scenario';
 import { bandSchema, type Band } from '../../layers/screening/manifest';
 import { bandFor } from '../../data-pipeline/build/assemble-manifest';
-import { bandValueText } from '../../web/src/panels/cell-panel';
+import { bandUnitText, bandValueText } from '../../web/src/panels/cell-panel';
 import { exportProperties } from '../../web/src/shortlist/shortlist-export';
 import { testManifest } from './web-test-manifest';
 import { screenCell } from '../../layers/screening/cell-screening-model';
@@ -43,7 +43,11 @@ describe('climate horizon qualifier (issue 11 item 8)', () => {
   });
   it('readouts show "after 2100" and "≥ 45 yr", never the capped number alone', () => {
     expect(bandValueText(band('thawYear'), 2100, 'SI', 2)).toBe('after 2100');
-    expect(bandValueText(band('thawYear'), 2087.4, 'SI', 0)).toBe('2087 yr');
+    // A thaw year is a calendar year: the year alone, never "2087 yr" (issue 18 item 3).
+    expect(bandValueText(band('thawYear'), 2087.4, 'SI', 0)).toBe('2087');
+    expect(bandValueText(band('thawYearPiles'), 2094, 'NA', 0)).toBe('2094');
+    expect(bandUnitText(band('thawYear'), 'SI')).toBe('calendar year');
+    expect(bandUnitText(band('thawDelay'), 'NA')).toBe('yr');
     expect(bandValueText(band('frozenMargin'), 45, 'SI', 2)).toBe('≥ 45.0 yr');
     expect(bandValueText(band('thawDelay'), null, 'SI', 2)).toMatch(/no thaw before 2100/);
   });

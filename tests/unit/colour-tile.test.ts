@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import {
+  CLEAR_CLASS_RGB,
   classColours,
   colourTile,
+  FADED_ALPHA,
   FADED_RGB,
   NONE_CLASS_RGB,
   OKABE_ITO,
@@ -60,6 +62,62 @@ describe('tile colouring', () => {
       ],
     });
     expect(nominal.get(0)).toEqual(OKABE_ITO[0]);
+  });
+});
+
+/** Straight alpha compositing of a colour over the base map (Porter & Duff 1984, "over"). */
+const over = (c: readonly number[], a: number, base: readonly number[]) =>
+  c.map((v, i) => a * v + (1 - a) * base[i]);
+const distance = (p: readonly number[], q: readonly number[]) => Math.hypot(...p.map((v, i) => v - q[i]));
+const rgbOf = (hex: string) => [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16));
+
+describe('filtered, no-data and excluded read apart (issue 18 item 4)', () => {
+  const exclusion = {
+    classes: [
+      { value: 0, label: 'not excluded' },
+      { value: 1, label: 'outside the data' },
+      { value: 2, label: 'rock within the pile length' },
+      { value: 3, label: 'no permafrost' },
+    ],
+  };
+  const suitability = { classes: bands[2].classes };
+
+  it('the exclusion layer paints "not excluded" apart from the grey of "excluded"', () => {
+    const ex = classColours(exclusion);
+    expect(ex.get(0)).toEqual(CLEAR_CLASS_RGB);
+    expect(classColours(suitability).get(0)).toEqual(NONE_CLASS_RGB);
+    // The reasons keep the palette from its first colour.
+    expect([1, 2, 3].map((v) => ex.get(v))).toEqual(OKABE_ITO.slice(0, 3));
+    // Absence words still read as absence.
+    const frozen = classColours({
+      classes: [
+        { value: 0, label: 'not frozen' },
+        { value: 1, label: 'warm' },
+      ],
+    });
+    expect(frozen.get(0)).toEqual(NONE_CLASS_RGB);
+  });
+
+  it('at the default layer opacity, the veil, the land, the sea and the excluded grey are far apart', async () => {
+    const { LAND_COLOUR, SEA_COLOUR } = await import('../../web/src/map/base-style');
+    const opacity = 0.85; // the app's default layer opacity (app.tsx)
+    const land = rgbOf(LAND_COLOUR);
+    const sea = rgbOf(SEA_COLOUR);
+    const veil = over(FADED_RGB, opacity * FADED_ALPHA, land);
+    const excluded = over(NONE_CLASS_RGB, opacity, land);
+    const clear = over(CLEAR_CLASS_RGB, opacity, land);
+    // 40 in RGB is a design threshold for a map key (common practice), far above the just-noticeable
+    // difference of about 2.3 ΔE (recalled from memory); the old veil (alpha 0.35) sat 25 from the sea.
+    for (const [a, b] of [
+      [veil, land],
+      [veil, sea],
+      [veil, excluded],
+      [veil, clear],
+      [excluded, land],
+      [clear, land],
+      [clear, excluded],
+    ])
+      expect(distance(a, b)).toBeGreaterThan(40);
   });
 });
 

@@ -115,7 +115,12 @@ describe('preview server hardening', () => {
     expect(r.headers['content-range']).toBe('bytes 2-5/10');
     expect(Buffer.from(r.body, 'latin1')).toEqual(Buffer.from([2, 3, 4, 5]));
     expect((await get('/data/tiles/none.bin')).status).toBe(404);
-    for (const path of ['/data/%2e%2e/secret.txt', '/data/..%2fsecret.txt', '/data/%2e%2e%2fsecret.txt']) {
+    for (const path of [
+      '/data/../secret.txt',
+      '/data/%2e%2e/secret.txt',
+      '/data/..%2fsecret.txt',
+      '/data/%2e%2e%2fsecret.txt',
+    ]) {
       const e = await get(path);
       expect(e.status, path).toBe(403);
       expect(e.body).not.toContain('outside');

@@ -150,6 +150,29 @@ describe('shortlist store', () => {
     expect(m.loadProblem()).toMatch(/cannot be saved in this browser \(IndexedDB is disabled\)/);
   });
 
+  it('does not list the same place twice: a second add there updates the listed site (issue 18 item 4)', () => {
+    const s = createShortlistStore(null);
+    const a = s.add({ lon: -3, lat: 75, name: 'A', values: { groundTemp: -4 }, metrics: { pileCount: 12 } });
+    // 10 m further north (1e-4° of latitude ≈ 11 m): the same place, well inside one analysis cell.
+    const again = s.add({
+      lon: -3,
+      lat: 75.0001,
+      name: 'A again',
+      values: { groundTemp: -3.9 },
+      metrics: { thawDelay_yr: 7 },
+    });
+    expect(s.list()).toHaveLength(1);
+    expect(again.id).toBe(a.id);
+    expect(again.name).toBe('A'); // the user's name is kept
+    expect(again.values).toEqual({ groundTemp: -3.9 }); // newer values
+    expect(again.metrics).toEqual({ pileCount: 12, thawDelay_yr: 7 }); // simulated results kept, new added
+    expect(s.atPlace(-3, 75.0001)?.id).toBe(a.id);
+    // 100 m away (1e-3° of latitude ≈ 111 m) is another place.
+    s.add({ lon: -3, lat: 75.001, name: 'B' });
+    expect(s.list().map((i) => i.name)).toEqual(['A', 'B']);
+    expect(s.atPlace(10, 10)).toBeUndefined();
+  });
+
   it('rejects invalid sites with a TypeError naming the field', () => {
     const s = createShortlistStore(null);
     expect(() => s.add({ lon: 500, lat: 75 })).toThrow(TypeError);

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
+  ENSEMBLE_MEMBER_STEP_DAYS,
   planSiteEnsemble,
   SITE_ENSEMBLE_INPUTS,
   summariseSiteEnsemble,
@@ -24,9 +25,13 @@ describe('site-study ensemble', () => {
     const w = Array.from({ length: 24 }, (_, j) => plan.design[j * k + 2]);
     const strata = w.map((v) => Math.floor(((v - 0.7) / 0.6) * 24)).sort((a, b) => a - b);
     expect(strata).toEqual(Array.from({ length: 24 }, (_, i) => i));
-    // Zero spread: every member is the site itself (apart from the fidelity).
+    // Zero spread: every member is the site itself, apart from the fidelity and the member step (at
+    // least ENSEMBLE_MEMBER_STEP_DAYS, never past the output interval).
     const same = planSiteEnsemble(input, zeroSpread(u), 4, 1, 'standard');
-    for (const m of same.members) expect(m).toEqual(input);
+    for (const m of same.members) {
+      expect(m.timeStep_days).toBe(Math.max(input.timeStep_days, ENSEMBLE_MEMBER_STEP_DAYS));
+      expect({ ...m, timeStep_days: input.timeStep_days }).toEqual(input);
+    }
     expect(() => planSiteEnsemble(input, u, 1, 1)).toThrow(/members/);
   });
 

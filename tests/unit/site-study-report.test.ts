@@ -11,7 +11,7 @@ import fc from 'fast-check';
 import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
-import { siteInputSchema } from '../../layers/site/site-input-schema';
+import { siteInputSchema, SITE_DEFAULTS } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
 import { DEFAULT_SCENARIO } from '../../layers/screening/scenario';
 import { sitePrefill } from '../../layers/screening/site-prefill';
@@ -159,7 +159,7 @@ describe('site study report', () => {
     );
     // The cost before the run: cells × steps × the measured cost per cell-step.
     const cost = siteRunCost(siteInputSchema.parse({ ...draft, years: 20 }));
-    expect(cost.timeSteps).toBe(Math.ceil((20 * 365.25) / 7));
+    expect(cost.timeSteps).toBe(Math.ceil((20 * 365.25) / SITE_DEFAULTS.timeStep_days.value));
     expect(cost.cells).toBeGreaterThan(100);
     expect(cost.estimate_s).toBeGreaterThan(0);
   });

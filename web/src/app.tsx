@@ -169,6 +169,7 @@ function Dashboard({ atlas, onPickScenario }: { atlas: Atlas; onPickScenario: (s
       />
       <PlaceSide
         {...{ atlas, table, selection, choices }}
+        listedAs={selection ? (shortlistStore.atPlace(selection.lon, selection.lat)?.name ?? null) : null}
         onAdd={() => addToShortlist(atlas, table, selection, shortlist.length)}
         onClose={() => setSelection(null)}
         onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}

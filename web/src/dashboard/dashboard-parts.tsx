@@ -15,7 +15,7 @@ import { MapView } from '../map/map-view';
 import { MAX_SHORTLIST_PINS } from '../map/point-markers';
 import { LayerPanel } from '../panels/layer-panel';
 import { LegendPanel } from '../panels/legend-panel';
-import { FilterPanel } from '../panels/filter-panel';
+import { activeFilterTexts, FilterPanel } from '../panels/filter-panel';
 import { SummaryPanel } from '../panels/summary-panel';
 import { SourcesPanel } from '../panels/sources-panel';
 import { CellPanel, type CellSelection } from '../panels/cell-panel';
@@ -134,6 +134,7 @@ export function LayersSide(props: {
       <SummaryPanel
         region={regionSummary}
         zone={zoneSummary}
+        filters={activeFilterTexts(c.filter, manifest.bands, c.units)}
         zoneArea_km2={zone.boundary?.area_km2 ?? null}
         units={c.units}
         drawing={sketch.drawing}
@@ -230,6 +231,8 @@ export function PlaceSide(props: {
   table: CellTable | null;
   selection: CellSelection | null;
   choices: MapChoices;
+  /** Name of the shortlisted site at the selected place, or null. */
+  listedAs: string | null;
   onAdd: () => void;
   onClose: () => void;
   onLocate: (lon: number, lat: number) => void;
@@ -253,6 +256,7 @@ export function PlaceSide(props: {
           table={table}
           selection={selection}
           units={choices.units}
+          listedAs={props.listedAs}
           onAdd={props.onAdd}
           onClose={props.onClose}
         />

@@ -4,24 +4,28 @@
  * legend range; class bands use one colour per class (ordinal classes sampled from the band's ramp
  * when it names one, otherwise the Okabe & Ito (2008) palette, "Color Universal Design", which stays
  * distinguishable under the common colour-vision deficiencies). Nodata is transparent (the base map's
- * land or sea shows through); cells failing the live filter are drawn as a pale grey veil; in an
+ * land or sea shows through); cells failing the live filter are drawn as a grey veil, dense enough to
+ * read apart from land without data and from the solid grey of an "excluded" class; in an
  * ensemble build, cells whose robust class is "uncertain" can be hatched over any layer.
  */
 import type { Band } from '../../../layers/screening/manifest';
-import { rampColour, type Rgb } from '../../../layers/screening/colour-ramps';
-import { classColours } from '../../../layers/screening/class-colours';
+import type { Rgb } from '../../../layers/screening/colour-ramps';
+import { bandColourer } from '../../../layers/screening/band-colour';
+
+// The colour of a value is shared with the pipeline's display package (layers/screening/band-colour.ts).
+export { legendRange } from '../../../layers/screening/band-colour';
 
 // The class colours are shared with the pipeline's GeoTIFF colour tables (layers/screening/class-colours.ts).
-export { classColours, NONE_CLASS_RGB, OKABE_ITO } from '../../../layers/screening/class-colours';
+export {
+  CLEAR_CLASS_RGB,
+  classColours,
+  NONE_CLASS_RGB,
+  OKABE_ITO,
+} from '../../../layers/screening/class-colours';
 import { passesAt, type CompiledFilter } from '../filters/cell-filter';
 
 export const FADED_RGB: Rgb = [150, 156, 162];
-export const FADED_ALPHA = 0.35;
-
-/** Legend range of a band (legendMin/legendMax when set, else the build's min/max). */
-export function legendRange(band: Band): [number, number] {
-  return [band.legendMin ?? band.min, band.legendMax ?? band.max];
-}
+export const FADED_ALPHA = 0.6;
 
 export interface TileStyle {
   band: Band;
@@ -51,8 +55,6 @@ export function onHatchStripe(k: number, tileSize: number): boolean {
   return (x + y) % HATCH_PERIOD < HATCH_WIDTH;
 }
 
-const LUT_SIZE = 256;
-
 /** RGBA (TILE_SIZE² x 4) for one tile's planes under the given style. */
 export function colourTile(
   planes: Float32Array[],
@@ -69,22 +71,7 @@ export function colourTile(
   const uncertainValue = style.uncertainty?.value ?? NaN;
   const tileSize = Math.round(Math.sqrt(n));
   const hatchFill = Math.round(alpha * HATCH_FILL_ALPHA);
-  let lut: Uint8Array | null = null;
-  let lo = 0;
-  let span = 1;
-  let classes: Map<number, Rgb> | null = null;
-  if (band.kind === 'class') {
-    classes = classColours(band);
-  } else {
-    [lo, span] = (([a, b]) => [a, b - a])(legendRange(band));
-    lut = new Uint8Array(LUT_SIZE * 3);
-    for (let i = 0; i < LUT_SIZE; i++) {
-      const [r, g, b] = rampColour(band.ramp ?? 'viridis', i, 0, LUT_SIZE - 1);
-      lut[i * 3] = r;
-      lut[i * 3 + 1] = g;
-      lut[i * 3 + 2] = b;
-    }
-  }
+  const colourOf = bandColourer(band);
   for (let k = 0; k < n; k++) {
     const v = values[k];
     const o = k * 4;
@@ -109,24 +96,15 @@ export function colourTile(
       }
     }
     const a = hatch && hatch[k] === uncertainValue ? hatchFill : alpha;
-    if (lut) {
-      const t = span > 0 ? (v - lo) / span : 0.5;
-      const i = t <= 0 ? 0 : t >= 1 ? LUT_SIZE - 1 : Math.round(t * (LUT_SIZE - 1));
-      rgba[o] = lut[i * 3];
-      rgba[o + 1] = lut[i * 3 + 1];
-      rgba[o + 2] = lut[i * 3 + 2];
-      rgba[o + 3] = a;
-    } else {
-      const c = classes?.get(Math.round(v));
-      if (!c) {
-        rgba[o + 3] = 0;
-        continue;
-      }
-      rgba[o] = c[0];
-      rgba[o + 1] = c[1];
-      rgba[o + 2] = c[2];
-      rgba[o + 3] = a;
+    const c = colourOf(v);
+    if (!c) {
+      rgba[o + 3] = 0;
+      continue;
     }
+    rgba[o] = c[0];
+    rgba[o + 1] = c[1];
+    rgba[o + 2] = c[2];
+    rgba[o + 3] = a;
   }
   return rgba;
 }

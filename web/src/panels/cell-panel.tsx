@@ -5,7 +5,14 @@
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { horizonText } from '../../../layers/screening/climate-horizon';
 import type { CellTable } from '../data/cell-table';
-import { displayTitle, formatLonLat, formatQuantity, type UnitSystem } from '../units/display-units';
+import { isCalendarYearBand } from '../../../layers/screening/export-schema';
+import {
+  displayConversion,
+  displayTitle,
+  formatLonLat,
+  formatQuantity,
+  type UnitSystem,
+} from '../units/display-units';
 import { ScreeningCaution } from './caution-notes';
 import { ClassCard } from './class-card';
 import { keyFigures } from './key-figures';
@@ -39,12 +46,24 @@ export function bandValueText(
   horizonFlag?: number | null,
 ): string {
   if (band.kind !== 'class') {
-    const h = horizonText(band.horizon, horizonFlag, v === null ? '' : formatQuantity(v, band.unit, units));
+    const shown =
+      v === null
+        ? ''
+        : isCalendarYearBand(band)
+          ? String(Math.round(v))
+          : formatQuantity(v, band.unit, units);
+    const h = horizonText(band.horizon, horizonFlag, shown);
     if (h !== null) return h;
   }
   if (v === null) return 'no data';
   if (band.kind === 'class') return band.classes?.find((c) => c.value === Math.round(v))?.label ?? String(v);
+  if (isCalendarYearBand(band)) return String(Math.round(v));
   return formatQuantity(v, band.unit, units);
+}
+
+/** A band's unit as shown beside its numbers: "calendar year" for thaw years, else the display unit. */
+export function bandUnitText(band: Band, units: UnitSystem): string {
+  return isCalendarYearBand(band) ? 'calendar year' : displayConversion(band.unit, units).unit;
 }
 
 /** The horizon flag of a cell for a band, from the cell's values by band id (undefined: none). */
@@ -60,6 +79,8 @@ export function CellPanel(props: {
   table: CellTable | null;
   selection: CellSelection;
   units: UnitSystem;
+  /** Name of the shortlisted site at this place (the button then updates it, never adds it twice). */
+  listedAs?: string | null;
   onAdd: () => void;
   onClose: () => void;
 }) {
@@ -108,7 +129,7 @@ export function CellPanel(props: {
           </details>
           <ClassCard manifest={manifest} values={values ?? {}} units={units} />
           <button type="button" className="primary" onClick={props.onAdd} data-testid="add-to-shortlist">
-            Add to shortlist
+            {props.listedAs ? `Update “${props.listedAs}” on the shortlist` : 'Add to shortlist'}
           </button>
         </>
       )}

@@ -5,15 +5,9 @@
 import { useState } from 'react';
 import type { Band } from '../../../layers/screening/manifest';
 import type { BandRange, FilterSpec } from '../filters/cell-filter';
-import {
-  displayConversion,
-  displayTitle,
-  formatNumber,
-  fromDisplay,
-  toDisplay,
-  type UnitSystem,
-} from '../units/display-units';
+import { displayTitle, formatNumber, fromDisplay, toDisplay, type UnitSystem } from '../units/display-units';
 import { legendRange } from '../map/colour-tile';
+import { bandUnitText } from './cell-panel';
 
 function parseBound(text: string, band: Band, units: UnitSystem): number | undefined | null {
   const t = text.trim();
@@ -30,7 +24,7 @@ function RangeRow(props: {
   onRemove: () => void;
 }) {
   const { band, range, units } = props;
-  const conv = displayConversion(band.unit, units);
+  const unit = bandUnitText(band, units);
   const [bad, setBad] = useState(false);
   const shown = (v: number | undefined) =>
     v === undefined ? '' : String(Number(toDisplay(v, band.unit, units).toPrecision(6)));
@@ -60,7 +54,7 @@ function RangeRow(props: {
             inputMode="decimal"
             defaultValue={shown(range.min)}
             onChange={(e) => set('min', e.target.value)}
-            aria-label={`Minimum ${band.title} (${conv.unit || 'no unit'})`}
+            aria-label={`Minimum ${band.title} (${unit || 'no unit'})`}
             data-testid={`filter-${band.id}-min`}
           />
         </label>
@@ -70,15 +64,15 @@ function RangeRow(props: {
             inputMode="decimal"
             defaultValue={shown(range.max)}
             onChange={(e) => set('max', e.target.value)}
-            aria-label={`Maximum ${band.title} (${conv.unit || 'no unit'})`}
+            aria-label={`Maximum ${band.title} (${unit || 'no unit'})`}
             data-testid={`filter-${band.id}-max`}
           />
         </label>
-        <span className="muted small">{conv.unit}</span>
+        <span className="muted small">{unit}</span>
       </div>
       <div className="muted small">
         map range {formatNumber(toDisplay(lo, band.unit, units))} to{' '}
-        {formatNumber(toDisplay(hi, band.unit, units))} {conv.unit}
+        {formatNumber(toDisplay(hi, band.unit, units))} {unit}
         {bad ? <span className="fail"> — not a number</span> : null}
       </div>
     </li>
@@ -124,6 +118,31 @@ function ClassRow(props: {
       </fieldset>
     </li>
   );
+}
+
+/**
+ * The active filters in one line each, as the counter repeats them ("Ground temperature ≤ 28 °F",
+ * "Suitability class: not poor"), so that what the count means stays in view with it.
+ */
+export function activeFilterTexts(filter: FilterSpec, bands: Band[], units: UnitSystem): string[] {
+  const byId = new Map(bands.map((b) => [b.id, b]));
+  const out: string[] = [];
+  for (const r of filter.ranges) {
+    const band = byId.get(r.bandId);
+    if (!band || (r.min === undefined && r.max === undefined)) continue;
+    const unit = bandUnitText(band, units);
+    const v = (x: number) => `${formatNumber(toDisplay(x, band.unit, units))}${unit ? ` ${unit}` : ''}`;
+    const title = displayTitle(band.title, band.unit, units);
+    if (r.min !== undefined && r.max !== undefined) out.push(`${title} ${v(r.min)} to ${v(r.max)}`);
+    else out.push(r.min !== undefined ? `${title} ≥ ${v(r.min)}` : `${title} ≤ ${v(r.max ?? NaN)}`);
+  }
+  for (const e of filter.excluded) {
+    const band = byId.get(e.bandId);
+    if (!band || e.values.length === 0) continue;
+    const labels = e.values.map((x) => band.classes?.find((c) => c.value === x)?.label ?? String(x));
+    out.push(`${band.title}: not ${labels.join(', not ')}`);
+  }
+  return out;
 }
 
 export function FilterPanel(props: {

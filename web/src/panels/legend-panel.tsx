@@ -10,6 +10,7 @@ import {
   legendRange,
 } from '../map/colour-tile';
 import { LAND_COLOUR, SEA_COLOUR } from '../map/base-style';
+import { bandUnitText } from './cell-panel';
 import { displayConversion, displayTitle, formatNumber, type UnitSystem } from '../units/display-units';
 
 function css([r, g, b]: [number, number, number], a = 1): string {
@@ -20,6 +21,12 @@ function css([r, g, b]: [number, number, number], a = 1): string {
 function hatchBackground(): string {
   const stripe = css(HATCH_RGB);
   return `repeating-linear-gradient(45deg, ${stripe} 0 2px, rgba(68, 1, 84, ${HATCH_FILL_ALPHA}) 2px 6px)`;
+}
+
+/** Swatch of a cell outside the filters as the map draws it: the grey veil over the land colour. */
+function fadedSwatch(): string {
+  const veil = css(FADED_RGB, FADED_ALPHA);
+  return `linear-gradient(${veil}, ${veil}), ${LAND_COLOUR}`;
 }
 
 export function LegendPanel(props: {
@@ -65,7 +72,7 @@ export function LegendPanel(props: {
           ))}
         </div>
         <div className="legend-unit" data-testid="legend-unit">
-          {conv.unit || 'no unit'}
+          {bandUnitText(band, units) || 'no unit'}
           {band.legendMin !== undefined || band.legendMax !== undefined
             ? ' (colours clamped at the ends)'
             : ''}
@@ -93,8 +100,7 @@ export function LegendPanel(props: {
         ) : null}
         {filterActive ? (
           <li>
-            <span className="swatch" style={{ background: css(FADED_RGB, FADED_ALPHA + 0.2) }} /> outside the
-            filters
+            <span className="swatch" style={{ background: fadedSwatch() }} /> outside the filters
           </li>
         ) : null}
       </ul>

@@ -1,6 +1,6 @@
 /**
  * The counter: cells and area matching the filters, for the whole region and inside a boundary that
- * the planner draws on the map or imports as GeoJSON.
+ * the planner draws on the map or imports as GeoJSON, with the active filters in words beside it.
  */
 import type { ChangeEvent } from 'react';
 import type { ZonalSummary } from '../filters/zonal-summary';
@@ -25,9 +25,23 @@ function Counts(props: { label: string; s: ZonalSummary; units: UnitSystem; test
   );
 }
 
+function ActiveFilters(props: { filters: string[] }) {
+  if (props.filters.length === 0)
+    return <p className="muted small">No filters: every screened cell counts.</p>;
+  return (
+    <ul className="active-filters small" aria-label="Active filters" data-testid="active-filters">
+      {props.filters.map((f, i) => (
+        <li key={i}>{f}</li>
+      ))}
+    </ul>
+  );
+}
+
 export function SummaryPanel(props: {
   region: ZonalSummary | null;
   zone: ZonalSummary | null;
+  /** The active filters in words (filter-panel.ts activeFilterTexts), shown with the counts. */
+  filters: string[];
   zoneArea_km2: number | null;
   units: UnitSystem;
   drawing: boolean;
@@ -49,6 +63,7 @@ export function SummaryPanel(props: {
       ) : (
         <p className="muted">Counting cells…</p>
       )}
+      <ActiveFilters filters={props.filters} />
       {props.zone ? (
         <Counts
           label={`Inside the boundary (${formatQuantity(props.zoneArea_km2 ?? NaN, 'km²', units, 4)} geodesic)`}

@@ -36,7 +36,14 @@ export interface SaveStatus {
 
 export interface ShortlistStore {
   list(): readonly ShortlistItem[];
+  /**
+   * Add a site. A site at the same place as one already listed (within SAME_PLACE_M) is not added
+   * twice: the listed one is updated (newer values, its metrics merged with the new ones, a study's
+   * origin; name, note and position kept) and returned.
+   */
   add(item: NewShortlistItem): ShortlistItem;
+  /** The listed site at the same place as (lon, lat), if any (within SAME_PLACE_M). */
+  atPlace(lon: number, lat: number): ShortlistItem | undefined;
   update(id: string, patch: Partial<Pick<ShortlistItem, 'name' | 'note' | 'values' | 'metrics'>>): void;
   remove(id: string): void;
   clear(): void;
@@ -207,6 +214,22 @@ function loadSaved(st: StoreState, persistence: ShortlistPersistence): Promise<v
   );
 }
 
+/** Two sites closer than this are the same place, m (well inside one analysis cell of ≥ 1 km). */
+export const SAME_PLACE_M = 25;
+
+/** Great-circle distance, m (haversine, mean Earth radius 6,371 km). */
+function distance_m(lon1: number, lat1: number, lon2: number, lat2: number): number {
+  const rad = Math.PI / 180;
+  const dLat = (lat2 - lat1) * rad;
+  const dLon = (lon2 - lon1) * rad;
+  const a = Math.sin(dLat / 2) ** 2 + Math.cos(lat1 * rad) * Math.cos(lat2 * rad) * Math.sin(dLon / 2) ** 2;
+  return 2 * 6_371_000 * Math.asin(Math.min(1, Math.sqrt(a)));
+}
+
+function findAtPlace(items: readonly ShortlistItem[], lon: number, lat: number): ShortlistItem | undefined {
+  return items.find((it) => distance_m(it.lon, it.lat, lon, lat) < SAME_PLACE_M);
+}
+
 /** A new item from `add`'s input, checked against the item schema (TypeError naming the bad field). */
 function newItem(input: NewShortlistItem, count: number): ShortlistItem {
   const candidate = {
@@ -249,9 +272,23 @@ export function createShortlistStore(backend: ShortlistPersistence | null): Shor
     list: () => st.items,
     add(input) {
       const item = newItem(input, st.items.length);
+      const same = findAtPlace(st.items, item.lon, item.lat);
+      if (same) {
+        // A site studied at a listed place becomes a studied site; its name and note stay the user's.
+        const origin = item.origin === 'site' ? item.origin : same.origin;
+        const merged = {
+          ...same,
+          origin,
+          values: item.values,
+          metrics: { ...same.metrics, ...item.metrics },
+        };
+        commit(st, (list) => list.map((it) => (it.id === same.id ? merged : it)));
+        return merged;
+      }
       commit(st, (list) => [...list, item]);
       return item;
     },
+    atPlace: (lon, lat) => findAtPlace(st.items, lon, lat),
     update(id, patch) {
       commit(st, (list) => list.map((it) => (it.id === id ? { ...it, ...patch } : it)));
     },

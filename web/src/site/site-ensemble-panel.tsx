@@ -88,9 +88,10 @@ export function SiteEnsemblePanel(props: {
     >
       <h3>Ranges over the uncertain inputs</h3>
       <p className="small muted">
-        Runs the simulator {SITE_ENSEMBLE_MEMBERS} times (coarse mesh) with air temperature, amplitude,
-        warming trend, n-factors, water + ice content and geothermal flux varied over their declared spreads
-        (Latin hypercube), to show how sure the result is. Screening estimate, not a design.
+        Runs the simulator {SITE_ENSEMBLE_MEMBERS} times (coarse mesh, steps of at least a week) with air
+        temperature, amplitude, warming trend, n-factors, water + ice content and geothermal flux varied over
+        their declared spreads (Latin hypercube), to show how sure the result is. Screening estimate, not a
+        design.
       </p>
       {state.kind === 'running' ? (
         <div role="status" data-testid="ensemble-progress">

@@ -17,6 +17,7 @@ import {
   type Unwrapped,
 } from './schema-form-model';
 import { fieldId, Messages, NumberField, NumberListField, Toggle, type FormContext } from './form-inputs';
+import { optionTitle } from '../../../layers/site/site-option-titles';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 
@@ -116,7 +117,7 @@ function EnumField({ node, options }: { node: FieldNode; options: readonly (stri
         {value === undefined ? <option value="">{node.defaultText ?? 'choose'}</option> : null}
         {options.map((o) => (
           <option key={String(o)} value={String(o)}>
-            {humanise(String(o))}
+            {optionTitle(String(o))}
           </option>
         ))}
       </select>
@@ -285,10 +286,10 @@ function ObjectGroup({ node, schema }: { node: FieldNode; schema: z.ZodObject })
 
 function optionLabel(o: z.ZodType): string {
   const b = unwrapSchema(o).base;
-  if (b instanceof z.ZodLiteral) return String(b.value);
+  if (b instanceof z.ZodLiteral) return optionTitle(String(b.value));
   if (b instanceof z.ZodObject) {
     for (const child of Object.values(b.shape as Record<string, z.ZodType>)) {
-      if (child instanceof z.ZodLiteral) return String(child.value);
+      if (child instanceof z.ZodLiteral) return optionTitle(String(child.value));
     }
     return Object.keys(b.shape).map(humanise).join(', ').toLowerCase();
   }

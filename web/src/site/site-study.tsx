@@ -9,7 +9,7 @@ import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
-import type { UnitSystem } from '../units/display-units';
+import { displayTitle, formatQuantity, type UnitSystem } from '../units/display-units';
 import type { FormContext } from './form-inputs';
 import { issuesByPath } from './schema-form-model';
 import { siteFieldMeta } from '../../../layers/site/site-input-schema';
@@ -75,26 +75,14 @@ export function SiteStudy(props: {
   const cost = useMemo(() => runCostOf(draft), [draft]);
   const quick = useMemo(() => quickEstimateOf(draft, scenario), [draft, scenario]);
   const { run, blocked, start, cancel } = useSiteRun(scenario);
-  const [added, setAdded] = useState<string | null>(null);
   const heading = useRef<HTMLHeadingElement>(null);
   useModalDialog(heading, props.onClose);
 
   const ctx: FormContext = { root: draft, issues, onChange: setDraft, units };
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
 
-  const addToShortlist = (derived: SiteDerived | null) => {
-    const item = shortlistStore.add({
-      name: place.name,
-      lon: place.lon,
-      lat: place.lat,
-      origin: 'site',
-      values: place.values,
-      metrics: shortlistMetrics(quick, derived, run),
-    });
-    setAdded(
-      `Added “${item.name}” to the shortlist${run.kind === 'done' ? ' with the simulated results' : ''}.`,
-    );
-  };
+  const { added, addToShortlist } = useAddToShortlist(place, quick, run);
+  const { stale, startNow } = useStaleMark(run, draft, issueCount, start);
 
   const overlay = (
     <div
@@ -117,7 +105,7 @@ export function SiteStudy(props: {
         <RunBar
           {...{ run, blocked, issueCount, cost }}
           runLength={prefill.runLength}
-          onStart={() => start(draft)}
+          onStart={startNow}
           onCancel={cancel}
         />
         <div className="site-body">
@@ -125,11 +113,11 @@ export function SiteStudy(props: {
             key={formKey}
             {...{ ctx, issueCount, fieldMeta }}
             prefillNotes={prefill.notes}
-            onSubmit={() => start(draft)}
+            onSubmit={startNow}
           />
           <section className="site-output" aria-label="Site results">
             <SheetHeaderAndCautions place={place} fictional={manifest.fictional} />
-            <SiteResultsOrQuick {...{ run, quick, scenario, units, added }} onAdd={addToShortlist} />
+            <SiteResultsOrQuick {...{ run, quick, scenario, units, added, stale }} onAdd={addToShortlist} />
             <SheetInputs run={run} draft={draft} />
           </section>
         </div>
@@ -139,6 +127,59 @@ export function SiteStudy(props: {
   return createPortal(overlay, document.body);
 }
 
+/** Shortlist the studied place (a second add at the same place updates it) and say which it was. */
+function useAddToShortlist(place: SitePlace, quick: CellScreening | null, run: RunState) {
+  const [added, setAdded] = useState<string | null>(null);
+  const addToShortlist = (derived: SiteDerived | null) => {
+    const listed = shortlistStore.atPlace(place.lon, place.lat);
+    const item = shortlistStore.add({
+      name: place.name,
+      lon: place.lon,
+      lat: place.lat,
+      origin: 'site',
+      values: place.values,
+      metrics: shortlistMetrics(quick, derived, run),
+    });
+    const withResults = run.kind === 'done' ? ' with the simulated results' : '';
+    setAdded(
+      listed
+        ? `“${item.name}” is already on the shortlist at this place: updated${withResults}, not added twice.`
+        : `Added “${item.name}” to the shortlist${withResults}.`,
+    );
+  };
+  return { added, addToShortlist };
+}
+
+/**
+ * The inputs a finished run was started with: once the form differs from them, the results are stale
+ * (issue 18 item 4) and say so, and whether the inputs as they now stand can be run at all.
+ */
+function useStaleMark(run: RunState, draft: unknown, issueCount: number, start: (d: unknown) => void) {
+  const [ranWith, setRanWith] = useState<string | null>(null);
+  const now = useMemo(() => JSON.stringify(draft), [draft]);
+  const startNow = () => {
+    if (issueCount === 0) setRanWith(now);
+    start(draft);
+  };
+  const stale: StaleState =
+    run.kind !== 'done' || ranWith === now ? null : issueCount > 0 ? 'invalid' : 'edited';
+  return { stale, startNow };
+}
+
+type StaleState = null | 'edited' | 'invalid';
+
+/** The mark over results whose inputs were edited after the run. */
+function StaleNote(props: { stale: StaleState }) {
+  if (!props.stale) return null;
+  return (
+    <p className="stale-note" role="status" data-testid="site-stale">
+      {props.stale === 'invalid'
+        ? 'These results are for the inputs of the last run; the inputs have changed since and some need attention (marked in the form). Correct them and run again.'
+        : 'These results are for the inputs of the last run; the inputs have changed since. Run again to update them.'}
+    </p>
+  );
+}
+
 /** The run's results when there is one, else the quick estimate of the inputs; either can be shortlisted. */
 function SiteResultsOrQuick(props: {
   run: RunState;
@@ -146,12 +187,14 @@ function SiteResultsOrQuick(props: {
   scenario: StudyScenario;
   units: UnitSystem;
   added: string | null;
+  stale: StaleState;
   onAdd(d: SiteDerived | null): void;
 }) {
   const { run, added } = props;
   if (run.kind === 'done')
     return (
       <SiteOutcome
+        stale={props.stale}
         outcome={run.outcome}
         quick={props.quick}
         scenario={props.scenario}
@@ -163,7 +206,7 @@ function SiteResultsOrQuick(props: {
   return (
     <>
       <p className="muted">Run the simulation to see the charts. The quick estimate for these inputs:</p>
-      <QuickOnly quick={props.quick} />
+      <QuickOnly quick={props.quick} units={props.units} />
       <button type="button" onClick={() => props.onAdd(null)} data-testid="site-add-shortlist">
         Add to shortlist
       </button>
@@ -176,7 +219,7 @@ function SiteResultsOrQuick(props: {
   );
 }
 
-function QuickOnly(props: { quick: CellScreening | null }) {
+function QuickOnly(props: { quick: CellScreening | null; units: UnitSystem }) {
   const m = props.quick?.metrics;
   if (!m) return <p className="small">No quick estimate for explicit layer properties.</p>;
   const rows: [string, { value: number | null; unit: string }][] = [
@@ -190,8 +233,8 @@ function QuickOnly(props: { quick: CellScreening | null }) {
       <tbody>
         {rows.map(([label, v]) => (
           <tr key={label}>
-            <th scope="row">{label}</th>
-            <td>{v.value === null ? '—' : `${Number(v.value.toPrecision(3))} ${v.unit}`}</td>
+            <th scope="row">{displayTitle(label, v.unit, props.units)}</th>
+            <td>{v.value === null ? '—' : formatQuantity(v.value, v.unit, props.units)}</td>
           </tr>
         ))}
       </tbody>
@@ -206,10 +249,12 @@ function SiteOutcome(props: {
   units: UnitSystem;
   onAdd(d: SiteDerived): void;
   added: string | null;
+  stale: StaleState;
 }) {
   const derived = useSiteDerived(props.outcome, props.scenario);
   return (
-    <div className="site-outcome" data-testid="site-outcome">
+    <div className={props.stale ? 'site-outcome stale' : 'site-outcome'} data-testid="site-outcome">
+      <StaleNote stale={props.stale} />
       <SiteSummaryTable derived={derived} units={props.units} />
       <button type="button" onClick={() => props.onAdd(derived)} data-testid="site-add-shortlist">
         Add to shortlist
