@@ -134,6 +134,13 @@ export const gridEntrySchema = z.strictObject({
    * scenario's default spread for this role.
    */
   uncertainty: gridSpreadSchema.optional(),
+  /**
+   * Companion raster of the standard deviation of this grid, cell by cell, in the same `unit`
+   * (continuous grids only; band 1, its own nodata, which falls back to the role's declared spread).
+   * Read and resampled like the grid itself (data-pipeline/build/sd-grids.ts); the ensemble build
+   * uses it as each cell's standard deviation. Not together with `uncertainty`.
+   */
+  sdFile: z.string().min(1).optional(),
 });
 
 export const inputsConfigSchema = z
@@ -181,6 +188,19 @@ export const inputsConfigSchema = z
             role.kind === 'class'
               ? `${g.role} is a class grid: expected { "confusion": p }`
               : `${g.role} is a continuous grid: expected { "sd": x } or { "relativeSd": f }`,
+        });
+      }
+      if (g.sdFile !== undefined && role.kind === 'class') {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['grids', i, 'sdFile'],
+          message: `${g.role} is a class grid: a standard-deviation grid applies to continuous grids (use "uncertainty": { "confusion": p })`,
+        });
+      } else if (g.sdFile !== undefined && g.uncertainty) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['grids', i, 'sdFile'],
+          message: `${g.role}: give either "uncertainty" or "sdFile", not both`,
         });
       }
       if (g.kind !== role.kind) {

@@ -41,9 +41,17 @@ export async function alignInputs(
   const east = west + grid.width * grid.cellSize_m;
   const south = north - grid.height * grid.cellSize_m;
   for (const [i, input] of inputs.entries()) {
+    if (!input.source.gdal) continue;
+    warpOne(input, join(dir, `${i}-${input.entry.role}.f32`));
+    // A companion standard-deviation grid (sd-grids.ts) is warped exactly like its input.
+    if (input.sd?.source.gdal)
+      warpOne(input.sd, join(dir, `${i}-${input.entry.role}-sd.f32`), input.role.kind);
+    onInput?.(i + 1, inputs.length);
+  }
+
+  function warpOne(input: LoadedInput, dst: string, kind = input.role.kind): void {
     const { source } = input;
-    if (!source.gdal) continue;
-    const dst = join(dir, `${i}-${input.entry.role}.f32`);
+    if (!source.gdal) return;
     const args = [
       '-of',
       'ENVI',
@@ -62,7 +70,7 @@ export async function alignInputs(
       String(grid.width),
       String(grid.height),
       '-r',
-      input.role.kind === 'class' ? 'near' : 'bilinear',
+      kind === 'class' ? 'near' : 'bilinear',
       '-srcnodata',
       source.nodata == null ? 'None' : String(source.nodata),
       '-dstnodata',
@@ -84,6 +92,5 @@ export async function alignInputs(
       throw new InputError(`${source.label}: cannot warp onto the analysis grid (${(err as Error).message})`);
     }
     source.aligned = dst;
-    onInput?.(i + 1, inputs.length);
   }
 }

@@ -155,6 +155,22 @@ export async function assembleManifest(p: ManifestParts): Promise<Manifest> {
             : { netcdf: i.source.netcdf }
           : {}),
       },
+      // The companion standard-deviation grid the ensemble reads as each cell's spread (sd-grids.ts).
+      ...(i.sd
+        ? {
+            standardDeviation: {
+              file: i.sd.entry.file,
+              unit: i.sd.entry.unit,
+              crs: i.sd.source.grid.crs,
+              width: i.sd.source.grid.width,
+              height: i.sd.source.grid.height,
+              sha256: i.sd.source.sha256,
+              nodata: i.sd.source.nodata,
+              scale: i.sd.source.scale,
+              offset: i.sd.source.offset,
+            },
+          }
+        : {}),
     })),
     ...(p.config.settlements ? { settlements: 'settlements.geojson' } : {}),
     ...(p.config.land ? { land: 'land.geojson' } : {}),

@@ -41,6 +41,7 @@ import { faultPoint, type FaultStage } from './fault-points';
 import { checkOutputTarget } from './output-guard';
 import { loadInputs, type InputReader, type LoadedInput } from './load-inputs';
 import { gdalTransformTo } from './align-inputs';
+import { sdGridRoles } from './sd-grids';
 import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { createModelFromSpec, type ModelSpec } from './model-spec';
 import type { BuildDistributor } from './build-distributor';
@@ -254,7 +255,7 @@ async function buildFromInputs(setup: BuildSetup, loaded: Loaded): Promise<Build
 function useDeclaredSpreads(models: ResolvedModel[], config: InputsConfig): void {
   for (const m of models) {
     if (m.spec?.kind === 'ensemble') {
-      m.spec = { ...m.spec, gridSpreads: declaredSpreads(config) };
+      m.spec = { ...m.spec, gridSpreads: declaredSpreads(config), gridSdRoles: sdGridRoles(config) };
       m.model = createModelFromSpec(m.spec);
     }
   }

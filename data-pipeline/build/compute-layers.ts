@@ -123,7 +123,7 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const echoLayers = echoes.map((e) => e.layer);
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
-  const windowInputs: WindowInput[] = inputs.map((i) => ({
+  const windowInput = (i: LoadedInput): WindowInput => ({
     role: i.entry.role,
     kind: i.role.kind,
     grid: i.source.grid,
@@ -134,7 +134,10 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     scale: i.source.scale,
     offset: i.source.offset,
     ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
-  }));
+    ...(i.isSd ? { isSd: true } : {}),
+    ...(i.sd ? { sd: windowInput(i.sd) } : {}),
+  });
+  const windowInputs: WindowInput[] = inputs.map(windowInput);
   const echoRoles = echoes.map((e) => e.role);
   const runner = options.windowRunner;
   if (runner && !spec) throw new Error('computeLayers: a window runner needs a model spec');

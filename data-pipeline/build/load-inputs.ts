@@ -35,6 +35,7 @@ import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { loadGdal } from '../gdal/gdal-wasm';
 import { readBandRows } from './band-files';
 import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
+import { sdEntryOf, sdRoleOf } from './sd-grids';
 
 /** Which reader opens the inputs: GDAL (default) or the earlier hand-written GeoTIFF reader. */
 export type InputReader = 'gdal' | 'legacy';
@@ -67,6 +68,10 @@ export interface LoadedInput {
   entry: GridEntry;
   role: GridRole;
   source: InputSource;
+  /** True for a companion standard-deviation grid (sd-grids.ts). */
+  isSd?: boolean;
+  /** The companion standard-deviation grid of this input, when its entry names `sdFile`. */
+  sd?: LoadedInput;
 }
 
 export interface LoadedInputs {
@@ -112,6 +117,7 @@ async function readGeoJsonLayer(inDir: string, layer: GeoJsonLayer, file: string
  */
 export function convertAndCheck(input: LoadedInput, values: Float32Array, row0: number): void {
   const { entry, role, source } = input;
+  const what = input.isSd ? `standard deviation of ${entry.role} (band 1)` : entry.role;
   const convert = role.units[entry.unit];
   const [lo, hi] = role.range;
   const width = source.grid.width;
@@ -129,7 +135,7 @@ export function convertAndCheck(input: LoadedInput, values: Float32Array, row0: 
         ? `stored ${stored} x scale ${scale} + offset ${offset} from the file's metadata`
         : 'no scale or offset in the file';
       throw new InputError(
-        `${entry.file}: ${entry.role} value ${Number(raw.toPrecision(7))} ${entry.unit} (${how}) at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}) ` +
+        `${entry.file}: ${what} value ${Number(raw.toPrecision(7))} ${entry.unit} (${how}) at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}) ` +
           `outside the plausible range ${lo}..${hi}${role.kind === 'class' ? ' (integer class codes)' : ''} ` +
           `after conversion from "${entry.unit}" (wrong unit or scale declared, or corrupt data?)`,
       );
@@ -151,7 +157,12 @@ const SCAN_CELLS = 1 << 20;
  * Open one input and scan it block by block of rows: unit conversion + range check and the bounding
  * box of its valid pixels. Nothing of the grid is kept: screening reads windows again from the file.
  */
-async function scanInputLegacy(path: string, entry: GridEntry, budget: BuildBudget): Promise<LoadedInput> {
+async function scanInputLegacy(
+  path: string,
+  entry: GridEntry,
+  budget: BuildBudget,
+  sdRole?: GridRole,
+): Promise<LoadedInput> {
   const opened = await openGeoTiffGrid(path, { label: entry.file, nodataOverride: entry.nodata, budget });
   try {
     const { width, height } = opened.header;
@@ -167,12 +178,18 @@ async function scanInputLegacy(path: string, entry: GridEntry, budget: BuildBudg
       scale: 1,
       offset: 0,
     };
-    const input: LoadedInput = { entry, role: GRID_ROLES[entry.role] as GridRole, source };
+    const input: LoadedInput = {
+      entry,
+      role: sdRole ?? (GRID_ROLES[entry.role] as GridRole),
+      source,
+      ...(sdRole ? { isSd: true } : {}),
+    };
     const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
     let [c0, r0, c1, r1] = [Infinity, Infinity, -Infinity, -Infinity];
     for (let y0 = 0; y0 < height; y0 += rows) {
       const y1 = Math.min(height, y0 + rows);
       const values = await readGridWindow(opened, [0, y0, width, y1]);
+      if (sdRole) checkFinite(input, values, y0, opened.nodata);
       convertAndCheck(input, values, y0);
       for (let i = 0; i < values.length; i++) {
         if (values[i] !== values[i]) continue;
@@ -189,6 +206,18 @@ async function scanInputLegacy(path: string, entry: GridEntry, budget: BuildBudg
     return input;
   } finally {
     await opened.close();
+  }
+}
+
+/** A standard-deviation grid: every stored value that is not nodata must be finite. */
+function checkFinite(input: LoadedInput, values: Float32Array, row0: number, nodata: number | null): void {
+  const width = input.source.grid.width;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isFinite(v) || v !== v || (nodata != null && v === Math.fround(nodata))) continue;
+    throw new InputError(
+      `${input.entry.file}: standard deviation of ${input.entry.role} (band 1) is ${v} at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}): expected a finite value >= 0 in ${input.entry.unit}, or the file's nodata`,
+    );
   }
 }
 
@@ -294,6 +323,7 @@ async function scanBand(
       const y1 = Math.min(height, y0 + rows);
       const values = block.subarray(0, (y1 - y0) * width);
       readBandRows(fd, width, y0, y1, values);
+      if (input.isSd) checkFinite(input, values, y0, nodata);
       for (let i = 0; i < values.length; i++) {
         const v = values[i];
         if (v === nodata || v === nodataSingle || !Number.isFinite(v)) values[i] = NaN;
@@ -320,6 +350,7 @@ async function scanInputGdal(
   index: number,
   inDir: string,
   derivedDir: string,
+  sdRole?: GridRole,
 ): Promise<LoadedInput> {
   const derived = await deriveRaster(path, entry, budget, index, derivedDir);
   const netcdf = derived.reading;
@@ -330,7 +361,7 @@ async function scanInputGdal(
     insideDirs: [resolve(inDir), await realpath(inDir), resolve(derivedDir)],
   });
   if (derived.unit !== undefined) opened.fileUnit = derived.unit;
-  const role = GRID_ROLES[entry.role] as GridRole;
+  const role = sdRole ?? (GRID_ROLES[entry.role] as GridRole);
   checkDeclaredUnit(entry, role, opened.fileUnit);
   const source: InputSource = {
     grid: opened.header,
@@ -351,7 +382,7 @@ async function scanInputGdal(
     },
     ...(netcdf ? { netcdf } : {}),
   };
-  const input: LoadedInput = { entry, role, source };
+  const input: LoadedInput = { entry, role, source, ...(sdRole ? { isSd: true } : {}) };
   source.validBox = await scanBand(input, scratch, index);
   source.sha256 = await sha256Of(path);
   return input;
@@ -379,11 +410,20 @@ export async function loadInputs(
   try {
     for (const [i, entry] of config.grids.entries()) {
       const path = await resolveInputFile(inDir, entry.file, `grids.${i}.file`, INPUTS_CONFIG_FILE);
-      inputs.push(
+      const input =
         reader === 'gdal'
           ? await scanInputGdal(path, entry, budget, scratch, i, inDir, derivedDir)
-          : await scanInputLegacy(path, entry, budget),
-      );
+          : await scanInputLegacy(path, entry, budget);
+      if (entry.sdFile !== undefined) {
+        const sdEntry = sdEntryOf({ ...entry, sdFile: entry.sdFile });
+        const sdPath = await resolveInputFile(inDir, entry.sdFile, `grids.${i}.sdFile`, INPUTS_CONFIG_FILE);
+        const sdRole = sdRoleOf(entry.role);
+        input.sd =
+          reader === 'gdal'
+            ? await scanInputGdal(sdPath, sdEntry, budget, scratch, i + 1000, inDir, derivedDir, sdRole)
+            : await scanInputLegacy(sdPath, sdEntry, budget, sdRole);
+      }
+      inputs.push(input);
       onGrid?.(inputs.length, config.grids.length);
     }
   } catch (err) {

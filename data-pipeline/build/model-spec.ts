@@ -22,11 +22,17 @@ export type ModelSpec =
       scenario: unknown;
       /** Spreads the inputs config declares per grid role. */
       gridSpreads?: Partial<Record<SpreadRole, GridSpread>>;
+      /** Roles with a companion standard-deviation grid (sd-grids.ts). */
+      gridSdRoles?: SpreadRole[];
     };
 
 export function createModelFromSpec(spec: ModelSpec): ScreeningModel {
   if (spec.kind === 'basic') return createBasicScreeningModel(spec.options);
   if (spec.kind === 'ensemble')
-    return createEnsembleModel({ scenario: spec.scenario, gridSpreads: spec.gridSpreads });
+    return createEnsembleModel({
+      scenario: spec.scenario,
+      gridSpreads: spec.gridSpreads,
+      gridSdRoles: spec.gridSdRoles,
+    });
   return createScreeningModel(spec.scenario);
 }

@@ -14,11 +14,13 @@ import {
   type CellInputs,
   type ScreeningModel,
 } from '../../layers/screening/screening-model';
+import { SPREAD_ROLES } from '../../layers/screening/uncertainty-schema';
 import { GRID_ROLES, type GridRoleId } from '../inputs-config';
 import { readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import type { AnalysisGrid } from './analysis-grid';
 import { closeBandFds, openBandFds, readBandRows, writeBandRows, type BandFiles } from './band-files';
 import { cellCentresIn, footprintBox, resampleAt } from './resample-to-grid';
+import { unitConversion } from './sd-grids';
 
 /** Flag bits of the inputFlags band: which optional input was absent in the cell. */
 export const INPUT_FLAG_BITS = { groundTemp_C: 1, geothermalFlux_W_m2: 2, nFreeze: 4 } as const;
@@ -39,6 +41,10 @@ export interface WindowInput {
   offset: number;
   /** Raw Float32 file already on the analysis grid (align-inputs.ts); else `path` is resampled here. */
   aligned?: string;
+  /** True for a companion standard-deviation grid: converted with the unit's linear part (sd-grids.ts). */
+  isSd?: boolean;
+  /** The input's companion standard-deviation grid, if its inputs-config entry names one. */
+  sd?: WindowInput;
 }
 
 /** Images opened by a screener, one per input file, kept open across its windows (closed by `close`). */
@@ -58,7 +64,7 @@ function readAligned(
     fds.set(input.aligned, fd);
   }
   const values = readBandRows(fd, width, row0, row1);
-  const convert = (GRID_ROLES[input.role].units as Record<string, (v: number) => number>)[input.unit];
+  const convert = unitConversion(input.role, input.unit, input.isSd === true);
   const { scale, offset } = input;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
@@ -78,7 +84,7 @@ async function sampleInput(
 ): Promise<Float32Array> {
   const box = footprintBox(input.grid, coords);
   if (!box) return new Float32Array(coords.length / 2).fill(NaN);
-  const convert = (GRID_ROLES[input.role].units as Record<string, (v: number) => number>)[input.unit];
+  const convert = unitConversion(input.role, input.unit, input.isSd === true);
   let opened = cache.get(input.path);
   if (!opened) {
     const tiff = await fromFile(input.path);
@@ -141,7 +147,10 @@ export interface WindowScreener {
   close: () => Promise<void>;
 }
 
-/** Every grid role's values over rows [row0, row1) (all NaN for a role without an input). */
+/**
+ * Every grid role's values over rows [row0, row1) (all NaN for a role without an input), and the
+ * standard deviations of the roles with a companion grid.
+ */
 async function sampleWindow(
   ctx: WindowContext,
   row0: number,
@@ -149,20 +158,21 @@ async function sampleWindow(
   coordsFor: (crs: string) => Float64Array,
   cache: ImageCache,
   inputFds: Map<string, number>,
-): Promise<Map<GridRoleId, Float32Array>> {
+): Promise<{ sampled: Map<GridRoleId, Float32Array>; sds: [number, Float32Array][] }> {
   const count = (row1 - row0) * ctx.grid.width;
   const empty = new Float32Array(count).fill(NaN);
   const sampled = new Map<GridRoleId, Float32Array>();
+  const sds: [number, Float32Array][] = [];
+  const read = (input: WindowInput) =>
+    input.aligned
+      ? readAligned({ ...input, aligned: input.aligned }, ctx.grid.width, row0, row1, inputFds)
+      : sampleInput(input, coordsFor(input.grid.crs), cache);
   for (const r of ROLES) sampled.set(r, empty);
   for (const input of ctx.inputs) {
-    sampled.set(
-      input.role,
-      input.aligned
-        ? readAligned({ ...input, aligned: input.aligned }, ctx.grid.width, row0, row1, inputFds)
-        : await sampleInput(input, coordsFor(input.grid.crs), cache),
-    );
+    sampled.set(input.role, await read(input));
+    if (input.sd) sds.push([SPREAD_ROLES.indexOf(input.role), await read(input.sd)]);
   }
-  return sampled;
+  return { sampled, sds };
 }
 
 /** Writes the window's bands into `into` (files holding grid rows from `into.row0`). */
@@ -193,6 +203,8 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
   let bands: Float32Array[] = [];
   const cell: CellInputs = emptyCellInputs();
   const cellRecord = cell as unknown as Record<string, number>;
+  // Per-cell standard deviations from companion grids, indexed as SPREAD_ROLES (NaN: none).
+  const cellSd = new Float64Array(SPREAD_ROLES.length).fill(NaN);
 
   const screen = async (row0: number, row1: number, into: BandFiles = files) => {
     const stats = emptyStats();
@@ -212,7 +224,7 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
     }
     for (const band of bands) band.fill(NaN);
     const flagsBand = bands[bands.length - 1];
-    const sampled = await sampleWindow(ctx, row0, row1, coordsFor, cache, inputFds);
+    const { sampled, sds } = await sampleWindow(ctx, row0, row1, coordsFor, cache, inputFds);
     const required = REQUIRED.map((r) => sampled.get(r) as Float32Array);
     const all = ROLES.map((r) => sampled.get(r) as Float32Array);
     const texture = sampled.get('textureClass') as Float32Array;
@@ -236,7 +248,8 @@ export function createWindowScreener(ctx: WindowContext): WindowScreener {
       const lon = lonLat[2 * k];
       const lat = lonLat[2 * k + 1];
       cell.latitude_deg = lat;
-      model.evaluate(cell, out, row0 * grid.width + k);
+      for (const [r, values] of sds) cellSd[r] = values[k];
+      model.evaluate(cell, out, row0 * grid.width + k, sds.length > 0 ? cellSd : undefined);
       const index = k;
       let anyFinite = false;
       for (let b = 0; b < nModel; b++) {

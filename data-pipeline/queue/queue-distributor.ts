@@ -31,7 +31,7 @@ import type {
   SubtreeContext,
   SubtreeResults,
 } from '../build/build-distributor';
-import type { WindowStats } from '../build/screen-window';
+import type { WindowInput, WindowStats } from '../build/screen-window';
 import {
   JOB_FORMAT,
   jobIdOf,
@@ -42,6 +42,7 @@ import {
   type BuildJobData,
   type BuildJobResult,
   type ScreenContext,
+  type SharedInput,
   type ScreenJobData,
   type ScreenJobResult,
   type TileContext,
@@ -133,19 +134,21 @@ export async function createQueueDistributor(o: QueueDistributorOptions): Promis
 
 /** Copy the inputs into shared storage under their checksums and store the screening context there. */
 async function prepareScreen(shared: string, c: ScreenJobContext): Promise<ScreenState> {
-  const inputs: ScreenContext['inputs'] = [];
-  for (const [i, input] of c.inputs.entries()) {
-    const { path, aligned, ...rest } = input;
+  // A companion standard-deviation grid (sd-grids.ts) travels with its input, under its own checksum.
+  const ship = async (input: WindowInput, fileSha256?: string): Promise<SharedInput> => {
+    const { path, aligned, sd, ...rest } = input;
+    const withSd = sd ? { sd: await ship(sd) } : {};
     if (aligned) {
       // Inputs GDAL warped onto the analysis grid travel as that raw grid, under its own checksum.
       const sha256 = await sha256OfFile(aligned);
       const rel = await putInput(shared, aligned, sha256, input.label);
-      inputs.push({ ...rest, sha256, rel, alignedInShared: true });
-      continue;
+      return { ...rest, sha256, rel, alignedInShared: true, ...withSd };
     }
-    const sha256 = c.inputSha256[i];
-    inputs.push({ ...rest, sha256, rel: await putInput(shared, path, sha256, input.label) });
-  }
+    const sha256 = fileSha256 ?? (await sha256OfFile(path));
+    return { ...rest, sha256, rel: await putInput(shared, path, sha256, input.label), ...withSd };
+  };
+  const inputs: SharedInput[] = [];
+  for (const [i, input] of c.inputs.entries()) inputs.push(await ship(input, c.inputSha256[i]));
   const scenarioChecksum = await putObject(shared, c.spec);
   const ctx: ScreenContext = {
     format: JOB_FORMAT,
@@ -154,7 +157,9 @@ async function prepareScreen(shared: string, c: ScreenJobContext): Promise<Scree
     inputs,
     echoRoles: c.echoRoles,
     bandCount: c.bandCount,
-    inputsChecksum: sha256Text(canonicalJson(inputs.map((i) => [i.role, i.sha256, i.unit, i.nodata]))),
+    inputsChecksum: sha256Text(
+      canonicalJson(inputs.map((i) => [i.role, i.sha256, i.unit, i.nodata, ...(i.sd ? [i.sd.sha256] : [])])),
+    ),
     scenarioChecksum,
   };
   const key = await putObject(shared, ctx);

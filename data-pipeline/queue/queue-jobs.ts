@@ -20,6 +20,15 @@ export const JOB_FORMAT = 1;
 /** Rows screened at a time inside a job (the local build's window). */
 export const WINDOW_ROWS = 32;
 
+/** An input as a queued screener reads it: its file in shared storage, checksum, and companion grid. */
+export type SharedInput = Omit<WindowInput, 'path' | 'aligned' | 'sd'> & {
+  rel: string;
+  sha256: string;
+  alignedInShared?: boolean;
+  /** Its companion standard-deviation grid (data-pipeline/build/sd-grids.ts), shipped the same way. */
+  sd?: SharedInput;
+};
+
 /** objects/<sha>.json: what every screening job of a build shares. */
 export interface ScreenContext {
   format: number;
@@ -27,11 +36,7 @@ export interface ScreenContext {
   grid: AnalysisGrid;
   /** The inputs as a screener reads them, each with its file in shared storage and its checksum. */
   /** `alignedInShared`: the shared file is the input already warped onto the analysis grid. */
-  inputs: (Omit<WindowInput, 'path' | 'aligned'> & {
-    rel: string;
-    sha256: string;
-    alignedInShared?: boolean;
-  })[];
+  inputs: SharedInput[];
   echoRoles: GridRoleId[];
   bandCount: number;
   /** sha256 of the canonical list of the inputs' sha256 (with their roles). */

@@ -18,7 +18,13 @@ import { Worker, type Job } from 'bullmq';
 import { createBandFiles, type BandFiles } from '../build/band-files';
 import { faultPoint } from '../build/fault-points';
 import { createModelFromSpec, type ModelSpec } from '../build/model-spec';
-import { createWindowScreener, emptyStats, mergeStats, type WindowScreener } from '../build/screen-window';
+import {
+  createWindowScreener,
+  emptyStats,
+  mergeStats,
+  type WindowInput,
+  type WindowScreener,
+} from '../build/screen-window';
 import { createTileRenderer } from '../tiles/write-tile-pyramid';
 import {
   describeJob,
@@ -29,6 +35,7 @@ import {
   type BuildJobData,
   type BuildJobResult,
   type ScreenContext,
+  type SharedInput,
   type ScreenJobData,
   type ScreenJobResult,
   type TileContext,
@@ -126,12 +133,18 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
 async function loadScreenContext(shared: string, key: string): Promise<ScreenEntry> {
   const ctx = await getObject<ScreenContext>(shared, key);
   const spec = await getObject<ModelSpec>(shared, ctx.scenarioChecksum);
-  const inputs = [];
-  for (const i of ctx.inputs) {
-    const { rel, sha256, alignedInShared, ...input } = i;
+  const local = async (i: SharedInput): Promise<WindowInput> => {
+    const { rel, sha256, alignedInShared, sd, ...input } = i;
     const path = await verifiedInput(shared, rel, sha256);
-    inputs.push({ ...input, path, ...(alignedInShared ? { aligned: path } : {}) });
-  }
+    return {
+      ...input,
+      path,
+      ...(alignedInShared ? { aligned: path } : {}),
+      ...(sd ? { sd: await local(sd) } : {}),
+    };
+  };
+  const inputs: WindowInput[] = [];
+  for (const i of ctx.inputs) inputs.push(await local(i));
   const unused: BandFiles = { paths: [], width: ctx.grid.width, height: 0 };
   const screener = createWindowScreener({
     grid: ctx.grid,

@@ -87,14 +87,24 @@ export interface EnsembleOptions {
   scenario?: unknown;
   /** Spreads declared by the inputs config, per grid role; they replace the scenario's defaults. */
   gridSpreads?: Partial<Record<SpreadRole, GridSpread>>;
+  /**
+   * Roles whose standard deviation comes per cell from a companion grid (`cellSd` of `evaluate`);
+   * where the cell's value is NaN the role's declared spread applies.
+   */
+  gridSdRoles?: readonly SpreadRole[];
 }
 
 export interface EnsembleModel extends ScreeningModel {
   scenario: Scenario;
   /** The effective uncertainty: the scenario's, with the inputs config's grid spreads applied. */
   uncertainty: ScenarioUncertainty;
-  /** Evaluate one cell; `cellIndex` (its index on the analysis grid) seeds its own hypercube columns. */
-  evaluate(cell: CellInputs, out: Float32Array, cellIndex?: number): void;
+  /** Roles with a per-cell standard-deviation grid (recorded in the manifest beside the spreads). */
+  gridSdRoles: SpreadRole[];
+  /**
+   * Evaluate one cell; `cellIndex` (its index on the analysis grid) seeds its own hypercube columns;
+   * `cellSd` (indexed as SPREAD_ROLES) holds its standard deviations from companion grids.
+   */
+  evaluate(cell: CellInputs, out: Float32Array, cellIndex?: number, cellSd?: Float64Array): void;
 }
 
 function scaledSoil(t: SoilTable, f: number): SoilTable {
@@ -244,11 +254,19 @@ function drawMemberInputs(
   cellCols: Float64Array[],
   cellSeed: number,
   j: number,
+  sdOfRole: Float64Array,
 ): void {
   for (let d = 0; d < spreadRoles.length; d++) {
     const r = spreadRoles[d];
     const v = cellRecord[r];
     if (v !== v) continue; // optional grid absent: the scenario default (and its distribution) applies
+    const cellSd = sdOfRole[d];
+    if (cellSd === cellSd) {
+      // The cell's own standard deviation (companion grid).
+      const [lo, hi] = INPUT_RANGE[r];
+      memberRecord[r] = clip(v + cellSd * normalQuantile(cellCols[d][j]), lo, hi);
+      continue;
+    }
     const g = u.grids[r];
     const uj = cellCols[d][j];
     if ('confusion' in g) {
@@ -282,11 +300,19 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const { members, warmingFactor } = memberSet(s, u);
   const perm = new Int32Array(n);
 
-  // Grid dimensions with a spread.
-  const spreadRoles = SPREAD_ROLES.filter((r) => {
-    const g = u.grids[r];
-    return 'sd' in g ? g.sd > 0 : 'relativeSd' in g ? g.relativeSd > 0 : g.confusion > 0;
-  });
+  // Grid dimensions with a declared spread, then those with a standard-deviation grid (appended, so
+  // that a grid of zeros leaves every other dimension's draws as they are without it).
+  const sdRoles = SPREAD_ROLES.filter((r) => options.gridSdRoles?.includes(r));
+  const spreadRoles = [
+    ...SPREAD_ROLES.filter((r) => {
+      if (sdRoles.includes(r)) return false;
+      const g = u.grids[r];
+      return 'sd' in g ? g.sd > 0 : 'relativeSd' in g ? g.relativeSd > 0 : g.confusion > 0;
+    }),
+    ...sdRoles,
+  ];
+  const roleIndex = spreadRoles.map((r) => SPREAD_ROLES.indexOf(r));
+  const sdOfRole = new Float64Array(spreadRoles.length).fill(NaN);
   const scratch = createKernelScratch();
   const m = new Float64Array(METRIC_COUNT);
   const baseOut = new Float64Array(METRIC_COUNT);
@@ -299,7 +325,8 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const memberCell: CellInputs = emptyCellInputs();
   const memberRecord = memberCell as unknown as Record<string, number>;
 
-  const evaluate = (cell: CellInputs, out: Float32Array, cellIndex = 0): void => {
+  const evaluate = (cell: CellInputs, out: Float32Array, cellIndex = 0, cellSd?: Float64Array): void => {
+    for (let d = 0; d < spreadRoles.length; d++) sdOfRole[d] = cellSd ? cellSd[roleIndex[d]] : NaN;
     evaluateRobust(cell, baseRc, scratch, baseOut, baseWork);
     for (let i = 0; i < nBase; i++) out[i] = baseOut[i];
     const cellSeed = fmix32((u.seed + Math.imul(cellIndex + 1, 0x9e3779b1)) >>> 0);
@@ -310,7 +337,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
       Object.assign(memberCell, cell);
       // Not clipped: a member outside the kernel's range is reported as outside the data, like the cell itself.
       memberCell.warming_C_per_yr = cell.warming_C_per_yr * warmingFactor[j];
-      drawMemberInputs(memberRecord, cellRecord, spreadRoles, u, cellCols, cellSeed, j);
+      drawMemberInputs(memberRecord, cellRecord, spreadRoles, u, cellCols, cellSeed, j, sdOfRole);
       evaluateCellMetrics(memberCell, members[j], scratch, m);
       for (let q = 0; q < rangeIdx.length; q++) ranges[q][j] = m[rangeIdx[q]];
       classes[j] = m[METRIC.suitability];
@@ -334,6 +361,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   return {
     scenario: s,
     uncertainty: u,
+    gridSdRoles: sdRoles,
     layers,
     evaluate,
   };

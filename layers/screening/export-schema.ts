@@ -8,6 +8,8 @@
  *   <band>_<unit>             each continuous band, its unit in the name (groundTemp_degC, thawDelay_yr)
  *   <band>_class, _label      each class band: the integer class code and its label in words
  *   <band>_qualifier          bands bounded by the climate horizon: "after 2100", "≥ 45 yr", or null
+ *                             (an ensemble build's bands are bands like any other: pilesPerTonP10_piles_per_ton,
+ *                             successProbability, robustClass_class and _label; none without an ensemble)
  *   cautions                  the screening cautions (layers/cautions.ts)
  *   fictionalData             the demo-data notice (builds from invented data only)
  * The web puts the site's name, note and rank before it and the site metrics, scenario and provenance

@@ -86,6 +86,20 @@ export const inputSourceSchema = z.object({
    * mapping and time selection.
    */
   reading: z.record(z.string(), z.unknown()).optional(),
+  /** Companion grid of this input's standard deviation, in the same unit (the ensemble's per-cell spread). */
+  standardDeviation: z
+    .object({
+      file: z.string(),
+      unit: z.string(),
+      crs: z.string(),
+      width: z.number().int().positive(),
+      height: z.number().int().positive(),
+      sha256: z.string().regex(/^[0-9a-f]{64}$/),
+      nodata: z.number().nullable(),
+      scale: z.number(),
+      offset: z.number(),
+    })
+    .optional(),
 });
 
 export const manifestSchema = z.object({

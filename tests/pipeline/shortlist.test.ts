@@ -7,6 +7,10 @@ import { compileWhere, type ExpressionBand } from '../../data-pipeline/shortlist
 import { SCREENING_CAUTION } from '../../layers/cautions';
 import { haversine_km } from '../../layers/screening/proximity';
 import { createTransform } from '../../data-pipeline/crs/crs-definitions';
+import { bandColumnName, exportColumns, exportValue } from '../../layers/screening/export-schema';
+import { RANGE_METRICS } from '../../layers/screening/cell-ensemble-model';
+import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
+import { exportProperties } from '../../web/src/shortlist/shortlist-export';
 import { makeTempDir, runCli, SMALL_DEMO, smallDemo, removeTempDirs } from './pipeline-fixtures';
 
 afterAll(removeTempDirs);
@@ -157,6 +161,107 @@ describe('pile-atlas shortlist on a built demo', () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr.trim().split('\n')).toHaveLength(1);
     expect(bad.stderr).toMatch(/"cold" at position 14 is not a number/);
+  });
+  it('adds no ensemble columns to a build without an ensemble', async () => {
+    const { code, stdout } = await runCli(['shortlist', '--tiles', tilesDir, '--where', 'not excluded']);
+    expect(code).toBe(0);
+    const fc = JSON.parse(stdout);
+    expect(fc.features.length).toBeGreaterThan(0);
+    const names = [...Object.keys(fc.features[0].properties), ...Object.keys(fc.units)];
+    expect(names.filter((n) => /P(10|50|90)|successProbability|robustClass|classAgreement/.test(n))).toEqual(
+      [],
+    );
+  });
+});
+
+describe('pile-atlas shortlist on an ensemble build (issue 14)', () => {
+  let tilesDir: string;
+  let manifest: Manifest;
+
+  beforeAll(async () => {
+    const inDir = await smallDemo();
+    tilesDir = join(await makeTempDir('shortlist-ensemble'), 'tiles');
+    await buildTiles({
+      inDir,
+      outDir: tilesDir,
+      cellSize_m: SMALL_DEMO.cellSize_m,
+      workers: 1,
+      ensemble: { members: 8, seed: 11 },
+    });
+    manifest = manifestSchema.parse(JSON.parse(await readFile(join(tilesDir, 'manifest.json'), 'utf8')));
+  }, 300_000);
+
+  it('carries P10/P50/P90 of the key figures, probability of success and robust class, as the web does', async () => {
+    const where = 'successProbability >= 0.5 and not excluded';
+    const { code, stdout, stderr } = await runCli(['shortlist', '--tiles', tilesDir, '--where', where]);
+    expect(code, stderr).toBe(0);
+    const fc = JSON.parse(stdout);
+    expect(fc.features.length).toBeGreaterThan(10);
+    // Units in the column names and in the collection's units table, like every other band.
+    expect(fc.units.pilesPerTonP10_piles_per_ton).toBe('piles/ton');
+    expect(fc.units.thawDelayP50_yr).toBe('yr');
+    expect(fc.units.groundTempEndP90_degC).toBe('°C');
+    expect(fc.units.successProbability).toBe('1');
+    expect(fc.units.robustClass_class).toBe('class code');
+    const planes = new Map<string, Float32Array>();
+    for (const id of [
+      'pilesPerTonP10',
+      'pilesPerTonP50',
+      'pilesPerTonP90',
+      'successProbability',
+      'robustClass',
+    ])
+      planes.set(id, (await readGeoTiffGrid(join(tilesDir, `geotiff/${id}.tif`), { label: id })).grid.values);
+    const robustLabels = manifest.bands.find((b) => b.id === 'robustClass')!.classes!.map((c) => c.label);
+    expect(robustLabels).toContain('uncertain');
+    const shared = exportColumns(manifest).map((c) => c.name);
+    let ordered = 0;
+    for (const f of fc.features) {
+      const p = f.properties;
+      for (const m of RANGE_METRICS) {
+        const band = manifest.bands.find((b) => b.id === `${m}P10`)!;
+        const [lo, mid, hi] = ['P10', 'P50', 'P90'].map(
+          (q) => p[bandColumnName({ ...band, id: `${m}${q}` })],
+        );
+        expect(lo === undefined || mid === undefined || hi === undefined).toBe(false);
+        if (lo !== null && mid !== null && hi !== null) {
+          // Percentiles are ordered (Hyndman & Fan 1996, definition 7, monotone in p).
+          expect(lo).toBeLessThanOrEqual(mid);
+          expect(mid).toBeLessThanOrEqual(hi);
+          ordered++;
+        }
+      }
+      expect(p.successProbability).toBeGreaterThanOrEqual(0.5);
+      expect(p.successProbability).toBeLessThanOrEqual(1);
+      expect(robustLabels).toContain(p.robustClass_label);
+      // The values are the build's, rounded by the schema (piles per ton 0.1: export-schema.ts).
+      const cell = p.cellRow * manifest.analysisGrid.width + p.cellCol;
+      const p50 = { id: 'pilesPerTonP50', unit: 'piles/ton', kind: 'continuous' as const };
+      expect(p.pilesPerTonP50_piles_per_ton).toBe(exportValue(p50, planes.get('pilesPerTonP50')![cell]));
+      expect(p.robustClass_class).toBe(planes.get('robustClass')![cell]);
+      // The web's export of the same place has the same columns and values for the shared record.
+      const values: Record<string, number | null> = {};
+      for (const [id, plane] of planes) values[id] = Number.isNaN(plane[cell]) ? null : plane[cell];
+      const item = { id: 'x', name: 's', note: '', lon: p.lon_deg, lat: p.lat_deg, addedAt: '' };
+      const web = exportProperties({ ...item, origin: 'map', values, metrics: {} }, 1, manifest);
+      for (const k of [
+        'pilesPerTonP10_piles_per_ton',
+        'pilesPerTonP90_piles_per_ton',
+        'successProbability',
+        'robustClass_label',
+      ])
+        expect(web[k], k).toBe(p[k]);
+      expect(Object.keys(web).filter((k) => shared.includes(k))).toEqual(
+        Object.keys(p).filter((k) => shared.includes(k)),
+      );
+    }
+    expect(ordered).toBeGreaterThan(fc.features.length);
+    // And --where takes the robust class by its label.
+    const robust = await runCli(['shortlist', '--tiles', tilesDir, '--where', 'robustClass = uncertain']);
+    expect(robust.code, robust.stderr).toBe(0);
+    const uncertain = JSON.parse(robust.stdout);
+    expect(uncertain.features.length).toBeGreaterThan(0);
+    for (const f of uncertain.features) expect(f.properties.robustClass_label).toBe('uncertain');
   });
 });
 

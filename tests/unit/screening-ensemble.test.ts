@@ -7,7 +7,11 @@ import {
 import { createScreeningModel, parseCellInputs } from '../../layers/screening/cell-screening-model';
 import { METRIC, METRIC_COUNT } from '../../layers/screening/cell-layers';
 import { parseScenario } from '../../layers/screening/scenario';
-import { zeroSpread, scenarioUncertaintySchema } from '../../layers/screening/uncertainty-schema';
+import {
+  SPREAD_ROLES,
+  zeroSpread,
+  scenarioUncertaintySchema,
+} from '../../layers/screening/uncertainty-schema';
 import { inputsConfigSchema } from '../../data-pipeline/inputs-config';
 import type { CellInputs } from '../../layers/screening/screening-model';
 
@@ -131,6 +135,32 @@ describe('per-cell ensemble', () => {
     // sd 1.5 K of air temperature moves TTOP by about n-factor-weighted 1 K: the P10-P90 range opens.
     expect(o2[i10 + 2] - o2[i10]).toBeGreaterThan(1);
   });
+
+  it("takes a cell's own standard deviation from a companion grid (cellSd), NaN falling back", () => {
+    const base = { uncertainty: zeroSpread(scenarioUncertaintySchema.parse({ members: 32 })) };
+    const plain = createEnsembleModel({ scenario: base });
+    const withGrid = createEnsembleModel({ scenario: base, gridSdRoles: ['meanAirTemp_C'] });
+    expect(withGrid.gridSdRoles).toEqual(['meanAirTemp_C']);
+    const declared = createEnsembleModel({ scenario: base, gridSpreads: { meanAirTemp_C: { sd: 1.5 } } });
+    const i10 = plain.layers.findIndex((l) => l.id === 'groundTempEndP10');
+    const run = (m: typeof plain, sd?: number) => {
+      const o = new Float32Array(m.layers.length);
+      const cellSd = new Float64Array(SPREAD_ROLES.length).fill(NaN);
+      if (sd !== undefined) cellSd[SPREAD_ROLES.indexOf('meanAirTemp_C')] = sd;
+      m.evaluate(demoCell, o, 3, cellSd);
+      return o;
+    };
+    // σ = 0 in the cell: exactly the ensemble without a spread for the role.
+    expect(Array.from(run(withGrid, 0))).toEqual(Array.from(run(plain)));
+    // NaN (companion grid nodata): the declared spread, here none.
+    expect(Array.from(run(withGrid))).toEqual(Array.from(run(plain)));
+    // σ = 1.5 K from the grid: the same draws as a declared constant sd of 1.5 K (one dimension, same
+    // hash stream), so the same range.
+    const g = run(withGrid, 1.5);
+    const d = run(declared);
+    expect(g[i10 + 2] - g[i10]).toBeGreaterThan(1);
+    expect(Array.from(g)).toEqual(Array.from(d));
+  });
 });
 
 describe('uncertainty declarations', () => {
@@ -172,5 +202,43 @@ describe('uncertainty declarations', () => {
     const paths = r.error?.issues.map((i) => i.path.join('.')) ?? [];
     expect(paths).toContain('grids.0.uncertainty');
     expect(paths).toContain('grids.1.uncertainty');
+  });
+
+  it('take a companion standard-deviation grid for continuous grids only, not with a declared spread', () => {
+    const config = (grids: unknown[]) => ({
+      formatVersion: 1,
+      region: { name: 'x', fictional: true },
+      provenance: '',
+      licence: '',
+      grids,
+    });
+    const ok = inputsConfigSchema.safeParse(
+      config([
+        { role: 'meanAirTemp_C', file: 'a.tif', unit: 'degC', kind: 'continuous', sdFile: 'a-sd.tif' },
+        { role: 'airAmplitude_C', file: 'b.tif', unit: 'K', kind: 'continuous' },
+        { role: 'warming_C_per_yr', file: 'c.tif', unit: 'K/yr', kind: 'continuous' },
+        { role: 'textureClass', file: 'd.tif', unit: 'class', kind: 'class' },
+        { role: 'waterContent_m3m3', file: 'e.tif', unit: 'm3/m3', kind: 'continuous' },
+        { role: 'bedrockDepth_m', file: 'f.tif', unit: 'm', kind: 'continuous' },
+      ]),
+    );
+    expect(ok.success, JSON.stringify(ok.error?.issues)).toBe(true);
+    const bad = inputsConfigSchema.safeParse(
+      config([
+        { role: 'textureClass', file: 'd.tif', unit: 'class', kind: 'class', sdFile: 'd-sd.tif' },
+        {
+          role: 'meanAirTemp_C',
+          file: 'a.tif',
+          unit: 'degC',
+          kind: 'continuous',
+          sdFile: 'a-sd.tif',
+          uncertainty: { sd: 1 },
+        },
+      ]),
+    );
+    expect(bad.success).toBe(false);
+    const messages = bad.error?.issues.map((i) => `${i.path.join('.')}: ${i.message}`) ?? [];
+    expect(messages.some((m) => /^grids\.0\.sdFile: textureClass is a class grid/.test(m))).toBe(true);
+    expect(messages.some((m) => /^grids\.1\.sdFile: .*not both/.test(m))).toBe(true);
   });
 });

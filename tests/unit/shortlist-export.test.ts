@@ -10,7 +10,22 @@ import {
 } from '../../web/src/shortlist/shortlist-export';
 import type { ShortlistItem } from '../../web/src/shortlist/shortlist-item';
 import { BAND_REGISTRY } from '../../layers/screening/band-registry';
-import { bandColumnName, exportStep, exportValue, roundToStep } from '../../layers/screening/export-schema';
+import {
+  bandColumnName,
+  exportColumns,
+  exportRecord,
+  exportStep,
+  exportUnits,
+  exportValue,
+  roundToStep,
+} from '../../layers/screening/export-schema';
+import {
+  createEnsembleModel,
+  RANGE_METRICS,
+  UNCERTAIN_CLASS,
+} from '../../layers/screening/cell-ensemble-model';
+import { createScreeningModel } from '../../layers/screening/cell-screening-model';
+import { bandFor } from '../../data-pipeline/build/assemble-manifest';
 import { testManifest } from './web-test-manifest';
 
 const manifest = testManifest();
@@ -156,5 +171,72 @@ describe('shared export schema (layers/screening/export-schema.ts)', () => {
     expect(exportValue({ id: 'thawDelay', unit: 'yr', kind: 'continuous' }, 22.46)).toBe(22.5);
     expect(exportValue({ id: 'costSaved', unit: 'CAD/yr', kind: 'continuous' }, 1234.5678)).toBe(1235);
     expect(exportValue({ id: 'groundTemp', unit: '°C', kind: 'continuous' }, NaN)).toBeNull();
+  });
+});
+
+describe('ensemble ranges in the shared export schema (issue 14)', () => {
+  // The bands of an ensemble build and of the same build without one, as the build lists them.
+  const values = new Float32Array([0.2, 4]);
+  const ens = createEnsembleModel({ scenario: { uncertainty: { members: 4 } } });
+  const det = createScreeningModel({});
+  const ensManifest = testManifest({ bands: ens.layers.map((l) => bandFor(l, values)) });
+  const detManifest = testManifest({ bands: det.layers.map((l) => bandFor(l, values)) });
+
+  it('carries P10/P50/P90 of each key figure with its unit, success probability and robust class', () => {
+    const cols = exportColumns(ensManifest);
+    const byName = new Map(cols.map((c) => [c.name, c]));
+    for (const id of RANGE_METRICS) {
+      const base = ensManifest.bands.find((b) => b.id === id)!;
+      for (const p of ['P10', 'P50', 'P90']) {
+        const slug = unitSlug(base.unit);
+        const name = slug ? `${id}${p}_${slug}` : `${id}${p}`;
+        expect(byName.get(name), name).toEqual({ name, type: 'real', unit: base.unit || '1' });
+      }
+    }
+    expect(byName.get('pilesPerTonP10_piles_per_ton')?.unit).toBe('piles/ton');
+    expect(byName.get('thawDelayP90_yr')?.unit).toBe('yr');
+    expect(byName.get('successProbability')).toEqual({ name: 'successProbability', type: 'real', unit: '1' });
+    expect(byName.get('robustClass_class')).toEqual({
+      name: 'robustClass_class',
+      type: 'integer',
+      unit: 'class code',
+    });
+    expect(byName.get('robustClass_label')?.type).toBe('text');
+    expect(exportUnits(ensManifest)['groundTempEndP50_degC']).toBe('°C');
+  });
+
+  it('rounds the ranges like their key figure and labels the robust class in words', () => {
+    const raw: Record<string, number> = {
+      pilesPerTonP10: 11.04,
+      pilesPerTonP50: 12.46,
+      pilesPerTonP90: 15.951,
+      groundTempEndP10: -3.4567,
+      successProbability: 0.87549,
+      robustClass: UNCERTAIN_CLASS,
+    };
+    const r = exportRecord(ensManifest, -3, 75, (id) => raw[id]);
+    // Steps of export-schema.ts EXPORT_STEPS (common practice): piles per ton 0.1, °C 0.01, shares 0.001.
+    expect(r.pilesPerTonP10_piles_per_ton).toBe(11);
+    expect(r.pilesPerTonP50_piles_per_ton).toBe(12.5);
+    expect(r.pilesPerTonP90_piles_per_ton).toBe(16);
+    expect(r.groundTempEndP10_degC).toBe(-3.46);
+    expect(r.successProbability).toBe(0.875);
+    expect(r.robustClass_class).toBe(UNCERTAIN_CLASS);
+    expect(r.robustClass_label).toBe('uncertain');
+    // A range not computed for the cell (fewer than half the members defined) is empty, not 0.
+    expect(r.thawDelayP50_yr).toBeNull();
+    // The cautions stay on every record.
+    expect(String(r.cautions)).toContain('Screening estimate, not a design');
+  });
+
+  it('adds nothing when the build has no ensemble', () => {
+    const names = exportColumns(detManifest).map((c) => c.name);
+    const ensNames = exportColumns(ensManifest).map((c) => c.name);
+    expect(names.some((n) => /P(10|50|90)|successProbability|robustClass|classAgreement/.test(n))).toBe(
+      false,
+    );
+    // The ensemble build's columns are the deterministic build's plus the range columns, in the same order.
+    expect(ensNames.filter((n) => names.includes(n))).toEqual(names);
+    expect(ensNames.length - names.length).toBe(RANGE_METRICS.length * 3 + 4);
   });
 });
