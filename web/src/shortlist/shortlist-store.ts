@@ -23,6 +23,7 @@ import { z } from 'zod';
 import { shortlistItemSchema, type NewShortlistItem, type ShortlistItem } from './shortlist-item';
 import { saveFailureMessage, type SavedSite, type ShortlistPersistence } from './shortlist-persistence';
 import { indexedDbPersistence } from './indexeddb-persistence';
+import { greatCircle_m } from '../data/cell-table';
 import { formatZodIssues } from '../../../layers/validation-error';
 
 export interface SaveStatus {
@@ -217,17 +218,8 @@ function loadSaved(st: StoreState, persistence: ShortlistPersistence): Promise<v
 /** Two sites closer than this are the same place, m (well inside one analysis cell of ≥ 1 km). */
 export const SAME_PLACE_M = 25;
 
-/** Great-circle distance, m (haversine, mean Earth radius 6,371 km). */
-function distance_m(lon1: number, lat1: number, lon2: number, lat2: number): number {
-  const rad = Math.PI / 180;
-  const dLat = (lat2 - lat1) * rad;
-  const dLon = (lon2 - lon1) * rad;
-  const a = Math.sin(dLat / 2) ** 2 + Math.cos(lat1 * rad) * Math.cos(lat2 * rad) * Math.sin(dLon / 2) ** 2;
-  return 2 * 6_371_000 * Math.asin(Math.min(1, Math.sqrt(a)));
-}
-
 function findAtPlace(items: readonly ShortlistItem[], lon: number, lat: number): ShortlistItem | undefined {
-  return items.find((it) => distance_m(it.lon, it.lat, lon, lat) < SAME_PLACE_M);
+  return items.find((it) => greatCircle_m([it.lon, it.lat], [lon, lat]) < SAME_PLACE_M);
 }
 
 /** A new item from `add`'s input, checked against the item schema (TypeError naming the bad field). */
