@@ -267,7 +267,7 @@ function layersFromCell(
 }
 
 /** The map's standard pile as the calibration models it (module comment), with the map's resistance. */
-function standardPileDraft(s: Scenario, maat: number, amp: number): SiteInputDraft['pile'] {
+export function standardPileDraft(s: Scenario, maat: number, amp: number): SiteInputDraft['pile'] {
   const p = s.pile;
   return {
     length_m: p.length_m,
