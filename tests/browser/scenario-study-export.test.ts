@@ -116,7 +116,12 @@ describe('scenario set: study under every scenario, exports with every scenario'
     await page.click('[data-testid=run-site]');
     await page.waitForSelector('[data-testid=site-outcome]', { timeout: 420_000 });
     await page.click('[data-testid=sweep-start]');
-    await page.waitForSelector('[data-testid=sweep-progress]', { timeout: 30_000 });
+    await page
+      .waitForSelector('[data-testid=sweep-progress]', { timeout: 30_000 })
+      .catch(async (e: unknown) => {
+        const text = await page.locator('[data-testid=scenario-sweep]').textContent();
+        throw new Error(`no progress; the panel reads: ${text}; ${String(e)}`);
+      });
     await page.click('[data-testid=sweep-cancel]');
     await page.getByText('Runs under every scenario cancelled.').waitFor({ timeout: 10_000 });
     await page.click('[data-testid=sweep-start]');

@@ -75,13 +75,13 @@ export function useScenarioSweep(manifest: Manifest, dataBase: URL | undefined) 
   const [state, setState] = useState<SweepState>({ kind: 'idle' });
   const handle = useRef<SitePoolHandle<SitePoolResult> | null>(null);
   const live = useRef(true);
-  useEffect(
-    () => () => {
+  useEffect(() => {
+    live.current = true;
+    return () => {
       live.current = false;
       handle.current?.cancel();
-    },
-    [],
-  );
+    };
+  }, []);
   const start = async (draft: unknown) => {
     if (!dataBase) return;
     const t0 = performance.now();
