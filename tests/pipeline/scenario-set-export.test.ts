@@ -25,7 +25,8 @@ import {
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import { shortlistFromGeoJSON, shortlistToGeoJSON } from '../../web/src/shortlist/shortlist-export';
 import type { ShortlistItem } from '../../web/src/shortlist/shortlist-item';
-import { makeTempDir, removeTempDirs, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
+import { loadGdal } from '../../data-pipeline/gdal/gdal-wasm';
+import { makeTempDir, removeTempDirs, runCli, SMALL_DEMO, smallDemo } from './pipeline-fixtures';
 
 afterAll(removeTempDirs);
 
@@ -113,6 +114,39 @@ describe('scenario-set export', () => {
     expect(fc.units[`${prefix}thawDelay_yr`]).toBe('yr');
     expect(fc.units[`${prefix}groundTempEnd_degC`]).toBe('°C');
     expect(fc.units[`${prefix}suitability_class`]).toBe('class code');
+  });
+
+  it('writes the groups into the CLI’s GeoPackage as typed columns, the values of the GeoJSON', async () => {
+    const dir = await makeTempDir('set-export-gpkg');
+    const out = join(dir, 'picks.geojson');
+    const r = await runCli(['shortlist', '--tiles', outDir, '--where', 'not excluded', '--out', out]);
+    expect(r.code).toBe(0);
+    const fc = JSON.parse(await readFile(out, 'utf8')) as { features: Feature[] };
+    const want = fc.features[0].properties ?? {};
+    const gdal = await loadGdal();
+    const info = gdal.vectorInfo(join(dir, 'picks.gpkg'), [
+      '-features',
+      '-where',
+      `cellCol = ${want.cellCol} AND cellRow = ${want.cellRow}`,
+    ]) as {
+      layers: {
+        name: string;
+        fields: { name: string; type: string }[];
+        features?: { properties: Record<string, unknown> }[];
+      }[];
+    };
+    const layer = info.layers.find((l) => l.name === 'shortlist')!;
+    const types = Object.fromEntries(layer.fields.map((f) => [f.name, f.type]));
+    const high = scenarioColumnPrefix(set.scenarios[2].name);
+    expect(types[`${high}thawDelay_yr`]).toBe('Real');
+    expect(types[`${high}suitability_class`]).toBe('Integer');
+    expect(types[`${high}scenario`]).toBe('String');
+    const got = layer.features![0].properties;
+    for (const s of set.scenarios) {
+      const prefix = scenarioColumnPrefix(s.name);
+      for (const col of ['scenario', 'suitability_class', 'thawDelay_yr', 'groundTempEnd_degC'])
+        expect(got[`${prefix}${col}`], `${prefix}${col}`).toEqual(want[`${prefix}${col}`]);
+    }
   });
 
   it('a web export with the groups still re-imports to the shown scenario’s values', () => {
