@@ -288,6 +288,7 @@ export function PlaceSide(props: {
           selection={selection}
           settlements={atlas.settlements}
           units={choices.units}
+          dataBase={atlas.dataBase}
         />
       ) : null}
       {selection ? (
@@ -310,6 +311,7 @@ export function PlaceSide(props: {
         sort={choices.sort}
         onSort={choices.setSort}
         land={atlas.land}
+        dataBase={atlas.dataBase}
         onLocate={props.onLocate}
       />
     </aside>

@@ -4,7 +4,9 @@
  * GeoJSON: RFC 7946 FeatureCollection of Points, coordinates [lon, lat] in WGS 84 with no `crs`
  * member; every numeric property carries its unit in its name (`groundTemp_degC`, `lon_deg`); each
  * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
- * data provenance of the build, so the file still explains itself when it is passed on. Columns, units
+ * data provenance of the build, so the file still explains itself when it is passed on; with a
+ * scenario-set build also every scenario's key figures at the site (scenario-figures.ts, one column
+ * group per scenario, the export schema's). Columns, units
  * and rounding are the export schema the CLI shares (layers/screening/export-schema.ts): values in the
  * build's stored units (SI; piles per ton) whatever the unit switch shows. A GeoPackage of a shortlist
  * comes from the CLI (`pile-atlas shortlist --out`, beside the GeoJSON): GDAL is too heavy for the browser.
@@ -21,6 +23,7 @@ import {
   type ExportValue,
 } from '../../../layers/screening/export-schema';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
+import type { ScenarioFigures } from './scenario-figures';
 import { formatZodIssues } from '../../../layers/validation-error';
 
 export { EXPORT_CAUTIONS, unitSlug } from '../../../layers/screening/export-schema';
@@ -53,7 +56,12 @@ export function exportProperties(
   item: ShortlistItem,
   rank: number,
   manifest: Manifest,
+  figures: ScenarioFigures | null = null,
 ): Record<string, PropertyValue> {
+  const scenarios = figures && {
+    sets: figures.sets,
+    valueOf: (i: number, id: string) => figures.values.get(item.id)?.[i]?.[id],
+  };
   const p: Record<string, PropertyValue> = {
     rank,
     name: item.name,
@@ -61,13 +69,15 @@ export function exportProperties(
     addedAt: item.addedAt,
     origin: item.origin,
     pileAtlasId: item.id,
-    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id]),
+    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id], scenarios ?? undefined),
   };
   for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;
   p.scenario = manifest.scenario ?? null;
   // A scenario-set build: the scenario these values come from and every scenario's region figures.
   if (manifest.scenarioSet) {
-    p.scenarioName = manifest.scenarioSet.current;
+    // The scenario the site's values were taken under (recorded when it was added), else the one shown.
+    const recorded = item.metrics.scenario;
+    p.scenarioName = typeof recorded === 'string' ? recorded : manifest.scenarioSet.current;
     p.scenarioSet = Object.fromEntries(
       manifest.scenarioSet.scenarios.map((s) => [
         s.name,
@@ -80,7 +90,11 @@ export function exportProperties(
 }
 
 /** RFC 7946 FeatureCollection of the shortlist in the given (ranked) order. */
-export function shortlistToGeoJSON(items: readonly ShortlistItem[], manifest: Manifest) {
+export function shortlistToGeoJSON(
+  items: readonly ShortlistItem[],
+  manifest: Manifest,
+  figures: ScenarioFigures | null = null,
+) {
   return {
     type: 'FeatureCollection' as const,
     features: items.map((item, i) => ({
@@ -89,7 +103,7 @@ export function shortlistToGeoJSON(items: readonly ShortlistItem[], manifest: Ma
         type: 'Point' as const,
         coordinates: [roundToStep(item.lon, 1e-6), roundToStep(item.lat, 1e-6)],
       },
-      properties: exportProperties(item, i + 1, manifest),
+      properties: exportProperties(item, i + 1, manifest, figures),
     })),
   };
 }
@@ -104,13 +118,18 @@ export function csvCell(value: PropertyValue | undefined): string {
 }
 
 /** CSV (RFC 4180, CRLF line ends) with the same columns as the GeoJSON properties. */
-export function shortlistToCsv(items: readonly ShortlistItem[], manifest: Manifest): string {
-  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest));
+export function shortlistToCsv(
+  items: readonly ShortlistItem[],
+  manifest: Manifest,
+  figures: ScenarioFigures | null = null,
+): string {
+  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest, figures));
   const columns: string[] = [];
   const template = exportProperties(
     { id: '', name: '', note: '', lon: 0, lat: 0, addedAt: '', origin: 'map', values: {}, metrics: {} },
     0,
     manifest,
+    figures,
   );
   for (const k of Object.keys(template)) columns.push(k);
   for (const r of rows) for (const k of Object.keys(r)) if (!columns.includes(k)) columns.push(k);
