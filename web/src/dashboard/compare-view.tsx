@@ -109,10 +109,11 @@ export function CompareControl({ manifest, compare }: { manifest: Manifest; comp
           data-testid="compare-mode"
           value={compare.link.mode}
           onChange={(e) => compare.setLink({ mode: e.target.value === 'swipe' ? 'swipe' : 'side' })}
-          aria-label="How to show the two scenarios"
+          aria-label="How to show the two scenarios: side by side, or one map with a swipe divider"
+          title="Side by side: two maps. Swipe: one map, a divider between the two scenarios"
         >
           <option value="side">side by side</option>
-          <option value="swipe">swipe (one map, a divider)</option>
+          <option value="swipe">swipe</option>
         </select>
       )}
     </span>

@@ -74,7 +74,7 @@ export function TopBar(props: {
 }) {
   const { manifest } = props;
   return (
-    <header className="topbar">
+    <header className={props.compare.slug !== null ? 'topbar comparing' : 'topbar'}>
       <h1>
         Pile Atlas <span className="muted">· {manifest.region.name}</span>
       </h1>
