@@ -25,7 +25,7 @@
  * reach it is outside the linear model (its outlet would approach the ground temperature).
  * The piles carry q_m = min(r_m, max(0, c_m(a))) of the requested r_m, and the annual average is the
  * fixed point a = mean_m q_m (the right-hand side falls as a grows: one root in [0, mean r], found by
- * bisection to 1e-6 of the request). The fluid bound on the annual average, for the display of the
+ * bisection to 1e-10 of the request). The fluid bound on the annual average, for the display of the
  * operating window, is that fixed point where some month is cut; where none is, it is the request scaled
  * up until the first month reaches the limit, λ·mean r with λ = min_m α_m/(r_m + β·mean r) (≥ 1), so the
  * bound is continuous where the first month starts to be cut.
@@ -101,7 +101,7 @@ export function bivalentOperation(p: BivalentInput, out: BivalentResult): Bivale
   out.requested_W = mean;
   let lo = 0;
   let hi = mean;
-  const tol = 1e-6 * mean;
+  const tol = 1e-10 * mean;
   while (hi - lo > tol) {
     const mid = 0.5 * (lo + hi);
     if (carriedAt(mid, r, beta) > mid) lo = mid;
