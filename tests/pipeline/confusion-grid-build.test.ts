@@ -107,7 +107,7 @@ beforeAll(async () => {
     minCellsForWorkers: 0,
     geotiff: false,
   });
-}, 400_000);
+}, 900_000);
 
 /** West / east of the grid's edge (cells within `margin` degrees of it left out), per analysis cell. */
 async function sides(margin: number): Promise<('west' | 'east' | null)[]> {
