@@ -26,7 +26,7 @@ beforeAll(async () => {
     features: { geometry: { coordinates: [number, number] } }[];
   };
   site = settlements.features[0].geometry.coordinates;
-}, 300_000);
+}, 900_000);
 
 afterAll(async () => {
   await s?.close();
