@@ -53,26 +53,35 @@ async function variant(
   Object.assign(entry, edit);
   await replaceFile(dir, INPUTS_CONFIG_FILE, JSON.stringify(config, null, 2));
   if (grid) {
-    // Same georeferencing as the input (EPSG:4326 in the demo), the value by the pixel centre's longitude.
+    // Same georeferencing as the input (the demo's texture grid is in EPSG:3413), the value by the
+    // longitude of the pixel centre.
     const tiff = await fromFile(join(dir, entry.file));
     const image = await tiff.getImage();
+    const keys = image.getGeoKeys() as Record<string, number | undefined>;
+    const projected = keys.ProjectedCSTypeGeoKey;
+    const epsg = projected ?? keys.GeographicTypeGeoKey ?? 4326;
+    const toLon = createTransform(`EPSG:${epsg}`, 'EPSG:4326');
     const [west, north] = image.getOrigin();
     const [px, py] = image.getResolution();
     const width = image.getWidth();
     const height = image.getHeight();
+    midLon = toLon(west + (width * px) / 2, north + (height * py) / 2)[0];
     const values = new Float32Array(width * height);
-    for (let i = 0; i < values.length; i++) values[i] = grid(west + ((i % width) + 0.5) * px);
+    for (let i = 0; i < values.length; i++) {
+      const x = west + ((i % width) + 0.5) * px;
+      const y = north + (Math.floor(i / width) + 0.5) * py;
+      values[i] = grid(toLon(x, y)[0]);
+    }
     const metadata: GeotiffWriterMetadata = {
       width,
       height,
       ModelPixelScale: [px, Math.abs(py), 0],
       ModelTiepoint: [0, 0, 0, west, north, 0],
-      GTModelTypeGeoKey: 2,
+      GTModelTypeGeoKey: projected ? 1 : 2,
       GTRasterTypeGeoKey: 1,
-      GeographicTypeGeoKey: 4326,
+      ...(projected ? { ProjectedCSTypeGeoKey: projected } : { GeographicTypeGeoKey: epsg }),
     };
     await replaceFile(dir, CONFUSION_FILE, new Uint8Array(writeArrayBuffer(values, metadata)));
-    midLon = west + (width * px) / 2;
     await tiff.close();
   }
   return dir;
@@ -137,7 +146,7 @@ describe('companion confusion-probability grid', () => {
   });
 
   it('high in the western half makes places uncertain and widens ranges there, not in the east', async () => {
-    // Nearest-neighbour warping: half an input pixel (0.25° in the small demo) from the edge is enough.
+    // Nearest-neighbour warping: cells within 0.5° of longitude (about 14 km here) of the edge left out.
     const side = await sides(0.5);
     const [robustH, robustN] = await Promise.all([band('half', 'robustClass'), band('none', 'robustClass')]);
     let west = 0;
