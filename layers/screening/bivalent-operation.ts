@@ -25,7 +25,7 @@
  * reach it is outside the linear model (its outlet would approach the ground temperature).
  * The piles carry q_m = min(r_m, max(0, c_m(a))) of the requested r_m, and the annual average is the
  * fixed point a = mean_m q_m (the right-hand side falls as a grows: one root in [0, mean r], found by
- * bisection to 1e-10 of the request, then solved exactly on the months' states there). The fluid bound on the annual average, for the display of the
+ * bisection to 1e-7 of the request, then solved exactly on the months' states there). The fluid bound on the annual average, for the display of the
  * operating window, is that fixed point where some month is cut; where none is, it is the request scaled
  * up until the first month reaches the limit, λ·mean r with λ = min_m α_m/(r_m + β·mean r) (≥ 1), so the
  * bound is continuous where the first month starts to be cut.
@@ -99,6 +99,7 @@ function carriedAt(a: number, r: Float64Array, beta: number): number {
 function exactOnActiveSet(a0: number, r: Float64Array, beta: number): number {
   let sum = 0;
   let cut = 0;
+  let states = 0;
   for (let m = 0; m < MONTHS; m++) {
     const cap = ALPHA[m] - beta * a0;
     if (cap <= 0) continue;
@@ -106,10 +107,18 @@ function exactOnActiveSet(a0: number, r: Float64Array, beta: number): number {
     else {
       sum += ALPHA[m];
       cut++;
+      states |= 1 << m;
     }
   }
   const a = sum / (MONTHS + beta * cut);
-  return Math.abs(a - a0) <= 1e-6 * Math.max(1, Math.abs(a0)) ? a : a0;
+  // Accept it only if every month keeps its state there (same months giving nothing, cut, in full).
+  for (let m = 0; m < MONTHS; m++) {
+    const c0 = ALPHA[m] - beta * a0;
+    const c1 = ALPHA[m] - beta * a;
+    if (c0 <= 0 !== c1 <= 0) return a0;
+    if (c1 > 0 && r[m] > c1 !== ((states >> m) & 1) > 0) return a0;
+  }
+  return a;
 }
 
 /** Carried, requested and the fluid bound of one pile in bivalent operation (module comment). */
@@ -122,7 +131,7 @@ export function bivalentOperation(p: BivalentInput, out: BivalentResult): Bivale
   out.requested_W = mean;
   let lo = 0;
   let hi = mean;
-  const tol = 1e-10 * mean;
+  const tol = 1e-7 * mean;
   while (hi - lo > tol) {
     const mid = 0.5 * (lo + hi);
     if (carriedAt(mid, r, beta) > mid) lo = mid;
