@@ -15,6 +15,8 @@ import {
   exportColumns,
   exportRecord,
   exportUnits,
+  UNIT_SYSTEM_NAME,
+  type UnitSystem,
   EXPORT_CAUTIONS,
   type ExportColumn,
   type ExportValue,
@@ -38,6 +40,8 @@ export interface ShortlistOptions {
   /** Keep only places within `within_km` of this settlement (its name, any letter case). */
   near?: string;
   within_km?: number;
+  /** The unit system of the values and column names (default SI, the stored units). */
+  units?: UnitSystem;
 }
 
 async function readManifest(tilesDir: string): Promise<Manifest> {
@@ -261,8 +265,12 @@ function shortlistMembers(
     scenario: scenario?.name ?? null,
     model: manifest.parameters.model ?? null,
     build: { tool: manifest.tool, createdAt: manifest.createdAt },
+    unitSystem: UNIT_SYSTEM_NAME[options.units ?? 'SI'],
     // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
-    units: { ...Object.fromEntries(CELL_COLUMNS.map((c) => [c.name, c.unit])), ...exportUnits(manifest) },
+    units: {
+      ...Object.fromEntries(CELL_COLUMNS.map((c) => [c.name, c.unit])),
+      ...exportUnits(manifest, options.units),
+    },
     sources: manifest.sources.map((s) => ({
       file: s.file,
       role: s.role,
@@ -299,14 +307,20 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
     inRadius: (lon, lat) => near === null || haversine_km([lon, lat], near.lonLat) <= within_km,
     hasNear: near !== null,
     recordOf: (cell, lon, lat) =>
-      exportRecord(manifest, lon, lat, (id) => {
-        const b = bandIndex.get(id);
-        return b === undefined ? undefined : planes[b][cell];
-      }),
+      exportRecord(
+        manifest,
+        lon,
+        lat,
+        (id) => {
+          const b = bandIndex.get(id);
+          return b === undefined ? undefined : planes[b][cell];
+        },
+        options.units,
+      ),
     toLonLat,
     fromLonLat,
   };
-  const recordColumns = exportColumns(manifest);
+  const recordColumns = exportColumns(manifest, options.units);
   const taken = new Set([...CELL_COLUMNS, ...recordColumns].map((c) => c.name));
   const { settlements, columns: settlementColumns } = options.settlements
     ? await readSettlements(tilesDir, manifest, taken)

@@ -273,7 +273,7 @@ function ShortlistActions(props: {
           onClick={() =>
             downloadFile(
               `pile-atlas-shortlist-${stamp}.geojson`,
-              JSON.stringify(shortlistToGeoJSON(sorted, manifest), null, 2),
+              JSON.stringify(shortlistToGeoJSON(sorted, manifest, props.units), null, 2),
               'application/geo+json',
             )
           }
@@ -285,7 +285,11 @@ function ShortlistActions(props: {
           disabled={none}
           data-testid="export-csv"
           onClick={() =>
-            downloadFile(`pile-atlas-shortlist-${stamp}.csv`, shortlistToCsv(sorted, manifest), 'text/csv')
+            downloadFile(
+              `pile-atlas-shortlist-${stamp}.csv`,
+              shortlistToCsv(sorted, manifest, props.units),
+              'text/csv',
+            )
           }
         >
           Export CSV
