@@ -168,7 +168,7 @@ export function exportStep(
   const step = EXPORT_STEPS[band.unit];
   if (step === undefined) return null;
   const { factor } = exportConversion(band.unit, system);
-  return factor === 1 ? step : 10 ** Math.floor(Math.log10(step * factor) + 1e-9);
+  return factor === 1 ? step : Number(`1e${Math.floor(Math.log10(step * factor) + 1e-9)}`);
 }
 
 /** The export's value type of a band's column: class codes and calendar years are integers. */

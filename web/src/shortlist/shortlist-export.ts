@@ -37,8 +37,7 @@ export { EXPORT_CAUTIONS, unitSlug } from '../../../layers/screening/export-sche
 type PropertyValue = ExportValue | boolean | Record<string, unknown>;
 
 /** Property name of a band in exports (the shared schema's column: band id plus unit, or `_class`). */
-export const bandPropertyName = (band: Band, system: UnitSystem = 'SI'): string =>
-  bandColumnName(band, system);
+export const bandPropertyName = (band: Band): string => bandColumnName(band);
 
 /**
  * The units of the metric keys that carry one (a key ends in its SI unit, shortlist-item.ts), longest
@@ -52,13 +51,16 @@ const METRIC_UNITS: ReadonlyArray<readonly [suffix: string, unit: string]> = [
   ['_m', 'm'],
 ];
 
-/** A metric's export name (`metric_` + key, its unit suffix in the system's unit) and value. */
+/**
+ * A metric's export name and value: `metric_` + key (SI: as stored; North American: the unit suffix
+ * replaced by the converted unit, `lowestFluid_C` -> `lowestFluid_degF`, the value converted).
+ */
 export function exportMetric(
   key: string,
   value: number | string | null,
   system: UnitSystem,
 ): [string, number | string | null] {
-  const hit = METRIC_UNITS.find(([suffix]) => key.endsWith(suffix));
+  const hit = system === 'NA' ? METRIC_UNITS.find(([suffix]) => key.endsWith(suffix)) : undefined;
   if (!hit) return [`metric_${key}`, value];
   const c = exportConversion(hit[1], system);
   const name = `metric_${key.slice(0, -hit[0].length)}_${unitSlug(c.unit)}`;
@@ -72,6 +74,7 @@ export function importMetric(
   system: UnitSystem,
 ): [string, number | string | null] {
   const key = name.slice('metric_'.length);
+  if (system === 'SI') return [key, value];
   for (const [suffix, unit] of METRIC_UNITS) {
     const c = exportConversion(unit, system);
     const tail = `_${unitSlug(c.unit)}`;
