@@ -40,6 +40,7 @@ const NORTH_AMERICAN: Record<string, UnitConversion> = {
   mm: { unit: 'in', factor: 1 / 25.4, offset: 0 },
   km: { unit: 'mi', factor: 1000 / 1609.344, offset: 0 },
   'm²': { unit: 'ft²', factor: FT_PER_M * FT_PER_M, offset: 0 },
+  'm³': { unit: 'ft³', factor: FT_PER_M ** 3, offset: 0 },
   'km²': { unit: 'mi²', factor: 1e6 / (1609.344 * 1609.344), offset: 0 },
   W: { unit: 'Btu/h', factor: BTU_H_PER_W, offset: 0 },
   kW: { unit: 'ton', factor: 1000 / W_PER_TON, offset: 0 },

@@ -304,6 +304,11 @@ function ShortlistActions(props: {
           />
         </label>
       </div>
+      <p className="small" data-testid="export-units">
+        Exports in{' '}
+        {props.units === 'NA' ? 'North American units (°F, ft, mi, Btu/h)' : 'SI units (°C, m, km, W)'}, as
+        the unit switch shows; the file says which, and Import reads either.
+      </p>
       {message ? (
         <p className="small" role="status">
           {message}

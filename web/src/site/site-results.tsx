@@ -175,7 +175,7 @@ export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; u
       ) : null}
       {d.sizing?.ok ? (
         <div className="chart-block">
-          <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} />
+          <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} units={units} />
         </div>
       ) : null}
     </div>

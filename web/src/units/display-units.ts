@@ -4,6 +4,7 @@
  * web and the CLI); this module adds the display's formatting.
  */
 import { displayConversion, type UnitSystem } from '../../../layers/unit-systems';
+import { siQuantityText, type NotePart } from '../../../layers/note-parts';
 
 export {
   displayConversion,
@@ -55,4 +56,28 @@ export function displayTitle(title: string, unit: string, system: UnitSystem): s
   if (/\bkW\b/.test(shown)) return title.replace(/\bper ton\b/g, 'per kW');
   if (/\bton\b/.test(shown)) return title.replace(/\bper kW\b/g, 'per ton');
   return title;
+}
+
+/**
+ * A unit label for running text: a temperature difference reads '°F', not '°F (difference)' (the
+ * sentence says it is a drop or a rise).
+ */
+export function proseUnit(unit: string): string {
+  return unit.replace(/\s+\([a-z ]+\)$/, '');
+}
+
+/**
+ * A note of words and quantities (layers/note-parts.ts) in the chosen system: SI as the note writes
+ * it; North American with each quantity converted and written to 3 significant figures.
+ */
+export function formatNoteParts(parts: readonly NotePart[], system: UnitSystem): string {
+  return parts
+    .map((p) => {
+      if (typeof p === 'string') return p;
+      const c = displayConversion(p.unit, system);
+      if (c.factor === 1 && c.offset === 0) return siQuantityText({ ...p, unit: c.unit });
+      const text = formatNumber(p.value * c.factor + c.offset, 3);
+      return c.unit ? `${text} ${proseUnit(c.unit)}` : text;
+    })
+    .join('');
 }
