@@ -8,8 +8,9 @@
  * conduction and checked against the analytical field response in its own tests. The calibration
  * therefore compares the model's *one-pile* form with the simulator's pile, each pile carrying what one
  * pile of the standard building carries: the model run with `building.foundationPiles` = 1 and the
- * building's heat-loss coefficient divided by the standard pile count (16), the simulator's pile
- * extracting that model's carried load with the model's own monthly load profile. Everything that is not
+ * building's heat-loss coefficient divided by the standard pile count (16), the simulator's pile in
+ * building mode with the standard building's load shared by 16 piles (the same load per pile), as the
+ * site study runs it. Everything that is not
  * superposition (ground temperature, active layer, n-factors, monthly lag, pile resistance, phase change,
  * warming, thaw at the reference point) is compared like for like. A bracket
  * (`groupBracket`) runs the simulator's pile inside an adiabatic cylinder of the group's plan area per
@@ -21,20 +22,32 @@
  *  - active layer, m: model activeLayer | no-pile annual thaw depth, mean of years 2–3;
  *  - end-of-life ground at the pile's mid-depth, °C (no piles): model groundTempEnd | no-pile probe,
  *    mean over the design life's last year;
- *  - lowest monthly mean fluid over the design life at the model's carried load, °C: model's monthly
- *    response (monthly-peak.ts without the 6-hour pulse the monthly simulator cannot resolve) | the
- *    simulator's mean of inlet and outlet;
- *  - heat per pile at the fluid limit (annual mean, W, monthly resolution: the mean fluid of the limiting
- *    month at the limit): model monthlyPeakPerPile_W with the peak equal to the month's mean | the
- *    simulator's carried load scaled by (ground − limit)/(ground − fluid) in its coldest-fluid month, its
- *    own ground that month (linear in the load about the run, which is at or near the limit when the fluid
- *    binds); piles per ton and load share follow from it (same building, same COP);
+ *  - lowest monthly mean fluid over the design life, °C: the model's monthly response at its bivalent
+ *    monthly loads (bivalent-operation.ts; monthly-peak.ts without the 6-hour pulse the simulator's
+ *    steps cannot resolve) | the simulator's monthly mean of inlet and outlet;
+ *  - heat per pile carried, annual mean over the design life, W: model extractionCarried × length (the
+ *    piles carry each month's request up to what the fluid limit allows, backup heat the rest) | the
+ *    simulator's pile in building mode (one pile's share of the standard building's load line, the heat
+ *    pump cutting a step's draw to hold its entering fluid at the limit: site-operation.ts), the mean
+ *    ground extraction of the first design-life years;
+ *  - load share over the design life: model loadShare | delivered / (delivered + backup) of those years;
+ *  - piles per ton for the standard building (its N-pile field, the design-day peak): model pilesPerTon
+ *    of the standard scenario | the study's three-pulse sizing from the simulated ground of the same run
+ *    (run-site-study.ts, the full sizing only), its count × one ton / the design-day peak;
  *  - thaw at the reference point without and with the pile, and the delay, yr, up to the scenario's
  *    climate horizon (the simulator runs from the start year to the horizon; a thaw after it is "after").
  */
 import { simulateSite } from '../layers/site/simulate-site';
+import { siteInputSchema, type SiteInput, type SiteResult } from '../layers/site/site-input-schema';
+import { energyByYear } from '../layers/site/site-energy';
+import { sizeSiteByPulse } from '../layers/site/site-sizing';
+import { designDayLoad_W } from '../layers/site/site-load-line';
+import type { ProfileColumn } from '../layers/site/site-profile';
+import { studyFoundation, studyRunInput } from '../layers/screening/run-site-study';
+import { standardLoadAtColdestAir_W, standardPileDraft } from '../layers/screening/site-prefill';
+import { TON_W } from '../layers/screening/cell-kernel';
 import { createRandom } from '../data-pipeline/demo/seeded-random';
-import { SITE_DEFAULTS, type SiteInputDraft } from '../layers/site/site-input-schema';
+import type { SiteInputDraft } from '../layers/site/site-input-schema';
 import { SECONDS_PER_YEAR } from '../layers/physics/surface-forcing';
 import type { CellInputs } from '../layers/screening/screening-model';
 import { TEXTURE_CODES, type TextureCode } from '../layers/screening/screening-model';
@@ -42,8 +55,7 @@ import { buildCellConstants, soilAt } from '../layers/screening/cell-constants';
 import { createKernelScratch, evaluateCellMetrics } from '../layers/screening/cell-kernel';
 import { METRIC, METRIC_COUNT } from '../layers/screening/cell-layers';
 import { flsResponse } from '../layers/screening/response-tables';
-import { monthAnomaly_K, monthlyPeakPerPile_W, MONTHS } from '../layers/screening/monthly-peak';
-import { meanFluidFromEntering_C } from '../layers/physics/fluid-temperature-convention';
+import { monthAnomaly_K, MONTHS } from '../layers/screening/monthly-peak';
 import { SiteFluidLimitError } from '../layers/site/site-bounds';
 import { THAW_HORIZON } from '../layers/screening/climate-horizon';
 import { BINDING } from '../layers/screening/operating-window';
@@ -97,10 +109,16 @@ export interface CalibrationOptions {
   domainRadius_m: number;
 }
 
-/** The simulator's own defaults (its default step, standard mesh, 20 m radius). */
+/**
+ * The calibration's numerics: the simulator's coarse mesh and 7-day steps (20 m radius), as the site
+ * study's ensemble members run (layers/screening/site-ensemble.ts). The refinement study of
+ * docs/site-convergence.md puts their bias against the default (standard mesh, 3.5-day steps) at
+ * 0.6–0.9 yr on a thaw year and a few hundredths of a kelvin on ground temperatures; the default would
+ * take about four times as long per cell.
+ */
 export const DEFAULT_CALIBRATION_OPTIONS: CalibrationOptions = {
-  timeStep_days: SITE_DEFAULTS.timeStep_days.value,
-  fidelity: 'standard',
+  timeStep_days: 7,
+  fidelity: 'coarse',
   domainRadius_m: 20,
 };
 
@@ -125,7 +143,8 @@ export interface CalibrationFigures {
   activeLayer_m: number | null;
   groundEnd_C: number | null;
   lowestMeanFluid_C: number | null;
-  heatAtLimit_W: number | null;
+  /** Heat per pile carried, annual mean over the design life, W. */
+  heatCarried_W: number | null;
   pilesPerTon: number | null;
   loadShare: number | null;
   /** Years from the start to thaw at the reference point (null: after the climate horizon). */
@@ -148,78 +167,64 @@ const finite = (x: number) => (Number.isFinite(x) ? x : null);
 interface ModelSide {
   excluded: boolean;
   figures: CalibrationCase['model'];
-  /** Monthly ground loads as factors of the annual mean, January (the coldest month) first. */
-  monthlyFactors: number[];
-  /** Mean fluid at the fluid limit, °C, and the annual-average design-peak ratio a. */
-  limitMeanFluid_C: number;
 }
 
-/** The model's side of one case (module comment), for scenario `s` (the one-pile form by default). */
-export function modelSide(cell: CellInputs, s: Scenario): ModelSide {
+/**
+ * Lowest monthly mean fluid of the model at its bivalent monthly loads, °C (module comment): the
+ * three-pulse monthly response at each month's carried load q_m (bivalent-operation.ts).
+ */
+function modelLowestFluid_C(
+  x: ReturnType<typeof createKernelScratch>,
+  p: { tPile: number; surfaceAmp: number; kF: number; gLife: number; gMonth: number; H: number; Rb: number },
+  carried_W: number,
+): number {
+  const twoPiK = 2 * Math.PI * p.kF;
+  const a = x.bivalent.carried_W;
+  // The bivalent carry may be capped further by over-cooling: scale its months alike.
+  const scale = a > 0 ? carried_W / a : 0;
+  let lowest = Infinity;
+  for (let mo = 0; mo < MONTHS; mo++) {
+    const q = scale * x.bivalent.monthly_W[mo];
+    const tg = p.tPile - monthAnomaly_K(p.surfaceAmp, x.phasor, mo);
+    const tf = tg - (carried_W * (p.gLife - p.gMonth) + q * p.gMonth) / (twoPiK * p.H) - (q * p.Rb) / p.H;
+    lowest = Math.min(lowest, tf);
+  }
+  return lowest;
+}
+
+/**
+ * The model's side of one case (module comment), for scenario `s` (the one-pile form) and the standard
+ * building `base` (the piles per ton).
+ */
+export function modelSide(cell: CellInputs, s: Scenario, base: Scenario = DEFAULT_SCENARIO): ModelSide {
   const k = buildCellConstants(s);
   const x = createKernelScratch();
   const m = new Float64Array(METRIC_COUNT);
   evaluateCellMetrics(cell, k, x, m);
+  const full = new Float64Array(METRIC_COUNT);
+  evaluateCellMetrics(cell, buildCellConstants(base), createKernelScratch(), full);
   const excluded = m[METRIC.exclusion] !== 0;
   const soil = soilAt(k.soil[cell.textureClass], cell.waterContent_m3m3, createKernelScratch().soil);
   const kF = soil.kFrozen;
   const alphaF = kF / soil.cFrozen;
   const H = s.pile.length_m;
-  const hp = s.heatPump;
-  const limitMean = meanFluidFromEntering_C(hp.minEnteringFluid_C, 2 * hp.fluidHalfDelta_K, 'heating');
   const gLife = flsResponse(k.tables.fieldMean, alphaF, s.designLife_yr * SECONDS_PER_YEAR);
   const gMonth = flsResponse(k.tables.fieldMean, alphaF, MONTH_S);
   const tPile = m[METRIC.groundTemp];
-  // The kernel's annual fraction a: annual mean over the design peak (its loads are fractions of it).
-  const a = x.annualFraction;
-  const fMean = Array.from(x.monthlyFraction).reduce((p, q) => p + q, 0) / MONTHS;
-  const monthlyFactors = Array.from(x.monthlyFraction, (f) => (fMean > 0 ? f / fMean : 1));
-  const surfaceAmp = s.ground.nFreeze * cell.airAmplitude_C;
-  const twoPiK = 2 * Math.PI * kF;
-  // Monthly resolution: the month's peak is its mean (no 6-hour pulse), as the simulator's months are.
-  const monthlyOnly = monthlyPeakPerPile_W(
-    {
-      groundMean_C: tPile,
-      surfaceAmplitude_C: surfaceAmp,
-      phasor: x.phasor,
-      meanFluid_C: limitMean,
-      length_m: H,
-      resistance_mK_W: s.pile.resistance_mK_W,
-      conductivity_W_mK: kF,
-      gLife,
-      gMonth,
-      gPeak: 0,
-      annualFraction: a,
-      monthlyFraction: x.monthlyFraction,
-      peakFraction: x.monthlyFraction,
-    },
-    new Float64Array(1),
-  );
   const carried = m[METRIC.extractionCarried];
-  // Lowest monthly mean fluid at the carried load: carried·H is the annual mean, so the design-peak scale
-  // is carried·H/a and month m extracts that times f_m.
-  const peakScale_W = (carried * H) / a;
-  let lowest = Infinity;
-  for (let mo = 0; mo < MONTHS; mo++) {
-    const f = x.monthlyFraction[mo];
-    const per = (a * (gLife - gMonth) + f * gMonth) / twoPiK + f * s.pile.resistance_mK_W;
-    const tf = tPile - monthAnomaly_K(surfaceAmp, x.phasor, mo) - (peakScale_W * per) / H;
-    lowest = Math.min(lowest, tf);
-  }
-  const heatAtLimit = a * monthlyOnly;
+  const geometry = { tPile, surfaceAmp: s.ground.nFreeze * cell.airAmplitude_C, kF, gLife, gMonth, H };
+  const lowest = modelLowestFluid_C(x, { ...geometry, Rb: s.pile.resistance_mK_W }, carried * H);
   const flag = m[METRIC.thawBeyondHorizon];
   const start = s.startYear;
   return {
     excluded,
-    monthlyFactors,
-    limitMeanFluid_C: limitMean,
     figures: {
       groundPile_C: finite(tPile),
       activeLayer_m: finite(m[METRIC.activeLayer]),
       groundEnd_C: finite(m[METRIC.groundTempEnd]),
       lowestMeanFluid_C: carried > 0 ? finite(lowest) : null,
-      heatAtLimit_W: finite(heatAtLimit),
-      pilesPerTon: finite(m[METRIC.pilesPerTon]),
+      heatCarried_W: finite(carried * H),
+      pilesPerTon: finite(full[METRIC.pilesPerTon]),
       loadShare: finite(m[METRIC.loadShare]),
       noPileThaw_yr: flag === THAW_HORIZON.bothAfter ? null : finite(m[METRIC.thawYear] - start),
       pileThaw_yr: flag === THAW_HORIZON.within ? finite(m[METRIC.thawYearPiles] - start) : null,
@@ -231,15 +236,10 @@ export function modelSide(cell: CellInputs, s: Scenario): ModelSide {
 
 /**
  * The simulator's input for one case: the cell's soil and climate, the model's standard pile (coaxial,
- * the model's resistance) extracting the model's carried load with its monthly profile (module comment).
+ * the model's resistance) in building mode, the standard building shared by its piles (module comment).
  */
-function calibrationInput(
-  cell: CellInputs,
-  s: Scenario,
-  o: CalibrationOptions,
-  model: ModelSide,
-): SiteInputDraft {
-  const carried = model.figures.carried_W_m;
+function calibrationInput(cell: CellInputs, base: Scenario, o: CalibrationOptions): SiteInputDraft {
+  const s = base;
   const H = s.pile.length_m;
   const years = s.climateHorizonYear - s.startYear;
   const midDepth_m = s.pile.topDepth_m + H / 2;
@@ -268,22 +268,15 @@ function calibrationInput(
       nThaw: s.ground.nThaw,
       nFreeze: s.ground.nFreeze,
     },
-    pile: {
-      length_m: H,
-      topDepth_m: s.pile.topDepth_m,
-      outerDiameter_m: 2 * s.pile.radius_m,
-      loop: {
-        type: 'coaxial',
-        centreOuterDiameter_m: 0.05,
-        centreInnerDiameter_m: 0.044,
-        centreConductivity_W_mK: 0.4,
-        downFlow: 'annulus',
-      },
-      fluid: { name: 'propyleneGlycol', massFraction: 0.4 },
-      resistance: { Rb_mK_W: s.pile.resistance_mK_W, Ra_mK_W: 1 },
+    // The study's standard pile (site-prefill.ts): coaxial, the model's resistance, its loop flow.
+    pile: standardPileDraft(s, cell.meanAirTemp_C, cell.airAmplitude_C),
+    // The standard building's load line shared by its piles, as the site study runs it (site-prefill.ts).
+    operation: {
+      mode: 'building',
+      designLoad_W: standardLoadAtColdestAir_W(s, cell.meanAirTemp_C, cell.airAmplitude_C),
+      pileCount: s.building.foundationPiles,
+      balancePoint_C: s.building.balanceTemp_C,
     },
-    // The model's monthly ground loads, January (its coldest month) first; the annual mean is carried·H.
-    operation: { mode: 'heatRate', extraction_W: carried * H, monthlyFactors: model.monthlyFactors },
     probes: [
       { r_m: s.referenceRadius_m, z_m: s.referenceDepth_m },
       { r_m: 0.5, z_m: midDepth_m },
@@ -314,17 +307,42 @@ function lowestFluidMonth(r: ReturnType<typeof simulateSite>, life: number): { l
   return { lowest, at };
 }
 
+/** Mean ground extraction per pile (W) and the load share of the first `life` simulated years. */
+function operationOverLife(input: SiteInput, r: SiteResult, life: number) {
+  const years = energyByYear(input, r).slice(0, life);
+  if (years.length === 0) return { heat_W: null, share: null };
+  const delivered = years.reduce((acc, y) => acc + y.delivered_kWh, 0);
+  const unmet = years.reduce((acc, y) => acc + y.unmet_kWh, 0);
+  return {
+    heat_W: years.reduce((acc, y) => acc + y.meanExtraction_W, 0) / years.length,
+    share: delivered + unmet > 0 ? delivered / (delivered + unmet) : null,
+  };
+}
+
+/** Piles per ton of the study's full three-pulse sizing from the run (module comment). */
+function simPilesPerTon(input: SiteInput, r: SiteResult, column: ProfileColumn, s: Scenario): number | null {
+  if (input.operation.mode !== 'building') return null;
+  const op = input.operation;
+  const sized = sizeSiteByPulse(input, r, column, studyFoundation(s), true);
+  if (!sized || !sized.ok) return null;
+  const peak_W = designDayLoad_W(
+    op.designLoad_W,
+    input.climate,
+    op.balancePoint_C,
+    s.building.designMargin_K,
+  );
+  return (sized.sizing.pileCount * TON_W) / peak_W;
+}
+
 /** The simulator's side of one case from its run `r` (module comment). */
 function simulatorSide(
-  r: ReturnType<typeof simulateSite>,
+  run: { input: SiteInput; column: ProfileColumn },
+  r: SiteResult,
   s: Scenario,
-  model: ModelSide,
   seconds: number,
 ): CalibrationCase['sim'] {
-  const carried = model.figures.carried_W_m;
-  const H = s.pile.length_m;
   const years = s.climateHorizonYear - s.startYear;
-  const alongPile = r.noPile.probes.slice(2);
+  const alongPile = r.noPile.probes.slice(2, 2 + PILE_PROBES.length);
   const monthMean = (probes: typeof alongPile, i: number) =>
     probes.reduce((acc, p) => acc + p.T_C[i], 0) / probes.length;
   const yearMean = (T: number[], y: number) => T.slice(12 * y, 12 * y + 12).reduce((p, q) => p + q, 0) / 12;
@@ -332,16 +350,8 @@ function simulatorSide(
     Array.from({ length: 12 }, (_, i) => monthMean(alongPile, i)).reduce((p, q) => p + q, 0) / 12;
   const al = r.noPile.annualThawDepth_m;
   const life = Math.round(s.designLife_yr);
-  // Lowest monthly mean fluid over the design life, and the no-pile ground along the pile that month.
   const { lowest, at } = lowestFluidMonth(r, life);
-  let heatAtLimit: number | null = null;
-  if (at >= 0) {
-    const ground = monthMean(alongPile, at);
-    // Linear in the load about this run: the load that brings this month's mean fluid to the limit.
-    heatAtLimit = (carried * H * (ground - model.limitMeanFluid_C)) / (ground - lowest);
-  }
-  const ratio =
-    heatAtLimit !== null && model.figures.heatAtLimit_W ? heatAtLimit / model.figures.heatAtLimit_W : null;
+  const op = operationOverLife(run.input, r, life);
   const ref = (c: typeof r.noPile | null) => (c ? c.probes[0].thawYear : null);
   const horizonOnly = (t: number | null) => (t !== null && t <= years ? t : null);
   return {
@@ -350,16 +360,9 @@ function simulatorSide(
     groundEnd_C:
       r.noPile.probes[1].T_C.length >= 12 * life ? yearMean(r.noPile.probes[1].T_C, life - 1) : null,
     lowestMeanFluid_C: at >= 0 ? lowest : null,
-    heatAtLimit_W: heatAtLimit,
-    // Same building and COP: piles scale inversely with the heat per pile at the limit.
-    pilesPerTon: ratio && model.figures.pilesPerTon !== null ? model.figures.pilesPerTon / ratio : null,
-    // The load share moves with the heat at the limit only where the fluid binds it.
-    loadShare:
-      ratio && model.figures.loadShare !== null
-        ? model.figures.fluidBinds
-          ? Math.min(1, model.figures.loadShare * ratio)
-          : model.figures.loadShare
-        : null,
+    heatCarried_W: op.heat_W,
+    pilesPerTon: simPilesPerTon(run.input, r, run.column, s),
+    loadShare: op.share,
     noPileThaw_yr: horizonOnly(ref(r.noPile)),
     pileThaw_yr: horizonOnly(ref(r.withPile)),
     seconds,
@@ -372,14 +375,13 @@ export function calibrateCell(
   base: Scenario = DEFAULT_SCENARIO,
   o: CalibrationOptions = DEFAULT_CALIBRATION_OPTIONS,
 ): CalibrationCase {
-  const s = onePileScenario(base);
-  const model = modelSide(cell, s);
+  const model = modelSide(cell, onePileScenario(base), base);
   const none: CalibrationFigures = {
     groundPile_C: null,
     activeLayer_m: null,
     groundEnd_C: null,
     lowestMeanFluid_C: null,
-    heatAtLimit_W: null,
+    heatCarried_W: null,
     pilesPerTon: null,
     loadShare: null,
     noPileThaw_yr: null,
@@ -389,11 +391,11 @@ export function calibrateCell(
   if (model.excluded || !(carried > 0)) {
     return { cell, excluded: model.excluded, model: model.figures, sim: { ...none, seconds: 0 } };
   }
-  const input = calibrationInput(cell, s, o, model);
+  const run = studyRunInput(siteInputSchema.parse(calibrationInput(cell, base, o)), base);
   const t0 = performance.now();
-  const r = simulateSite(input);
+  const r = simulateSite(run.input);
   const seconds = (performance.now() - t0) / 1000;
-  return { cell, excluded: false, model: model.figures, sim: simulatorSide(r, s, model, seconds) };
+  return { cell, excluded: false, model: model.figures, sim: simulatorSide(run, r, base, seconds) };
 }
 
 /**
@@ -406,8 +408,8 @@ export function groupBracket(
   base: Scenario = DEFAULT_SCENARIO,
   o: Omit<CalibrationOptions, 'domainRadius_m'> = DEFAULT_CALIBRATION_OPTIONS,
 ): { modelGroup_W: number | null; simIsolated_W: number | null; simField_W: number | null } {
-  const group = modelSide(cell, base).figures.heatAtLimit_W;
-  const isolated = calibrateCell(cell, base, { ...o, domainRadius_m: 20 }).sim.heatAtLimit_W;
+  const group = modelSide(cell, base, base).figures.heatCarried_W;
+  const isolated = calibrateCell(cell, base, { ...o, domainRadius_m: 20 }).sim.heatCarried_W;
   // The endless field at the model's carried load can cool until the fluid would freeze (the simulator
   // stops the run): its heat at the limit is then below the carried load but not measured, so null.
   let field: number | null;
@@ -415,7 +417,7 @@ export function groupBracket(
     field = calibrateCell(cell, base, {
       ...o,
       domainRadius_m: base.building.pileSpacing_m / Math.sqrt(Math.PI),
-    }).sim.heatAtLimit_W;
+    }).sim.heatCarried_W;
   } catch (e) {
     if (!(e instanceof SiteFluidLimitError)) throw e;
     field = null;
@@ -461,7 +463,7 @@ export function caseErrors(c: CalibrationCase): Record<CalibrationQuantity, numb
     activeLayer_rel: rel(m.activeLayer_m, r.activeLayer_m),
     groundEnd_K: diff(m.groundEnd_C, r.groundEnd_C),
     lowestMeanFluid_K: diff(m.lowestMeanFluid_C, r.lowestMeanFluid_C),
-    heatAtLimit_rel: rel(m.heatAtLimit_W, r.heatAtLimit_W),
+    heatCarried_rel: rel(m.heatCarried_W, r.heatCarried_W),
     pilesPerTon_rel: rel(m.pilesPerTon, r.pilesPerTon),
     loadShare_abs: diff(m.loadShare, r.loadShare),
     noPileThaw_yr:
@@ -479,7 +481,7 @@ export const CALIBRATION_QUANTITIES = [
   'activeLayer_rel',
   'groundEnd_K',
   'lowestMeanFluid_K',
-  'heatAtLimit_rel',
+  'heatCarried_rel',
   'pilesPerTon_rel',
   'loadShare_abs',
   'noPileThaw_yr',

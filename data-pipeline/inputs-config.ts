@@ -141,7 +141,38 @@ export const gridEntrySchema = z.strictObject({
    * uses it as each cell's standard deviation. Not together with `uncertainty`.
    */
   sdFile: z.string().min(1).optional(),
+  /**
+   * Companion raster of the probability, cell by cell, that this class grid's class is wrong (class
+   * grids only; a fraction in [0, 1], band 1, its own nodata, which falls back to the role's declared
+   * confusion). Read and resampled like the grid itself, by nearest neighbour
+   * (data-pipeline/build/sd-grids.ts); the ensemble build uses it as each cell's confusion
+   * probability. Not together with `uncertainty`.
+   */
+  confusionFile: z.string().min(1).optional(),
 });
+
+/** The companion spread grids' checks of one grid entry (sd-grids.ts). */
+function companionIssues(g: GridEntry, i: number, ctx: z.RefinementCtx): void {
+  const role: GridRole = GRID_ROLES[g.role];
+  const issue = (field: 'sdFile' | 'confusionFile', message: string) =>
+    ctx.addIssue({ code: 'custom', path: ['grids', i, field], message });
+  if (g.sdFile !== undefined && role.kind === 'class') {
+    issue(
+      'sdFile',
+      `${g.role} is a class grid: a standard-deviation grid applies to continuous grids (use "confusionFile" or "uncertainty": { "confusion": p })`,
+    );
+  } else if (g.sdFile !== undefined && g.uncertainty) {
+    issue('sdFile', `${g.role}: give either "uncertainty" or "sdFile", not both`);
+  }
+  if (g.confusionFile !== undefined && role.kind !== 'class') {
+    issue(
+      'confusionFile',
+      `${g.role} is a continuous grid: a confusion-probability grid applies to class grids (use "sdFile")`,
+    );
+  } else if (g.confusionFile !== undefined && g.uncertainty) {
+    issue('confusionFile', `${g.role}: give either "uncertainty" or "confusionFile", not both`);
+  }
+}
 
 export const inputsConfigSchema = z
   .strictObject({
@@ -190,19 +221,7 @@ export const inputsConfigSchema = z
               : `${g.role} is a continuous grid: expected { "sd": x } or { "relativeSd": f }`,
         });
       }
-      if (g.sdFile !== undefined && role.kind === 'class') {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['grids', i, 'sdFile'],
-          message: `${g.role} is a class grid: a standard-deviation grid applies to continuous grids (use "uncertainty": { "confusion": p })`,
-        });
-      } else if (g.sdFile !== undefined && g.uncertainty) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['grids', i, 'sdFile'],
-          message: `${g.role}: give either "uncertainty" or "sdFile", not both`,
-        });
-      }
+      companionIssues(g, i, ctx);
       if (g.kind !== role.kind) {
         ctx.addIssue({
           code: 'custom',

@@ -155,10 +155,11 @@ export async function assembleManifest(p: ManifestParts): Promise<Manifest> {
             : { netcdf: i.source.netcdf }
           : {}),
       },
-      // The companion standard-deviation grid the ensemble reads as each cell's spread (sd-grids.ts).
+      // The companion spread grid the ensemble reads as each cell's standard deviation or confusion
+      // probability (sd-grids.ts).
       ...(i.sd
         ? {
-            standardDeviation: {
+            [i.sd.companion === 'confusion' ? 'confusionProbability' : 'standardDeviation']: {
               file: i.sd.entry.file,
               unit: i.sd.entry.unit,
               crs: i.sd.source.grid.crs,

@@ -123,9 +123,10 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
   const echoLayers = echoes.map((e) => e.layer);
   const layers = [...model.layers, ...echoLayers, flagsLayer()];
   const n = grid.width * grid.height;
-  const windowInput = (i: LoadedInput): WindowInput => ({
+  // A companion spread grid is resampled with its input's method (nearest for a class grid).
+  const windowInput = (i: LoadedInput, kind = i.role.kind): WindowInput => ({
     role: i.entry.role,
-    kind: i.role.kind,
+    kind,
     grid: i.source.grid,
     path: i.source.path,
     label: i.source.label,
@@ -134,10 +135,10 @@ export async function computeLayers(options: ComputeOptions): Promise<ComputeRes
     scale: i.source.scale,
     offset: i.source.offset,
     ...(i.source.aligned ? { aligned: i.source.aligned } : {}),
-    ...(i.isSd ? { isSd: true } : {}),
-    ...(i.sd ? { sd: windowInput(i.sd) } : {}),
+    ...(i.companion ? { companion: i.companion } : {}),
+    ...(i.sd ? { sd: windowInput(i.sd, i.role.kind) } : {}),
   });
-  const windowInputs: WindowInput[] = inputs.map(windowInput);
+  const windowInputs: WindowInput[] = inputs.map((i) => windowInput(i));
   const echoRoles = echoes.map((e) => e.role);
   const runner = options.windowRunner;
   if (runner && !spec) throw new Error('computeLayers: a window runner needs a model spec');

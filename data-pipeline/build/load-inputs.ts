@@ -35,7 +35,14 @@ import { ANALYSIS_CRS } from '../crs/crs-definitions';
 import { loadGdal } from '../gdal/gdal-wasm';
 import { readBandRows } from './band-files';
 import { budgetFromConfig, defaultBudget, type BuildBudget } from './build-budget';
-import { sdEntryOf, sdRoleOf } from './sd-grids';
+import {
+  companionEntryOf,
+  companionField,
+  companionOf,
+  companionRoleOf,
+  companionWhat,
+  type CompanionKind,
+} from './sd-grids';
 
 /** Which reader opens the inputs: GDAL (default) or the earlier hand-written GeoTIFF reader. */
 export type InputReader = 'gdal' | 'legacy';
@@ -68,10 +75,19 @@ export interface LoadedInput {
   entry: GridEntry;
   role: GridRole;
   source: InputSource;
-  /** True for a companion standard-deviation grid (sd-grids.ts). */
-  isSd?: boolean;
-  /** The companion standard-deviation grid of this input, when its entry names `sdFile`. */
+  /** Set for a companion spread grid (sd-grids.ts): what it holds. */
+  companion?: CompanionKind;
+  /**
+   * The companion spread grid of this input, when its entry names `sdFile` (standard deviation) or
+   * `confusionFile` (confusion probability of a class grid).
+   */
   sd?: LoadedInput;
+}
+
+/** A companion grid's pseudo-role and kind (sd-grids.ts). */
+interface Companion {
+  role: GridRole;
+  kind: CompanionKind;
 }
 
 export interface LoadedInputs {
@@ -117,7 +133,7 @@ async function readGeoJsonLayer(inDir: string, layer: GeoJsonLayer, file: string
  */
 export function convertAndCheck(input: LoadedInput, values: Float32Array, row0: number): void {
   const { entry, role, source } = input;
-  const what = input.isSd ? `standard deviation of ${entry.role} (band 1)` : entry.role;
+  const what = input.companion ? `${companionWhat(input.companion, entry.role)} (band 1)` : entry.role;
   const convert = role.units[entry.unit];
   const [lo, hi] = role.range;
   const width = source.grid.width;
@@ -161,7 +177,7 @@ async function scanInputLegacy(
   path: string,
   entry: GridEntry,
   budget: BuildBudget,
-  sdRole?: GridRole,
+  companion?: Companion,
 ): Promise<LoadedInput> {
   const opened = await openGeoTiffGrid(path, { label: entry.file, nodataOverride: entry.nodata, budget });
   try {
@@ -180,16 +196,16 @@ async function scanInputLegacy(
     };
     const input: LoadedInput = {
       entry,
-      role: sdRole ?? (GRID_ROLES[entry.role] as GridRole),
+      role: companion?.role ?? (GRID_ROLES[entry.role] as GridRole),
       source,
-      ...(sdRole ? { isSd: true } : {}),
+      ...(companion ? { companion: companion.kind } : {}),
     };
     const rows = Math.max(1, Math.floor(SCAN_CELLS / width));
     let [c0, r0, c1, r1] = [Infinity, Infinity, -Infinity, -Infinity];
     for (let y0 = 0; y0 < height; y0 += rows) {
       const y1 = Math.min(height, y0 + rows);
       const values = await readGridWindow(opened, [0, y0, width, y1]);
-      if (sdRole) checkFinite(input, values, y0, opened.nodata);
+      if (companion) checkFinite(input, values, y0, opened.nodata);
       convertAndCheck(input, values, y0);
       for (let i = 0; i < values.length; i++) {
         if (values[i] !== values[i]) continue;
@@ -209,14 +225,16 @@ async function scanInputLegacy(
   }
 }
 
-/** A standard-deviation grid: every stored value that is not nodata must be finite. */
+/** A companion spread grid: every stored value that is not nodata must be finite. */
 function checkFinite(input: LoadedInput, values: Float32Array, row0: number, nodata: number | null): void {
   const width = input.source.grid.width;
+  const kind = input.companion ?? 'sd';
+  const expected = kind === 'sd' ? `a finite value >= 0 in ${input.entry.unit}` : 'a probability in [0, 1]';
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
     if (Number.isFinite(v) || v !== v || (nodata != null && v === Math.fround(nodata))) continue;
     throw new InputError(
-      `${input.entry.file}: standard deviation of ${input.entry.role} (band 1) is ${v} at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}): expected a finite value >= 0 in ${input.entry.unit}, or the file's nodata`,
+      `${input.entry.file}: ${companionWhat(kind, input.entry.role)} (band 1) is ${v} at pixel (col ${i % width}, row ${row0 + Math.floor(i / width)}): expected ${expected}, or the file's nodata`,
     );
   }
 }
@@ -323,7 +341,7 @@ async function scanBand(
       const y1 = Math.min(height, y0 + rows);
       const values = block.subarray(0, (y1 - y0) * width);
       readBandRows(fd, width, y0, y1, values);
-      if (input.isSd) checkFinite(input, values, y0, nodata);
+      if (input.companion) checkFinite(input, values, y0, nodata);
       for (let i = 0; i < values.length; i++) {
         const v = values[i];
         if (v === nodata || v === nodataSingle || !Number.isFinite(v)) values[i] = NaN;
@@ -350,7 +368,7 @@ async function scanInputGdal(
   index: number,
   inDir: string,
   derivedDir: string,
-  sdRole?: GridRole,
+  companion?: Companion,
 ): Promise<LoadedInput> {
   const derived = await deriveRaster(path, entry, budget, index, derivedDir);
   const netcdf = derived.reading;
@@ -361,7 +379,7 @@ async function scanInputGdal(
     insideDirs: [resolve(inDir), await realpath(inDir), resolve(derivedDir)],
   });
   if (derived.unit !== undefined) opened.fileUnit = derived.unit;
-  const role = sdRole ?? (GRID_ROLES[entry.role] as GridRole);
+  const role = companion?.role ?? (GRID_ROLES[entry.role] as GridRole);
   checkDeclaredUnit(entry, role, opened.fileUnit);
   const source: InputSource = {
     grid: opened.header,
@@ -382,7 +400,7 @@ async function scanInputGdal(
     },
     ...(netcdf ? { netcdf } : {}),
   };
-  const input: LoadedInput = { entry, role, source, ...(sdRole ? { isSd: true } : {}) };
+  const input: LoadedInput = { entry, role, source, ...(companion ? { companion: companion.kind } : {}) };
   source.validBox = await scanBand(input, scratch, index);
   source.sha256 = await sha256Of(path);
   return input;
@@ -414,14 +432,17 @@ export async function loadInputs(
         reader === 'gdal'
           ? await scanInputGdal(path, entry, budget, scratch, i, inDir, derivedDir)
           : await scanInputLegacy(path, entry, budget);
-      if (entry.sdFile !== undefined) {
-        const sdEntry = sdEntryOf({ ...entry, sdFile: entry.sdFile });
-        const sdPath = await resolveInputFile(inDir, entry.sdFile, `grids.${i}.sdFile`, INPUTS_CONFIG_FILE);
-        const sdRole = sdRoleOf(entry.role);
+      const named = companionOf(entry);
+      if (named) {
+        // The companion spread grid (sd-grids.ts): read like its input, checked against its pseudo-role.
+        const sdEntry = companionEntryOf(entry, named);
+        const field = `grids.${i}.${companionField(named.kind)}`;
+        const sdPath = await resolveInputFile(inDir, named.file, field, INPUTS_CONFIG_FILE);
+        const companion = { role: companionRoleOf(entry.role, named.kind), kind: named.kind };
         input.sd =
           reader === 'gdal'
-            ? await scanInputGdal(sdPath, sdEntry, budget, scratch, i + 1000, inDir, derivedDir, sdRole)
-            : await scanInputLegacy(sdPath, sdEntry, budget, sdRole);
+            ? await scanInputGdal(sdPath, sdEntry, budget, scratch, i + 1000, inDir, derivedDir, companion)
+            : await scanInputLegacy(sdPath, sdEntry, budget, companion);
       }
       inputs.push(input);
       onGrid?.(inputs.length, config.grids.length);

@@ -20,7 +20,7 @@ import { readGridWindow, type GridHeader } from '../read/read-geotiff-grid';
 import type { AnalysisGrid } from './analysis-grid';
 import { closeBandFds, openBandFds, readBandRows, writeBandRows, type BandFiles } from './band-files';
 import { cellCentresIn, footprintBox, resampleAt } from './resample-to-grid';
-import { unitConversion } from './sd-grids';
+import { unitConversion, type CompanionKind } from './sd-grids';
 
 /** Flag bits of the inputFlags band: which optional input was absent in the cell. */
 export const INPUT_FLAG_BITS = { groundTemp_C: 1, geothermalFlux_W_m2: 2, nFreeze: 4 } as const;
@@ -41,9 +41,12 @@ export interface WindowInput {
   offset: number;
   /** Raw Float32 file already on the analysis grid (align-inputs.ts); else `path` is resampled here. */
   aligned?: string;
-  /** True for a companion standard-deviation grid: converted with the unit's linear part (sd-grids.ts). */
-  isSd?: boolean;
-  /** The input's companion standard-deviation grid, if its inputs-config entry names one. */
+  /**
+   * Set for a companion spread grid (sd-grids.ts): a standard deviation (converted with the unit's
+   * linear part) or a confusion probability (a fraction, not converted).
+   */
+  companion?: CompanionKind;
+  /** The input's companion spread grid (standard deviation or confusion), if its entry names one. */
   sd?: WindowInput;
 }
 
@@ -64,7 +67,7 @@ function readAligned(
     fds.set(input.aligned, fd);
   }
   const values = readBandRows(fd, width, row0, row1);
-  const convert = unitConversion(input.role, input.unit, input.isSd === true);
+  const convert = unitConversion(input.role, input.unit, input.companion);
   const { scale, offset } = input;
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
@@ -84,7 +87,7 @@ async function sampleInput(
 ): Promise<Float32Array> {
   const box = footprintBox(input.grid, coords);
   if (!box) return new Float32Array(coords.length / 2).fill(NaN);
-  const convert = unitConversion(input.role, input.unit, input.isSd === true);
+  const convert = unitConversion(input.role, input.unit, input.companion);
   let opened = cache.get(input.path);
   if (!opened) {
     const tiff = await fromFile(input.path);

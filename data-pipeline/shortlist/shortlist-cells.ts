@@ -6,9 +6,11 @@
  * every band rounded to its step with its unit in the column name, class codes with labels, cautions).
  * The features come one by one from a generator, so a writer can stream every match (no limit unless
  * asked); the expression, the scenario, the units and the data provenance are the collection's members.
+ * A scenario-set build adds every scenario's key figures at the cell, read from that scenario's own
+ * GeoTIFFs (one column group per scenario, export-schema.ts).
  */
 import { readFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import type { Feature, FeatureCollection, Point, Polygon } from 'geojson';
 import { manifestSchema, type Manifest } from '../../layers/screening/manifest';
 import {
@@ -17,7 +19,10 @@ import {
   exportUnits,
   UNIT_SYSTEM_NAME,
   type UnitSystem,
+  scenarioKeyBands,
+  scenarioReadBandIds,
   EXPORT_CAUTIONS,
+  type ScenarioKeyBands,
   type ExportColumn,
   type ExportValue,
 } from '../../layers/screening/export-schema';
@@ -116,6 +121,37 @@ async function readBandPlanes(tilesDir: string, manifest: Manifest): Promise<Flo
   return planes;
 }
 
+/** Every scenario of a scenario-set build: its key bands and their planes (none for one scenario). */
+interface ScenarioPlanes {
+  sets: ScenarioKeyBands[];
+  planes: Map<string, Float32Array>[];
+}
+
+/**
+ * The key bands of every scenario of the build's set, read from each scenario's own GeoTIFFs (its
+ * manifest under the set's root): the per-scenario column groups of the export schema.
+ */
+async function readScenarioPlanes(tilesDir: string, manifest: Manifest): Promise<ScenarioPlanes> {
+  const set = manifest.scenarioSet;
+  if (!set || set.scenarios.length < 2) return { sets: [], planes: [] };
+  const out: ScenarioPlanes = { sets: [], planes: [] };
+  for (const entry of set.scenarios) {
+    const dir = dirname(join(tilesDir, set.root || '.', entry.manifest));
+    const m = await readManifest(dir);
+    const where = join(dir, 'manifest.json');
+    const g = m.analysisGrid;
+    if (g.width !== manifest.analysisGrid.width || g.height !== manifest.analysisGrid.height)
+      throw new InputError(`${where}: analysis grid ${g.width} x ${g.height} differs from the build's`);
+    const keys = scenarioKeyBands(entry.name, m.bands);
+    const ids = scenarioReadBandIds(keys);
+    const bands = ids.map((id) => m.bands.find((b) => b.id === id)).filter((b) => b !== undefined);
+    const planes = await readBandPlanes(dir, { ...m, bands });
+    out.sets.push(keys);
+    out.planes.push(new Map(bands.map((b, i) => [b.id, planes[i]])));
+  }
+  return out;
+}
+
 /** The cell's position in the analysis grid, the first columns of every feature. */
 const CELL_COLUMNS: ExportColumn[] = [
   { name: 'cellCol', type: 'integer', unit: 'column of the analysis grid' },
@@ -161,6 +197,8 @@ interface ShortlistScan {
   inRadius(lon: number, lat: number): boolean;
   /** True when there is a --near settlement (cell centres then need their lon/lat). */
   hasNear: boolean;
+  /** A scenario-set build's column groups, one per scenario (export-schema.ts). */
+  scenarioSets: ScenarioKeyBands[];
   /** The export schema's record of a cell (shared with the web: export-schema.ts). */
   recordOf(cell: number, lon: number, lat: number): Record<string, ExportValue>;
   toLonLat: PointTransform;
@@ -269,7 +307,7 @@ function shortlistMembers(
     // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
     units: {
       ...Object.fromEntries(CELL_COLUMNS.map((c) => [c.name, c.unit])),
-      ...exportUnits(manifest, options.units),
+      ...exportUnits(manifest, options.units, scan.scenarioSets),
     },
     sources: manifest.sources.map((s) => ({
       file: s.file,
@@ -295,6 +333,7 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
   const near = options.near === undefined ? null : await findSettlement(tilesDir, manifest, options.near);
   const within_km = options.within_km ?? Infinity;
   const values = new Float64Array(manifest.bands.length);
+  const scenarios = await readScenarioPlanes(tilesDir, manifest);
   const scan: ShortlistScan = {
     grid: manifest.analysisGrid,
     planes,
@@ -306,6 +345,7 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
     },
     inRadius: (lon, lat) => near === null || haversine_km([lon, lat], near.lonLat) <= within_km,
     hasNear: near !== null,
+    scenarioSets: scenarios.sets,
     recordOf: (cell, lon, lat) =>
       exportRecord(
         manifest,
@@ -316,11 +356,12 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
           return b === undefined ? undefined : planes[b][cell];
         },
         options.units,
+        { sets: scenarios.sets, valueOf: (i, id) => scenarios.planes[i].get(id)?.[cell] },
       ),
     toLonLat,
     fromLonLat,
   };
-  const recordColumns = exportColumns(manifest, options.units);
+  const recordColumns = exportColumns(manifest, options.units, scenarios.sets);
   const taken = new Set([...CELL_COLUMNS, ...recordColumns].map((c) => c.name));
   const { settlements, columns: settlementColumns } = options.settlements
     ? await readSettlements(tilesDir, manifest, taken)

@@ -14,9 +14,10 @@ import { readFile } from 'node:fs/promises';
 import { siteInputSchema } from '../../layers/site/site-input-schema';
 import { simulateSite } from '../../layers/site/simulate-site';
 import { formatZodIssues } from '../../layers/validation-error';
-import { SCREENING_CAUTION } from '../../layers/cautions';
 import { InputError } from '../input-error';
 import { parseJsonText } from '../read/read-json-file';
+import { runEnsembleBatch, type BatchEnsembleOptions } from './site-batch-ensemble';
+import { badSiteLine, siteSummary, type PreparedSite } from './site-batch-lines';
 
 export interface BatchSite {
   name: string;
@@ -125,6 +126,25 @@ export function parseSites(file: string, text: string): BatchSite[] {
   });
 }
 
+/** Merge each site's overrides into the base and check it; a repeated name or position is refused. */
+export function prepareSites(sites: readonly BatchSite[], base: unknown): PreparedSite[] {
+  const seenNames = new Map<string, number>();
+  const seenPlaces = new Map<string, number>();
+  return sites.map((site, index) => {
+    const head = { index, name: site.name, lon: site.lon, lat: site.lat };
+    const key = site.name.trim().toLowerCase();
+    const place =
+      site.lon === null || site.lat === null ? null : `${site.lon.toFixed(5)},${site.lat.toFixed(5)}`;
+    const dupOf = seenNames.get(key) ?? (place ? seenPlaces.get(place) : undefined);
+    if (dupOf !== undefined) return { head, problems: [`repeats site ${dupOf + 1} (${sites[dupOf].name})`] };
+    seenNames.set(key, index);
+    if (place) seenPlaces.set(place, index);
+    const parsed = siteInputSchema.safeParse(mergeInput(base, site.overrides));
+    if (!parsed.success) return { head, problems: formatZodIssues(parsed.error, { prefix: site.name }) };
+    return { head, input: parsed.data };
+  });
+}
+
 /** Run every site; `emit` gets each line as it finishes. Returns how many sites were bad. */
 export async function runSiteBatch(options: {
   sitesFile: string;
@@ -134,69 +154,32 @@ export async function runSiteBatch(options: {
   /** Whole result per site instead of the summary. */
   full?: boolean;
   signal?: { cancelled: boolean };
+  /** Run the simulated ensemble of every site too (site-batch-ensemble.ts). */
+  ensemble?: BatchEnsembleOptions;
 }): Promise<{ ok: number; bad: number }> {
   const { sitesFile, baseFile, emit } = options;
   const sites = parseSites(sitesFile, await readText(sitesFile));
   const base = parseJsonText(baseFile, await readText(baseFile));
-  const seenNames = new Map<string, number>();
-  const seenPlaces = new Map<string, number>();
+  const prepared = prepareSites(sites, base);
+  if (options.ensemble) return runEnsembleBatch(prepared, { ...options, ensemble: options.ensemble });
   let ok = 0;
   let bad = 0;
-  for (const [index, site] of sites.entries()) {
+  for (const site of prepared) {
     if (options.signal?.cancelled) break;
-    const head = { index, name: site.name, lon: site.lon, lat: site.lat };
-    const key = site.name.trim().toLowerCase();
-    const place =
-      site.lon === null || site.lat === null ? null : `${site.lon.toFixed(5)},${site.lat.toFixed(5)}`;
-    const dupOf = seenNames.get(key) ?? (place ? seenPlaces.get(place) : undefined);
-    if (dupOf !== undefined) {
+    if (!site.input) {
       bad++;
-      emit(
-        JSON.stringify({
-          ...head,
-          ok: false,
-          problems: [`repeats site ${dupOf + 1} (${sites[dupOf].name})`],
-        }),
-      );
+      emit(badSiteLine(site));
       continue;
     }
-    seenNames.set(key, index);
-    if (place) seenPlaces.set(place, index);
-    const parsed = siteInputSchema.safeParse(mergeInput(base, site.overrides));
-    if (!parsed.success) {
-      bad++;
-      emit(
-        JSON.stringify({
-          ...head,
-          ok: false,
-          problems: formatZodIssues(parsed.error, { prefix: site.name }),
-        }),
-      );
-      continue;
-    }
-    options.progress?.(`site ${index + 1}/${sites.length}: ${site.name}`);
+    const { head, input } = site;
+    options.progress?.(`site ${head.index + 1}/${sites.length}: ${head.name}`);
     const t0 = performance.now();
-    const r = simulateSite(parsed.data);
+    const r = simulateSite(input);
     ok++;
-    const summary = {
-      ...head,
-      ok: true,
-      elapsed_s: +((performance.now() - t0) / 1000).toFixed(2),
-      years: parsed.data.years,
-      probes: r.noPile.probes.map((p, k) => ({
-        r_m: p.r_m,
-        z_m: p.z_m,
-        thawYearWithoutPile: p.thawYear,
-        thawYearWithPile: r.withPile?.probes[k].thawYear ?? null,
-        thawDelay_yr: r.thawDelay_yr[k],
-        thawDelayAtLeast: r.thawDelayIsLowerBound[k],
-      })),
-      lowestFluid_C: r.fluid?.lowest_C ?? null,
-      energyBalanceRelativeError: r.energyBalance.relativeError,
-      warnings: r.warnings,
-      caution: SCREENING_CAUTION,
-    };
-    emit(JSON.stringify(options.full ? { ...head, ok: true, result: r } : summary));
+    const line = options.full
+      ? { ...head, ok: true, result: r }
+      : siteSummary(head, input, r, performance.now() - t0);
+    emit(JSON.stringify(line));
   }
   return { ok, bad };
 }

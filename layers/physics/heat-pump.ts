@@ -56,22 +56,36 @@ function interp(xs: readonly number[], ys: readonly number[], x: number): number
   return (1 - w) * ys[i] + w * ys[i + 1];
 }
 
-/** COP and capacity ratio at an entering fluid temperature (curve validated with zod). */
-export function heatPumpAt(input: { enteringFluid_C: number; curve?: HeatPumpCurve }): {
-  cop: number;
-  capacityRatio: number;
-} {
-  const t = requireRange('enteringFluid_C', input.enteringFluid_C, -60, 60, '°C');
-  const parsed = HeatPumpCurveSchema.safeParse(input.curve ?? DEFAULT_HEAT_PUMP_CURVE);
+/**
+ * The curve validated once (zod; RangeError naming the first bad field), as a function of the entering
+ * fluid temperature: for loops that evaluate the same curve every time step (the site simulator's heat
+ * pump), where validating the curve on every call cost more than the interpolation.
+ */
+export function heatPumpCurveAt(
+  curve: HeatPumpCurve = DEFAULT_HEAT_PUMP_CURVE,
+): (enteringFluid_C: number) => { cop: number; capacityRatio: number } {
+  const parsed = HeatPumpCurveSchema.safeParse(curve);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
     throw new RangeError(formatIssue(issue, { prefix: 'curve' }));
   }
   const c = parsed.data;
-  return {
-    cop: interp(c.enteringFluid_C, c.cop, t),
-    capacityRatio: interp(c.enteringFluid_C, c.capacityRatio, t),
+  return (enteringFluid_C) => {
+    const t = requireRange('enteringFluid_C', enteringFluid_C, -60, 60, '°C');
+    return {
+      cop: interp(c.enteringFluid_C, c.cop, t),
+      capacityRatio: interp(c.enteringFluid_C, c.capacityRatio, t),
+    };
   };
+}
+
+/** COP and capacity ratio at an entering fluid temperature (curve validated with zod). */
+export function heatPumpAt(input: { enteringFluid_C: number; curve?: HeatPumpCurve }): {
+  cop: number;
+  capacityRatio: number;
+} {
+  requireRange('enteringFluid_C', input.enteringFluid_C, -60, 60, '°C');
+  return heatPumpCurveAt(input.curve)(input.enteringFluid_C);
 }
 
 /** Heat drawn from the ground in heating, Q_building (1 − 1/COP), W. */

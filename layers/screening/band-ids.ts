@@ -87,8 +87,8 @@ export const INPUT_ECHO_BAND_IDS = [
 
 /**
  * Bands of the per-cell ensemble (`pile-atlas build --ensemble`, cell-ensemble-model.ts), after the
- * model's layers: P10/P50/P90 of five metrics, then the probability of success, the robust class and
- * the class agreement.
+ * model's layers: P10/P50/P90 of five metrics, then the probability of success, the robust class, the
+ * class agreement and which thaw-delay percentiles are lower bounds (thaw after the climate horizon).
  */
 export const ENSEMBLE_BAND_IDS = [
   'pilesPerTonP10',
@@ -109,6 +109,7 @@ export const ENSEMBLE_BAND_IDS = [
   'successProbability',
   'robustClass',
   'classAgreement',
+  'thawDelayRangeBound',
 ] as const;
 
 /** Bands the pipeline itself adds (input fallbacks; distances to the settlements and to the roads layer). */

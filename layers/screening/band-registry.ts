@@ -13,7 +13,7 @@
 import { BAND_IDS, type BandId } from './band-ids';
 import { EXCLUSION_LABELS, PERMAFROST_CLASS_LABELS, SUITABILITY_LABELS } from './suitability';
 import { BINDING_LABELS } from './operating-window';
-import { THAW_HORIZON_LABELS } from './climate-horizon';
+import { RANGE_BOUND_LABELS, THAW_HORIZON_LABELS } from './climate-horizon';
 import { TEXTURE_CODES } from '../physics/texture-codes';
 import { ROBUSTNESS_LABELS } from './robustness-labels';
 import { CLASS_CHANGE_LABELS } from './scenario-difference';
@@ -287,6 +287,10 @@ export const BAND_REGISTRY: { readonly [K in BandId]: BandEntry } = {
     ...cls([...classes(SUITABILITY_LABELS), { value: UNCERTAIN_CLASS_VALUE, label: 'uncertain' }]),
   },
   classAgreement: { title: 'Class agreement', ...none, ...cont('cividis', 0, 1) },
+  thawDelayRangeBound: {
+    title: 'Thaw delay percentiles past the climate horizon',
+    ...cls(classes(RANGE_BOUND_LABELS)),
+  },
 
   // Differences from the first scenario of a set, on every other scenario (scenario-difference.ts).
   classChange: {

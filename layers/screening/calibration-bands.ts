@@ -25,7 +25,7 @@ export const CALIBRATION_BANDS = {
   groundTemp: { kind: 'absolute', value: 0.12, source: ON },
   /** Active layer thickness, relative (activeLayer_rel). */
   activeLayer: { kind: 'relative', value: 0.18, source: ON },
-  /** Heat per pile at the fluid limit, relative (heatAtLimit_rel). */
+  /** Heat per pile carried in bivalent operation, annual mean over the design life, relative (heatCarried_rel). */
   heatPerPile: { kind: 'relative', value: 0.1, source: ON },
   /** Piles per ton, relative (pilesPerTon_rel). */
   pileCount: { kind: 'relative', value: 0.1, source: ON },

@@ -47,7 +47,8 @@ import {
   type UncertainParameter,
 } from './uncertainty-schema';
 import { fmix32, hashUniform, latinColumn, normalQuantile, sampleDistribution } from './latin-hypercube';
-import { modalClass, percentileOf } from './ensemble-statistics';
+import { modalClass, percentileIsLowerBound, percentileOf } from './ensemble-statistics';
+import { rangeBoundFlags, RANGE_BOUND_LABELS, THAW_HORIZON } from './climate-horizon';
 import { BAND, type EnsembleBandId } from './band-ids';
 import { BAND_REGISTRY, UNCERTAIN_CLASS_VALUE } from './band-registry';
 
@@ -88,8 +89,9 @@ export interface EnsembleOptions {
   /** Spreads declared by the inputs config, per grid role; they replace the scenario's defaults. */
   gridSpreads?: Partial<Record<SpreadRole, GridSpread>>;
   /**
-   * Roles whose standard deviation comes per cell from a companion grid (`cellSd` of `evaluate`);
-   * where the cell's value is NaN the role's declared spread applies.
+   * Roles whose spread comes per cell from a companion grid (`cellSd` of `evaluate`): the standard
+   * deviation, or for the texture class the confusion probability; where the cell's value is NaN the
+   * role's declared spread applies.
    */
   gridSdRoles?: readonly SpreadRole[];
 }
@@ -102,7 +104,8 @@ export interface EnsembleModel extends ScreeningModel {
   gridSdRoles: SpreadRole[];
   /**
    * Evaluate one cell; `cellIndex` (its index on the analysis grid) seeds its own hypercube columns;
-   * `cellSd` (indexed as SPREAD_ROLES) holds its standard deviations from companion grids.
+   * `cellSd` (indexed as SPREAD_ROLES) holds its spreads from companion grids (standard deviations;
+   * for the texture class its confusion probability).
    */
   evaluate(cell: CellInputs, out: Float32Array, cellIndex?: number, cellSd?: Float64Array): void;
 }
@@ -162,6 +165,7 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
           `${p}: ${Math.round(q * 100)} % of the ${n} ensemble members give less than this. ` +
           `Over the members where the value is defined (none when fewer than half are). ${b.description}`,
         source: `ensemble of the per-cell model (Latin hypercube, seed ${u.seed}); ${b.source}`,
+        ...(id === BAND.thawDelay ? thawDelayPercentileTexts(b, p) : {}),
       });
     }
   }
@@ -208,7 +212,48 @@ export function ensembleLayers(base: ScreeningLayer[], u: ScenarioUncertainty): 
     description: 'Share of the members that give the most common suitability class.',
     source: 'ensemble of the per-cell model (cell-ensemble-model.ts)',
   });
+  out.push(rangeBoundLayer(byId.get(BAND.thawDelay)?.horizon?.year));
   return out;
+}
+
+/**
+ * A thaw-delay percentile past the climate horizon is a lower bound: the horizon qualifier that makes
+ * every reader show it as "≥ value" (climate-horizon.ts, flag band thawDelayRangeBound).
+ */
+function thawDelayPercentileTexts(b: ScreeningLayer, p: 'P10' | 'P50' | 'P90'): Partial<ScreeningLayer> {
+  const year = b.horizon?.year;
+  if (year === undefined) return {};
+  return {
+    description:
+      `${p} of the thaw delay over the members in which the ground at the reference depth thaws before ` +
+      `${year} (the scenario's climate horizon). A member whose thaw with piles comes after ${year} counts ` +
+      `with its delay up to ${year}, a lower bound; where that reaches the percentile it reads "≥ value" ` +
+      '(thawDelayRangeBound).',
+    horizon: {
+      year,
+      flagBand: BAND.thawDelayRangeBound,
+      after: [],
+      atLeast: rangeBoundFlags(p),
+      undetermined: [],
+    },
+  };
+}
+
+/** The class band saying which thaw-delay percentiles are lower bounds (climate-horizon.ts). */
+function rangeBoundLayer(year: number | undefined): ScreeningLayer {
+  const horizon = year === undefined ? "the scenario's climate horizon" : String(year);
+  return {
+    id: BAND.thawDelayRangeBound,
+    title: BAND_REGISTRY.thawDelayRangeBound.title,
+    unit: '',
+    kind: 'class',
+    classes: Object.entries(RANGE_BOUND_LABELS).map(([value, label]) => ({ value: Number(value), label })),
+    description:
+      `How many of the thaw delay's P10, P50 and P90 are lower bounds, counted from P90 down: in some ` +
+      `members the ground around the piles thaws only after ${horizon}, beyond which the scenario has no ` +
+      'climate, so their delay is known only to be at least its value up to then.',
+    source: 'ensemble of the per-cell model (cell-ensemble-model.ts; climate-horizon.ts)',
+  };
 }
 
 /**
@@ -245,6 +290,8 @@ function memberSet(
 /**
  * Member j's draw of the gridded inputs with a spread into `memberRecord` (already a copy of the cell):
  * a normal draw clipped to the input range, or for texture another class with the confusion probability.
+ * `sdOfRole[d]` is the cell's own spread from a companion grid (NaN: none): a standard deviation, or
+ * for texture the confusion probability.
  */
 function drawMemberInputs(
   memberRecord: Record<string, number>,
@@ -260,27 +307,46 @@ function drawMemberInputs(
     const r = spreadRoles[d];
     const v = cellRecord[r];
     if (v !== v) continue; // optional grid absent: the scenario default (and its distribution) applies
-    const cellSd = sdOfRole[d];
-    if (cellSd === cellSd) {
+    const cellSpread = sdOfRole[d];
+    const uj = cellCols[d][j];
+    if (cellSpread === cellSpread && r !== BAND.textureClass) {
       // The cell's own standard deviation (companion grid).
       const [lo, hi] = INPUT_RANGE[r];
-      memberRecord[r] = clip(v + cellSd * normalQuantile(cellCols[d][j]), lo, hi);
+      memberRecord[r] = clip(v + cellSpread * normalQuantile(uj), lo, hi);
       continue;
     }
     const g = u.grids[r];
-    const uj = cellCols[d][j];
-    if ('confusion' in g) {
-      if (uj < g.confusion) {
+    if (r === BAND.textureClass) {
+      // The confusion: the cell's own (companion grid) where it has one, else the declared one.
+      const confusion = cellSpread === cellSpread ? cellSpread : 'confusion' in g ? g.confusion : 0;
+      if (uj < confusion) {
         // Another class, each equally likely (a second hash draw).
         const other = 1 + Math.floor(hashUniform(cellSeed, 64 + d, j) * (TEXTURE_CLASSES - 1));
         memberRecord[r] = other >= v ? other + 1 : other;
       }
     } else {
-      const sd = 'sd' in g ? g.sd : g.relativeSd * Math.abs(v);
+      const sd = 'sd' in g ? g.sd : 'relativeSd' in g ? g.relativeSd * Math.abs(v) : 0;
       const [lo, hi] = INPUT_RANGE[r];
       memberRecord[r] = clip(v + sd * normalQuantile(uj), lo, hi);
     }
   }
+}
+
+/**
+ * How many of the thaw delay's P10/P50/P90 are lower bounds, counted from P90 down (climate-horizon.ts);
+ * NaN where the percentiles are not defined (`p10` NaN).
+ */
+function boundedPercentiles(
+  delays: Float64Array,
+  bound: Uint8Array,
+  n: number,
+  sorted: Float64Array,
+  p10: number,
+): number {
+  if (p10 !== p10) return NaN;
+  let count = 0;
+  for (const [, p] of PERCENTILES) if (percentileIsLowerBound(delays, bound, n, p, sorted)) count++;
+  return count;
 }
 
 /** Build the ensemble model (scenario validated; throws TypeError naming bad fields). */
@@ -319,6 +385,8 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
   const ranges = RANGE_METRICS.map(() => new Float64Array(n));
   const rangeIdx = RANGE_METRICS.map((id) => METRIC[id as MetricId]);
   const classes = new Float64Array(n);
+  const delayQ = RANGE_METRICS.indexOf(BAND.thawDelay);
+  const delayBound = new Uint8Array(n);
   const sorted = new Float64Array(n);
   const counts = new Int32Array(4);
   const cellCols = spreadRoles.map(() => new Float64Array(n));
@@ -340,6 +408,8 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
       drawMemberInputs(memberRecord, cellRecord, spreadRoles, u, cellCols, cellSeed, j, sdOfRole);
       evaluateCellMetrics(memberCell, members[j], scratch, m);
       for (let q = 0; q < rangeIdx.length; q++) ranges[q][j] = m[rangeIdx[q]];
+      // The delay up to the horizon of a member whose thaw with piles comes later is a lower bound.
+      delayBound[j] = m[METRIC.thawBeyondHorizon] === THAW_HORIZON.pilesAfter ? 1 : 0;
       classes[j] = m[METRIC.suitability];
       if (
         m[METRIC.exclusion] === 0 &&
@@ -356,6 +426,7 @@ export function createEnsembleModel(options: EnsembleOptions = {}): EnsembleMode
     const mode = modalClass(classes, n, counts);
     out[o++] = mode.share >= u.robustShare ? mode.value : UNCERTAIN_CLASS;
     out[o++] = mode.share;
+    out[o++] = boundedPercentiles(ranges[delayQ], delayBound, n, sorted, out[nBase + 3 * delayQ]);
   };
 
   return {

@@ -80,6 +80,13 @@ import {
 } from './surface-warming-history';
 import { operatingWindow, type WindowResult } from './operating-window';
 import {
+  bivalentOperation,
+  createBivalentResult,
+  enteringFluidOfMonth_C,
+  type BivalentInput,
+  type BivalentResult,
+} from './bivalent-operation';
+import {
   MONTH_COS,
   MONTHS,
   monthlyPeakPerPile_W,
@@ -114,6 +121,9 @@ export interface KernelScratch {
   phasor: Float64Array;
   /** Month whose load limits the pile (0 = the coldest month of the surface wave). */
   peakMonth: Float64Array;
+  /** Requested monthly mean ground load per pile, W, and the bivalent operation (bivalent-operation.ts). */
+  requested: Float64Array;
+  bivalent: BivalentResult;
   /** Set by groundTempEndOfLife_C: latent heat holds the ground at 0 °C at the end of life. */
   zeroCurtain: boolean;
   foundation: FoundationResult;
@@ -203,6 +213,8 @@ export function createKernelScratch(): KernelScratch {
     peakFraction: new Float64Array(MONTHS),
     phasor: new Float64Array(2),
     peakMonth: new Float64Array(1),
+    requested: new Float64Array(MONTHS),
+    bivalent: createBivalentResult(),
     zeroCurtain: false,
     foundation: createFoundationResult(),
     system: createSystemResult(),
@@ -504,6 +516,17 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   const qField = qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peakGround_W, alphaF, st.lifeS) : qPeak;
   m[M.pilesPerTon] = qField > 0 ? (TON_W * st.groundFactor) / qField : NaN;
   const gRefLife = flsResponse(k.tables.referencePoint, alphaF, st.lifeS);
+  const request_W_m = (st.avg_W * st.seasonFactor) / (s.building.foundationPiles * H);
+  const biv = bivalentStage(
+    k,
+    x,
+    peakInput,
+    request_W_m * H,
+    alphaF,
+    peakGround_W / s.building.foundationPiles,
+  );
+  // The whole heating load's ground extraction at the operating COPs (bivalentStage).
+  const full_W_m = biv.requested_W / H;
   const w = operatingWindow(
     {
       referenceTemp_C: st.tRef,
@@ -512,8 +535,8 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
       overcooling_K: isFrostSusceptible(cell.textureClass) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
       conductivity_W_mK: kF,
       gReferenceLife: gRefLife,
-      upperFluid_W_m: (annualFraction * qPeak) / H,
-      full_W_m: (st.avg_W * st.seasonFactor) / (s.building.foundationPiles * H),
+      upperFluid_W_m: biv.fluidBound_W / H,
+      full_W_m,
     },
     x.window,
   );
@@ -527,6 +550,48 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   st.gLife = gLife;
   st.gRefLife = gRefLife;
   st.qPeak = qPeak;
+}
+
+/**
+ * Step 6b. bivalent operation (bivalent-operation.ts): the building's monthly ground loads per pile
+ * (their mean the full annual request `full_W`, at the COP of the undisturbed ground), carried up to what
+ * each month gives at the fluid limit. A second pass takes each month's ground share of the heat at the
+ * COP of that month's entering fluid from the first (the heat pump's curve, as the simulator's building
+ * mode does step by step): colder fluid, lower COP, less heat from the ground per unit of heating.
+ */
+function bivalentStage(
+  k: CellConstants,
+  x: KernelScratch,
+  p: MonthlyPeakInput,
+  full_W: number,
+  alphaF: number,
+  peakPerPile_W: number,
+): BivalentResult {
+  let sum = 0;
+  for (let i = 0; i < MONTHS; i++) sum += x.monthlyFraction[i];
+  for (let i = 0; i < MONTHS; i++)
+    x.requested[i] = sum > 0 ? (x.monthlyFraction[i] * MONTHS * full_W) / sum : 0;
+  const input: BivalentInput = {
+    groundMean_C: p.groundMean_C,
+    surfaceAmplitude_C: p.surfaceAmplitude_C,
+    phasor: p.phasor,
+    enteringLimit_C: k.scenario.heatPump.minEnteringFluid_C,
+    // Fixed loop flow, sized for the loop difference at the design peak per pile (site-prefill.ts).
+    loopDelta_K_W: (2 * k.scenario.heatPump.fluidHalfDelta_K) / peakPerPile_W,
+    length_m: p.length_m,
+    resistance_mK_W: p.resistance_mK_W,
+    conductivity_W_mK: p.conductivity_W_mK,
+    gLife: p.gLife,
+    gMonth: flsResponse(k.tables.fieldMean, alphaF, MONTH_S),
+    requested_W: x.requested,
+  };
+  const first = bivalentOperation(input, x.bivalent);
+  const season = x.state.seasonFactor;
+  for (let i = 0; i < MONTHS; i++) {
+    const ground = 1 - 1 / copFromTable(k.cop, enteringFluidOfMonth_C(input, first, i));
+    x.requested[i] *= season > 0 && ground > 0 ? ground / season : 0;
+  }
+  return bivalentOperation(input, x.bivalent);
 }
 
 /** Steps 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts. */

@@ -63,3 +63,29 @@ export function horizonText(
   if (q === 'atLeast') return `≥ ${formattedValue}`;
   return `not determined: no thaw before ${h.year}`;
 }
+
+/**
+ * The ensemble's thaw-delay percentiles past the horizon (cell-ensemble-model.ts). A member whose thaw
+ * with piles falls after the horizon holds a capped delay, a lower bound of its own; a percentile is
+ * then a lower bound too unless every such member lies above the order statistics it is interpolated
+ * from (percentileIsLowerBound, ensemble-statistics.ts). Those order statistics grow with the
+ * percentile, so the bounded percentiles are always the top ones: the class band
+ * `thawDelayRangeBound` holds how many of P10/P50/P90 are bounded, counted from P90 down
+ * (0 none, 1 P90, 2 P50 and P90, 3 all three); nodata where the percentiles are not defined.
+ */
+export const RANGE_BOUND_PERCENTILES = ['P10', 'P50', 'P90'] as const;
+
+export const RANGE_BOUND_LABELS: Record<number, string> = {
+  0: 'P10, P50 and P90 within the climate horizon',
+  1: 'P90 a lower bound (thaw with piles after the climate horizon)',
+  2: 'P50 and P90 lower bounds (thaw with piles after the climate horizon)',
+  3: 'P10, P50 and P90 lower bounds (thaw with piles after the climate horizon)',
+};
+
+/** The values of `thawDelayRangeBound` under which percentile `p` is a lower bound ("≥ value"). */
+export function rangeBoundFlags(p: (typeof RANGE_BOUND_PERCENTILES)[number]): number[] {
+  const fromTop = RANGE_BOUND_PERCENTILES.length - RANGE_BOUND_PERCENTILES.indexOf(p);
+  const out: number[] = [];
+  for (let v = fromTop; v <= RANGE_BOUND_PERCENTILES.length; v++) out.push(v);
+  return out;
+}

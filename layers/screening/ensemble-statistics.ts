@@ -39,6 +39,40 @@ export function percentileOf(
   return percentileOfSorted(s, p);
 }
 
+/**
+ * Whether percentile p (definition 7, as `percentileOf`) of the finite values among `values[0..n)` is
+ * only a lower bound of the true one when the members with `isBound[i]` true hold lower bounds of their
+ * true values (e.g. a thaw delay capped at the climate horizon). Raising values never lowers an order
+ * statistic, so the percentile is always a lower bound; it is exact when every bounded member lies
+ * strictly above the order statistics it is interpolated from (raising those members then changes
+ * neither). Ties count as bounded. `sorted` is scratch of length ≥ n. False when no finite value is
+ * bounded.
+ */
+export function percentileIsLowerBound(
+  values: ArrayLike<number>,
+  isBound: ArrayLike<boolean | number>,
+  n: number,
+  p: number,
+  sorted: Float64Array,
+): boolean {
+  let m = 0;
+  let lowestBound = Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
+    if (!(v === v && v !== Infinity && v !== -Infinity)) continue;
+    sorted[m++] = v;
+    if (isBound[i] && v < lowestBound) lowestBound = v;
+  }
+  if (m === 0 || lowestBound === Infinity) return false;
+  const s = sorted.subarray(0, m);
+  s.sort();
+  const h = (m - 1) * p;
+  const lo = Math.floor(h);
+  // The highest order statistic with a non-zero weight in the interpolation.
+  const top = h === lo ? lo : Math.min(m - 1, lo + 1);
+  return lowestBound <= s[top];
+}
+
 /** Definition 7 on an already sorted array (length ≥ 1). */
 export function percentileOfSorted(s: ArrayLike<number>, p: number): number {
   const h = (s.length - 1) * p;

@@ -10,6 +10,10 @@
  *   <band>_qualifier          bands bounded by the climate horizon: "after 2100", "≥ 45 yr", or null
  *                             (an ensemble build's bands are bands like any other: pilesPerTonP10_piles_per_ton,
  *                             successProbability, robustClass_class and _label; none without an ensemble)
+ *   <scenario>__…             a scenario-set build: per scenario of the set, a column group of its key
+ *                             figures at the place (`high_pathway_50_year_life__scenario` its name, then
+ *                             `…__suitability_class`, `…__thawDelay_yr`, …: SCENARIO_KEY_BAND_IDS; in the
+ *                             record's unit system, renamed like the band columns: `…__pilesPerTon_…`)
  *   cautions                  the screening cautions (layers/cautions.ts)
  *   unitSystem                the units of the record: "SI" or "North American" (UNIT_SYSTEM_NAME)
  *   fictionalData             the demo-data notice (builds from invented data only)
@@ -31,6 +35,7 @@ import { BAND } from './band-ids';
 import { horizonText } from './climate-horizon';
 import type { Band, Manifest } from './manifest';
 import { displayConversion, type UnitConversion, type UnitSystem } from '../unit-systems';
+import { scenarioSlug } from './scenario-set';
 
 export type { UnitSystem } from '../unit-systems';
 
@@ -229,21 +234,35 @@ export interface ExportColumn {
   unit: string;
 }
 
-/** The columns of the shared record, in order (see the file comment). */
+/**
+ * The column(s) of one band in the export's unit system: its value, its class label, its horizon
+ * qualifier; `prefix` before each.
+ */
+export function bandColumns(band: ExportBand, prefix = '', system: UnitSystem = 'SI'): ExportColumn[] {
+  const unit = band.kind === 'class' ? 'class code' : exportConversion(band.unit, system).unit || '1';
+  const cols: ExportColumn[] = [
+    { name: prefix + bandColumnName(band, system), type: exportType(band), unit },
+  ];
+  if (band.kind === 'class') cols.push({ name: `${prefix}${band.id}_label`, type: 'text', unit: '' });
+  if (band.horizon) cols.push({ name: `${prefix}${band.id}_qualifier`, type: 'text', unit: '' });
+  return cols;
+}
+
+/**
+ * The columns of the shared record, in order (see the file comment), in the given unit system; a
+ * scenario-set build's column group per scenario (scenario-key-figures.ts) before the cautions.
+ */
 export function exportColumns(
   manifest: Pick<Manifest, 'bands' | 'fictional'>,
   system: UnitSystem = 'SI',
+  scenarios: readonly ScenarioKeyBands[] = [],
 ): ExportColumn[] {
   const cols: ExportColumn[] = [
     { name: 'lon_deg', type: 'real', unit: '°' },
     { name: 'lat_deg', type: 'real', unit: '°' },
   ];
-  for (const band of manifest.bands) {
-    const unit = band.kind === 'class' ? 'class code' : exportConversion(band.unit, system).unit || '1';
-    cols.push({ name: bandColumnName(band, system), type: exportType(band), unit });
-    if (band.kind === 'class') cols.push({ name: `${band.id}_label`, type: 'text', unit: '' });
-    if (band.horizon) cols.push({ name: `${band.id}_qualifier`, type: 'text', unit: '' });
-  }
+  for (const band of manifest.bands) cols.push(...bandColumns(band, '', system));
+  for (const set of scenarios) cols.push(...scenarioColumns(set, system));
   cols.push({ name: 'cautions', type: 'text', unit: '' });
   cols.push({ name: 'unitSystem', type: 'text', unit: '' });
   if (manifest.fictional) cols.push({ name: 'fictionalData', type: 'text', unit: '' });
@@ -257,9 +276,39 @@ export function fictionalDataText(manifest: Pick<Manifest, 'notice'>): string {
 }
 
 /**
+ * The entries of one band (bandColumns' names): the value converted to the export's unit system and
+ * rounded, the class label and the horizon qualifier.
+ */
+export function bandEntries(
+  band: ExportBand,
+  valueOf: (bandId: string) => number | null | undefined,
+  prefix = '',
+  system: UnitSystem = 'SI',
+): Record<string, ExportValue> {
+  const r: Record<string, ExportValue> = {};
+  const v = exportValue(band, valueOf(band.id), system);
+  r[prefix + bandColumnName(band, system)] = v;
+  if (band.kind === 'class')
+    r[`${prefix}${band.id}_label`] = band.classes?.find((c) => c.value === v)?.label ?? null;
+  if (band.horizon) {
+    // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
+    const text = v === null ? '' : `${v} ${exportConversion(band.unit, system).unit}`;
+    r[`${prefix}${band.id}_qualifier`] = horizonText(band.horizon, valueOf(band.horizon.flagBand), text);
+  }
+  return r;
+}
+
+/** Every scenario's key bands and a reader of their values at the place (scenario index, band id). */
+export interface ScenarioValues {
+  sets: readonly ScenarioKeyBands[];
+  valueOf: (scenario: number, bandId: string) => number | null | undefined;
+}
+
+/**
  * The shared record of one place: its position and the values of every band of the build (looked up by
  * band id through `valueOf`, SI as stored, null/undefined/NaN = nodata), converted to the export's unit
- * system and rounded by the schema.
+ * system and rounded by the schema; with `scenarios` (a scenario-set build) every scenario's key figures
+ * at the place, one group each, in the same system.
  */
 export function exportRecord(
   manifest: Pick<Manifest, 'bands' | 'fictional' | 'notice'>,
@@ -267,23 +316,14 @@ export function exportRecord(
   lat: number,
   valueOf: (bandId: string) => number | null | undefined,
   system: UnitSystem = 'SI',
+  scenarios?: ScenarioValues,
 ): Record<string, ExportValue> {
   const r: Record<string, ExportValue> = {
     lon_deg: roundToStep(lon, 1e-6),
     lat_deg: roundToStep(lat, 1e-6),
   };
-  for (const band of manifest.bands) {
-    const raw = valueOf(band.id);
-    const v = exportValue(band, raw, system);
-    r[bandColumnName(band, system)] = v;
-    if (band.kind === 'class')
-      r[`${band.id}_label`] = band.classes?.find((c) => c.value === v)?.label ?? null;
-    if (band.horizon) {
-      // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
-      const text = v === null ? '' : `${v} ${exportConversion(band.unit, system).unit}`;
-      r[`${band.id}_qualifier`] = horizonText(band.horizon, valueOf(band.horizon.flagBand), text);
-    }
-  }
+  for (const band of manifest.bands) Object.assign(r, bandEntries(band, valueOf, '', system));
+  if (scenarios) Object.assign(r, scenarioRecord(scenarios.sets, scenarios.valueOf, system));
   r.cautions = EXPORT_CAUTIONS;
   r.unitSystem = UNIT_SYSTEM_NAME[system];
   if (manifest.fictional) r.fictionalData = fictionalDataText(manifest);
@@ -294,10 +334,78 @@ export function exportRecord(
 export function exportUnits(
   manifest: Pick<Manifest, 'bands' | 'fictional'>,
   system: UnitSystem = 'SI',
+  scenarios: readonly ScenarioKeyBands[] = [],
 ): Record<string, string> {
   return Object.fromEntries(
-    exportColumns(manifest, system)
+    exportColumns(manifest, system, scenarios)
       .filter((c) => c.type !== 'text')
       .map((c) => [c.name, c.unit]),
   );
+}
+
+/**
+ * The key figures every scenario of a scenario-set build carries per place (issue 17 item 4), in the
+ * order of the cell panel's key figures (web/src/panels/key-figures.ts): the suitability class, the
+ * thaw delay bought by the piles, piles per ton of peak heating, the share of the heating load the
+ * piles carry, and the ground temperature at pile depth at the end of the design life.
+ */
+export const SCENARIO_KEY_BAND_IDS: readonly string[] = [
+  BAND.suitability,
+  BAND.thawDelay,
+  BAND.pilesPerTon,
+  BAND.loadShare,
+  BAND.groundTempEnd,
+];
+
+/** One scenario's column group: its name, its column prefix and its key bands as its manifest has them. */
+export interface ScenarioKeyBands {
+  name: string;
+  /** Column prefix: the scenario's slug with underscores and a double underscore after it. */
+  prefix: string;
+  bands: ExportBand[];
+}
+
+/** The column prefix of a scenario: "High pathway, 50-year life" -> "high_pathway_50_year_life__". */
+export function scenarioColumnPrefix(name: string): string {
+  return `${scenarioSlug(name).replace(/-/g, '_')}__`;
+}
+
+/** A scenario's column group from its manifest's bands (the key bands that build has). */
+export function scenarioKeyBands(name: string, bands: readonly ExportBand[]): ScenarioKeyBands {
+  const keyBands = SCENARIO_KEY_BAND_IDS.map((id) => bands.find((b) => b.id === id)).filter(
+    (b): b is ExportBand => b !== undefined,
+  );
+  return { name, prefix: scenarioColumnPrefix(name), bands: keyBands };
+}
+
+/** The bands to read for a scenario's group: its key bands and the horizon flags of their qualifiers. */
+export function scenarioReadBandIds(set: ScenarioKeyBands): string[] {
+  const ids = set.bands.flatMap((b) => (b.horizon ? [b.id, b.horizon.flagBand] : [b.id]));
+  return [...new Set(ids)];
+}
+
+/** The columns of one scenario's group: `<prefix>scenario` (its name), then its key bands' columns. */
+export function scenarioColumns(set: ScenarioKeyBands, system: UnitSystem = 'SI'): ExportColumn[] {
+  return [
+    { name: `${set.prefix}scenario`, type: 'text', unit: '' },
+    ...set.bands.flatMap((b) => bandColumns(b, set.prefix, system)),
+  ];
+}
+
+/** Every scenario's group of one place (scenarioColumns' names), values converted and rounded as the record's. */
+export function scenarioRecord(
+  sets: readonly ScenarioKeyBands[],
+  valueOf: ScenarioValues['valueOf'],
+  system: UnitSystem = 'SI',
+): Record<string, ExportValue> {
+  const r: Record<string, ExportValue> = {};
+  sets.forEach((set, i) => {
+    r[`${set.prefix}scenario`] = set.name;
+    for (const b of set.bands)
+      Object.assign(
+        r,
+        bandEntries(b, (id) => valueOf(i, id), set.prefix, system),
+      );
+  });
+  return r;
 }

@@ -4,6 +4,19 @@
  */
 import { z } from 'zod';
 
+/** A companion spread grid of an input, as read (data-pipeline/build/sd-grids.ts). */
+const companionGridSchema = z.object({
+  file: z.string(),
+  unit: z.string(),
+  crs: z.string(),
+  width: z.number().int().positive(),
+  height: z.number().int().positive(),
+  sha256: z.string().regex(/^[0-9a-f]{64}$/),
+  nodata: z.number().nullable(),
+  scale: z.number(),
+  offset: z.number(),
+});
+
 export const bandClassSchema = z.object({
   value: z.number().int(),
   label: z.string(),
@@ -87,19 +100,12 @@ export const inputSourceSchema = z.object({
    */
   reading: z.record(z.string(), z.unknown()).optional(),
   /** Companion grid of this input's standard deviation, in the same unit (the ensemble's per-cell spread). */
-  standardDeviation: z
-    .object({
-      file: z.string(),
-      unit: z.string(),
-      crs: z.string(),
-      width: z.number().int().positive(),
-      height: z.number().int().positive(),
-      sha256: z.string().regex(/^[0-9a-f]{64}$/),
-      nodata: z.number().nullable(),
-      scale: z.number(),
-      offset: z.number(),
-    })
-    .optional(),
+  standardDeviation: companionGridSchema.optional(),
+  /**
+   * The companion grid of a class input's confusion probability (a fraction), read by nearest
+   * neighbour; the ensemble's per-cell confusion (data-pipeline/build/sd-grids.ts).
+   */
+  confusionProbability: companionGridSchema.optional(),
 });
 
 export const manifestSchema = z.object({

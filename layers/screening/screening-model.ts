@@ -76,8 +76,9 @@ export interface ScreeningModel {
   /**
    * `cellIndex`, the cell's index on the analysis grid (row-major), lets a model seed per-cell random
    * streams (cell-ensemble-model.ts) independently of how the grid is split into windows or workers.
-   * `cellSd`, indexed as SPREAD_ROLES (uncertainty-schema.ts), carries the cell's standard deviations
-   * from companion grids (NaN where none); models without an ensemble ignore it.
+   * `cellSd`, indexed as SPREAD_ROLES (uncertainty-schema.ts), carries the cell's spreads from
+   * companion grids (standard deviations; the texture class's confusion probability; NaN where none);
+   * models without an ensemble ignore it.
    */
   evaluate(cell: CellInputs, out: Float32Array, cellIndex?: number, cellSd?: Float64Array): void;
 }

@@ -5,7 +5,8 @@
  * Mapping from tile bands (manifest band ids, SI) to the site input (layers/site/site-input-schema.ts):
  *   meanAirTemp_C           -> climate.meanAirTemp_C
  *   airAmplitude_C          -> climate.amplitude_C        (regional default 18 K when the tiles lack it)
- *   warming_C_per_yr        -> climate.warming_C_per_yr   (default 0.04 K/yr when the tiles lack it)
+ *   warming_C_per_yr        -> climate.warming_C_per_yr   (default 0.04 K/yr when the tiles lack it); with a
+ *                              scenario pathway also climate.warmingPathway, scaled by it (scenario-study.ts)
  *   nFreeze                 -> climate.nFreeze            (else scenario.ground.nFreeze); nThaw from the scenario
  *   geothermalFlux_W_m2     -> ground.geothermalFlux_W_m2 (else scenario.ground.geothermalFlux_W_m2)
  *   textureClass, waterContent_m3m3 -> ground.layers[0] = { texture, water + ice content } from the surface
@@ -35,6 +36,7 @@ import { BAND, type BandId } from './band-ids';
 import { TEXTURE_CODES, type CellInputs, type TextureName } from './screening-model';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from './scenario';
 import { screenCell, type CellScreening } from './cell-screening-model';
+import { sitePathway } from './scenario-study';
 
 /** The bands the prefill reads (each one a band every build writes: tests/pipeline/site-prefill-demo-build.test.ts). */
 export const PREFILL_BANDS: readonly BandId[] = [
@@ -271,7 +273,7 @@ function layersFromCell(
 }
 
 /** The map's standard pile as the calibration models it (module comment), with the map's resistance. */
-function standardPileDraft(s: Scenario, maat: number, amp: number): SiteInputDraft['pile'] {
+export function standardPileDraft(s: Scenario, maat: number, amp: number): SiteInputDraft['pile'] {
   const p = s.pile;
   return {
     length_m: p.length_m,
@@ -313,6 +315,8 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
       meanAirTemp_C: maat,
       amplitude_C: amp,
       warming_C_per_yr: warming,
+      // The scenario's warming pathway, pattern-scaled by the cell's trend (scenario-study.ts).
+      ...(s.warmingPathway ? { warmingPathway: sitePathway(s, warming) } : {}),
       nThaw: s.ground.nThaw,
       nFreeze,
     },

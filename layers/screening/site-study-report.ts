@@ -183,12 +183,14 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
     }
   }
   const finite = (v: number) => (Number.isFinite(v) ? v : null);
-  const extraction_W = years.length
-    ? finite(years.reduce((s, y) => s + y.meanExtraction_W, 0) / years.length)
+  // Heat per pile and load share over the design life (the map's question), or the run if shorter.
+  const life = years.slice(0, Math.max(1, Math.round(scenario.designLife_yr)));
+  const extraction_W = life.length
+    ? finite(life.reduce((s, y) => s + y.meanExtraction_W, 0) / life.length)
     : null;
-  const extraction_W_m = pile ? finite(meanExtraction_W_m(years, pile.length_m)) : null;
-  const delivered = years.reduce((s, y) => s + y.delivered_kWh, 0);
-  const unmet = years.reduce((s, y) => s + y.unmet_kWh, 0);
+  const extraction_W_m = pile ? finite(meanExtraction_W_m(life, pile.length_m)) : null;
+  const delivered = life.reduce((s, y) => s + y.delivered_kWh, 0);
+  const unmet = life.reduce((s, y) => s + y.unmet_kWh, 0);
   const loadShare = building && delivered + unmet > 0 ? delivered / (delivered + unmet) : null;
   const minEnteringFluid_C = pile ? curve.minEnteringFluid_C : null;
   const lowestFluid_C = result.fluid?.lowest_C ?? null;

@@ -273,35 +273,31 @@ function heatRows(c: RowContext): StudyComparisonRow[] {
   const atLimit = d.window?.fluidAtLimit ?? false;
   const carried = m?.extractionCarried.value ?? null;
   const carried1 = m1?.extractionCarried.value ?? null;
+  const operation =
+    ' Both run the heat pump bivalently: each month (the study: each time step) the piles give what the building asks for unless that would take the fluid entering the heat pump below its limit, and backup heat covers the rest' +
+    (atLimit
+      ? '; in this run the fluid reaches the limit.'
+      : '; in this run the fluid stays above the limit.') +
+    ' What remains between them is the ground: the map computes the seasonal wave along the pile by conduction alone, while the simulated active layer freezes and thaws, releasing latent heat, so the simulated winter ground is a little warmer and its pile gives a little more.';
   const heat = row({
     quantity: 'heatPerPile',
-    title: 'Heat from the ground per pile, annual mean',
+    title: `Heat from the ground per pile, annual mean over the design life (${s.designLife_yr} yr)`,
     unit: 'W',
     quick: carried !== null ? carried * length_m : null,
     quickOnePile: carried1 !== null ? carried1 * length_m : null,
     simulated: d.extraction_W,
-    band: atLimit ? CALIBRATION_BANDS.heatPerPile : null,
-    reason: [
-      ...onePile,
-      (atLimit
-        ? ' The run reaches the fluid limit, so its heat is the heat at the limit the calibration bounds.'
-        : " The run's fluid stays above the limit: the pile carries the load, not its limit, and the bound (for the heat at the fluid limit) does not apply.") +
-        ' Two differences in operation, not in the ground: the map holds the fluid limit through a 6-hour design peak each month and scales the whole year down until the limiting month just reaches the limit (a heat pump no larger than the piles can carry at peak); ' +
-        'the study steps a week at a time, cannot see the 6-hour peak, and cuts only the weeks that reach the limit (backup heat covers the rest), so its pile draws more heat.',
-    ],
+    band: CALIBRATION_BANDS.heatPerPile,
+    reason: [...onePile, operation],
   });
   const share = row({
     quantity: BAND.loadShare,
-    title: "Share of the building's heating the piles carry",
+    title: `Share of the building's heating the piles carry over the design life (${s.designLife_yr} yr)`,
     unit: '',
     quick: m?.loadShare.value ?? null,
     quickOnePile: m1?.loadShare.value ?? null,
     simulated: d.loadShare,
     band: CALIBRATION_BANDS.loadShare,
-    reason: [
-      ...onePile,
-      ` The map's share is the whole year scaled down until the limiting month's 6-hour peak just reaches the fluid limit; the study's is the heat delivered over the heating demand of the run with only the weeks at the limit cut (backup heat covers them) and no 6-hour peak, so it carries more. The calibration bound is for the map's operation and does not cover this difference.`,
-    ],
+    reason: [...onePile, operation],
   });
   return [heat, share];
 }

@@ -19,7 +19,7 @@
  */
 import { loadLineFraction } from './site-load-line';
 import { fluidProperties, freezingPoint_C } from '../physics/fluids';
-import { DEFAULT_HEAT_PUMP_CURVE, heatPumpAt } from '../physics/heat-pump';
+import { DEFAULT_HEAT_PUMP_CURVE, heatPumpCurveAt } from '../physics/heat-pump';
 import { pileResistance } from '../physics/pile-resistance';
 import { SECONDS_PER_DAY } from '../physics/surface-forcing';
 import { createPileLoop, type LoopCommand, type PileLoop } from './pile-loop';
@@ -165,6 +165,8 @@ export function createSiteLoop(
   let cop = NaN;
   let stepTime = -1;
   const curve = op.mode === 'building' ? (op.heatPump ?? DEFAULT_HEAT_PUMP_CURVE) : DEFAULT_HEAT_PUMP_CURVE;
+  // Validated once here, not in every step (the zod check had cost more than the run's interpolation).
+  const heatPump = heatPumpCurveAt(curve);
   let lastOutlet = NaN;
 
   const command = (time_s: number, outlet_C: number): LoopCommand => {
@@ -185,7 +187,7 @@ export function createSiteLoop(
         (op.designLoad_W / op.pileCount) *
         loadLineFraction(input.climate, op.balancePoint_C, airTemperature_C(time_s));
       const eft = Number.isFinite(lastOutlet) ? lastOutlet : outlet_C;
-      cop = heatPumpAt({ enteringFluid_C: Math.max(-60, Math.min(60, eft)), curve }).cop;
+      cop = heatPump(Math.max(-60, Math.min(60, eft))).cop;
       demand = load;
     }
     if (!(demand > 0)) return { kind: 'off' };

@@ -123,6 +123,8 @@ export function sizeSiteByPulse(
   result: SiteResult,
   column: ProfileColumn,
   foundation: { spacing_m: number; designLife_yr: number; designMargin_K: number },
+  /** Only the full sizing (the reduced designs' counts null): for the calibration's many cells. */
+  fullOnly = false,
 ): SiteSizing | null {
   const pile = input.pile;
   if (!pile || !result.fluid || input.operation.mode !== 'building') return null;
@@ -160,6 +162,14 @@ export function sizeSiteByPulse(
   };
   const full = sizeSitePiles(input, base);
   if (!full.ok) return full;
+  if (fullOnly) {
+    return {
+      ok: true,
+      sizing: full.sizing,
+      byPulse: { annual: null, monthly: null, peak: full.sizing.pileCount },
+      groundTemp_C,
+    };
+  }
   const curve = op.heatPump ?? DEFAULT_HEAT_PUMP_CURVE;
   const copPeak = heatPumpAt({ enteringFluid_C: curve.minEnteringFluid_C, curve }).cop;
   const copSeason = heatPumpAt({ enteringFluid_C: groundTemp_C, curve }).cop;

@@ -26,7 +26,7 @@ beforeAll(async () => {
     features: { geometry: { coordinates: [number, number] } }[];
   };
   site = settlements.features[0].geometry.coordinates;
-}, 300_000);
+}, 900_000);
 
 afterAll(async () => {
   await s?.close();
@@ -88,6 +88,13 @@ describe('uncertainty on the map', () => {
     const text = (await ranges.textContent()) ?? '';
     expect(text).toMatch(/Probability of success: \d+ % of the ensemble members succeed/);
     expect(text).toMatch(/P10–P90/);
+    // The thaw delay's range: an end past the climate horizon (2100) reads "≥ value" and says why.
+    const item = ranges.locator('li', { hasText: /^Thaw delay/ }).first();
+    const delay = ((await item.textContent()) ?? '').replace(/^Thaw delay[^:]*: /, '');
+    expect(delay).toMatch(
+      /^P10–P90: (not defined|(≥ )?[\d.]+ yr – (≥ )?[\d.]+ yr( \(lower bound: thaw with piles after 2100\))?)$/,
+    );
+    expect(delay.includes('≥')).toBe(delay.includes('lower bound: thaw with piles after 2100'));
     await s.page.click('[data-testid=class-card] > summary');
     await s.page.screenshot({ path: join(s.artifactsDir, 'class-card-ranges-1280x720.png') });
   });

@@ -5,10 +5,8 @@
  * (layers/screening/calibration-bands.ts, README "Calibration against the site simulator").
  *
  * Conditions: the simulator's coarse mesh and 30-year runs (the design life) to keep the test near a
- * minute; the published bounds were measured at the standard mesh over 75 years, so a quantity the mesh
- * moves can sit a little wider here (said below where it does). The quantities the study shows without
- * agreement (heat per pile, load share, pile count) are held to their measured disagreement, so a change
- * that widens the gap fails, and the study must say "outside the band" for them.
+ * minute on an idle machine; the published bounds were measured at the same coarse mesh over the 75 years
+ * to the climate horizon (bench/cell-calibration.ts), heat and load share over the design life.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BAND } from '../../layers/screening/band-ids';
@@ -62,7 +60,7 @@ beforeAll(async () => {
         .join(' | '),
   );
   console.log(`map / map one pile / simulated\n${table.join('\n')}`);
-}, 600_000);
+}, 1_500_000);
 
 const PEAT = 5;
 
@@ -90,32 +88,14 @@ describe('map and site study on a dozen demo cells', () => {
     }
   });
 
-  it('heat per pile, load share and pile count: the study says where they differ, and the gap stays as measured', () => {
+  it('heat per pile, load share and pile count: every cell within the published bounds', () => {
+    // Both sides run the heat pump bivalently (layers/screening/bivalent-operation.ts; the simulator's
+    // building mode), so the quantities the calibration bounds are the ones the study shows.
     for (const r of runs) {
-      const heat = r.rows.heatPerPile;
-      const share = r.rows[BAND.loadShare];
-      const piles = r.rows.pileCount;
-      // Measured with the map's standard pile prefilled (same resistance, fluid and loop temperature
-      // difference): the simulated pile takes 26–49 % more heat than the map's one-pile form and carries
-      // 0.19–0.30 more of the load (operation: no 6-hour peak in weekly steps, only the weeks at the limit
-      // cut, against the map's year scaled to its limiting peak); the study's sizing counts 0.86–0.91 ×
-      // the map's piles (both an N-pile field; the simulated winter dip along the pile is smaller).
-      // Before the N-pile field and the standard-pile prefill the count ratio was 1.4–1.8.
-      const heatRatio = (heat.simulated as number) / (heat.quickOnePile as number);
-      expect(heatRatio).toBeGreaterThan(1);
-      expect(heatRatio).toBeLessThan(1.55);
-      expect((share.simulated as number) - (share.quickOnePile as number)).toBeLessThan(0.32);
-      const pileRatio = (piles.simulated as number) / (piles.quick as number);
-      expect(pileRatio).toBeGreaterThan(0.8);
-      expect(pileRatio).toBeLessThanOrEqual(1);
-      // Where the gap exceeds the published bound, the study must not call it agreement.
-      for (const row of [share, piles]) {
-        const inside = withinBand(
-          row.band ?? CALIBRATION_BANDS.loadShare,
-          row.quickOnePile as number,
-          row.simulated as number,
-        );
-        expect(row.agreement).toBe(inside ? 'within band' : 'outside band');
+      for (const q of ['heatPerPile', BAND.loadShare, 'pileCount'] as const) {
+        const row = r.rows[q];
+        expect(row.band, q).not.toBeNull();
+        expect(row.agreement, `${q} ${JSON.stringify(row)}`).toBe('within band');
         expect(row.reason.length).toBeGreaterThan(60);
       }
     }

@@ -6,6 +6,7 @@ import {
   groundLoad_W,
   groundRejection_W,
   heatPumpAt,
+  heatPumpCurveAt,
 } from '../../layers/physics/heat-pump';
 
 // Energy balance Q_ground = Q(1 − 1/COP) (ASHRAE Handbook—HVAC Applications, geothermal chapter;
@@ -41,5 +42,20 @@ describe('default heat pump curve (common practice)', () => {
   it('an edited curve is validated with its path', () => {
     const bad = { ...DEFAULT_HEAT_PUMP_CURVE, cop: [3, 0.5, 3, 3, 3, 3, 3] };
     expect(() => heatPumpAt({ enteringFluid_C: 0, curve: bad })).toThrow(/curve\.cop\.1/);
+  });
+  it('validated once (heatPumpCurveAt) gives what heatPumpAt gives, and refuses a bad curve up front', () => {
+    // The site simulator's heat pump evaluates one curve every step (site-operation.ts).
+    const curve = { ...DEFAULT_HEAT_PUMP_CURVE, cop: DEFAULT_HEAT_PUMP_CURVE.cop.map((c) => c * 1.1) };
+    const at = heatPumpCurveAt(curve);
+    // The curve's own definition: its tabulated values at the knots, linear in between, held beyond.
+    const { enteringFluid_C: knots, cop } = curve;
+    knots.forEach((t, i) => expect(at(t).cop).toBeCloseTo(cop[i], 12));
+    for (let i = 0; i + 1 < knots.length; i++)
+      expect(at((knots[i] + knots[i + 1]) / 2).cop).toBeCloseTo((cop[i] + cop[i + 1]) / 2, 12);
+    expect(at(knots[0] - 5).cop).toBe(cop[0]);
+    expect(at(3.3)).toEqual(heatPumpAt({ enteringFluid_C: 3.3, curve }));
+    expect(() => at(61)).toThrow(/enteringFluid_C/);
+    const bad = { ...DEFAULT_HEAT_PUMP_CURVE, cop: [3, 0.5, 3, 3, 3, 3, 3] };
+    expect(() => heatPumpCurveAt(bad)).toThrow(/curve\.cop\.1/);
   });
 });

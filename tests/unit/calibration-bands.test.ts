@@ -16,7 +16,7 @@ describe('calibration bands of the site study', () => {
     });
     expect(CALIBRATION_BANDS.heatPerPile).toMatchObject({
       kind: 'relative',
-      value: BOUNDS.heatAtLimit_rel.p95,
+      value: BOUNDS.heatCarried_rel.p95,
     });
     expect(CALIBRATION_BANDS.pileCount).toMatchObject({
       kind: 'relative',

@@ -7,12 +7,15 @@
 import { describe, expect, it } from 'vitest';
 import {
   currentScenarioName,
+  DEFAULT_COMPARE_LINK,
   defaultCompareSlug,
+  linkedCompare,
   linkedScenarios,
   scenarioBase,
   scenarioQuery,
 } from '../../web/src/data/scenario-urls';
 import { exportProperties } from '../../web/src/shortlist/shortlist-export';
+import { dividerAfterKey } from '../../web/src/dashboard/swipe-divider';
 import { parseScenario } from '../../layers/screening/scenario';
 import { differenceText, scenarioDifferences, scenarioSlug } from '../../layers/screening/scenario-set';
 import type { Manifest } from '../../layers/screening/manifest';
@@ -70,6 +73,31 @@ describe('scenario URLs and names', () => {
     expect(defaultCompareSlug(root)).toBe('high-50-yr');
     expect(defaultCompareSlug(sub)).toBe('present-trend');
     expect(defaultCompareSlug(testManifest())).toBeNull();
+  });
+  it('writes the compare view (swipe, divider, filter scope) into the link and reads it back', () => {
+    const root = setManifest('Present trend', '');
+    const swipe = { mode: 'swipe', divider_pct: 37.4, scope: 'both' } as const;
+    const q = scenarioQuery(root, 'high-50-yr', swipe);
+    expect(q).toBe('&compare=high-50-yr&compareView=swipe&divider=37&filtersUnder=both');
+    expect(linkedCompare(q)).toEqual({ mode: 'swipe', divider_pct: 37, scope: 'both' });
+    // the defaults (side by side, filters on each map's own scenario) add nothing to the link
+    expect(scenarioQuery(root, 'high-50-yr', DEFAULT_COMPARE_LINK)).toBe('&compare=high-50-yr');
+    expect(linkedCompare('?compare=high-50-yr')).toEqual(DEFAULT_COMPARE_LINK);
+    // outside compare nothing of the compare view is written
+    expect(scenarioQuery(root, null, swipe)).toBe('');
+    // bad values fall back to the defaults, a divider beyond the edges to the edge
+    expect(linkedCompare('?compareView=zoom&divider=abc&filtersUnder=all')).toEqual(DEFAULT_COMPARE_LINK);
+    expect(linkedCompare('?compareView=swipe&divider=140').divider_pct).toBe(100);
+    expect(linkedCompare('?compareView=swipe&divider=').divider_pct).toBe(50);
+  });
+  it('moves the swipe divider by key: 5 % per arrow, 1 % with Shift, Home and End to the edges', () => {
+    expect(dividerAfterKey(50, 'ArrowLeft', false)).toBe(45);
+    expect(dividerAfterKey(50, 'ArrowRight', true)).toBe(51);
+    expect(dividerAfterKey(2, 'ArrowLeft', false)).toBe(0);
+    expect(dividerAfterKey(98, 'ArrowUp', false)).toBe(100);
+    expect(dividerAfterKey(40, 'Home', false)).toBe(0);
+    expect(dividerAfterKey(40, 'End', false)).toBe(100);
+    expect(dividerAfterKey(40, 'a', false)).toBeNull();
   });
   it('exports name the scenario and carry every scenario’s differences and figures', () => {
     const p = exportProperties(

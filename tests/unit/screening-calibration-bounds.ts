@@ -22,7 +22,7 @@ export const BOUNDS = {
   activeLayer_rel: { median: 0.05, p95: 0.18, minComparable: 45 },
   groundEnd_K: { median: 0.15, p95: 0.4, minComparable: 45 },
   lowestMeanFluid_K: { median: 0.15, p95: 0.85, minComparable: 45 },
-  heatAtLimit_rel: { median: 0.035, p95: 0.1, minComparable: 45 },
+  heatCarried_rel: { median: 0.035, p95: 0.1, minComparable: 45 },
   pilesPerTon_rel: { median: 0.035, p95: 0.1, minComparable: 45 },
   loadShare_abs: { median: 0.01, p95: 0.05, minComparable: 45 },
   noPileThaw_yr: { median: 6.5, p95: 9.5, minComparable: 4 },

@@ -81,7 +81,7 @@ describe('calibration against the site simulator (committed sample)', () => {
     );
     expect(br.length).toBeGreaterThanOrEqual(4);
     // Tolerance: the one-pile heat-at-limit P95 error, the model's own scatter against the simulator.
-    const tol = BOUNDS.heatAtLimit_rel.p95;
+    const tol = BOUNDS.heatCarried_rel.p95;
     for (const c of br) {
       const { modelGroup_W, simIsolated_W, simField_W } = c.bracket!;
       expect(simField_W as number).toBeLessThan(simIsolated_W as number);
@@ -98,7 +98,7 @@ describe('calibration against the site simulator (committed sample)', () => {
         'groundPile_C',
         'activeLayer_m',
         'groundEnd_C',
-        'heatAtLimit_W',
+        'heatCarried_W',
         'pilesPerTon',
       ] as const) {
         if (c.model[k] === null) expect(m[k], `case ${i} ${k}`).toBeNull();
@@ -123,7 +123,7 @@ describe('calibration, live subset', () => {
         'activeLayer_m',
         'groundEnd_C',
         'lowestMeanFluid_C',
-        'heatAtLimit_W',
+        'heatCarried_W',
       ] as const) {
         expect(r.sim[k] as number, k).toBeCloseTo(c.sim[k] as number, 2);
       }

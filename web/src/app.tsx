@@ -19,10 +19,12 @@ import { uncertainClassOf } from './panels/ensemble-ranges';
 import {
   currentScenarioName,
   currentScenarioSlug,
+  linkedCompare,
   linkedScenarios,
   scenarioBase,
 } from './data/scenario-urls';
 import { useCompareAtlas, useCompareTable, type CompareState } from './dashboard/compare-view';
+import { useCompareFilters } from './dashboard/compare-filters';
 import {
   useBoundarySketch,
   useCellAt,
@@ -58,7 +60,11 @@ export function App() {
       else loadAtlas(base).then(setAtlas, fail);
     }, fail);
   }, [fail]);
-  const compare = useCompareAtlas(atlas, linkedScenarios(window.location.search).compare, fail);
+  const [openedWith] = useState(() => ({
+    slug: linkedScenarios(window.location.search).compare,
+    link: linkedCompare(window.location.search),
+  }));
+  const compare = useCompareAtlas(atlas, openedWith, fail);
   const pickScenario = useCallback(
     (slug: string) => {
       if (!atlas) return;
@@ -155,7 +161,8 @@ function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void
   const cellAt = useCellAt(atlas, table);
   const [selection, setSelection] = useSelection(init.state.selection, table, cellAt);
   const compareTable = useCompareTable(compare.atlas, table !== null);
-  const onViewChange = useLinkSync(manifest, choices, view, linkedBoundary, selection, compare.slug);
+  const onViewChange = useLinkSync(manifest, choices, view, linkedBoundary, selection, compare);
+  const filters = useCompareFilters(choices.filter, look.compiled, compare.atlas, compare.link.scope);
   const sketch = useBoundarySketch(zone.finishDrawing);
   const pick = usePointPicker(sketch, setSelection, cellAt);
 
@@ -169,10 +176,12 @@ function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void
         linkedBoundary={linkedBoundary}
       />
       <UrlNotice problems={init.problems} />
-      <LayersSide {...{ atlas, choices, look, uncertainClass, table, zone, sketch, compareTable }} />
+      <LayersSide
+        {...{ atlas, choices, look, uncertainClass, table, zone, sketch, compareTable, compare, filters }}
+      />
       <MapArea
         {...{ atlas, look, table, view, sketch, selection, shortlist, cellAt, flyTarget, firstPaint_ms }}
-        {...{ choices, compare }}
+        {...{ choices, compare, compareTable, filters }}
         units={choices.units}
         initialView={init.hasView ? { center: init.state.center, zoom: init.state.zoom } : null}
         boundary={zone.boundary}

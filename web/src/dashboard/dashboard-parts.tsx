@@ -3,7 +3,7 @@
  * side (layer, legend, filters, counter, sources), the map with its keyboard inspect button and hover
  * readout, and the right side (selected place and shortlist).
  */
-import { useCallback, useMemo, useState, type ChangeEvent } from 'react';
+import { useEffect, useMemo, useState, type ChangeEvent } from 'react';
 import { SCREENING_CAUTION } from '../../../layers/cautions';
 import type { Manifest } from '../../../layers/screening/manifest';
 import type { Atlas } from '../data/load-atlas';
@@ -26,14 +26,22 @@ import { ScenarioPicker } from '../panels/scenario-picker';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { ViewLink } from '../map/linked-views';
 import {
-  BothCounts,
   CompareControl,
   CompareLabel,
   ComparePane,
-  useBothSummary,
+  CompareReadout,
   type CompareState,
   type CompareTable,
 } from './compare-view';
+import {
+  BothCounts,
+  FilterScopePicker,
+  scopedLook,
+  useCompareCounts,
+  type CompareFilters,
+} from './compare-filters';
+import { SwipeDivider } from './swipe-divider';
+import { currentScenarioName } from '../data/scenario-urls';
 import { SitePanel } from '../site/site-panel';
 import type { LinkedBoundary } from '../state/boundary-link';
 import { CopyLink } from '../state/copy-link';
@@ -66,7 +74,7 @@ export function TopBar(props: {
 }) {
   const { manifest } = props;
   return (
-    <header className="topbar">
+    <header className={props.compare.slug !== null ? 'topbar comparing' : 'topbar'}>
       <h1>
         Pile Atlas <span className="muted">· {manifest.region.name}</span>
       </h1>
@@ -108,14 +116,16 @@ export function LayersSide(props: {
   table: CellTable | null;
   zone: BoundaryState;
   sketch: BoundarySketch;
+  compare: CompareState;
   compareTable: CompareTable | null;
+  filters: CompareFilters;
 }) {
-  const { atlas, choices: c, look, uncertainClass, table, zone, sketch } = props;
-  const both = useBothSummary(table, look.compiled, props.compareTable, c.filter, zone.mask);
+  const { atlas, choices: c, look, uncertainClass, table, zone, sketch, compare } = props;
   const { manifest } = atlas;
   const { compiled } = look;
-  const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
   const mask = zone.mask;
+  const counts = useCompareCounts(table, props.compareTable, props.filters, manifest, mask);
+  const regionSummary = useMemo(() => (table ? summarise(table, compiled) : null), [table, compiled]);
   const zoneSummary = useMemo(
     () => (table && mask ? summarise(table, compiled, mask) : null),
     [table, mask, compiled],
@@ -140,14 +150,23 @@ export function LayersSide(props: {
       <LegendPanel
         band={look.band}
         units={c.units}
-        filterActive={compiled.active}
+        filterActive={props.filters.left.active}
         uncertain={c.hatchUncertain && uncertainClass ? uncertainClass.band : null}
       />
       <FilterPanel bands={manifest.bands} filter={c.filter} units={c.units} onChange={c.setFilter} />
       <RadiusFilter settlements={atlas.settlements} units={c.units} onApply={zone.loadPolygons} />
       <SummaryPanel
-        region={regionSummary}
-        zone={zoneSummary}
+        region={counts.scoped ? counts.scoped.region : regionSummary}
+        zone={counts.scoped ? counts.scoped.zone : zoneSummary}
+        scopeText={counts.scoped?.text}
+        scopePicker={
+          <FilterScopePicker
+            shown={manifest}
+            compared={compare.atlas?.manifest ?? null}
+            scope={compare.link.scope}
+            onScope={(scope) => compare.setLink({ scope })}
+          />
+        }
         filters={activeFilterTexts(c.filter, manifest.bands, c.units)}
         zoneArea_km2={zone.boundary?.area_km2 ?? null}
         units={c.units}
@@ -160,14 +179,15 @@ export function LayersSide(props: {
         onClear={zone.clear}
         onImport={importBoundary}
       >
-        <BothCounts both={both} units={c.units} />
+        <BothCounts both={counts.both} units={c.units} />
       </SummaryPanel>
       <SourcesPanel manifest={manifest} />
     </aside>
   );
 }
 
-export function MapArea(props: {
+/** What the map area draws: the map (or the two maps of the compare view), readouts, inspect button. */
+export interface MapAreaProps {
   atlas: Atlas;
   look: TileLook;
   units: UnitSystem;
@@ -186,12 +206,17 @@ export function MapArea(props: {
   onFirstPaint: (time_ms: number) => void;
   choices: MapChoices;
   compare: CompareState;
-}) {
-  const { atlas, look, sketch, selection, shortlist, cellAt, compare } = props;
-  const [hover, setHover] = useState<HoverState | null>(null);
-  const onHover = useCallback(
-    (p: LonLatPoint | null) => setHover(p ? { lon: p[0], lat: p[1], index: cellAt(p[0], p[1]) } : null),
-    [cellAt],
+  compareTable: CompareTable | null;
+  filters: CompareFilters;
+}
+
+export function MapArea(props: MapAreaProps) {
+  const { atlas, look, sketch, selection, shortlist, cellAt, compare, filters } = props;
+  // One place under the pointer for every map: each readout shows its own scenario there.
+  const [hover, setHover] = useState<LonLatPoint | null>(null);
+  const hoverCell = useMemo<HoverState | null>(
+    () => (hover ? { lon: hover[0], lat: hover[1], index: cellAt(hover[0], hover[1]) } : null),
+    [hover, cellAt],
   );
   const shortlistPoints = useMemo(
     () => shortlist.slice(0, MAX_SHORTLIST_PINS).map((s) => ({ lon: s.lon, lat: s.lat, name: s.name })),
@@ -201,20 +226,24 @@ export function MapArea(props: {
     () => (selection ? [selection.lon, selection.lat] : null),
     [selection],
   );
+  const leftLook = useMemo(() => scopedLook(look, filters.left, filters.key), [look, filters]);
   // One link per map area: the left map is always on it, the right map joins while comparing.
   const [link] = useState(() => new ViewLink());
   const comparing = compare.slug !== null;
+  const swipe = comparing && compare.link.mode === 'swipe';
   return (
     <main
-      className={comparing ? 'map-wrap comparing' : 'map-wrap'}
+      className={`map-wrap${comparing ? ' comparing' : ''}${swipe ? ' swipe' : ''}`}
       data-testid="map-wrap"
       data-first-paint-ms={props.firstPaint_ms ?? undefined}
     >
       <div className="compare-pane compare-left">
         <MapView
-          {...{ atlas, onHover, link }}
-          style={look.style}
-          styleKey={look.styleKey}
+          {...{ atlas, link }}
+          onHover={setHover}
+          otherAtlas={compare.atlas}
+          style={leftLook.style}
+          styleKey={leftLook.styleKey}
           initialView={props.initialView}
           boundaryRings={props.boundary?.display ?? NO_RINGS}
           drawingPath={sketch.vertices}
@@ -228,23 +257,84 @@ export function MapArea(props: {
         />
         {comparing && <CompareLabel manifest={atlas.manifest} side="left" />}
       </div>
-      {compare.atlas && (
-        <ComparePane
-          {...{ link, view: props.view, choices: props.choices, selected: selectedPoint }}
-          atlas={compare.atlas}
-          shortlist={shortlistPoints}
-          onPick={props.onPick}
-        />
-      )}
+      <SecondScenario
+        {...{ atlas, compare, filters, link, swipe, onHover: setHover, hover }}
+        view={props.view}
+        choices={props.choices}
+        selected={selectedPoint}
+        shortlist={shortlistPoints}
+        onPick={props.onPick}
+        compareTable={props.compareTable}
+      />
       <InspectCentre view={props.view} drawing={sketch.drawing} onPick={props.onPick} />
       <span className="centre-mark" aria-hidden="true" />
       <HoverReadout
-        {...{ hover, table: props.table, units: props.units }}
+        {...{ table: props.table, units: props.units }}
+        hover={hoverCell}
         manifest={atlas.manifest}
         band={look.band}
         bandIndex={look.bandIndex}
+        scenario={comparing ? currentScenarioName(atlas.manifest) : undefined}
       />
     </main>
+  );
+}
+
+/**
+ * The second scenario of the compare view: its map (right-hand, or over the first map right of the
+ * swipe divider), the divider in the swipe view, and its hover readout.
+ */
+function SecondScenario(props: {
+  atlas: Atlas;
+  compare: CompareState;
+  compareTable: CompareTable | null;
+  filters: CompareFilters;
+  link: ViewLink;
+  view: MapViewRef;
+  choices: MapChoices;
+  swipe: boolean;
+  selected: LonLatPoint | null;
+  shortlist: { lon: number; lat: number; name: string }[];
+  hover: LonLatPoint | null;
+  onHover: (p: LonLatPoint | null) => void;
+  onPick: (p: LonLatPoint) => void;
+}) {
+  const { atlas, compare, swipe } = props;
+  // The divider moves live while dragged; the link takes its place when the drag ends.
+  const committed = compare.link.divider_pct;
+  const [divider, setDivider] = useState(committed);
+  useEffect(() => setDivider(committed), [committed]);
+  if (!compare.atlas) return null;
+  return (
+    <>
+      <ComparePane
+        {...{ link: props.link, view: props.view, choices: props.choices, selected: props.selected }}
+        atlas={compare.atlas}
+        otherAtlas={atlas}
+        filter={props.filters.right}
+        filterKey={props.filters.key}
+        shortlist={props.shortlist}
+        onPick={props.onPick}
+        onHover={props.onHover}
+        swipe_pct={swipe ? divider : null}
+      />
+      {swipe && (
+        <SwipeDivider
+          pct={divider}
+          leftName={currentScenarioName(atlas.manifest)}
+          rightName={currentScenarioName(compare.atlas.manifest)}
+          onMove={setDivider}
+          onCommit={(divider_pct) => compare.setLink({ divider_pct })}
+        />
+      )}
+      <CompareReadout
+        hover={props.hover}
+        compare={props.compareTable}
+        bandId={props.choices.bandId}
+        units={props.choices.units}
+        mode={compare.link.mode}
+      />
+    </>
   );
 }
 
@@ -288,6 +378,7 @@ export function PlaceSide(props: {
           selection={selection}
           settlements={atlas.settlements}
           units={choices.units}
+          dataBase={atlas.dataBase}
         />
       ) : null}
       {selection ? (
@@ -310,6 +401,7 @@ export function PlaceSide(props: {
         sort={choices.sort}
         onSort={choices.setSort}
         land={atlas.land}
+        dataBase={atlas.dataBase}
         onLocate={props.onLocate}
       />
     </aside>

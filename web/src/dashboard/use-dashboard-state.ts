@@ -19,7 +19,7 @@ import { compileFilter, type FilterSpec } from '../filters/cell-filter';
 import type { TileStyle } from '../map/colour-tile';
 import type { CellSelection } from '../panels/cell-panel';
 import type { uncertainClassOf } from '../panels/ensemble-ranges';
-import { scenarioQuery } from '../data/scenario-urls';
+import { scenarioQuery, type CompareLink } from '../data/scenario-urls';
 import type { LinkedBoundary } from '../state/boundary-link';
 import { formatUrlState, type ShortlistSort, type ViewState } from '../state/url-state';
 import type { UnitSystem } from '../units/display-units';
@@ -233,9 +233,11 @@ export function useLinkSync(
   view: MapViewRef,
   linkedBoundary: LinkedBoundary | null,
   selection: CellSelection | null,
-  compareSlug: string | null = null,
+  compare: { slug: string | null; link: CompareLink } | null = null,
 ): (center: LonLatPoint, zoom: number) => void {
   const { bandId, units, opacity, filter, sort } = choices;
+  const compareSlug = compare?.slug ?? null;
+  const compareLink = compare?.link;
   const writeUrl = useCallback(() => {
     const q = formatUrlState({
       center: view.current.center,
@@ -248,9 +250,21 @@ export function useLinkSync(
       selection: selection ? [selection.lon, selection.lat] : null,
       sort,
     });
-    const sc = scenarioQuery(manifest, compareSlug);
+    const sc = scenarioQuery(manifest, compareSlug, compareLink);
     window.history.replaceState(null, '', `${window.location.pathname}?${q}${sc}`);
-  }, [view, bandId, units, opacity, filter, linkedBoundary, selection, sort, manifest, compareSlug]);
+  }, [
+    view,
+    bandId,
+    units,
+    opacity,
+    filter,
+    linkedBoundary,
+    selection,
+    sort,
+    manifest,
+    compareSlug,
+    compareLink,
+  ]);
   useEffect(() => writeUrl(), [writeUrl]);
   return useCallback(
     (center: LonLatPoint, zoom: number) => {

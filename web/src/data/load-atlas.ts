@@ -74,7 +74,7 @@ export async function loadAtlas(dataBase: URL): Promise<Atlas> {
 }
 
 /** The tile zoom whose pixels resolve every analysis cell of the region (see samplingZoom). */
-export function regionSamplingZoom(atlas: Atlas): number {
+export function regionSamplingZoom(atlas: Pick<Atlas, 'manifest'>): number {
   const [, s, , n] = atlas.manifest.region.bounds;
   const equatorward = Math.abs(s) < Math.abs(n) ? s : n;
   return samplingZoom(atlas.manifest, s <= 0 && n >= 0 ? 0 : equatorward);

@@ -1,39 +1,99 @@
 /**
- * "Good under both" (issue 17 item 3, compare view): the live filter applied to the scenario shown
- * and to the compare scenario at once. A cell matches under both when it passes the filter in each
- * scenario's cell table (each filter compiled against its own scenario's bands; the two builds share
- * one analysis grid, so a cell is found in the other table by its grid column and row). Areas are the
+ * The live filter while two scenarios are compared (issue 17 item 3): the filter can apply to each
+ * map's own scenario, to both scenarios at once ("good under both"), or to one of the two scenarios on
+ * both maps. One rule (`passesScoped`) decides whether a cell passes; the matching-area counter
+ * (`summariseScoped`, over the cell tables) and the map's veil (colour-tile.ts, over the tile pixels)
+ * both call it, so the cells counted are the cells left unveiled.
+ *
+ * A map shows one scenario (its own); the other scenario is the other map's. Each filter is compiled
+ * against its own scenario's bands; the two builds share one analysis grid and one tile pyramid, so a
+ * cell is found in the other table by its grid column and row, and in the other scenario's tile at the
+ * same pixel. A cell the other scenario did not screen fails a filter tested there (its values are
+ * unknown) and, when the other scenario takes part, is left out of the cells screened. Areas are the
  * cells' ground areas, as in zonal-summary.ts.
  */
 import type { CellTable } from '../data/cell-table';
 import { passesAt, type CompiledFilter } from './cell-filter';
 import type { ZonalSummary } from './zonal-summary';
 
-/** Cells (and area) matching the filter under both scenarios, optionally only where mask[i] = 1 (of `a`). */
-export function summariseBoth(
-  a: { table: CellTable; filter: CompiledFilter },
-  b: { table: CellTable; filter: CompiledFilter },
+/** Which scenario(s) the filters apply to while comparing: each map its own, both, the one shown, the compared one. */
+export type FilterScope = 'each' | 'both' | 'shown' | 'compared';
+export const FILTER_SCOPES: readonly FilterScope[] = ['each', 'both', 'shown', 'compared'];
+
+/** The filter one map tests, split by scenario. */
+export interface ScopedFilter {
+  /** Tested on the map's own scenario's values (null: nothing tested there). */
+  own: CompiledFilter | null;
+  /** Tested on the other scenario's values of the same cell (null: nothing tested there). */
+  other: CompiledFilter | null;
+  /** Whether the other scenario takes part (its unscreened cells are then left out of the counts). */
+  otherTakesPart: boolean;
+  /** Whether any cell can fail (own or other is set). */
+  active: boolean;
+}
+
+/**
+ * The filter of the map showing `side` ('shown': the scenario of the header, 'compared': the second
+ * one) under `scope`; `own` compiled against this map's bands, `other` against the other scenario's
+ * (null while the other scenario is not loaded, or outside compare).
+ */
+export function scopedFilter(
+  scope: FilterScope,
+  side: 'shown' | 'compared',
+  own: CompiledFilter,
+  other: CompiledFilter | null,
+): ScopedFilter {
+  const useOwn = scope === 'each' || scope === 'both' || scope === side;
+  const otherTakesPart = other !== null && (scope === 'both' || (scope !== 'each' && scope !== side));
+  const o = useOwn && own.active ? own : null;
+  const t = otherTakesPart && other.active ? other : null;
+  return { own: o, other: t, otherTakesPart, active: o !== null || t !== null };
+}
+
+/**
+ * Whether a cell passes (the one rule of the module comment): its values are element k of the map's
+ * own band planes and element j of the other scenario's (j < 0 or `other` null: not screened there).
+ */
+export function passesScoped(
+  f: ScopedFilter,
+  own: ArrayLike<number>[],
+  k: number,
+  other: ArrayLike<number>[] | null,
+  j: number,
+): boolean {
+  if (f.own && !passesAt(f.own, own, k)) return false;
+  if (f.other) return other !== null && j >= 0 && passesAt(f.other, other, j);
+  return true;
+}
+
+/**
+ * Cells (and area) of `table` passing the scoped filter, optionally only where mask[i] = 1 (of
+ * `table`); `other` is the other scenario's table (needed when the other scenario takes part).
+ */
+export function summariseScoped(
+  table: CellTable,
+  f: ScopedFilter,
+  other: CellTable | null,
   mask?: Uint8Array,
 ): ZonalSummary {
-  const ta = a.table;
-  const tb = b.table;
-  if (ta.gridWidth !== tb.gridWidth || ta.gridHeight !== tb.gridHeight) {
+  if (f.otherTakesPart && !other)
+    throw new Error('the other scenario takes part but its cells are not loaded');
+  if (other && (table.gridWidth !== other.gridWidth || table.gridHeight !== other.gridHeight)) {
     throw new Error('the two scenarios do not share one analysis grid: cannot match their cells');
   }
   let screened = 0;
   let matching = 0;
   let screenedArea = 0;
   let matchingArea = 0;
-  for (let i = 0; i < ta.count; i++) {
+  for (let i = 0; i < table.count; i++) {
     if (mask && mask[i] === 0) continue;
-    const j = tb.lookup[ta.row[i] * tb.gridWidth + ta.col[i]];
-    if (j < 0) continue; // not screened in the other scenario
+    const j = other ? other.lookup[table.row[i] * other.gridWidth + table.col[i]] : -1;
+    if (f.otherTakesPart && j < 0) continue; // not screened in the other scenario
     screened++;
-    screenedArea += ta.area_m2[i];
-    const passA = !a.filter.active || passesAt(a.filter, ta.planes, i);
-    if (passA && (!b.filter.active || passesAt(b.filter, tb.planes, j))) {
+    screenedArea += table.area_m2[i];
+    if (passesScoped(f, table.planes, i, other?.planes ?? null, j)) {
       matching++;
-      matchingArea += ta.area_m2[i];
+      matchingArea += table.area_m2[i];
     }
   }
   return {
@@ -42,4 +102,13 @@ export function summariseBoth(
     matchingCells: matching,
     matchingArea_km2: matchingArea / 1e6,
   };
+}
+
+/** Cells (and area) matching the filter under both scenarios, optionally only where mask[i] = 1 (of `a`). */
+export function summariseBoth(
+  a: { table: CellTable; filter: CompiledFilter },
+  b: { table: CellTable; filter: CompiledFilter },
+  mask?: Uint8Array,
+): ZonalSummary {
+  return summariseScoped(a.table, scopedFilter('both', 'shown', a.filter, b.filter), b.table, mask);
 }

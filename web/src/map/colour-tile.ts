@@ -5,8 +5,9 @@
  * when it names one, otherwise the Okabe & Ito (2008) palette, "Color Universal Design", which stays
  * distinguishable under the common colour-vision deficiencies). Nodata is transparent (the base map's
  * land or sea shows through); cells failing the live filter are drawn as a grey veil, dense enough to
- * read apart from land without data and from the solid grey of an "excluded" class; in an
- * ensemble build, cells whose robust class is "uncertain" can be hatched over any layer.
+ * read apart from land without data and from the solid grey of an "excluded" class (while two
+ * scenarios are compared, the filter may be tested on the other scenario's tile too, by the one rule of
+ * filters/both-scenarios.ts that the counter also uses); in an ensemble build, cells whose robust class is "uncertain" can be hatched over any layer.
  */
 import type { Band } from '../../../layers/screening/manifest';
 import type { Rgb } from '../../../layers/screening/colour-ramps';
@@ -22,7 +23,8 @@ export {
   NONE_CLASS_RGB,
   OKABE_ITO,
 } from '../../../layers/screening/class-colours';
-import { passesAt, type CompiledFilter } from '../filters/cell-filter';
+import type { CompiledFilter } from '../filters/cell-filter';
+import { passesScoped, type ScopedFilter } from '../filters/both-scenarios';
 
 export const FADED_RGB: Rgb = [150, 156, 162];
 export const FADED_ALPHA = 0.6;
@@ -33,6 +35,11 @@ export interface TileStyle {
   /** Layer opacity, 0..1. */
   opacity: number;
   filter: CompiledFilter;
+  /**
+   * Compare view: the filter tested on the other scenario's planes of the same tile (the `other`
+   * argument of colourTile), compiled against that scenario's bands; absent or inactive = none.
+   */
+  otherFilter?: CompiledFilter | null;
   /**
    * Hatch the cells whose robust class is "uncertain" (ensemble builds): the plane of the robust-class
    * band and the class value that means uncertain.
@@ -55,18 +62,30 @@ export function onHatchStripe(k: number, tileSize: number): boolean {
   return (x + y) % HATCH_PERIOD < HATCH_WIDTH;
 }
 
-/** RGBA (TILE_SIZE² x 4) for one tile's planes under the given style. */
+/** The veil's filter of a style, in the form of the shared rule (filters/both-scenarios.ts). */
+export function styleFilter(style: TileStyle): ScopedFilter {
+  const own = style.filter.active ? style.filter : null;
+  const other = style.otherFilter?.active ? style.otherFilter : null;
+  return { own, other, otherTakesPart: other !== null, active: own !== null || other !== null };
+}
+
+/**
+ * RGBA (TILE_SIZE² x 4) for one tile's planes under the given style; `other` is the other scenario's
+ * planes of the same tile (null: absent there, all nodata) when the style has an `otherFilter`.
+ */
 export function colourTile(
   planes: Float32Array[],
   style: TileStyle,
   out?: Uint8ClampedArray,
+  other: Float32Array[] | null = null,
 ): Uint8ClampedArray {
   const values = planes[style.bandIndex];
   const n = values.length;
   const rgba = out ?? new Uint8ClampedArray(n * 4);
   const alpha = Math.round(255 * Math.max(0, Math.min(1, style.opacity)));
   const fadedAlpha = Math.round(alpha * FADED_ALPHA);
-  const { band, filter } = style;
+  const { band } = style;
+  const filter = styleFilter(style);
   const hatch = style.uncertainty ? planes[style.uncertainty.bandIndex] : null;
   const uncertainValue = style.uncertainty?.value ?? NaN;
   const tileSize = Math.round(Math.sqrt(n));
@@ -79,7 +98,7 @@ export function colourTile(
       rgba[o + 3] = 0;
       continue;
     }
-    if (filter.active && !passesAt(filter, planes, k)) {
+    if (filter.active && !passesScoped(filter, planes, k, other, k)) {
       rgba[o] = FADED_RGB[0];
       rgba[o + 1] = FADED_RGB[1];
       rgba[o + 2] = FADED_RGB[2];

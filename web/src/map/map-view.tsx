@@ -46,6 +46,11 @@ export interface MapViewProps {
   flyTarget: { lon: number; lat: number; seq: number } | null;
   /** Compare view: the link that keeps this map's pan and zoom with the other map's. */
   link?: ViewLink;
+  /**
+   * Compare view: the other scenario, whose tiles the style's `otherFilter` is tested on (the veil
+   * of cells failing the filters under the other scenario; filters/both-scenarios.ts).
+   */
+  otherAtlas?: Atlas | null;
   /** Accessible name of the map (default: the screening layer). */
   label?: string;
 }
@@ -90,7 +95,9 @@ export const MapView = memo(function MapView(props: MapViewProps) {
   );
 });
 
-type ScreeningLayer = TileLayer<Float32Array[] | null>;
+/** One tile's planes, and the other scenario's planes of the same tile when its filter is tested (null: absent there). */
+type TileData = { planes: Float32Array[]; other: Float32Array[] | null } | null;
+type ScreeningLayer = TileLayer<TileData>;
 type Ref<T> = MutableRefObject<T>;
 
 /**
@@ -229,30 +236,51 @@ function useScreeningTiles(
   props: MapViewProps,
   boundaryLayerAdded: boolean,
 ): void {
-  const painted = useRef(new WeakMap<Float32Array[], Painted>());
+  const painted = useRef(new WeakMap<object, Painted>());
   const { atlas, style, styleKey } = props;
+  const otherAtlas = style.otherFilter?.active ? (props.otherAtlas ?? null) : null;
   useEffect(() => {
     const overlay = overlayRef.current;
     if (!overlay) return;
-    const tileLayer = screeningTileLayer(atlas, style, styleKey, painted.current, boundaryLayerAdded);
+    const tileLayer = screeningTileLayer(
+      { atlas, otherAtlas, style, styleKey },
+      painted.current,
+      boundaryLayerAdded,
+    );
     screeningLayer.current = tileLayer;
     const layers: Layer[] = [tileLayer];
     overlay.setProps({ layers });
     // Only these change the tiles: a new boundary, marker or selection must not redraw them.
-  }, [overlayRef, screeningLayer, atlas, style, styleKey, boundaryLayerAdded]);
+  }, [overlayRef, screeningLayer, atlas, otherAtlas, style, styleKey, boundaryLayerAdded]);
+}
+
+/** The planes of tile (z, x, y) to draw, with the other scenario's filter bands when they are tested. */
+async function tileData(
+  atlas: Atlas,
+  otherAtlas: Atlas | null,
+  style: TileStyle,
+  [z, x, y]: [number, number, number],
+): Promise<TileData> {
+  const f = style.otherFilter;
+  const otherBands = f?.active ? [...new Set([...f.rangeBands, ...f.classBands])].sort((a, b) => a - b) : [];
+  const [planes, other] = await Promise.all([
+    atlas.tiles.getBands(z, x, y, bandsToDraw(style)),
+    otherAtlas && otherBands.length > 0 ? otherAtlas.tiles.getBands(z, x, y, otherBands) : null,
+  ]);
+  return planes ? { planes, other } : null;
 }
 
 /** deck.gl TileLayer of the screening bands, each tile coloured once per style key (colour-tile.ts). */
 function screeningTileLayer(
-  atlas: Atlas,
-  style: TileStyle,
-  styleKey: string,
-  painted: WeakMap<Float32Array[], Painted>,
+  drawn: { atlas: Atlas; otherAtlas: Atlas | null; style: TileStyle; styleKey: string },
+  painted: WeakMap<object, Painted>,
   belowBoundary: boolean,
 ): ScreeningLayer {
-  const { manifest, tiles } = atlas;
+  const { atlas, otherAtlas, style, styleKey } = drawn;
+  const { manifest } = atlas;
   const neededBands = bandsToDraw(style);
-  return new TileLayer<Float32Array[] | null>({
+  const otherKey = otherAtlas ? `${otherAtlas.dataBase.href}|${JSON.stringify(style.otherFilter)}` : '';
+  return new TileLayer<TileData>({
     id: 'screening',
     tileSize: manifest.tiles.tileSize,
     minZoom: manifest.tiles.minZoom,
@@ -262,17 +290,17 @@ function screeningTileLayer(
     // it. Not in the layer's own prop types, hence the spread.
     ...((belowBoundary ? { beforeId: BOUNDARY_LAYER_ID } : {}) as Record<string, unknown>),
     maxRequests: 16,
-    getTileData: ({ index }) => tiles.getBands(index.z, index.x, index.y, neededBands),
-    updateTriggers: { getTileData: [neededBands.join(',')], renderSubLayers: [styleKey] },
+    getTileData: ({ index }) => tileData(atlas, otherAtlas, style, [index.z, index.x, index.y]),
+    updateTriggers: { getTileData: [neededBands.join(','), otherKey], renderSubLayers: [styleKey] },
     renderSubLayers: (sub) => {
-      const planes = sub.data;
-      if (!planes) return null;
-      let p = painted.get(planes);
+      const data = sub.data;
+      if (!data) return null;
+      let p = painted.get(data);
       if (!p || p.key !== styleKey) {
         const image = new ImageData(TILE_SIZE, TILE_SIZE);
-        colourTile(planes, style, image.data);
+        colourTile(data.planes, style, image.data, data.other);
         p = { key: styleKey, image };
-        painted.set(planes, p);
+        painted.set(data, p);
       }
       const [min, max] = sub.tile.boundingBox;
       return new BitmapLayer({
@@ -366,7 +394,7 @@ function openingTiles(
  * Whether every tile the layer shows for the current view has loaded and has its bitmap built (tiles
  * without data have nothing to draw). Reads the tile set deck.gl keeps in the layer's state.
  */
-function allTilesDrawn(layer: TileLayer<Float32Array[] | null>): boolean {
+function allTilesDrawn(layer: ScreeningLayer): boolean {
   const tiles = (
     layer.state as {
       tileset?: { selectedTiles?: { isLoaded: boolean; content: unknown; layers: unknown }[] };

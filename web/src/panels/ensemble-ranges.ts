@@ -5,6 +5,7 @@
  */
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import { BAND } from '../../../layers/screening/band-ids';
+import { horizonText } from '../../../layers/screening/climate-horizon';
 import { formatQuantity, type UnitSystem } from '../units/display-units';
 
 /** Band id of the robust class and the value that means "uncertain" (cell-ensemble-model.ts). */
@@ -30,7 +31,9 @@ export function rangeBaseId(id: string): string {
 
 /**
  * "P10–P90 a – b" for band `id` (or its base band) from the cell's values by band id; null when the
- * build has no percentile bands for it or the cell has none.
+ * build has no percentile bands for it or the cell has none. An end that is only a lower bound (a thaw
+ * delay whose members thaw with piles after the climate horizon: the band's `horizon`, climate-horizon.ts)
+ * reads "≥ value", and the text says why.
  */
 export function rangeText(
   manifest: Manifest,
@@ -46,7 +49,21 @@ export function rangeText(
   const b = valueOf(hi.id);
   if (a === null || a === undefined || b === null || b === undefined) return 'P10–P90: not defined';
   if (!Number.isFinite(a) || !Number.isFinite(b)) return 'P10–P90: not defined';
-  return `P10–P90: ${formatQuantity(a, lo.unit, units)} – ${formatQuantity(b, hi.unit, units)}`;
+  const end = (band: Band, v: number) => {
+    const text = formatQuantity(v, band.unit, units);
+    const bounded = horizonText(
+      band.horizon,
+      band.horizon ? valueOf(band.horizon.flagBand) : undefined,
+      text,
+    );
+    return { text: bounded ?? text, bounded: bounded !== null };
+  };
+  const [x, y] = [end(lo, a), end(hi, b)];
+  const why =
+    x.bounded || y.bounded
+      ? ` (lower bound: thaw with piles after ${hi.horizon?.year ?? lo.horizon?.year})`
+      : '';
+  return `P10–P90: ${x.text} – ${y.text}${why}`;
 }
 
 /** "62 % of the ensemble members succeed" for the probability of success. */

@@ -25,6 +25,10 @@ export function HoverReadout(props: {
   band: Band;
   bandIndex: number;
   units: UnitSystem;
+  /** Compare view: the scenario the readout is of (named on its first line). */
+  scenario?: string;
+  testId?: string;
+  className?: string;
 }) {
   const { hover, table, band, bandIndex, units, manifest } = props;
   if (!hover) return null;
@@ -49,7 +53,17 @@ export function HoverReadout(props: {
     text = bandValueText(band, Number.isFinite(v) ? v : null, units, flagOf(band));
   }
   return (
-    <div className="readout" role="status" aria-live="off" data-testid="hover-readout">
+    <div
+      className={props.className ? `readout ${props.className}` : 'readout'}
+      role="status"
+      aria-live="off"
+      data-testid={props.testId ?? 'hover-readout'}
+    >
+      {props.scenario ? (
+        <div className="small readout-scenario" data-testid="readout-scenario">
+          {props.scenario}
+        </div>
+      ) : null}
       <div className="small muted">{formatLonLat(hover.lon, hover.lat, 3)}</div>
       <div>
         {displayTitle(band.title, band.unit, units)}: <strong data-testid="hover-value">{text}</strong>

@@ -18,6 +18,7 @@ import {
   type ShortlistSortKey,
 } from '../shortlist/shortlist-export';
 import { downloadFile } from '../download-file';
+import { loadScenarioFigures, type ScenarioFigures } from '../shortlist/scenario-figures';
 import { MAX_SHORTLIST_PINS } from '../map/point-markers';
 import { bandValueText, horizonFlagOf } from './cell-panel';
 import { displayTitle, formatLonLat, formatNumber, type UnitSystem } from '../units/display-units';
@@ -59,6 +60,8 @@ export function ShortlistPanel(props: {
   onSort?: (sort: PanelSort) => void;
   /** Land polygons for the report's map. */
   land?: FeatureCollection | null;
+  /** Where the build's data lives: the other scenarios of a set are read from beside it. */
+  dataBase?: URL;
 }) {
   const { manifest, units } = props;
   const items = useShortlist();
@@ -94,7 +97,13 @@ export function ShortlistPanel(props: {
           Show all {sorted.length.toLocaleString('en-US')} sites
         </button>
       ) : null}
-      <ShortlistActions manifest={manifest} sorted={sorted} land={props.land ?? null} units={units} />
+      <ShortlistActions
+        manifest={manifest}
+        dataBase={props.dataBase}
+        sorted={sorted}
+        land={props.land ?? null}
+        units={units}
+      />
     </section>
   );
 }
@@ -241,12 +250,14 @@ function useShortlistImport(bands: Band[]) {
 /** Study all, the report, the exports and the re-import of an earlier GeoJSON export. */
 function ShortlistActions(props: {
   manifest: Manifest;
+  dataBase: URL | undefined;
   sorted: ShortlistItem[];
   land: FeatureCollection | null;
   units: UnitSystem;
 }) {
   const { manifest, sorted } = props;
   const { message, onImport } = useShortlistImport(manifest.bands);
+  const exporting = useScenarioExport(manifest, props.dataBase, sorted);
   const [reportOpen, setReportOpen] = useState(false);
   const stamp = new Date().toISOString().slice(0, 10);
   const none = sorted.length === 0;
@@ -266,34 +277,13 @@ function ShortlistActions(props: {
             onClose={() => setReportOpen(false)}
           />
         ) : null}
-        <button
-          type="button"
-          disabled={none}
-          data-testid="export-geojson"
-          onClick={() =>
-            downloadFile(
-              `pile-atlas-shortlist-${stamp}.geojson`,
-              JSON.stringify(shortlistToGeoJSON(sorted, manifest, props.units), null, 2),
-              'application/geo+json',
-            )
-          }
-        >
-          Export GeoJSON
-        </button>
-        <button
-          type="button"
-          disabled={none}
-          data-testid="export-csv"
-          onClick={() =>
-            downloadFile(
-              `pile-atlas-shortlist-${stamp}.csv`,
-              shortlistToCsv(sorted, manifest, props.units),
-              'text/csv',
-            )
-          }
-        >
-          Export CSV
-        </button>
+        <ExportButtons
+          manifest={manifest}
+          sorted={sorted}
+          exporting={exporting}
+          stamp={stamp}
+          units={props.units}
+        />
         <label className="file-button">
           Import GeoJSON
           <input
@@ -314,6 +304,88 @@ function ShortlistActions(props: {
           {message}
         </p>
       ) : null}
+      {exporting.note ? (
+        <p className="small" role="status" data-testid="export-note">
+          {exporting.note}
+        </p>
+      ) : null}
     </>
   );
+}
+
+/** Export GeoJSON and CSV (with every scenario's key figures of a scenario-set build). */
+function ExportButtons(props: {
+  manifest: Manifest;
+  sorted: ShortlistItem[];
+  exporting: ReturnType<typeof useScenarioExport>;
+  units: UnitSystem;
+  stamp: string;
+}) {
+  const { manifest, sorted, exporting, stamp, units } = props;
+  const none = sorted.length === 0;
+  return (
+    <>
+      <button
+        type="button"
+        disabled={none || exporting.busy}
+        data-testid="export-geojson"
+        onClick={() =>
+          exporting.run((figures) =>
+            downloadFile(
+              `pile-atlas-shortlist-${stamp}.geojson`,
+              JSON.stringify(shortlistToGeoJSON(sorted, manifest, units, figures), null, 2),
+              'application/geo+json',
+            ),
+          )
+        }
+      >
+        Export GeoJSON
+      </button>
+      <button
+        type="button"
+        disabled={none || exporting.busy}
+        data-testid="export-csv"
+        onClick={() =>
+          exporting.run((figures) =>
+            downloadFile(
+              `pile-atlas-shortlist-${stamp}.csv`,
+              shortlistToCsv(sorted, manifest, units, figures),
+              'text/csv',
+            ),
+          )
+        }
+      >
+        Export CSV
+      </button>
+    </>
+  );
+}
+
+/**
+ * An export with every scenario's key figures at the sites (a scenario-set build: the scenarios'
+ * tiles under the sites are read first); without the set, or when they cannot be read, the export
+ * goes ahead with the scenario shown and says so.
+ */
+function useScenarioExport(manifest: Manifest, dataBase: URL | undefined, items: ShortlistItem[]) {
+  const [busy, setBusy] = useState(false);
+  const [note, setNote] = useState<string | null>(null);
+  const hasSet = (manifest.scenarioSet?.scenarios.length ?? 0) > 1 && dataBase !== undefined;
+  const run = (write: (figures: ScenarioFigures | null) => void) => {
+    if (!hasSet || !dataBase) return write(null);
+    setBusy(true);
+    setNote('Reading every scenario’s figures at the sites…');
+    loadScenarioFigures(manifest, dataBase, items).then(
+      (figures) => {
+        setBusy(false);
+        setNote(null);
+        write(figures);
+      },
+      (e: unknown) => {
+        setBusy(false);
+        setNote(`Exported without the other scenarios’ figures: ${(e as Error).message}`);
+        write(null);
+      },
+    );
+  };
+  return { busy, note, run };
 }

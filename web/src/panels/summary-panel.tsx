@@ -37,7 +37,7 @@ function ActiveFilters(props: { filters: string[] }) {
   );
 }
 
-export function SummaryPanel(props: {
+export interface SummaryPanelProps {
   region: ZonalSummary | null;
   zone: ZonalSummary | null;
   /** The active filters in words (filter-panel.ts activeFilterTexts), shown with the counts. */
@@ -55,20 +55,28 @@ export function SummaryPanel(props: {
   onImport: (ev: ChangeEvent<HTMLInputElement>) => void;
   /** Further counts after the region's and the boundary's (the compare view's "under both"). */
   children?: ReactNode;
-}) {
+  /** Compare view: which scenario(s) the counts are under, in words, after "Whole region, ". */
+  scopeText?: string;
+  /** Compare view: the control choosing which scenario(s) the filters apply to. */
+  scopePicker?: ReactNode;
+}
+
+export function SummaryPanel(props: SummaryPanelProps) {
   const { units } = props;
+  const under = props.scopeText ? `, ${props.scopeText}` : '';
   return (
     <section className="panel" aria-label="Matching area" data-testid="summary-panel">
       <h2>Matching area</h2>
+      {props.scopePicker}
       {props.region ? (
-        <Counts label="Whole region" s={props.region} units={units} testId="region-count" />
+        <Counts label={`Whole region${under}`} s={props.region} units={units} testId="region-count" />
       ) : (
         <p className="muted">Counting cells…</p>
       )}
       <ActiveFilters filters={props.filters} />
       {props.zone ? (
         <Counts
-          label={`Inside the boundary (${formatQuantity(props.zoneArea_km2 ?? NaN, 'km²', units, 4)} geodesic)`}
+          label={`Inside the boundary (${formatQuantity(props.zoneArea_km2 ?? NaN, 'km²', units, 4)} geodesic)${under}`}
           s={props.zone}
           units={units}
           testId="zone-count"

@@ -9,6 +9,7 @@ import { createPortal } from 'react-dom';
 import type { FeatureCollection } from 'geojson';
 import { GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { HEADLINE_BAND_IDS } from '../../../layers/screening/band-registry';
+import { BAND } from '../../../layers/screening/band-ids';
 import type { Manifest } from '../../../layers/screening/manifest';
 import type { ShortlistItem } from '../shortlist/shortlist-item';
 import { bandValueText, horizonFlagOf } from '../panels/cell-panel';
@@ -94,6 +95,8 @@ function ComparisonTable(props: { bands: Band[]; items: readonly ShortlistItem[]
   const { bands, items, units } = props;
   const headline = HEADLINE_BAND_IDS.flatMap((id) => bands.filter((b) => b.id === id));
   const studied = items.some((i) => i.metrics.studyThawDelay_yr !== undefined);
+  const simulated = items.some((i) => i.metrics.studyEnsembleMembers !== undefined);
+  const mapRange = bands.some((b) => b.id === BAND.thawDelayP10);
   return (
     <table className="report-table" data-testid="report-comparison">
       <thead>
@@ -106,6 +109,9 @@ function ComparisonTable(props: { bands: Band[]; items: readonly ShortlistItem[]
           ))}
           {studied ? <th>Site study: thaw delay at the first probe</th> : null}
           {studied ? <th>Site study: lowest fluid temperature</th> : null}
+          {mapRange ? <th>Map ensemble: thaw delay P10 / P50 / P90</th> : null}
+          {simulated ? <th>Simulated ensemble: thaw delay at the first probe, P10 / P50 / P90</th> : null}
+          {simulated ? <th>Simulated ensemble: lowest fluid temperature, P10 / P50 / P90</th> : null}
         </tr>
       </thead>
       <tbody>
@@ -119,6 +125,9 @@ function ComparisonTable(props: { bands: Band[]; items: readonly ShortlistItem[]
             ))}
             {studied ? <td>{studyDelay(item, units)}</td> : null}
             {studied ? <td>{studyNumber(item.metrics.studyLowestFluid_C, '°C', units)}</td> : null}
+            {mapRange ? <td>{mapThawRange(item, units)}</td> : null}
+            {simulated ? <td>{simulatedRange(item, 'studyThawDelay', 'yr', units)}</td> : null}
+            {simulated ? <td>{simulatedRange(item, 'studyLowestFluid', '°C', units)}</td> : null}
           </tr>
         ))}
       </tbody>
@@ -195,4 +204,31 @@ function studyDelay(item: ShortlistItem, units: UnitSystem): string {
   if (v === null) return 'no thaw in the simulated years';
   const text = studyNumber(v, 'yr', units);
   return item.metrics.studyThawDelayAtLeast === 'yes' ? `at least ${text}` : text;
+}
+
+/** P10 / P50 / P90 of the map ensemble's thaw delay at the site's cell (the build's ensemble bands). */
+function mapThawRange(item: ShortlistItem, units: UnitSystem): string {
+  const ids = [BAND.thawDelayP10, BAND.thawDelayP50, BAND.thawDelayP90];
+  const v = ids.map((id) => item.values[id]);
+  if (v.every((x) => typeof x !== 'number')) return 'no data';
+  return v.map((x) => (typeof x === 'number' ? formatQuantity(x, 'yr', units) : 'no data')).join(' / ');
+}
+
+/**
+ * P10 / P50 / P90 of a figure of the site's simulated ensemble ("Study all" with the ensemble), with the
+ * member count; "not run" before, "not defined" where fewer than half the members define it.
+ */
+function simulatedRange(
+  item: ShortlistItem,
+  figure: 'studyThawDelay' | 'studyLowestFluid',
+  unit: 'yr' | '°C',
+  units: UnitSystem,
+): string {
+  const m = item.metrics;
+  if (m.studyEnsembleMembers === undefined) return 'not run';
+  const suffix = unit === 'yr' ? 'yr' : 'C';
+  const v = ['P10', 'P50', 'P90'].map((p) => m[`${figure}${p}_${suffix}`]);
+  const n = `(${m.studyEnsembleMembers} members)`;
+  if (v.every((x) => typeof x !== 'number')) return `not defined in half the members ${n}`;
+  return `${v.map((x) => (typeof x === 'number' ? formatQuantity(x, unit, units) : 'no data')).join(' / ')} ${n}`;
 }

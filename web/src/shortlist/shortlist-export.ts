@@ -4,12 +4,14 @@
  * GeoJSON: RFC 7946 FeatureCollection of Points, coordinates [lon, lat] in WGS 84 with no `crs`
  * member; every numeric property carries its unit in its name (`groundTemp_degC`, `lon_deg`); each
  * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
- * data provenance of the build, so the file still explains itself when it is passed on. Columns, units
- * and rounding are the export schema the CLI shares (layers/screening/export-schema.ts), in the unit
- * system the unit switch shows: SI (the build's stored units; piles per ton) or North American (°F, ft,
- * mi, Btu/h, US gal, short tons; the column names carry the converted unit), recorded in every
- * record's `unitSystem` and in the collection's `unitSystem` member; the site's metrics follow the same
- * conversion (METRIC_UNITS). The re-import reads either back to SI. A GeoPackage of a shortlist
+ * data provenance of the build, so the file still explains itself when it is passed on; with a
+ * scenario-set build also every scenario's key figures at the site (scenario-figures.ts, one column
+ * group per scenario, the export schema's). Columns, units and rounding are the export schema the CLI
+ * shares (layers/screening/export-schema.ts), in the unit system the unit switch shows: SI (the build's
+ * stored units; piles per ton) or North American (°F, ft, mi, Btu/h, US gal, short tons; the column
+ * names carry the converted unit, the scenario groups' too), recorded in every record's `unitSystem`
+ * and in the collection's `unitSystem` member; the site's metrics follow the same conversion
+ * (METRIC_UNITS). The re-import reads either back to SI. A GeoPackage of a shortlist
  * comes from the CLI (`pile-atlas shortlist --out`, beside the GeoJSON): GDAL is too heavy for the browser.
  * CSV: one row per site with the same columns as the GeoJSON properties. Text cells that begin with
  * = + - @ tab or CR are prefixed with an apostrophe so that spreadsheets do not run them as formulas
@@ -30,6 +32,7 @@ import {
   type UnitSystem,
 } from '../../../layers/screening/export-schema';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
+import type { ScenarioFigures } from './scenario-figures';
 import { formatZodIssues } from '../../../layers/validation-error';
 
 export { EXPORT_CAUTIONS, unitSlug } from '../../../layers/screening/export-schema';
@@ -109,7 +112,12 @@ export function exportProperties(
   rank: number,
   manifest: Manifest,
   system: UnitSystem = 'SI',
+  figures: ScenarioFigures | null = null,
 ): Record<string, PropertyValue> {
+  const scenarios = figures && {
+    sets: figures.sets,
+    valueOf: (i: number, id: string) => figures.values.get(item.id)?.[i]?.[id],
+  };
   const p: Record<string, PropertyValue> = {
     rank,
     name: item.name,
@@ -117,7 +125,7 @@ export function exportProperties(
     addedAt: item.addedAt,
     origin: item.origin,
     pileAtlasId: item.id,
-    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id], system),
+    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id], system, scenarios ?? undefined),
   };
   for (const [k, v] of Object.entries(item.metrics)) {
     const [name, value] = exportMetric(k, v, system);
@@ -126,7 +134,9 @@ export function exportProperties(
   p.scenario = manifest.scenario ?? null;
   // A scenario-set build: the scenario these values come from and every scenario's region figures.
   if (manifest.scenarioSet) {
-    p.scenarioName = manifest.scenarioSet.current;
+    // The scenario the site's values were taken under (recorded when it was added), else the one shown.
+    const recorded = item.metrics.scenario;
+    p.scenarioName = typeof recorded === 'string' ? recorded : manifest.scenarioSet.current;
     p.scenarioSet = Object.fromEntries(
       manifest.scenarioSet.scenarios.map((s) => [
         s.name,
@@ -143,6 +153,7 @@ export function shortlistToGeoJSON(
   items: readonly ShortlistItem[],
   manifest: Manifest,
   system: UnitSystem = 'SI',
+  figures: ScenarioFigures | null = null,
 ) {
   return {
     type: 'FeatureCollection' as const,
@@ -153,7 +164,7 @@ export function shortlistToGeoJSON(
         type: 'Point' as const,
         coordinates: [roundToStep(item.lon, 1e-6), roundToStep(item.lat, 1e-6)],
       },
-      properties: exportProperties(item, i + 1, manifest, system),
+      properties: exportProperties(item, i + 1, manifest, system, figures),
     })),
   };
 }
@@ -172,14 +183,16 @@ export function shortlistToCsv(
   items: readonly ShortlistItem[],
   manifest: Manifest,
   system: UnitSystem = 'SI',
+  figures: ScenarioFigures | null = null,
 ): string {
-  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest, system));
+  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest, system, figures));
   const columns: string[] = [];
   const template = exportProperties(
     { id: '', name: '', note: '', lon: 0, lat: 0, addedAt: '', origin: 'map', values: {}, metrics: {} },
     0,
     manifest,
     system,
+    figures,
   );
   for (const k of Object.keys(template)) columns.push(k);
   for (const r of rows) for (const k of Object.keys(r)) if (!columns.includes(k)) columns.push(k);

@@ -51,6 +51,8 @@ export function SitePanel(props: {
   selection: CellSelection;
   settlements: FeatureCollection | null;
   units: UnitSystem;
+  /** Where the build's data lives (the study's run under every scenario reads the set from beside it). */
+  dataBase?: URL;
 }) {
   const { manifest, table, selection, units } = props;
   const [open, setOpen] = useState(false);
@@ -101,6 +103,7 @@ export function SitePanel(props: {
             prefill={prefill}
             manifest={manifest}
             units={units}
+            dataBase={props.dataBase}
             onClose={() => setOpen(false)}
           />
         </Suspense>

@@ -13,7 +13,8 @@ import type { SiteSizing } from '../../../layers/site/site-sizing';
 import { siteStudyReport, type SiteStudyReport } from '../../../layers/screening/site-study-report';
 import type { StudyComparisonRow } from '../../../layers/screening/study-comparison';
 import { formatNoteParts, formatQuantity, type UnitSystem } from '../units/display-units';
-import { ProbeTemperatureChart } from './charts/probe-temperature-chart';
+import { ProbeTemperatureChart, type ProbeOverlay } from './charts/probe-temperature-chart';
+import type { ScenarioRun } from './scenario-sweep';
 import { DepthProfileChart } from './charts/depth-profile-chart';
 import { FluidTemperatureChart } from './charts/fluid-temperature-chart';
 import { MonthlyHeatChart } from './charts/monthly-heat-chart';
@@ -129,7 +130,13 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
   );
 }
 
-export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; units: UnitSystem }) {
+export function SiteCharts(props: {
+  run: SiteRunOutcome;
+  derived: SiteDerived;
+  units: UnitSystem;
+  /** The study's runs under every scenario, drawn over the probe chart. */
+  scenarioRuns?: ScenarioRun[];
+}) {
   const { run, derived: d, units } = props;
   const last = run.input.years;
   const profileYears = [...new Set([1, Math.max(1, Math.round(last / 2)), last])];
@@ -140,7 +147,9 @@ export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; u
   }));
   return (
     <div className="site-charts">
-      {d.noPile.probes.length ? <ProbeChartBlock run={run} derived={d} units={units} /> : null}
+      {d.noPile.probes.length ? (
+        <ProbeChartBlock run={run} derived={d} units={units} scenarioRuns={props.scenarioRuns} />
+      ) : null}
       {d.window && run.input.pile ? (
         <div className="chart-block">
           <OperatingWindowChart window={d.window} units={units} />
@@ -183,11 +192,26 @@ export function SiteCharts(props: { run: SiteRunOutcome; derived: SiteDerived; u
 }
 
 /** The temperature at one of the planner's probes, chosen in a selector. */
-function ProbeChartBlock(props: { run: SiteRunOutcome; derived: SiteDerived; units: UnitSystem }) {
+function ProbeChartBlock(props: {
+  run: SiteRunOutcome;
+  derived: SiteDerived;
+  units: UnitSystem;
+  scenarioRuns?: ScenarioRun[];
+}) {
   const { run, derived: d } = props;
   const [probe, setProbe] = useState(0);
   const probes = d.noPile.probes;
   const shown = Math.min(probe, probes.length - 1);
+  const overlay = (props.scenarioRuns ?? []).flatMap((r): ProbeOverlay[] => {
+    const { result, column } = r.outcome;
+    const noPile = ownProbes(result.noPile, column).probes[shown];
+    if (!noPile) return [];
+    const withPile = result.withPile ? (ownProbes(result.withPile, column).probes[shown] ?? null) : null;
+    const withPileTime_yr = result.withPile?.time_yr ?? [];
+    return [
+      { label: r.name, colour: r.colour, time_yr: result.noPile.time_yr, noPile, withPile, withPileTime_yr },
+    ];
+  });
   const simResult = { ...run.result, noPile: d.noPile, withPile: d.withPile };
   return (
     <div className="chart-block">
@@ -211,7 +235,14 @@ function ProbeChartBlock(props: { run: SiteRunOutcome; derived: SiteDerived; uni
         probe={shown}
         freezingPoint_C={d.freezingAt(probes[shown].z_m)}
         units={props.units}
+        overlay={overlay}
       />
+      {overlay.length ? (
+        <p className="hint">
+          Coloured curves: the same inputs under each scenario of the build (solid with the pile, dashed
+          without; filled circle: thaw with the pile, open circle: thaw without).
+        </p>
+      ) : null}
     </div>
   );
 }

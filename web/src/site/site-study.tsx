@@ -3,7 +3,7 @@
  * the results on the right; print gives the one-page site sheet (inputs, results, charts, cautions).
  * Rendered into document.body so it covers the dashboard and prints on its own.
  */
-import { useEffect, useMemo, useRef, useState, type RefObject } from 'react';
+import { useEffect, useMemo, useRef, useState, type ReactNode, type RefObject } from 'react';
 import { createPortal } from 'react-dom';
 import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { CellScreening } from '../../../layers/screening/cell-screening-model';
@@ -15,6 +15,8 @@ import { issuesByPath } from './schema-form-model';
 import { siteFieldMeta } from '../../../layers/site/site-input-schema';
 import { scenarioFromManifest, type SitePrefill } from '../../../layers/screening/site-prefill';
 import { SiteEnsemblePanel } from './site-ensemble-panel';
+import { ScenarioSweepPanel, useScenarioSweep, type ScenarioRun } from './scenario-sweep';
+import { currentScenarioName } from '../data/scenario-urls';
 import {
   SiteCharts,
   SiteSummaryTable,
@@ -63,6 +65,8 @@ export function SiteStudy(props: {
   prefill: SitePrefill;
   manifest: Manifest;
   units: UnitSystem;
+  /** Where the build's data lives (the other scenarios of a set are read from beside it). */
+  dataBase?: URL;
   onClose(): void;
 }) {
   const { place, prefill, manifest, units } = props;
@@ -81,7 +85,18 @@ export function SiteStudy(props: {
   const ctx: FormContext = { root: draft, issues, onChange: setDraft, units };
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
 
-  const { added, addToShortlist } = useAddToShortlist(place, quick, run);
+  const { added, addToShortlist } = useAddToShortlist(place, quick, run, currentScenarioName(manifest));
+  const sweep = useScenarioSweep(manifest, props.dataBase);
+  const sweepPanel = (
+    <ScenarioSweepPanel
+      manifest={manifest}
+      state={sweep.state}
+      units={units}
+      canRun={issueCount === 0 && props.dataBase !== undefined}
+      onStart={() => void sweep.start(draft)}
+      onCancel={sweep.cancel}
+    />
+  );
   const { stale, startNow } = useStaleMark(run, draft, issueCount, start);
 
   const overlay = (
@@ -117,7 +132,11 @@ export function SiteStudy(props: {
           />
           <section className="site-output" aria-label="Site results">
             <SheetHeaderAndCautions place={place} fictional={manifest.fictional} />
-            <SiteResultsOrQuick {...{ run, quick, scenario, units, added, stale }} onAdd={addToShortlist} />
+            <SiteResultsOrQuick
+              {...{ run, quick, scenario, units, added, stale, sweepPanel }}
+              scenarioRuns={sweep.state.kind === 'done' ? sweep.state.runs : undefined}
+              onAdd={addToShortlist}
+            />
             <SheetInputs run={run} draft={draft} />
           </section>
         </div>
@@ -128,7 +147,12 @@ export function SiteStudy(props: {
 }
 
 /** Shortlist the studied place (a second add at the same place updates it) and say which it was. */
-function useAddToShortlist(place: SitePlace, quick: CellScreening | null, run: RunState) {
+function useAddToShortlist(
+  place: SitePlace,
+  quick: CellScreening | null,
+  run: RunState,
+  scenarioName: string,
+) {
   const [added, setAdded] = useState<string | null>(null);
   const addToShortlist = (derived: SiteDerived | null) => {
     const listed = shortlistStore.atPlace(place.lon, place.lat);
@@ -138,7 +162,8 @@ function useAddToShortlist(place: SitePlace, quick: CellScreening | null, run: R
       lat: place.lat,
       origin: 'site',
       values: place.values,
-      metrics: shortlistMetrics(quick, derived, run),
+      // The scenario the study and the cell's values are of, as a site added from the map records it.
+      metrics: { scenario: scenarioName, ...shortlistMetrics(quick, derived, run) },
     });
     const withResults = run.kind === 'done' ? ' with the simulated results' : '';
     setAdded(
@@ -188,6 +213,8 @@ function SiteResultsOrQuick(props: {
   units: UnitSystem;
   added: string | null;
   stale: StaleState;
+  sweepPanel: ReactNode;
+  scenarioRuns: ScenarioRun[] | undefined;
   onAdd(d: SiteDerived | null): void;
 }) {
   const { run, added } = props;
@@ -195,6 +222,8 @@ function SiteResultsOrQuick(props: {
     return (
       <SiteOutcome
         stale={props.stale}
+        sweepPanel={props.sweepPanel}
+        scenarioRuns={props.scenarioRuns}
         outcome={run.outcome}
         quick={props.quick}
         scenario={props.scenario}
@@ -215,6 +244,7 @@ function SiteResultsOrQuick(props: {
           {added}
         </p>
       ) : null}
+      {props.sweepPanel}
     </>
   );
 }
@@ -250,6 +280,8 @@ function SiteOutcome(props: {
   onAdd(d: SiteDerived): void;
   added: string | null;
   stale: StaleState;
+  sweepPanel: ReactNode;
+  scenarioRuns: ScenarioRun[] | undefined;
 }) {
   const derived = useSiteDerived(props.outcome, props.scenario);
   return (
@@ -273,7 +305,13 @@ function SiteOutcome(props: {
           ))}
         </ul>
       ) : null}
-      <SiteCharts run={props.outcome} derived={derived} units={props.units} />
+      {props.sweepPanel}
+      <SiteCharts
+        run={props.outcome}
+        derived={derived}
+        units={props.units}
+        scenarioRuns={props.scenarioRuns}
+      />
       <SiteEnsemblePanel
         outcome={props.outcome}
         scenario={props.scenario}
