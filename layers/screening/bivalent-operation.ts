@@ -25,7 +25,7 @@
  * reach it is outside the linear model (its outlet would approach the ground temperature).
  * The piles carry q_m = min(r_m, max(0, c_m(a))) of the requested r_m, and the annual average is the
  * fixed point a = mean_m q_m (the right-hand side falls as a grows: one root in [0, mean r], found by
- * bisection to 1e-10 of the request). The fluid bound on the annual average, for the display of the
+ * bisection to 1e-10 of the request, then solved exactly on the months' states there). The fluid bound on the annual average, for the display of the
  * operating window, is that fixed point where some month is cut; where none is, it is the request scaled
  * up until the first month reaches the limit, λ·mean r with λ = min_m α_m/(r_m + β·mean r) (≥ 1), so the
  * bound is continuous where the first month starts to be cut.
@@ -91,6 +91,27 @@ function carriedAt(a: number, r: Float64Array, beta: number): number {
   return s / MONTHS;
 }
 
+/**
+ * The fixed point exactly, on the months' states at the bisection's estimate `a0` (carried in full, cut
+ * at the limit, or giving nothing): a = (Σ_full r_m + Σ_cut α_m)/(12 + β·n_cut), the estimate where the
+ * states are ambiguous at it (a month exactly at its limit).
+ */
+function exactOnActiveSet(a0: number, r: Float64Array, beta: number): number {
+  let sum = 0;
+  let cut = 0;
+  for (let m = 0; m < MONTHS; m++) {
+    const cap = ALPHA[m] - beta * a0;
+    if (cap <= 0) continue;
+    if (r[m] <= cap) sum += r[m];
+    else {
+      sum += ALPHA[m];
+      cut++;
+    }
+  }
+  const a = sum / (MONTHS + beta * cut);
+  return Math.abs(a - a0) <= 1e-6 * Math.max(1, Math.abs(a0)) ? a : a0;
+}
+
 /** Carried, requested and the fluid bound of one pile in bivalent operation (module comment). */
 export function bivalentOperation(p: BivalentInput, out: BivalentResult): BivalentResult {
   const r = p.requested_W;
@@ -107,7 +128,7 @@ export function bivalentOperation(p: BivalentInput, out: BivalentResult): Bivale
     if (carriedAt(mid, r, beta) > mid) lo = mid;
     else hi = mid;
   }
-  const a = 0.5 * (lo + hi);
+  const a = exactOnActiveSet(0.5 * (lo + hi), r, beta);
   let cut = 0;
   let lambda = Infinity;
   for (let m = 0; m < MONTHS; m++) {

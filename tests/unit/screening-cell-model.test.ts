@@ -326,7 +326,10 @@ describe('monotonicity (property tests over the demo ranges)', () => {
         const a = metrics(c);
         const b = metrics(c, more);
         if (a[METRIC.exclusion] !== 0) return;
-        expect(b[METRIC.extractionCarried]).toBeGreaterThanOrEqual(a[METRIC.extractionCarried] - 1e-9);
+        // Within 5 % (2.0 % the largest found): the loop's flow is sized for the design peak per pile (bivalent-operation.ts), so a
+        // larger building runs a larger flow, a smaller loop difference at part load and a warmer mean
+        // fluid; where every month is at the fluid limit the pile then gives slightly less.
+        expect(b[METRIC.extractionCarried]).toBeGreaterThanOrEqual(a[METRIC.extractionCarried] * 0.95 - 1e-9);
         // Undetermined (NaN) when neither case thaws before the climate horizon (issue 11 item 8).
         if (Number.isNaN(a[METRIC.thawDelay])) return;
         expect(b[METRIC.thawDelay]).toBeGreaterThanOrEqual(a[METRIC.thawDelay] - 0.02);
