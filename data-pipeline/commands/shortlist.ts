@@ -6,14 +6,52 @@ import { isAbsolute, relative, resolve } from 'node:path';
 import { InputError } from '../input-error';
 import { openShortlist } from '../shortlist/shortlist-cells';
 import { gpkgBeside, streamShortlist, streamSink, writeShortlistFiles } from '../shortlist/write-shortlist';
+import type { UnitSystem } from '../../layers/unit-systems';
 import type { Command } from './command';
 import { numberOption, parseOptions, requireOption } from './parse-options';
+
+/** The --units value: si (default) or na, any letter case. */
+function unitsOption(value: string | undefined): UnitSystem {
+  if (value === undefined) return 'SI';
+  const v = value.toLowerCase();
+  if (v === 'si') return 'SI';
+  if (v === 'na') return 'NA';
+  throw new InputError(`--units ${value}: expected si (the stored units) or na (North American units)`);
+}
+
+/** The GeoPackage to write (or null), after checking that neither file lies inside the build. */
+function outputFiles(
+  tilesDir: string,
+  out: string | undefined,
+  gpkgOption: string | undefined,
+  noGpkg: boolean,
+): string | null {
+  if (noGpkg && gpkgOption !== undefined)
+    throw new InputError('--no-gpkg: leave out --gpkg too, or drop --no-gpkg');
+  const gpkg = noGpkg ? null : (gpkgOption ?? (out === undefined ? null : gpkgBeside(out)));
+  for (const [option, file] of [
+    ['--out', out],
+    ['--gpkg', gpkg],
+  ] as const) {
+    if (file === undefined || file === null) continue;
+    const rel = relative(resolve(tilesDir), resolve(file));
+    if (rel === '' || (!rel.startsWith('..') && !isAbsolute(rel))) {
+      throw new InputError(
+        `${option} ${file}: lies inside the build (--tiles ${tilesDir}); write it elsewhere`,
+      );
+    }
+  }
+  if (out !== undefined && gpkg !== null && resolve(out) === resolve(gpkg))
+    throw new InputError(`--gpkg ${gpkg}: is the --out file too; give the GeoPackage its own name`);
+  return gpkg;
+}
 
 export const shortlistCommand: Command = {
   name: 'shortlist',
   summary: 'filter built tiles with a --where expression; GeoJSON of matching cells or settlements',
   help: `pile-atlas shortlist --tiles <dir> --where "<conditions>" [--near <settlement> --within <km>]
-                   [--settlements] [--out <file>] [--gpkg <file> | --no-gpkg] [--limit N]
+                   [--settlements] [--units si|na] [--out <file>] [--gpkg <file> | --no-gpkg]
+                   [--limit N]
 
 Reads a build (<dir>/manifest.json and <dir>/geotiff/*.tif) and writes every cell for which the
 conditions hold as RFC 7946 GeoJSON (WGS 84 lon/lat): each cell a polygon with its position and every
@@ -42,6 +80,11 @@ Options:
                      from the cell centre; the name as in the settlements layer, any letter case)
   --within <km>      the radius for --near, km (0.1 to 5000)
   --settlements      filter settlements instead of cells
+  --units si|na      the units of the values and column names: si (default) the stored units (°C, m,
+                     km, W, piles per ton); na North American, as the map's unit switch shows them
+                     (groundTemp_degF, alt_ft, settlementDistance_mi, W in Btu/h; yr, kWh/yr and
+                     piles per ton stay). The files record it (unitSystem); the map's re-import reads
+                     both. --where always takes the stored units (thawDelay_yr, groundTemp in °C).
   --out <file>       write the GeoJSON here instead of stdout (atomically: a temporary file, renamed)
   --gpkg <file>      write the GeoPackage here (default: beside --out; none when writing to stdout)
   --no-gpkg          no GeoPackage
@@ -52,7 +95,7 @@ Options:
 Screening estimate, not a design.`,
   async run(argv) {
     const opts = parseOptions('shortlist', argv, {
-      values: ['tiles', 'where', 'out', 'gpkg', 'limit', 'near', 'within'],
+      values: ['tiles', 'where', 'out', 'gpkg', 'limit', 'near', 'within', 'units'],
       flags: ['settlements', 'no-gpkg'],
     });
     const tilesDir = requireOption('shortlist', opts, 'tiles');
@@ -69,25 +112,7 @@ Screening estimate, not a design.`,
         ? undefined
         : numberOption('shortlist', opts, 'limit', 0, 1, Number.MAX_SAFE_INTEGER, true);
     const out = opts.values.out;
-    if (opts.flags.has('no-gpkg') && opts.values.gpkg !== undefined)
-      throw new InputError('--no-gpkg: leave out --gpkg too, or drop --no-gpkg');
-    const gpkg = opts.flags.has('no-gpkg')
-      ? null
-      : (opts.values.gpkg ?? (out === undefined ? null : gpkgBeside(out)));
-    for (const [option, file] of [
-      ['--out', out],
-      ['--gpkg', gpkg],
-    ] as const) {
-      if (file === undefined || file === null) continue;
-      const rel = relative(resolve(tilesDir), resolve(file));
-      if (rel === '' || (!rel.startsWith('..') && !isAbsolute(rel))) {
-        throw new InputError(
-          `${option} ${file}: lies inside the build (--tiles ${tilesDir}); write it elsewhere`,
-        );
-      }
-    }
-    if (out !== undefined && gpkg !== null && resolve(out) === resolve(gpkg))
-      throw new InputError(`--gpkg ${gpkg}: is the --out file too; give the GeoPackage its own name`);
+    const gpkg = outputFiles(tilesDir, out, opts.values.gpkg, opts.flags.has('no-gpkg'));
     const run = await openShortlist({
       tilesDir,
       where,
@@ -95,6 +120,7 @@ Screening estimate, not a design.`,
       limit,
       near,
       within_km,
+      units: unitsOption(opts.values.units),
     });
     let summary: { matched: number; returned: number };
     if (out !== undefined) {

@@ -17,6 +17,8 @@ import {
   exportColumns,
   exportRecord,
   exportUnits,
+  UNIT_SYSTEM_NAME,
+  type UnitSystem,
   scenarioKeyBands,
   scenarioReadBandIds,
   EXPORT_CAUTIONS,
@@ -43,6 +45,8 @@ export interface ShortlistOptions {
   /** Keep only places within `within_km` of this settlement (its name, any letter case). */
   near?: string;
   within_km?: number;
+  /** The unit system of the values and column names (default SI, the stored units). */
+  units?: UnitSystem;
 }
 
 async function readManifest(tilesDir: string): Promise<Manifest> {
@@ -299,10 +303,11 @@ function shortlistMembers(
     scenario: scenario?.name ?? null,
     model: manifest.parameters.model ?? null,
     build: { tool: manifest.tool, createdAt: manifest.createdAt },
+    unitSystem: UNIT_SYSTEM_NAME[options.units ?? 'SI'],
     // Every numeric column's unit (the record's, exportUnits, and the cell's column and row).
     units: {
       ...Object.fromEntries(CELL_COLUMNS.map((c) => [c.name, c.unit])),
-      ...exportUnits(manifest, scan.scenarioSets),
+      ...exportUnits(manifest, options.units, scan.scenarioSets),
     },
     sources: manifest.sources.map((s) => ({
       file: s.file,
@@ -350,12 +355,13 @@ export async function openShortlist(options: ShortlistOptions): Promise<Shortlis
           const b = bandIndex.get(id);
           return b === undefined ? undefined : planes[b][cell];
         },
+        options.units,
         { sets: scenarios.sets, valueOf: (i, id) => scenarios.planes[i].get(id)?.[cell] },
       ),
     toLonLat,
     fromLonLat,
   };
-  const recordColumns = exportColumns(manifest, scenarios.sets);
+  const recordColumns = exportColumns(manifest, options.units, scenarios.sets);
   const taken = new Set([...CELL_COLUMNS, ...recordColumns].map((c) => c.name));
   const { settlements, columns: settlementColumns } = options.settlements
     ? await readSettlements(tilesDir, manifest, taken)

@@ -5,7 +5,7 @@
  *   layer `shortlist`   the features, every column of the export schema with its type (real, integer,
  *                       text), the cautions in every row, WGS 84 (EPSG:4326)
  *   layer `units`       one row per column: name, type, unit (a table without geometry)
- *   metadata            CAUTIONS, UNITS (JSON: column -> unit), NOTICE, WHERE, SUBJECT, MATCHED,
+ *   metadata            CAUTIONS, UNITS (JSON: column -> unit), UNIT_SYSTEM (SI or North American), NOTICE, WHERE, SUBJECT, MATCHED,
  *                       RETURNED, REGION, SCENARIO, BUILD on the dataset (GDAL metadata, gpkg_metadata)
  *                       and the cautions as the layer's description (gpkg_contents)
  * Both files are written atomically (a temporary name beside the target, then a rename).
@@ -165,6 +165,7 @@ async function writeGpkg(
   const meta: Record<string, string> = {
     CAUTIONS: EXPORT_CAUTIONS,
     UNITS: JSON.stringify(units),
+    UNIT_SYSTEM: oneLine(members.unitSystem),
     NOTICE: oneLine(run.manifest.notice),
     WHERE: oneLine(members.where),
     SUBJECT: oneLine(members.subject),

@@ -12,22 +12,55 @@
  *                             successProbability, robustClass_class and _label; none without an ensemble)
  *   <scenario>__…             a scenario-set build: per scenario of the set, a column group of its key
  *                             figures at the place (`high_pathway_50_year_life__scenario` its name, then
- *                             `…__suitability_class`, `…__thawDelay_yr`, …: SCENARIO_KEY_BAND_IDS)
+ *                             `…__suitability_class`, `…__thawDelay_yr`, …: SCENARIO_KEY_BAND_IDS; in the
+ *                             record's unit system, renamed like the band columns: `…__pilesPerTon_…`)
  *   cautions                  the screening cautions (layers/cautions.ts)
+ *   unitSystem                the units of the record: "SI" or "North American" (UNIT_SYSTEM_NAME)
  *   fictionalData             the demo-data notice (builds from invented data only)
  * The web puts the site's name, note and rank before it and the site metrics, scenario and provenance
  * after it; the CLI puts the cell's column and row before it and the rest on the collection.
  *
- * Units: exports are always in the units the build stores (SI, and piles per ton where the trade quotes
- * tons), whatever the web's unit switch shows, so that a file reads the same whoever wrote it and the
- * column names never change. Values are rounded to a meaningful step per quantity (EXPORT_STEPS), far
- * finer than the screening's own uncertainty and coarser than float noise.
+ * Units: an SI export is in the units the build stores (SI, and piles per ton where the trade quotes
+ * tons). A North American export ('NA': the web's unit switch on North American, `pile-atlas shortlist
+ * --units na`) converts every value with the display's own table (layers/unit-systems.ts: °F, ft, mi,
+ * Btu/h, US gal, short tons, kip; units the display leaves alone, such as yr, kWh/yr and piles/ton,
+ * stay) and names the column with the converted unit (groundTemp_degF, alt_ft, settlementDistance_mi).
+ * Each record says which system it is in (`unitSystem`), and `importBandValue` reads either back to the
+ * stored SI value. Values are rounded to a meaningful step per quantity (EXPORT_STEPS; in North
+ * American units the largest power of ten not coarser than the SI step, see exportStep), far finer than
+ * the screening's own uncertainty and coarser than float noise.
  */
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../cautions';
 import { BAND } from './band-ids';
 import { horizonText } from './climate-horizon';
 import type { Band, Manifest } from './manifest';
+import { displayConversion, type UnitConversion, type UnitSystem } from '../unit-systems';
 import { scenarioSlug } from './scenario-set';
+
+export type { UnitSystem } from '../unit-systems';
+
+/** How each unit system is named in the files (the `unitSystem` column and metadata). */
+export const UNIT_SYSTEM_NAME: Readonly<Record<UnitSystem, string>> = {
+  SI: 'SI',
+  NA: 'North American',
+};
+
+/** The unit system a file's `unitSystem` text names, or null when it names none of them. */
+export function unitSystemOf(text: unknown): UnitSystem | null {
+  if (text === UNIT_SYSTEM_NAME.SI) return 'SI';
+  if (text === UNIT_SYSTEM_NAME.NA || text === 'NA') return 'NA';
+  return null;
+}
+
+const IDENTITY = (unit: string): UnitConversion => ({ unit, factor: 1, offset: 0 });
+
+/**
+ * The conversion of a stored unit into an export's system: none for SI (the stored units, piles per ton
+ * included), the display's North American conversion for 'NA' (layers/unit-systems.ts).
+ */
+export function exportConversion(unit: string, system: UnitSystem): UnitConversion {
+  return system === 'NA' ? displayConversion(unit, 'NA') : IDENTITY(unit);
+}
 
 /** The cautions text every export carries (one column, and the GeoPackage's metadata). */
 export const EXPORT_CAUTIONS = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ');
@@ -35,9 +68,13 @@ export const EXPORT_CAUTIONS = [SCREENING_CAUTION, ...GROUND_CAUTIONS].join(' ')
 /** The fields of a band the schema reads. */
 export type ExportBand = Pick<Band, 'id' | 'unit' | 'kind' | 'classes' | 'horizon'>;
 
-/** A unit label as an identifier suffix: '°C' -> 'degC', 'piles/kW' -> 'piles_per_kW', 'm²' -> 'm2'. */
+/**
+ * A unit label as an identifier suffix: '°C' -> 'degC', 'piles/kW' -> 'piles_per_kW', 'm²' -> 'm2';
+ * a trailing note in words is left out ('°F (difference)' -> 'degF').
+ */
 export function unitSlug(unit: string): string {
   return unit
+    .replace(/\s+\([a-z ]+\)$/, '')
     .replace(/°/g, 'deg')
     .replace(/²/g, '2')
     .replace(/³/g, '3')
@@ -54,24 +91,27 @@ const bare = (s: string) =>
  * True when the band id already ends in its unit: `settlementDistance_km` (km), `waterContent_m3m3`
  * (m³/m³), `magt_C` (°C), `warming_C_per_yr` (K/yr: a temperature difference is the same in K and °C).
  */
-function idCarriesUnit(id: string, unit: string): boolean {
+function unitCut(id: string, unit: string): number {
   const want = bare(unit.replace(/^K(?=\/|$)/, 'C'));
   for (let cut = id.indexOf('_'); cut > 0; cut = id.indexOf('_', cut + 1)) {
-    if (bare(id.slice(cut + 1)) === want) return true;
+    if (bare(id.slice(cut + 1)) === want) return cut;
   }
-  return false;
+  return -1;
 }
 
 /**
- * Column of a band's value: the band id plus its unit (class bands: `_class`, the integer code). A band
- * id that already ends in its unit is used as it is, so the unit is never doubled (the old
- * `waterContent_m3m3_m3_per_m3`).
+ * Column of a band's value: the band id plus its unit in the export's system (class bands: `_class`,
+ * the integer code). A band id that already ends in its stored unit is used as it is, so the unit is
+ * never doubled (the old `waterContent_m3m3_m3_per_m3`); in North American units that suffix is
+ * replaced by the converted unit (`magt_C` -> `magt_degF`, `settlementDistance_km` -> `_mi`).
  */
-export function bandColumnName(band: Pick<Band, 'id' | 'unit' | 'kind'>): string {
+export function bandColumnName(band: Pick<Band, 'id' | 'unit' | 'kind'>, system: UnitSystem = 'SI'): string {
   if (band.kind === 'class') return `${band.id}_class`;
-  const slug = unitSlug(band.unit);
-  if (!slug || idCarriesUnit(band.id, band.unit)) return band.id;
-  return `${band.id}_${slug}`;
+  const conv = exportConversion(band.unit, system);
+  const slug = unitSlug(conv.unit);
+  const cut = unitCut(band.id, band.unit);
+  if (cut > 0) return conv.unit === band.unit ? band.id : `${band.id.slice(0, cut)}_${slug}`;
+  return slug ? `${band.id}_${slug}` : band.id;
 }
 
 /**
@@ -117,12 +157,23 @@ export function isCalendarYearBand(band: Pick<Band, 'id'>): boolean {
 /** A currency code with or without '/yr' (the scenario's currency, substituted for ¤ in the build). */
 const CURRENCY = /^(?:[A-Z]{3}|¤)(?:\/yr)?$/;
 
-/** The rounding step of a band, or null when its unit has no rule (then 4 significant figures). */
-export function exportStep(band: Pick<Band, 'id' | 'unit' | 'kind'>): number | null {
+/**
+ * The rounding step of a band in the export's units, or null when its unit has no rule (then 4
+ * significant figures). North American: the largest power of ten not above the SI step expressed in
+ * the converted unit (0.01 °C = 0.018 °F -> 0.01 °F; 0.01 km = 0.0062 mi -> 0.001 mi), so that a North
+ * American file is never coarser than the SI one and reads back to within one SI step.
+ */
+export function exportStep(
+  band: Pick<Band, 'id' | 'unit' | 'kind'>,
+  system: UnitSystem = 'SI',
+): number | null {
   if (band.kind === 'class') return 1;
   if (CALENDAR_YEAR_BANDS.has(band.id)) return 1;
   if (CURRENCY.test(band.unit)) return 1;
-  return EXPORT_STEPS[band.unit] ?? null;
+  const step = EXPORT_STEPS[band.unit];
+  if (step === undefined) return null;
+  const { factor } = exportConversion(band.unit, system);
+  return factor === 1 ? step : Number(`1e${Math.floor(Math.log10(step * factor) + 1e-9)}`);
 }
 
 /** The export's value type of a band's column: class codes and calendar years are integers. */
@@ -139,12 +190,38 @@ export function roundToStep(value: number, step: number): number {
   return r === 0 ? 0 : r;
 }
 
-/** A band's value as exported: rounded to its step (4 significant figures without a rule), nodata null. */
-export function exportValue(band: Pick<Band, 'id' | 'unit' | 'kind'>, value: number | null | undefined) {
+/**
+ * A band's value as exported: the stored value converted to the export's system (class codes never),
+ * rounded to its step (4 significant figures without a rule), nodata null.
+ */
+export function exportValue(
+  band: Pick<Band, 'id' | 'unit' | 'kind'>,
+  value: number | null | undefined,
+  system: UnitSystem = 'SI',
+) {
   if (value === null || value === undefined || !Number.isFinite(value)) return null;
-  const step = exportStep(band);
-  if (step === null) return +value.toPrecision(4);
-  return roundToStep(value, step);
+  const c = band.kind === 'class' ? IDENTITY(band.unit) : exportConversion(band.unit, system);
+  const shown = value * c.factor + c.offset;
+  const step = exportStep(band, system);
+  if (step === null) return +shown.toPrecision(4);
+  return roundToStep(shown, step);
+}
+
+/**
+ * A band's stored (SI) value from an export's column (inverse of exportValue up to its rounding):
+ * looks up the band's column in the file's system; undefined when the record has no such column.
+ */
+export function importBandValue(
+  band: Pick<Band, 'id' | 'unit' | 'kind'>,
+  record: Readonly<Record<string, unknown>>,
+  system: UnitSystem,
+): number | null | undefined {
+  const v = record[bandColumnName(band, system)];
+  if (v === null) return null;
+  if (typeof v !== 'number') return undefined;
+  if (band.kind === 'class') return v;
+  const c = exportConversion(band.unit, system);
+  return (v - c.offset) / c.factor;
 }
 
 export type ExportValue = string | number | null;
@@ -157,30 +234,37 @@ export interface ExportColumn {
   unit: string;
 }
 
-/** The column(s) of one band: its value, its class label, its horizon qualifier; `prefix` before each. */
-export function bandColumns(band: ExportBand, prefix = ''): ExportColumn[] {
-  const unit = band.kind === 'class' ? 'class code' : band.unit || '1';
-  const cols: ExportColumn[] = [{ name: prefix + bandColumnName(band), type: exportType(band), unit }];
+/**
+ * The column(s) of one band in the export's unit system: its value, its class label, its horizon
+ * qualifier; `prefix` before each.
+ */
+export function bandColumns(band: ExportBand, prefix = '', system: UnitSystem = 'SI'): ExportColumn[] {
+  const unit = band.kind === 'class' ? 'class code' : exportConversion(band.unit, system).unit || '1';
+  const cols: ExportColumn[] = [
+    { name: prefix + bandColumnName(band, system), type: exportType(band), unit },
+  ];
   if (band.kind === 'class') cols.push({ name: `${prefix}${band.id}_label`, type: 'text', unit: '' });
   if (band.horizon) cols.push({ name: `${prefix}${band.id}_qualifier`, type: 'text', unit: '' });
   return cols;
 }
 
 /**
- * The columns of the shared record, in order (see the file comment); a scenario-set build's column
- * group per scenario (scenario-key-figures.ts) before the cautions.
+ * The columns of the shared record, in order (see the file comment), in the given unit system; a
+ * scenario-set build's column group per scenario (scenario-key-figures.ts) before the cautions.
  */
 export function exportColumns(
   manifest: Pick<Manifest, 'bands' | 'fictional'>,
+  system: UnitSystem = 'SI',
   scenarios: readonly ScenarioKeyBands[] = [],
 ): ExportColumn[] {
   const cols: ExportColumn[] = [
     { name: 'lon_deg', type: 'real', unit: '°' },
     { name: 'lat_deg', type: 'real', unit: '°' },
   ];
-  for (const band of manifest.bands) cols.push(...bandColumns(band));
-  for (const set of scenarios) cols.push(...scenarioColumns(set));
+  for (const band of manifest.bands) cols.push(...bandColumns(band, '', system));
+  for (const set of scenarios) cols.push(...scenarioColumns(set, system));
   cols.push({ name: 'cautions', type: 'text', unit: '' });
+  cols.push({ name: 'unitSystem', type: 'text', unit: '' });
   if (manifest.fictional) cols.push({ name: 'fictionalData', type: 'text', unit: '' });
   return cols;
 }
@@ -191,20 +275,24 @@ export function fictionalDataText(manifest: Pick<Manifest, 'notice'>): string {
   return `${FICTIONAL_DATA_NOTICE}${extra}`;
 }
 
-/** The entries of one band (bandColumns' names): the rounded value, class label and horizon qualifier. */
+/**
+ * The entries of one band (bandColumns' names): the value converted to the export's unit system and
+ * rounded, the class label and the horizon qualifier.
+ */
 export function bandEntries(
   band: ExportBand,
   valueOf: (bandId: string) => number | null | undefined,
   prefix = '',
+  system: UnitSystem = 'SI',
 ): Record<string, ExportValue> {
   const r: Record<string, ExportValue> = {};
-  const v = exportValue(band, valueOf(band.id));
-  r[prefix + bandColumnName(band)] = v;
+  const v = exportValue(band, valueOf(band.id), system);
+  r[prefix + bandColumnName(band, system)] = v;
   if (band.kind === 'class')
     r[`${prefix}${band.id}_label`] = band.classes?.find((c) => c.value === v)?.label ?? null;
   if (band.horizon) {
     // Past the scenario's climate horizon: "after 2100", "≥ 45 yr" (climate-horizon.ts); null otherwise.
-    const text = v === null ? '' : `${v} ${band.unit}`;
+    const text = v === null ? '' : `${v} ${exportConversion(band.unit, system).unit}`;
     r[`${prefix}${band.id}_qualifier`] = horizonText(band.horizon, valueOf(band.horizon.flagBand), text);
   }
   return r;
@@ -218,23 +306,26 @@ export interface ScenarioValues {
 
 /**
  * The shared record of one place: its position and the values of every band of the build (looked up by
- * band id through `valueOf`, SI as stored, null/undefined/NaN = nodata), rounded by the schema; with
- * `scenarios` (a scenario-set build) every scenario's key figures at the place, one group each.
+ * band id through `valueOf`, SI as stored, null/undefined/NaN = nodata), converted to the export's unit
+ * system and rounded by the schema; with `scenarios` (a scenario-set build) every scenario's key figures
+ * at the place, one group each, in the same system.
  */
 export function exportRecord(
   manifest: Pick<Manifest, 'bands' | 'fictional' | 'notice'>,
   lon: number,
   lat: number,
   valueOf: (bandId: string) => number | null | undefined,
+  system: UnitSystem = 'SI',
   scenarios?: ScenarioValues,
 ): Record<string, ExportValue> {
   const r: Record<string, ExportValue> = {
     lon_deg: roundToStep(lon, 1e-6),
     lat_deg: roundToStep(lat, 1e-6),
   };
-  for (const band of manifest.bands) Object.assign(r, bandEntries(band, valueOf));
-  if (scenarios) Object.assign(r, scenarioRecord(scenarios.sets, scenarios.valueOf));
+  for (const band of manifest.bands) Object.assign(r, bandEntries(band, valueOf, '', system));
+  if (scenarios) Object.assign(r, scenarioRecord(scenarios.sets, scenarios.valueOf, system));
   r.cautions = EXPORT_CAUTIONS;
+  r.unitSystem = UNIT_SYSTEM_NAME[system];
   if (manifest.fictional) r.fictionalData = fictionalDataText(manifest);
   return r;
 }
@@ -242,10 +333,11 @@ export function exportRecord(
 /** Unit of every numeric column of the shared record (the collection's and the GeoPackage's `units`). */
 export function exportUnits(
   manifest: Pick<Manifest, 'bands' | 'fictional'>,
+  system: UnitSystem = 'SI',
   scenarios: readonly ScenarioKeyBands[] = [],
 ): Record<string, string> {
   return Object.fromEntries(
-    exportColumns(manifest, scenarios)
+    exportColumns(manifest, system, scenarios)
       .filter((c) => c.type !== 'text')
       .map((c) => [c.name, c.unit]),
   );
@@ -293,17 +385,18 @@ export function scenarioReadBandIds(set: ScenarioKeyBands): string[] {
 }
 
 /** The columns of one scenario's group: `<prefix>scenario` (its name), then its key bands' columns. */
-export function scenarioColumns(set: ScenarioKeyBands): ExportColumn[] {
+export function scenarioColumns(set: ScenarioKeyBands, system: UnitSystem = 'SI'): ExportColumn[] {
   return [
     { name: `${set.prefix}scenario`, type: 'text', unit: '' },
-    ...set.bands.flatMap((b) => bandColumns(b, set.prefix)),
+    ...set.bands.flatMap((b) => bandColumns(b, set.prefix, system)),
   ];
 }
 
-/** Every scenario's group of one place (scenarioColumns' names), values rounded as the record's. */
+/** Every scenario's group of one place (scenarioColumns' names), values converted and rounded as the record's. */
 export function scenarioRecord(
   sets: readonly ScenarioKeyBands[],
   valueOf: ScenarioValues['valueOf'],
+  system: UnitSystem = 'SI',
 ): Record<string, ExportValue> {
   const r: Record<string, ExportValue> = {};
   sets.forEach((set, i) => {
@@ -311,7 +404,7 @@ export function scenarioRecord(
     for (const b of set.bands)
       Object.assign(
         r,
-        bandEntries(b, (id) => valueOf(i, id), set.prefix),
+        bandEntries(b, (id) => valueOf(i, id), set.prefix, system),
       );
   });
   return r;

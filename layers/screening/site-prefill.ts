@@ -27,6 +27,7 @@
  *   - the flow per pile that gives the map's loop temperature difference (2 × heatPump.fluidHalfDelta_K)
  *     at the design-day peak, shared by the foundation's piles (prefillFlowPerPile_L_min).
  */
+import { notePartsText, type NotePart } from '../note-parts';
 import type { SiteInputDraft } from '../site/site-input-schema';
 import { designHeatingLoad_W } from '../site/site-load-line';
 import { heatPumpAt } from '../physics/heat-pump';
@@ -53,7 +54,10 @@ export type CellBandValues = Record<string, number | null | undefined>;
 export interface PrefillNote {
   /** Site-input path the note is about, e.g. 'climate.amplitude_C'. */
   path: string;
+  /** The note in SI words. */
   text: string;
+  /** The same note, words and quantities apart, where it holds a quantity with a unit. */
+  parts?: NotePart[];
 }
 
 export interface SitePrefill {
@@ -297,12 +301,12 @@ export function sitePrefill(values: CellBandValues, scenarioRaw?: unknown): Site
   const { maat, amp, warming, nFreeze, flux } = climateFromCell(values, s, pick);
   const layers = layersFromCell(pick, notes);
   const p = s.pile;
-  notes.push({
-    path: 'pile.resistance',
-    text:
-      `Pile resistance set to the map's standard pile, ${s.pile.resistance_mK_W} m·K/W, so the study and the map compare like with like; ` +
-      "enter your loop's measured resistances, or remove them to compute them from the loop and the flow.",
-  });
+  const resistanceParts: NotePart[] = [
+    "Pile resistance set to the map's standard pile, ",
+    { value: s.pile.resistance_mK_W, unit: 'm·K/W' },
+    ", so the study and the map compare like with like; enter your loop's measured resistances, or remove them to compute them from the loop and the flow.",
+  ];
+  notes.push({ path: 'pile.resistance', text: notePartsText(resistanceParts), parts: resistanceParts });
   const load = Math.round(standardLoadAtColdestAir_W(s, maat, amp) / 100) * 100;
   const draft: SiteInputDraft = {
     years: Math.round(s.designLife_yr),

@@ -200,7 +200,7 @@ export function siteStudyReport(run: SiteStudyRun, scenario: Scenario): SiteStud
     ? studyWindow({ quick, extraction_W_m, lowestFluid_C, minEnteringFluid_C, scenario, loadShare })
     : null;
   const notes = siteNotes(input, result, years, minEnteringFluid_C, column.firstProbe);
-  if (window) notes.push({ kind: 'fluid', text: window.note });
+  if (window) notes.push({ kind: 'fluid', text: window.note, parts: window.noteParts });
   const base = {
     cautions: [SCREENING_CAUTION, ...GROUND_CAUTIONS],
     simulatedYears: input.years,

@@ -5,6 +5,7 @@
  * assumptions. Values in SI (the unit of each row); the screen converts them. A quantity that is also a
  * map band carries the band's id (BAND).
  */
+import { notePartsText, type NotePart, type NoteQuantity } from '../note-parts';
 import { WATTS_PER_TON } from '../physics/heat-pump';
 import type { Scenario } from './scenario';
 import { BAND } from './band-ids';
@@ -29,7 +30,10 @@ export type Agreement = 'within band' | 'outside band' | 'no published band' | '
 
 export interface StudyComparisonRow {
   quantity: StudyQuantity;
+  /** The row's title in SI words. */
   title: string;
+  /** The title, words and quantities apart (the web writes the quantities in the chosen units). */
+  titleParts: NotePart[];
   /** SI unit ('' for counts, shares and COP; '%' is not used: shares are 0–1). */
   unit: string;
   /** The map's value (the standard building on its foundation group). */
@@ -48,21 +52,39 @@ export interface StudyComparisonRow {
   difference: number | null;
   band: CalibrationBand | null;
   agreement: Agreement;
-  /** Why the two differ (or agree), in words. */
+  /** Why the two differ (or agree), in SI words. */
   reason: string;
+  /** The reason, words and quantities apart. */
+  reasonParts: NotePart[];
 }
 
 type ReportBase = Omit<SiteStudyReport, 'comparison'>;
 
 const f1 = (v: number) => v.toFixed(1);
 
+const m_ = (value: number): NoteQuantity => ({ value, unit: 'm' });
+
 function row(
-  r: Omit<StudyComparisonRow, 'difference' | 'agreement' | 'quickOnePile'> & {
+  r: Omit<
+    StudyComparisonRow,
+    'difference' | 'agreement' | 'quickOnePile' | 'title' | 'titleParts' | 'reason' | 'reasonParts'
+  > & {
+    title: string | NotePart[];
+    reason: string | NotePart[];
     quickOnePile?: number | null;
     comparable?: boolean;
   },
 ): StudyComparisonRow {
-  const { comparable = true, ...rest } = r;
+  const { comparable = true, title, reason, ...fields } = r;
+  const titleParts = typeof title === 'string' ? [title] : title;
+  const reasonParts = typeof reason === 'string' ? [reason] : reason;
+  const rest = {
+    ...fields,
+    title: notePartsText(titleParts),
+    titleParts,
+    reason: notePartsText(reasonParts),
+    reasonParts,
+  };
   const one = r.quickOnePile === undefined ? r.quick : r.quickOnePile;
   const both = one !== null && r.simulated !== null && Number.isFinite(one) && Number.isFinite(r.simulated);
   const difference = both ? (one as number) - (r.simulated as number) : null;
@@ -83,8 +105,8 @@ interface RowContext {
   /** The map's metrics: the building on its foundation group, and the one-pile form. */
   m: NonNullable<ReportBase['quick']>['metrics'] | undefined;
   m1: NonNullable<ReportBase['quickOnePile']>['metrics'] | undefined;
-  /** Where the first probe is, in words. */
-  where: string;
+  /** Where the first probe is, in words and lengths. */
+  where: NotePart[];
 }
 
 /** Thaw year without piles at the first probe: the calibrated thaw figure (no pile on either side). */
@@ -97,7 +119,7 @@ function noPileThawRow(c: RowContext): StudyComparisonRow {
   const simThaw = noPileThaw !== null ? s.startYear + noPileThaw : null;
   return row({
     quantity: 'noPileThaw',
-    title: `Thaw without piles at ${where} (calendar year)`,
+    title: ['Thaw without piles at ', ...where, ' (calendar year)'],
     unit: '',
     quick: mapAfter ? null : mapThaw,
     quickText: m?.thawYear.qualifier,
@@ -124,12 +146,14 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
   const delay = res.thawDelay_yr[0] ?? null;
   const lower = res.thawDelayIsLowerBound[0] ?? false;
   const upper = res.thawDelayIsUpperBound[0] ?? false;
-  const models =
-    `The map superposes the whole ${s.building.foundationPiles}-pile foundation (${s.building.pileSpacing_m} m spacing) on the warming; ` +
-    'the study simulates one pile (no neighbours), which cools the ground less, so its delay is closer to the one-pile value. No calibration bound is published for the thaw delay.';
+  const models: NotePart[] = [
+    `The map superposes the whole ${s.building.foundationPiles}-pile foundation (`,
+    m_(s.building.pileSpacing_m),
+    ' spacing) on the warming; the study simulates one pile (no neighbours), which cools the ground less, so its delay is closer to the one-pile value. No calibration bound is published for the thaw delay.',
+  ];
   const base = {
     quantity: BAND.thawDelay,
-    title: p0 ? `Thaw delay at ${p0.r_m} m from the pile, ${p0.z_m} m deep` : 'Thaw delay',
+    title: p0 ? ['Thaw delay at ', m_(p0.r_m), ' from the pile, ', m_(p0.z_m), ' deep'] : 'Thaw delay',
     unit: 'yr',
     quick: m?.thawDelay.value ?? null,
     quickOnePile: m1?.thawDelay.value ?? null,
@@ -142,7 +166,11 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
       simulated: null,
       simulatedText: 'ground unfrozen at the start: nothing to delay',
       comparable: false,
-      reason: `The simulated ground at ${where} is unfrozen from the first year, so there is no thaw to delay.`,
+      reason: [
+        'The simulated ground at ',
+        ...where,
+        ' is unfrozen from the first year, so there is no thaw to delay.',
+      ],
     });
   }
   if (delay === null) {
@@ -151,7 +179,12 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
       simulated: null,
       simulatedText: res.withPile ? `no thaw within ${years} yr either way` : 'no pile in this run',
       comparable: false,
-      reason: `The ground at ${where} does not thaw within the run even without the pile, so the run cannot measure a delay. ${onset.reason}`,
+      reason: [
+        'The ground at ',
+        ...where,
+        ' does not thaw within the run even without the pile, so the run cannot measure a delay. ',
+        ...onset.reasonParts,
+      ],
     });
   }
   if (upper) {
@@ -160,7 +193,7 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
       simulated: delay,
       simulatedText: `none: the pile brings the thaw forward by more than ${f1(-delay)} yr`,
       comparable: false,
-      reason: `In the run the pile thaws the ground at ${where} earlier than without it. ${models}`,
+      reason: ['In the run the pile thaws the ground at ', ...where, ' earlier than without it. ', ...models],
     });
   }
   if (lower) {
@@ -169,7 +202,10 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
       simulated: delay,
       simulatedText: `more than ${f1(delay)} yr (the ground with the pile is still frozen when the run ends)`,
       comparable: false,
-      reason: `The simulated delay is only a lower bound: the ground with the pile is still frozen in ${runEnd}. ${models}`,
+      reason: [
+        `The simulated delay is only a lower bound: the ground with the pile is still frozen in ${runEnd}. `,
+        ...models,
+      ],
     });
   }
   return row({ ...base, simulated: delay, reason: models });
@@ -177,7 +213,7 @@ function thawDelayRow(c: RowContext, onset: StudyComparisonRow): StudyComparison
 
 /** Piles for the design-day load: the map's piles per ton against the study's sizing. */
 function pileCountRow(c: RowContext): StudyComparisonRow {
-  const { run, d, s, m } = c;
+  const { d, m } = c;
   const peak_W = d.peakLoad_W;
   const quickPiles =
     m && peak_W && m.pilesPerTon.value !== null
@@ -186,33 +222,54 @@ function pileCountRow(c: RowContext): StudyComparisonRow {
   const sized = d.sizing;
   return row({
     quantity: 'pileCount',
-    title: peak_W ? `Piles for the design-day load ${f1(peak_W / 1000)} kW` : 'Piles for the peak load',
+    title: peak_W
+      ? ['Piles for the design-day load ', { value: peak_W / 1000, unit: 'kW', decimals: 1 }]
+      : 'Piles for the peak load',
     unit: '',
     quick: quickPiles,
     simulated: sized?.ok ? sized.sizing.pileCount : null,
     simulatedText: sized && !sized.ok ? `not sized: ${sized.reason}` : undefined,
     band: CALIBRATION_BANDS.pileCount,
-    reason:
-      `Both count a field of as many piles as the load needs (near-square at the foundation spacing, ${s.building.pileSpacing_m} m), for the same building, pile and fluid limit over the design life (${s.designLife_yr} yr), with the design-day peak. ` +
-      'The map checks every month against the seasonal ground wave along the pile computed by conduction alone (TTOP ground' +
-      (m && m.groundTemp.value !== null ? ` ${f1(m.groundTemp.value)} °C` : '') +
-      '); the study checks every month against the simulated ground along the pile' +
-      (Number.isFinite(d.groundTemp_C) ? ` (${f1(d.groundTemp_C)} °C at mid-pile)` : '') +
-      ', whose winter dip is smaller because the freezing active layer releases latent heat, so it needs fewer piles' +
-      (run.result.fluid
-        ? `; pile resistance ${run.result.fluid.Rb_mK_W.toFixed(2)} m·K/W against the map's ${s.pile.resistance_mK_W.toFixed(2)}.`
-        : '.'),
+    reason: pileCountReason(c),
   });
+}
+
+/** Why the map's and the study's pile counts differ, in words and quantities. */
+function pileCountReason(c: RowContext): NotePart[] {
+  const { run, d, s, m } = c;
+  const degC = (value: number): NoteQuantity => ({ value, unit: '°C', decimals: 1 });
+  const rb = run.result.fluid?.Rb_mK_W;
+  return [
+    'Both count a field of as many piles as the load needs (near-square at the foundation spacing, ',
+    m_(s.building.pileSpacing_m),
+    `), for the same building, pile and fluid limit over the design life (${s.designLife_yr} yr), with the design-day peak. `,
+    'The map checks every month against the seasonal ground wave along the pile computed by conduction alone (TTOP ground',
+    ...(m && m.groundTemp.value !== null ? [' ', degC(m.groundTemp.value)] : []),
+    '); the study checks every month against the simulated ground along the pile',
+    ...(Number.isFinite(d.groundTemp_C) ? [' (', degC(d.groundTemp_C), ' at mid-pile)'] : []),
+    ', whose winter dip is smaller because the freezing active layer releases latent heat, so it needs fewer piles',
+    ...(rb !== undefined
+      ? [
+          '; pile resistance ',
+          { value: rb, unit: 'm·K/W', decimals: 2 },
+          " against the map's ",
+          { value: s.pile.resistance_mK_W, unit: 'm·K/W', decimals: 2 },
+          '.',
+        ]
+      : ['.']),
+  ];
 }
 
 /** Heat per pile and the load share: the simulated pile against the map's one-pile form. */
 function heatRows(c: RowContext): StudyComparisonRow[] {
   const { run, d, s, m, m1 } = c;
   const length_m = run.input.pile?.length_m ?? s.pile.length_m;
-  const group = `${s.building.foundationPiles}-pile foundation at ${s.building.pileSpacing_m} m spacing`;
-  const onePile =
+  const onePile: NotePart[] = [
     "The simulated pile carries one pile's share of the building; the map's one-pile form (one pile, that share of the load) is its calibrated counterpart, " +
-    `while the map itself shows a pile of the ${group}, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).`;
+      `while the map itself shows a pile of the ${s.building.foundationPiles}-pile foundation at `,
+    m_(s.building.pileSpacing_m),
+    ' spacing, whose neighbours cool its ground (the group carries about 0.6 × what an isolated pile carries, README).',
+  ];
   const atLimit = d.window?.fluidAtLimit ?? false;
   const carried = m?.extractionCarried.value ?? null;
   const carried1 = m1?.extractionCarried.value ?? null;
@@ -230,7 +287,7 @@ function heatRows(c: RowContext): StudyComparisonRow[] {
     quickOnePile: carried1 !== null ? carried1 * length_m : null,
     simulated: d.extraction_W,
     band: CALIBRATION_BANDS.heatPerPile,
-    reason: onePile + operation,
+    reason: [...onePile, operation],
   });
   const share = row({
     quantity: BAND.loadShare,
@@ -240,7 +297,7 @@ function heatRows(c: RowContext): StudyComparisonRow[] {
     quickOnePile: m1?.loadShare.value ?? null,
     simulated: d.loadShare,
     band: CALIBRATION_BANDS.loadShare,
-    reason: onePile + operation,
+    reason: [...onePile, operation],
   });
   return [heat, share];
 }
@@ -352,7 +409,7 @@ export function compareStudy(input: {
     s,
     m: d.quick?.metrics,
     m1: d.quickOnePile?.metrics,
-    where: p0 ? `${p0.r_m} m from the pile axis, ${p0.z_m} m deep` : 'the reference point',
+    where: p0 ? [m_(p0.r_m), ' from the pile axis, ', m_(p0.z_m), ' deep'] : ['the reference point'],
   };
   const onset = noPileThawRow(c);
   return [

@@ -12,6 +12,7 @@
  */
 import type { CellScreening } from './cell-screening-model';
 import type { Scenario } from './scenario';
+import { notePartsText, type NotePart, type NoteQuantity } from '../note-parts';
 
 export type WindowZone = 'too little' | 'window' | 'too much';
 
@@ -33,10 +34,11 @@ export interface StudyWindow {
   fluidAtLimit: boolean;
   /** The chart's bands, in W/m, left to right. */
   zones: { zone: WindowZone; from_W_m: number; to_W_m: number }[];
+  /** The note in SI words. */
   note: string;
+  /** The same note, words and quantities apart. */
+  noteParts: NotePart[];
 }
-
-const fmt = (v: number) => v.toFixed(1);
 
 /** Zone of a value on the window (lower ≤ v ≤ upper: window). */
 export function windowZone(v: number, lower_W_m: number, upper_W_m: number): WindowZone {
@@ -75,35 +77,7 @@ export function studyWindow(input: {
   const zones: StudyWindow['zones'] = [{ zone: 'too little', from_W_m: 0, to_W_m: lo }];
   if (up > lo) zones.push({ zone: 'window', from_W_m: lo, to_W_m: up });
   zones.push({ zone: 'too much', from_W_m: top, to_W_m: hi });
-  const b = input.scenario.building;
-  const group = `${b.foundationPiles}-pile foundation at ${b.pileSpacing_m} m spacing`;
-  const bounds = `the map's window for these inputs is ${fmt(lo)} to ${fmt(up)} W/m (upper bound: ${upperLimit})`;
-  let note: string;
-  if (sim === null || zone === null) {
-    note = `No extraction in this run; ${bounds}.`;
-  } else {
-    const took = `This run takes ${fmt(sim)} W/m of pile on average`;
-    if (zone === 'too much' && !fluidAtLimit) {
-      note =
-        `${took}, above the map's upper bound (${bounds}), yet its fluid stays above the heat pump's lowest entering temperature: ` +
-        `the map loads each pile as one of the ${group}, whose neighbours cool its ground over the years; the study simulates one pile alone, ` +
-        `whose ground stays warmer, so the same fluid limit allows more heat. For the whole foundation, trust the map's bound.`;
-    } else if (zone === 'too much') {
-      note = `${took}, above the map's upper bound (${bounds}), and its fluid reaches the heat pump's limit: the run confirms the ${upperLimit} binds.`;
-    } else if (zone === 'window' && fluidAtLimit) {
-      note =
-        `${took}, inside the map's window (${bounds}), and its fluid just reaches the heat pump's limit in the coldest weeks: ` +
-        'the heat pump holds the fluid there by drawing less heat for those weeks (the run shows it as heat left to the backup).';
-    } else if (zone === 'window') {
-      note = `${took}, inside the map's window (${bounds}).`;
-    } else {
-      note =
-        `${took}, below the map's lower bound (${bounds}): too little heat is taken to hold the foundation ground frozen through the design life` +
-        (input.loadShare !== null && input.loadShare > 0.995
-          ? ' even though the piles carry the whole load.'
-          : '.');
-    }
-  }
+  const noteParts = windowNote(input, { lo, up, upperLimit, sim, zone, fluidAtLimit });
   return {
     lower_W_m: lo,
     upperFluid_W_m: fluid,
@@ -115,6 +89,69 @@ export function studyWindow(input: {
     zone,
     fluidAtLimit,
     zones,
-    note,
+    note: notePartsText(noteParts),
+    noteParts,
   };
+}
+
+/** The window note in words and quantities (the web writes the quantities in the chosen units). */
+function windowNote(
+  input: { scenario: Scenario; loadShare: number | null },
+  w: Pick<StudyWindow, 'upperLimit' | 'zone' | 'fluidAtLimit'> & {
+    lo: number;
+    up: number;
+    sim: number | null;
+  },
+): NotePart[] {
+  const b = input.scenario.building;
+  const perMetre = (value: number): NoteQuantity => ({ value, unit: 'W/m', decimals: 1 });
+  const group: NotePart[] = [
+    `${b.foundationPiles}-pile foundation at `,
+    { value: b.pileSpacing_m, unit: 'm' },
+    ' spacing',
+  ];
+  const bounds: NotePart[] = [
+    "the map's window for these inputs is ",
+    perMetre(w.lo),
+    ' to ',
+    perMetre(w.up),
+    ` (upper bound: ${w.upperLimit})`,
+  ];
+  if (w.sim === null || w.zone === null) return ['No extraction in this run; ', ...bounds, '.'];
+  const took: NotePart[] = ['This run takes ', perMetre(w.sim), ' of pile on average'];
+  if (w.zone === 'too much' && !w.fluidAtLimit)
+    return [
+      ...took,
+      ", above the map's upper bound (",
+      ...bounds,
+      "), yet its fluid stays above the heat pump's lowest entering temperature: the map loads each pile as one of the ",
+      ...group,
+      ', whose neighbours cool its ground over the years; the study simulates one pile alone, ' +
+        "whose ground stays warmer, so the same fluid limit allows more heat. For the whole foundation, trust the map's bound.",
+    ];
+  if (w.zone === 'too much')
+    return [
+      ...took,
+      ", above the map's upper bound (",
+      ...bounds,
+      `), and its fluid reaches the heat pump's limit: the run confirms the ${w.upperLimit} binds.`,
+    ];
+  if (w.zone === 'window' && w.fluidAtLimit)
+    return [
+      ...took,
+      ", inside the map's window (",
+      ...bounds,
+      "), and its fluid just reaches the heat pump's limit in the coldest weeks: " +
+        'the heat pump holds the fluid there by drawing less heat for those weeks (the run shows it as heat left to the backup).',
+    ];
+  if (w.zone === 'window') return [...took, ", inside the map's window (", ...bounds, ').'];
+  return [
+    ...took,
+    ", below the map's lower bound (",
+    ...bounds,
+    '): too little heat is taken to hold the foundation ground frozen through the design life' +
+      (input.loadShare !== null && input.loadShare > 0.995
+        ? ' even though the piles carry the whole load.'
+        : '.'),
+  ];
 }

@@ -175,7 +175,7 @@ describe('scenario-set export', () => {
         ['site-1', planes.map((pl) => Object.fromEntries([...pl].map(([id, v]) => [id, v[cell]])))],
       ]),
     };
-    const geo = shortlistToGeoJSON([item], m, figures);
+    const geo = shortlistToGeoJSON([item], m, 'SI', figures);
     const props = geo.features[0].properties;
     const high = scenarioColumnPrefix(set.scenarios[2].name);
     expect(props[`${high}thawDelay_yr`]).toBe(
@@ -187,5 +187,19 @@ describe('scenario-set export', () => {
     const back = shortlistFromGeoJSON(JSON.parse(JSON.stringify(geo)), m.bands);
     expect(back.issues).toEqual([]);
     expect(back.items[0].values).toEqual(values);
+    // The groups follow the unit switch: North American converts and renames them like the other
+    // columns (°F = °C × 9/5 + 32, the definition of the Fahrenheit scale; years stay years).
+    const naGeo = shortlistToGeoJSON([item], m, 'NA', figures);
+    const na = naGeo.features[0].properties;
+    const end_C = planes[2].get(BAND.groundTempEnd)![cell];
+    expect(na[`${high}groundTempEnd_degC`]).toBeUndefined();
+    const end_F = na[`${high}groundTempEnd_degF`] as number;
+    expect(Math.abs(end_F - ((end_C * 9) / 5 + 32))).toBeLessThan(0.01);
+    expect(na[`${high}thawDelay_yr`]).toBe(props[`${high}thawDelay_yr`]);
+    expect(na[`${high}scenario`]).toBe(set.scenarios[2].name);
+    // And the North American file still re-imports to the shown scenario's stored (SI) values.
+    const naBack = shortlistFromGeoJSON(JSON.parse(JSON.stringify(naGeo)), m.bands);
+    expect(naBack.issues).toEqual([]);
+    expect(naBack.items[0].values[BAND.groundTempEnd]).toBeCloseTo(values[BAND.groundTempEnd]!, 1);
   });
 });

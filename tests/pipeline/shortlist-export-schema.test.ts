@@ -12,7 +12,12 @@ import { createTransform } from '../../data-pipeline/crs/crs-definitions';
 import { FAULT_ENV } from '../../data-pipeline/build/fault-points';
 import { loadGdal } from '../../data-pipeline/gdal/gdal-wasm';
 import { SCREENING_CAUTION } from '../../layers/cautions';
-import { exportColumns } from '../../layers/screening/export-schema';
+import {
+  bandColumnName,
+  exportColumns,
+  exportStep,
+  importBandValue,
+} from '../../layers/screening/export-schema';
 import type { Manifest } from '../../layers/screening/manifest';
 import { exportProperties } from '../../web/src/shortlist/shortlist-export';
 import type { ShortlistItem } from '../../web/src/shortlist/shortlist-item';
@@ -242,6 +247,70 @@ describe('pile-atlas shortlist outputs', () => {
     expect(rows).toHaveLength(layer.fields.length);
     expect(rows).toContainEqual({ column: 'groundTemp_degC', type: 'real', unit: '°C' });
     expect(rows).toContainEqual({ column: 'cautions', type: 'text', unit: null });
+  });
+
+  it('--units na writes North American names and values (GeoJSON, GeoPackage) that read back to the SI run', async () => {
+    const dir = await makeTempDir('shortlist-na');
+    const where = ['--where', 'suitability = good'];
+    const si = await runCli([
+      'shortlist',
+      '--tiles',
+      fx.dir,
+      ...where,
+      '--out',
+      join(dir, 'si.geojson'),
+      '--no-gpkg',
+    ]);
+    const na = await runCli([
+      'shortlist',
+      '--tiles',
+      fx.dir,
+      ...where,
+      '--units',
+      'na',
+      '--out',
+      join(dir, 'na.geojson'),
+    ]);
+    expect([si.code, na.code]).toEqual([0, 0]);
+    const fcSi = JSON.parse(await readFile(join(dir, 'si.geojson'), 'utf8')) as Fc & { unitSystem: string };
+    const fcNa = JSON.parse(await readFile(join(dir, 'na.geojson'), 'utf8')) as Fc & { unitSystem: string };
+    expect([fcSi.unitSystem, fcNa.unitSystem]).toEqual(['SI', 'North American']);
+    expect(fcNa.units.groundTemp_degF).toBe('°F');
+    expect(fcNa.units.settlementDistance_mi).toBe('mi');
+    expect(fcNa.units).not.toHaveProperty('groundTemp_degC');
+    const pick = (fc: Fc) =>
+      fc.features.find((f) => f.properties.cellCol === PICK.col && f.properties.cellRow === PICK.row)!
+        .properties;
+    const p = pick(fcNa);
+    // -4.56789 °C × 1.8 + 32 = 23.7778 °F (step 0.01 °F); 12.3456 km / 1.609344 = 7.6712 mi (step 0.001 mi);
+    // piles per ton the same in both systems (unit definitions; export-schema.ts steps).
+    expect(p.groundTemp_degF).toBe(23.78);
+    expect(p.settlementDistance_mi).toBe(7.671);
+    expect(p.pilesPerTon_piles_per_ton).toBe(2.3);
+    expect(p.unitSystem).toBe('North American');
+    // Every value of every feature reads back to the SI run's value within one SI step.
+    expect(fcNa.features.length).toBe(fcSi.features.length);
+    fcNa.features.forEach((f, i) => {
+      for (const band of fx.manifest.bands) {
+        const want = fcSi.features[i].properties[bandColumnName(band)];
+        const back = importBandValue(band, f.properties, 'NA');
+        if (typeof want !== 'number') expect(back).toBeNull();
+        else expect(Math.abs(back! - want)).toBeLessThanOrEqual(exportStep(band)! + 1e-9);
+      }
+    });
+    const gdal = await loadGdal();
+    const info = gdal.vectorInfo(join(dir, 'na.gpkg'), ['-so']) as {
+      metadata?: Record<string, Record<string, string>>;
+      layers: OgrLayer[];
+    };
+    expect(info.metadata?.['']?.UNIT_SYSTEM).toBe('North American');
+    expect(JSON.parse(info.metadata?.['']?.UNITS ?? '{}').groundTemp_degF).toBe('°F');
+    const fields = info.layers.find((l) => l.name === 'shortlist')!.fields.map((f) => f.name);
+    expect(fields).toContain('groundTemp_degF');
+    expect(fields).not.toContain('groundTemp_degC');
+    const bad = await runCli(['shortlist', '--tiles', fx.dir, ...where, '--units', 'imperial']);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr.trim()).toMatch(/--units imperial: expected si \(the stored units\) or na/);
   });
 
   it('writes every match, more than 10,000, unless --limit asks for fewer', async () => {

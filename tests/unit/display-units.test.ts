@@ -5,10 +5,13 @@ import {
   displayTitle,
   formatLonLat,
   formatNumber,
+  formatNoteParts,
   formatQuantity,
   fromDisplay,
+  proseUnit,
   toDisplay,
 } from '../../web/src/units/display-units';
+import { notePartsText, type NotePart } from '../../layers/note-parts';
 
 describe('display units', () => {
   it('converts temperatures with the Fahrenheit offset, differences without', () => {
@@ -107,5 +110,36 @@ describe('display titles', () => {
       'Piles per ton of peak heating',
     );
     expect(displayTitle('Ground temperature', '°C', 'NA')).toBe('Ground temperature');
+  });
+});
+
+describe('notes with quantities in the chosen units (formatNoteParts)', () => {
+  const parts: NotePart[] = [
+    'The ground at ',
+    { value: 0.5, unit: 'm' },
+    ' from the axis reaches ',
+    { value: -6.2, unit: '°C', decimals: 1 },
+    '; window ',
+    { value: 25, unit: 'W/m', decimals: 1 },
+    ', ',
+    { value: 0.12, unit: 'm³', decimals: 2 },
+    '.',
+  ];
+  it('writes SI as the note does', () => {
+    expect(formatNoteParts(parts, 'SI')).toBe(
+      'The ground at 0.5 m from the axis reaches -6.2 °C; window 25.0 W/m, 0.12 m³.',
+    );
+    expect(formatNoteParts(parts, 'SI')).toBe(notePartsText(parts));
+  });
+  it('converts every quantity to North American units, 3 significant figures', () => {
+    // 0.5 m / 0.3048 = 1.640 ft; -6.2 °C × 1.8 + 32 = 20.84 °F; 25 W/m × 3.412142 Btu/h per W × 0.3048
+    // m/ft = 26.0 Btu/h·ft; 0.12 m³ / 0.3048³ = 4.238 ft³ (unit definitions, display-units.ts).
+    expect(formatNoteParts(parts, 'NA')).toBe(
+      'The ground at 1.64 ft from the axis reaches 20.8 °F; window 26.0 Btu/h·ft, 4.24 ft³.',
+    );
+  });
+  it('writes a temperature difference in running text without the table note', () => {
+    expect(proseUnit(displayConversion('K', 'NA').unit)).toBe('°F');
+    expect(formatNoteParts([{ value: 2, unit: 'K' }, ' drop'], 'NA')).toBe('3.60 °F drop');
   });
 });

@@ -277,7 +277,13 @@ function ShortlistActions(props: {
             onClose={() => setReportOpen(false)}
           />
         ) : null}
-        <ExportButtons manifest={manifest} sorted={sorted} exporting={exporting} stamp={stamp} />
+        <ExportButtons
+          manifest={manifest}
+          sorted={sorted}
+          exporting={exporting}
+          stamp={stamp}
+          units={props.units}
+        />
         <label className="file-button">
           Import GeoJSON
           <input
@@ -288,6 +294,11 @@ function ShortlistActions(props: {
           />
         </label>
       </div>
+      <p className="small" data-testid="export-units">
+        Exports in{' '}
+        {props.units === 'NA' ? 'North American units (°F, ft, mi, Btu/h)' : 'SI units (°C, m, km, W)'}, as
+        the unit switch shows; the file says which, and Import reads either.
+      </p>
       {message ? (
         <p className="small" role="status">
           {message}
@@ -307,9 +318,10 @@ function ExportButtons(props: {
   manifest: Manifest;
   sorted: ShortlistItem[];
   exporting: ReturnType<typeof useScenarioExport>;
+  units: UnitSystem;
   stamp: string;
 }) {
-  const { manifest, sorted, exporting, stamp } = props;
+  const { manifest, sorted, exporting, stamp, units } = props;
   const none = sorted.length === 0;
   return (
     <>
@@ -321,7 +333,7 @@ function ExportButtons(props: {
           exporting.run((figures) =>
             downloadFile(
               `pile-atlas-shortlist-${stamp}.geojson`,
-              JSON.stringify(shortlistToGeoJSON(sorted, manifest, figures), null, 2),
+              JSON.stringify(shortlistToGeoJSON(sorted, manifest, units, figures), null, 2),
               'application/geo+json',
             ),
           )
@@ -337,7 +349,7 @@ function ExportButtons(props: {
           exporting.run((figures) =>
             downloadFile(
               `pile-atlas-shortlist-${stamp}.csv`,
-              shortlistToCsv(sorted, manifest, figures),
+              shortlistToCsv(sorted, manifest, units, figures),
               'text/csv',
             ),
           )

@@ -6,9 +6,12 @@
  * feature also carries the cautions, the fictional-data notice when it applies, the scenario and the
  * data provenance of the build, so the file still explains itself when it is passed on; with a
  * scenario-set build also every scenario's key figures at the site (scenario-figures.ts, one column
- * group per scenario, the export schema's). Columns, units
- * and rounding are the export schema the CLI shares (layers/screening/export-schema.ts): values in the
- * build's stored units (SI; piles per ton) whatever the unit switch shows. A GeoPackage of a shortlist
+ * group per scenario, the export schema's). Columns, units and rounding are the export schema the CLI
+ * shares (layers/screening/export-schema.ts), in the unit system the unit switch shows: SI (the build's
+ * stored units; piles per ton) or North American (°F, ft, mi, Btu/h, US gal, short tons; the column
+ * names carry the converted unit, the scenario groups' too), recorded in every record's `unitSystem`
+ * and in the collection's `unitSystem` member; the site's metrics follow the same conversion
+ * (METRIC_UNITS). The re-import reads either back to SI. A GeoPackage of a shortlist
  * comes from the CLI (`pile-atlas shortlist --out`, beside the GeoJSON): GDAL is too heavy for the browser.
  * CSV: one row per site with the same columns as the GeoJSON properties. Text cells that begin with
  * = + - @ tab or CR are prefixed with an apostrophe so that spreadsheets do not run them as formulas
@@ -18,9 +21,15 @@ import { z } from 'zod';
 import type { Band, Manifest } from '../../../layers/screening/manifest';
 import {
   bandColumnName,
+  exportConversion,
   exportRecord,
+  importBandValue,
   roundToStep,
+  unitSlug,
+  unitSystemOf,
+  UNIT_SYSTEM_NAME,
   type ExportValue,
+  type UnitSystem,
 } from '../../../layers/screening/export-schema';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
 import type { ScenarioFigures } from './scenario-figures';
@@ -32,6 +41,52 @@ type PropertyValue = ExportValue | boolean | Record<string, unknown>;
 
 /** Property name of a band in exports (the shared schema's column: band id plus unit, or `_class`). */
 export const bandPropertyName = (band: Band): string => bandColumnName(band);
+
+/**
+ * The units of the metric keys that carry one (a key ends in its SI unit, shortlist-item.ts), longest
+ * suffix first; keys without one (pileCount, systemCop, yr, currency) are exported as they are.
+ */
+const METRIC_UNITS: ReadonlyArray<readonly [suffix: string, unit: string]> = [
+  ['_L_per_yr', 'L/yr'],
+  ['_t_per_yr', 't/yr'],
+  ['_kW', 'kW'],
+  ['_C', '°C'],
+  ['_m', 'm'],
+];
+
+/**
+ * A metric's export name and value: `metric_` + key (SI: as stored; North American: the unit suffix
+ * replaced by the converted unit, `lowestFluid_C` -> `lowestFluid_degF`, the value converted).
+ */
+export function exportMetric(
+  key: string,
+  value: number | string | null,
+  system: UnitSystem,
+): [string, number | string | null] {
+  const hit = system === 'NA' ? METRIC_UNITS.find(([suffix]) => key.endsWith(suffix)) : undefined;
+  if (!hit) return [`metric_${key}`, value];
+  const c = exportConversion(hit[1], system);
+  const name = `metric_${key.slice(0, -hit[0].length)}_${unitSlug(c.unit)}`;
+  return [name, typeof value === 'number' ? value * c.factor + c.offset : value];
+}
+
+/** A metric read back from an export: its SI key and value (inverse of exportMetric). */
+export function importMetric(
+  name: string,
+  value: number | string | null,
+  system: UnitSystem,
+): [string, number | string | null] {
+  const key = name.slice('metric_'.length);
+  if (system === 'SI') return [key, value];
+  for (const [suffix, unit] of METRIC_UNITS) {
+    const c = exportConversion(unit, system);
+    const tail = `_${unitSlug(c.unit)}`;
+    if (!key.endsWith(tail)) continue;
+    const si = `${key.slice(0, -tail.length)}${suffix}`;
+    return [si, typeof value === 'number' ? (value - c.offset) / c.factor : value];
+  }
+  return [key, value];
+}
 
 /** One line naming the build and its inputs (tool, creation time, files with checksums and licences). */
 export function provenanceText(manifest: Manifest): string {
@@ -56,6 +111,7 @@ export function exportProperties(
   item: ShortlistItem,
   rank: number,
   manifest: Manifest,
+  system: UnitSystem = 'SI',
   figures: ScenarioFigures | null = null,
 ): Record<string, PropertyValue> {
   const scenarios = figures && {
@@ -69,9 +125,12 @@ export function exportProperties(
     addedAt: item.addedAt,
     origin: item.origin,
     pileAtlasId: item.id,
-    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id], scenarios ?? undefined),
+    ...exportRecord(manifest, item.lon, item.lat, (id) => item.values[id], system, scenarios ?? undefined),
   };
-  for (const [k, v] of Object.entries(item.metrics)) p[`metric_${k}`] = v;
+  for (const [k, v] of Object.entries(item.metrics)) {
+    const [name, value] = exportMetric(k, v, system);
+    p[name] = value;
+  }
   p.scenario = manifest.scenario ?? null;
   // A scenario-set build: the scenario these values come from and every scenario's region figures.
   if (manifest.scenarioSet) {
@@ -89,21 +148,23 @@ export function exportProperties(
   return p;
 }
 
-/** RFC 7946 FeatureCollection of the shortlist in the given (ranked) order. */
+/** RFC 7946 FeatureCollection of the shortlist in the given (ranked) order and unit system. */
 export function shortlistToGeoJSON(
   items: readonly ShortlistItem[],
   manifest: Manifest,
+  system: UnitSystem = 'SI',
   figures: ScenarioFigures | null = null,
 ) {
   return {
     type: 'FeatureCollection' as const,
+    unitSystem: UNIT_SYSTEM_NAME[system],
     features: items.map((item, i) => ({
       type: 'Feature' as const,
       geometry: {
         type: 'Point' as const,
         coordinates: [roundToStep(item.lon, 1e-6), roundToStep(item.lat, 1e-6)],
       },
-      properties: exportProperties(item, i + 1, manifest, figures),
+      properties: exportProperties(item, i + 1, manifest, system, figures),
     })),
   };
 }
@@ -121,14 +182,16 @@ export function csvCell(value: PropertyValue | undefined): string {
 export function shortlistToCsv(
   items: readonly ShortlistItem[],
   manifest: Manifest,
+  system: UnitSystem = 'SI',
   figures: ScenarioFigures | null = null,
 ): string {
-  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest, figures));
+  const rows = items.map((item, i) => exportProperties(item, i + 1, manifest, system, figures));
   const columns: string[] = [];
   const template = exportProperties(
     { id: '', name: '', note: '', lon: 0, lat: 0, addedAt: '', origin: 'map', values: {}, metrics: {} },
     0,
     manifest,
+    system,
     figures,
   );
   for (const k of Object.keys(template)) columns.push(k);
@@ -148,12 +211,43 @@ const importedFeatureSchema = z.object({
 });
 const importedCollectionSchema = z.object({
   type: z.literal('FeatureCollection'),
+  unitSystem: z.unknown().optional(),
   features: z.array(importedFeatureSchema),
 });
 
 /**
- * Read a shortlist back from a GeoJSON export (ours, or any Point FeatureCollection: unknown
- * properties are ignored, names default). Returns the items and the problems found, with paths.
+ * The unit system of one imported feature: its own `unitSystem`, else the collection's, else SI (files
+ * from before North American exports); an unknown name is an issue.
+ */
+function featureUnitSystem(own: unknown, collection: unknown): UnitSystem | string {
+  const text = own ?? collection;
+  if (text === undefined || text === null) return 'SI';
+  return (
+    unitSystemOf(text) ??
+    `unitSystem: "${String(text)}" is not a unit system; expected "${UNIT_SYSTEM_NAME.SI}" or "${UNIT_SYSTEM_NAME.NA}"`
+  );
+}
+
+/** The SI band values and metrics of one imported feature's properties in its unit system. */
+function importedValues(p: Record<string, unknown>, bands: Band[], system: UnitSystem) {
+  const values: Record<string, number | null> = {};
+  for (const band of bands) {
+    const v = importBandValue(band, p, system);
+    if (v !== undefined) values[band.id] = v;
+  }
+  const metrics: Record<string, number | string | null> = {};
+  for (const [k, v] of Object.entries(p)) {
+    if (k.startsWith('metric_') && (typeof v === 'number' || typeof v === 'string' || v === null)) {
+      const [key, value] = importMetric(k, v, system);
+      metrics[key] = value;
+    }
+  }
+  return { values, metrics };
+}
+
+/**
+ * Read a shortlist back from a GeoJSON export (ours in SI or North American units, read back to SI; or
+ * any Point FeatureCollection: unknown properties are ignored, names default). Returns the items and the problems found, with paths.
  */
 export function shortlistFromGeoJSON(
   json: unknown,
@@ -170,17 +264,12 @@ export function shortlistFromGeoJSON(
   const issues: string[] = [];
   parsed.data.features.forEach((f, i) => {
     const p = f.properties ?? {};
-    const values: Record<string, number | null> = {};
-    for (const band of bands) {
-      const v = p[bandPropertyName(band)];
-      if (typeof v === 'number') values[band.id] = v;
-      else if (v === null) values[band.id] = null;
+    const system = featureUnitSystem(p.unitSystem, parsed.data.unitSystem);
+    if (system !== 'SI' && system !== 'NA') {
+      issues.push(`features.${i}.properties.${system}`);
+      return;
     }
-    const metrics: Record<string, number | string | null> = {};
-    for (const [k, v] of Object.entries(p)) {
-      if (k.startsWith('metric_') && (typeof v === 'number' || typeof v === 'string' || v === null))
-        metrics[k.slice('metric_'.length)] = v;
-    }
+    const { values, metrics } = importedValues(p, bands, system);
     const candidate = {
       id: typeof p.pileAtlasId === 'string' && p.pileAtlasId ? p.pileAtlasId : `import-${Date.now()}-${i}`,
       name: typeof p.name === 'string' ? p.name : `Imported site ${i + 1}`,

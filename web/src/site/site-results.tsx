@@ -12,7 +12,7 @@ import { ownProbes, profileAtYear, type ProfileColumn } from '../../../layers/si
 import type { SiteSizing } from '../../../layers/site/site-sizing';
 import { siteStudyReport, type SiteStudyReport } from '../../../layers/screening/site-study-report';
 import type { StudyComparisonRow } from '../../../layers/screening/study-comparison';
-import { formatQuantity, type UnitSystem } from '../units/display-units';
+import { formatNoteParts, formatQuantity, type UnitSystem } from '../units/display-units';
 import { ProbeTemperatureChart, type ProbeOverlay } from './charts/probe-temperature-chart';
 import type { ScenarioRun } from './scenario-sweep';
 import { DepthProfileChart } from './charts/depth-profile-chart';
@@ -105,7 +105,7 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
       <tbody>
         {d.comparison.map((r) => (
           <tr key={r.quantity} data-testid={`summary-${r.quantity}`} data-agreement={r.agreement}>
-            <th scope="row">{r.title}</th>
+            <th scope="row">{formatNoteParts(r.titleParts, units)}</th>
             <td>{comparisonValueText(r, r.quick, r.quickText, units)}</td>
             <td>
               {r.quickOnePile === r.quick ? 'same' : comparisonValueText(r, r.quickOnePile, undefined, units)}
@@ -113,7 +113,7 @@ export function SiteSummaryTable(props: { derived: SiteDerived; units: UnitSyste
             <td>{comparisonValueText(r, r.simulated, r.simulatedText, units)}</td>
             <td>{bandText(r, units)}</td>
             <td className="small">
-              <strong>{AGREEMENT_TEXT[r.agreement]}.</strong> {r.reason}
+              <strong>{AGREEMENT_TEXT[r.agreement]}.</strong> {formatNoteParts(r.reasonParts, units)}
             </td>
           </tr>
         ))}
@@ -184,7 +184,7 @@ export function SiteCharts(props: {
       ) : null}
       {d.sizing?.ok ? (
         <div className="chart-block">
-          <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} />
+          <PileCountChart sizing={d.sizing.sizing} byPulse={d.sizing.byPulse} units={units} />
         </div>
       ) : null}
     </div>
@@ -224,7 +224,8 @@ function ProbeChartBlock(props: {
         >
           {probes.map((p, i) => (
             <option key={i} value={i}>
-              {i + 1}: r {p.r_m} m, z {p.z_m} m
+              {i + 1}: r {formatQuantity(p.r_m, 'm', props.units)}, z{' '}
+              {formatQuantity(p.z_m, 'm', props.units)}
             </option>
           ))}
         </select>

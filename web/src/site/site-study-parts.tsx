@@ -7,7 +7,7 @@ import type { Ref } from 'react';
 import { FICTIONAL_DATA_NOTICE, GROUND_CAUTIONS, SCREENING_CAUTION } from '../../../layers/cautions';
 import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { SitePrefill } from '../../../layers/screening/site-prefill';
-import { formatLonLat } from '../units/display-units';
+import { formatLonLat, formatNoteParts } from '../units/display-units';
 import { SchemaField } from './site-form';
 import type { FormContext } from './form-inputs';
 import { fieldLabel, flattenInputs } from './schema-form-model';
@@ -129,7 +129,7 @@ export function SiteInputsForm(props: {
       {props.prefillNotes.length ? (
         <div className="notice small">
           {props.prefillNotes.map((n) => (
-            <p key={n.path}>{n.text}</p>
+            <p key={n.path}>{n.parts ? formatNoteParts(n.parts, ctx.units ?? 'SI') : n.text}</p>
           ))}
         </div>
       ) : null}

@@ -9,7 +9,7 @@ import { siteInputSchema } from '../../../layers/site/site-input-schema';
 import type { CellScreening } from '../../../layers/screening/cell-screening-model';
 import type { Manifest } from '../../../layers/screening/manifest';
 import { shortlistStore } from '../shortlist/shortlist-store';
-import { displayTitle, formatQuantity, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatNoteParts, formatQuantity, type UnitSystem } from '../units/display-units';
 import type { FormContext } from './form-inputs';
 import { issuesByPath } from './schema-form-model';
 import { siteFieldMeta } from '../../../layers/site/site-input-schema';
@@ -300,7 +300,7 @@ function SiteOutcome(props: {
         <ul className="site-notes" data-testid="site-notes">
           {derived.notes.map((n, i) => (
             <li key={i} className={`note-${n.kind}`}>
-              {n.text}
+              {formatNoteParts(n.parts, props.units)}
             </li>
           ))}
         </ul>

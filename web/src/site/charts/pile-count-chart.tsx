@@ -9,6 +9,7 @@ import type { PulseCounts } from '../../../../layers/site/site-sizing';
 import { ChartFrame } from './chart-frame';
 import { CHART_COLOURS as C } from './chart-colours';
 import { niceDomain } from './chart-scale';
+import { displayConversion, proseUnit, type UnitSystem } from '../../units/display-units';
 
 const BARS: { id: keyof PulseCounts; label: string }[] = [
   { id: 'annual', label: 'annual load alone' },
@@ -16,15 +17,22 @@ const BARS: { id: keyof PulseCounts; label: string }[] = [
   { id: 'peak', label: '+ peak hours (full)' },
 ];
 
-export function PileCountChart(props: { sizing: PileFieldSizingResult; byPulse: PulseCounts }) {
+export function PileCountChart(props: {
+  sizing: PileFieldSizingResult;
+  byPulse: PulseCounts;
+  units: UnitSystem;
+}) {
   const { sizing: s, byPulse } = props;
+  // A fluid drop is a temperature difference: K in SI, °F in North American units (display-units.ts).
+  const k = displayConversion('K', props.units);
+  const drop = (v: number) => `${(v * k.factor).toFixed(1)} ${proseUnit(k.unit)}`;
   const vals = BARS.map((b) => byPulse[b.id]);
   const yDomain = niceDomain(
     vals.filter((v): v is number => v !== null),
     4,
     [0],
   );
-  const drops = `fluid drop by pulse at ${s.pileCount} piles: annual ${s.pulseDrop_K.annual.toFixed(1)} K, month ${s.pulseDrop_K.monthly.toFixed(1)} K, peak ${s.pulseDrop_K.peak.toFixed(1)} K`;
+  const drops = `fluid drop by pulse at ${s.pileCount} piles: annual ${drop(s.pulseDrop_K.annual)}, month ${drop(s.pulseDrop_K.monthly)}, peak ${drop(s.pulseDrop_K.peak)}`;
   return (
     <>
       <ChartFrame
