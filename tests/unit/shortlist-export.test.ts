@@ -237,6 +237,10 @@ describe('ensemble ranges in the shared export schema (issue 14)', () => {
     );
     // The ensemble build's columns are the deterministic build's plus the range columns, in the same order.
     expect(ensNames.filter((n) => names.includes(n))).toEqual(names);
-    expect(ensNames.length - names.length).toBe(RANGE_METRICS.length * 3 + 4);
+    // Plus, for the thaw delay, an "after the horizon" qualifier per percentile (3) and the band saying
+    // how many of them are lower bounds (thawDelayRangeBound: class and label, issue 14).
+    expect(ensNames.length - names.length).toBe(RANGE_METRICS.length * 3 + 4 + 3 + 2);
+    expect(ensNames).toContain('thawDelayP90_qualifier');
+    expect(ensNames).toContain('thawDelayRangeBound_label');
   });
 });
