@@ -10,7 +10,6 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BAND } from '../../layers/screening/band-ids';
-import { CALIBRATION_BANDS, withinBand } from '../../layers/screening/calibration-bands';
 import { runSiteStudy } from '../../layers/screening/run-site-study';
 import { scenarioFromManifest, sitePrefill } from '../../layers/screening/site-prefill';
 import type { StudyComparisonRow } from '../../layers/screening/study-comparison';

@@ -38,7 +38,12 @@ describe('site ensemble figures for the batch', () => {
   });
 
   it('is null where fewer than half the members define a figure', () => {
-    const f = siteEnsembleFigures([member(2, null), member(null, null), member(null, -4), member(null, -4.2)]);
+    const f = siteEnsembleFigures([
+      member(2, null),
+      member(null, null),
+      member(null, -4),
+      member(null, -4.2),
+    ]);
     // One delay of four: below half, so no range; two fluid temperatures of four: half, so a range.
     expect(f.thawDelayDefinedMembers).toBe(1);
     expect([f.thawDelayP10_yr, f.thawDelayP50_yr, f.thawDelayP90_yr]).toEqual([null, null, null]);
