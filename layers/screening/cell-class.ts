@@ -40,8 +40,9 @@ export function exclusionOf(m: ArrayLike<number>, textureClass: number, s: Scena
   if (!(m[M.adfreezeTempEndPiles] <= f.maxAdfreezeTempEnd_C)) return EXCLUSION.adfreezeWarm;
   if (m[M.iceRichThawYear] <= s.startYear + s.designLife_yr + f.thawMargin_yr) return EXCLUSION.thawUnstable;
   if (!(m[M.frostJackingRatio] <= 1)) return EXCLUSION.frostJacking;
-  // No month of the design (monthly-peak.ts) can give heat at the peak: the sizing has no answer.
-  if (!(m[M.extractionPerPile] > 0)) return EXCLUSION.fluidLimit;
+  // No month of the design (monthly-peak.ts) can give heat at the peak (the sizing has no answer), or
+  // the bivalent operation carries nothing (bivalent-operation.ts: ground no warmer than the limit).
+  if (!(m[M.extractionPerPile] > 0) || !(m[M.windowUpperFluid] > 0)) return EXCLUSION.fluidLimit;
   return EXCLUSION.none;
 }
 

@@ -209,6 +209,7 @@ describe('compare view: filters on the other scenario, second readout, swipe', (
     await openCompare(`${GOOD_ONLY}&compare=${HIGH}`);
     await page.waitForSelector('[data-testid=both-count-cells]', { timeout: 60_000 });
     const bothCount = await shownNumber('both-count-cells');
+    const hereCount = await shownNumber('region-count-cells');
     const eachLeft = await goodPixels(LEFT);
     const eachRight = await goodPixels(RIGHT);
     await page.selectOption('[data-testid=filter-scope]', 'both');
@@ -226,7 +227,10 @@ describe('compare view: filters on the other scenario, second readout, swipe', (
       `good pixels, each its own: ${eachLeft} | ${eachRight}; under both: ${bothLeft} | ${bothRight}`,
     );
     expect(bothLeft).toBeGreaterThan(0);
-    expect(bothLeft).toBeLessThan(eachLeft);
+    // Fewer than the left map alone where some of its good cells are not good under the other scenario
+    // (the counts say so); the same where every one of them is (the model of the build decides).
+    if (bothCount < hereCount) expect(bothLeft).toBeLessThan(eachLeft);
+    else expect(Math.abs(bothLeft - eachLeft)).toBeLessThanOrEqual(0.01 * eachLeft);
     expect(bothRight).toBeLessThanOrEqual(eachRight);
     expect(Math.abs(bothLeft - bothRight)).toBeLessThanOrEqual(0.01 * bothLeft);
     // the filters on the other scenario only: the counter says which
@@ -358,12 +362,15 @@ async function checkSwipeSides(): Promise<void> {
   console.log(
     `swipe at the right edge ${allFirst} (single map ${singleFirst}); left edge ${allSecond} (${singleSecond})`,
   );
-  expect(allFirst).not.toBe(allSecond);
-  // each edge matches its own scenario's single map (within 1 %: the divider line at the edge), not the other's
+  // each edge matches its own scenario's single map (within 1 %: the divider line at the edge), and, where
+  // the two scenarios' single maps differ in this view, not the other's
   expect(Math.abs(allFirst - singleFirst)).toBeLessThanOrEqual(0.01 * singleFirst);
-  expect(Math.abs(allFirst - singleFirst)).toBeLessThan(Math.abs(allFirst - singleSecond));
   expect(Math.abs(allSecond - singleSecond)).toBeLessThanOrEqual(0.01 * singleSecond);
-  expect(Math.abs(allSecond - singleSecond)).toBeLessThan(Math.abs(allSecond - singleFirst));
+  if (Math.abs(singleFirst - singleSecond) > 0.02 * singleFirst) {
+    expect(allFirst).not.toBe(allSecond);
+    expect(Math.abs(allFirst - singleFirst)).toBeLessThan(Math.abs(allFirst - singleSecond));
+    expect(Math.abs(allSecond - singleSecond)).toBeLessThan(Math.abs(allSecond - singleFirst));
+  }
   // the picture: ground temperature at the end of the design life, divider in the middle, both readouts
   const [w, south, e, n] = s.manifest.region.bounds;
   const centre = `c=${((w + e) / 2).toFixed(4)},${((south + n) / 2).toFixed(4)}&z=5.5`; // the island across the map
