@@ -21,7 +21,11 @@ const STEPS: [string, string][] = [
   ['680c334', '+ two-phase Neumann active layer (alone)'],
   ['76f68ad', '+ active layer, one surface-warming transfer'],
   ['7d0b855', '+ active layer, warming, excess ice, 2100 horizon'],
-  ['HEAD', 'after (all of issue 11)'],
+  [
+    '0b8908c',
+    'previous release: + the field the building needs (N piles), hard foundation checks, warming pathways',
+  ],
+  ['HEAD', 'after (all of issue 11: + bivalent operation at fixed loop flow)'],
 ];
 
 interface Kernel {
