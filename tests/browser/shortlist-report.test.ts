@@ -153,6 +153,20 @@ describe('shortlist report', () => {
       expect(f).not.toContain('_');
       expect(f).not.toMatch(/: (yes|no)\b/);
     }
+    // The unit switch reaches the list: North American shows the fluid temperatures in °F
+    // (°F = °C × 9/5 + 32, the scale's definition).
+    await page.check('[data-testid=units-NA]');
+    await expect
+      .poll(() => page.locator('[data-testid=shortlist-item-figures]').allTextContents())
+      .toEqual(
+        figures.map(() =>
+          expect.stringMatching(/Lowest fluid temperature \(study of all sites\): -?[\d.]+ °F/),
+        ),
+      );
+    await page
+      .locator('[data-testid=shortlist-panel]')
+      .screenshot({ path: join(s.artifactsDir, 'shortlist-studied-na.png') });
+    await page.check('[data-testid=units-SI]');
     await page.click('[data-testid=open-report]');
     const rows = await page.locator('[data-testid=report-comparison] tbody tr').allTextContents();
     expect(rows).toHaveLength(3);
