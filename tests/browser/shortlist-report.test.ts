@@ -141,6 +141,32 @@ describe('shortlist report', () => {
     const status = (await page.locator('[data-testid=study-all-status]').textContent()) ?? '';
     console.log(`study all: ${status} in ${((Date.now() - t0) / 1000).toFixed(1)} s (shared machine)`);
     expect(status).toMatch(/^3 of 3 site\(s\) studied/);
+    // The list shows each site's study figures in the planner's words and the chosen units (issue 18):
+    // no stored key (camelCase: two or more lower-case letters before a capital, so "kW" does not
+    // count), no underscore, no bare yes/no flag.
+    const figures = await page.locator('[data-testid=shortlist-item-figures]').allTextContents();
+    expect(figures).toHaveLength(3);
+    for (const f of figures) {
+      expect(f).toMatch(/Thaw delay at the first probe \(study of all sites\): /);
+      expect(f).toMatch(/Lowest fluid temperature \(study of all sites\): -?[\d.]+ °C/);
+      expect(f).not.toMatch(/\b[a-z]{2,}[A-Z][a-zA-Z]*\b/);
+      expect(f).not.toContain('_');
+      expect(f).not.toMatch(/: (yes|no)\b/);
+    }
+    // The unit switch reaches the list: North American shows the fluid temperatures in °F
+    // (°F = °C × 9/5 + 32, the scale's definition).
+    await page.check('[data-testid=units-NA]');
+    await expect
+      .poll(() => page.locator('[data-testid=shortlist-item-figures]').allTextContents())
+      .toEqual(
+        figures.map(() =>
+          expect.stringMatching(/Lowest fluid temperature \(study of all sites\): -?[\d.]+ °F/),
+        ),
+      );
+    await page
+      .locator('[data-testid=shortlist-panel]')
+      .screenshot({ path: join(s.artifactsDir, 'shortlist-studied-na.png') });
+    await page.check('[data-testid=units-SI]');
     await page.click('[data-testid=open-report]');
     const rows = await page.locator('[data-testid=report-comparison] tbody tr').allTextContents();
     expect(rows).toHaveLength(3);

@@ -158,6 +158,20 @@ describe('site panel', () => {
     const fromSite = items.filter((i) => i.origin === 'site');
     expect(fromSite.length).toBeGreaterThan(0);
     expect(typeof fromSite[fromSite.length - 1].metrics.simulatedYears_yr).toBe('number');
+    // The list shows the site's figures in the planner's words and the chosen units (issue 18): no
+    // stored key (camelCase: two or more lower-case letters before a capital, so "kW" does not count)
+    // and no underscore; the lower-bound flag is folded into its figure, not a row of its own.
+    const row =
+      (await s.page
+        .locator('[data-testid=shortlist-item-figures]', { hasText: 'site study' })
+        .last()
+        .textContent()) ?? '';
+    expect(row).toMatch(/Thaw delay \(quick map estimate\): /);
+    expect(row).toMatch(/Piles per kW of peak heating \(quick map estimate\): [\d.]+ piles\/kW/);
+    expect(row).toMatch(/Thaw delay at the first probe \(site study\): /);
+    expect(row).not.toMatch(/\b[a-z]{2,}[A-Z][a-zA-Z]*\b/);
+    expect(row).not.toContain('_');
+    expect(row).not.toMatch(/: (yes|no)\b/);
     // Stale results are marked (issue 18 item 4): an edit after the run says the results are for the
     // last run's inputs; an invalid edit says the inputs need attention; undoing the edit clears it.
     const stale = s.page.locator('[data-testid=site-stale]');

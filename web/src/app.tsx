@@ -17,11 +17,11 @@ import { cellValues, type CellSelection } from './panels/cell-panel';
 import { ScreeningCaution } from './panels/caution-notes';
 import { uncertainClassOf } from './panels/ensemble-ranges';
 import {
-  currentScenarioName,
   currentScenarioSlug,
   linkedCompare,
   linkedScenarios,
   scenarioBase,
+  scenarioMetrics,
 } from './data/scenario-urls';
 import { useCompareAtlas, useCompareTable, type CompareState } from './dashboard/compare-view';
 import { useCompareFilters } from './dashboard/compare-filters';
@@ -134,7 +134,7 @@ function addToShortlist(
     name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, count + 1),
     origin: 'map',
     values: cellValues(table, atlas.manifest.bands, selection.index),
-    metrics: { scenario: currentScenarioName(atlas.manifest) },
+    metrics: scenarioMetrics(atlas.manifest),
   });
 }
 

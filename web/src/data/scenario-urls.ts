@@ -26,6 +26,14 @@ export function currentScenarioName(manifest: Manifest): string {
   return typeof name === 'string' ? name : 'default';
 }
 
+/**
+ * The figure recorded with every site added to the shortlist (from the map or the site study): the
+ * scenario its values were taken under (shortlist metrics; the exports' `scenarioName`).
+ */
+export function scenarioMetrics(manifest: Manifest): { scenario: string } {
+  return { scenario: currentScenarioName(manifest) };
+}
+
 /** The data base URL (directory of its manifest.json) of scenario `slug`, or null if the set lacks it. */
 export function scenarioBase(manifest: Manifest, dataBase: URL, slug: string): URL | null {
   const set = manifest.scenarioSet;

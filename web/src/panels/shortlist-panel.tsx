@@ -21,16 +21,15 @@ import { downloadFile } from '../download-file';
 import { loadScenarioFigures, type ScenarioFigures } from '../shortlist/scenario-figures';
 import { MAX_SHORTLIST_PINS } from '../map/point-markers';
 import { bandValueText, horizonFlagOf } from './cell-panel';
-import { displayTitle, formatLonLat, formatNumber, type UnitSystem } from '../units/display-units';
+import { displayTitle, formatLonLat, type UnitSystem } from '../units/display-units';
+import { metricLines } from '../shortlist/metric-labels';
+import { scenarioFromManifest } from '../../../layers/screening/site-prefill';
 
 /** Sites listed before "show all" (a list of thousands of editable rows would take seconds to draw). */
 const LISTED_AT_FIRST = 200;
 
-/** 'thawDelay_yr' -> 'thawDelay (yr)': metric keys carry their unit after the last underscore. */
-function metricLabel(key: string): string {
-  const i = key.lastIndexOf('_');
-  return i > 0 ? `${key.slice(0, i)} (${key.slice(i + 1)})` : key;
-}
+/** Figures listed per site in the list (the report and the exports hold all of them). */
+const METRICS_LISTED = 4;
 
 type SortDirection = 'asc' | 'desc';
 interface PanelSort {
@@ -73,6 +72,8 @@ export function ShortlistPanel(props: {
   const shownBand =
     manifest.bands.find((b) => `band:${b.id}` === sortKey) ??
     manifest.bands.find((b) => b.id === props.metricBandId);
+  // The scenario's currency, for the cost figures of a site study.
+  const currency = useMemo(() => scenarioFromManifest(manifest.scenario).economics.currency, [manifest]);
 
   return (
     <section className="panel shortlist" aria-label="Shortlist" data-testid="shortlist-panel">
@@ -84,7 +85,14 @@ export function ShortlistPanel(props: {
       ) : null}
       <ol className="shortlist-items" data-testid="shortlist-items">
         {listed.map((it) => (
-          <ShortlistRow key={it.id} item={it} shownBand={shownBand} units={units} onLocate={props.onLocate} />
+          <ShortlistRow
+            key={it.id}
+            item={it}
+            shownBand={shownBand}
+            units={units}
+            currency={currency}
+            onLocate={props.onLocate}
+          />
         ))}
       </ol>
       {items.length > MAX_SHORTLIST_PINS ? (
@@ -175,11 +183,15 @@ function ShortlistSortControls(props: {
   );
 }
 
-/** One site: editable name and note, where it is, the shown band and its first metrics, show / remove. */
+/**
+ * One site: editable name and note, where it is, the shown band and its first figures (in the
+ * planner's words and the chosen units, shortlist/metric-labels.ts), show / remove.
+ */
 function ShortlistRow(props: {
   item: ShortlistItem;
   shownBand: Band | undefined;
   units: UnitSystem;
+  currency: string;
   onLocate: (lon: number, lat: number) => void;
 }) {
   const { item: it, shownBand, units } = props;
@@ -198,17 +210,15 @@ function ShortlistRow(props: {
         value={it.note}
         onChange={(e) => shortlistStore.update(it.id, { note: e.target.value })}
       />
-      <div className="muted small">
+      <div className="muted small" data-testid="shortlist-item-figures">
         {formatLonLat(it.lon, it.lat, 3)}
         {shownBand
           ? ` · ${displayTitle(shownBand.title, shownBand.unit, units)}: ${bandValueText(shownBand, it.values[shownBand.id] ?? null, units, horizonFlagOf(shownBand, it.values))}`
           : ''}
         {it.origin === 'site' ? ' · site study' : ''}
-        {Object.entries(it.metrics)
-          .slice(0, 4)
-          .map(
-            ([k, v]) => ` · ${metricLabel(k)}: ${typeof v === 'number' ? formatNumber(v) : (v ?? 'no data')}`,
-          )
+        {metricLines(it.metrics, units, props.currency)
+          .slice(0, METRICS_LISTED)
+          .map((m) => ` · ${m.label}: ${m.text}`)
           .join('')}
       </div>
       <div className="row item-actions">

@@ -16,7 +16,7 @@ import { siteFieldMeta } from '../../../layers/site/site-input-schema';
 import { scenarioFromManifest, type SitePrefill } from '../../../layers/screening/site-prefill';
 import { SiteEnsemblePanel } from './site-ensemble-panel';
 import { ScenarioSweepPanel, useScenarioSweep, type ScenarioRun } from './scenario-sweep';
-import { currentScenarioName } from '../data/scenario-urls';
+import { scenarioMetrics } from '../data/scenario-urls';
 import {
   SiteCharts,
   SiteSummaryTable,
@@ -85,7 +85,7 @@ export function SiteStudy(props: {
   const ctx: FormContext = { root: draft, issues, onChange: setDraft, units };
   const issueCount = [...issues.values()].reduce((n, m) => n + m.length, 0);
 
-  const { added, addToShortlist } = useAddToShortlist(place, quick, run, currentScenarioName(manifest));
+  const { added, addToShortlist } = useAddToShortlist(place, quick, run, scenarioMetrics(manifest));
   const sweep = useScenarioSweep(manifest, props.dataBase);
   const sweepPanel = (
     <ScenarioSweepPanel
@@ -151,7 +151,7 @@ function useAddToShortlist(
   place: SitePlace,
   quick: CellScreening | null,
   run: RunState,
-  scenarioName: string,
+  recorded: ReturnType<typeof scenarioMetrics>,
 ) {
   const [added, setAdded] = useState<string | null>(null);
   const addToShortlist = (derived: SiteDerived | null) => {
@@ -163,7 +163,7 @@ function useAddToShortlist(
       origin: 'site',
       values: place.values,
       // The scenario the study and the cell's values are of, as a site added from the map records it.
-      metrics: { scenario: scenarioName, ...shortlistMetrics(quick, derived, run) },
+      metrics: { ...recorded, ...shortlistMetrics(quick, derived, run) },
     });
     const withResults = run.kind === 'done' ? ' with the simulated results' : '';
     setAdded(
