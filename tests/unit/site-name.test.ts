@@ -19,6 +19,13 @@ describe('default site names', () => {
     expect(defaultSiteName(0, 75, null, 4)).toBe('Site 4');
   });
 
+  it('gives the distance in miles in North American units', () => {
+    // 0.3° of latitude ≈ 33.36 km (2π·6371 km · 0.3/360, computed) = 20.7 international miles
+    // (1 mi = 1609.344 m exactly).
+    expect(defaultSiteName(0, 75.3, towns, 5, 'NA')).toBe('Site 5, 21 mi N of Northby');
+    expect(defaultSiteName(0, 75.3, towns, 5, 'SI')).toBe('Site 5, 33 km N of Northby');
+  });
+
   it('computes compass bearings', () => {
     // Due east along the equator is 90°, due north 0°, due west 270° (spherical trigonometry).
     expect(bearing_deg([0, 0], [1, 0])).toBeCloseTo(90, 9);

@@ -13,6 +13,7 @@ import { DEFAULT_SORT, parseUrlState, type ViewState } from './state/url-state';
 import { shortlistStore } from './shortlist/shortlist-store';
 import { useShortlist } from './shortlist/use-shortlist';
 import { defaultSiteName } from './shortlist/site-name';
+import type { UnitSystem } from './units/display-units';
 import { cellValues, type CellSelection } from './panels/cell-panel';
 import { ScreeningCaution } from './panels/caution-notes';
 import { uncertainClassOf } from './panels/ensemble-ranges';
@@ -126,12 +127,13 @@ function addToShortlist(
   table: CellTable | null,
   selection: CellSelection | null,
   count: number,
+  units: UnitSystem,
 ) {
   if (!selection || !table || selection.index < 0) return;
   shortlistStore.add({
     lon: selection.lon,
     lat: selection.lat,
-    name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, count + 1),
+    name: defaultSiteName(selection.lon, selection.lat, atlas.settlements, count + 1, units),
     origin: 'map',
     values: cellValues(table, atlas.manifest.bands, selection.index),
     metrics: scenarioMetrics(atlas.manifest),
@@ -192,7 +194,7 @@ function Dashboard(props: { atlas: Atlas; onPickScenario: (slug: string) => void
       <PlaceSide
         {...{ atlas, table, selection, choices }}
         listedAs={selection ? (shortlistStore.atPlace(selection.lon, selection.lat)?.name ?? null) : null}
-        onAdd={() => addToShortlist(atlas, table, selection, shortlist.length)}
+        onAdd={() => addToShortlist(atlas, table, selection, shortlist.length, choices.units)}
         onClose={() => setSelection(null)}
         onLocate={(lon, lat) => setFlyTarget({ lon, lat, seq: (flyTarget?.seq ?? 0) + 1 })}
       />
