@@ -238,7 +238,7 @@ describe('shortlist files in North American units and their re-import', () => {
     const r = shortlistFromGeoJSON(fc, manifest.bands);
     expect(r.items).toEqual([]);
     expect(r.issues).toEqual([
-      'features.0.properties.unitSystem: "imperial" is not a unit system; expected "SI" or "North American"',
+      'site 1 in the file, property unitSystem: "imperial" is not a unit system; expected "SI" or "North American"',
     ]);
   });
 

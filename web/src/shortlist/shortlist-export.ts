@@ -33,7 +33,7 @@ import {
 } from '../../../layers/screening/export-schema';
 import { shortlistItemSchema, type ShortlistItem } from './shortlist-item';
 import type { ScenarioFigures } from './scenario-figures';
-import { formatZodIssues } from '../../../layers/validation-error';
+import { formatZodIssues, type ValidationIssue } from '../../../layers/validation-error';
 
 export { EXPORT_CAUTIONS, unitSlug } from '../../../layers/screening/export-schema';
 
@@ -246,6 +246,21 @@ function importedValues(p: Record<string, unknown>, bands: Band[], system: UnitS
 }
 
 /**
+ * One problem of an imported feature in words a planner can follow to the file: the site's number in
+ * the file (counted from 1) and the property, e.g. `site 3 in the file, property name: expected text`.
+ */
+function featureIssueInWords(index: number, issue: ValidationIssue): string {
+  const path = issue.path.map(String);
+  const where =
+    path[0] === 'lon' || path[0] === 'lat'
+      ? 'its coordinates'
+      : path[0] === 'metrics'
+        ? `property metric_${path[1]}`
+        : `property ${path.join('.')}`;
+  return `site ${index + 1} in the file, ${path.length > 0 ? where : 'the feature'}: ${issue.message}`;
+}
+
+/**
  * Read a shortlist back from a GeoJSON export (ours in SI or North American units, read back to SI; or
  * any Point FeatureCollection: unknown properties are ignored, names default). Returns the items and the problems found, with paths.
  */
@@ -266,7 +281,7 @@ export function shortlistFromGeoJSON(
     const p = f.properties ?? {};
     const system = featureUnitSystem(p.unitSystem, parsed.data.unitSystem);
     if (system !== 'SI' && system !== 'NA') {
-      issues.push(`features.${i}.properties.${system}`);
+      issues.push(`site ${i + 1} in the file, property ${system}`);
       return;
     }
     const { values, metrics } = importedValues(p, bands, system);
@@ -283,7 +298,7 @@ export function shortlistFromGeoJSON(
     };
     const ok = shortlistItemSchema.safeParse(candidate);
     if (ok.success) items.push(ok.data);
-    else issues.push(...formatZodIssues(ok.error, { prefix: `features.${i}` }));
+    else issues.push(...ok.error.issues.map((issue) => featureIssueInWords(i, issue)));
   });
   return { items, issues };
 }
