@@ -66,7 +66,7 @@ import { ttop_C } from '../physics/ttop';
 import { neumannActiveLayerKernel_m } from '../physics/neumann-active-layer';
 import type { CellInputs } from './screening-model';
 import { copFromTable, soilAt, type CellConstants, type SoilPoint } from './cell-constants';
-import { fieldResponseAtCount, flsResponse } from './response-tables';
+import { flsResponse } from './response-tables';
 import {
   createWarmingHistory,
   historyLatentDelay_yr,
@@ -81,6 +81,7 @@ import {
 import { operatingWindow, type WindowResult } from './operating-window';
 import {
   bivalentOperation,
+  bivalentResolve,
   createBivalentResult,
   enteringFluidOfMonth_C,
   type BivalentInput,
@@ -89,11 +90,13 @@ import {
 import {
   MONTH_COS,
   MONTHS,
+  monthlyPeakFromAvailable_W,
   monthlyPeakPerPile_W,
+  monthsAvailable_K,
   pileWavePhasor,
   type MonthlyPeakInput,
 } from './monthly-peak';
-import { lookup } from './log-table';
+import { lookup, lookupAt, tablePosition } from './log-table';
 import { enteringFromMeanFluid_C, meanFluidFromEntering_C } from '../physics/fluid-temperature-convention';
 import { co2AvoidedKernel_t, costSavedKernel, fuelSavedKernel_L } from './economics';
 import { EXCLUSION, isFrostSusceptible, permafrostClass, thawStabilityScore } from './suitability';
@@ -591,7 +594,8 @@ function bivalentStage(
     const ground = 1 - 1 / copFromTable(k.cop, enteringFluidOfMonth_C(input, first, i));
     x.requested[i] *= season > 0 && ground > 0 ? ground / season : 0;
   }
-  return bivalentOperation(input, x.bivalent);
+  // Only the requests changed: the capacity coefficients of the first pass hold.
+  return bivalentResolve(input, x.bivalent);
 }
 
 /** Steps 4 + 7. thaw years: sensible (conduction) part plus the latent-heat delay of years-to-thaw.ts. */
@@ -871,6 +875,7 @@ function thawWithPiles(k: CellConstants, p: ThawSearch): number {
 }
 
 const FIELD_MONTH = new Float64Array(1);
+const FIELD_AVAILABLE = new Float64Array(MONTHS);
 
 /**
  * Design-peak capacity per pile (W) of a field of as many piles as the peak ground load needs: from
@@ -889,15 +894,33 @@ function fieldPeakPerPile_W(
   const t = k.tables;
   let q = q0;
   let n = peakGround_W / q0;
-  for (let pass = 0; pass < 30 && n > t.fieldBySize.counts[0]; pass++) {
-    q = monthlyPeakPerPile_W(
-      {
-        ...base,
-        gLife: fieldResponseAtCount(t, n, alphaF * lifeS),
-        gMonth: fieldResponseAtCount(t, n, alphaF * (MONTH_S + PEAK_S)),
-      },
-      FIELD_MONTH,
-    );
+  const { counts, tables, logSteps } = t.fieldBySize;
+  if (!(n > counts[0])) return q;
+  // fieldResponseAtCount at the two times, by hand: the grid positions are shared by every field size
+  // and pass, and the bracketing tables' values are looked up again only when the bracket changes.
+  const uLife = tablePosition(t.fieldMean, alphaF * lifeS);
+  const uMonth = tablePosition(t.fieldMean, alphaF * (MONTH_S + PEAK_S));
+  const field = { ...base };
+  const available = monthsAvailable_K(base, FIELD_AVAILABLE);
+  let bracket = -1;
+  let lifeLo = 0;
+  let lifeHi = 0;
+  let monthLo = 0;
+  let monthHi = 0;
+  for (let pass = 0; pass < 30 && n > counts[0]; pass++) {
+    let i = 0;
+    while (i < counts.length - 2 && n > counts[i + 1]) i++;
+    if (i !== bracket) {
+      bracket = i;
+      lifeLo = lookupAt(tables[i], uLife);
+      lifeHi = lookupAt(tables[i + 1], uLife);
+      monthLo = lookupAt(tables[i], uMonth);
+      monthHi = lookupAt(tables[i + 1], uMonth);
+    }
+    const w = Math.log(n / counts[i]) / logSteps[i];
+    field.gLife = lifeLo + w * (lifeHi - lifeLo);
+    field.gMonth = monthLo + w * (monthHi - monthLo);
+    q = monthlyPeakFromAvailable_W(field, available, FIELD_MONTH);
     if (!(q > 0)) return q;
     const next = peakGround_W / q;
     const done = Math.abs(next - n) <= 0.005 * n;

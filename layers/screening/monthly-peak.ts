@@ -83,6 +83,27 @@ export interface MonthlyPeakInput {
  * ground is no warmer than the fluid. Writes the limiting month (0-11) into out[0] (kernel: no checks).
  */
 export function monthlyPeakPerPile_W(p: MonthlyPeakInput, out: Float64Array): number {
+  return monthlyPeakFromAvailable_W(p, monthsAvailable_K(p, AVAILABLE), out);
+}
+
+const AVAILABLE = new Float64Array(MONTHS);
+
+/** T_g(m) − T_f of the 12 months, K, into `out` (independent of the field responses). */
+export function monthsAvailable_K(p: MonthlyPeakInput, out: Float64Array): Float64Array {
+  for (let m = 0; m < MONTHS; m++)
+    out[m] = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m) - p.meanFluid_C;
+  return out;
+}
+
+/**
+ * monthlyPeakPerPile_W with the months' T_g(m) − T_f from monthsAvailable_K (callers that vary only
+ * the field responses reuse them).
+ */
+export function monthlyPeakFromAvailable_W(
+  p: MonthlyPeakInput,
+  available_K: Float64Array,
+  out: Float64Array,
+): number {
   const twoPiK = 2 * Math.PI * p.conductivity_W_mK;
   const base = (p.annualFraction * (p.gLife - p.gMonth)) / twoPiK;
   let best = Infinity;
@@ -92,8 +113,7 @@ export function monthlyPeakPerPile_W(p: MonthlyPeakInput, out: Float64Array): nu
     const pk = p.peakFraction[m];
     const per = base + (f * (p.gMonth - p.gPeak) + pk * p.gPeak) / twoPiK + pk * p.resistance_mK_W;
     if (!(per > 0)) continue;
-    const avail = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m) - p.meanFluid_C;
-    const q = (p.length_m * avail) / per;
+    const q = (p.length_m * available_K[m]) / per;
     if (q < best) {
       best = q;
       month = m;
