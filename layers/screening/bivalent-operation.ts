@@ -163,14 +163,22 @@ function sameStates(a0: number, a: number, r: Float64Array, alpha: Float64Array,
  * linear in a, so Newton's step from a point is the exact solve on that point's months' states: taken
  * inside the bracket, it lands on the root as soon as it starts from the root's piece (accepted when
  * every month keeps its state there, as exactOnActiveSet), a bisection step otherwise; a bracket
- * narrower than `tol` ends as the bisection did, on exactOnActiveSet of its midpoint. Inputs that are
- * not finite keep the plain bisection.
+ * narrower than `tol` ends as the bisection did, on exactOnActiveSet of its midpoint. The first step is
+ * from `start` when it lies in (0, mean), else from the mean. Inputs that are not finite keep the plain
+ * bisection.
  */
-function fixedPoint(r: Float64Array, alpha: Float64Array, beta: number, mean: number, tol: number): number {
+function fixedPoint(
+  r: Float64Array,
+  alpha: Float64Array,
+  beta: number,
+  mean: number,
+  tol: number,
+  start: number,
+): number {
   let lo = 0;
   let hi = mean;
   if (mean > 0 && Number.isFinite(mean) && Number.isFinite(beta) && finiteAlpha(alpha)) {
-    let at = mean;
+    let at = start > 0 && start < mean ? start : mean;
     for (let i = 0; i < 64 && hi - lo > tol; i++) {
       const next = solveOnStates(at, r, alpha, beta);
       if (sameStates(at, next, r, alpha, beta)) return next;
@@ -195,14 +203,19 @@ function finiteAlpha(alpha: Float64Array): boolean {
 /** Carried, requested and the fluid bound of one pile in bivalent operation (module comment). */
 export function bivalentOperation(p: BivalentInput, out: BivalentResult): BivalentResult {
   out.beta = capacityCoefficients(p, out.alpha);
-  return bivalentResolve(p, out);
+  return solve(p, out, NaN);
 }
 
 /**
  * bivalentOperation again for an input that differs from the last one solved into `out` only in its
- * requested loads (the capacity coefficients α_m, β depend on the rest: they are reused).
+ * requested loads: the capacity coefficients α_m, β depend on the rest and are reused, and the search
+ * starts from the last solve's carried load (the same fixed point wherever one is found exactly).
  */
 export function bivalentResolve(p: BivalentInput, out: BivalentResult): BivalentResult {
+  return solve(p, out, out.carried_W);
+}
+
+function solve(p: BivalentInput, out: BivalentResult, start: number): BivalentResult {
   const r = p.requested_W;
   const alpha = out.alpha;
   const beta = out.beta;
@@ -211,14 +224,19 @@ export function bivalentResolve(p: BivalentInput, out: BivalentResult): Bivalent
   mean /= MONTHS;
   out.requested_W = mean;
   const tol = 1e-7 * mean;
-  const a = fixedPoint(r, alpha, beta, mean, tol);
+  const a = fixedPoint(r, alpha, beta, mean, tol, start);
   let cut = 0;
-  let lambda = Infinity;
   for (let m = 0; m < MONTHS; m++) {
     const cap = Math.max(0, alpha[m] - beta * a);
     out.monthly_W[m] = Math.min(r[m], cap);
     if (r[m] > cap + tol) cut++;
-    if (r[m] > 0) lambda = Math.min(lambda, alpha[m] / (r[m] + beta * mean));
+  }
+  // λ of the module comment, needed only where no month is cut.
+  let lambda = Infinity;
+  if (cut === 0) {
+    for (let m = 0; m < MONTHS; m++) {
+      if (r[m] > 0) lambda = Math.min(lambda, alpha[m] / (r[m] + beta * mean));
+    }
   }
   out.carried_W = mean > 0 ? a : 0;
   out.monthsCut = cut;
