@@ -154,9 +154,10 @@ export interface CellState {
   alphaF: number;
   alphaYr: number;
   lifeS: number;
-  /** Air warming at the end of the life, K, and the surface-warming history. */
+  /** Air warming at the end of the life, K, the surface-warming history and its warming of the reference point at the end of the life, K. */
   airLife_K: number;
   h: WarmingHistory;
+  warmRefLife: number;
   /** Step 5: heating demand (kWh), design peak and annual average (W), ground-load factors. */
   demand_kWh: number;
   peak_W: number;
@@ -186,6 +187,7 @@ function createCellState(warming: WarmingHistory): CellState {
     lifeS: 0,
     airLife_K: 0,
     h: warming,
+    warmRefLife: 0,
     demand_kWh: 0,
     peak_W: 0,
     avg_W: 0,
@@ -412,6 +414,7 @@ function groundStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   st.h = cellWarmingHistory(k, cell, nF, nT, x.warming);
   // Air warming at the end of the life (the active layer then): the trend's or the pathway's.
   st.airLife_K = cellAirWarming_K(k, cell, life);
+  st.warmRefLife = historyWarming_K(k.tables, st.h, s.referenceDepth_m, life, alphaYr);
   const tPileEnd = groundTempEndOfLife_C(k, x, tPile, zp, life, alphaYr);
   m[M.groundTemp] = tPile;
   m[M.groundTempEnd] = tPileEnd;
@@ -484,8 +487,12 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   const alphaF = st.alphaF;
   const hp = s.heatPump;
   const H = s.pile.length_m;
-  const gLife = flsResponse(k.tables.fieldMean, alphaF, st.lifeS);
-  const gMonth = flsResponse(k.tables.fieldMean, alphaF, MONTH_S + PEAK_S);
+  // flsResponse at the life and a month plus the peak, through their grid positions (the larger
+  // fields' tables share the grid: fieldPeakPerPile_W).
+  const uLife = tablePosition(k.tables.fieldMean, alphaF * st.lifeS);
+  const uMonth = tablePosition(k.tables.fieldMean, alphaF * (MONTH_S + PEAK_S));
+  const gLife = st.lifeS > 0 ? lookupAt(k.tables.fieldMean, uLife) : 0;
+  const gMonth = lookupAt(k.tables.fieldMean, uMonth);
   const rb = s.pile.radius_m;
   const gPeak = lookup(k.tables.cylinderWall, (alphaF * PEAK_S) / (rb * rb));
   const annualFraction = st.avg_W * st.toPeak;
@@ -516,7 +523,7 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   // is 9.5, a 7 × 8 field's 13.8), so the count is found by fixed-point iteration on the field size
   // (near-square at the foundation spacing, as the site study's three-pulse sizing lays it out).
   const peakGround_W = st.peak_W * st.groundFactor;
-  const qField = qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peakGround_W, alphaF, st.lifeS) : qPeak;
+  const qField = qPeak > 0 ? fieldPeakPerPile_W(k, peakInput, qPeak, peakGround_W, uLife, uMonth) : qPeak;
   m[M.pilesPerTon] = qField > 0 ? (TON_W * st.groundFactor) / qField : NaN;
   const gRefLife = flsResponse(k.tables.referencePoint, alphaF, st.lifeS);
   const request_W_m = (st.avg_W * st.seasonFactor) / (s.building.foundationPiles * H);
@@ -533,7 +540,7 @@ function windowStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   const w = operatingWindow(
     {
       referenceTemp_C: st.tRef,
-      warmingAtLife_K: historyWarming_K(k.tables, st.h, s.referenceDepth_m, s.designLife_yr, st.alphaYr),
+      warmingAtLife_K: st.warmRefLife,
       frozenMargin_K: s.frozenMargin_K,
       overcooling_K: isFrostSusceptible(cell.textureClass) ? s.maxOvercooling_K : s.maxOvercoolingCoarse_K,
       conductivity_W_mK: kF,
@@ -653,8 +660,7 @@ function endOfLifeStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m:
   const thawsInLife = st.thawPilesYr <= life;
   // 3b. end-of-life adfreeze zone with the piles operating (the reference point), latent-aware
   const cPiles = x.window.carried_W_m / (2 * Math.PI * kF);
-  const warmRef = historyWarming_K(k.tables, st.h, s.referenceDepth_m, life, st.alphaYr);
-  const adfEnd = st.tRef + warmRef - cPiles * st.gRefLife;
+  const adfEnd = st.tRef + st.warmRefLife - cPiles * st.gRefLife;
   // thawed within the life: at least 0 °C; not yet thawed: at most 0 °C (its ice still melting, the
   // zero curtain, as groundTempEndOfLife_C)
   m[M.adfreezeTempEndPiles] = thawsInLife ? Math.max(0, adfEnd) : Math.min(0, adfEnd);
@@ -888,18 +894,17 @@ function fieldPeakPerPile_W(
   base: MonthlyPeakInput,
   q0: number,
   peakGround_W: number,
-  alphaF: number,
-  lifeS: number,
+  uLife: number,
+  uMonth: number,
 ): number {
   const t = k.tables;
   let q = q0;
   let n = peakGround_W / q0;
   const { counts, tables, logSteps } = t.fieldBySize;
   if (!(n > counts[0])) return q;
-  // fieldResponseAtCount at the two times, by hand: the grid positions are shared by every field size
-  // and pass, and the bracketing tables' values are looked up again only when the bracket changes.
-  const uLife = tablePosition(t.fieldMean, alphaF * lifeS);
-  const uMonth = tablePosition(t.fieldMean, alphaF * (MONTH_S + PEAK_S));
+  // fieldResponseAtCount at the two times, by hand: the grid positions (uLife, uMonth: αt at the life
+  // and at a month plus the peak on the field tables' grid) are shared by every field size and pass,
+  // and the bracketing tables' values are looked up again only when the bracket changes.
   const field = { ...base };
   const available = monthsAvailable_K(base, FIELD_AVAILABLE);
   let bracket = -1;

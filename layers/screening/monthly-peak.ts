@@ -106,19 +106,25 @@ export function monthlyPeakFromAvailable_W(
 ): number {
   const twoPiK = 2 * Math.PI * p.conductivity_W_mK;
   const base = (p.annualFraction * (p.gLife - p.gMonth)) / twoPiK;
-  let best = Infinity;
+  // The smallest H·avail_m/per_m over the months with per_m > 0, compared as avail_m·per_best <
+  // avail_best·per_m (no division per month); H > 0.
+  let bestAvail = 0;
+  let bestPer = 0;
   let month = -1;
+  const gMonthPeak = p.gMonth - p.gPeak;
   for (let m = 0; m < MONTHS; m++) {
     const f = p.monthlyFraction[m];
     const pk = p.peakFraction[m];
-    const per = base + (f * (p.gMonth - p.gPeak) + pk * p.gPeak) / twoPiK + pk * p.resistance_mK_W;
+    const per = base + (f * gMonthPeak + pk * p.gPeak) / twoPiK + pk * p.resistance_mK_W;
     if (!(per > 0)) continue;
-    const q = (p.length_m * available_K[m]) / per;
-    if (q < best) {
-      best = q;
+    const avail = available_K[m];
+    if (Number.isNaN(avail)) continue;
+    if (month < 0 || avail * bestPer < bestAvail * per) {
+      bestAvail = avail;
+      bestPer = per;
       month = m;
     }
   }
   out[0] = month;
-  return month < 0 ? NaN : best;
+  return month < 0 ? NaN : (p.length_m * bestAvail) / bestPer;
 }
