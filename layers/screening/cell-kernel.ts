@@ -141,11 +141,12 @@ export interface KernelScratch {
 
 /** Intermediate figures of one cell, written by the stages of evaluateCellMetrics in step order. */
 export interface CellState {
-  /** Steps 1-3: n-factors, TTOP (°C), active layer (m), geothermal gradient (K/m). */
+  /** Steps 1-3: n-factors, TTOP (°C), active layer today and at the end of the life (m), geothermal gradient (K/m). */
   nF: number;
   nT: number;
   ttop: number;
   alt: number;
+  altEnd: number;
   grad: number;
   /** Ground temperature at the pile's mid-depth and at the reference point today, °C. */
   tPile: number;
@@ -179,6 +180,7 @@ function createCellState(warming: WarmingHistory): CellState {
     nT: 0,
     ttop: 0,
     alt: 0,
+    altEnd: 0,
     grad: 0,
     tPile: 0,
     tRef: 0,
@@ -321,6 +323,42 @@ export function evaluateCellMetrics(
   x: KernelScratch,
   m: Float64Array,
 ): void {
+  evaluate(cell, k, x, m, null);
+}
+
+/** The metrics groundStage writes (copied by evaluateCellMetricsSameGround). */
+const GROUND_METRICS = [
+  M.activeLayer,
+  M.groundTemp,
+  M.groundTempEnd,
+  M.zeroCurtain,
+  M.permafrostClassToday,
+  M.permafrostClassEnd,
+];
+
+/**
+ * evaluateCellMetrics of the same cell under constants that differ from those of the evaluation just
+ * made into `x` and `ground` only in the heat-pump settings (the robustness perturbations of
+ * class-robustness.ts): the ground stage (steps 1-3 with the end-of-life active layer), which does not
+ * depend on them, is taken from that evaluation. Same results as evaluateCellMetrics.
+ */
+export function evaluateCellMetricsSameGround(
+  cell: CellInputs,
+  k: CellConstants,
+  x: KernelScratch,
+  m: Float64Array,
+  ground: Float64Array,
+): void {
+  evaluate(cell, k, x, m, ground);
+}
+
+function evaluate(
+  cell: CellInputs,
+  k: CellConstants,
+  x: KernelScratch,
+  m: Float64Array,
+  ground: Float64Array | null,
+): void {
   m.fill(NaN);
   if (!validInputs(cell)) {
     m[M.exclusion] = EXCLUSION.outsideData;
@@ -338,7 +376,8 @@ export function evaluateCellMetrics(
   m[M.excessIce] =
     cell.waterContent_m3m3 > porosity ? (cell.waterContent_m3m3 - porosity) / (1 - porosity) : 0;
 
-  groundStage(cell, k, x, m);
+  if (ground === null) groundStage(cell, k, x, m);
+  else for (const i of GROUND_METRICS) m[i] = ground[i];
   buildingStage(cell, k, x, m);
   windowStage(cell, k, x, m);
   thawStage(k, x, m);
@@ -422,6 +461,11 @@ function groundStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m: Fl
   m[M.permafrostClassToday] = permafrostClass(tPile, s.permafrostClasses);
   // Held at 0 °C by its ice: still frozen ground, warm permafrost.
   m[M.permafrostClassEnd] = x.zeroCurtain ? 1 : permafrostClass(tPileEnd, s.permafrostClasses);
+  // 3c. end-of-life active layer (air warmed by the trend; piles neglected above the insulated top)
+  const meanAirEnd_C = cell.meanAirTemp_C + st.airLife_K;
+  const airEnd = degreeDays({ meanAirTemp_C: meanAirEnd_C, amplitude_C: cell.airAmplitude_C });
+  const ttopEnd = cellTtop_C(airEnd, nF, nT, soil);
+  st.altEnd = cellActiveLayer_m(airEnd, meanAirEnd_C, cell.airAmplitude_C, ttopEnd, nT, soil);
   st.nF = nF;
   st.nT = nT;
   st.ttop = ttop;
@@ -665,11 +709,8 @@ function endOfLifeStage(cell: CellInputs, k: CellConstants, x: KernelScratch, m:
   // zero curtain, as groundTempEndOfLife_C)
   m[M.adfreezeTempEndPiles] = thawsInLife ? Math.max(0, adfEnd) : Math.min(0, adfEnd);
 
-  // 3c. end-of-life active layer (air warmed by the trend; piles neglected above the insulated top)
-  const meanAirEnd_C = cell.meanAirTemp_C + st.airLife_K;
-  const airEnd = degreeDays({ meanAirTemp_C: meanAirEnd_C, amplitude_C: cell.airAmplitude_C });
-  const ttopEnd = cellTtop_C(airEnd, st.nF, st.nT, soil);
-  const altEnd = cellActiveLayer_m(airEnd, meanAirEnd_C, cell.airAmplitude_C, ttopEnd, st.nT, soil);
+  // 3c. end-of-life active layer (groundStage)
+  const altEnd = st.altEnd;
   m[M.activeLayerEnd] = altEnd;
 
   // 3d. structure: adfreeze capacity, frost jacking, thaw settlement (foundation-checks.ts)
