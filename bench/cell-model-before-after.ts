@@ -144,7 +144,9 @@ function compare(before: Model, after: Model, cells: CellInputs[]): string[] {
   const lines = ids.flatMap((id, i) => {
     const w = worst[i];
     if (w.abs === 0 && w.nan === 0) return [];
-    return [`${id}: max abs ${w.abs.toExponential(2)}, max rel ${w.rel.toExponential(2)}, NaN mismatches ${w.nan}`];
+    return [
+      `${id}: max abs ${w.abs.toExponential(2)}, max rel ${w.rel.toExponential(2)}, NaN mismatches ${w.nan}`,
+    ];
   });
   return lines.length > 0 ? lines : ['every metric identical'];
 }
@@ -157,7 +159,9 @@ const kb = kernelRunner(before, before.DEFAULT_SCENARIO).run;
 const ka = kernelRunner(after, after.DEFAULT_SCENARIO).run;
 const kernel = timeBoth(cells, kb, ka);
 const full = timeBoth(cells, fullRunner(before), fullRunner(after));
-console.log(`cells/s/core, median (best) of 7 interleaved passes of ${cells.length} cells; ${commit} → working tree`);
+console.log(
+  `cells/s/core, median (best) of 7 interleaved passes of ${cells.length} cells; ${commit} → working tree`,
+);
 console.log(`kernel alone: ${kernel.before} → ${kernel.after}`);
 console.log(`full model with class robustness: ${full.before} → ${full.after}`);
 console.log(`outputs over ${cells.length} cells × ${scenarios(after).length} scenarios:`);

@@ -244,17 +244,39 @@ function solve(p: BivalentInput, out: BivalentResult, start: number): BivalentRe
   return out;
 }
 
+/** The inputs of one month's mean fluid (monthMeanFluid_C). */
+export type MonthFluidInput = Pick<
+  BivalentInput,
+  | 'groundMean_C'
+  | 'surfaceAmplitude_C'
+  | 'phasor'
+  | 'length_m'
+  | 'resistance_mK_W'
+  | 'conductivity_W_mK'
+  | 'gLife'
+  | 'gMonth'
+>;
+
+/**
+ * Mean fluid of month m, °C: the module comment's T_f(m) at the annual-average extraction `annual_W`
+ * and the month's mean extraction `monthly_W` (W per pile).
+ */
+export function monthMeanFluid_C(p: MonthFluidInput, annual_W: number, monthly_W: number, m: number): number {
+  const twoPiK = 2 * Math.PI * p.conductivity_W_mK;
+  const q = monthly_W;
+  const ground = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m);
+  return (
+    ground -
+    (annual_W * (p.gLife - p.gMonth) + q * p.gMonth) / (twoPiK * p.length_m) -
+    (q * p.resistance_mK_W) / p.length_m
+  );
+}
+
 /**
  * Fluid entering the heat pump in month m of a solved operation `r`, °C: the module comment's T_e(m) at
  * the month's carried load and the annual average (the limit in a cut month, warmer in the others).
  */
 export function enteringFluidOfMonth_C(p: BivalentInput, r: BivalentResult, m: number): number {
-  const twoPiK = 2 * Math.PI * p.conductivity_W_mK;
   const q = r.monthly_W[m];
-  const ground = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m);
-  const meanFluid =
-    ground -
-    (r.carried_W * (p.gLife - p.gMonth) + q * p.gMonth) / (twoPiK * p.length_m) -
-    (q * p.resistance_mK_W) / p.length_m;
-  return meanFluid + 0.5 * p.loopDelta_K_W * q;
+  return monthMeanFluid_C(p, r.carried_W, q, m) + 0.5 * p.loopDelta_K_W * q;
 }
