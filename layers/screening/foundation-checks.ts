@@ -89,8 +89,10 @@ export function shaftCapacityKernel_kN(
     const mean =
       p.tableTemp_C + p.gradient_K_m * Math.max(0, z - p.activeLayer_m) + rampWarming_K(t, z, time_yr, b, a);
     sum0 += adfreezeStrengthKernel_kPa(mean + anomaly0 * decay);
-    sum1 += adfreezeStrengthKernel_kPa(mean - cooling_K + anomaly1 * decay);
+    // No cooling: the same temperature (mean − 0, the same anomaly), so the same strength.
+    if (cooling_K !== 0) sum1 += adfreezeStrengthKernel_kPa(mean - cooling_K + anomaly1 * decay);
   }
+  if (cooling_K === 0) sum1 = sum0;
   const area = 2 * Math.PI * s.pile.radius_m * dz;
   out[0] = sum0 * area;
   out[1] = sum1 * area;

@@ -112,10 +112,14 @@ export function monthlyPeakFromAvailable_W(
   let bestPer = 0;
   let month = -1;
   const gMonthPeak = p.gMonth - p.gPeak;
+  const gPeak = p.gPeak;
+  const rb = p.resistance_mK_W;
+  const monthly = p.monthlyFraction;
+  const peak = p.peakFraction;
   for (let m = 0; m < MONTHS; m++) {
-    const f = p.monthlyFraction[m];
-    const pk = p.peakFraction[m];
-    const per = base + (f * gMonthPeak + pk * p.gPeak) / twoPiK + pk * p.resistance_mK_W;
+    const f = monthly[m];
+    const pk = peak[m];
+    const per = base + (f * gMonthPeak + pk * gPeak) / twoPiK + pk * rb;
     if (!(per > 0)) continue;
     const avail = available_K[m];
     if (Number.isNaN(avail)) continue;
