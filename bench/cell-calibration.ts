@@ -55,7 +55,8 @@ import { buildCellConstants, soilAt } from '../layers/screening/cell-constants';
 import { createKernelScratch, evaluateCellMetrics } from '../layers/screening/cell-kernel';
 import { METRIC, METRIC_COUNT } from '../layers/screening/cell-layers';
 import { flsResponse } from '../layers/screening/response-tables';
-import { monthAnomaly_K, MONTHS } from '../layers/screening/monthly-peak';
+import { MONTHS } from '../layers/screening/monthly-peak';
+import { monthMeanFluid_C } from '../layers/screening/bivalent-operation';
 import { SiteFluidLimitError } from '../layers/site/site-bounds';
 import { THAW_HORIZON } from '../layers/screening/climate-horizon';
 import { BINDING } from '../layers/screening/operating-window';
@@ -171,23 +172,29 @@ interface ModelSide {
 
 /**
  * Lowest monthly mean fluid of the model at its bivalent monthly loads, °C (module comment): the
- * three-pulse monthly response at each month's carried load q_m (bivalent-operation.ts).
+ * three-pulse monthly response at each month's carried load q_m (monthMeanFluid_C, bivalent-operation.ts).
  */
 function modelLowestFluid_C(
   x: ReturnType<typeof createKernelScratch>,
   p: { tPile: number; surfaceAmp: number; kF: number; gLife: number; gMonth: number; H: number; Rb: number },
   carried_W: number,
 ): number {
-  const twoPiK = 2 * Math.PI * p.kF;
   const a = x.bivalent.carried_W;
   // The bivalent carry may be capped further by over-cooling: scale its months alike.
   const scale = a > 0 ? carried_W / a : 0;
+  const month = {
+    groundMean_C: p.tPile,
+    surfaceAmplitude_C: p.surfaceAmp,
+    phasor: x.phasor,
+    length_m: p.H,
+    resistance_mK_W: p.Rb,
+    conductivity_W_mK: p.kF,
+    gLife: p.gLife,
+    gMonth: p.gMonth,
+  };
   let lowest = Infinity;
   for (let mo = 0; mo < MONTHS; mo++) {
-    const q = scale * x.bivalent.monthly_W[mo];
-    const tg = p.tPile - monthAnomaly_K(p.surfaceAmp, x.phasor, mo);
-    const tf = tg - (carried_W * (p.gLife - p.gMonth) + q * p.gMonth) / (twoPiK * p.H) - (q * p.Rb) / p.H;
-    lowest = Math.min(lowest, tf);
+    lowest = Math.min(lowest, monthMeanFluid_C(month, carried_W, scale * x.bivalent.monthly_W[mo], mo));
   }
   return lowest;
 }

@@ -12,7 +12,8 @@ import { METRIC_COUNT } from '../layers/screening/cell-layers';
 import { DEFAULT_SCENARIO } from '../layers/screening/scenario';
 import type { CellInputs } from '../layers/screening/screening-model';
 
-function sampleCells(n: number, seed: number): CellInputs[] {
+/** The seeded sample of cells (also read by cell-model-before-after.ts). */
+export function sampleCells(n: number, seed: number): CellInputs[] {
   let a = seed >>> 0;
   const r = () => {
     a = (a + 0x6d2b79f5) >>> 0;

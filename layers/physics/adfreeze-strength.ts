@@ -33,6 +33,28 @@ export const ADFREEZE_TABLE = {
   strength_kPa: [40, 60, 100, 130, 150, 180, 200, 230, 290, 350, 400],
 } as const;
 
+/**
+ * Table segment of each 0.1 K step of −T below the first tabulated temperature (the tabulated
+ * temperatures are multiples of 0.1 K): SEGMENT[floor(−10·T)] = i, T between t[i] and t[i−1]; and the
+ * slope of each segment, (r[i] − r[i−1])/(t[i] − t[i−1]), kPa/K.
+ */
+const SEGMENT = ((): Uint8Array => {
+  const t = ADFREEZE_TABLE.temperature_C;
+  const last = Math.round(-10 * t[t.length - 1]);
+  const seg = new Uint8Array(last);
+  for (let b = 0, i = 1; b < last; b++) {
+    while (i < t.length - 1 && b >= Math.round(-10 * t[i])) i++;
+    seg[b] = i;
+  }
+  return seg;
+})();
+const SLOPE = Float64Array.from(ADFREEZE_TABLE.temperature_C, (t, i) =>
+  i === 0
+    ? 0
+    : (ADFREEZE_TABLE.strength_kPa[i] - ADFREEZE_TABLE.strength_kPa[i - 1]) /
+      (t - ADFREEZE_TABLE.temperature_C[i - 1]),
+);
+
 /** R_af at `temp_C`, kPa (kernel: no checks; NaN → NaN). */
 export function adfreezeStrengthKernel_kPa(temp_C: number): number {
   if (Number.isNaN(temp_C)) return NaN;
@@ -40,10 +62,9 @@ export function adfreezeStrengthKernel_kPa(temp_C: number): number {
   const r = ADFREEZE_TABLE.strength_kPa;
   if (temp_C >= 0) return 0;
   if (temp_C >= t[0]) return (r[0] * temp_C) / t[0];
-  for (let i = 1; i < t.length; i++) {
-    if (temp_C >= t[i]) return r[i - 1] + ((r[i] - r[i - 1]) * (temp_C - t[i - 1])) / (t[i] - t[i - 1]);
-  }
-  return r[r.length - 1];
+  if (!(temp_C > t[t.length - 1])) return r[r.length - 1];
+  const i = SEGMENT[Math.min(SEGMENT.length - 1, Math.floor(-10 * temp_C))];
+  return r[i - 1] + SLOPE[i] * (temp_C - t[i - 1]);
 }
 
 /** Long-term adfreeze strength of frozen ground on a pile shaft at `temp_C`, kPa (see module comment). */

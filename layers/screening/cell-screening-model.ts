@@ -12,7 +12,12 @@ import type { CellInputs, ScreeningModel } from './screening-model';
 import { TEXTURE_CODES } from './screening-model';
 import { parseScenario, type Scenario } from './scenario';
 import { buildCellConstants, type CellConstants } from './cell-constants';
-import { createKernelScratch, evaluateCellMetrics, type KernelScratch } from './cell-kernel';
+import {
+  createKernelScratch,
+  evaluateCellMetrics,
+  evaluateCellMetricsSameGround,
+  type KernelScratch,
+} from './cell-kernel';
 import { perturbedScenarios, perturbedWeights, robustnessFlags, robustnessText } from './class-robustness';
 import { cellLayers, METRIC, METRIC_COUNT, METRIC_IDS, type MetricId } from './cell-layers';
 import {
@@ -65,8 +70,9 @@ export function evaluateRobust(
     return;
   }
   const perturbedClasses = [0, 0, 0, 0];
+  // The perturbations touch only the heat pump (class-robustness.ts): the ground stage is shared.
   for (let i = 0; i < rc.perturbed.length; i++) {
-    evaluateCellMetrics(cell, rc.perturbed[i], x, work);
+    evaluateCellMetricsSameGround(cell, rc.perturbed[i], x, work, m);
     perturbedClasses[i] = work[METRIC.suitability];
   }
   const flags = robustnessFlags(

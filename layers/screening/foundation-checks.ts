@@ -79,16 +79,20 @@ export function shaftCapacityKernel_kN(
   const anomaly0 = Math.max(0, -meanTable);
   const anomaly1 = Math.max(0, -(meanTable - cooling_K));
   const dz = (tip - table_m) / SEGMENTS;
+  // e^(−(z − table)/d) at the slice midpoints, as a geometric sequence (one exponential per call).
+  const ratio = Math.exp(-dz / p.dampingDepth_m);
+  let decay = Math.exp((-0.5 * dz) / p.dampingDepth_m);
   let sum0 = 0;
   let sum1 = 0;
-  for (let i = 0; i < SEGMENTS; i++) {
+  for (let i = 0; i < SEGMENTS; i++, decay *= ratio) {
     const z = table_m + (i + 0.5) * dz;
     const mean =
       p.tableTemp_C + p.gradient_K_m * Math.max(0, z - p.activeLayer_m) + rampWarming_K(t, z, time_yr, b, a);
-    const decay = Math.exp(-(z - table_m) / p.dampingDepth_m);
     sum0 += adfreezeStrengthKernel_kPa(mean + anomaly0 * decay);
-    sum1 += adfreezeStrengthKernel_kPa(mean - cooling_K + anomaly1 * decay);
+    // No cooling: the same temperature (mean − 0, the same anomaly), so the same strength.
+    if (cooling_K !== 0) sum1 += adfreezeStrengthKernel_kPa(mean - cooling_K + anomaly1 * decay);
   }
+  if (cooling_K === 0) sum1 = sum0;
   const area = 2 * Math.PI * s.pile.radius_m * dz;
   out[0] = sum0 * area;
   out[1] = sum1 * area;

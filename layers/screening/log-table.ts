@@ -45,11 +45,18 @@ export function buildLogTable(
   return { log10Min, perDecade, values, logY };
 }
 
-/** Interpolated f(x) (see module comment); x ≤ 0 or NaN gives the first value or NaN respectively. */
-export function lookup(t: LogTable, x: number): number {
-  if (Number.isNaN(x)) return NaN;
+/**
+ * Fractional index of x on a table's grid, (log10 x − log10 x_min)·perDecade (−1 for x ≤ 0, NaN for
+ * NaN): tables on the same grid share it, so one logarithm serves several lookups (lookupAt).
+ */
+export function tablePosition(t: LogTable, x: number): number {
+  return x > 0 ? (Math.log(x) * INV_LN10 - t.log10Min) * t.perDecade : Number.isNaN(x) ? NaN : -1;
+}
+
+/** lookup at a fractional index from tablePosition (of this table or one on the same grid). */
+export function lookupAt(t: LogTable, u: number): number {
+  if (Number.isNaN(u)) return NaN;
   const v = t.values;
-  const u = x > 0 ? (Math.log(x) * INV_LN10 - t.log10Min) * t.perDecade : -1;
   let y: number;
   if (u <= 0) y = v[0];
   else if (u >= v.length - 1) y = v[v.length - 1];
@@ -59,4 +66,9 @@ export function lookup(t: LogTable, x: number): number {
     y = v[i] + (v[i + 1] - v[i]) * f;
   }
   return t.logY ? Math.exp(y * Math.LN10) : y;
+}
+
+/** Interpolated f(x) (see module comment); x ≤ 0 or NaN gives the first value or NaN respectively. */
+export function lookup(t: LogTable, x: number): number {
+  return lookupAt(t, tablePosition(t, x));
 }

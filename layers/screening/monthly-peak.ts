@@ -83,22 +83,52 @@ export interface MonthlyPeakInput {
  * ground is no warmer than the fluid. Writes the limiting month (0-11) into out[0] (kernel: no checks).
  */
 export function monthlyPeakPerPile_W(p: MonthlyPeakInput, out: Float64Array): number {
+  return monthlyPeakFromAvailable_W(p, monthsAvailable_K(p, AVAILABLE), out);
+}
+
+const AVAILABLE = new Float64Array(MONTHS);
+
+/** T_g(m) − T_f of the 12 months, K, into `out` (independent of the field responses). */
+export function monthsAvailable_K(p: MonthlyPeakInput, out: Float64Array): Float64Array {
+  for (let m = 0; m < MONTHS; m++)
+    out[m] = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m) - p.meanFluid_C;
+  return out;
+}
+
+/**
+ * monthlyPeakPerPile_W with the months' T_g(m) − T_f from monthsAvailable_K (callers that vary only
+ * the field responses reuse them).
+ */
+export function monthlyPeakFromAvailable_W(
+  p: MonthlyPeakInput,
+  available_K: Float64Array,
+  out: Float64Array,
+): number {
   const twoPiK = 2 * Math.PI * p.conductivity_W_mK;
   const base = (p.annualFraction * (p.gLife - p.gMonth)) / twoPiK;
-  let best = Infinity;
+  // The smallest H·avail_m/per_m over the months with per_m > 0, compared as avail_m·per_best <
+  // avail_best·per_m (no division per month); H > 0.
+  let bestAvail = 0;
+  let bestPer = 0;
   let month = -1;
+  const gMonthPeak = p.gMonth - p.gPeak;
+  const gPeak = p.gPeak;
+  const rb = p.resistance_mK_W;
+  const monthly = p.monthlyFraction;
+  const peak = p.peakFraction;
   for (let m = 0; m < MONTHS; m++) {
-    const f = p.monthlyFraction[m];
-    const pk = p.peakFraction[m];
-    const per = base + (f * (p.gMonth - p.gPeak) + pk * p.gPeak) / twoPiK + pk * p.resistance_mK_W;
+    const f = monthly[m];
+    const pk = peak[m];
+    const per = base + (f * gMonthPeak + pk * gPeak) / twoPiK + pk * rb;
     if (!(per > 0)) continue;
-    const avail = p.groundMean_C - monthAnomaly_K(p.surfaceAmplitude_C, p.phasor, m) - p.meanFluid_C;
-    const q = (p.length_m * avail) / per;
-    if (q < best) {
-      best = q;
+    const avail = available_K[m];
+    if (Number.isNaN(avail)) continue;
+    if (month < 0 || avail * bestPer < bestAvail * per) {
+      bestAvail = avail;
+      bestPer = per;
       month = m;
     }
   }
   out[0] = month;
-  return month < 0 ? NaN : best;
+  return month < 0 ? NaN : (p.length_m * bestAvail) / bestPer;
 }

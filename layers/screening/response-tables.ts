@@ -31,7 +31,7 @@ import { flsPointGUnchecked } from '../physics/finite-line-source-point';
 import { cylinderSourceG } from '../physics/infinite-cylinder-source';
 import { foundationGroup } from './foundation-group';
 import { layoutPositions } from '../site/sizing-layout';
-import { buildLogTable, lookup, type LogTable } from './log-table';
+import { buildLogTable, lookup, lookupAt, tablePosition, type LogTable } from './log-table';
 import type { Scenario } from './scenario';
 
 const TAU_MIN = 1e-2;
@@ -56,9 +56,9 @@ export interface ResponseTables {
    * sizing uses, layers/site/sizing-layout.ts), mean over their piles, vs αt (m²): for the pile count
    * when the building needs more piles than its foundation has. counts[0] is the foundation itself
    * (tables[0] = fieldMean); the others are those of 4, 9, 16, 36, 64, 144 and 256 piles above it
-   * (and 2.25 and 4 times the foundation).
+   * (and 2.25 and 4 times the foundation); all on one αt grid. logSteps[i] = ln(counts[i+1]/counts[i]).
    */
-  fieldBySize: { counts: number[]; tables: LogTable[] };
+  fieldBySize: { counts: number[]; tables: LogTable[]; logSteps: Float64Array };
   /** FLS response of the whole group at the reference point (reference depth and radius), vs αt (m²). */
   referencePoint: LogTable;
   /** 2π × cylinder source G at the pile wall, vs Fo = αt/r_b². */
@@ -142,8 +142,10 @@ function fieldTables(s: Scenario, group: ReturnType<typeof foundationGroup>) {
   const larger = [...new Set([4, 9, 16, 36, 64, 144, 256, Math.round(2.25 * nF), 4 * nF])]
     .filter((c) => c > nF)
     .sort((a, b) => a - b);
+  const counts = [nF, ...larger];
   const fieldBySize = {
-    counts: [nF, ...larger],
+    counts,
+    logSteps: Float64Array.from(counts.slice(1), (c, i) => Math.log(c / counts[i])),
     tables: [
       fieldMean,
       ...larger.map((count) =>
@@ -262,11 +264,19 @@ export function flsResponse(table: LogTable, diffusivity_m2_s: number, time_s: n
  * segment beyond the largest (the field g grows about as ln N there), the foundation's table below it.
  */
 export function fieldResponseAtCount(t: ResponseTables, count: number, x: number): number {
-  const { counts, tables } = t.fieldBySize;
-  if (!(count > counts[0])) return lookup(tables[0], x);
+  return fieldResponseAtPosition(t, count, tablePosition(t.fieldMean, x));
+}
+
+/**
+ * fieldResponseAtCount at the grid position u = tablePosition(t.fieldMean, x) (the field tables share
+ * one grid), for callers that look up several counts at the same αt.
+ */
+export function fieldResponseAtPosition(t: ResponseTables, count: number, u: number): number {
+  const { counts, tables, logSteps } = t.fieldBySize;
+  if (!(count > counts[0])) return lookupAt(tables[0], u);
   let i = 0;
   while (i < counts.length - 2 && count > counts[i + 1]) i++;
-  const w = Math.log(count / counts[i]) / Math.log(counts[i + 1] / counts[i]);
-  const a = lookup(tables[i], x);
-  return a + w * (lookup(tables[i + 1], x) - a);
+  const w = Math.log(count / counts[i]) / logSteps[i];
+  const a = lookupAt(tables[i], u);
+  return a + w * (lookupAt(tables[i + 1], u) - a);
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   bivalentOperation,
+  bivalentResolve,
   createBivalentResult,
   type BivalentInput,
 } from '../../layers/screening/bivalent-operation';
@@ -47,6 +48,31 @@ describe('bivalent operation of one pile, hand-computed three-pulse monthly case
     expect(r.requested_W).toBeCloseTo(40, 6);
     expect(r.monthsCut).toBe(6);
     expect(r.fluidBound_W).toBeCloseTo(r.carried_W, 6);
+  });
+
+  it("the fixed point is solved exactly on the months' states: a = α/(2 + β) to rounding", () => {
+    // The winter-heavy case above with α and β in full precision (module comment's formulas).
+    const twoPiK = 4 * Math.PI;
+    const D = 3 / twoPiK + 0.1;
+    const alpha = (4 * 10) / D;
+    const beta = 7 / (twoPiK * D);
+    const r = bivalentOperation(base([80, 80, 80, 80, 80, 80, 0, 0, 0, 0, 0, 0]), createBivalentResult());
+    expect(Math.abs(r.carried_W - alpha / (2 + beta))).toBeLessThan(1e-12 * r.carried_W);
+  });
+
+  it('bivalentResolve after new requests gives what a fresh bivalentOperation gives', () => {
+    // Consistency of the two entry points (no published source): same input but the requests.
+    const out = createBivalentResult();
+    bivalentOperation(base([80, 80, 80, 80, 80, 80, 0, 0, 0, 0, 0, 0]), out);
+    for (const w of [20, 60, 75, 90, 150]) {
+      const p = base([w, w, w, 0.8 * w, 0.4 * w, 0, 0, 0, 0, 0.4 * w, 0.8 * w, w]);
+      const fresh = bivalentOperation(p, createBivalentResult());
+      const again = bivalentResolve(p, out);
+      expect(again.carried_W).toBe(fresh.carried_W);
+      expect(again.monthsCut).toBe(fresh.monthsCut);
+      expect(again.fluidBound_W).toBe(fresh.fluidBound_W);
+      expect(Array.from(again.monthly_W)).toEqual(Array.from(fresh.monthly_W));
+    }
   });
 
   it('ground no warmer than the fluid limit: nothing carried', () => {

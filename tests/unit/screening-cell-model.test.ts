@@ -11,8 +11,10 @@ import { buildCellConstants, soilAt } from '../../layers/screening/cell-constant
 import {
   createKernelScratch,
   evaluateCellMetrics,
+  evaluateCellMetricsSameGround,
   pileWinterAnomaly_K,
 } from '../../layers/screening/cell-kernel';
+import { perturbedScenarios } from '../../layers/screening/class-robustness';
 import { DEFAULT_SCENARIO, parseScenario, type Scenario } from '../../layers/screening/scenario';
 import { criterionSchema, bandSchema } from '../../layers/screening/manifest';
 import { soilThermalProperties } from '../../layers/physics/soil-catalogue';
@@ -379,6 +381,43 @@ describe('robustness of the hot path', () => {
         },
       ),
       { seed: 37, numRuns: 400 },
+    );
+  });
+});
+
+describe('the robustness runs share the ground stage', () => {
+  // No published source: a consistency check of two code paths of this kernel. The perturbed scenarios
+  // (class-robustness.ts) change only the heat pump, so the ground stage taken from the base evaluation
+  // must give every metric exactly as a full evaluation does.
+  it('evaluateCellMetricsSameGround equals evaluateCellMetrics for every perturbation (property)', () => {
+    const k = buildCellConstants(DEFAULT_SCENARIO);
+    const perturbed = perturbedScenarios(DEFAULT_SCENARIO).map(buildCellConstants);
+    const x = createKernelScratch();
+    const fresh = createKernelScratch();
+    const m = new Float64Array(METRIC_COUNT);
+    const shared = new Float64Array(METRIC_COUNT);
+    const full = new Float64Array(METRIC_COUNT);
+    fc.assert(
+      fc.property(
+        fc.record({
+          meanAirTemp_C: fc.double({ min: -14, max: -1, noNaN: true }),
+          airAmplitude_C: fc.double({ min: 10, max: 24, noNaN: true }),
+          warming_C_per_yr: fc.double({ min: 0, max: 0.1, noNaN: true }),
+          textureClass: fc.integer({ min: 1, max: 5 }),
+          waterContent_m3m3: fc.double({ min: 0.02, max: 0.8, noNaN: true }),
+          groundTemp_C: fc.oneof(fc.constant(NaN), fc.double({ min: -8, max: 0, noNaN: true })),
+        }),
+        (c) => {
+          const cell = { ...base, ...c };
+          evaluateCellMetrics(cell, k, x, m);
+          for (const kp of perturbed) {
+            evaluateCellMetricsSameGround(cell, kp, x, shared, m);
+            evaluateCellMetrics(cell, kp, fresh, full);
+            METRIC_IDS.forEach((id, i) => expect([id, shared[i]]).toEqual([id, full[i]]));
+          }
+        },
+      ),
+      { seed: 11, numRuns: 150 },
     );
   });
 });
