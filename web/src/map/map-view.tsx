@@ -12,13 +12,13 @@ import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
 import { MapboxOverlay } from '@deck.gl/mapbox';
 import { TileLayer } from '@deck.gl/geo-layers';
-import { BitmapLayer } from '@deck.gl/layers';
 import type { Layer } from '@deck.gl/core';
 import type { Feature, FeatureCollection, LineString } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
 import type { TileStyle } from './colour-tile';
 import { TileRecolourer } from './tile-recolour';
+import { TileBitmapLayer } from './tile-bitmap-layer';
 import { baseStyle, BOUNDARY_LAYER, BOUNDARY_LAYER_ID } from './base-style';
 import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
@@ -334,7 +334,7 @@ function screeningTileLayer(
       if (!data || !device) return null;
       const p = paintTile(painted, sub.tile.id, data, device, style, styleKey);
       const [min, max] = sub.tile.boundingBox;
-      return new BitmapLayer({
+      return new TileBitmapLayer({
         id: `${sub.id}-bitmap`,
         image: p.texture,
         bounds: [min[0], min[1], max[0], max[1]],
