@@ -186,6 +186,7 @@ function createBaseMap(container: HTMLDivElement, props: MapViewProps): maplibre
     canvasContextAttributes: { preserveDrawingBuffer: true },
   });
   exposeTransformForDeck(map);
+  skipHiddenSky(map);
   // Start the opening view's tile reads now, while deck.gl sets itself up; its TileLayer then finds
   // them in flight in the tile store (same tiles, same bands) instead of asking only later.
   for (const t of openingTiles(map, atlas.manifest)) {
@@ -478,6 +479,21 @@ function allTilesDrawn(layer: ScreeningLayer): boolean {
   return Boolean(
     tiles && tiles.length > 0 && tiles.every((t) => t.isLoaded && (t.content === null || t.layers)),
   );
+}
+
+/**
+ * MapLibre 6 draws its sky (a shaded full-screen pass) first on every frame, also for a style
+ * without one, and the opaque sea background (base-style.ts) then covers every pixel of it: the map
+ * can be pitched to at most 60° (MapLibre's default limit), and by MapLibre's own note the horizon
+ * comes into view only at about 70°. Same pixels without it. With software
+ * WebGL that pass was about a quarter of the GPU's work per frame (issue 18). The painter's draw
+ * functions are MapLibre's own (not in its typed API): only the sky's is replaced, for this map only.
+ */
+function skipHiddenSky(map: maplibregl.Map): void {
+  const painter = (map as unknown as { painter?: { drawFunctions?: Record<string, unknown> } }).painter;
+  if (painter?.drawFunctions && typeof painter.drawFunctions.sky === 'function') {
+    painter.drawFunctions = { ...painter.drawFunctions, sky: () => undefined };
+  }
 }
 
 /**
