@@ -13,7 +13,7 @@
  * cells' ground areas, as in zonal-summary.ts.
  */
 import type { CellTable } from '../data/cell-table';
-import { passesAt, type CompiledFilter } from './cell-filter';
+import { filterConditions, passesAt, type CompiledFilter, type FilterCondition } from './cell-filter';
 import type { ZonalSummary } from './zonal-summary';
 
 /** Which scenario(s) the filters apply to while comparing: each map its own, both, the one shown, the compared one. */
@@ -64,6 +64,28 @@ export function passesScoped(
   if (f.own && !passesAt(f.own, own, k)) return false;
   if (f.other) return other !== null && j >= 0 && passesAt(f.other, other, j);
   return true;
+}
+
+/**
+ * The same rule over every element of two aligned sets of planes at once (the map's tiles: the other
+ * scenario's tile holds the same cell at the same pixel, `otherPresent` false where it has no tile),
+ * from the pass masks of the single conditions (cell-filter.ts conditionMask, here through `maskOf`, so
+ * that the caller can keep the masks of conditions not edited): out[k] = 1 where passesScoped holds.
+ */
+export function scopedPassMask(
+  f: ScopedFilter,
+  maskOf: (side: 'own' | 'other', c: FilterCondition) => Uint8Array,
+  otherPresent: boolean,
+  out: Uint8Array,
+): Uint8Array {
+  out.fill(1);
+  if (f.other && !otherPresent) return out.fill(0);
+  const and = (m: Uint8Array) => {
+    for (let k = 0; k < out.length; k++) out[k] &= m[k];
+  };
+  if (f.own) for (const c of filterConditions(f.own)) and(maskOf('own', c));
+  if (f.other) for (const c of filterConditions(f.other)) and(maskOf('other', c));
+  return out;
 }
 
 /**

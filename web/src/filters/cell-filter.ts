@@ -64,15 +64,23 @@ export function compileFilter(spec: FilterSpec, bands: Band[]): CompiledFilter {
   return c;
 }
 
+/** Whether a value lies in a range condition's bounds (NaN, no data, never does). */
+export function inRange(v: number, min: number, max: number): boolean {
+  return v >= min && v <= max;
+}
+
+/** Whether a class value is kept by a class condition (NaN, no data, never is). */
+export function classKept(v: number, excluded: Set<number>): boolean {
+  return !Number.isNaN(v) && !excluded.has(Math.round(v));
+}
+
 /** Whether element k of band-planar data (planes[band][k]) passes the filter. */
 export function passesAt(f: CompiledFilter, planes: ArrayLike<number>[], k: number): boolean {
   for (let j = 0; j < f.rangeBands.length; j++) {
-    const v = planes[f.rangeBands[j]][k];
-    if (!(v >= f.rangeMin[j] && v <= f.rangeMax[j])) return false;
+    if (!inRange(planes[f.rangeBands[j]][k], f.rangeMin[j], f.rangeMax[j])) return false;
   }
   for (let j = 0; j < f.classBands.length; j++) {
-    const v = planes[f.classBands[j]][k];
-    if (Number.isNaN(v) || f.classExcluded[j].has(Math.round(v))) return false;
+    if (!classKept(planes[f.classBands[j]][k], f.classExcluded[j])) return false;
   }
   return true;
 }
@@ -80,12 +88,43 @@ export function passesAt(f: CompiledFilter, planes: ArrayLike<number>[], k: numb
 /** Whether one cell, given as a band-ordered list of values, passes the filter. */
 export function cellPasses(f: CompiledFilter, values: ArrayLike<number>): boolean {
   for (let j = 0; j < f.rangeBands.length; j++) {
-    const v = values[f.rangeBands[j]];
-    if (!(v >= f.rangeMin[j] && v <= f.rangeMax[j])) return false;
+    if (!inRange(values[f.rangeBands[j]], f.rangeMin[j], f.rangeMax[j])) return false;
   }
   for (let j = 0; j < f.classBands.length; j++) {
-    const v = values[f.classBands[j]];
-    if (Number.isNaN(v) || f.classExcluded[j].has(Math.round(v))) return false;
+    if (!classKept(values[f.classBands[j]], f.classExcluded[j])) return false;
   }
   return true;
+}
+
+/**
+ * One condition of a compiled filter (a range on one band, or the classes left out of one band): a
+ * cell passes the filter when it passes every condition (passesAt). The key names the condition, so
+ * that a pass mask computed for it can be kept while another condition is edited.
+ */
+export type FilterCondition =
+  | { key: string; band: number; min: number; max: number }
+  | { key: string; band: number; excluded: Set<number> };
+
+export function filterConditions(f: CompiledFilter): FilterCondition[] {
+  const out: FilterCondition[] = [];
+  for (let j = 0; j < f.rangeBands.length; j++) {
+    const [band, min, max] = [f.rangeBands[j], f.rangeMin[j], f.rangeMax[j]];
+    out.push({ key: `range ${band} ${min} ${max}`, band, min, max });
+  }
+  for (let j = 0; j < f.classBands.length; j++) {
+    const [band, excluded] = [f.classBands[j], f.classExcluded[j]];
+    out.push({ key: `classes ${band} ${[...excluded].sort((a, b) => a - b).join(',')}`, band, excluded });
+  }
+  return out;
+}
+
+/** out[k] = 1 where value k of the condition's band plane passes the condition, else 0. */
+export function conditionMask(c: FilterCondition, planes: ArrayLike<number>[], out: Uint8Array): Uint8Array {
+  const plane = planes[c.band];
+  if ('excluded' in c) {
+    for (let k = 0; k < out.length; k++) out[k] = classKept(plane[k], c.excluded) ? 1 : 0;
+  } else {
+    for (let k = 0; k < out.length; k++) out[k] = inRange(plane[k], c.min, c.max) ? 1 : 0;
+  }
+  return out;
 }

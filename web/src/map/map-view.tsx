@@ -12,12 +12,13 @@ import 'maplibre-gl/dist/maplibre-gl.css';
 import workerUrl from 'maplibre-gl/dist/maplibre-gl-worker.mjs?url';
 import { MapboxOverlay } from '@deck.gl/mapbox';
 import { TileLayer } from '@deck.gl/geo-layers';
-import { BitmapLayer } from '@deck.gl/layers';
 import type { Layer } from '@deck.gl/core';
 import type { Feature, FeatureCollection, LineString } from 'geojson';
 import { TILE_SIZE } from '../../../layers/screening/tile-format';
 import type { Atlas } from '../data/load-atlas';
-import { colourTile, type TileStyle } from './colour-tile';
+import type { TileStyle } from './colour-tile';
+import { TileRecolourer } from './tile-recolour';
+import { TileBitmapLayer } from './tile-bitmap-layer';
 import { baseStyle, BOUNDARY_LAYER, BOUNDARY_LAYER_ID } from './base-style';
 import { tilesCovering } from './web-mercator';
 import { passiveMarker, settlementMarker } from './point-markers';
@@ -55,9 +56,17 @@ export interface MapViewProps {
   label?: string;
 }
 
+/**
+ * What one tile of the layer shows: its recolourer (kept while the tile's data stays; tile-recolour.ts),
+ * the style key it was last coloured for, its pixels and the one texture they go to (kept for the tile,
+ * written again on each recolouring; no mipmaps: the cells are drawn with nearest sampling).
+ */
 interface Painted {
+  data: NonNullable<TileData>;
+  recolour: TileRecolourer;
   key: string;
-  image: ImageData;
+  pixels: Uint8ClampedArray;
+  texture: Texture;
 }
 
 export const MapView = memo(function MapView(props: MapViewProps) {
@@ -94,6 +103,10 @@ export const MapView = memo(function MapView(props: MapViewProps) {
     />
   );
 });
+
+/** The GPU device deck.gl draws with, and a texture of it. */
+type Device = Layer['context']['device'];
+type Texture = ReturnType<Device['createTexture']>;
 
 /** One tile's planes, and the other scenario's planes of the same tile when its filter is tested (null: absent there). */
 type TileData = { planes: Float32Array[]; other: Float32Array[] | null } | null;
@@ -173,6 +186,7 @@ function createBaseMap(container: HTMLDivElement, props: MapViewProps): maplibre
     canvasContextAttributes: { preserveDrawingBuffer: true },
   });
   exposeTransformForDeck(map);
+  skipHiddenSky(map);
   // Start the opening view's tile reads now, while deck.gl sets itself up; its TileLayer then finds
   // them in flight in the tile store (same tiles, same bands) instead of asking only later.
   for (const t of openingTiles(map, atlas.manifest)) {
@@ -236,7 +250,7 @@ function useScreeningTiles(
   props: MapViewProps,
   boundaryLayerAdded: boolean,
 ): void {
-  const painted = useRef(new WeakMap<object, Painted>());
+  const painted = useRef(new Map<string, Painted>());
   const { atlas, style, styleKey } = props;
   const otherAtlas = style.otherFilter?.active ? (props.otherAtlas ?? null) : null;
   useEffect(() => {
@@ -252,6 +266,14 @@ function useScreeningTiles(
     overlay.setProps({ layers });
     // Only these change the tiles: a new boundary, marker or selection must not redraw them.
   }, [overlayRef, screeningLayer, atlas, otherAtlas, style, styleKey, boundaryLayerAdded]);
+  // The tiles' textures go with the map (its WebGL context).
+  useEffect(() => {
+    const tiles = painted.current;
+    return () => {
+      for (const p of tiles.values()) p.texture.destroy();
+      tiles.clear();
+    };
+  }, []);
 }
 
 /** The planes of tile (z, x, y) to draw, with the other scenario's filter bands when they are tested. */
@@ -270,17 +292,28 @@ async function tileData(
   return planes ? { planes, other } : null;
 }
 
-/** deck.gl TileLayer of the screening bands, each tile coloured once per style key (colour-tile.ts). */
+/**
+ * The TileLayer of the screening bands: deck.gl's, with the GPU device handed to `renderSubLayers`
+ * (each tile keeps one texture of its own, written again when it is recoloured).
+ */
+class ScreeningTileLayer extends TileLayer<TileData> {
+  static override layerName = 'ScreeningTileLayer';
+  override renderSubLayers(props: Parameters<TileLayer<TileData>['renderSubLayers']>[0]) {
+    return super.renderSubLayers({ ...props, device: this.context.device } as typeof props);
+  }
+}
+
+/** deck.gl TileLayer of the screening bands, each tile coloured once per style key (tile-recolour.ts). */
 function screeningTileLayer(
   drawn: { atlas: Atlas; otherAtlas: Atlas | null; style: TileStyle; styleKey: string },
-  painted: WeakMap<object, Painted>,
+  painted: Map<string, Painted>,
   belowBoundary: boolean,
 ): ScreeningLayer {
   const { atlas, otherAtlas, style, styleKey } = drawn;
   const { manifest } = atlas;
   const neededBands = bandsToDraw(style);
   const otherKey = otherAtlas ? `${otherAtlas.dataBase.href}|${JSON.stringify(style.otherFilter)}` : '';
-  return new TileLayer<TileData>({
+  return new ScreeningTileLayer({
     id: 'screening',
     tileSize: manifest.tiles.tileSize,
     minZoom: manifest.tiles.minZoom,
@@ -292,25 +325,68 @@ function screeningTileLayer(
     maxRequests: 16,
     getTileData: ({ index }) => tileData(atlas, otherAtlas, style, [index.z, index.x, index.y]),
     updateTriggers: { getTileData: [neededBands.join(','), otherKey], renderSubLayers: [styleKey] },
+    onTileUnload: (tile) => {
+      painted.get(tile.id)?.texture.destroy();
+      painted.delete(tile.id);
+    },
     renderSubLayers: (sub) => {
       const data = sub.data;
-      if (!data) return null;
-      let p = painted.get(data);
-      if (!p || p.key !== styleKey) {
-        const image = new ImageData(TILE_SIZE, TILE_SIZE);
-        colourTile(data.planes, style, image.data, data.other);
-        p = { key: styleKey, image };
-        painted.set(data, p);
-      }
+      const { device } = sub as typeof sub & { device?: Device };
+      if (!data || !device) return null;
+      const p = paintTile(painted, sub.tile.id, data, device, style, styleKey);
       const [min, max] = sub.tile.boundingBox;
-      return new BitmapLayer({
+      return new TileBitmapLayer({
         id: `${sub.id}-bitmap`,
-        image: p.image,
+        image: p.texture,
         bounds: [min[0], min[1], max[0], max[1]],
-        textureParameters: { minFilter: 'nearest', magFilter: 'nearest' },
+        // The texture is the same object after a recolouring: the key tells the layer it changed.
+        ...({ paintedKey: styleKey } as Record<string, unknown>),
       });
     },
   });
+}
+
+/** Tile `id` coloured for `styleKey`: recoloured (and its texture written) only when data or key changed. */
+function paintTile(
+  painted: Map<string, Painted>,
+  id: string,
+  data: NonNullable<TileData>,
+  device: Device,
+  style: TileStyle,
+  styleKey: string,
+): Painted {
+  let p = painted.get(id);
+  if (p && p.texture.device !== device) {
+    p.texture.destroy();
+    p = undefined;
+  }
+  if (p && p.data === data && p.key === styleKey) return p;
+  if (!p) {
+    const texture = device.createTexture({
+      id: `screening-${id}`,
+      width: TILE_SIZE,
+      height: TILE_SIZE,
+      format: 'rgba8unorm',
+      mipLevels: 1,
+      sampler: {
+        minFilter: 'nearest',
+        magFilter: 'nearest',
+        mipmapFilter: 'none',
+        addressModeU: 'clamp-to-edge',
+        addressModeV: 'clamp-to-edge',
+      },
+    });
+    const pixels = new Uint8ClampedArray(TILE_SIZE * TILE_SIZE * 4);
+    p = { data, recolour: new TileRecolourer(data.planes, data.other), key: '', pixels, texture };
+    painted.set(id, p);
+  } else if (p.data !== data) {
+    p.data = data;
+    p.recolour = new TileRecolourer(data.planes, data.other);
+  }
+  p.recolour.colour(style, p.pixels);
+  p.texture.writeData(p.pixels);
+  p.key = styleKey;
+  return p;
 }
 
 /** The boundary rings and the path being drawn, as a MapLibre line layer (added with the first line). */
@@ -403,6 +479,21 @@ function allTilesDrawn(layer: ScreeningLayer): boolean {
   return Boolean(
     tiles && tiles.length > 0 && tiles.every((t) => t.isLoaded && (t.content === null || t.layers)),
   );
+}
+
+/**
+ * MapLibre 6 draws its sky (a shaded full-screen pass) first on every frame, also for a style
+ * without one, and the opaque sea background (base-style.ts) then covers every pixel of it: the map
+ * can be pitched to at most 60° (MapLibre's default limit), and by MapLibre's own note the horizon
+ * comes into view only at about 70°. Same pixels without it. With software
+ * WebGL that pass was about a quarter of the GPU's work per frame (issue 18). The painter's draw
+ * functions are MapLibre's own (not in its typed API): only the sky's is replaced, for this map only.
+ */
+function skipHiddenSky(map: maplibregl.Map): void {
+  const painter = (map as unknown as { painter?: { drawFunctions?: Record<string, unknown> } }).painter;
+  if (painter?.drawFunctions && typeof painter.drawFunctions.sky === 'function') {
+    painter.drawFunctions = { ...painter.drawFunctions, sky: () => undefined };
+  }
 }
 
 /**
