@@ -149,7 +149,7 @@ describe('uncertainty in the site study', () => {
       /Thaw delay at the probe/,
     );
     // The thaw timing: two stairs (without and with the piles), labelled, each rising with time (SVG y
-    // falls) and the one with the piles never above the one without (same members, later or no thaw).
+    // falls). Not compared with each other: in some members the piles bring the thaw forward.
     const thaw = s.page.locator('[data-testid=ensemble-thaw-chart]');
     await expect(thaw.locator('.chart-legend li').allTextContents()).resolves.toEqual([
       'without piles',
@@ -164,7 +164,6 @@ describe('uncertainty in the site study', () => {
       expect(l.length).toBeGreaterThan(20);
       for (let i = 1; i < l.length; i++) expect(l[i]).toBeLessThanOrEqual(l[i - 1]);
     }
-    for (let i = 0; i < levels[0].length; i++) expect(levels[1][i]).toBeGreaterThanOrEqual(levels[0][i]);
     await expect(thaw.textContent()).resolves.toMatch(
       /horizontal gap between the two curves is the thaw delay/,
     );

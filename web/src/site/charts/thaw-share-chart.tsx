@@ -2,7 +2,8 @@
  * Thaw timing over the ensemble: the share of members in which the first probe has thawed by each
  * output time, without and with the pile (a stair per case: the empirical distribution of the thaw
  * year, members that never thaw within the run staying unthawed). The horizontal gap between the
- * two stairs at a given share is the thaw delay the pile buys at that share.
+ * two stairs at a given share is the thaw delay the pile buys at that share (negative where the
+ * curve with the pile lies to the left: the pile brings the thaw forward).
  */
 import type { SiteEnsembleSummary } from '../../../../layers/screening/site-ensemble';
 import { ChartFrame } from './chart-frame';
@@ -72,7 +73,7 @@ export function ThawShareChart(props: { summary: SiteEnsembleSummary; where: str
       </ChartFrame>
       <p className="small muted">
         {s.withPile
-          ? 'The horizontal gap between the two curves is the thaw delay: how many years later the same share of members thaws with the piles. '
+          ? 'The horizontal gap between the two curves is the thaw delay: how many years later the same share of members thaws with the piles (where the curve with piles lies to the left, the piles bring the thaw forward). '
           : 'The site has no piles: only the curve without piles is drawn. '}
         Members that do not thaw within the run stay unthawed to its end.
         {note ? ` ${note}` : ''}
