@@ -4,7 +4,8 @@
  * distributions as the regional ensemble (uncertainty-schema.ts), so the map and the
  * study speak of the same uncertainty; the members are run by the caller (the page's Web Workers) and
  * summarised here as a fan of the probe temperature (P10/P50/P90 per output time, Hyndman & Fan
- * definition 7), the range of the thaw delay, and a ranking of the inputs that drive the spread by
+ * definition 7), the range of the thaw delay with the share of members thawed by each output time
+ * (without and with the pile), and a ranking of the inputs that drive the spread by
  * squared standardised regression coefficients (ensemble-statistics.ts; first-order
  * Sobol indices of the best linear fit, with its R²).
  *
@@ -136,9 +137,41 @@ export interface SiteEnsembleSummary {
   probeP90_C: number[];
   /** Thaw delay at the first probe: percentiles over the members where it is defined, and how many. */
   thawDelay: { p10: number; p50: number; p90: number; defined: number };
+  /**
+   * Share of the members (0–1) in which the first probe has thawed by each output time (time_yr):
+   * thawYear ≤ t, the thaw years the thaw delay is taken from (simulate-site.ts), so a member that
+   * never thaws within the run stays unthawed; without the pile and with it (null when the site has
+   * none), with how many members thaw within the run in each case.
+   */
+  thawShare: {
+    noPile: number[];
+    withPile: number[] | null;
+    thawedNoPile: number;
+    thawedWithPile: number | null;
+  };
   /** First-order indices of the end-of-run probe temperature, per input, with the fit's R². */
   sensitivity: { id: string; title: string; index: number }[];
   rSquared: number;
+}
+
+/** Share of `thawYears` (null: never within the run) at or before each of `time_yr`. */
+function shareThawedBy(thawYears: (number | null)[], time_yr: number[]): number[] {
+  const n = thawYears.length;
+  return time_yr.map((t) => thawYears.filter((y) => y !== null && y <= t).length / n);
+}
+
+/** The members' thaw timing at the first probe (SiteEnsembleSummary.thawShare) at `time_yr`. */
+export function thawShareOf(results: SiteResult[], time_yr: number[]): SiteEnsembleSummary['thawShare'] {
+  const a = results.map((r) => r.noPile.probes[0]?.thawYear ?? null);
+  const hasPile = results.every((r) => r.withPile !== null);
+  const b = hasPile ? results.map((r) => r.withPile?.probes[0]?.thawYear ?? null) : null;
+  const thawed = (ys: (number | null)[]) => ys.filter((y) => y !== null).length;
+  return {
+    noPile: shareThawedBy(a, time_yr),
+    withPile: b ? shareThawedBy(b, time_yr) : null,
+    thawedNoPile: thawed(a),
+    thawedWithPile: b ? thawed(b) : null,
+  };
 }
 
 /** Summarise the members' results (same order as the plan's members). */
@@ -168,9 +201,10 @@ export function summariseSiteEnsemble(plan: SiteEnsemblePlan, results: SiteResul
   });
   const k = SITE_ENSEMBLE_INPUTS.length;
   const fit = standardisedRegressionIndices(plan.design, y, n, k);
+  const time_yr = time.slice(0, steps);
   return {
     members: n,
-    time_yr: time.slice(0, steps),
+    time_yr,
     probeP10_C: p10,
     probeP50_C: p50,
     probeP90_C: p90,
@@ -180,6 +214,7 @@ export function summariseSiteEnsemble(plan: SiteEnsemblePlan, results: SiteResul
       p90: percentileOf(delays, n, 0.9, scratch),
       defined,
     },
+    thawShare: thawShareOf(results, time_yr),
     sensitivity: SITE_ENSEMBLE_INPUTS.map((x, i) => ({
       id: x.id,
       title: x.title,

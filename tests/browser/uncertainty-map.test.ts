@@ -148,6 +148,25 @@ describe('uncertainty in the site study', () => {
     await expect(s.page.locator('[data-testid=ensemble-thaw-delay]').textContent()).resolves.toMatch(
       /Thaw delay at the probe/,
     );
+    // The thaw timing: two stairs (without and with the piles), labelled, each rising with time (SVG y
+    // falls). Not compared with each other: in some members the piles bring the thaw forward.
+    const thaw = s.page.locator('[data-testid=ensemble-thaw-chart]');
+    await expect(thaw.locator('.chart-legend li').allTextContents()).resolves.toEqual([
+      'without piles',
+      'with piles',
+    ]);
+    const stairs = await thaw
+      .locator('path.thaw-share')
+      .evaluateAll((ps) => ps.map((p) => p.getAttribute('d') ?? ''));
+    expect(stairs).toHaveLength(2);
+    const levels = stairs.map((d) => [...d.matchAll(/(?:M[\d.]+,|V)([\d.]+)/g)].map((m) => Number(m[1])));
+    for (const l of levels) {
+      expect(l.length).toBeGreaterThan(20);
+      for (let i = 1; i < l.length; i++) expect(l[i]).toBeLessThanOrEqual(l[i - 1]);
+    }
+    await expect(thaw.textContent()).resolves.toMatch(
+      /horizontal gap between the two curves is the thaw delay/,
+    );
     await s.page.locator('[data-testid=site-ensemble]').scrollIntoViewIfNeeded();
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-ensemble-1280x720.png') });
     expect(s.pageErrors).toEqual([]);

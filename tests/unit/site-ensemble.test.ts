@@ -5,6 +5,7 @@ import {
   planSiteEnsemble,
   SITE_ENSEMBLE_INPUTS,
   summariseSiteEnsemble,
+  thawShareOf,
 } from '../../layers/screening/site-ensemble';
 import { scenarioUncertaintySchema, zeroSpread } from '../../layers/screening/uncertainty-schema';
 import { siteInputSchema, type SiteResult } from '../../layers/site/site-input-schema';
@@ -62,5 +63,55 @@ describe('site-study ensemble', () => {
     expect(s.probeP10_C[0]).toBe(-2);
     expect(s.thawDelay.defined).toBe(16);
     expect(s.thawDelay.p10).toBeLessThan(s.thawDelay.p90);
+  });
+
+  it('gives the share of members thawed by each output time, without and with the pile', () => {
+    const time = [0, 5, 10, 12, 15, 20, 25, 30];
+    // Hand-built members (thaw years at the first probe; null = never within the 30-year run):
+    // without the pile 10, 12, 20, never; with the pile 15, 30, never, never.
+    const noPile = [10, 12, 20, null];
+    const withPile = [15, 30, null, null];
+    const caseOf = (thawYear: number | null) => ({
+      time_yr: time,
+      probes: [{ r_m: 1, z_m: 2, thawYear, T_C: time.map((t) => -2 + 0.05 * t) }],
+    });
+    const results = noPile.map(
+      (a, j) =>
+        ({
+          noPile: caseOf(a),
+          withPile: caseOf(withPile[j]),
+          thawDelay_yr: [[5, 18, 10, null][j]],
+        }) as unknown as SiteResult,
+    );
+    const s = thawShareOf(results, time);
+    // Hand count, thawed (thaw year ≤ t) out of 4 at t = 0, 5, 10, 12, 15, 20, 25, 30 yr:
+    // without the pile 0, 0, 1 (10), 2 (10, 12), 2, 3 (…, 20), 3, 3 (the fourth never thaws);
+    // with the pile 0, 0, 0, 0, 1 (15), 1, 1, 2 (…, 30; a thaw at the last output time counts).
+    expect(s.noPile).toEqual([0, 0, 0.25, 0.5, 0.5, 0.75, 0.75, 0.75]);
+    expect(s.withPile).toEqual([0, 0, 0, 0, 0.25, 0.25, 0.25, 0.5]);
+    expect(s.thawedNoPile).toBe(3);
+    expect(s.thawedWithPile).toBe(2);
+    const w = s.withPile ?? [];
+    for (let i = 0; i < time.length; i++) {
+      if (i > 0) {
+        expect(s.noPile[i]).toBeGreaterThanOrEqual(s.noPile[i - 1]);
+        expect(w[i]).toBeGreaterThanOrEqual(w[i - 1]);
+      }
+      expect(w[i]).toBeLessThanOrEqual(s.noPile[i]);
+    }
+    // In the summary (the regression needs more members than inputs + 1: the four, three times over):
+    // the same shares at the summary's output times.
+    const twelve = [...results, ...results, ...results];
+    const sum = summariseSiteEnsemble(planSiteEnsemble(input, u, 12, 1), twelve);
+    expect(sum.time_yr).toEqual(time);
+    expect(sum.thawShare.noPile).toEqual(s.noPile);
+    expect(sum.thawShare.withPile).toEqual(s.withPile);
+    expect(sum.thawShare.thawedNoPile).toBe(9);
+    // A site without a pile: no with-pile curve.
+    const bare = results.map((r) => ({ ...r, withPile: null, thawDelay_yr: [null] }));
+    const b = thawShareOf(bare, time);
+    expect(b.withPile).toBeNull();
+    expect(b.thawedWithPile).toBeNull();
+    expect(b.noPile).toEqual(s.noPile);
   });
 });

@@ -2,7 +2,8 @@
  * The site study's ensemble: a few dozen runs of the simulator with the site's uncertain inputs
  * perturbed (layers/screening/site-ensemble.ts, the same declared spreads as the map's ensemble),
  * across the page's Web Workers with progress and Cancel; then a fan chart of the probe temperature,
- * the range of the thaw delay and the inputs that drive the spread (first-order indices by squared
+ * a chart of the share of members thawed at the probe without and with the piles, the range of the
+ * thaw delay and the inputs that drive the spread (first-order indices by squared
  * standardised regression coefficients).
  */
 import { useEffect, useRef, useState } from 'react';
@@ -15,6 +16,7 @@ import { scenarioUncertaintySchema } from '../../../layers/screening/uncertainty
 import type { Scenario } from '../../../layers/screening/scenario';
 import { displayConversion, formatNumber, type UnitSystem } from '../units/display-units';
 import { ProbeFanChart } from './charts/probe-fan-chart';
+import { ThawShareChart } from './charts/thaw-share-chart';
 import { runSiteEnsemble, type SiteEnsembleHandle } from './run-site-ensemble';
 import { SiteRunCancelled } from './run-site-in-worker';
 import type { SiteRunOutcome } from './site-results';
@@ -117,7 +119,7 @@ export function SiteEnsemblePanel(props: {
   );
 }
 
-/** The ensemble's fan chart, thaw-delay range and sensitivity table. */
+/** The ensemble's fan chart, thaw-share chart, thaw-delay range and sensitivity table. */
 function EnsembleResult(props: {
   summary: SiteEnsembleSummary;
   seconds: number;
@@ -140,6 +142,7 @@ function EnsembleResult(props: {
         freezingPoint_C={props.freezingPoint_C}
         units={props.units}
       />
+      <ThawShareChart summary={summary} where={props.where} />
       <p data-testid="ensemble-thaw-delay">
         <strong>Thaw delay at the probe:</strong>{' '}
         {summary.thawDelay.defined > 0
