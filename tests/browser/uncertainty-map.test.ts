@@ -169,6 +169,8 @@ describe('uncertainty in the site study', () => {
     );
     await s.page.locator('[data-testid=site-ensemble]').scrollIntoViewIfNeeded();
     await s.page.screenshot({ path: join(s.artifactsDir, 'site-ensemble-1280x720.png') });
+    await thaw.scrollIntoViewIfNeeded();
+    await thaw.screenshot({ path: join(s.artifactsDir, 'site-ensemble-thaw.png') });
     expect(s.pageErrors).toEqual([]);
   }, 600_000);
 });
