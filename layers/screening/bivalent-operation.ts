@@ -107,31 +107,12 @@ function carriedAt(a: number, r: Float64Array, alpha: Float64Array, beta: number
  * states are ambiguous at it (a month exactly at its limit).
  */
 function exactOnActiveSet(a0: number, r: Float64Array, alpha: Float64Array, beta: number): number {
-  let sum = 0;
-  let cut = 0;
-  let states = 0;
-  for (let m = 0; m < MONTHS; m++) {
-    const cap = alpha[m] - beta * a0;
-    if (cap <= 0) continue;
-    if (r[m] <= cap) sum += r[m];
-    else {
-      sum += alpha[m];
-      cut++;
-      states |= 1 << m;
-    }
-  }
-  const a = sum / (MONTHS + beta * cut);
+  const a = solveOnStates(a0, r, alpha, beta);
   // Accept it only if every month keeps its state there (same months giving nothing, cut, in full).
-  for (let m = 0; m < MONTHS; m++) {
-    const c0 = alpha[m] - beta * a0;
-    const c1 = alpha[m] - beta * a;
-    if (c0 <= 0 !== c1 <= 0) return a0;
-    if (c1 > 0 && r[m] > c1 !== ((states >> m) & 1) > 0) return a0;
-  }
-  return a;
+  return sameStates(a0, a, r, alpha, beta) ? a : a0;
 }
 
-/** The months' states at `a` and the fixed point on them (exactOnActiveSet without its check). */
+/** The months' states at `a0` and the fixed point on them (exactOnActiveSet without its check). */
 function solveOnStates(a0: number, r: Float64Array, alpha: Float64Array, beta: number): number {
   let sum = 0;
   let cut = 0;
